@@ -1,0 +1,66 @@
+import { defineConfig } from 'vitest/config';
+import react from '@vitejs/plugin-react';
+
+const serverPort = Number(process.env.KNEEPOINT_PORT ?? 8080);
+
+// One file for the client build and the test projects. Test projects:
+// - unit: pure code in shared/, simulator/ and server/ (no database)
+// - client: React components in happy-dom
+// - integration: the server against a real MariaDB started by tests/setup/mariadb.ts
+// - e2e: a real Chromium against the built app (tests/e2e)
+export default defineConfig({
+  plugins: [react()],
+  build: { outDir: 'dist/client', emptyOutDir: true, sourcemap: true },
+  server: {
+    host: '127.0.0.1',
+    proxy: {
+      '/api': `http://127.0.0.1:${serverPort}`,
+      '/ws': { target: `ws://127.0.0.1:${serverPort}`, ws: true },
+    },
+  },
+  test: {
+    projects: [
+      {
+        extends: true,
+        test: {
+          name: 'unit',
+          environment: 'node',
+          include: ['shared/**/*.test.ts', 'simulator/**/*.test.ts', 'server/**/*.test.ts'],
+        },
+      },
+      {
+        extends: true,
+        test: {
+          name: 'client',
+          environment: 'happy-dom',
+          include: ['src/**/*.test.{ts,tsx}'],
+          setupFiles: ['tests/setup/client.ts'],
+        },
+      },
+      {
+        extends: true,
+        test: {
+          name: 'integration',
+          environment: 'node',
+          include: ['tests/integration/**/*.test.ts'],
+          globalSetup: ['tests/setup/mariadb-global.ts'],
+          fileParallelism: false,
+          testTimeout: 60_000,
+          hookTimeout: 120_000,
+        },
+      },
+      {
+        extends: true,
+        test: {
+          name: 'e2e',
+          environment: 'node',
+          include: ['tests/e2e/**/*.test.ts'],
+          globalSetup: ['tests/setup/mariadb-global.ts'],
+          fileParallelism: false,
+          testTimeout: 90_000,
+          hookTimeout: 180_000,
+        },
+      },
+    ],
+  },
+});
