@@ -1,0 +1,166 @@
+import { z } from 'zod';
+
+/** Every event carries `t`: seconds since the run started (same clock as Reading.elapsedSeconds). */
+const base = { t: z.number().finite() };
+const finite = z.number().finite();
+const nonNeg = z.number().finite().nonnegative();
+
+/** Why a discharge stopped: the run's end voltage, or the battery's own protection. */
+export const CutoffCauseSchema = z.enum(['end-voltage', 'protection']);
+/** What showed the protection opening. */
+export const ProtectionSignalSchema = z.enum(['voltage-collapse', 'current-zero']);
+
+export const CutoffEventSchema = z.object({
+  ...base,
+  type: z.literal('cutoff'),
+  cause: CutoffCauseSchema,
+  /** Present when cause = protection. */
+  signal: ProtectionSignalSchema.optional(),
+  /** Last voltage under load before the cutoff. */
+  volts: finite,
+  /** Last current under load before the cutoff. */
+  amps: finite,
+  dischargeWh: nonNeg,
+  dischargeAh: nonNeg,
+});
+
+export const RecoveryEventSchema = z.object({
+  ...base,
+  type: z.literal('recovery'),
+  /** t of the protection cutoff this recovery follows. */
+  cutoffT: finite,
+  recoverySeconds: nonNeg,
+  volts: finite,
+});
+
+export const AlarmLevelSchema = z.enum(['info', 'warning', 'critical']);
+export const AlarmEventSchema = z.object({
+  ...base,
+  type: z.literal('alarm'),
+  level: AlarmLevelSchema,
+  /** Stable machine code, e.g. `cutoff`, `source-lost`, `over-temperature`. */
+  code: z.string().min(1).max(64),
+  message: z.string().max(500),
+});
+
+export const AnnotationEventSchema = z.object({
+  ...base,
+  type: z.literal('annotation'),
+  text: z.string().min(1).max(2000),
+  author: z.string().max(200).optional(),
+});
+
+/** Readings stopped for longer than the gap limit; nothing was integrated across it. `t` = last reading before. */
+export const GapEventSchema = z.object({
+  ...base,
+  type: z.literal('gap'),
+  /** t of the first reading after the gap. */
+  endT: finite,
+  gapSeconds: nonNeg,
+});
+
+export const SourceLostEventSchema = z.object({
+  ...base,
+  type: z.literal('source-lost'),
+  reason: z.string().max(500).optional(),
+});
+
+export const SourceRestoredEventSchema = z.object({
+  ...base,
+  type: z.literal('source-restored'),
+  downSeconds: nonNeg.optional(),
+});
+
+/** Which temperature protection: charge inhibited when cold, or cut off when hot. */
+export const ProtectionKindSchema = z.enum(['low-temp-charge', 'high-temp-charge', 'high-temp-discharge', 'high-temp', 'low-temp']);
+
+export const ProtectionTripEventSchema = z.object({
+  ...base,
+  type: z.literal('protection-trip'),
+  kind: ProtectionKindSchema,
+  channel: z.string(),
+  limitCelsius: finite,
+  /** t at which the temperature first crossed the limit. */
+  crossedT: finite,
+  /** Temperature at the trip (current ≈ 0 A). */
+  tempCelsius: finite,
+  /** t − crossedT: the protection's delay, within one sample period. */
+  delaySeconds: nonNeg,
+});
+
+export const ProtectionResetEventSchema = z.object({
+  ...base,
+  type: z.literal('protection-reset'),
+  kind: ProtectionKindSchema,
+  channel: z.string(),
+  tempCelsius: finite,
+});
+
+export const HeaterOnEventSchema = z.object({
+  ...base,
+  type: z.literal('heater-on'),
+  /** Temperature when the heater started (null when no temperature channel). */
+  tempCelsius: finite.nullable(),
+  heaterAmps: finite,
+});
+
+export const HeaterOffEventSchema = z.object({
+  ...base,
+  type: z.literal('heater-off'),
+  tempCelsius: finite.nullable(),
+  /** Time-weighted mean heater current while on. */
+  meanHeaterAmps: finite,
+  onSeconds: nonNeg,
+});
+
+export const MilestoneKindSchema = z.enum(['half-rated-ah', 'rated-ah', 'half-rated-wh', 'rated-wh', 'near-end-voltage']);
+
+export const MilestoneEventSchema = z.object({
+  ...base,
+  type: z.literal('milestone'),
+  milestone: MilestoneKindSchema,
+  volts: finite,
+  dischargeWh: nonNeg,
+  dischargeAh: nonNeg,
+});
+
+/** Run lifecycle markers written by whoever starts and stops a run. */
+export const RunMarkEventSchema = z.object({
+  ...base,
+  type: z.enum(['run-start', 'run-stop', 'load-on', 'load-off']),
+  note: z.string().max(500).optional(),
+});
+
+/** One event on a run's timeline. Discriminated on `type`. */
+export const RunEventSchema = z.discriminatedUnion('type', [
+  CutoffEventSchema,
+  RecoveryEventSchema,
+  AlarmEventSchema,
+  AnnotationEventSchema,
+  GapEventSchema,
+  SourceLostEventSchema,
+  SourceRestoredEventSchema,
+  ProtectionTripEventSchema,
+  ProtectionResetEventSchema,
+  HeaterOnEventSchema,
+  HeaterOffEventSchema,
+  MilestoneEventSchema,
+  RunMarkEventSchema,
+]);
+
+export type RunEvent = z.infer<typeof RunEventSchema>;
+export type RunEventType = RunEvent['type'];
+export type CutoffEvent = z.infer<typeof CutoffEventSchema>;
+export type RecoveryEvent = z.infer<typeof RecoveryEventSchema>;
+export type AlarmEvent = z.infer<typeof AlarmEventSchema>;
+export type AnnotationEvent = z.infer<typeof AnnotationEventSchema>;
+export type GapEvent = z.infer<typeof GapEventSchema>;
+export type SourceLostEvent = z.infer<typeof SourceLostEventSchema>;
+export type SourceRestoredEvent = z.infer<typeof SourceRestoredEventSchema>;
+export type ProtectionTripEvent = z.infer<typeof ProtectionTripEventSchema>;
+export type ProtectionResetEvent = z.infer<typeof ProtectionResetEventSchema>;
+export type HeaterOnEvent = z.infer<typeof HeaterOnEventSchema>;
+export type HeaterOffEvent = z.infer<typeof HeaterOffEventSchema>;
+export type MilestoneEvent = z.infer<typeof MilestoneEventSchema>;
+export type MilestoneKind = z.infer<typeof MilestoneKindSchema>;
+export type ProtectionKind = z.infer<typeof ProtectionKindSchema>;
