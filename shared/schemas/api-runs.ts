@@ -1,0 +1,157 @@
+import { z } from 'zod';
+import {
+  EndVoltsSchema,
+  RunAlarmsSchema,
+  RunKindSchema,
+  RunSchema,
+  RunStateSchema,
+  StopWhenSchema,
+} from './run.js';
+import { RunEventSchema } from './run-event.js';
+import { RunSummarySchema } from './run-summary.js';
+
+const id = z.coerce.number().int().positive();
+const tags = z.array(z.string().trim().min(1).max(50)).max(30);
+
+/** POST /api/runs — start a run on a bench (technician). */
+export const StartRunRequestSchema = z
+  .object({
+    benchId: z.number().int().positive(),
+    batteryId: z.number().int().positive(),
+    name: z.string().trim().min(1).max(200),
+    tags: tags.default([]),
+    kind: RunKindSchema.default('capacity-discharge'),
+    endVolts: EndVoltsSchema.nullable().default(null),
+    acceptancePercent: z.number().finite().positive().max(1000).default(100),
+    alarms: RunAlarmsSchema.default({ onCutoff: true }),
+    stopWhen: StopWhenSchema.default('after-recovery'),
+    targetAh: z.number().finite().positive().nullable().default(null),
+    targetWh: z.number().finite().positive().nullable().default(null),
+    afterRecoverySeconds: z.number().finite().nonnegative().max(86_400).default(0),
+  })
+  .refine((r) => r.stopWhen !== 'target-ah' || r.targetAh !== null, {
+    message: 'targetAh is required when stopWhen is target-ah',
+    path: ['targetAh'],
+  })
+  .refine((r) => r.stopWhen !== 'target-wh' || r.targetWh !== null, {
+    message: 'targetWh is required when stopWhen is target-wh',
+    path: ['targetWh'],
+  });
+export type StartRunRequest = z.input<typeof StartRunRequestSchema>;
+
+/** POST /api/runs/:id/stop — `abort: true` ends the run as aborted instead of finished. */
+export const StopRunRequestSchema = z.object({ abort: z.boolean().default(false) });
+
+/** PATCH /api/runs/:id — rename or retag. */
+export const PatchRunRequestSchema = z
+  .object({ name: z.string().trim().min(1).max(200).optional(), tags: tags.optional() })
+  .refine((p) => p.name !== undefined || p.tags !== undefined, { message: 'nothing to change' });
+
+/** GET /api/runs query: every filter optional, `q` searches the name. */
+export const ListRunsQuerySchema = z.object({
+  q: z.string().max(200).optional(),
+  tag: z.string().max(50).optional(),
+  batteryId: id.optional(),
+  benchId: id.optional(),
+  state: RunStateSchema.optional(),
+  limit: z.coerce.number().int().min(1).max(500).default(50),
+  offset: z.coerce.number().int().min(0).default(0),
+});
+export type ListRunsQuery = z.infer<typeof ListRunsQuerySchema>;
+
+export const ListRunsResponseSchema = z.object({ runs: z.array(RunSchema), total: z.number().int() });
+export type ListRunsResponse = z.infer<typeof ListRunsResponseSchema>;
+
+/** GET /api/runs/:id and the answers to start/stop/patch. */
+export const RunResponseSchema = z.object({ run: RunSchema });
+export type RunResponse = z.infer<typeof RunResponseSchema>;
+
+/** GET /api/runs/:id/samples — window in run seconds (elapsedSeconds); maxPoints = buckets. */
+export const SamplesQuerySchema = z.object({
+  from: z.coerce.number().finite().optional(),
+  to: z.coerce.number().finite().optional(),
+  maxPoints: z.coerce.number().int().min(10).max(20_000).default(1000),
+});
+export type SamplesQuery = z.infer<typeof SamplesQuerySchema>;
+
+const column = z.array(z.number().nullable());
+/** min and max of one channel per bucket (equal at full resolution); null = no reading (a gap). */
+export const MinMaxColumnSchema = z.object({ min: column, max: column });
+
+/**
+ * Columnar history. `t` = bucket start (or the reading's own time at full resolution),
+ * seconds since the run started. Channels: volts, amps, watts and one per temperature.
+ */
+export const SamplesResponseSchema = z.object({
+  runId: z.number().int(),
+  from: z.number(),
+  to: z.number(),
+  /** false = every reading in the window, true = min/max buckets of `bucketSeconds`. */
+  reduced: z.boolean(),
+  bucketSeconds: z.number().nullable(),
+  readingsInWindow: z.number().int(),
+  t: z.array(z.number()),
+  volts: MinMaxColumnSchema,
+  amps: MinMaxColumnSchema,
+  watts: MinMaxColumnSchema,
+  temps: z.record(z.string(), MinMaxColumnSchema),
+});
+export type SamplesResponse = z.infer<typeof SamplesResponseSchema>;
+
+/** POST /api/runs/:id/events — an annotation at a run time (technician). */
+export const AnnotateRequestSchema = z.object({
+  /** Seconds since the run started; default: the latest reading's time. */
+  t: z.number().finite().nonnegative().optional(),
+  text: z.string().trim().min(1).max(2000),
+});
+
+/** A stored event: the RunEvent plus its database id and when it was written. */
+export const StoredRunEventSchema = z.object({
+  id: z.number().int(),
+  runId: z.number().int(),
+  event: RunEventSchema,
+  createdAt: z.string(),
+});
+export type StoredRunEvent = z.infer<typeof StoredRunEventSchema>;
+export const RunEventsResponseSchema = z.object({ events: z.array(StoredRunEventSchema) });
+
+/** How imported current is signed in the file. `auto`: the sign of the larger share of samples. */
+export const ImportCurrentSignSchema = z.enum(['discharge-positive', 'discharge-negative', 'auto']);
+
+/** Optional column mapping for an import: header names in the file for each channel. */
+export const ImportColumnMapSchema = z.object({
+  time: z.string().min(1).optional(),
+  volts: z.string().min(1).optional(),
+  amps: z.string().min(1).optional(),
+  temp: z.string().min(1).optional(),
+  /** Unit of the time column when it is numeric. */
+  timeUnit: z.enum(['s', 'ms', 'min', 'h', 'iso']).optional(),
+});
+
+/** Multipart fields of POST /api/runs/import (the CSV is the `file` part). */
+export const ImportFieldsSchema = z.object({
+  name: z.string().trim().min(1).max(200),
+  batteryId: z.coerce.number().int().positive().optional(),
+  endVolts: z.coerce.number().finite().positive().optional(),
+  currentSign: ImportCurrentSignSchema.default('auto'),
+  tags: z.string().max(1000).optional(),
+  /** JSON text of ImportColumnMap. */
+  columns: z.string().max(2000).optional(),
+});
+
+/** The short summary the import answers with. */
+export const ImportSummarySchema = z.object({
+  energyWh: z.number(),
+  chargeAh: z.number(),
+  durationS: z.number(),
+  cutoff: z.object({ atS: z.number(), volts: z.number() }).nullable(),
+  recoveryS: z.number().nullable(),
+  percentOfRated: z.number().nullable().optional(),
+  rows: z.number().int(),
+});
+export const ImportResponseSchema = z.object({
+  run: RunSchema,
+  summary: ImportSummarySchema,
+  fullSummary: RunSummarySchema,
+});
+export type ImportResponse = z.infer<typeof ImportResponseSchema>;
