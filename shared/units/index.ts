@@ -1,0 +1,2 @@
+export * from './convert.js';
+export * from './format.js';
