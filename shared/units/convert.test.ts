@@ -37,7 +37,7 @@ describe('energy and charge conversion against mathjs', () => {
     expect(kWhToWh(1.28)).toBeCloseTo(ref(1.28, 'kWh', 'Wh'), 9);
     expect(whToKWh(1280)).toBeCloseTo(ref(1280, 'Wh', 'kWh'), 12);
     expect(ahToCoulombs(mahToAh(1))).toBeCloseTo(ref(1, 'mAh', 'C'), 12);
-    expect(ahToMah(1.8564874208181574)).toBeCloseTo(1856.4874208181574, 9);
+    expect(ahToMah(1.8564874208181574)).toBeCloseTo(1856.48742081816, 9);
   });
 });
 
