@@ -1,0 +1,46 @@
+import { describe, expect, it } from 'vitest';
+import { decodeBlock, encodeBlock } from './column-block.js';
+import { readingsToColumns, readingAt, concatColumns } from './reading-columns.js';
+import type { Reading } from '../../shared/schemas/reading.js';
+
+const reading = (i: number, temps?: Record<string, number>): Reading => ({
+  t: 1000 + i,
+  elapsedSeconds: i,
+  volts: 13.2 - i * 0.001,
+  amps: 5,
+  watts: (13.2 - i * 0.001) * 5,
+  dischargeWh: i * 0.018,
+  dischargeAh: i * 0.0014,
+  chargeWh: 0,
+  chargeAh: 0,
+  clock: 'device',
+  ...(temps ? { temps } : {}),
+});
+
+describe('column blocks', () => {
+  it('round-trips readings bit for bit, including a channel only some readings have', () => {
+    const readings = [reading(0, { cell: 21.5 }), reading(1), reading(2, { cell: 22 })];
+    const { layout, data } = encodeBlock(readingsToColumns(readings));
+    const back = decodeBlock(layout, data);
+    expect(readingAt(back, 0)).toEqual(readings[0]);
+    expect(readingAt(back, 1)).toEqual(readings[1]);
+    expect(back['temp:cell']![2]).toBe(22);
+  });
+
+  it('inflates only the wanted columns', () => {
+    const { layout, data } = encodeBlock(readingsToColumns([reading(0), reading(1)]));
+    expect(Object.keys(decodeBlock(layout, data, ['elapsed', 'volts'])).sort()).toEqual(['elapsed', 'volts']);
+  });
+
+  it('refuses columns of unequal length', () => {
+    expect(() => encodeBlock({ a: new Float64Array(2), b: new Float64Array(3) })).toThrow(/column b/);
+  });
+
+  it('concatenates parts, filling channels a part lacks with NaN', () => {
+    const a = readingsToColumns([reading(0, { cell: 20 })]);
+    const b = readingsToColumns([reading(1)]);
+    const c = concatColumns([a, b]);
+    expect(Array.from(c.elapsed!)).toEqual([0, 1]);
+    expect(Number.isNaN(c['temp:cell']![1]!)).toBe(true);
+  });
+});

@@ -1,0 +1,50 @@
+import { describe, expect, it } from 'vitest';
+import { reduceSamples } from './sample-reducer.js';
+
+const cols = (elapsed: number[], volts: number[], amps?: number[]) => ({
+  elapsed: Float64Array.from(elapsed),
+  volts: Float64Array.from(volts),
+  amps: Float64Array.from(amps ?? volts.map(() => 1)),
+});
+
+describe('reduceSamples', () => {
+  it('returns every reading when the window holds no more than maxPoints', () => {
+    const r = reduceSamples([cols([0, 1, 2, 3], [13, 12.9, 12.8, 12.7])], 1, 2, 10);
+    expect(r.reduced).toBe(false);
+    expect(r.t).toEqual([1, 2]);
+    expect(r.volts.min).toEqual([12.9, 12.8]);
+    expect(r.readingsInWindow).toBe(2);
+  });
+
+  it('keeps a one-sample spike in a min/max bucket instead of averaging it away', () => {
+    const n = 10_000;
+    const elapsed = Array.from({ length: n }, (_, i) => i);
+    const volts = elapsed.map(() => 12);
+    volts[4321] = 3.1; // a protection cutoff dip lasting one sample
+    volts[777] = 14.6;
+    const r = reduceSamples([cols(elapsed, volts)], 0, n - 1, 100);
+    expect(r.reduced).toBe(true);
+    expect(r.t).toHaveLength(100);
+    expect(Math.min(...(r.volts.min as number[]))).toBe(3.1);
+    expect(Math.max(...(r.volts.max as number[]))).toBe(14.6);
+    // Averaging 100 samples would have given 12 - 8.9/100; the bucket keeps the extreme.
+    expect(r.volts.min[Math.floor(4321 / ((n - 1) / 100))]).toBe(3.1);
+  });
+
+  it('leaves an empty bucket null so a chart draws a gap, and spans several parts', () => {
+    const a = cols([0, 1, 2, 3, 4], [1, 2, 3, 4, 5]);
+    const b = cols([96, 97, 98, 99, 100], [6, 7, 8, 9, 10]);
+    const r = reduceSamples([a, b], 0, 100, 5);
+    expect(r.reduced).toBe(true);
+    expect(r.volts.min).toEqual([1, null, null, null, 6]);
+    expect(r.volts.max).toEqual([5, null, null, null, 10]);
+    expect(r.watts.max[4]).toBe(10);
+  });
+
+  it('reduces temperature channels with the same buckets', () => {
+    const p = { ...cols([0, 1, 2, 3], [1, 1, 1, 1]), 'temp:cell': Float64Array.from([20, 25, Number.NaN, 22]) };
+    const r = reduceSamples([p], 0, 3, 2);
+    expect(r.temps.cell!.min).toEqual([20, 22]);
+    expect(r.temps.cell!.max).toEqual([25, 22]);
+  });
+});

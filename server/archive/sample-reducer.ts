@@ -1,0 +1,126 @@
+import type { Columns } from './column-block.js';
+import { TEMP_PREFIX } from './reading-columns.js';
+
+/** One channel reduced: min and max per bucket (null for an empty bucket: a gap, never a line). */
+export interface MinMax {
+  min: (number | null)[];
+  max: (number | null)[];
+}
+export interface ReducedSamples {
+  reduced: boolean;
+  bucketSeconds: number | null;
+  readingsInWindow: number;
+  t: number[];
+  volts: MinMax;
+  amps: MinMax;
+  watts: MinMax;
+  temps: Record<string, MinMax>;
+}
+
+/** First index in a sorted column whose value is >= x. */
+function lowerBound(col: Float64Array, x: number): number {
+  let lo = 0;
+  let hi = col.length;
+  while (lo < hi) {
+    const mid = (lo + hi) >>> 1;
+    if (col[mid]! < x) lo = mid + 1;
+    else hi = mid;
+  }
+  return lo;
+}
+
+/** First index in a sorted column whose value is > x. */
+function upperBound(col: Float64Array, x: number): number {
+  let lo = 0;
+  let hi = col.length;
+  while (lo < hi) {
+    const mid = (lo + hi) >>> 1;
+    if (col[mid]! <= x) lo = mid + 1;
+    else hi = mid;
+  }
+  return lo;
+}
+
+const emptyMinMax = (n: number): MinMax => ({ min: new Array(n).fill(null), max: new Array(n).fill(null) });
+const finiteOrNull = (v: number): number | null => (Number.isFinite(v) ? v : null);
+
+function put(mm: MinMax, b: number, v: number): void {
+  if (!Number.isFinite(v)) return;
+  const lo = mm.min[b];
+  if (lo === null || lo === undefined || v < lo) mm.min[b] = v;
+  const hi = mm.max[b];
+  if (hi === null || hi === undefined || v > hi) mm.max[b] = v;
+}
+
+/**
+ * Reduces time-ordered column parts (each with `elapsed`, `volts`, `amps`, optional
+ * `temp:*`) over [from, to] to at most `maxPoints` min/max buckets. When the window
+ * holds no more readings than `maxPoints`, every reading is returned as it is. A spike
+ * survives because a bucket keeps its extremes, never an average.
+ */
+export function reduceSamples(parts: readonly Columns[], from: number, to: number, maxPoints: number): ReducedSamples {
+  const ranges = parts.map((p) => {
+    const e = p.elapsed!;
+    return { p, start: lowerBound(e, from), end: upperBound(e, to) };
+  });
+  const inWindow = ranges.reduce((s, r) => s + Math.max(0, r.end - r.start), 0);
+  const tempNames = new Set<string>();
+  for (const p of parts) for (const k of Object.keys(p)) if (k.startsWith(TEMP_PREFIX)) tempNames.add(k);
+
+  if (inWindow <= maxPoints) {
+    const t: number[] = [];
+    const cols = { volts: [] as (number | null)[], amps: [] as (number | null)[], watts: [] as (number | null)[] };
+    const temps: Record<string, (number | null)[]> = {};
+    for (const name of tempNames) temps[name] = [];
+    for (const { p, start, end } of ranges) {
+      for (let i = start; i < end; i++) {
+        const v = p.volts![i]!;
+        const a = p.amps![i]!;
+        t.push(p.elapsed![i]!);
+        cols.volts.push(finiteOrNull(v));
+        cols.amps.push(finiteOrNull(a));
+        cols.watts.push(finiteOrNull(v * a));
+        for (const name of tempNames) temps[name]!.push(p[name] ? finiteOrNull(p[name][i]!) : null);
+      }
+    }
+    const same = (c: (number | null)[]): MinMax => ({ min: c, max: c });
+    const tempOut: Record<string, MinMax> = {};
+    for (const [name, c] of Object.entries(temps)) tempOut[name.slice(TEMP_PREFIX.length)] = same(c);
+    return {
+      reduced: false,
+      bucketSeconds: null,
+      readingsInWindow: inWindow,
+      t,
+      volts: same(cols.volts),
+      amps: same(cols.amps),
+      watts: same(cols.watts),
+      temps: tempOut,
+    };
+  }
+
+  const buckets = maxPoints;
+  const bucketSeconds = (to - from) / buckets;
+  const t = Array.from({ length: buckets }, (_, b) => from + b * bucketSeconds);
+  const volts = emptyMinMax(buckets);
+  const amps = emptyMinMax(buckets);
+  const watts = emptyMinMax(buckets);
+  const temps: Record<string, MinMax> = {};
+  for (const name of tempNames) temps[name.slice(TEMP_PREFIX.length)] = emptyMinMax(buckets);
+  for (const { p, start, end } of ranges) {
+    const e = p.elapsed!;
+    const vCol = p.volts!;
+    const aCol = p.amps!;
+    const tempCols = [...tempNames].filter((n) => p[n]).map((n) => [temps[n.slice(TEMP_PREFIX.length)]!, p[n]!] as const);
+    for (let i = start; i < end; i++) {
+      // The last reading sits exactly on `to`: keep it in the last bucket.
+      const b = Math.min(buckets - 1, Math.floor((e[i]! - from) / bucketSeconds));
+      const v = vCol[i]!;
+      const a = aCol[i]!;
+      put(volts, b, v);
+      put(amps, b, a);
+      put(watts, b, v * a);
+      for (const [mm, col] of tempCols) put(mm, b, col[i]!);
+    }
+  }
+  return { reduced: true, bucketSeconds, readingsInWindow: inWindow, t, volts, amps, watts, temps };
+}
