@@ -1,0 +1,103 @@
+import type { ScpiFormat } from '../../../shared/schemas/bench.js';
+import type { Frame } from '../../../shared/schemas/frame.js';
+import type { TimerHandle } from '../clock.js';
+import { LineFramer } from '../framer/line-framer.js';
+import { parseScpiNumber } from '../parsers/scpi-reply.js';
+import { toAmps } from '../parsers/units.js';
+import type { PortSession, SessionContext } from './port-session.js';
+
+const MS_PER_S = 1000;
+
+/**
+ * Polls a SCPI instrument: asks `*IDN?` once, then every `pollMs` sends the volts, amps
+ * and temperature queries one at a time and waits for each reply (with a timeout). A
+ * cycle with a missing or bad reply is counted as a rejection; the next cycle still runs.
+ */
+export function startScpiSession(ctx: SessionContext, format: ScpiFormat): PortSession {
+  const { clock, port, tracker } = ctx;
+  const framer = new LineFramer();
+  let stopped = false;
+  let pending: { resolve: (line: string | undefined) => void; timer: TimerHandle } | undefined;
+  let nextPoll: TimerHandle | undefined;
+
+  const onData = (chunk: Buffer): void => {
+    for (const line of framer.push(chunk)) {
+      // A reply nobody waits for (late, after a timeout) is dropped so it cannot pair with the next query.
+      const waiter = pending;
+      if (!waiter) continue;
+      pending = undefined;
+      clock.clearTimeout(waiter.timer);
+      waiter.resolve(line);
+    }
+  };
+  port.on('data', onData);
+
+  const ask = (query: string): Promise<string | undefined> =>
+    new Promise((resolve) => {
+      const timer = clock.setTimeout(() => {
+        pending = undefined;
+        resolve(undefined);
+      }, format.replyTimeoutMs);
+      pending = { resolve, timer };
+      port.write(query + format.lineEnding);
+    });
+
+  const askNumber = async (query: string): Promise<number | string> => {
+    const reply = await ask(query);
+    if (reply === undefined) return `no reply to ${query} within ${format.replyTimeoutMs} ms`;
+    const parsed = parseScpiNumber(reply);
+    return parsed.ok ? parsed.value : `${query}: ${parsed.reason}`;
+  };
+
+  const cycle = async (): Promise<void> => {
+    const startMs = clock.nowMs();
+    const volts = await askNumber(format.queries.volts);
+    const amps = stopped ? 0 : await askNumber(format.queries.amps);
+    const temps: Record<string, number> = {};
+    let failure = typeof volts === 'string' ? volts : typeof amps === 'string' ? amps : undefined;
+    for (const [channel, query] of Object.entries(format.queries.temps)) {
+      if (stopped || failure) break;
+      const value = await askNumber(query);
+      if (typeof value === 'string') failure = value;
+      else temps[channel] = value;
+    }
+    if (stopped) return;
+    if (failure !== undefined) tracker.rejected(failure);
+    else {
+      // Replies carry no time; stamp the moment the cycle began (the volts query), on the arrival clock.
+      const frame: Frame = {
+        t: startMs / MS_PER_S,
+        volts: volts as number,
+        amps: toAmps(amps as number, 'A', format.currentSign),
+        clock: 'arrival',
+        ...(Object.keys(temps).length > 0 && { temps }),
+      };
+      ctx.emitFrame(frame);
+    }
+    const elapsedMs = clock.nowMs() - startMs;
+    nextPoll = clock.setTimeout(() => void cycle(), Math.max(0, format.pollMs - elapsedMs));
+  };
+
+  const begin = async (): Promise<void> => {
+    if (format.idnQuery) {
+      const idn = await ask(format.idnQuery);
+      if (stopped) return;
+      if (idn !== undefined) tracker.note(`instrument: ${idn.trim().slice(0, 120)}`);
+    }
+    if (!stopped) await cycle();
+  };
+  void begin();
+
+  return {
+    stop: () => {
+      stopped = true;
+      port.off('data', onData);
+      if (nextPoll !== undefined) clock.clearTimeout(nextPoll);
+      if (pending) {
+        clock.clearTimeout(pending.timer);
+        pending.resolve(undefined);
+        pending = undefined;
+      }
+    },
+  };
+}
