@@ -1,0 +1,38 @@
+import express, { type Express } from 'express';
+import type { AppContext } from './app-context.js';
+import { securityHeaders } from './http/security-headers.js';
+import { csrfProtection } from './http/csrf.js';
+import { apiNotFound, createErrorHandler } from './http/error-handler.js';
+import { serveClient } from './http/client-static.js';
+import { createAuthRouter } from './auth/auth-routes.js';
+import { createUsersRouter } from './users/users-routes.js';
+import { createBatteriesRouter } from './batteries/batteries-routes.js';
+import { createSettingsRouter } from './settings/settings-routes.js';
+
+/**
+ * The Express app (no listen). Order matters: security headers, JSON body (size-limited),
+ * session + passport, CSRF on every state-changing /api request, the routers, 404 for unknown
+ * /api paths, the client, and last the one error handler.
+ */
+export function createApp(ctx: AppContext): Express {
+  const app = express();
+  app.disable('x-powered-by');
+  app.use(securityHeaders(ctx.config.cookieSecure));
+  app.use('/api', express.json({ limit: ctx.config.bodyLimit }));
+  app.use('/api', ctx.sessionMiddleware, ctx.passport.initialize(), ctx.passport.session(), csrfProtection);
+
+  app.use('/api/auth', createAuthRouter(ctx));
+  app.use('/api/users', createUsersRouter(ctx));
+  app.use('/api/batteries', createBatteriesRouter(ctx));
+  app.use('/api/settings', createSettingsRouter(ctx));
+  // ── ROUTER MOUNTS: other areas add one line each here, e.g. ──
+  //   app.use('/api/benches', createBenchesRouter(ctx));   (ingest)
+  //   app.use('/api/runs', createRunsRouter(ctx));         (live)
+  // Guard every route with requireRole(...) from ./auth/guards.js; CSRF is already enforced above.
+  // ── end of router mounts ──
+
+  app.use('/api', apiNotFound);
+  serveClient(app, ctx.config.clientDir);
+  app.use(createErrorHandler((message, error) => ctx.log.error(message, error)));
+  return app;
+}

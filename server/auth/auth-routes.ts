@@ -1,0 +1,56 @@
+import { Router } from 'express';
+import type { AppContext } from '../app-context.js';
+import { ChangePasswordRequestSchema, LoginRequestSchema, type PublicUser } from '../../shared/schemas/user.js';
+import { HttpError } from '../http/http-error.js';
+import { issueCsrfToken } from '../http/csrf.js';
+import { parseBody } from '../http/validate.js';
+import { createLoginRateLimit } from './login-rate-limit.js';
+import { requireSignedIn } from './guards.js';
+import { hashPassword, verifyPassword } from './password.js';
+import { SESSION_COOKIE } from './session.js';
+
+/** /api/auth: csrf, login, logout, me, password. */
+export function createAuthRouter(ctx: AppContext): Router {
+  const router = Router();
+
+  router.get('/csrf', (req, res) => {
+    res.json({ csrfToken: issueCsrfToken(req) });
+  });
+
+  router.post('/login', createLoginRateLimit(ctx.config), (req, res, next) => {
+    req.body = parseBody(LoginRequestSchema, req.body);
+    ctx.passport.authenticate('local', (error: unknown, user: PublicUser | false) => {
+      if (error) return next(error);
+      if (!user) return next(new HttpError(401, 'Wrong e-mail or password'));
+      // Passport regenerates the session on login (no fixation); the new session gets a new token.
+      req.logIn(user, (loginError) => {
+        if (loginError) return next(loginError);
+        res.json({ user, csrfToken: issueCsrfToken(req) });
+      });
+    })(req, res, next);
+  });
+
+  router.post('/logout', (req, res, next) => {
+    req.session.destroy((error) => {
+      if (error) return next(error);
+      res.clearCookie(SESSION_COOKIE, { httpOnly: true, sameSite: 'lax', secure: ctx.config.cookieSecure });
+      res.status(204).end();
+    });
+  });
+
+  router.get('/me', requireSignedIn, (req, res) => {
+    res.json({ user: req.user });
+  });
+
+  router.post('/password', requireSignedIn, async (req, res) => {
+    const body = parseBody(ChangePasswordRequestSchema, req.body);
+    const row = await ctx.models.User.findByPk(req.user!.id);
+    if (!row || !(await verifyPassword(body.currentPassword, row.passwordHash))) {
+      throw new HttpError(400, 'The current password is wrong', { currentPassword: ['wrong password'] });
+    }
+    await row.update({ passwordHash: await hashPassword(body.newPassword) });
+    res.status(204).end();
+  });
+
+  return router;
+}

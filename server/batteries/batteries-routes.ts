@@ -1,0 +1,44 @@
+import { Router } from 'express';
+import type { AppContext } from '../app-context.js';
+import { BatteryInputSchema, BatteryPatchSchema } from '../../shared/schemas/battery.js';
+import { requireRole } from '../auth/guards.js';
+import { notFound } from '../http/http-error.js';
+import { parseBody, parseIdParam } from '../http/validate.js';
+import { BATTERY_OPTIONAL_DEFAULTS, toApiBattery } from '../db/models/battery.js';
+
+/** /api/batteries: everyone signed in reads; technicians and admins write. */
+export function createBatteriesRouter(ctx: AppContext): Router {
+  const router = Router();
+  const { Battery } = ctx.models;
+  const findOr404 = async (id: number) => (await Battery.findByPk(id)) ?? Promise.reject(notFound('Battery'));
+
+  router.get('/', requireRole('viewer'), async (_req, res) => {
+    const rows = await Battery.findAll({ order: [['label', 'ASC']] });
+    res.json({ batteries: rows.map(toApiBattery) });
+  });
+
+  router.get('/:id', requireRole('viewer'), async (req, res) => {
+    res.json({ battery: toApiBattery(await findOr404(parseIdParam(req.params.id))) });
+  });
+
+  router.post('/', requireRole('technician'), async (req, res) => {
+    const input = parseBody(BatteryInputSchema, req.body);
+    const row = await Battery.create({ ...BATTERY_OPTIONAL_DEFAULTS, ...input, createdById: req.user!.id });
+    res.status(201).json({ battery: toApiBattery(row) });
+  });
+
+  router.patch('/:id', requireRole('technician'), async (req, res) => {
+    const change = parseBody(BatteryPatchSchema, req.body);
+    const row = await findOr404(parseIdParam(req.params.id));
+    await row.update(change);
+    res.json({ battery: toApiBattery(row) });
+  });
+
+  router.delete('/:id', requireRole('technician'), async (req, res) => {
+    const row = await findOr404(parseIdParam(req.params.id));
+    await row.destroy(); // a battery with archived runs is kept: the foreign key answers 409
+    res.status(204).end();
+  });
+
+  return router;
+}

@@ -1,0 +1,80 @@
+import { resolve } from 'node:path';
+import { EnvSchema, type Env } from './env-schema.js';
+import { loadOrCreateSecrets } from './secrets.js';
+
+/** Where and how to reach the application database. */
+export interface DatabaseConfig {
+  host: string;
+  port: number;
+  database: string;
+  user: string;
+  password: string;
+}
+
+/** The checked configuration the whole server reads (never process.env directly). */
+export interface AppConfig {
+  mode: Env['KNEEPOINT_MODE'];
+  host: string;
+  port: number;
+  dataDir: string;
+  clientDir: string;
+  db: DatabaseConfig & { provision: boolean; mariadbDir: string };
+  sessionSecret: string;
+  cookieSecure: boolean;
+  sessionMaxAgeMs: number;
+  bodyLimit: string;
+  loginMaxFailures: number;
+  loginWindowMs: number;
+  demoPassword: string;
+}
+
+const MS_PER_HOUR = 3_600_000;
+const MS_PER_MINUTE = 60_000;
+
+/** Thrown when the environment is invalid; the message names every bad variable. */
+export class ConfigError extends Error {}
+
+/** Checks `env` and names every bad variable at once, so one restart fixes them all. */
+export function parseEnv(env: NodeJS.ProcessEnv): Env {
+  const result = EnvSchema.safeParse(env);
+  if (result.success) return result.data;
+  const lines = result.error.issues.map((issue) => `  ${issue.path.join('.')}: ${issue.message}`);
+  throw new ConfigError(`Invalid environment:\n${lines.join('\n')}`);
+}
+
+/** Reads and checks the environment once; secrets absent outside production are generated. */
+export function loadConfig(env: NodeJS.ProcessEnv = process.env, cwd = process.cwd()): AppConfig {
+  const parsed = parseEnv(env);
+  const dataDir = resolve(cwd, parsed.KNEEPOINT_DATA_DIR);
+  if (parsed.KNEEPOINT_MODE === 'production') {
+    const missing = ['SESSION_SECRET', 'KNEEPOINT_DB_PASSWORD'].filter((name) => !env[name]);
+    if (missing.length > 0) {
+      throw new ConfigError(`Invalid environment:\n${missing.map((n) => `  ${n}: required in production`).join('\n')}`);
+    }
+  }
+  const needsStored = !parsed.SESSION_SECRET || !parsed.KNEEPOINT_DB_PASSWORD;
+  const stored = needsStored ? loadOrCreateSecrets(dataDir) : undefined;
+  return {
+    mode: parsed.KNEEPOINT_MODE,
+    host: parsed.KNEEPOINT_HOST,
+    port: parsed.KNEEPOINT_PORT,
+    dataDir,
+    clientDir: resolve(cwd, parsed.KNEEPOINT_CLIENT_DIR),
+    db: {
+      provision: parsed.KNEEPOINT_DB_PROVISION,
+      mariadbDir: resolve(dataDir, 'mariadb'),
+      host: '127.0.0.1',
+      port: parsed.KNEEPOINT_DB_PORT,
+      database: parsed.KNEEPOINT_DB_NAME,
+      user: parsed.KNEEPOINT_DB_USER,
+      password: parsed.KNEEPOINT_DB_PASSWORD ?? stored!.dbPassword,
+    },
+    sessionSecret: parsed.SESSION_SECRET ?? stored!.sessionSecret,
+    cookieSecure: parsed.KNEEPOINT_COOKIE_SECURE,
+    sessionMaxAgeMs: parsed.KNEEPOINT_SESSION_HOURS * MS_PER_HOUR,
+    bodyLimit: parsed.KNEEPOINT_BODY_LIMIT,
+    loginMaxFailures: parsed.KNEEPOINT_LOGIN_MAX_FAILURES,
+    loginWindowMs: parsed.KNEEPOINT_LOGIN_WINDOW_MINUTES * MS_PER_MINUTE,
+    demoPassword: parsed.KNEEPOINT_DEMO_PASSWORD,
+  };
+}

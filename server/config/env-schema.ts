@@ -1,0 +1,48 @@
+import { z } from 'zod';
+
+const LOOPBACK_HOSTS = ['127.0.0.1', '::1', 'localhost'];
+/** The system MariaDB's port: a private instance must never take it. */
+export const SYSTEM_MARIADB_PORT = 3306;
+const MAX_TCP_PORT = 65535;
+const MIN_SECRET_LENGTH = 32;
+
+const port = (fallback: number) => z.coerce.number().int().min(0).max(MAX_TCP_PORT).default(fallback);
+const flag = (fallback: boolean) =>
+  z
+    .enum(['true', 'false', '1', '0', 'yes', 'no'])
+    .default(fallback ? 'true' : 'false')
+    .transform((value) => ['true', '1', 'yes'].includes(value));
+const identifier = (fallback: string) =>
+  z.string().regex(/^[A-Za-z0-9_]{1,32}$/, 'letters, digits and _ only (at most 32)').default(fallback);
+
+/**
+ * Every environment variable Kneepoint reads, checked once at start-up.
+ * .env.example documents the same list.
+ */
+export const EnvSchema = z.object({
+  KNEEPOINT_MODE: z.enum(['demo', 'development', 'production', 'test']).default('demo'),
+  KNEEPOINT_HOST: z
+    .string()
+    .refine((host) => LOOPBACK_HOSTS.includes(host) || /^127\.\d+\.\d+\.\d+$/.test(host), {
+      message: 'must be a loopback address (127.0.0.1, ::1 or localhost); put a reverse proxy in front for other hosts',
+    })
+    .default('127.0.0.1'),
+  KNEEPOINT_PORT: port(8080),
+  KNEEPOINT_DATA_DIR: z.string().min(1).default('.data'),
+  KNEEPOINT_CLIENT_DIR: z.string().min(1).default('dist/client'),
+  KNEEPOINT_DB_PROVISION: flag(true),
+  KNEEPOINT_DB_PORT: port(3307).refine((value) => value !== SYSTEM_MARIADB_PORT && value !== 0, {
+    message: `must not be ${SYSTEM_MARIADB_PORT} (the system MariaDB's port) or 0`,
+  }),
+  KNEEPOINT_DB_NAME: identifier('kneepoint'),
+  KNEEPOINT_DB_USER: identifier('kneepoint'),
+  KNEEPOINT_DB_PASSWORD: z.string().min(12).max(200).optional(),
+  SESSION_SECRET: z.string().min(MIN_SECRET_LENGTH, `at least ${MIN_SECRET_LENGTH} characters`).optional(),
+  KNEEPOINT_COOKIE_SECURE: flag(false),
+  KNEEPOINT_SESSION_HOURS: z.coerce.number().positive().max(24 * 30).default(12),
+  KNEEPOINT_BODY_LIMIT: z.string().regex(/^\d+(b|kb|mb)$/, 'such as 512kb or 1mb').default('1mb'),
+  KNEEPOINT_LOGIN_MAX_FAILURES: z.coerce.number().int().min(1).default(10),
+  KNEEPOINT_LOGIN_WINDOW_MINUTES: z.coerce.number().positive().default(15),
+  KNEEPOINT_DEMO_PASSWORD: z.string().min(10).default('northgate-demo'),
+});
+export type Env = z.infer<typeof EnvSchema>;

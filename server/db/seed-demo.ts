@@ -1,0 +1,54 @@
+import type { CoreModels } from './models/index.js';
+import type { BatteryInput } from '../../shared/schemas/battery.js';
+import type { Role } from '../../shared/schemas/user.js';
+import { LabSettingsSchema } from '../../shared/schemas/lab-settings.js';
+import { BATTERY_OPTIONAL_DEFAULTS } from './models/battery.js';
+import { hashPassword } from '../auth/password.js';
+import { saveLabSettings } from '../settings/settings-service.js';
+
+/** The fictional lab's name. */
+export const DEMO_LAB_NAME = 'Northgate Cell Lab';
+
+/** Demo accounts, one per role (fictional people). They share the configured demo password. */
+export const DEMO_ACCOUNTS: ReadonlyArray<{ email: string; name: string; role: Role }> = [
+  { email: 'ada@northgate.lab', name: 'Ada Marsh', role: 'admin' },
+  { email: 'tomas@northgate.lab', name: 'Tomas Ferrand', role: 'technician' },
+  { email: 'vera@northgate.lab', name: 'Vera Lind', role: 'viewer' },
+];
+
+/** Fictional packs of fictional brands; the figures are invented for the demo. */
+export const DEMO_BATTERIES: BatteryInput[] = [
+  { label: 'VT-48 rack pack #1', brand: 'Voltara', model: 'Rackline 48-100', chemistry: 'lfp', cellsInSeries: 16, cellsInParallel: 1,
+    ratedAh: 100, ratedWh: 5120, bmsRatedAmps: 100, massKg: 46, price: 1290, priceCurrency: 'EUR', serialNumber: 'VT48-2311-0042',
+    sender: 'Harbour Street Solar Co-op', notes: 'Sent for an acceptance test after a warranty swap.' },
+  { label: 'Hollis e-bike 36 V', brand: 'Hollis Power', model: 'Trail 36-14', chemistry: 'nmc', cellsInSeries: 10, cellsInParallel: 4,
+    ratedAh: 14, ratedWh: 504, bmsRatedAmps: 25, massKg: 3.1, price: 389, priceCurrency: 'EUR', serialNumber: 'HP-T36-88213',
+    sender: 'Riverside Cycles', notes: 'Customer reports early cutoff on hills.' },
+  { label: 'Kestrel 12 V camper', brand: 'Kestrel Energy', model: 'Nomad 12-50', chemistry: 'lfp', cellsInSeries: 4, cellsInParallel: 1,
+    ratedAh: 50, ratedWh: 640, bmsRatedAmps: 50, massKg: 6.2, price: 279, priceCurrency: 'EUR', serialNumber: 'KE-N12-5007',
+    sender: null, notes: 'Has a low-temperature charge cutoff: check below 0 °C.' },
+  { label: 'Hollis standby 12 V', brand: 'Hollis Power', model: 'Keep 12-35', chemistry: 'lead-acid', cellsInSeries: 6, cellsInParallel: 1,
+    ratedAh: 35, ratedWh: 420, bmsRatedAmps: null, massKg: 10.8, price: 95, priceCurrency: 'EUR', serialNumber: 'HP-K12-1180',
+    sender: 'Northgate facilities', notes: 'Sealed lead-acid: ventilate while charging (hydrogen).' },
+];
+
+/** Result of seeding: whether anything was written. */
+export interface SeedResult {
+  seeded: boolean;
+}
+
+/** Seeds the demo lab (settings, three accounts, four packs) when the database has no users yet. */
+export async function seedDemo(models: CoreModels, demoPassword: string): Promise<SeedResult> {
+  if ((await models.User.count()) > 0) return { seeded: false };
+  const passwordHash = await hashPassword(demoPassword);
+  await models.User.sequelize!.transaction(async (transaction) => {
+    const users = await models.User.bulkCreate(DEMO_ACCOUNTS.map((account) => ({ ...account, passwordHash })), { transaction });
+    const technician = users.find((user) => user.role === 'technician');
+    await models.Battery.bulkCreate(
+      DEMO_BATTERIES.map((battery) => ({ ...BATTERY_OPTIONAL_DEFAULTS, ...battery, createdById: technician?.id ?? null })),
+      { transaction },
+    );
+  });
+  await saveLabSettings(models, LabSettingsSchema.parse({ labName: DEMO_LAB_NAME }), null);
+  return { seeded: true };
+}

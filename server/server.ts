@@ -1,0 +1,116 @@
+import { createServer, type Server } from 'node:http';
+import type { AddressInfo } from 'node:net';
+import type { Express } from 'express';
+import { loadConfig, type AppConfig, type DatabaseConfig } from './config/config.js';
+import { provisionMariaDb, type ProvisionedMariaDb } from './db/provisioner.js';
+import { createSequelize } from './db/sequelize.js';
+import { migrate } from './db/migrate.js';
+import { seedDemo } from './db/seed-demo.js';
+import { consoleLogger, createAppContext, type AppContext, type Logger } from './app-context.js';
+import { createApp } from './app.js';
+
+/** Undoes an attachment (close sockets, stop timers); awaited on server close. */
+export type Detach = () => Promise<void> | void;
+/** Runs once the HTTP server listens: attach a WebSocket server, start bench managers, … */
+export type Attachment = (httpServer: Server, ctx: AppContext) => Promise<Detach | void> | Detach | void;
+
+/**
+ * ── ATTACHMENTS: other areas add one line each here (they run in this order after listen,
+ * and are detached in reverse order on close), e.g. ──
+ *   attachBenchManager,   (ingest, from ./benches/...)
+ *   attachLiveHub,        (live, from ./live/...)
+ */
+export const ATTACHMENTS: Attachment[] = [];
+
+/** How to start; everything is optional (defaults: environment config, provisioned MariaDB). */
+export interface StartServerOptions {
+  config?: AppConfig;
+  /** Use this database as is (tests); the provisioner is skipped. */
+  database?: DatabaseConfig;
+  /** Override config.port (0 = any free port) or config.host. */
+  port?: number;
+  host?: string;
+  /** Apply pending migrations first (default true). */
+  migrate?: boolean;
+  /** Seed the demo lab when the database has no users (default false). */
+  seedDemo?: boolean;
+  /** Default: ATTACHMENTS. */
+  attachments?: Attachment[];
+  log?: Logger;
+}
+
+/** A listening Kneepoint server. close() detaches, stops HTTP, closes the pool, stops MariaDB if we started it. */
+export interface RunningServer {
+  url: string;
+  port: number;
+  httpServer: Server;
+  app: Express;
+  ctx: AppContext;
+  mariadb?: ProvisionedMariaDb;
+  demoSeeded: boolean;
+  close(): Promise<void>;
+}
+
+async function openDatabase(config: AppConfig, options: StartServerOptions, log: Logger) {
+  if (options.database) return { database: options.database, mariadb: undefined };
+  if (!config.db.provision) return { database: config.db, mariadb: undefined };
+  const mariadb = await provisionMariaDb({
+    baseDir: config.db.mariadbDir, port: config.db.port, database: config.db.database,
+    user: config.db.user, password: config.db.password, log: (message) => log.info(`[mariadb] ${message}`),
+  });
+  return { database: mariadb as DatabaseConfig, mariadb };
+}
+
+function listen(httpServer: Server, port: number, host: string): Promise<number> {
+  return new Promise((resolve, reject) => {
+    const onError = (error: NodeJS.ErrnoException) =>
+      reject(error.code === 'EADDRINUSE'
+        ? new Error(`Port ${port} on ${host} is already in use: stop the other program or set KNEEPOINT_PORT`)
+        : error);
+    httpServer.once('error', onError);
+    httpServer.listen(port, host, () => {
+      httpServer.off('error', onError);
+      resolve((httpServer.address() as AddressInfo).port);
+    });
+  });
+}
+
+/** Provisions (unless given a database), migrates, optionally seeds, listens on loopback, runs attachments. */
+export async function startServer(options: StartServerOptions = {}): Promise<RunningServer> {
+  const log = options.log ?? consoleLogger;
+  const config = options.config ?? loadConfig();
+  const { database, mariadb } = await openDatabase(config, options, log);
+  const sequelize = createSequelize(database);
+  const detaches: Detach[] = [];
+  let httpServer: Server | undefined;
+  let ctx: AppContext | undefined;
+  const close = async () => {
+    for (const detach of detaches.splice(0).reverse()) await detach();
+    if (httpServer?.listening) {
+      httpServer.closeAllConnections();
+      await new Promise<void>((resolve) => httpServer!.close(() => resolve()));
+    }
+    await ctx?.runCloseHandlers();
+    await sequelize.close();
+    await mariadb?.stop();
+  };
+  try {
+    await sequelize.authenticate();
+    if (options.migrate ?? true) await migrate(sequelize);
+    ctx = createAppContext(config, sequelize, log);
+    const demoSeeded = options.seedDemo ? (await seedDemo(ctx.models, config.demoPassword)).seeded : false;
+    const app = createApp(ctx);
+    httpServer = createServer(app);
+    const host = options.host ?? config.host;
+    const port = await listen(httpServer, options.port ?? config.port, host);
+    for (const attach of options.attachments ?? ATTACHMENTS) {
+      const detach = await attach(httpServer, ctx);
+      if (detach) detaches.push(detach);
+    }
+    const urlHost = host.includes(':') ? `[${host}]` : host;
+    return { url: `http://${urlHost}:${port}`, port, httpServer, app, ctx, mariadb, demoSeeded, close };
+  } catch (error) {
+    await close().catch((closeError) => log.error('Cleanup after a failed start failed', closeError));
+    throw error;
+  }
+}

@@ -1,0 +1,29 @@
+import { Router } from 'express';
+import type { AppContext } from '../app-context.js';
+import { CreateUserRequestSchema, UpdateUserRequestSchema } from '../../shared/schemas/user.js';
+import { requireRole } from '../auth/guards.js';
+import { parseBody, parseIdParam } from '../http/validate.js';
+import { createUser, listUsers, updateUser } from './users-service.js';
+
+/** /api/users: admin only (list, create, set role, rename, disable). */
+export function createUsersRouter(ctx: AppContext): Router {
+  const router = Router();
+  router.use(requireRole('admin'));
+
+  router.get('/', async (_req, res) => {
+    res.json({ users: await listUsers(ctx.models) });
+  });
+
+  router.post('/', async (req, res) => {
+    const user = await createUser(ctx.models, parseBody(CreateUserRequestSchema, req.body));
+    res.status(201).json({ user });
+  });
+
+  router.patch('/:id', async (req, res) => {
+    const change = parseBody(UpdateUserRequestSchema, req.body);
+    const user = await updateUser(ctx.models, req.user!.id, parseIdParam(req.params.id), change);
+    res.json({ user });
+  });
+
+  return router;
+}

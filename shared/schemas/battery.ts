@@ -1,0 +1,56 @@
+import { z } from 'zod';
+
+/** Cell chemistries Kneepoint knows end voltages for (trade abbreviations). */
+export const CHEMISTRIES = ['lfp', 'nmc', 'nca', 'lco', 'lmo', 'lto', 'lead-acid', 'nimh'] as const;
+export const ChemistrySchema = z.enum(CHEMISTRIES);
+export type Chemistry = z.infer<typeof ChemistrySchema>;
+
+/** Largest series count we accept (a 1000 V pack of LTO cells is still well under this). */
+const MAX_CELLS_IN_SERIES = 600;
+const MAX_CELLS_IN_PARALLEL = 500;
+
+const optionalText = (max: number) => z.string().trim().max(max).nullable().optional();
+const positive = () => z.number().finite().positive();
+
+/** Fields a technician sends to create a battery pack record. */
+export const BatteryInputSchema = z.object({
+  label: z.string().trim().min(1).max(120),
+  brand: z.string().trim().min(1).max(120),
+  model: optionalText(120),
+  chemistry: ChemistrySchema,
+  cellsInSeries: z.number().int().min(1).max(MAX_CELLS_IN_SERIES),
+  cellsInParallel: z.number().int().min(1).max(MAX_CELLS_IN_PARALLEL).default(1),
+  ratedAh: positive(),
+  ratedWh: positive().nullable().optional(),
+  bmsRatedAmps: positive().nullable().optional(),
+  massKg: positive().nullable().optional(),
+  price: z.number().finite().nonnegative().nullable().optional(),
+  priceCurrency: z.string().regex(/^[A-Z]{3}$/, 'ISO 4217 code such as EUR').nullable().optional(),
+  serialNumber: optionalText(120),
+  sender: optionalText(200),
+  notes: optionalText(4000),
+});
+export type BatteryInput = z.infer<typeof BatteryInputSchema>;
+
+/** PATCH body: any subset of the fields. */
+export const BatteryPatchSchema = BatteryInputSchema.partial()
+  .strict()
+  .refine((body) => Object.keys(body).length > 0, { message: 'Nothing to change' });
+export type BatteryPatch = z.infer<typeof BatteryPatchSchema>;
+
+/** A battery pack as the API returns it. */
+export const BatterySchema = BatteryInputSchema.extend({
+  id: z.number().int(),
+  model: z.string().nullable(),
+  ratedWh: z.number().nullable(),
+  bmsRatedAmps: z.number().nullable(),
+  massKg: z.number().nullable(),
+  price: z.number().nullable(),
+  priceCurrency: z.string().nullable(),
+  serialNumber: z.string().nullable(),
+  sender: z.string().nullable(),
+  notes: z.string().nullable(),
+  createdAt: z.string(),
+  updatedAt: z.string(),
+});
+export type Battery = z.infer<typeof BatterySchema>;
