@@ -1,0 +1,125 @@
+import { createBms, type Bms } from '../model/bms.js';
+import { createHeater, type HeaterController } from '../model/heater.js';
+import type { Pack } from '../model/pack.js';
+import { stepTemperature } from '../model/thermal.js';
+import type { Prng } from '../prng.js';
+import type { Scenario } from '../scenario/schema.js';
+import { ambientAt } from './ambient.js';
+import { buildPack } from './build-pack.js';
+import type { SimEvent, SimTotals } from './events.js';
+import { chargeAmps, dischargeAmps } from './load.js';
+
+const SECONDS_PER_HOUR = 3600;
+
+/** The electrical state at one instant: what a meter on the terminals would see. */
+export interface OperatingPoint {
+  /** Current through the cells (positive = discharge). */
+  cellAmps: number;
+  heaterAmps: number;
+  /** Current through the terminals, heater included (positive = discharge). */
+  amps: number;
+  volts: number;
+}
+
+/** The battery on its bench: pack, BMS, heater, chamber and test program, stepped in time. */
+export interface Bench {
+  readonly pack: Pack;
+  readonly events: SimEvent[];
+  readonly totals: SimTotals;
+  readonly t: number;
+  readonly tempC: number;
+  readonly ambientC: number;
+  readonly stepIndex: number;
+  readonly done: boolean;
+  readonly bms: Bms | undefined;
+  readonly heater: HeaterController | undefined;
+  /** The operating point right now. */
+  point(): OperatingPoint;
+  /** Advances the physics by dtS seconds. */
+  advance(dtS: number): void;
+}
+
+/** Creates the bench model for a scenario; physics randomness comes from `prng`. */
+export function createBench(scenario: Scenario, prng: Prng): Bench {
+  const pack = buildPack(scenario.pack, prng);
+  const bms = scenario.bms ? createBms(scenario.bms) : undefined;
+  const heater = scenario.pack.heater ? createHeater(scenario.pack.heater) : undefined;
+  const events: SimEvent[] = [{ t: 0, kind: 'step-start', step: 0 }];
+  const totals: SimTotals = { netWh: 0, netAh: 0, dischargedWh: 0, chargedWh: 0, heaterWh: 0 };
+  let t = 0;
+  let tempC = scenario.pack.initialTempC;
+  let stepIndex = 0;
+  let stepElapsedS = 0;
+  const currentStep = () => scenario.program[stepIndex];
+
+  const point = (): OperatingPoint => {
+    const step = currentStep();
+    if (!step) return { cellAmps: 0, heaterAmps: 0, amps: 0, volts: pack.sourceVolts() };
+    const sourceVolts = pack.sourceVolts();
+    const ohms = pack.ohms(tempC);
+    if (step.kind === 'discharge' || step.kind === 'rest') {
+      const blocked = bms?.dischargeOpen ?? false;
+      const cellAmps = step.kind === 'discharge' && !blocked ? dischargeAmps(step.load, sourceVolts, ohms) : 0;
+      const volts = blocked && scenario.bms?.openTerminal === 'zero' ? 0 : sourceVolts - cellAmps * ohms;
+      return { cellAmps, heaterAmps: 0, amps: cellAmps, volts };
+    }
+    // The pad hangs on the charger side of the charge switch, so it runs even when charging is blocked.
+    const heaterAmps = heater ? heater.amps(sourceVolts) : 0;
+    const cellAmps = bms?.chargeOpen ? 0 : chargeAmps(step.charger, sourceVolts, ohms, heaterAmps);
+    return { cellAmps, heaterAmps, amps: cellAmps - heaterAmps, volts: sourceVolts - cellAmps * ohms };
+  };
+
+  const stopReason = (p: OperatingPoint, trips: SimEvent[], chargeWasOpen: boolean): SimEvent['reason'] | undefined => {
+    const step = currentStep();
+    if (step.kind === 'discharge' && step.endVolts !== undefined && p.cellAmps > 0 && p.volts < step.endVolts) return 'end-volts';
+    if (step.stopWhen === 'bms-trip' && trips.some((e) => e.kind === 'bms-trip')) return 'bms-trip';
+    if (step.stopWhen === 'bms-release' && trips.some((e) => e.kind === 'bms-release')) return 'bms-release';
+    // A blocked charger carries no current: that is not a full pack.
+    if (step.kind === 'charge' && step.stopWhen === 'charged' && !chargeWasOpen && !bms?.chargeOpen) {
+      const termAmps = step.charger.termAmps ?? step.charger.ccAmps / 20;
+      if (-p.cellAmps < termAmps && stepElapsedS > 1) return 'charged';
+    }
+    return stepElapsedS >= step.maxS ? 'max-time' : undefined;
+  };
+
+  const advance = (dtS: number): void => {
+    // After the program ends the bench idles (no load, no charger) so time can still pass.
+    const p = point();
+    const chargeWasOpen = bms?.chargeOpen ?? false;
+    const ambientC = ambientAt(scenario.ambient, t);
+    const cellVolts = pack.cellVolts(p.cellAmps, tempC);
+    const heaterWatts = p.heaterAmps * p.volts;
+    totals.netWh += (p.volts * p.amps * dtS) / SECONDS_PER_HOUR;
+    totals.netAh += (p.amps * dtS) / SECONDS_PER_HOUR;
+    if (p.amps > 0) totals.dischargedWh += (p.volts * p.amps * dtS) / SECONDS_PER_HOUR;
+    else totals.chargedWh -= (p.volts * p.amps * dtS) / SECONDS_PER_HOUR;
+    totals.heaterWh += (heaterWatts * dtS) / SECONDS_PER_HOUR;
+    const heatWatts = pack.step(p.cellAmps, dtS, tempC) + heaterWatts;
+    tempC = stepTemperature(tempC, ambientC, heatWatts, dtS, scenario.pack.thermal);
+    t += dtS;
+    stepElapsedS += dtS;
+    const changes: SimEvent[] = (bms?.update({ cellVolts, amps: p.cellAmps, tempC }, dtS) ?? []).map((c) => ({ t, tempC, ...c }));
+    events.push(...changes);
+    if (heater) {
+      const charging = currentStep()?.kind === 'charge';
+      const change = charging ? heater.update(tempC) : heater.on ? heater.update(Infinity) : undefined;
+      if (change) events.push({ t, kind: change === 'on' ? 'heater-on' : 'heater-off', tempC });
+    }
+    const reason = currentStep() ? stopReason(p, changes, chargeWasOpen) : undefined;
+    if (reason) {
+      events.push({ t, kind: 'step-end', step: stepIndex, reason });
+      stepIndex += 1;
+      stepElapsedS = 0;
+      if (currentStep()) events.push({ t, kind: 'step-start', step: stepIndex });
+    }
+  };
+
+  return {
+    pack, events, totals, bms, heater, point, advance,
+    get t() { return t; },
+    get tempC() { return tempC; },
+    get ambientC() { return ambientAt(scenario.ambient, t); },
+    get stepIndex() { return stepIndex; },
+    get done() { return stepIndex >= scenario.program.length; },
+  };
+}

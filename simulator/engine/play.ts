@@ -1,0 +1,60 @@
+import type { Clock } from './clock.js';
+import type { SimSample } from './simulation.js';
+
+const MS_PER_S = 1000;
+/** Never wake more often than this: at high speeds several samples go out per wake-up. */
+const MIN_WAKE_MS = 5;
+
+/** A running real-time player. */
+export interface Player {
+  /** Resolves when the program has ended or the player was stopped. */
+  readonly finished: Promise<void>;
+  stop(): void;
+}
+
+/**
+ * Releases samples at their due real time: sample k at start + k·period/speed.
+ * Late wake-ups catch up at once, so a busy event loop never stretches simulated time.
+ */
+export function playSamples(
+  source: { step(): SimSample | undefined },
+  samplePeriodS: number,
+  speed: number,
+  clock: Clock,
+  onSample: (sample: SimSample) => void,
+): Player {
+  if (!(speed > 0)) throw new Error(`speed must be a positive number, got ${speed}`);
+  const periodMs = (samplePeriodS * MS_PER_S) / speed;
+  const startMs = clock.now();
+  let index = 0;
+  let handle: unknown;
+  let stopped = false;
+  let resolve: () => void = () => undefined;
+  const finished = new Promise<void>((r) => (resolve = r));
+
+  const wake = (): void => {
+    handle = undefined;
+    while (!stopped && startMs + index * periodMs <= clock.now()) {
+      const next = source.step();
+      if (!next) {
+        stopped = true;
+        resolve();
+        return;
+      }
+      index += 1;
+      onSample(next);
+    }
+    if (stopped) return;
+    const dueMs = startMs + index * periodMs - clock.now();
+    handle = clock.setTimeout(wake, Math.max(MIN_WAKE_MS, dueMs));
+  };
+  wake();
+  return {
+    finished,
+    stop() {
+      stopped = true;
+      if (handle !== undefined) clock.clearTimeout(handle);
+      resolve();
+    },
+  };
+}

@@ -1,0 +1,98 @@
+import type { z } from 'zod';
+import type { Frame } from '../../shared/schemas/frame.js';
+import { isPlugged, measure } from '../meter/measure.js';
+import { createPrng } from '../prng.js';
+import { MeterSchema, ScenarioSchema, type MeterConfig, type Scenario, type ScenarioInput } from '../scenario/schema.js';
+import { createBench, type Bench } from './bench.js';
+import { systemClock, type Clock } from './clock.js';
+import { playSamples, type Player } from './play.js';
+
+export const DEFAULT_SEED = 1;
+
+export interface SimulationOptions {
+  /** Same seed, same physics spread and the same meter noise, hence the same bytes. */
+  seed?: number;
+  /** Simulated seconds per real second when played in real time (60 = a minute a second). */
+  speed?: number;
+  clock?: Clock;
+  /** Overrides of the scenario's meter settings (an ideal meter for checks, say). */
+  meter?: Partial<z.input<typeof MeterSchema>>;
+}
+
+/** One sample of the meter: what it measured, whether it reached the wire, and the truth behind it. */
+export interface SimSample {
+  seq: number;
+  t: number;
+  frame: Frame;
+  /** Set when the sample never leaves the meter (dropped, or the cable is out). */
+  lost?: 'dropped' | 'unplugged';
+  /** The bytes of this sample get damaged on the wire (encoders garble them). */
+  corrupt: boolean;
+  plugged: boolean;
+}
+
+export interface Simulation {
+  readonly scenario: Scenario;
+  readonly meter: MeterConfig;
+  readonly seed: number;
+  readonly bench: Bench;
+  readonly done: boolean;
+  /** The next sample (the first is at t = 0), or undefined once the program has ended. */
+  step(): SimSample | undefined;
+  /** Every frame that reaches the wire intact, to the end of the program. */
+  frames(): Generator<Frame>;
+  /** Plays the samples in real time at the chosen speed; resolves when done or stopped. */
+  play(onSample: (sample: SimSample) => void): Player;
+}
+
+/** Creates a seeded simulation of a scenario (validated with zod), stepped by the caller or played. */
+export function createSimulation(input: Scenario | ScenarioInput, options: SimulationOptions = {}): Simulation {
+  const scenario = ScenarioSchema.parse(input);
+  const meter = MeterSchema.parse({ ...scenario.meter, ...options.meter });
+  const seed = options.seed ?? DEFAULT_SEED;
+  const bench = createBench(scenario, createPrng(seed, 'physics'));
+  const meterPrng = createPrng(seed, 'meter');
+  const hasHeater = scenario.pack.heater !== undefined;
+  const substeps = Math.max(1, Math.ceil(meter.samplePeriodS / scenario.maxPhysicsStepS - 1e-9));
+  const dtS = meter.samplePeriodS / substeps;
+  let seq = 0;
+  let wasPlugged = true;
+
+  const sample = (): SimSample => {
+    const t = Number((seq * meter.samplePeriodS).toFixed(6));
+    const p = bench.point();
+    const truth = {
+      t, volts: p.volts, amps: p.amps, cellTempC: bench.tempC, ambientC: bench.ambientC,
+      ...(hasHeater ? { heaterAmps: p.heaterAmps } : {}),
+    };
+    const frame = measure(truth, seq, meter, meterPrng);
+    const dropped = meterPrng.next() < meter.dropProbability;
+    const corrupt = meterPrng.next() < meter.corruptProbability;
+    const plugged = isPlugged(meter, t);
+    if (plugged !== wasPlugged) bench.events.push({ t, kind: plugged ? 'replug' : 'unplug' });
+    wasPlugged = plugged;
+    const lost = !plugged ? 'unplugged' : dropped ? 'dropped' : undefined;
+    seq += 1;
+    return { seq: seq - 1, t, frame, corrupt: corrupt && !lost, plugged, ...(lost ? { lost } : {}) };
+  };
+
+  const simulation: Simulation = {
+    scenario, meter, seed, bench,
+    get done() {
+      return seq > 0 && bench.done;
+    },
+    step() {
+      if (seq === 0) return sample();
+      if (bench.done) return undefined;
+      for (let i = 0; i < substeps; i += 1) bench.advance(dtS);
+      return sample();
+    },
+    *frames() {
+      for (let s = simulation.step(); s; s = simulation.step()) if (!s.lost && !s.corrupt) yield s.frame;
+    },
+    play(onSample) {
+      return playSamples(simulation, meter.samplePeriodS, options.speed ?? 1, options.clock ?? systemClock, onSample);
+    },
+  };
+  return simulation;
+}

@@ -1,0 +1,57 @@
+import type { Frame } from '../../shared/schemas/frame.js';
+import { HEATER_AMPS_CHANNEL } from '../../shared/schemas/frame.js';
+import type { Prng } from '../prng.js';
+import type { MeterConfig } from '../scenario/schema.js';
+
+/** The true values a meter looks at, before noise and rounding. */
+export interface TrueReading {
+  t: number;
+  volts: number;
+  amps: number;
+  cellTempC: number;
+  ambientC: number;
+  /** Present only on packs with a heater pad. */
+  heaterAmps?: number;
+}
+
+/** Rounds to a resolution step; the toFixed keeps 12.345 from printing as 12.345000000001. */
+export function quantise(value: number, step: number): number {
+  if (step <= 0) return value;
+  const decimals = Math.max(0, Math.ceil(-Math.log10(step) - 1e-9));
+  return Number((Math.round(value / step) * step).toFixed(decimals));
+}
+
+/**
+ * What the meter reports for one true reading: Gaussian noise, then quantisation.
+ * Every call draws the same number of random values so that the stream stays aligned
+ * (the same seed gives the same bytes whatever the values were).
+ */
+export function measure(truth: TrueReading, seq: number, config: MeterConfig, prng: Prng): Frame {
+  const noisy = (value: number, sigma: number, step: number): number => {
+    const deviate = prng.gaussian();
+    return quantise(value + sigma * deviate, step);
+  };
+  const volts = noisy(truth.volts, config.voltsNoise, config.voltsStep);
+  const amps = noisy(truth.amps, config.ampsNoise, config.ampsStep);
+  const cell = noisy(truth.cellTempC, config.tempNoise, config.tempStep);
+  const ambient = noisy(truth.ambientC, config.tempNoise, config.tempStep);
+  const heater = noisy(truth.heaterAmps ?? 0, config.ampsNoise, config.ampsStep);
+  const frame: Frame = {
+    t: truth.t,
+    volts,
+    amps,
+    temps: { cell, ambient },
+    clock: 'device',
+    seq,
+  };
+  // Object.is(-0) would print "-0" in JSON: normalise negative zero from rounding.
+  if (truth.heaterAmps !== undefined) frame.aux = { [HEATER_AMPS_CHANNEL]: Math.max(0, heater) + 0 };
+  frame.volts += 0;
+  frame.amps += 0;
+  return frame;
+}
+
+/** Whether the meter's cable is plugged in at simulated time tS. */
+export function isPlugged(config: MeterConfig, tS: number): boolean {
+  return !config.unplugs.some((u) => tS >= u.atS && tS < u.atS + u.forS);
+}

@@ -1,0 +1,130 @@
+import type { BmsConfig } from '../scenario/schema.js';
+
+export type Protection = 'under-voltage' | 'over-voltage' | 'over-current' | 'cold-charge' | 'over-temperature';
+type Blocks = 'discharge' | 'charge' | 'both';
+
+export interface BmsInputs {
+  cellVolts: readonly number[];
+  /** Pack current, positive = discharge. */
+  amps: number;
+  tempC: number;
+}
+
+export interface BmsChange {
+  kind: 'bms-trip' | 'bms-release';
+  protection: Protection;
+  /** Index of the cell that caused a voltage trip. */
+  cell?: number;
+}
+
+interface Rule {
+  protection: Protection;
+  blocks: Blocks;
+  delayS: number;
+  /** Returns the offending cell index (or -1 for a pack-level fault) when the fault is present. */
+  fault(inputs: BmsInputs): number | undefined;
+  release(inputs: BmsInputs, sinceTripS: number): boolean;
+}
+
+/** Timers add up float steps (0.1 s ...): a tolerance keeps 600 × 0.1 s equal to 60 s. */
+const TIME_EPSILON_S = 1e-6;
+
+const indexOfMin = (values: readonly number[]): number => values.indexOf(Math.min(...values));
+const indexOfMax = (values: readonly number[]): number => values.indexOf(Math.max(...values));
+
+function rulesFor(config: BmsConfig): Rule[] {
+  return [
+    {
+      protection: 'under-voltage',
+      blocks: 'discharge',
+      delayS: config.underVoltDelayS,
+      fault: (i) => (Math.min(...i.cellVolts) < config.cellUnderVolts ? indexOfMin(i.cellVolts) : undefined),
+      release: (i, since) => since >= config.underVoltRecoveryS && Math.min(...i.cellVolts) >= config.cellUnderVoltsRelease,
+    },
+    {
+      protection: 'over-voltage',
+      blocks: 'charge',
+      delayS: config.overVoltDelayS,
+      fault: (i) => (Math.max(...i.cellVolts) > config.cellOverVolts ? indexOfMax(i.cellVolts) : undefined),
+      release: (i, since) => since >= config.overVoltRecoveryS && Math.max(...i.cellVolts) <= config.cellOverVoltsRelease,
+    },
+    {
+      protection: 'over-current',
+      blocks: 'discharge',
+      delayS: config.overCurrentDelayS,
+      fault: (i) => (i.amps > config.overCurrentAmps ? -1 : undefined),
+      release: (_i, since) => since >= config.overCurrentRecoveryS,
+    },
+    {
+      protection: 'cold-charge',
+      blocks: 'charge',
+      delayS: config.coldChargeDelayS,
+      fault: (i) => (i.tempC < config.coldChargeBelowC ? -1 : undefined),
+      release: (i) => i.tempC >= config.coldChargeReleaseC,
+    },
+    {
+      protection: 'over-temperature',
+      blocks: 'both',
+      delayS: config.overTempDelayS,
+      fault: (i) => (i.tempC > config.overTempC ? -1 : undefined),
+      release: (i) => i.tempC <= config.overTempReleaseC,
+    },
+  ];
+}
+
+/** The protection board: per-rule fault timers, latched trips and their release conditions. */
+export interface Bms {
+  readonly dischargeOpen: boolean;
+  readonly chargeOpen: boolean;
+  readonly active: readonly Protection[];
+  /** Advances the timers by dtS with the present readings; returns trips and releases. */
+  update(inputs: BmsInputs, dtS: number): BmsChange[];
+}
+
+/** Creates a BMS with everything closed (conducting). */
+export function createBms(config: BmsConfig): Bms {
+  const rules = rulesFor(config);
+  const faultSeconds = new Map<Protection, number>();
+  const trippedFor = new Map<Protection, number>();
+  const isOpen = (direction: 'discharge' | 'charge'): boolean =>
+    rules.some((rule) => trippedFor.has(rule.protection) && (rule.blocks === direction || rule.blocks === 'both'));
+  return {
+    get dischargeOpen() {
+      return isOpen('discharge');
+    },
+    get chargeOpen() {
+      return isOpen('charge');
+    },
+    get active() {
+      return [...trippedFor.keys()];
+    },
+    update(inputs, dtS) {
+      const changes: BmsChange[] = [];
+      for (const rule of rules) {
+        const since = trippedFor.get(rule.protection);
+        if (since !== undefined) {
+          const elapsed = since + dtS;
+          if (rule.release(inputs, elapsed + TIME_EPSILON_S)) {
+            trippedFor.delete(rule.protection);
+            changes.push({ kind: 'bms-release', protection: rule.protection });
+          } else trippedFor.set(rule.protection, elapsed);
+          continue;
+        }
+        const cell = rule.fault(inputs);
+        if (cell === undefined) {
+          faultSeconds.delete(rule.protection);
+          continue;
+        }
+        // A fault must persist for the whole delay before the switch opens (no nuisance trips).
+        const seconds = (faultSeconds.get(rule.protection) ?? 0) + dtS;
+        faultSeconds.set(rule.protection, seconds);
+        if (seconds + TIME_EPSILON_S >= rule.delayS) {
+          faultSeconds.delete(rule.protection);
+          trippedFor.set(rule.protection, 0);
+          changes.push({ kind: 'bms-trip', protection: rule.protection, ...(cell >= 0 ? { cell } : {}) });
+        }
+      }
+      return changes;
+    },
+  };
+}

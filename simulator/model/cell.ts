@@ -1,0 +1,74 @@
+import { CHEMISTRIES, type Chemistry } from './chemistry.js';
+import { ocvAt } from './ocv.js';
+
+const REFERENCE_TEMP_C = 25;
+const SECONDS_PER_HOUR = 3600;
+/** Below this state of charge the resistance climbs (the knee near empty). */
+const LOW_SOC_KNEE = 0.12;
+/** How many times the resistance multiplies at 0 % through the low-SoC knee. */
+const LOW_SOC_GAIN: Readonly<Record<Chemistry, number>> = { lfp: 2, nmc: 2, 'lead-acid': 6 };
+/** Volts per unit of SoC below empty: an over-discharged cell collapses steeply. */
+const OVER_DISCHARGE_SLOPE_VOLTS = 20;
+/** Cold electrolyte is limited: resistance growth is capped so the exponential stays sane. */
+const MAX_COLD_FACTOR = 20;
+
+export interface CellParams {
+  chemistry: Chemistry;
+  capacityAh: number;
+  /** Capacity at the chemistry's rated rate, for the Peukert reference current. */
+  ratedAh: number;
+  ohmicOhms: number;
+  initialSoc: number;
+}
+
+/** One cell: state of charge, ohmic resistance and one RC pair. */
+export interface Cell {
+  readonly params: CellParams;
+  soc: number;
+  /** Voltage across the RC pair (positive while discharging). */
+  rcVolts: number;
+  /** Open-circuit volts at the present state of charge. */
+  ocv(): number;
+  /** Ohmic resistance at a temperature and the present state of charge. */
+  ohms(tempC: number): number;
+  /** RC pair resistance at a temperature. */
+  rcOhms(tempC: number): number;
+  /** Advances the cell by dtS seconds carrying amps (positive = discharge). */
+  step(amps: number, dtS: number, tempC: number): void;
+}
+
+/** Creates a cell model from its parameters. */
+export function createCell(params: CellParams): Cell {
+  const chem = CHEMISTRIES[params.chemistry];
+  const referenceAmps = params.ratedAh / chem.ratedHours;
+  const temperatureFactor = (tempC: number): number =>
+    Math.min(MAX_COLD_FACTOR, Math.exp(chem.resistancePerKelvin * (REFERENCE_TEMP_C - tempC)));
+
+  const cell: Cell = {
+    params,
+    soc: params.initialSoc,
+    rcVolts: 0,
+    ocv() {
+      if (cell.soc >= 0) return ocvAt(params.chemistry, cell.soc);
+      return ocvAt(params.chemistry, 0) + OVER_DISCHARGE_SLOPE_VOLTS * cell.soc;
+    },
+    ohms(tempC) {
+      const depth = Math.max(0, 1 - cell.soc / LOW_SOC_KNEE);
+      const lowSocFactor = 1 + LOW_SOC_GAIN[params.chemistry] * depth * depth;
+      return params.ohmicOhms * temperatureFactor(tempC) * lowSocFactor;
+    },
+    rcOhms(tempC) {
+      return params.ohmicOhms * chem.rcResistanceRatio * temperatureFactor(tempC);
+    },
+    step(amps, dtS, tempC) {
+      // Exact solution of the RC pair for a current held constant over the step.
+      const decay = Math.exp(-dtS / chem.rcTauSeconds);
+      cell.rcVolts = cell.rcVolts * decay + amps * cell.rcOhms(tempC) * (1 - decay);
+      // Peukert: discharging faster than the rated rate uses up more charge than it delivers.
+      const peukert =
+        amps > 0 ? Math.pow(amps / referenceAmps, chem.peukertExponent - 1) : 1;
+      cell.soc -= (amps * peukert * dtS) / (SECONDS_PER_HOUR * params.capacityAh);
+    },
+  };
+  return cell;
+}

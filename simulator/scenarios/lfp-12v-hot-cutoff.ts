@@ -1,0 +1,33 @@
+import type { ScenarioInput } from '../scenario/schema.js';
+import { lfpBms, lfpThermal } from './lfp-defaults.js';
+
+/** A high-temperature protection check: a discharging pack in a chamber that warms past the limit. */
+export const lfp12vHotCutoff: ScenarioInput = {
+  name: 'lfp-12v-hot-cutoff',
+  title: 'Hollis Power 12.8 V 50 Ah LFP: over-temperature cutoff in a warm chamber',
+  description:
+    'A 4-cell LFP pack discharging at 25 A while the chamber ramps from 45 °C to 80 °C and back ' +
+    'to 30 °C. The BMS opens 10 s after the pack passes 60 °C and closes again below 50 °C.',
+  pack: {
+    label: 'Hollis Power 12.8 V 50 Ah',
+    chemistry: 'lfp',
+    cellsInSeries: 4,
+    ratedAh: 50,
+    initialSoc: 1,
+    initialTempC: 42,
+    // The chamber's fan stirs the air, so the pack follows the chamber closer than in still air.
+    thermal: { ...lfpThermal(4, 50), toAmbientKPerW: 0.5 },
+  },
+  bms: lfpBms(),
+  ambient: [
+    { atS: 0, tempC: 45 },
+    { atS: 1200, tempC: 80 },
+    { atS: 4200, tempC: 80 },
+    { atS: 6000, tempC: 30 },
+  ],
+  program: [
+    { kind: 'discharge', load: { mode: 'cc', amps: 25 }, maxS: 7200, stopWhen: 'bms-trip' }, { kind: 'rest', maxS: 7200, stopWhen: 'bms-release' },
+    { kind: 'rest', maxS: 300 },
+  ],
+  meter: { samplePeriodS: 1, voltsNoise: 0.002, ampsNoise: 0.01, tempNoise: 0.05 },
+};

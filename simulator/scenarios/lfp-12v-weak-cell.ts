@@ -1,0 +1,28 @@
+import type { ScenarioInput } from '../scenario/schema.js';
+import { lfpBms, lfpThermal } from './lfp-defaults.js';
+
+/** A pack whose third cell has lost a fifth of its capacity: the BMS cuts off on that cell early. */
+export const lfp12vWeakCell: ScenarioInput = {
+  name: 'lfp-12v-weak-cell',
+  title: 'Voltara 12.8 V 100 Ah LFP with one weak cell: early cutoff at 50 A',
+  description:
+    'Cell 3 of 4 (index 2) holds 80 % of the others\' capacity; at 50 A it reaches the BMS ' +
+    'under-voltage limit first and the pack disconnects well short of its rating.',
+  pack: {
+    label: 'Voltara 12.8 V 100 Ah (returned unit)',
+    chemistry: 'lfp',
+    cellsInSeries: 4,
+    ratedAh: 100,
+    initialSoc: 1,
+    initialTempC: 22,
+    cells: [{ index: 2, capacityFactor: 0.8, resistanceFactor: 1.3 }],
+    thermal: lfpThermal(4, 100),
+  },
+  bms: lfpBms(),
+  ambient: [{ atS: 0, tempC: 22 }],
+  program: [
+    { kind: 'discharge', load: { mode: 'cc', amps: 50 }, maxS: 3 * 3600, stopWhen: 'bms-trip' },
+    { kind: 'rest', maxS: 300 },
+  ],
+  meter: { samplePeriodS: 1, voltsNoise: 0.002, ampsNoise: 0.02, tempNoise: 0.05 },
+};
