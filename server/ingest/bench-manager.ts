@@ -1,0 +1,120 @@
+import type { BenchSourceConfig, BenchStatus } from '../../shared/schemas/bench.js';
+import type { Frame } from '../../shared/schemas/frame.js';
+import { ListenerSet } from './listener-set.js';
+import { createSource, type SourceDeps } from './sources/create-source.js';
+import { IdleSource } from './sources/idle-source.js';
+import type { Source } from './sources/source.js';
+
+/** What the manager needs to know of a bench. */
+export interface ManagedBench {
+  id: number;
+  source: BenchSourceConfig;
+  enabled: boolean;
+}
+
+/** A frame listener: every valid frame of every bench, in order per bench. */
+export type FrameListener = (benchId: number, frame: Frame) => void;
+/** A status listener: state or message changes of any bench. */
+export type StatusListener = (benchId: number, status: BenchStatus) => void;
+
+interface Entry {
+  config: string;
+  enabled: boolean;
+  source: Source;
+}
+
+const UNKNOWN_BENCH: BenchStatus = { state: 'idle', message: 'bench not running', framesOk: 0, framesRejected: 0 };
+
+/**
+ * Holds one source per bench and fans their frames and status out to listeners (the
+ * run recorder, the WebSocket hub). Sources never throw into it and listeners are
+ * isolated from one another, so one faulty consumer never stops ingest.
+ */
+export class BenchManager {
+  private readonly entries = new Map<number, Entry>();
+  private readonly frameListeners: ListenerSet<[number, Frame]>;
+  private readonly statusListeners: ListenerSet<[number, BenchStatus]>;
+
+  constructor(
+    private readonly deps: SourceDeps = {},
+    private readonly log: (message: string, err?: unknown) => void = (message, err) => console.warn(message, err),
+  ) {
+    this.frameListeners = new ListenerSet((err) => this.log('bench frame listener failed', err));
+    this.statusListeners = new ListenerSet((err) => this.log('bench status listener failed', err));
+  }
+
+  /** Subscribes to frames of all benches; returns the unsubscribe. */
+  onFrame(listener: FrameListener): () => void {
+    return this.frameListeners.add(listener);
+  }
+
+  /** Subscribes to status changes of all benches; returns the unsubscribe. */
+  onStatus(listener: StatusListener): () => void {
+    return this.statusListeners.add(listener);
+  }
+
+  /** The live status of a bench (idle when it is not managed). */
+  getStatus(benchId: number): BenchStatus {
+    return this.entries.get(benchId)?.source.getStatus() ?? UNKNOWN_BENCH;
+  }
+
+  /** Ids of the benches currently managed. */
+  benchIds(): number[] {
+    return [...this.entries.keys()];
+  }
+
+  /** Starts a bench, or restarts it when its source or enabled flag changed; unchanged benches keep running. */
+  async apply(bench: ManagedBench): Promise<void> {
+    const config = JSON.stringify(bench.source);
+    const current = this.entries.get(bench.id);
+    if (current && current.config === config && current.enabled === bench.enabled) return;
+    await this.remove(bench.id);
+    const source = bench.enabled
+      ? createSource(bench.source, this.sinkFor(bench.id), this.deps)
+      : new IdleSource('bench disabled');
+    const entry: Entry = { config, enabled: bench.enabled, source };
+    this.entries.set(bench.id, entry);
+    source.start();
+    this.statusListeners.emit(bench.id, source.getStatus());
+  }
+
+  /** Makes the managed set match `benches`: starts new ones, reconfigures changed ones, stops the rest. */
+  async sync(benches: ManagedBench[]): Promise<void> {
+    const keep = new Set(benches.map((b) => b.id));
+    for (const id of this.benchIds()) if (!keep.has(id)) await this.remove(id);
+    for (const bench of benches) await this.apply(bench);
+  }
+
+  /** Stops a bench's source and closes its port, then restarts it with the same configuration. */
+  async restart(benchId: number): Promise<boolean> {
+    const entry = this.entries.get(benchId);
+    if (!entry) return false;
+    await entry.source.stop();
+    // Only restart if nobody replaced or removed the bench while it was stopping.
+    if (this.entries.get(benchId) === entry) entry.source.start();
+    return true;
+  }
+
+  /** Stops and forgets a bench. */
+  async remove(benchId: number): Promise<void> {
+    const entry = this.entries.get(benchId);
+    if (!entry) return;
+    this.entries.delete(benchId);
+    await entry.source.stop();
+    this.statusListeners.emit(benchId, UNKNOWN_BENCH);
+  }
+
+  /** Stops every source (server shutdown). */
+  async stopAll(): Promise<void> {
+    for (const id of this.benchIds()) await this.remove(id);
+  }
+
+  private sinkFor(benchId: number) {
+    return {
+      frame: (frame: Frame) => {
+        if (this.entries.has(benchId)) this.frameListeners.emit(benchId, frame);
+      },
+      status: (status: BenchStatus) => this.statusListeners.emit(benchId, status),
+    };
+  }
+}
