@@ -48,6 +48,8 @@ export const MeasureConfigSchema = z.object({
   /** Recovery threshold after a protection cutoff; default the end voltage. */
   recoveryVolts: pos.optional(),
   tempProtections: z.array(TempProtectionSchema).default([]),
+  /** Hysteresis on temperature limits: back inside only this far past the limit, °C. */
+  tempHysteresisCelsius: nonNeg.default(1),
   /** Heater current above this turns the heater "on"; below heaterOffAmps "off". */
   heaterOnAmps: pos.default(0.5),
   heaterOffAmps: nonNeg.default(0.2),
