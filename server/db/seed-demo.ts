@@ -37,9 +37,12 @@ export interface SeedResult {
   seeded: boolean;
 }
 
-/** Seeds the demo lab (settings, three accounts, four packs) when the database has no users yet. */
-export async function seedDemo(models: CoreModels, demoPassword: string): Promise<SeedResult> {
-  if ((await models.User.count()) > 0) return { seeded: false };
+/**
+ * Seeds the demo lab (settings, three accounts, four packs) when the database has no users yet,
+ * or regardless with `force` (tests that already created their own users).
+ */
+export async function seedDemo(models: CoreModels, demoPassword: string, options: { force?: boolean } = {}): Promise<SeedResult> {
+  if (!options.force && (await models.User.count()) > 0) return { seeded: false };
   const passwordHash = await hashPassword(demoPassword);
   await models.User.sequelize!.transaction(async (transaction) => {
     const users = await models.User.bulkCreate(DEMO_ACCOUNTS.map((account) => ({ ...account, passwordHash })), { transaction });
