@@ -1,8 +1,10 @@
 import type { Config } from 'tailwindcss';
+import { BENCH_STATUS_COLORS, NEUTRALS, RUN_STATE_COLORS, SIGNAL_COLORS } from './src/lib/palette';
 
 /**
- * Kneepoint's own palette. Bench (dark) surfaces for the lab, paper (light) surfaces for
- * reports. Run-state colours are defined once here and used the same way on every screen.
+ * Kneepoint's own palette. Semantic colours (surface, ink, line, accent) point at CSS
+ * variables set in src/styles.css for the dark "bench" theme and the light "report" theme;
+ * run-state, bench-status and signal colours come from src/lib/palette.ts, defined once.
  */
 export default {
   content: ['./index.html', './src/**/*.{ts,tsx}'],
@@ -10,34 +12,23 @@ export default {
   theme: {
     extend: {
       colors: {
-        bench: {
-          950: '#0d1117',
-          900: '#131a22',
-          800: '#1b2430',
-          700: '#263241',
-          600: '#35465a',
-          400: '#8aa0b8',
-          200: '#d4dee9',
+        ...NEUTRALS,
+        surface: {
+          DEFAULT: 'var(--kp-surface)',
+          raised: 'var(--kp-surface-raised)',
+          sunken: 'var(--kp-surface-sunken)',
         },
-        paper: { 50: '#fbfaf7', 100: '#f3f1ea', 300: '#d9d4c5', 700: '#4a463c', 900: '#1f1d18' },
-        signal: {
-          volts: '#f2b134',
-          amps: '#3fb6c9',
-          watts: '#b58cf0',
-          temp: '#ef7d57',
-        },
-        state: {
-          armed: '#7aa2d6',
-          recording: '#3fbf7f',
-          cutoff: '#e5484d',
-          recovered: '#d99a2b',
-          finished: '#8c97a6',
-          aborted: '#6b5b7b',
-        },
+        ink: { DEFAULT: 'var(--kp-ink)', muted: 'var(--kp-ink-muted)', faint: 'var(--kp-ink-faint)' },
+        line: 'var(--kp-line)',
+        accent: { DEFAULT: 'var(--kp-accent)', ink: 'var(--kp-accent-ink)' },
+        caution: { DEFAULT: 'var(--kp-caution)', surface: 'var(--kp-caution-surface)' },
+        signal: SIGNAL_COLORS,
+        state: RUN_STATE_COLORS,
+        status: BENCH_STATUS_COLORS,
       },
       fontFamily: {
         mono: ['"JetBrains Mono"', 'ui-monospace', 'monospace'],
-        sans: ['system-ui', '"Segoe UI"', 'Roboto', 'sans-serif'],
+        sans: ['system-ui', '"Segoe UI"', 'Roboto', '"Helvetica Neue"', 'sans-serif'],
       },
     },
   },

@@ -1,0 +1,94 @@
+import { useParams } from 'react-router-dom';
+import { useMe } from '../../features/auth/api/get-me';
+import { BatteriesPage } from '../../features/batteries/components/batteries-page';
+import { BenchesOverview } from '../../features/benches/components/benches-overview';
+import { BenchLivePage } from '../../features/live/components/bench-live-page';
+import { RoomView } from '../../features/live/components/room-view';
+import { RunDetail } from '../../features/runs/components/run-detail';
+import { RunsTable } from '../../features/runs/components/runs-table';
+import { SettingsForm } from '../../features/settings/components/settings-form';
+import { UsersPage } from '../../features/users/components/users-page';
+import { PageHeader } from '../../components/ui/card';
+import { hasRole } from '../../lib/roles';
+import { RequireRole } from '../require-auth';
+
+/** A numeric route parameter, or NaN (the page then shows "not found"). */
+function useIdParam(name: string): number {
+  const value = useParams()[name];
+  return value && /^\d+$/.test(value) ? Number(value) : Number.NaN;
+}
+
+function NotFound() {
+  return <PageHeader title="Not found" subtitle="There is nothing at this address." />;
+}
+
+/** Dashboard: every bench live. */
+export function DashboardRoute() {
+  const me = useMe();
+  return (
+    <>
+      <PageHeader title="Benches" subtitle="Live status of every bench in the lab." />
+      <BenchesOverview canManage={hasRole(me.data?.role, 'admin')} />
+    </>
+  );
+}
+
+/** One bench, live. */
+export function BenchRoute() {
+  const me = useMe();
+  const benchId = useIdParam('benchId');
+  if (Number.isNaN(benchId)) return <NotFound />;
+  return <BenchLivePage key={benchId} benchId={benchId} canAct={hasRole(me.data?.role, 'technician')} />;
+}
+
+/** The across-the-room view. */
+export function RoomRoute() {
+  const benchId = useIdParam('benchId');
+  if (Number.isNaN(benchId)) return <NotFound />;
+  return <RoomView key={benchId} benchId={benchId} />;
+}
+
+/** The run archive. */
+export function RunsRoute() {
+  return (
+    <>
+      <PageHeader title="Runs" subtitle="Every run recorded or imported, searchable." />
+      <RunsTable />
+    </>
+  );
+}
+
+/** One recorded run. */
+export function RunRoute() {
+  const runId = useIdParam('runId');
+  if (Number.isNaN(runId)) return <NotFound />;
+  return <RunDetail key={runId} runId={runId} />;
+}
+
+/** Battery packs. */
+export function BatteriesRoute() {
+  const me = useMe();
+  return <BatteriesPage canWrite={hasRole(me.data?.role, 'technician')} />;
+}
+
+/** User management (admin). */
+export function UsersRoute() {
+  const me = useMe();
+  return (
+    <RequireRole min="admin">
+      <UsersPage currentUserId={me.data?.id ?? 0} />
+    </RequireRole>
+  );
+}
+
+/** Lab settings (admin). */
+export function SettingsRoute() {
+  return (
+    <RequireRole min="admin">
+      <PageHeader title="Lab settings" subtitle="Defaults for every run and every screen in the lab." />
+      <SettingsForm />
+    </RequireRole>
+  );
+}
+
+export { NotFound as NotFoundRoute };

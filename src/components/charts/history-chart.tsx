@@ -1,0 +1,125 @@
+import { useEffect, useRef } from 'react';
+import uPlot from 'uplot';
+import 'uplot/dist/uPlot.min.css';
+import type { SamplesResponse } from '../../../shared/schemas/api-runs';
+import { SIGNAL_COLORS } from '../../lib/palette';
+import { formatAmps, formatElapsedClock, formatTemperature, formatVolts } from '../../lib/units';
+import { useTheme } from '../../lib/use-theme';
+import { AXIS_FONT, chartTheme } from './chart-theme';
+import { useChartWidth } from './use-chart-size';
+
+/** A vertical line on the chart at a run time (cutoff, recovery, a note). */
+export interface ChartMarker {
+  t: number;
+  color: string;
+}
+
+const BAND_ALPHA_HEX = '33';
+const MARKER_WIDTH_PX = 2;
+
+function toData(s: SamplesResponse): uPlot.AlignedData {
+  const tempName = Object.keys(s.temps).sort()[0];
+  const temp = tempName ? s.temps[tempName].max : s.t.map(() => null);
+  return [s.t, s.volts.max, s.volts.min, s.amps.max, s.amps.min, temp];
+}
+
+function buildOptions(width: number, heightPx: number, temperatureUnit: 'C' | 'F', markers: readonly ChartMarker[], onZoom: (from: number, to: number) => void): uPlot.Options {
+  const { axis, grid } = chartTheme();
+  const axisBase = { stroke: axis, font: AXIS_FONT, grid: { stroke: grid }, ticks: { stroke: grid } };
+  return {
+    width,
+    height: heightPx,
+    scales: { x: { time: false } },
+    // Dragging selects a window; we fetch that window again at finer resolution.
+    cursor: { drag: { x: true, y: false, setScale: false } },
+    series: [
+      { label: 'Run time', value: (_u, v) => formatElapsedClock(v) },
+      { label: 'Volts max', scale: 'V', stroke: SIGNAL_COLORS.volts, width: 2, value: (_u, v) => formatVolts(v) },
+      { label: 'Volts min', scale: 'V', stroke: SIGNAL_COLORS.volts, width: 1, value: (_u, v) => formatVolts(v) },
+      { label: 'Amps max', scale: 'A', stroke: SIGNAL_COLORS.amps, width: 2, value: (_u, v) => formatAmps(v) },
+      { label: 'Amps min', scale: 'A', stroke: SIGNAL_COLORS.amps, width: 1, value: (_u, v) => formatAmps(v) },
+      { label: 'Temperature', scale: 'C', stroke: SIGNAL_COLORS.temp, width: 1, value: (_u, v) => formatTemperature(v, temperatureUnit) },
+    ],
+    // Min/max bands: a spike or a cutoff inside a bucket is never averaged away.
+    bands: [
+      { series: [1, 2], fill: SIGNAL_COLORS.volts + BAND_ALPHA_HEX },
+      { series: [3, 4], fill: SIGNAL_COLORS.amps + BAND_ALPHA_HEX },
+    ],
+    axes: [
+      { ...axisBase, values: (_u, ticks) => ticks.map((t) => formatElapsedClock(t)) },
+      { ...axisBase, scale: 'V', values: (_u, ticks) => ticks.map((t) => `${t} V`), size: 70 },
+      { ...axisBase, scale: 'A', side: 1, grid: { show: false }, values: (_u, ticks) => ticks.map((t) => `${t} A`), size: 70 },
+    ],
+    hooks: {
+      setSelect: [
+        (u) => {
+          if (u.select.width < 2) return;
+          const from = u.posToVal(u.select.left, 'x');
+          const to = u.posToVal(u.select.left + u.select.width, 'x');
+          u.setSelect({ left: 0, top: 0, width: 0, height: 0 }, false);
+          onZoom(from, to);
+        },
+      ],
+      draw: [
+        (u) => {
+          const { ctx, bbox } = u;
+          ctx.save();
+          ctx.lineWidth = MARKER_WIDTH_PX * devicePixelRatio;
+          for (const m of markers) {
+            const x = Math.round(u.valToPos(m.t, 'x', true));
+            if (x < bbox.left || x > bbox.left + bbox.width) continue;
+            ctx.strokeStyle = m.color;
+            ctx.beginPath();
+            ctx.moveTo(x, bbox.top);
+            ctx.lineTo(x, bbox.top + bbox.height);
+            ctx.stroke();
+          }
+          ctx.restore();
+        },
+      ],
+    },
+  };
+}
+
+interface Props {
+  samples: SamplesResponse;
+  markers?: readonly ChartMarker[];
+  onZoom: (from: number, to: number) => void;
+  heightPx?: number;
+  temperatureUnit?: 'C' | 'F';
+}
+
+/** A run's history from min/max buckets; drag across it to zoom (the page fetches again). */
+export function HistoryChart({ samples, markers = [], onZoom, heightPx = 360, temperatureUnit = 'C' }: Props) {
+  const containerRef = useRef<HTMLDivElement>(null);
+  const plotRef = useRef<uPlot | null>(null);
+  const zoomRef = useRef(onZoom);
+  const width = useChartWidth(containerRef);
+  const { theme } = useTheme();
+
+  useEffect(() => {
+    zoomRef.current = onZoom;
+  });
+
+  useEffect(() => {
+    const el = containerRef.current;
+    if (!el) return;
+    const plot = new uPlot(
+      buildOptions(el.clientWidth || width, heightPx, temperatureUnit, markers, (from, to) => zoomRef.current(from, to)),
+      toData(samples),
+      el,
+    );
+    plotRef.current = plot;
+    return () => {
+      plot.destroy();
+      plotRef.current = null;
+    };
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, [samples, markers, heightPx, theme, temperatureUnit]);
+
+  useEffect(() => {
+    plotRef.current?.setSize({ width, height: heightPx });
+  }, [width, heightPx]);
+
+  return <div ref={containerRef} className="w-full" data-testid="history-chart" />;
+}

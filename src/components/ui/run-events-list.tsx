@@ -1,0 +1,73 @@
+import type { RunEvent } from '../../../shared/schemas/run-event';
+import { RUN_STATE_COLORS, SIGNAL_COLORS } from '../../lib/palette';
+import { formatAmps, formatCharge, formatDuration, formatElapsedClock, formatEnergy, formatTemperature, formatVolts } from '../../lib/units';
+
+const MILESTONE_LABEL = {
+  'half-rated-ah': '50 % of rated Ah',
+  'rated-ah': '100 % of rated Ah',
+  'half-rated-wh': '50 % of rated Wh',
+  'rated-wh': '100 % of rated Wh',
+  'near-end-voltage': 'Nearing the end voltage',
+} as const;
+
+/** One line of words for an event, with every number in its unit. */
+export function describeEvent(e: RunEvent, temperatureUnit: 'C' | 'F' = 'C'): string {
+  switch (e.type) {
+    case 'cutoff':
+      return `Cutoff (${e.cause === 'protection' ? 'pack protection opened' : 'end voltage reached'}) at ${formatVolts(e.volts)} after ${formatEnergy(e.dischargeWh)}, ${formatCharge(e.dischargeAh)}`;
+    case 'recovery':
+      return `Pack reconnected after ${formatDuration(e.recoverySeconds)}, ${formatVolts(e.volts)}`;
+    case 'alarm':
+      return `${e.level === 'critical' ? 'Alarm' : e.level === 'warning' ? 'Warning' : 'Note'}: ${e.message}`;
+    case 'annotation':
+      return e.author ? `${e.author}: ${e.text}` : e.text;
+    case 'gap':
+      return `No readings for ${formatDuration(e.gapSeconds)} (nothing integrated across the gap)`;
+    case 'source-lost':
+      return `Meter lost${e.reason ? `: ${e.reason}` : ''}`;
+    case 'source-restored':
+      return `Meter back${e.downSeconds != null ? ` after ${formatDuration(e.downSeconds)}` : ''}`;
+    case 'protection-trip':
+      return `Temperature protection (${e.kind}) on ${e.channel} at ${formatTemperature(e.tempCelsius, temperatureUnit)}, limit ${formatTemperature(e.limitCelsius, temperatureUnit)}, delay ${formatDuration(e.delaySeconds)}`;
+    case 'protection-reset':
+      return `Protection (${e.kind}) reset on ${e.channel} at ${formatTemperature(e.tempCelsius, temperatureUnit)}`;
+    case 'heater-on':
+      return `Heater on, ${formatAmps(e.heaterAmps)}${e.tempCelsius != null ? ` at ${formatTemperature(e.tempCelsius, temperatureUnit)}` : ''}`;
+    case 'heater-off':
+      return `Heater off after ${formatDuration(e.onSeconds)}, mean ${formatAmps(e.meanHeaterAmps)}`;
+    case 'milestone':
+      return `${MILESTONE_LABEL[e.milestone]}: ${formatVolts(e.volts)}, ${formatEnergy(e.dischargeWh)}, ${formatCharge(e.dischargeAh)}`;
+    case 'run-start':
+      return 'Run started';
+    case 'run-stop':
+      return `Run stopped${e.note ? `: ${e.note}` : ''}`;
+    case 'load-on':
+      return 'Load on';
+    case 'load-off':
+      return 'Load off';
+  }
+}
+
+function eventColor(e: RunEvent): string {
+  if (e.type === 'cutoff' || e.type === 'protection-trip' || (e.type === 'alarm' && e.level === 'critical')) return RUN_STATE_COLORS.cutoff;
+  if (e.type === 'recovery' || e.type === 'protection-reset') return RUN_STATE_COLORS.recovered;
+  if (e.type === 'annotation') return SIGNAL_COLORS.amps;
+  if (e.type === 'gap' || e.type === 'source-lost' || e.type === 'alarm') return RUN_STATE_COLORS.recovered;
+  return RUN_STATE_COLORS.finished;
+}
+
+/** A run's timeline, newest first, each event at its run time. */
+export function RunEventsList({ events, temperatureUnit = 'C' }: { events: readonly RunEvent[]; temperatureUnit?: 'C' | 'F' }) {
+  if (events.length === 0) return <p className="text-sm text-ink-faint">No events yet.</p>;
+  const newestFirst = [...events].sort((a, b) => b.t - a.t);
+  return (
+    <ol aria-label="Run events" className="flex flex-col gap-2">
+      {newestFirst.map((e, i) => (
+        <li key={`${e.t}-${e.type}-${i}`} className="flex gap-3 border-l-4 pl-3 text-sm" style={{ borderColor: eventColor(e) }}>
+          <span className="num shrink-0 text-ink-muted">{formatElapsedClock(e.t)}</span>
+          <span className="text-ink">{describeEvent(e, temperatureUnit)}</span>
+        </li>
+      ))}
+    </ol>
+  );
+}

@@ -1,0 +1,30 @@
+import { queryOptions, useQuery } from '@tanstack/react-query';
+import { z } from 'zod';
+import { PublicUserSchema, type PublicUser } from '../../../../shared/schemas/user';
+import { api, ApiError } from '../../../lib/api-client';
+
+const HTTP_UNAUTHORIZED = 401;
+
+// `me` answers { user } (or the user itself on older builds); both parse to a user.
+const MeResponseSchema = z.union([z.object({ user: PublicUserSchema }), PublicUserSchema.transform((user) => ({ user }))]);
+
+/** Who is signed in, or null when nobody is (a 401 is an answer here, not an error). */
+export async function getMe(): Promise<PublicUser | null> {
+  try {
+    const body = await api('/api/auth/me', { schema: MeResponseSchema });
+    return body.user;
+  } catch (error) {
+    if (error instanceof ApiError && error.status === HTTP_UNAUTHORIZED) return null;
+    throw error;
+  }
+}
+
+export const ME_QUERY_KEY = ['auth', 'me'] as const;
+
+/** Query options for the current user; shared by the guard, the layout and the sign-in page. */
+export const meQueryOptions = () => queryOptions({ queryKey: ME_QUERY_KEY, queryFn: getMe, staleTime: Infinity });
+
+/** The current user (undefined while loading, null when signed out). */
+export function useMe() {
+  return useQuery(meQueryOptions());
+}

@@ -1,0 +1,28 @@
+import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { z } from 'zod';
+import { BatterySchema, type BatteryInput } from '../../../../shared/schemas/battery';
+import { api } from '../../../lib/api-client';
+
+const BATTERIES_KEY = ['batteries'] as const;
+
+/** GET /api/batteries */
+export const batteriesQueryOptions = () =>
+  queryOptions({
+    queryKey: BATTERIES_KEY,
+    queryFn: () => api('/api/batteries', { schema: z.object({ batteries: z.array(BatterySchema) }) }).then((b) => b.batteries),
+  });
+
+/** Every registered pack. */
+export function useBatteries() {
+  return useQuery(batteriesQueryOptions());
+}
+
+/** POST /api/batteries (technician): register a pack. */
+export function useCreateBattery() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (body: BatteryInput) =>
+      api('/api/batteries', { method: 'POST', body, schema: z.object({ battery: BatterySchema }) }).then((b) => b.battery),
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: BATTERIES_KEY }),
+  });
+}

@@ -1,0 +1,82 @@
+import { useForm } from 'react-hook-form';
+import { CHEMISTRIES, type BatteryInput, type Chemistry } from '../../../../shared/schemas/battery';
+import { Button } from '../../../components/ui/button';
+import { SelectField, TextField } from '../../../components/ui/field';
+import { ApiError } from '../../../lib/api-client';
+import { useCreateBattery } from '../api/batteries';
+import { CHEMISTRY_LABEL } from './chemistry-label';
+
+interface Values {
+  label: string;
+  brand: string;
+  model: string;
+  chemistry: Chemistry;
+  cellsInSeries: string;
+  cellsInParallel: string;
+  ratedAh: string;
+  ratedWh: string;
+  bmsRatedAmps: string;
+  massKg: string;
+  serialNumber: string;
+  sender: string;
+}
+
+const optionalNumber = (v: string) => (v.trim() === '' ? null : Number(v));
+const positive = (v: string) => v.trim() === '' || Number(v) > 0 || 'A number above 0.';
+
+/** Registers a pack as it arrives at the lab (technicians and lab managers). */
+export function BatteryForm({ onDone }: { onDone: () => void }) {
+  const create = useCreateBattery();
+  const { register, handleSubmit, formState: { errors } } = useForm<Values>({
+    defaultValues: { chemistry: 'lfp', cellsInSeries: '', cellsInParallel: '1', label: '', brand: '', model: '', ratedAh: '', ratedWh: '', bmsRatedAmps: '', massKg: '', serialNumber: '', sender: '' },
+  });
+  const server = create.error instanceof ApiError ? create.error.fields : {};
+
+  const onSubmit = handleSubmit((v) => {
+    const body: BatteryInput = {
+      label: v.label.trim(),
+      brand: v.brand.trim(),
+      model: v.model.trim() || null,
+      chemistry: v.chemistry,
+      cellsInSeries: Number(v.cellsInSeries),
+      cellsInParallel: Number(v.cellsInParallel || 1),
+      ratedAh: Number(v.ratedAh),
+      ratedWh: optionalNumber(v.ratedWh),
+      bmsRatedAmps: optionalNumber(v.bmsRatedAmps),
+      massKg: optionalNumber(v.massKg),
+      serialNumber: v.serialNumber.trim() || null,
+      sender: v.sender.trim() || null,
+    };
+    create.mutate(body, { onSuccess: onDone });
+  });
+
+  return (
+    <form onSubmit={onSubmit} noValidate aria-label="Register a pack" className="grid gap-4 md:grid-cols-3">
+      <TextField label="Label" placeholder="NG-0142" error={errors.label?.message ?? server.label} {...register('label', { required: 'Give the pack a label.' })} />
+      <TextField label="Brand" placeholder="Voltara" error={errors.brand?.message ?? server.brand} {...register('brand', { required: 'Enter the brand.' })} />
+      <TextField label="Model" {...register('model')} />
+      <SelectField label="Chemistry" options={CHEMISTRIES.map((c) => ({ value: c, label: CHEMISTRY_LABEL[c] }))} {...register('chemistry')} />
+      <TextField label="Cells in series" inputMode="numeric" error={errors.cellsInSeries?.message ?? server.cellsInSeries} {...register('cellsInSeries', { validate: (v) => (Number.isInteger(Number(v)) && Number(v) >= 1) || 'A whole number, 1 or more.' })} />
+      <TextField label="Cells in parallel" inputMode="numeric" {...register('cellsInParallel')} />
+      <TextField label="Rated capacity (Ah)" inputMode="decimal" error={errors.ratedAh?.message ?? server.ratedAh} {...register('ratedAh', { required: 'Enter the rated Ah.', validate: positive })} />
+      <TextField label="Rated energy (Wh)" inputMode="decimal" error={errors.ratedWh?.message} {...register('ratedWh', { validate: positive })} />
+      <TextField label="Protection current (A)" inputMode="decimal" error={errors.bmsRatedAmps?.message} {...register('bmsRatedAmps', { validate: positive })} />
+      <TextField label="Mass (kg)" inputMode="decimal" error={errors.massKg?.message} {...register('massKg', { validate: positive })} />
+      <TextField label="Serial number" {...register('serialNumber')} />
+      <TextField label="Sent by" placeholder="Kestrel Energy" {...register('sender')} />
+      {create.isError && (
+        <p role="alert" className="text-sm font-medium text-state-cutoff md:col-span-3">
+          {create.error instanceof Error ? create.error.message : 'The pack was not saved.'}
+        </p>
+      )}
+      <div className="flex gap-2 md:col-span-3">
+        <Button type="submit" disabled={create.isPending}>
+          Register pack
+        </Button>
+        <Button variant="ghost" onClick={onDone}>
+          Cancel
+        </Button>
+      </div>
+    </form>
+  );
+}

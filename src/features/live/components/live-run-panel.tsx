@@ -1,0 +1,95 @@
+import { Link, useNavigate } from 'react-router-dom';
+import { LiveChart } from '../../../components/charts/live-chart';
+import { Button } from '../../../components/ui/button';
+import { Card } from '../../../components/ui/card';
+import { RunEventsList } from '../../../components/ui/run-events-list';
+import { RunStateBadge } from '../../../components/ui/state-badge';
+import { LIVE_RUN_STATES } from '../../../../shared/schemas/run';
+import { useLabSettings } from '../../../lib/lab-settings';
+import { useLiveStore, useLiveView, useSocketState } from '../../../lib/use-live';
+import { useShortcut } from '../../../lib/use-shortcut';
+import { useStopRun } from '../api/stop-run';
+import { AnnotationBox } from './annotation-box';
+import { CutoffAlarm } from './cutoff-alarm';
+import { Readouts } from './readouts';
+
+interface Props {
+  runId: number;
+  /** What the room calls this test: usually the bench name. */
+  label: string;
+  roomViewPath: string;
+  canAct: boolean;
+}
+
+/** A run as it happens: numbers, totals, the streaming chart, events, notes and the alarm. */
+export function LiveRunPanel({ runId, label, roomViewPath, canAct }: Props) {
+  const store = useLiveStore({ kind: 'run', id: runId });
+  const view = useLiveView(store);
+  const socketState = useSocketState();
+  const settings = useLabSettings();
+  const stop = useStopRun();
+  const navigate = useNavigate();
+  useShortcut('f', () => navigate(roomViewPath));
+  const run = view.run;
+  const live = run ? LIVE_RUN_STATES.includes(run.state) : false;
+
+  const stopRun = (abort: boolean) => {
+    const question = abort ? 'Abort this run? It will be kept but marked aborted.' : 'Finish this run now?';
+    if (window.confirm(question)) stop.mutate({ runId, abort });
+  };
+
+  return (
+    <div className="flex flex-col gap-4">
+      <CutoffAlarm store={store} label={label} />
+      <div className="flex flex-wrap items-center justify-between gap-3">
+        <div className="flex flex-wrap items-center gap-3">
+          <h2 className="text-xl font-bold">{run?.name ?? `Run ${runId}`}</h2>
+          {run && <RunStateBadge state={run.state} large />}
+          <span className={`text-sm ${socketState === 'open' ? 'text-status-receiving' : 'text-status-stale'}`}>
+            {socketState === 'open' ? '● Live' : '○ Reconnecting…'}
+          </span>
+        </div>
+        <div className="flex flex-wrap gap-2">
+          <Link to={roomViewPath} className="inline-flex min-h-11 items-center rounded-lg border border-line px-4 text-sm font-semibold hover:border-accent">
+            Full screen <kbd className="num ml-2 rounded border border-line px-1 text-xs">F</kbd>
+          </Link>
+          <Link to={`/runs/${runId}`} className="inline-flex min-h-11 items-center rounded-lg border border-line px-4 text-sm font-semibold hover:border-accent">
+            Run details
+          </Link>
+          {canAct && live && (
+            <>
+              <Button variant="secondary" onClick={() => stopRun(false)} disabled={stop.isPending}>
+                Finish run
+              </Button>
+              <Button variant="danger" onClick={() => stopRun(true)} disabled={stop.isPending}>
+                Abort
+              </Button>
+            </>
+          )}
+        </div>
+      </div>
+      <Card className="p-6">
+        <Readouts view={view} temperatureUnit={settings.temperatureUnit} energyUnit={settings.energyUnit} />
+      </Card>
+      <Card>
+        <LiveChart store={store} temperatureUnit={settings.temperatureUnit} />
+        {view.droppedReadings > 0 && (
+          <p className="mt-2 text-xs text-ink-faint">
+            {view.droppedReadings} readings thinned for this screen only; totals and the archive keep every reading.
+          </p>
+        )}
+      </Card>
+      <div className="grid gap-4 lg:grid-cols-3">
+        <Card className="lg:col-span-2">
+          <h3 className="mb-3 font-semibold">Events</h3>
+          <RunEventsList events={view.events} temperatureUnit={settings.temperatureUnit} />
+        </Card>
+        {canAct && (
+          <Card>
+            <AnnotationBox runId={runId} />
+          </Card>
+        )}
+      </div>
+    </div>
+  );
+}

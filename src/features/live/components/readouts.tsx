@@ -1,0 +1,43 @@
+import { BigNumber } from '../../../components/ui/big-number';
+import type { LiveView } from '../../../lib/live-store';
+import { SIGNAL_COLORS } from '../../../lib/palette';
+import { formatAmps, formatCharge, formatElapsedClock, formatEnergy, formatTemperature, formatVolts, formatWatts } from '../../../lib/units';
+
+interface Props {
+  view: LiveView;
+  temperatureUnit: 'C' | 'F';
+  energyUnit: 'Wh' | 'kWh';
+  size?: 'lg' | 'room';
+}
+
+/** The instantaneous numbers and the running totals, every one with its unit. */
+export function Readouts({ view, temperatureUnit, energyUnit, size = 'lg' }: Props) {
+  const tempUnit = temperatureUnit === 'F' ? '°F' : '°C';
+  const charging = (view.amps ?? 0) < 0;
+  return (
+    <div className="flex flex-col gap-6">
+      <div className={`grid gap-6 ${size === 'room' ? 'grid-cols-2' : 'grid-cols-2 lg:grid-cols-4'}`}>
+        <BigNumber label="Volts" text={formatVolts(view.volts)} unit="V" color={SIGNAL_COLORS.volts} size={size} />
+        <BigNumber label={charging ? 'Amps (charging)' : 'Amps'} text={formatAmps(view.amps)} unit="A" color={SIGNAL_COLORS.amps} size={size} />
+        <BigNumber label="Watts" text={formatWatts(view.watts)} unit="W" color={SIGNAL_COLORS.watts} size={size} />
+        <BigNumber
+          label={view.tempChannel ? `Temp ${view.tempChannel}` : 'Temp'}
+          text={formatTemperature(view.tempCelsius, temperatureUnit)}
+          unit={tempUnit}
+          color={SIGNAL_COLORS.temp}
+          size={size}
+        />
+      </div>
+      <div className={`grid gap-6 border-t border-line pt-4 ${size === 'room' ? 'grid-cols-3' : 'grid-cols-3'}`}>
+        <BigNumber label="Energy out" text={formatEnergy(view.dischargeWh, energyUnit)} unit={energyUnit} size={size === 'room' ? 'room' : 'md'} />
+        <BigNumber label="Charge out" text={formatCharge(view.dischargeAh)} unit="Ah" size={size === 'room' ? 'room' : 'md'} />
+        <BigNumber label="Run time" text={view.t === null ? '—' : `${formatElapsedClock(view.t)} h:m:s`} unit="h:m:s" size={size === 'room' ? 'room' : 'md'} />
+      </div>
+      {(view.chargeWh ?? 0) > 0 && (
+        <p className="text-sm text-ink-muted">
+          Charged in: <span className="num">{formatEnergy(view.chargeWh, energyUnit)}</span>, <span className="num">{formatCharge(view.chargeAh)}</span>
+        </p>
+      )}
+    </div>
+  );
+}

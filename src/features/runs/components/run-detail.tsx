@@ -1,0 +1,119 @@
+import { useMemo, useState } from 'react';
+import { Link } from 'react-router-dom';
+import { LIVE_RUN_STATES } from '../../../../shared/schemas/run';
+import type { RunEvent } from '../../../../shared/schemas/run-event';
+import { HistoryChart, type ChartMarker } from '../../../components/charts/history-chart';
+import { Button } from '../../../components/ui/button';
+import { Card, PageHeader } from '../../../components/ui/card';
+import { RunEventsList } from '../../../components/ui/run-events-list';
+import { RunStateBadge } from '../../../components/ui/state-badge';
+import { Loading, QueryError } from '../../../components/ui/status';
+import { formatLabTime, useLabSettings } from '../../../lib/lab-settings';
+import { RUN_STATE_COLORS, SIGNAL_COLORS } from '../../../lib/palette';
+import { formatElapsedClock } from '../../../lib/units';
+import { useRun, useRunEvents } from '../api/get-run';
+import { useRunSamples, type SampleWindow } from '../api/get-run-samples';
+import { RunSummaryPanel } from './run-summary-panel';
+
+/** About one bucket per horizontal pixel of a wide chart. */
+const CHART_MAX_POINTS = 1000;
+const FULL_WINDOW: SampleWindow = { from: null, to: null };
+
+function markerFor(e: RunEvent): ChartMarker | null {
+  if (e.type === 'cutoff') return { t: e.t, color: RUN_STATE_COLORS.cutoff };
+  if (e.type === 'recovery') return { t: e.t, color: RUN_STATE_COLORS.recovered };
+  if (e.type === 'annotation') return { t: e.t, color: SIGNAL_COLORS.amps };
+  return null;
+}
+
+/** A recorded run: verdict, figures, the zoomable history chart, events and exports. */
+export function RunDetail({ runId }: { runId: number }) {
+  const run = useRun(runId);
+  const events = useRunEvents(runId);
+  const settings = useLabSettings();
+  const [sampleWindow, setWindow] = useState<SampleWindow>(FULL_WINDOW);
+  const samples = useRunSamples(runId, sampleWindow, CHART_MAX_POINTS);
+  // Stable between renders so the chart is not rebuilt for nothing.
+  const markers = useMemo(
+    () => (events.data ?? []).map((e) => markerFor(e.event)).filter((m): m is ChartMarker => m !== null),
+    [events.data],
+  );
+
+  if (run.isPending) return <Loading label="Loading run…" />;
+  if (run.isError) return <QueryError error={run.error} what="This run" />;
+  const r = run.data;
+  const stored = events.data?.map((e) => e.event) ?? [];
+  const live = LIVE_RUN_STATES.includes(r.state);
+  const zoomed = sampleWindow.from !== null || sampleWindow.to !== null;
+
+  return (
+    <>
+      <PageHeader
+        title={r.name}
+        subtitle={
+          <span className="flex flex-wrap items-center gap-3">
+            <RunStateBadge state={r.state} />
+            <span>Started {formatLabTime(r.startedAt, settings.timeZone)}</span>
+            {r.endedAt && <span>Ended {formatLabTime(r.endedAt, settings.timeZone)}</span>}
+            <span className="num">{r.readingsCount.toLocaleString('en-US')} readings</span>
+            {r.tags.length > 0 && <span>Tags: {r.tags.join(', ')}</span>}
+          </span>
+        }
+        actions={
+          <>
+            {live && r.benchId !== null && (
+              <Link to={`/benches/${r.benchId}`} className="inline-flex min-h-11 items-center rounded-lg bg-accent px-4 text-sm font-semibold text-accent-ink">
+                Watch live
+              </Link>
+            )}
+            <a href={`/api/runs/${runId}/export.csv`} className="inline-flex min-h-11 items-center rounded-lg border border-line px-4 text-sm font-semibold" download>
+              Export CSV
+            </a>
+            <a href={`/api/runs/${runId}/export.json`} className="inline-flex min-h-11 items-center rounded-lg border border-line px-4 text-sm font-semibold" download>
+              Export JSON
+            </a>
+          </>
+        }
+      />
+      <div className="flex flex-col gap-4">
+        {r.summary ? (
+          <Card className="p-6">
+            <RunSummaryPanel summary={r.summary} temperatureUnit={settings.temperatureUnit} energyUnit={settings.energyUnit} />
+          </Card>
+        ) : (
+          <Card className="text-ink-muted">No summary yet: the run is still recording.</Card>
+        )}
+        <Card>
+          <div className="mb-3 flex flex-wrap items-center justify-between gap-2">
+            <h2 className="font-semibold">
+              Volts and amps{' '}
+              {samples.data && (
+                <span className="num text-sm font-normal text-ink-muted">
+                  {formatElapsedClock(samples.data.from)} – {formatElapsedClock(samples.data.to)} ·{' '}
+                  {samples.data.reduced ? `min/max of ${samples.data.bucketSeconds?.toFixed(1)} s buckets` : 'every reading'}
+                </span>
+              )}
+            </h2>
+            <div className="flex items-center gap-2 text-sm text-ink-muted">
+              <span>Drag across the chart to zoom.</span>
+              <Button variant="secondary" disabled={!zoomed} onClick={() => setWindow(FULL_WINDOW)}>
+                Whole run
+              </Button>
+            </div>
+          </div>
+          {samples.isPending ? (
+            <Loading label="Loading readings…" />
+          ) : samples.isError ? (
+            <QueryError error={samples.error} what="Readings" />
+          ) : (
+            <HistoryChart samples={samples.data} markers={markers} onZoom={(from, to) => setWindow({ from, to })} temperatureUnit={settings.temperatureUnit} />
+          )}
+        </Card>
+        <Card>
+          <h2 className="mb-3 font-semibold">Events</h2>
+          {events.isError ? <QueryError error={events.error} what="Events" /> : <RunEventsList events={stored} temperatureUnit={settings.temperatureUnit} />}
+        </Card>
+      </div>
+    </>
+  );
+}

@@ -1,0 +1,131 @@
+import { createColumnHelper, flexRender, getCoreRowModel, useReactTable } from '@tanstack/react-table';
+import { useEffect, useMemo, useState } from 'react';
+import { Link } from 'react-router-dom';
+import { RunStateSchema, type Run, type RunState } from '../../../../shared/schemas/run';
+import { SelectField, TextField } from '../../../components/ui/field';
+import { Button } from '../../../components/ui/button';
+import { RUN_STATE_LABEL, RunStateBadge } from '../../../components/ui/state-badge';
+import { Loading, QueryError } from '../../../components/ui/status';
+import { formatLabTime, useLabSettings } from '../../../lib/lab-settings';
+import { formatCharge, formatDuration, formatEnergy, formatPercent } from '../../../lib/units';
+import { useRuns } from '../api/get-runs';
+import { VerdictBadge } from './verdict-badge';
+
+const PAGE_SIZE = 25;
+const SEARCH_DEBOUNCE_MS = 300;
+const KIND_LABEL = { 'capacity-discharge': 'Capacity', charge: 'Charge', 'protection-check': 'Protection', custom: 'Custom' } as const;
+
+const col = createColumnHelper<Run>();
+
+/** The run archive: search by name, filter by state and tag, newest first. */
+export function RunsTable() {
+  const settings = useLabSettings();
+  const [search, setSearch] = useState('');
+  const [q, setQ] = useState('');
+  const [state, setState] = useState<RunState | ''>('');
+  const [tag, setTag] = useState('');
+  const [offset, setOffset] = useState(0);
+
+  useEffect(() => {
+    const timer = setTimeout(() => {
+      setQ(search.trim());
+      setOffset(0);
+    }, SEARCH_DEBOUNCE_MS);
+    return () => clearTimeout(timer);
+  }, [search]);
+
+  const runs = useRuns({ q: q || undefined, state: state || undefined, tag: tag || undefined, limit: PAGE_SIZE, offset });
+
+  const columns = useMemo(
+    () => [
+      col.accessor('name', {
+        header: 'Run',
+        cell: (c) => (
+          <Link to={`/runs/${c.row.original.id}`} className="font-semibold text-accent hover:underline">
+            {c.getValue()}
+          </Link>
+        ),
+      }),
+      col.accessor('state', { header: 'State', cell: (c) => <RunStateBadge state={c.getValue()} /> }),
+      col.accessor('kind', { header: 'Kind', cell: (c) => KIND_LABEL[c.getValue()] }),
+      col.accessor('startedAt', { header: 'Started', cell: (c) => <span className="num">{formatLabTime(c.getValue(), settings.timeZone)}</span> }),
+      col.accessor((r) => r.summary?.durationSeconds ?? null, { id: 'duration', header: 'Duration', cell: (c) => <span className="num">{formatDuration(c.getValue())}</span> }),
+      col.accessor((r) => r.summary?.dischargeWh ?? null, { id: 'wh', header: 'Energy', cell: (c) => <span className="num">{formatEnergy(c.getValue(), settings.energyUnit)}</span> }),
+      col.accessor((r) => r.summary?.dischargeAh ?? null, { id: 'ah', header: 'Charge', cell: (c) => <span className="num">{formatCharge(c.getValue())}</span> }),
+      col.accessor((r) => r.summary?.percentRatedAh ?? null, { id: 'pct', header: 'Of rated', cell: (c) => <span className="num">{formatPercent(c.getValue())}</span> }),
+      col.accessor((r) => r.summary?.verdict ?? null, { id: 'verdict', header: 'Verdict', cell: (c) => (c.getValue() ? <VerdictBadge verdict={c.getValue()!} /> : '—') }),
+      col.accessor('tags', { header: 'Tags', cell: (c) => c.getValue().join(', ') }),
+    ],
+    [settings.timeZone, settings.energyUnit],
+  );
+
+  const data = runs.data?.runs;
+  const table = useReactTable({ data: data ?? [], columns, getCoreRowModel: getCoreRowModel() });
+  const total = runs.data?.total ?? 0;
+
+  return (
+    <div className="flex flex-col gap-4">
+      <div className="grid gap-3 md:grid-cols-3">
+        <TextField label="Search runs" type="search" placeholder="Name contains…" value={search} onChange={(e) => setSearch(e.target.value)} />
+        <SelectField
+          label="State"
+          value={state}
+          onChange={(e) => {
+            setState(e.target.value as RunState | '');
+            setOffset(0);
+          }}
+          options={[{ value: '', label: 'Any state' }, ...RunStateSchema.options.map((s) => ({ value: s, label: RUN_STATE_LABEL[s] }))]}
+        />
+        <TextField label="Tag" placeholder="e.g. lfp" value={tag} onChange={(e) => { setTag(e.target.value.trim()); setOffset(0); }} />
+      </div>
+      {runs.isPending ? (
+        <Loading label="Loading runs…" />
+      ) : runs.isError ? (
+        <QueryError error={runs.error} what="Runs" />
+      ) : (
+        <>
+          <div className="overflow-x-auto rounded-xl border border-line">
+            <table className="w-full text-left text-sm">
+              <thead className="bg-surface-sunken text-ink-muted">
+                {table.getHeaderGroups().map((hg) => (
+                  <tr key={hg.id}>
+                    {hg.headers.map((h) => (
+                      <th key={h.id} className="px-3 py-3 font-semibold">
+                        {flexRender(h.column.columnDef.header, h.getContext())}
+                      </th>
+                    ))}
+                  </tr>
+                ))}
+              </thead>
+              <tbody>
+                {table.getRowModel().rows.map((row) => (
+                  <tr key={row.id} className="border-t border-line bg-surface-raised">
+                    {row.getVisibleCells().map((cell) => (
+                      <td key={cell.id} className="px-3 py-3 align-middle">
+                        {flexRender(cell.column.columnDef.cell, cell.getContext())}
+                      </td>
+                    ))}
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+            {data?.length === 0 && <p className="p-6 text-center text-ink-muted">No runs match.</p>}
+          </div>
+          <div className="flex items-center justify-between text-sm text-ink-muted">
+            <span className="num">
+              {total === 0 ? 0 : offset + 1}–{Math.min(offset + PAGE_SIZE, total)} of {total}
+            </span>
+            <div className="flex gap-2">
+              <Button variant="secondary" disabled={offset === 0} onClick={() => setOffset(Math.max(0, offset - PAGE_SIZE))}>
+                Newer
+              </Button>
+              <Button variant="secondary" disabled={offset + PAGE_SIZE >= total} onClick={() => setOffset(offset + PAGE_SIZE)}>
+                Older
+              </Button>
+            </div>
+          </div>
+        </>
+      )}
+    </div>
+  );
+}

@@ -1,0 +1,173 @@
+import type { BenchStatus } from '../../shared/schemas/bench';
+import type { RunEvent } from '../../shared/schemas/run-event';
+import type { Run } from '../../shared/schemas/run';
+import type { ReadingColumns, ServerMessage } from '../../shared/schemas/ws';
+import { ColumnarRingBuffer } from './ring-buffer';
+
+/** Column order in the ring buffer (and in the chart's data). */
+export const LIVE_COLUMN = { t: 0, volts: 1, amps: 2, watts: 3, temp: 4 } as const;
+const COLUMN_COUNT = 5;
+/** 15 minutes at 10 Hz; older readings live in the archive, not in the browser. */
+export const LIVE_WINDOW_ROWS = 9_000;
+/** A pause longer than this, and longer than GAP_FACTOR sample periods, is drawn as a gap. */
+const MIN_GAP_SECONDS = 3;
+const GAP_FACTOR = 5;
+/** Temperature channel shown when a reading has several (the cell is what protections watch). */
+const PREFERRED_TEMP_CHANNEL = 'cell';
+
+/** The low-rate picture React renders: latest values, totals, events, state. */
+export interface LiveView {
+  t: number | null;
+  volts: number | null;
+  amps: number | null;
+  watts: number | null;
+  tempCelsius: number | null;
+  tempChannel: string | null;
+  dischargeWh: number | null;
+  dischargeAh: number | null;
+  chargeWh: number | null;
+  chargeAh: number | null;
+  run: Run | null;
+  status: BenchStatus | null;
+  events: readonly RunEvent[];
+  /** Readings the server thinned away for this screen (display only; totals are unaffected). */
+  droppedReadings: number;
+  /** Bumped whenever the ring buffer changes, so the chart knows to redraw. */
+  dataVersion: number;
+}
+
+const EMPTY: LiveView = {
+  t: null, volts: null, amps: null, watts: null, tempCelsius: null, tempChannel: null,
+  dischargeWh: null, dischargeAh: null, chargeWh: null, chargeAh: null,
+  run: null, status: null, events: [], droppedReadings: 0, dataVersion: 0,
+};
+
+export type FrameScheduler = (fn: () => void) => void;
+export type EventListener = (event: RunEvent, live: boolean) => void;
+
+const defaultScheduler: FrameScheduler = (fn) =>
+  typeof requestAnimationFrame === 'function' ? requestAnimationFrame(() => fn()) : setTimeout(fn, 16);
+
+function pickTempChannel(temps: Record<string, unknown>): string | null {
+  const names = Object.keys(temps);
+  if (names.length === 0) return null;
+  return names.includes(PREFERRED_TEMP_CHANNEL) ? PREFERRED_TEMP_CHANNEL : names.sort()[0];
+}
+
+/**
+ * Live state of one topic, kept outside React. Readings go into a preallocated ring buffer;
+ * listeners (React and the chart) are told at most once per animation frame.
+ */
+export class LiveStore {
+  readonly buffer = new ColumnarRingBuffer(COLUMN_COUNT, LIVE_WINDOW_ROWS);
+  private view: LiveView = EMPTY;
+  private next: LiveView = EMPTY;
+  private scheduled = false;
+  private lastDtSeconds = 0;
+  private readonly listeners = new Set<() => void>();
+  private readonly eventListeners = new Set<EventListener>();
+  private readonly row: (number | null)[] = new Array(COLUMN_COUNT).fill(null);
+
+  constructor(private readonly schedule: FrameScheduler = defaultScheduler) {}
+
+  /** For useSyncExternalStore. */
+  subscribe = (listener: () => void): (() => void) => {
+    this.listeners.add(listener);
+    return () => this.listeners.delete(listener);
+  };
+
+  /** For useSyncExternalStore: the same object until something changes. */
+  getSnapshot = (): LiveView => this.view;
+
+  /** Hears every event; `live` is false for events replayed from a snapshot. */
+  onEvent(listener: EventListener): () => void {
+    this.eventListeners.add(listener);
+    return () => this.eventListeners.delete(listener);
+  }
+
+  /** Feeds one WebSocket message for this store's topic. */
+  handle(message: ServerMessage): void {
+    switch (message.type) {
+      case 'snapshot':
+        this.update({ run: message.run, status: message.status ?? this.next.status, events: message.events });
+        this.appendReadings(message.recent, true);
+        message.events.forEach((e) => this.eventListeners.forEach((l) => l(e, false)));
+        break;
+      case 'batch':
+        this.appendReadings(message.readings, false);
+        if (message.dropped > 0) this.update({ droppedReadings: this.next.droppedReadings + message.dropped });
+        break;
+      case 'event':
+        this.update({ events: [...this.next.events, message.event] });
+        this.eventListeners.forEach((l) => l(message.event, true));
+        break;
+      case 'run':
+        this.update({ run: message.run });
+        break;
+      case 'status':
+        this.update({ status: message.status });
+        break;
+      default:
+        break;
+    }
+  }
+
+  private update(patch: Partial<LiveView>): void {
+    this.next = { ...this.next, ...patch };
+    if (this.scheduled) return;
+    this.scheduled = true;
+    this.schedule(() => {
+      this.scheduled = false;
+      this.view = this.next;
+      this.listeners.forEach((l) => l());
+    });
+  }
+
+  private appendReadings(cols: ReadingColumns, fromSnapshot: boolean): void {
+    const n = cols.t.length;
+    if (n === 0) return;
+    const channel = this.next.tempChannel ?? pickTempChannel(cols.temps);
+    const temps = channel ? cols.temps[channel] : undefined;
+    let lastT = this.buffer.last(LIVE_COLUMN.t) ?? null;
+    for (let i = 0; i < n; i++) {
+      const t = cols.t[i];
+      // A snapshot after a reconnect repeats what we have: keep only what is new.
+      if (lastT !== null && t <= lastT) continue;
+      if (lastT !== null) {
+        const dt = t - lastT;
+        if (dt > Math.max(MIN_GAP_SECONDS, GAP_FACTOR * this.lastDtSeconds) && (fromSnapshot || this.lastDtSeconds > 0)) {
+          this.pushGap((lastT + t) / 2);
+        } else {
+          this.lastDtSeconds = dt;
+        }
+      }
+      this.row[LIVE_COLUMN.t] = t;
+      this.row[LIVE_COLUMN.volts] = cols.volts[i];
+      this.row[LIVE_COLUMN.amps] = cols.amps[i];
+      this.row[LIVE_COLUMN.watts] = cols.watts[i];
+      this.row[LIVE_COLUMN.temp] = temps ? temps[i] : null;
+      this.buffer.push(this.row);
+      lastT = t;
+    }
+    const last = n - 1;
+    this.update({
+      t: cols.t[last],
+      volts: cols.volts[last],
+      amps: cols.amps[last],
+      watts: cols.watts[last],
+      tempChannel: channel,
+      tempCelsius: temps ? temps[last] : null,
+      dischargeWh: cols.dischargeWh?.[last] ?? this.next.dischargeWh,
+      dischargeAh: cols.dischargeAh?.[last] ?? this.next.dischargeAh,
+      chargeWh: cols.chargeWh?.[last] ?? this.next.chargeWh,
+      chargeAh: cols.chargeAh?.[last] ?? this.next.chargeAh,
+      dataVersion: this.next.dataVersion + 1,
+    });
+  }
+
+  private pushGap(t: number): void {
+    this.row.fill(null);
+    this.row[LIVE_COLUMN.t] = t;
+    this.buffer.push(this.row);
+  }
+}
