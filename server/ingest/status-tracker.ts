@@ -33,7 +33,8 @@ export class StatusTracker {
   frameOk(): void {
     this.framesOk++;
     this.lastFrameAtMs = this.clock.nowMs();
-    if (this.state !== 'receiving') this.set('receiving', undefined);
+    // Keep an informative message (the instrument's identity) but not a stale warning.
+    if (this.state !== 'receiving') this.set('receiving', this.state === 'stale' ? undefined : this.message);
     this.armWatchdog();
   }
 

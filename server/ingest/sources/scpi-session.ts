@@ -11,7 +11,8 @@ const MS_PER_S = 1000;
 /**
  * Polls a SCPI instrument: asks `*IDN?` once, then every `pollMs` sends the volts, amps
  * and temperature queries one at a time and waits for each reply (with a timeout). A
- * cycle with a missing or bad reply is counted as a rejection; the next cycle still runs.
+ * cycle with a missing or bad reply is counted as a rejection; the next cycle still runs
+ * (a late reply that arrives between cycles has no waiter and is dropped).
  */
 export function startScpiSession(ctx: SessionContext, format: ScpiFormat): PortSession {
   const { clock, port, tracker } = ctx;
@@ -51,24 +52,35 @@ export function startScpiSession(ctx: SessionContext, format: ScpiFormat): PortS
 
   const cycle = async (): Promise<void> => {
     const startMs = clock.nowMs();
-    const volts = await askNumber(format.queries.volts);
-    const amps = stopped ? 0 : await askNumber(format.queries.amps);
-    const temps: Record<string, number> = {};
-    let failure = typeof volts === 'string' ? volts : typeof amps === 'string' ? amps : undefined;
-    for (const [channel, query] of Object.entries(format.queries.temps)) {
-      if (stopped || failure) break;
+    const queries: [string, string][] = [
+      ['volts', format.queries.volts],
+      ['amps', format.queries.amps],
+      ...Object.entries(format.queries.temps).map(([channel, q]): [string, string] => [`temp:${channel}`, q]),
+    ];
+    const values = new Map<string, number>();
+    let failure: string | undefined;
+    // Stop at the first failure: a reply arriving after its timeout must not pair with the next query.
+    for (const [name, query] of queries) {
+      if (stopped) return;
       const value = await askNumber(query);
-      if (typeof value === 'string') failure = value;
-      else temps[channel] = value;
+      if (typeof value === 'string') {
+        failure = value;
+        break;
+      }
+      values.set(name, value);
     }
+    const temps: Record<string, number> = {};
+    for (const [name, value] of values) if (name.startsWith('temp:')) temps[name.slice('temp:'.length)] = value;
+    const volts = values.get('volts');
+    const amps = values.get('amps');
     if (stopped) return;
-    if (failure !== undefined) tracker.rejected(failure);
+    if (failure !== undefined || volts === undefined || amps === undefined) tracker.rejected(failure ?? 'incomplete reply set');
     else {
       // Replies carry no time; stamp the moment the cycle began (the volts query), on the arrival clock.
       const frame: Frame = {
         t: startMs / MS_PER_S,
-        volts: volts as number,
-        amps: toAmps(amps as number, 'A', format.currentSign),
+        volts,
+        amps: toAmps(amps, 'A', format.currentSign),
         clock: 'arrival',
         ...(Object.keys(temps).length > 0 && { temps }),
       };
