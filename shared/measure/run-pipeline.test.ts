@@ -8,7 +8,7 @@ import { ReadingSchema, RunEventSchema, type RunEvent, type RunTotals } from '..
 const PACK = { chemistry: 'lfp', cellsInSeries: 8, endVoltsPerCell: 2.5, ratedAh: 50, ratedWh: 1280 } as const;
 // A 0.2 C discharge (10 A) at a constant 25.6 V, sampled at 1 Hz for 6 h: analytic Ah = 10·t/3600.
 const n = noise(11);
-const frames = trace(0, 6 * 3600, (t) => ({ volts: 25.6 + n(0.01), amps: 10 + n(0.01), temps: { cell: 25 } }));
+const frames = trace(0, 6 * 3600, () => ({ volts: 25.6 + n(0.01), amps: 10 + n(0.01), temps: { cell: 25 } }));
 
 describe('run pipeline', () => {
   it('fires the 50 % and 100 % milestones of rated Ah and Wh, each once, near their analytic times', () => {
