@@ -8,6 +8,7 @@ import { migrate } from './db/migrate.js';
 import { seedDemo } from './db/seed-demo.js';
 import { consoleLogger, createAppContext, type AppContext, type Logger } from './app-context.js';
 import { createApp } from './app.js';
+import { attachBenchManager } from './benches/attach-bench-manager.js';
 
 /** Undoes an attachment (close sockets, stop timers); awaited on server close. */
 export type Detach = () => Promise<void> | void;
@@ -20,7 +21,7 @@ export type Attachment = (httpServer: Server, ctx: AppContext) => Promise<Detach
  *   attachBenchManager,   (ingest, from ./benches/...)
  *   attachLiveHub,        (live, from ./live/...)
  */
-export const ATTACHMENTS: Attachment[] = [];
+export const ATTACHMENTS: Attachment[] = [attachBenchManager];
 
 /** How to start; everything is optional (defaults: environment config, provisioned MariaDB). */
 export interface StartServerOptions {

@@ -1,0 +1,24 @@
+import type { Server } from 'node:http';
+import type { AppContext } from '../app-context.js';
+import { BenchManager } from '../ingest/bench-manager.js';
+import type { SourceDeps } from '../ingest/sources/create-source.js';
+import './bench-services.js';
+import { benchModel } from './bench-model.js';
+import { toManaged } from './bench-service.js';
+
+/**
+ * Server attachment: creates the bench manager, publishes it as `ctx.services.benchManager`
+ * (the live area subscribes to its frames), starts every stored bench, and stops them all
+ * on close. A bench whose port is missing does not stop the server: it just reconnects.
+ */
+export async function attachBenchManager(_httpServer: Server, ctx: AppContext, deps: SourceDeps = {}): Promise<() => Promise<void>> {
+  const manager = new BenchManager(deps, (message, err) => ctx.log.error(message, err));
+  ctx.services.benchManager = manager;
+  const rows = await benchModel(ctx.sequelize).findAll();
+  await manager.sync(rows.map(toManaged));
+  ctx.log.info(`Bench manager started ${rows.length} bench(es)`);
+  return async () => {
+    await manager.stopAll();
+    delete ctx.services.benchManager;
+  };
+}

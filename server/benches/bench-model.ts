@@ -1,0 +1,61 @@
+import { DataTypes, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Model, type ModelStatic, type Sequelize } from 'sequelize';
+import { BenchSourceConfigSchema, type Bench, type BenchSourceConfig } from '../../shared/schemas/bench.js';
+
+/** A row of `benches`; `source` holds the JSON text of a BenchSourceConfig. */
+export interface BenchRow extends Model<InferAttributes<BenchRow>, InferCreationAttributes<BenchRow>> {
+  id: CreationOptional<number>;
+  name: string;
+  source: string;
+  enabled: boolean;
+  notes: string;
+  createdAt: CreationOptional<Date>;
+  updatedAt: CreationOptional<Date>;
+}
+export type BenchModel = ModelStatic<BenchRow>;
+
+const MODEL_NAME = 'Bench';
+
+/** The Bench model on `sequelize`, defined on first use (table from migration 0100). */
+export function benchModel(sequelize: Sequelize): BenchModel {
+  if (sequelize.isDefined(MODEL_NAME)) return sequelize.model(MODEL_NAME) as BenchModel;
+  return sequelize.define<BenchRow>(
+    MODEL_NAME,
+    {
+      id: { type: DataTypes.INTEGER, autoIncrement: true, primaryKey: true },
+      name: { type: DataTypes.STRING(80), allowNull: false, unique: true },
+      source: { type: DataTypes.TEXT, allowNull: false },
+      enabled: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: true },
+      notes: { type: DataTypes.TEXT, allowNull: false },
+      createdAt: DataTypes.DATE,
+      updatedAt: DataTypes.DATE,
+    },
+    { tableName: 'benches' },
+  );
+}
+
+/**
+ * Reads the stored source configuration. A row written by an older version that no longer
+ * validates becomes "none" with the reason, so one bad row never hides the others.
+ */
+export function readSource(row: BenchRow): { source: BenchSourceConfig; problem?: string } {
+  try {
+    const parsed = BenchSourceConfigSchema.safeParse(JSON.parse(row.source));
+    if (parsed.success) return { source: parsed.data };
+    return { source: { kind: 'none' }, problem: `stored source is invalid: ${parsed.error.issues[0]?.message ?? 'unknown'}` };
+  } catch {
+    return { source: { kind: 'none' }, problem: 'stored source is not valid JSON' };
+  }
+}
+
+/** The API shape of a bench row (without live status). */
+export function toApiBench(row: BenchRow): Bench {
+  return {
+    id: row.id,
+    name: row.name,
+    source: readSource(row).source,
+    enabled: row.enabled,
+    notes: row.notes,
+    createdAt: row.createdAt.toISOString(),
+    updatedAt: row.updatedAt.toISOString(),
+  };
+}

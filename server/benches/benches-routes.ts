@@ -1,0 +1,58 @@
+import { Router } from 'express';
+import { CreateBenchRequestSchema, UpdateBenchRequestSchema } from '../../shared/schemas/bench.js';
+import type { AppContext } from '../app-context.js';
+import { requireRole } from '../auth/guards.js';
+import { HttpError, notFound } from '../http/http-error.js';
+import { parseBody, parseIdParam } from '../http/validate.js';
+import { benchManagerOf } from './bench-services.js';
+import { createBenchService, withStatus } from './bench-service.js';
+import { listSerialPorts } from './list-serial-ports.js';
+
+/** /api/benches: everyone signed in reads benches with live status; admins configure them. */
+export function createBenchesRouter(ctx: AppContext): Router {
+  const router = Router();
+  const manager = () => benchManagerOf(ctx);
+  const service = createBenchService(ctx.sequelize, manager);
+  const findOr404 = async (id: number) => (await service.find(id)) ?? Promise.reject(notFound('Bench'));
+
+  router.get('/', requireRole('viewer'), async (_req, res) => {
+    const rows = await service.list();
+    res.json({ benches: rows.map((row) => withStatus(row, manager())) });
+  });
+
+  // Before /:id so that "ports" is not read as an id.
+  router.get('/ports', requireRole('admin'), async (_req, res) => {
+    res.json(await listSerialPorts());
+  });
+
+  router.get('/:id', requireRole('viewer'), async (req, res) => {
+    res.json({ bench: withStatus(await findOr404(parseIdParam(req.params.id)), manager()) });
+  });
+
+  router.post('/', requireRole('admin'), async (req, res) => {
+    const input = parseBody(CreateBenchRequestSchema, req.body);
+    const row = await service.create(input);
+    res.status(201).json({ bench: withStatus(row, manager()) });
+  });
+
+  router.patch('/:id', requireRole('admin'), async (req, res) => {
+    const change = parseBody(UpdateBenchRequestSchema, req.body);
+    const row = await service.update(await findOr404(parseIdParam(req.params.id)), change);
+    res.json({ bench: withStatus(row, manager()) });
+  });
+
+  router.delete('/:id', requireRole('admin'), async (req, res) => {
+    await service.remove(await findOr404(parseIdParam(req.params.id)));
+    res.status(204).end();
+  });
+
+  router.post('/:id/restart', requireRole('admin'), async (req, res) => {
+    const row = await findOr404(parseIdParam(req.params.id));
+    const running = manager();
+    if (!running) throw new HttpError(503, 'The bench manager is not running on this server');
+    if (!(await running.restart(row.id))) throw new HttpError(409, 'Bench is not running (disabled or not loaded)');
+    res.json({ bench: withStatus(row, running) });
+  });
+
+  return router;
+}
