@@ -1,1 +1,29 @@
 import '@testing-library/dom';
+import { cleanup } from '@testing-library/react';
+import { afterEach, vi } from 'vitest';
+
+// uPlot draws on a canvas, which happy-dom does not have: a stand-in records what it is given.
+vi.mock('uplot', () => {
+  class FakePlot {
+    static instances: FakePlot[] = [];
+    data: unknown;
+    setDataCalls = 0;
+    constructor(_opts: unknown, data: unknown) {
+      this.data = data;
+      FakePlot.instances.push(this);
+    }
+    setData(data: unknown) {
+      this.data = data;
+      this.setDataCalls++;
+    }
+    setSize() {}
+    setSelect() {}
+    destroy() {}
+  }
+  return { default: FakePlot };
+});
+
+afterEach(() => {
+  cleanup();
+  vi.unstubAllGlobals();
+});

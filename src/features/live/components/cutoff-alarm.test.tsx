@@ -1,0 +1,69 @@
+import { act, render, screen } from '@testing-library/react';
+import userEvent from '@testing-library/user-event';
+import { beforeEach, describe, expect, it, vi } from 'vitest';
+import type { Run } from '../../../../shared/schemas/run';
+import type { ServerMessage } from '../../../../shared/schemas/ws';
+import { LiveStore } from '../../../lib/live-store';
+import { CutoffAlarm } from './cutoff-alarm';
+
+const topic = { kind: 'run', id: 12 } as const;
+const emptyColumns = { t: [], volts: [], amps: [], watts: [], temps: {} };
+
+function run(state: Run['state']): Run {
+  return {
+    id: 12, name: 'Voltara 24 V 100 Ah capacity', tags: [], origin: 'live', benchId: 2, batteryId: 3,
+    kind: 'capacity-discharge', state, endVolts: { mode: 'per-cell', voltsPerCell: 2.5 }, acceptancePercent: 95,
+    alarms: { onCutoff: true }, stopWhen: 'after-recovery', targetAh: null, targetWh: null, afterRecoverySeconds: 0,
+    readingsCount: 0, summary: null, startedAt: '2026-12-01T20:00:00Z', endedAt: null, createdBy: 1,
+    createdAt: '2026-12-01T20:00:00Z', updatedAt: '2026-12-01T20:00:00Z',
+  };
+}
+
+// Demo numbers for a fictional 8S LFP pack; only their presence on screen is checked.
+const cutoff: ServerMessage = {
+  type: 'event', seq: 3, topic, eventId: 40,
+  event: { type: 'cutoff', t: 18_000, cause: 'protection', signal: 'current-zero', volts: 20.01, amps: 19.8, dischargeWh: 2480.5, dischargeAh: 98.4 },
+};
+
+function setup() {
+  const store = new LiveStore((fn) => fn()); // synchronous frames for the test
+  const sound = { start: vi.fn(), stop: vi.fn() };
+  render(<CutoffAlarm store={store} label="Bench 2" sound={sound} />);
+  act(() => store.handle({ type: 'snapshot', seq: 1, topic, status: null, run: run('recording'), recent: emptyColumns, events: [] }));
+  return { store, sound };
+}
+
+describe('cutoff alarm', () => {
+  beforeEach(() => {
+    sessionStorage.clear();
+    document.title = 'Kneepoint';
+  });
+
+  it('stays quiet while the run records normally', () => {
+    const { sound } = setup();
+    expect(screen.queryByRole('alert')).toBeNull();
+    expect(sound.start).not.toHaveBeenCalled();
+    expect(document.title).toBe('Kneepoint');
+  });
+
+  it('shows a banner, sounds and retitles the tab when a cutoff arrives', () => {
+    const { store, sound } = setup();
+    act(() => store.handle(cutoff));
+    const banner = screen.getByRole('alert');
+    expect(banner.textContent).toContain('CUTOFF · Bench 2');
+    expect(banner.textContent).toContain('pack protection opened');
+    expect(banner.textContent).toContain('20.01 V');
+    expect(banner.textContent).toContain('2,480.5 Wh');
+    expect(sound.start).toHaveBeenCalledTimes(1);
+    expect(document.title).toBe('⚠ CUTOFF · Bench 2');
+  });
+
+  it('goes quiet once acknowledged with the A key and restores the title', async () => {
+    const { store, sound } = setup();
+    act(() => store.handle(cutoff));
+    await userEvent.keyboard('a');
+    expect(screen.queryByRole('alert')).toBeNull();
+    expect(sound.stop).toHaveBeenCalled();
+    expect(document.title).toBe('Kneepoint');
+  });
+});

@@ -1,0 +1,48 @@
+import { QueryClient } from '@tanstack/react-query';
+import { render } from '@testing-library/react';
+import type { ReactElement } from 'react';
+import { createMemoryRouter, RouterProvider } from 'react-router-dom';
+import { vi } from 'vitest';
+import type { PublicUser } from '../../shared/schemas/user';
+import { AppProvider } from '../app/provider';
+import { routes } from '../app/routes';
+
+/** A demo user of the fictional Northgate Cell Lab, in the role a test needs. */
+export function demoUser(role: PublicUser['role']): PublicUser {
+  return { id: 7, email: `${role}@northgate.example`, name: `Northgate ${role}`, role, disabled: false };
+}
+
+type Handler = (url: string, init?: RequestInit) => { status: number; body?: unknown } | undefined;
+
+/** Stubs fetch: `me` answers with `user` (401 when null), other paths go to `handler` or 404. */
+export function stubApi(user: PublicUser | null, handler: Handler = () => undefined) {
+  const calls: { url: string; init?: RequestInit }[] = [];
+  const fetchMock = vi.fn(async (input: RequestInfo | URL, init?: RequestInit) => {
+    const url = String(input);
+    calls.push({ url, init });
+    const custom = handler(url, init);
+    const answer =
+      custom ??
+      (url.startsWith('/api/auth/me')
+        ? user
+          ? { status: 200, body: { user } }
+          : { status: 401, body: { error: { message: 'Sign in first' } } }
+        : url.startsWith('/api/auth/csrf')
+          ? { status: 200, body: { csrfToken: 'test-token' } }
+          : { status: 404, body: { error: { message: 'Not found' } } });
+    return new Response(answer.body === undefined ? null : JSON.stringify(answer.body), {
+      status: answer.status,
+      headers: { 'Content-Type': 'application/json' },
+    });
+  });
+  vi.stubGlobal('fetch', fetchMock);
+  return { fetchMock, calls };
+}
+
+/** Renders the real route tree at `path` with a fresh, non-retrying query client. */
+export function renderAt(path: string) {
+  const queryClient = new QueryClient({ defaultOptions: { queries: { retry: false }, mutations: { retry: false } } });
+  const router = createMemoryRouter(routes, { initialEntries: [path] });
+  const view = render((<AppProvider queryClient={queryClient}><RouterProvider router={router} /></AppProvider>) as ReactElement);
+  return { ...view, router, queryClient };
+}
