@@ -5,6 +5,7 @@ import { LabSettingsSchema } from '../../shared/schemas/lab-settings.js';
 import { BATTERY_OPTIONAL_DEFAULTS } from './models/battery.js';
 import { hashPassword } from '../auth/password.js';
 import { saveLabSettings } from '../settings/settings-service.js';
+import { seedDemoBenches } from '../benches/seed-demo-benches.js';
 
 /** The fictional lab's name. */
 export const DEMO_LAB_NAME = 'Northgate Cell Lab';
@@ -53,5 +54,6 @@ export async function seedDemo(models: CoreModels, demoPassword: string, options
     );
   });
   await saveLabSettings(models, LabSettingsSchema.parse({ labName: DEMO_LAB_NAME }), null);
+  await seedDemoBenches(models.User.sequelize!);
   return { seeded: true };
 }
