@@ -113,6 +113,10 @@ export const ModbusFormatSchema = z.object({
   registers: z.object({
     volts: RegisterSpecSchema,
     amps: RegisterSpecSchema,
+    /** The meter's own time in seconds after scaling; without it frames are stamped on arrival. */
+    t: RegisterSpecSchema.optional(),
+    /** The meter's sample counter, when it keeps one. */
+    seq: RegisterSpecSchema.optional(),
     temps: z.record(z.string().max(32), RegisterSpecSchema).default({}),
     aux: z.record(z.string().max(32), RegisterSpecSchema).default({}),
   }),

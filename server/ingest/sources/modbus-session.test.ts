@@ -99,3 +99,28 @@ describe('Modbus RTU polling over a serial source', () => {
     await source.stop();
   });
 });
+
+describe('decodeModbusFrame', () => {
+  it('takes the device time and sequence from registers when mapped', async () => {
+    const { decodeModbusFrame } = await import('./modbus-session.js');
+    const format = config.format.kind === 'modbus' ? config.format : undefined;
+    const withTime = {
+      ...format!,
+      registers: {
+        volts: { address: 0, type: 'i32' as const, scale: 0.001, offset: 0, wordOrder: 'high-first' as const },
+        amps: { address: 2, type: 'i32' as const, scale: 0.001, offset: 0, wordOrder: 'high-first' as const },
+        seq: { address: 8, type: 'u32' as const, scale: 1, offset: 0, wordOrder: 'high-first' as const },
+        t: { address: 10, type: 'u32' as const, scale: 0.1, offset: 0, wordOrder: 'high-first' as const },
+        temps: {},
+        aux: {},
+      },
+    };
+    // -2500 as a 32-bit two's complement is 0xFFFF_F63C.
+    const words = [0, 13210, 0xffff, 0xf63c, 0, 0, 0, 0, 0, 77, 0, 1234];
+    const frame = decodeModbusFrame(withTime, [{ block: { start: 0, count: 12 }, words }], 5_000);
+    expect(frame).toMatchObject({ volts: 13.21, amps: -2.5, seq: 77, clock: 'device' });
+    expect(typeof frame !== 'string' && frame.t).toBeCloseTo(123.4, 9);
+    const short = decodeModbusFrame(withTime, [{ block: { start: 0, count: 4 }, words: words.slice(0, 4) }], 5_000);
+    expect(short).toBe('register 10 (t) missing from reply');
+  });
+});

@@ -26,6 +26,18 @@ export function decodeModbusFrame(format: ModbusFormat, blocks: { block: ReadBlo
   if (volts === undefined) return `register ${format.registers.volts.address} (volts) missing from reply`;
   if (amps === undefined) return `register ${format.registers.amps.address} (amps) missing from reply`;
   const frame: Frame = { t: tMs / MS_PER_S, volts, amps: toAmps(amps, 'A', format.currentSign), clock: 'arrival' };
+  const { t: tSpec, seq: seqSpec } = format.registers;
+  if (tSpec) {
+    const t = read(tSpec);
+    if (t === undefined) return `register ${tSpec.address} (t) missing from reply`;
+    frame.t = t;
+    frame.clock = 'device';
+  }
+  if (seqSpec) {
+    const seq = read(seqSpec);
+    if (seq === undefined || !Number.isInteger(seq) || seq < 0) return `register ${seqSpec.address} (seq) is not a count`;
+    frame.seq = seq;
+  }
   for (const group of ['temps', 'aux'] as const) {
     const values: Record<string, number> = {};
     for (const [name, spec] of Object.entries(format.registers[group])) {
@@ -40,8 +52,8 @@ export function decodeModbusFrame(format: ModbusFormat, blocks: { block: ReadBlo
 
 /** All register specs of a format, for planning reads. */
 function allSpecs(format: ModbusFormat): RegisterSpec[] {
-  const { volts, amps, temps, aux } = format.registers;
-  return [volts, amps, ...Object.values(temps), ...Object.values(aux)];
+  const { volts, amps, t, seq, temps, aux } = format.registers;
+  return [volts, amps, ...(t ? [t] : []), ...(seq ? [seq] : []), ...Object.values(temps), ...Object.values(aux)];
 }
 
 /**
