@@ -20,9 +20,6 @@ export const IntegratorStateSchema = z.object({
   dischargeWs: SumSchema,
   chargeAs: SumSchema,
   chargeWs: SumSchema,
-  /** Seconds with positive (discharge) current, and ∫V dt over them, for time-weighted means. */
-  dischargeSeconds: SumSchema,
-  dischargeVoltSeconds: SumSchema,
   accepted: Count,
   rejectedNonFinite: Count,
   rejectedBackwards: Count,
@@ -45,8 +42,6 @@ export function createIntegratorState(seed?: Partial<RunTotals>): IntegratorStat
     dischargeWs: fromWh(seed?.dischargeWh),
     chargeAs: fromWh(seed?.chargeAh),
     chargeWs: fromWh(seed?.chargeWh),
-    dischargeSeconds: createSum(),
-    dischargeVoltSeconds: createSum(),
     accepted: 0,
     rejectedNonFinite: 0,
     rejectedBackwards: 0,

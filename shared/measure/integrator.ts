@@ -16,14 +16,6 @@ export const DEFAULT_MAX_GAP_SECONDS = 30;
 // Scratch for splitPanel: one allocation for the module, not one per reading.
 const panel: [number, number] = [0, 0];
 
-/** Seconds of a linear panel from y1 to y2 over dt during which y is positive. */
-function positiveShare(y1: number, y2: number, dt: number): number {
-  if (y1 >= 0 && y2 >= 0) return dt;
-  if (y1 <= 0 && y2 <= 0) return 0;
-  const f = y1 / (y1 - y2);
-  return y1 > 0 ? f * dt : (1 - f) * dt;
-}
-
 /**
  * Adds one reading to the state by the trapezoidal rule (constant work).
  * Positive amps add to discharge totals, negative to charge; a panel that changes sign is
@@ -56,13 +48,7 @@ export function integrateStep(s: IntegratorState, t: number, volts: number, amps
       outcome = 'gap';
     } else {
       splitPanel(s.lastAmps, amps, dt, panel);
-      if (panel[0] !== 0) {
-        addTo(s.dischargeAs, panel[0]);
-        // Means over discharge: the share of dt with positive current, at the panel's mean volts.
-        const share = positiveShare(s.lastAmps, amps, dt);
-        addTo(s.dischargeSeconds, share);
-        addTo(s.dischargeVoltSeconds, ((s.lastVolts + volts) / 2) * share);
-      }
+      if (panel[0] !== 0) addTo(s.dischargeAs, panel[0]);
       if (panel[1] !== 0) addTo(s.chargeAs, panel[1]);
       splitPanel(s.lastVolts * s.lastAmps, volts * amps, dt, panel);
       if (panel[0] !== 0) addTo(s.dischargeWs, panel[0]);

@@ -101,7 +101,7 @@ export function createRunPipeline(config: MeasureConfigInput, snapshot?: unknown
       chargeWh: sumValue(integ.chargeWs) / SECONDS_PER_HOUR,
       chargeAh: sumValue(integ.chargeAs) / SECONDS_PER_HOUR,
     };
-    updateRunStats(stats, elapsedSeconds, frame.volts, frame.temps);
+    updateRunStats(stats, elapsedSeconds, frame.volts, frame.amps, frame.temps, settings.loadOnAmps, outcome === 'gap');
     scratch.length = 0;
     if (outcome === 'gap' && prevT !== null) scratch.push({ type: 'gap', t: prevT - originT, endT: elapsedSeconds, gapSeconds: frame.t - prevT });
     detectStep(det, settings, reading, scratch);

@@ -22,7 +22,7 @@ export const RunSummarySchema = z
     rejectedReadings: z.number().int().nonnegative(),
     gaps: z.number().int().nonnegative(),
     gapSeconds: nonNeg,
-    /** Time-weighted means over the discharge (positive amps) part of the run. */
+    /** Time-weighted means while under load (discharge amps ≥ the run's loadOnAmps). */
     meanVolts: finite.nullable(),
     meanAmps: finite.nullable(),
     meanWatts: finite.nullable(),

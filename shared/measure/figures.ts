@@ -1,0 +1,49 @@
+import type { Verdict } from '../schemas/run-summary.js';
+
+/**
+ * Default acceptance: delivered capacity ≥ 100 % of rated, the usual rated-capacity
+ * acceptance for lithium cells and batteries under IEC 61960-3 (from memory; clause not cited).
+ */
+export const DEFAULT_ACCEPTANCE_PERCENT = 100;
+const PERCENT = 100;
+const WH_PER_KWH = 1000;
+/** Round-trip efficiency is only meaningful when each half is at least this share of the other. */
+const MIN_ROUND_TRIP_SHARE = 0.25;
+
+/** Delivered as % of rated; null when either is unknown or rated ≤ 0. */
+export function percentOfRated(delivered: number | null | undefined, rated: number | null | undefined): number | null {
+  if (delivered == null || rated == null || !(rated > 0)) return null;
+  return (delivered / rated) * PERCENT;
+}
+
+/** Pass when every known percentage is ≥ the acceptance %; `unrated` when none is known. */
+export function verdictFor(percents: ReadonlyArray<number | null>, acceptancePercent = DEFAULT_ACCEPTANCE_PERCENT): Verdict {
+  const known = percents.filter((p): p is number => p !== null);
+  if (known.length === 0) return 'unrated';
+  return known.every((p) => p >= acceptancePercent) ? 'pass' : 'fail';
+}
+
+/** C-rate: current ÷ rated Ah (0.2 C for 10 A from a 50 Ah pack). */
+export function cRate(amps: number | null | undefined, ratedAh: number | null | undefined): number | null {
+  if (amps == null || ratedAh == null || !(ratedAh > 0)) return null;
+  return Math.abs(amps) / ratedAh;
+}
+
+/** Price ÷ delivered kWh (currency per kWh of capacity); null when unknown or nothing delivered. */
+export function costPerKWh(price: number | null | undefined, deliveredWh: number | null | undefined): number | null {
+  if (price == null || deliveredWh == null || !(deliveredWh > 0)) return null;
+  return price / (deliveredWh / WH_PER_KWH);
+}
+
+/** Specific energy, Wh/kg; null when mass is unknown. */
+export function whPerKg(deliveredWh: number | null | undefined, massKg: number | null | undefined): number | null {
+  if (deliveredWh == null || massKg == null || !(massKg > 0)) return null;
+  return deliveredWh / massKg;
+}
+
+/** Round-trip efficiency: Wh out ÷ Wh in; null unless both halves are substantial. */
+export function roundTripEfficiency(dischargeWh: number, chargeWh: number): number | null {
+  if (!(dischargeWh > 0) || !(chargeWh > 0)) return null;
+  if (dischargeWh < chargeWh * MIN_ROUND_TRIP_SHARE || chargeWh < dischargeWh * MIN_ROUND_TRIP_SHARE) return null;
+  return dischargeWh / chargeWh;
+}
