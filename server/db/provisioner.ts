@@ -4,6 +4,7 @@ import { createHash } from 'node:crypto';
 import { join, resolve } from 'node:path';
 import { userInfo } from 'node:os';
 import { ensureMariaDbBinaries, type MariaDbBinaries } from './mariadb-binaries.js';
+import { liveLeaseHolders, takeLease, withStartStopLock } from './mariadb-lease.js';
 import { findRunningMariaDb, isAlive, isPortFree, pingOverSocket, stopMariaDb, waitFor } from './mariadb-process.js';
 import { SYSTEM_MARIADB_PORT } from '../config/env-schema.js';
 import type { DatabaseConfig } from '../config/config.js';
@@ -27,9 +28,12 @@ export interface ProvisionOptions {
 export interface ProvisionedMariaDb extends DatabaseConfig {
   socketPath: string;
   pid: number;
-  /** True when a healthy server of ours was already running on this data and we took it over. */
+  /** True when a healthy server was already running on this data (another user, or left by a crash). */
   reused: boolean;
-  /** Shuts the server down cleanly (also one we reused: we adopt it). */
+  /**
+   * Drops this process's lease and shuts the server down cleanly when no other live process
+   * holds one (so concurrent test runs or app instances on the same data never pull it away).
+   */
   stop(): Promise<void>;
 }
 
@@ -136,8 +140,9 @@ async function createDatabaseAndUser(bin: MariaDbBinaries, socketPath: string, o
 
 /**
  * Makes a private MariaDB available on 127.0.0.1:port for this base directory: installs the
- * programs if allowed, initialises the data once, starts the server (or takes over a healthy one
- * of ours already running on the same data), and creates the database and app user idempotently.
+ * programs if allowed, initialises the data once, starts the server (or reuses a healthy one
+ * already running on the same data: processes take leases, the last one out stops it), and
+ * creates the database and app user idempotently.
  */
 export async function provisionMariaDb(options: ProvisionOptions): Promise<ProvisionedMariaDb> {
   const log = options.log ?? ((message: string) => console.log(`[mariadb] ${message}`));
@@ -151,30 +156,38 @@ export async function provisionMariaDb(options: ProvisionOptions): Promise<Provi
   const osUser = userInfo().username;
   mkdirSync(baseDir, { recursive: true });
 
-  let pid = findRunningMariaDb(dataDir, pidFile);
-  const reused = pid !== undefined;
-  if (pid !== undefined) {
-    if (!(await pingOverSocket(bin.admin, socketPath, osUser))) {
-      throw new Error(`A MariaDB server (pid ${pid}) is already running on ${dataDir} but does not answer on ${socketPath}. ` +
-        `Stop it first: kill ${pid}`);
+  return withStartStopLock(baseDir, async () => {
+    let pid = findRunningMariaDb(dataDir, pidFile);
+    const reused = pid !== undefined;
+    if (pid !== undefined) {
+      if (!(await pingOverSocket(bin.admin, socketPath, osUser))) {
+        throw new Error(`A MariaDB server (pid ${pid}) is already running on ${dataDir} but does not answer on ${socketPath}. ` +
+          `Stop it first: kill ${pid}`);
+      }
+      log(`Reusing the MariaDB server already running on this data (pid ${pid}); the last process using it stops it.`);
+    } else {
+      if (!(await isPortFree(options.port))) {
+        throw new Error(`MariaDB port ${options.port} on 127.0.0.1 is already in use by another program: choose another port (KNEEPOINT_DB_PORT).`);
+      }
+      if (!existsSync(join(dataDir, 'mysql'))) await initialiseDataDir(bin, dataDir, osUser, log);
+      pid = await startServerProcess(bin, {
+        dataDir, socketPath, pidFile, errorLog, osUser, port: options.port,
+        readyTimeoutMs: options.readyTimeoutMs ?? DEFAULT_READY_TIMEOUT_MS,
+      });
+      log(`MariaDB started on 127.0.0.1:${options.port} (pid ${pid}, data in ${dataDir})`);
     }
-    log(`Reusing the MariaDB server already running on this data (pid ${pid}); it will be stopped when this app stops.`);
-  } else {
-    if (!(await isPortFree(options.port))) {
-      throw new Error(`MariaDB port ${options.port} on 127.0.0.1 is already in use by another program: choose another port (KNEEPOINT_DB_PORT).`);
-    }
-    if (!existsSync(join(dataDir, 'mysql'))) await initialiseDataDir(bin, dataDir, osUser, log);
-    pid = await startServerProcess(bin, {
-      dataDir, socketPath, pidFile, errorLog, osUser, port: options.port,
-      readyTimeoutMs: options.readyTimeoutMs ?? DEFAULT_READY_TIMEOUT_MS,
+    await createDatabaseAndUser(bin, socketPath, osUser, options);
+    const dropLease = takeLease(baseDir);
+    const stop = () => withStartStopLock(baseDir, async () => {
+      dropLease();
+      const others = liveLeaseHolders(baseDir).filter((holder) => holder !== process.pid);
+      if (others.length > 0) return log(`MariaDB left running: still used by pid ${others.join(', ')}`);
+      const running = findRunningMariaDb(dataDir, pidFile);
+      if (running !== undefined) await stopMariaDb(running);
     });
-    log(`MariaDB started on 127.0.0.1:${options.port} (pid ${pid}, data in ${dataDir})`);
-  }
-  await createDatabaseAndUser(bin, socketPath, osUser, options);
-  const serverPid = pid;
-  return {
-    host: '127.0.0.1', port: options.port, database: options.database, user: options.user, password: options.password,
-    socketPath, pid: serverPid, reused,
-    stop: () => stopMariaDb(serverPid),
-  };
+    return {
+      host: '127.0.0.1', port: options.port, database: options.database, user: options.user, password: options.password,
+      socketPath, pid: pid!, reused, stop,
+    };
+  });
 }

@@ -12,14 +12,14 @@ const MAX_CELLS_IN_PARALLEL = 500;
 const optionalText = (max: number) => z.string().trim().max(max).nullable().optional();
 const positive = () => z.number().finite().positive();
 
-/** Fields a technician sends to create a battery pack record. */
-export const BatteryInputSchema = z.object({
+/** The editable fields, without defaults (so a partial update never resets a field). */
+const BatteryFieldsSchema = z.object({
   label: z.string().trim().min(1).max(120),
   brand: z.string().trim().min(1).max(120),
   model: optionalText(120),
   chemistry: ChemistrySchema,
   cellsInSeries: z.number().int().min(1).max(MAX_CELLS_IN_SERIES),
-  cellsInParallel: z.number().int().min(1).max(MAX_CELLS_IN_PARALLEL).default(1),
+  cellsInParallel: z.number().int().min(1).max(MAX_CELLS_IN_PARALLEL),
   ratedAh: positive(),
   ratedWh: positive().nullable().optional(),
   bmsRatedAmps: positive().nullable().optional(),
@@ -30,10 +30,15 @@ export const BatteryInputSchema = z.object({
   sender: optionalText(200),
   notes: optionalText(4000),
 });
+
+/** Fields a technician sends to create a battery pack record (a single cell group by default). */
+export const BatteryInputSchema = BatteryFieldsSchema.extend({
+  cellsInParallel: BatteryFieldsSchema.shape.cellsInParallel.default(1),
+});
 export type BatteryInput = z.infer<typeof BatteryInputSchema>;
 
 /** PATCH body: any subset of the fields. */
-export const BatteryPatchSchema = BatteryInputSchema.partial()
+export const BatteryPatchSchema = BatteryFieldsSchema.partial()
   .strict()
   .refine((body) => Object.keys(body).length > 0, { message: 'Nothing to change' });
 export type BatteryPatch = z.infer<typeof BatteryPatchSchema>;
