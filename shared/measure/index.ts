@@ -1,0 +1,10 @@
+/** The measurement core's public API: import from here (`shared/measure/index.js`). */
+export * from './run-pipeline.js';
+export * from './integrator.js';
+export * from './compensated-sum.js';
+export * from './trapezoid.js';
+export * from './capacity-to-end-voltage.js';
+export * from './detector.js';
+export * from './parse-csv-line.js';
+export * from './run-stats.js';
+export * from './verdict.js';
