@@ -1,12 +1,11 @@
 import type { BenchStatus, SimulatorSourceConfig } from '../../../shared/schemas/bench.js';
-import { createSimulation, type SimSample } from '../../../simulator/engine/simulation.js';
-import type { Player } from '../../../simulator/engine/play.js';
-import { loadScenario } from '../../../simulator/scenario/registry.js';
+import { createSimulation, loadScenario, type SimSample, type Simulation } from '../../../simulator/index.js';
 import { systemClock, type Clock } from '../clock.js';
 import { StatusTracker } from '../status-tracker.js';
 import { safeDeliver, type Source, type SourceSink } from './source.js';
 
 const MS_PER_S = 1000;
+type Player = ReturnType<Simulation['play']>;
 
 /**
  * A simulator scenario played in-process at the bench's speed: frames carry the
