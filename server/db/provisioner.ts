@@ -180,8 +180,8 @@ export async function provisionMariaDb(options: ProvisionOptions): Promise<Provi
     const dropLease = takeLease(baseDir);
     const stop = () => withStartStopLock(baseDir, async () => {
       dropLease();
-      const others = liveLeaseHolders(baseDir).filter((holder) => holder !== process.pid);
-      if (others.length > 0) return log(`MariaDB left running: still used by pid ${others.join(', ')}`);
+      const others = liveLeaseHolders(baseDir);
+      if (others.length > 0) return log(`MariaDB left running: still used by pid ${[...new Set(others)].join(', ')}`);
       const running = findRunningMariaDb(dataDir, pidFile);
       if (running !== undefined) await stopMariaDb(running);
     });
