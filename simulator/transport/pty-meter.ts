@@ -92,7 +92,8 @@ export async function startPtyMeter(options: PtyMeterOptions): Promise<PtyMeter>
     async tick() {
       const sample = simulation.step();
       if (sample) deliver(sample);
-      await queue;
+      // By hand, a sample counts as sent once its bytes have left for the pseudo-terminal.
+      await serial(() => new Promise<void>((done) => (port?.isOpen ? port.drain(() => done()) : done())));
       return sample;
     },
     unplug() {
