@@ -1,6 +1,7 @@
 import { afterEach, describe, expect, it } from 'vitest';
-import { SerialSourceConfigSchema, type SerialFormat, type BenchStatus } from '../../shared/schemas/bench.js';
+import { SerialSourceConfigSchema, SimulatorSourceConfigSchema, type BenchStatus, type SerialFormat } from '../../shared/schemas/bench.js';
 import type { Frame } from '../../shared/schemas/frame.js';
+import { createSource } from '../../server/ingest/sources/create-source.js';
 import { SerialSource } from '../../server/ingest/sources/serial-source.js';
 import { loadScenario, startPtyMeter, type PtyMeter } from '../../simulator/index.js';
 
@@ -147,4 +148,25 @@ describe('serial source over a pseudo-terminal', () => {
     expect(frames.every((f) => f.clock === 'device')).toBe(true);
     expect(frames.at(-1)!.seq).toBe(sent.at(-1)!.seq);
   });
+});
+
+describe('simulator bench through a pseudo-terminal', () => {
+  for (const format of ['csv', 'modbus'] as const) {
+    it(`${format}: a simulator source with a format streams the scenario over the real serial path`, async () => {
+      const frames: Frame[] = [];
+      const config = SimulatorSourceConfigSchema.parse({ kind: 'simulator', scenario: 'lfp-24v-50ah-cold-heater', speed: 50, seed: 2, format });
+      const source = createSource(config, { frame: (f) => frames.push(f), status: () => undefined });
+      cleanup.push(() => source.stop());
+      source.start();
+      await expect.poll(() => frames.length, { timeout: WAIT_MS }).toBeGreaterThan(20);
+      await source.stop();
+      // The heated pack's meter reports the heater current (a CSV column derived from the scenario, a Modbus register).
+      expect(frames.at(-1)!.aux).toHaveProperty('heaterAmps');
+      expect(frames.at(-1)!.temps).toHaveProperty('cell');
+      expect(frames.every((f) => f.clock === 'device')).toBe(true);
+      const ts = frames.map((f) => f.t);
+      expect(ts.every((t, i) => i === 0 || t >= ts[i - 1]!)).toBe(true);
+      expect(source.getStatus().state).toBe('idle');
+    });
+  }
 });
