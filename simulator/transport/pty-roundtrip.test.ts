@@ -1,6 +1,7 @@
 import { existsSync } from 'node:fs';
+import { createRequire } from 'node:module';
+import type ModbusClient from 'modbus-serial';
 import { ReadlineParser, SerialPort } from 'serialport';
-import ModbusRTU from 'modbus-serial';
 import { afterEach, describe, expect, it } from 'vitest';
 import { FrameSchema, type Frame } from '../../shared/schemas/frame.js';
 import { DEFAULT_REGISTER_MAP, registersToValue } from '../encoders/modbus/register-map.js';
@@ -8,6 +9,8 @@ import { SCPI_FETCH_FIELDS } from '../encoders/scpi.js';
 import { loadScenario } from '../scenario/registry.js';
 import { startPtyMeter, type PtyMeter } from './pty-meter.js';
 
+// modbus-serial is CommonJS whose module.exports is the client class itself.
+const ModbusRTU = createRequire(import.meta.url)('modbus-serial') as typeof ModbusClient;
 const FRAMES = 120;
 const TIMEOUT_MS = 30_000;
 const scenario = loadScenario('lfp-24v-50ah-cold-heater');
