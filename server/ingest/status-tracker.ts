@@ -21,6 +21,8 @@ export class StatusTracker {
     private readonly clock: Clock,
     private readonly staleAfterMs: number | undefined,
     private readonly onChange: (status: BenchStatus) => void,
+    /** Called when the watchdog fires (the serial source may reopen the port later). */
+    private readonly onStale: () => void = () => undefined,
   ) {}
 
   /** The port (or simulation) is open; the watchdog starts counting. */
@@ -67,6 +69,11 @@ export class StatusTracker {
     this.set(this.state, message);
   }
 
+  /** The current state alone. */
+  get currentState(): SourceState {
+    return this.state;
+  }
+
   /** The current status, counts included. */
   snapshot(): BenchStatus {
     return {
@@ -96,6 +103,7 @@ export class StatusTracker {
     this.watchdog = this.clock.setTimeout(() => {
       this.watchdog = undefined;
       this.set('stale', `no valid frame for ${Math.round(this.staleAfterMs! / MS_PER_S)} s`);
+      this.onStale();
     }, this.staleAfterMs);
   }
 

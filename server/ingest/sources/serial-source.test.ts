@@ -3,7 +3,7 @@ import { SerialSourceConfigSchema, type BenchStatus } from '../../../shared/sche
 import type { Frame } from '../../../shared/schemas/frame.js';
 import { ManualClock } from '../testing/manual-clock.js';
 import { mockBinding, mockPortFactory, settle } from '../testing/mock-ports.js';
-import { RECONNECT_DELAYS_MS, SerialSource } from './serial-source.js';
+import { RECONNECT_DELAYS_MS, SerialSource, STALE_PERIODS_BEFORE_REOPEN } from './serial-source.js';
 
 const PATH = '/dev/ttyKP0';
 const STALE_AFTER_S = 5;
@@ -135,6 +135,50 @@ describe('SerialSource', () => {
     await settle();
     expect(calls).toBe(2);
     expect(source.getStatus().framesOk).toBe(2);
+    await source.stop();
+  });
+});
+
+describe('SerialSource stale reopen', () => {
+  beforeEach(() => mockBinding.createPort(PATH, { echo: false, record: true }));
+  afterEach(() => mockBinding.reset());
+
+  it('reopens a port that stays stale, as after a USB reset that leaves it open but dead', async () => {
+    const { clock, ports, frames, source } = setup();
+    source.start();
+    await settle();
+    lastPort(ports).port!.emitData('0,13.3,10\n');
+    await settle();
+    clock.advance(STALE_AFTER_S * 1000);
+    expect(source.getStatus().state).toBe('stale');
+    clock.advance(STALE_AFTER_S * 1000 * STALE_PERIODS_BEFORE_REOPEN - 1);
+    await settle();
+    expect(ports).toHaveLength(1); // still waiting
+    clock.advance(1);
+    await settle();
+    expect(source.getStatus()).toMatchObject({ state: 'reconnecting' });
+    expect(source.getStatus().message).toMatch(/^no valid frame for a long while: reopening the port/);
+    expect(ports[0]!.isOpen).toBe(false);
+    clock.advance(RECONNECT_DELAYS_MS[1]);
+    await settle();
+    expect(ports).toHaveLength(2);
+    lastPort(ports).port!.emitData('1,13.2,10\n');
+    await settle();
+    expect(frames.map((f) => f.t)).toEqual([0, 1]);
+    await source.stop();
+  });
+
+  it('does not reopen when frames come back before the reopen is due', async () => {
+    const { clock, ports, source } = setup();
+    source.start();
+    await settle();
+    clock.advance(STALE_AFTER_S * 1000);
+    expect(source.getStatus().state).toBe('stale');
+    lastPort(ports).port!.emitData('0,13.3,10\n');
+    await settle();
+    clock.advance(STALE_AFTER_S * 1000 * STALE_PERIODS_BEFORE_REOPEN);
+    await settle();
+    expect(ports).toHaveLength(1);
     await source.stop();
   });
 });

@@ -12,6 +12,11 @@ import { safeDeliver, type Source, type SourceSink } from './source.js';
 /** Waits between reopen attempts after an unplug or a failed open; the last one repeats. */
 export const RECONNECT_DELAYS_MS = [250, 500, 1000, 2000, 5000, 10_000] as const;
 const MS_PER_S = 1000;
+/**
+ * A port that stays stale this many watchdog periods is closed and reopened: a USB reset
+ * can leave a port open but dead, and only a reopen brings it back.
+ */
+export const STALE_PERIODS_BEFORE_REOPEN = 2;
 
 /** What a serial source needs from outside; tests pass a manual clock and the mock binding. */
 export interface SerialSourceDeps {
@@ -34,6 +39,7 @@ export class SerialSource implements Source {
   private port: SerialPortLike | undefined;
   private session: PortSession | undefined;
   private retryTimer: TimerHandle | undefined;
+  private reopenTimer: TimerHandle | undefined;
   private attempt = 0;
   private running = false;
 
@@ -45,7 +51,10 @@ export class SerialSource implements Source {
     this.clock = deps.clock ?? systemClock;
     this.openPort = deps.openPort ?? openRealPort;
     this.delaysMs = deps.reconnectDelaysMs ?? RECONNECT_DELAYS_MS;
-    this.tracker = new StatusTracker(this.clock, config.staleAfterS * MS_PER_S, (s) => safeDeliver(sink.status, s));
+    const staleAfterMs = config.staleAfterS * MS_PER_S;
+    this.tracker = new StatusTracker(this.clock, staleAfterMs, (s) => safeDeliver(sink.status, s), () =>
+      this.scheduleStaleReopen(staleAfterMs * STALE_PERIODS_BEFORE_REOPEN),
+    );
   }
 
   /** Opens the port in the background. */
@@ -110,6 +119,15 @@ export class SerialSource implements Source {
     return startLineSession(ctx, format);
   }
 
+  private scheduleStaleReopen(delayMs: number): void {
+    const port = this.port;
+    if (!port || this.reopenTimer !== undefined) return;
+    this.reopenTimer = this.clock.setTimeout(() => {
+      this.reopenTimer = undefined;
+      if (this.port === port && this.tracker.currentState === 'stale') this.lost(port, 'no valid frame for a long while: reopening the port');
+    }, delayMs);
+  }
+
   /** The port failed or closed: drop it and schedule a reopen (once per port). */
   private lost(port: SerialPortLike, reason: string): void {
     if (this.port !== port) return;
@@ -125,6 +143,8 @@ export class SerialSource implements Source {
   }
 
   private release(): Promise<void> {
+    if (this.reopenTimer !== undefined) this.clock.clearTimeout(this.reopenTimer);
+    this.reopenTimer = undefined;
     this.session?.stop();
     this.session = undefined;
     const port = this.port;
