@@ -10,7 +10,7 @@ import { loadScenario } from '../scenario/registry.js';
 import { startPtyMeter, type PtyMeter } from './pty-meter.js';
 
 // modbus-serial is CommonJS whose module.exports is the client class itself.
-const ModbusRTU = createRequire(import.meta.url)('modbus-serial') as typeof ModbusClient;
+const ModbusRTU = createRequire(import.meta.url)('modbus-serial') as typeof ModbusClient.default;
 const FRAMES = 120;
 const TIMEOUT_MS = 30_000;
 const scenario = loadScenario('lfp-24v-50ah-cold-heater');
