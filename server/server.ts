@@ -3,6 +3,7 @@ import type { AddressInfo } from 'node:net';
 import type { Express } from 'express';
 import { loadConfig, type AppConfig, type DatabaseConfig } from './config/config.js';
 import { provisionMariaDb, type ProvisionedMariaDb } from './db/provisioner.js';
+import { isPortFree } from './db/mariadb-process.js';
 import { createSequelize } from './db/sequelize.js';
 import { migrate } from './db/migrate.js';
 import { seedDemo } from './db/seed-demo.js';
@@ -62,12 +63,13 @@ async function openDatabase(config: AppConfig, options: StartServerOptions, log:
   return { database: mariadb as DatabaseConfig, mariadb };
 }
 
+function portInUse(port: number, host: string): Error {
+  return new Error(`Port ${port} on ${host} is already in use: stop the other program or set KNEEPOINT_PORT`);
+}
+
 function listen(httpServer: Server, port: number, host: string): Promise<number> {
   return new Promise((resolve, reject) => {
-    const onError = (error: NodeJS.ErrnoException) =>
-      reject(error.code === 'EADDRINUSE'
-        ? new Error(`Port ${port} on ${host} is already in use: stop the other program or set KNEEPOINT_PORT`)
-        : error);
+    const onError = (error: NodeJS.ErrnoException) => reject(error.code === 'EADDRINUSE' ? portInUse(port, host) : error);
     httpServer.once('error', onError);
     httpServer.listen(port, host, () => {
       httpServer.off('error', onError);
@@ -80,6 +82,10 @@ function listen(httpServer: Server, port: number, host: string): Promise<number>
 export async function startServer(options: StartServerOptions = {}): Promise<RunningServer> {
   const log = options.log ?? consoleLogger;
   const config = options.config ?? loadConfig();
+  const host = options.host ?? config.host;
+  const wantedPort = options.port ?? config.port;
+  // Check the HTTP port before starting MariaDB, so a taken port fails at once.
+  if (wantedPort !== 0 && !(await isPortFree(wantedPort, host))) throw portInUse(wantedPort, host);
   const { database, mariadb } = await openDatabase(config, options, log);
   const sequelize = createSequelize(database);
   const detaches: Detach[] = [];
@@ -102,8 +108,7 @@ export async function startServer(options: StartServerOptions = {}): Promise<Run
     const demoSeeded = options.seedDemo ? (await seedDemo(ctx.models, config.demoPassword)).seeded : false;
     const app = createApp(ctx);
     httpServer = createServer(app);
-    const host = options.host ?? config.host;
-    const port = await listen(httpServer, options.port ?? config.port, host);
+    const port = await listen(httpServer, wantedPort, host);
     for (const attach of options.attachments ?? ATTACHMENTS) {
       const detach = await attach(httpServer, ctx);
       if (detach) detaches.push(detach);
