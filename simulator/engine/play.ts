@@ -24,8 +24,9 @@ export function playSamples(
   onSample: (sample: SimSample) => void,
 ): Player {
   if (!(speed > 0)) throw new Error(`speed must be a positive number, got ${speed}`);
-  const periodMs = (samplePeriodS * MS_PER_S) / speed;
   const startMs = clock.now();
+  // Multiply before dividing so that sample 60 at 60× is due at exactly 1000 ms.
+  const dueAtMs = (k: number): number => startMs + (k * samplePeriodS * MS_PER_S) / speed;
   let index = 0;
   let handle: unknown;
   let stopped = false;
@@ -34,7 +35,7 @@ export function playSamples(
 
   const wake = (): void => {
     handle = undefined;
-    while (!stopped && startMs + index * periodMs <= clock.now()) {
+    while (!stopped && dueAtMs(index) <= clock.now()) {
       const next = source.step();
       if (!next) {
         stopped = true;
@@ -45,7 +46,7 @@ export function playSamples(
       onSample(next);
     }
     if (stopped) return;
-    const dueMs = startMs + index * periodMs - clock.now();
+    const dueMs = dueAtMs(index) - clock.now();
     handle = clock.setTimeout(wake, Math.max(MIN_WAKE_MS, dueMs));
   };
   wake();
