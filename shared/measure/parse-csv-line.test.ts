@@ -28,3 +28,23 @@ describe('parseCsvLine', () => {
     });
   });
 });
+
+describe('parseCsvLine number reading', () => {
+  it('reads every plain decimal exactly as Number() does (fast path is exact; property, fast-check)', async () => {
+    const fc = (await import('fast-check')).default;
+    fc.assert(
+      fc.property(fc.double({ noNaN: true, noDefaultInfinity: true, min: -1e6, max: 1e6 }), fc.integer({ min: 0, max: 12 }), (x, decimals) => {
+        const text = x.toFixed(decimals);
+        const r = parseCsvLine(`${text},${text},${text}`);
+        expect(r.ok && r.frame.volts).toBe(Number(text));
+      }),
+      { numRuns: 2000 },
+    );
+    for (const text of ['1e3', ' 12.5 ', '+3.25', '.5', '5.', '-0.000', '123456789012345678']) {
+      const r = parseCsvLine(`0,${text},1`);
+      expect(r.ok && r.frame.volts).toBe(Number(text));
+    }
+    expect(parseCsvLine('0,1.2.3,1').ok).toBe(false);
+    expect(parseCsvLine('0,-,1').ok).toBe(false);
+  });
+});
