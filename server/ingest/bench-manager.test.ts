@@ -86,3 +86,23 @@ describe('BenchManager', () => {
     expect(manager.getStatus(5)).toMatchObject({ state: 'idle', message: 'bench not running' });
   });
 });
+
+describe('BenchManager concurrency', () => {
+  beforeEach(() => mockBinding.createPort('/dev/ttyA', { echo: false, record: true }));
+  afterEach(() => mockBinding.reset());
+
+  it('applies quick successive changes to one bench one at a time, leaving one open port', async () => {
+    const { ports, manager } = setup();
+    await Promise.all([
+      manager.apply({ id: 1, source: serial('/dev/ttyA'), enabled: true }),
+      manager.apply({ id: 1, source: serial('/dev/ttyA', ['volts', 'amps']), enabled: true }),
+      manager.apply({ id: 1, source: serial('/dev/ttyA', ['amps', 'volts']), enabled: true }),
+    ]);
+    await settle();
+    expect(ports).toHaveLength(3);
+    expect(ports.filter((p) => p.isOpen)).toHaveLength(1);
+    expect(ports[2]!.isOpen).toBe(true);
+    await manager.stopAll();
+    expect(ports.filter((p) => p.isOpen)).toHaveLength(0);
+  });
+});

@@ -32,6 +32,8 @@ const UNKNOWN_BENCH: BenchStatus = { state: 'idle', message: 'bench not running'
  */
 export class BenchManager {
   private readonly entries = new Map<number, Entry>();
+  /** Changes to one bench run one after another, so two quick edits never leave two sources on one port. */
+  private readonly pending = new Map<number, Promise<unknown>>();
   private readonly frameListeners: ListenerSet<[number, Frame]>;
   private readonly statusListeners: ListenerSet<[number, BenchStatus]>;
 
@@ -64,11 +66,15 @@ export class BenchManager {
   }
 
   /** Starts a bench, or restarts it when its source or enabled flag changed; unchanged benches keep running. */
-  async apply(bench: ManagedBench): Promise<void> {
+  apply(bench: ManagedBench): Promise<void> {
+    return this.serially(bench.id, () => this.applyNow(bench));
+  }
+
+  private async applyNow(bench: ManagedBench): Promise<void> {
     const config = JSON.stringify(bench.source);
     const current = this.entries.get(bench.id);
     if (current && current.config === config && current.enabled === bench.enabled) return;
-    await this.remove(bench.id);
+    await this.removeNow(bench.id);
     const source = bench.enabled
       ? createSource(bench.source, this.sinkFor(bench.id), this.deps)
       : new IdleSource('bench disabled');
@@ -86,7 +92,11 @@ export class BenchManager {
   }
 
   /** Stops a bench's source and closes its port, then restarts it with the same configuration. */
-  async restart(benchId: number): Promise<boolean> {
+  restart(benchId: number): Promise<boolean> {
+    return this.serially(benchId, () => this.restartNow(benchId));
+  }
+
+  private async restartNow(benchId: number): Promise<boolean> {
     const entry = this.entries.get(benchId);
     if (!entry) return false;
     await entry.source.stop();
@@ -96,7 +106,11 @@ export class BenchManager {
   }
 
   /** Stops and forgets a bench. */
-  async remove(benchId: number): Promise<void> {
+  remove(benchId: number): Promise<void> {
+    return this.serially(benchId, () => this.removeNow(benchId));
+  }
+
+  private async removeNow(benchId: number): Promise<void> {
     const entry = this.entries.get(benchId);
     if (!entry) return;
     this.entries.delete(benchId);
@@ -107,6 +121,17 @@ export class BenchManager {
   /** Stops every source (server shutdown). */
   async stopAll(): Promise<void> {
     for (const id of this.benchIds()) await this.remove(id);
+  }
+
+  private serially<T>(benchId: number, job: () => Promise<T>): Promise<T> {
+    const previous = this.pending.get(benchId) ?? Promise.resolve();
+    const next = previous.then(job, job);
+    const settled = next.catch(() => undefined);
+    this.pending.set(benchId, settled);
+    void settled.then(() => {
+      if (this.pending.get(benchId) === settled) this.pending.delete(benchId);
+    });
+    return next;
   }
 
   private sinkFor(benchId: number) {

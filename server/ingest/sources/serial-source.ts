@@ -40,6 +40,7 @@ export class SerialSource implements Source {
   private session: PortSession | undefined;
   private retryTimer: TimerHandle | undefined;
   private reopenTimer: TimerHandle | undefined;
+  private opening: { port: SerialPortLike; done: Promise<void> } | undefined;
   private attempt = 0;
   private running = false;
 
@@ -92,13 +93,17 @@ export class SerialSource implements Source {
     // Listeners go on before open: a port can fail between open and the first read.
     port.on('error', (err: Error) => this.lost(port, describe(err)));
     port.on('close', () => this.lost(port, 'port closed (unplugged?)'));
-    port.open((err) => {
-      if (this.port !== port) return;
-      if (err) return this.lost(port, describe(err));
-      if (!this.running) return void this.release();
-      this.tracker.connected(`${this.config.path} open`);
-      this.session = this.startSession(port);
-    });
+    const opening = new Promise<void>((settled) =>
+      port.open((err) => {
+        settled();
+        // Released while opening: release() waits for this and closes the port itself.
+        if (this.port !== port) return;
+        if (err) return this.lost(port, describe(err));
+        this.tracker.connected(`${this.config.path} open`);
+        this.session = this.startSession(port);
+      }),
+    );
+    this.opening = { port, done: opening };
   }
 
   private startSession(port: SerialPortLike): PortSession {
@@ -142,20 +147,23 @@ export class SerialSource implements Source {
     this.retryTimer = this.clock.setTimeout(() => this.open(), delayMs);
   }
 
-  private release(): Promise<void> {
+  private async release(): Promise<void> {
     if (this.reopenTimer !== undefined) this.clock.clearTimeout(this.reopenTimer);
     this.reopenTimer = undefined;
     this.session?.stop();
     this.session = undefined;
     const port = this.port;
     this.port = undefined;
-    if (!port) return Promise.resolve();
+    if (!port) return;
     port.removeAllListeners('data');
     // Keep an error listener: a late error on a dropped port must not crash the process.
     port.removeAllListeners('error');
     port.on('error', () => undefined);
-    if (!port.isOpen) return Promise.resolve();
-    return new Promise((resolve) => port.close(() => resolve()));
+    // A port still opening is closed once its open completes, so it never keeps the device locked.
+    if (this.opening?.port === port) await this.opening.done;
+    this.opening = undefined;
+    if (!port.isOpen) return;
+    await new Promise<void>((resolve) => port.close(() => resolve()));
   }
 
   private portOptions() {
