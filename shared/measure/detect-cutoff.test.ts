@@ -87,3 +87,18 @@ describe('protection cutoff and recovery', () => {
     expect(createRunPipeline(LFP_8S).pushMany(frames).events).toEqual([]);
   });
 });
+
+describe('hysteresis property (fast-check)', () => {
+  it('any noisy trace hovering at the end voltage, noise within the band, gives exactly one cutoff', async () => {
+    const fc = (await import('fast-check')).default;
+    fc.assert(
+      fc.property(fc.integer({ min: 1, max: 2 ** 31 }), fc.double({ min: 0.01, max: 0.14, noNaN: true }), (seed, amplitude) => {
+        const n = noise(seed);
+        const frames = trace(0, 600, (t) => ({ volts: t < 10 ? 22 : 20 + n(amplitude), amps: 10 + n(0.05) }));
+        const { events } = createRunPipeline({ ...LFP_8S, hysteresisVolts: 0.3, warnMarginVolts: 0.5 }).pushMany(frames);
+        expect(events.filter((e) => e.type === 'cutoff')).toHaveLength(1);
+      }),
+      { numRuns: 40 },
+    );
+  });
+});

@@ -23,10 +23,10 @@ export interface DetectorState {
 /** Shape check for a restored detector state (the parts are checked by use; this catches a wrong or truncated blob). */
 export const DetectorStateSchema = z.object({
   version: z.literal(1),
-  cutoff: z.object({ phase: z.enum(['idle', 'discharging', 'cut-off']) }).passthrough(),
-  milestones: z.object({ fired: z.array(z.string()), warned: z.boolean() }).passthrough(),
-  tempProtections: z.array(z.object({ phase: z.enum(['watch', 'armed', 'tripped']) }).passthrough()),
-  heater: z.object({ on: z.boolean() }).passthrough(),
+  cutoff: z.object({ phase: z.enum(['idle', 'discharging', 'cut-off']) }).loose(),
+  milestones: z.object({ fired: z.array(z.string()), warned: z.boolean() }).loose(),
+  tempProtections: z.array(z.object({ phase: z.enum(['watch', 'armed', 'tripped']) }).loose()),
+  heater: z.object({ on: z.boolean() }).loose(),
 });
 
 /** A fresh detector state for the given settings. */
