@@ -28,14 +28,14 @@ export function timeToSeconds(raw: string | number, unit: 's' | 'ms' | 'iso'): n
 
 /** Volts from V or mV. */
 export function toVolts(value: number, unit: 'V' | 'mV'): number {
-  return unit === 'mV' ? value / MILLI : value;
+  return (unit === 'mV' ? value / MILLI : value) + 0;
 }
 
 /** Amps from A or mA, flipped to the product's sign (positive = discharge). */
 export function toAmps(value: number, unit: 'A' | 'mA', sign: CurrentSign): number {
   const amps = unit === 'mA' ? value / MILLI : value;
-  // `0 * -1` is -0; keep a plain 0 so frames compare and serialise cleanly.
-  return sign === 'discharge-negative' ? (amps === 0 ? 0 : -amps) : amps;
+  // Adding 0 folds -0 (from "-0", a flipped 0 or an underflow) into 0, so frames compare and serialise cleanly.
+  return (sign === 'discharge-negative' ? -amps : amps) + 0;
 }
 
 /** °C from °C, °F or K. */
