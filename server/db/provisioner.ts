@@ -1,7 +1,7 @@
 import { spawn, execFile } from 'node:child_process';
-import { existsSync, mkdirSync, readFileSync, renameSync, rmSync } from 'node:fs';
+import { existsSync, mkdirSync, readFileSync, readdirSync, renameSync, rmSync } from 'node:fs';
 import { createHash } from 'node:crypto';
-import { join, resolve } from 'node:path';
+import { basename, dirname, join, resolve } from 'node:path';
 import { userInfo } from 'node:os';
 import { ensureMariaDbBinaries, type MariaDbBinaries } from './mariadb-binaries.js';
 import { liveLeaseHolders, takeLease, withStartStopLock } from './mariadb-lease.js';
@@ -71,7 +71,10 @@ function runSql(bin: MariaDbBinaries, socketPath: string, osUser: string, sql: s
 async function initialiseDataDir(bin: MariaDbBinaries, dataDir: string, osUser: string, log: (m: string) => void) {
   // Initialise into a temporary folder and rename it, so a killed init never leaves half a data dir.
   const tempDir = `${dataDir}.init-${process.pid}`;
-  rmSync(tempDir, { recursive: true, force: true });
+  // Leftovers of an init that was killed (we hold the start/stop lock, so none is in progress).
+  for (const entry of readdirSync(dirname(dataDir))) {
+    if (entry.startsWith(`${basename(dataDir)}.init-`)) rmSync(join(dirname(dataDir), entry), { recursive: true, force: true });
+  }
   log(`Initialising a private MariaDB data directory in ${dataDir}`);
   await new Promise<void>((resolvePromise, reject) => {
     execFile(
