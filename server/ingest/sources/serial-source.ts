@@ -160,8 +160,11 @@ export class SerialSource implements Source {
     port.removeAllListeners('error');
     port.on('error', () => undefined);
     // A port still opening is closed once its open completes, so it never keeps the device locked.
-    if (this.opening?.port === port) await this.opening.done;
-    this.opening = undefined;
+    const opening = this.opening?.port === port ? this.opening : undefined;
+    if (opening) {
+      this.opening = undefined;
+      await opening.done;
+    }
     if (!port.isOpen) return;
     await new Promise<void>((resolve) => port.close(() => resolve()));
   }
