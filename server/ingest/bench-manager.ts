@@ -17,6 +17,16 @@ export type FrameListener = (benchId: number, frame: Frame) => void;
 /** A status listener: state or message changes of any bench. */
 export type StatusListener = (benchId: number, status: BenchStatus) => void;
 
+/**
+ * The read side of the bench manager: what consumers (run recorder, WebSocket hub) need.
+ * Depend on this rather than the class to fake it in tests.
+ */
+export interface BenchFeed {
+  onFrame(listener: FrameListener): () => void;
+  onStatus(listener: StatusListener): () => void;
+  getStatus(benchId: number): BenchStatus;
+}
+
 interface Entry {
   config: string;
   enabled: boolean;
@@ -30,7 +40,7 @@ const UNKNOWN_BENCH: BenchStatus = { state: 'idle', message: 'bench not running'
  * run recorder, the WebSocket hub). Sources never throw into it and listeners are
  * isolated from one another, so one faulty consumer never stops ingest.
  */
-export class BenchManager {
+export class BenchManager implements BenchFeed {
   private readonly entries = new Map<number, Entry>();
   /** Changes to one bench run one after another, so two quick edits never leave two sources on one port. */
   private readonly pending = new Map<number, Promise<unknown>>();
