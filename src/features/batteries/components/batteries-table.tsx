@@ -23,16 +23,16 @@ export function BatteriesTable({ batteries }: { batteries: readonly Battery[] })
               <td className="px-3 py-3 font-semibold">{b.label}</td>
               <td className="px-3 py-3">{[b.brand, b.model].filter(Boolean).join(' ')}</td>
               <td className="px-3 py-3">{CHEMISTRY_LABEL[b.chemistry]}</td>
-              <td className="num px-3 py-3">
+              <td className="num whitespace-nowrap px-3 py-3">
                 {b.cellsInSeries}S{b.cellsInParallel > 1 ? `${b.cellsInParallel}P` : ''}
               </td>
-              <td className="num px-3 py-3">
+              <td className="num whitespace-nowrap px-3 py-3">
                 {formatCharge(b.ratedAh)}
                 {b.ratedWh !== null && ` · ${formatEnergy(b.ratedWh)}`}
               </td>
-              <td className="num px-3 py-3">{b.bmsRatedAmps === null ? '—' : `${formatNumber(b.bmsRatedAmps, 0)} A`}</td>
-              <td className="num px-3 py-3">{b.massKg === null ? '—' : `${formatNumber(b.massKg, 2)} kg`}</td>
-              <td className="num px-3 py-3">{b.serialNumber ?? '—'}</td>
+              <td className="num whitespace-nowrap px-3 py-3">{b.bmsRatedAmps === null ? '—' : `${formatNumber(b.bmsRatedAmps, 0)} A`}</td>
+              <td className="num whitespace-nowrap px-3 py-3">{b.massKg === null ? '—' : `${formatNumber(b.massKg, 2)} kg`}</td>
+              <td className="num whitespace-nowrap px-3 py-3">{b.serialNumber ?? '—'}</td>
               <td className="px-3 py-3">{b.sender ?? '—'}</td>
             </tr>
           ))}

@@ -1,0 +1,103 @@
+import { mkdirSync } from 'node:fs';
+import { resolve } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { ATTACHMENTS } from '../../server/server.js';
+import { DEMO_ACCOUNTS } from '../../server/db/seed-demo.js';
+import { createTestContext, type TestContext } from '../integration/helpers/index.js';
+import { launchBrowser, type TestBrowser } from './helpers/browser.js';
+import { buildClient } from './helpers/build-client.js';
+import { signInThroughForm } from './helpers/sign-in.js';
+
+const SCREENSHOT_DIR = resolve('.data/screenshots');
+const account = (role: string) => DEMO_ACCOUNTS.find((a) => a.role === role)!;
+
+let t: TestContext;
+let browser: TestBrowser;
+let client: { dir: string; remove(): void };
+let demoPassword: string;
+
+beforeAll(async () => {
+  client = await buildClient();
+  t = await createTestContext({ demo: true, users: false, attachments: ATTACHMENTS, config: { clientDir: client.dir } });
+  demoPassword = t.ctx.config.demoPassword;
+  browser = await launchBrowser();
+  mkdirSync(SCREENSHOT_DIR, { recursive: true });
+});
+
+afterAll(async () => {
+  await browser?.close();
+  await t?.close();
+  client?.remove();
+});
+
+async function navFor(role: string) {
+  // One persistent profile for the file: each role starts from a signed-out browser.
+  await browser.context.clearCookies();
+  const page = await browser.context.newPage();
+  await signInThroughForm(page, t.url, account(role).email, demoPassword);
+  const labels = await page.getByRole('navigation', { name: 'Main' }).getByRole('link').allTextContents();
+  return { page, labels };
+}
+
+describe('each demo role signs in and sees what it may do', () => {
+  it('sends a signed-out visitor to sign-in', async () => {
+    await browser.context.clearCookies();
+    const page = await browser.context.newPage();
+    await page.goto(`${t.url}/runs`);
+    await page.waitForURL(/\/sign-in\?next=%2Fruns$/);
+    expect(await page.getByRole('heading', { name: 'Sign in' }).isVisible()).toBe(true);
+    await page.close();
+  });
+
+  it('refuses a wrong password with a clear message', async () => {
+    await browser.context.clearCookies();
+    const page = await browser.context.newPage();
+    await page.goto(`${t.url}/sign-in`);
+    await page.getByLabel('E-mail').fill(account('viewer').email);
+    await page.getByLabel('Password').fill('not-the-password');
+    await page.getByRole('button', { name: 'Sign in' }).click();
+    await page.getByText('That e-mail and password do not match an account.').waitFor();
+    await page.close();
+  });
+
+  it('admin sees users and lab settings, and can open the users list', async () => {
+    const { page, labels } = await navFor('admin');
+    expect(labels).toEqual(['Benches', 'Runs', 'Batteries', 'Users', 'Lab settings', 'My account']);
+    await page.getByRole('link', { name: 'Users' }).click();
+    await page.getByRole('button', { name: 'Create user' }).waitFor();
+    await page.locator('table tbody tr').first().waitFor();
+    for (const a of DEMO_ACCOUNTS) expect(await page.getByText(a.email).count()).toBe(1);
+    await page.screenshot({ path: `${SCREENSHOT_DIR}/users-admin.png` });
+    await page.close();
+  });
+
+  it('technician registers packs but has no user management', async () => {
+    const { page, labels } = await navFor('technician');
+    expect(labels).not.toContain('Users');
+    expect(labels).not.toContain('Lab settings');
+    await page.getByRole('link', { name: 'Batteries' }).click();
+    await page.getByRole('button', { name: 'Register a pack' }).waitFor();
+    await page.getByRole('button', { name: 'Register a pack' }).click();
+    expect(await page.getByRole('region', { name: 'Safety cautions' }).isVisible()).toBe(true);
+    await page.goto(`${t.url}/users`);
+    await page.getByText('Not available for your role').waitFor();
+    await page.close();
+  });
+
+  it('viewer reads the packs and sees no create buttons', async () => {
+    const { page, labels } = await navFor('viewer');
+    expect(labels).toEqual(['Benches', 'Runs', 'Batteries', 'My account']);
+    await page.getByRole('link', { name: 'Batteries' }).click();
+    await page.locator('table tbody tr').first().waitFor();
+    expect(await page.getByRole('button', { name: 'Register a pack' }).count()).toBe(0);
+    await page.screenshot({ path: `${SCREENSHOT_DIR}/batteries-viewer.png` });
+    await page.close();
+  });
+
+  it('the dashboard shows the demo benches with their status', async () => {
+    const { page } = await navFor('technician');
+    await page.getByRole('link', { name: /^Bench Bench A/ }).waitFor();
+    await page.screenshot({ path: `${SCREENSHOT_DIR}/dashboard-technician.png` });
+    await page.close();
+  });
+});
