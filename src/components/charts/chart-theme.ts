@@ -9,3 +9,8 @@ export function chartTheme(): { axis: string; grid: string } {
 
 /** Axis font: numbers in JetBrains Mono like everywhere else. */
 export const AXIS_FONT = '12px "JetBrains Mono", ui-monospace, monospace';
+
+/** Run-time tick steps in seconds: whole seconds, minutes and hours a person counts in. */
+export const RUN_TIME_INCREMENTS_S = [1, 2, 5, 10, 15, 30, 60, 120, 300, 600, 900, 1800, 3600, 7200, 10_800, 21_600, 43_200, 86_400];
+/** Minimum gap between run-time labels ("01:23:20" is wide). */
+export const RUN_TIME_LABEL_SPACE_PX = 90;

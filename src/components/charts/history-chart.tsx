@@ -5,7 +5,7 @@ import type { SamplesResponse } from '../../../shared/schemas/api-runs';
 import { SIGNAL_COLORS } from '../../lib/palette';
 import { formatAmps, formatElapsedClock, formatTemperature, formatVolts } from '../../lib/units';
 import { useTheme } from '../../lib/use-theme';
-import { AXIS_FONT, chartTheme } from './chart-theme';
+import { AXIS_FONT, chartTheme, RUN_TIME_INCREMENTS_S, RUN_TIME_LABEL_SPACE_PX } from './chart-theme';
 import { useChartWidth } from './use-chart-size';
 
 /** A vertical line on the chart at a run time (cutoff, recovery, a note). */
@@ -46,7 +46,7 @@ function buildOptions(width: number, heightPx: number, temperatureUnit: 'C' | 'F
       { series: [3, 4], fill: SIGNAL_COLORS.amps + BAND_ALPHA_HEX },
     ],
     axes: [
-      { ...axisBase, values: (_u, ticks) => ticks.map((t) => formatElapsedClock(t)) },
+      { ...axisBase, incrs: RUN_TIME_INCREMENTS_S, space: RUN_TIME_LABEL_SPACE_PX, values: (_u, ticks) => ticks.map((t) => formatElapsedClock(t)) },
       { ...axisBase, scale: 'V', values: (_u, ticks) => ticks.map((t) => `${t} V`), size: 70 },
       { ...axisBase, scale: 'A', side: 1, grid: { show: false }, values: (_u, ticks) => ticks.map((t) => `${t} A`), size: 70 },
     ],

@@ -5,7 +5,7 @@ import { SIGNAL_COLORS } from '../../lib/palette';
 import { formatAmps, formatElapsedClock, formatTemperature, formatVolts, formatWatts } from '../../lib/units';
 import type { LiveStore } from '../../lib/live-store';
 import { useTheme } from '../../lib/use-theme';
-import { AXIS_FONT, chartTheme } from './chart-theme';
+import { AXIS_FONT, chartTheme, RUN_TIME_INCREMENTS_S, RUN_TIME_LABEL_SPACE_PX } from './chart-theme';
 import { useChartWidth } from './use-chart-size';
 
 const LINE_WIDTH_PX = 2;
@@ -26,7 +26,7 @@ function buildOptions(width: number, heightPx: number, temperatureUnit: 'C' | 'F
       { label: 'Temperature', scale: 'C', stroke: SIGNAL_COLORS.temp, width: 1, value: (_u, v) => formatTemperature(v, temperatureUnit) },
     ],
     axes: [
-      { ...axisBase, values: (_u, ticks) => ticks.map((t) => formatElapsedClock(t)) },
+      { ...axisBase, incrs: RUN_TIME_INCREMENTS_S, space: RUN_TIME_LABEL_SPACE_PX, values: (_u, ticks) => ticks.map((t) => formatElapsedClock(t)) },
       { ...axisBase, scale: 'V', values: (_u, ticks) => ticks.map((t) => `${t} V`), size: 70 },
       { ...axisBase, scale: 'A', side: 1, grid: { show: false }, values: (_u, ticks) => ticks.map((t) => `${t} A`), size: 70 },
     ],

@@ -1,15 +1,26 @@
 import { splitQuantity } from '../../lib/units';
 
-type Size = 'md' | 'lg' | 'room';
+type Size = 'md' | 'lg' | 'room' | 'room-small';
 
 // Room size is for the full-screen view, read from three metres away.
 const VALUE_SIZE: Record<Size, string> = {
   md: 'text-3xl',
   lg: 'text-5xl md:text-6xl',
   room: 'text-[clamp(3.5rem,9vw,10rem)] leading-none',
+  'room-small': 'text-[clamp(2rem,4.5vw,5rem)] leading-none',
 };
-const UNIT_SIZE: Record<Size, string> = { md: 'text-base', lg: 'text-xl', room: 'text-[clamp(1.5rem,3vw,3.5rem)]' };
-const LABEL_SIZE: Record<Size, string> = { md: 'text-xs', lg: 'text-sm', room: 'text-[clamp(1rem,1.6vw,2rem)]' };
+const UNIT_SIZE: Record<Size, string> = {
+  md: 'text-base',
+  lg: 'text-xl',
+  room: 'text-[clamp(1.5rem,3vw,3.5rem)]',
+  'room-small': 'text-[clamp(1rem,1.8vw,2rem)]',
+};
+const LABEL_SIZE: Record<Size, string> = {
+  md: 'text-xs',
+  lg: 'text-sm',
+  room: 'text-[clamp(1rem,1.6vw,2rem)]',
+  'room-small': 'text-[clamp(0.9rem,1.3vw,1.5rem)]',
+};
 
 export interface BigNumberProps {
   label: string;

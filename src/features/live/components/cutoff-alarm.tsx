@@ -30,7 +30,7 @@ function useFlashingTitle(text: string | null): void {
  * The loud part of the product: a red banner, a repeating tone and a flashing tab title
  * when a run cuts off, until someone acknowledges it (button or the A key).
  */
-export function CutoffAlarm({ store, label, sound }: { store: LiveStore; label: string; sound?: Pick<AlarmSound, 'start' | 'stop'> }) {
+export function CutoffAlarm({ store, label, sound, large = false }: { store: LiveStore; label: string; sound?: Pick<AlarmSound, 'start' | 'stop'>; large?: boolean }) {
   const view = useLiveView(store);
   const { alarm, acknowledge } = useCutoffAlarm(store, view);
   const player = useMemo(() => sound ?? new AlarmSound(), [sound]);
@@ -49,8 +49,8 @@ export function CutoffAlarm({ store, label, sound }: { store: LiveStore; label: 
   return (
     <div role="alert" className="alarm-pulse flex flex-wrap items-center justify-between gap-4 rounded-2xl bg-state-cutoff p-5 text-white shadow-lg">
       <div>
-        <p className="text-3xl font-black tracking-tight">{alarm.event.type === 'cutoff' ? 'CUTOFF' : 'ALARM'} · {label}</p>
-        <p className="mt-1 text-lg font-medium">{describeEvent(alarm.event)}</p>
+        <p className={`${large ? 'text-[clamp(2.5rem,5vw,6rem)] leading-none' : 'text-3xl'} font-black tracking-tight`}>{alarm.event.type === 'cutoff' ? 'CUTOFF' : 'ALARM'} · {label}</p>
+        <p className={`mt-1 font-medium ${large ? 'text-[clamp(1.1rem,2vw,2.2rem)]' : 'text-lg'}`}>{describeEvent(alarm.event)}</p>
       </div>
       <button
         type="button"

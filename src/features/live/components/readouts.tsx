@@ -28,10 +28,10 @@ export function Readouts({ view, temperatureUnit, energyUnit, size = 'lg' }: Pro
           size={size}
         />
       </div>
-      <div className={`grid gap-6 border-t border-line pt-4 ${size === 'room' ? 'grid-cols-3' : 'grid-cols-3'}`}>
-        <BigNumber label="Energy out" text={formatEnergy(view.dischargeWh, energyUnit)} unit={energyUnit} size={size === 'room' ? 'room' : 'md'} />
-        <BigNumber label="Charge out" text={formatCharge(view.dischargeAh)} unit="Ah" size={size === 'room' ? 'room' : 'md'} />
-        <BigNumber label="Run time" text={view.t === null ? '—' : `${formatElapsedClock(view.t)} h:m:s`} unit="h:m:s" size={size === 'room' ? 'room' : 'md'} />
+      <div className="grid grid-cols-3 gap-6 border-t border-line pt-4">
+        <BigNumber label="Energy out" text={formatEnergy(view.dischargeWh, energyUnit)} unit={energyUnit} size={size === 'room' ? 'room-small' : 'md'} />
+        <BigNumber label="Charge out" text={formatCharge(view.dischargeAh)} unit="Ah" size={size === 'room' ? 'room-small' : 'md'} />
+        <BigNumber label="Run time" text={view.t === null ? '—' : `${formatElapsedClock(view.t)} h:m:s`} unit="h:m:s" size={size === 'room' ? 'room-small' : 'md'} />
       </div>
       {(view.chargeWh ?? 0) > 0 && (
         <p className="text-sm text-ink-muted">

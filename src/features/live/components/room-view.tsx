@@ -1,8 +1,11 @@
 import { Link, useNavigate } from 'react-router-dom';
 import { LIVE_RUN_STATES } from '../../../../shared/schemas/run';
-import { BenchStatusBadge, RunStateBadge } from '../../../components/ui/state-badge';
+import { BENCH_STATUS_LABEL, RUN_STATE_LABEL } from '../../../components/ui/state-badge';
+import { BENCH_STATUS_COLORS, RUN_STATE_COLORS } from '../../../lib/palette';
 import { useLabSettings } from '../../../lib/lab-settings';
 import type { LiveStore } from '../../../lib/live-store';
+import type { RunStateName } from '../../../lib/palette';
+import type { SourceState } from '../../../../shared/schemas/bench';
 import { useLiveStore, useLiveView } from '../../../lib/use-live';
 import { useShortcut } from '../../../lib/use-shortcut';
 import { useBench } from '../api/get-bench';
@@ -19,9 +22,27 @@ function RunRoom({ runId, label }: { runId: number; label: string }) {
   const store = useLiveStore({ kind: 'run', id: runId });
   return (
     <>
-      <CutoffAlarm store={store} label={label} />
+      <CutoffAlarm store={store} label={label} large />
       <RoomNumbers store={store} />
     </>
+  );
+}
+
+/** The state as a wide coloured bar: the first thing read from across the room. */
+function StateBar({ runState, runName, sourceState }: { runState: RunStateName | null; runName: string | null; sourceState: SourceState | null }) {
+  const sourceKey = sourceState === 'reconnecting' ? 'stale' : sourceState;
+  const color = runState ? RUN_STATE_COLORS[runState] : sourceKey ? BENCH_STATUS_COLORS[sourceKey] : BENCH_STATUS_COLORS.idle;
+  const label = runState ? RUN_STATE_LABEL[runState] : 'No run';
+  return (
+    <div className="flex flex-wrap items-center justify-between gap-4 rounded-2xl border-l-[16px] bg-surface-raised px-6 py-4" style={{ borderColor: color }}>
+      <span className="text-[clamp(2rem,4.5vw,5rem)] font-black uppercase leading-none tracking-wide" style={{ color }} data-testid="room-state">
+        {label}
+      </span>
+      <span className="text-right text-[clamp(1rem,1.8vw,2rem)] text-ink-muted">
+        {runName && <span className="block text-ink">{runName}</span>}
+        {sourceState && <span>Meter: {BENCH_STATUS_LABEL[sourceState]}</span>}
+      </span>
+    </div>
   );
 }
 
@@ -44,11 +65,7 @@ export function RoomView({ benchId }: { benchId: number }) {
   return (
     <div className="flex min-h-screen flex-col gap-8 bg-surface p-6 md:p-10">
       <header className="flex flex-wrap items-center justify-between gap-4">
-        <div className="flex flex-wrap items-center gap-4">
-          <h1 className="text-[clamp(2rem,4vw,4.5rem)] font-black leading-none tracking-tight">{name}</h1>
-          {run && <RunStateBadge state={run.state} large />}
-          {status && <BenchStatusBadge state={status.state} large />}
-        </div>
+        <h1 className="text-[clamp(2rem,4vw,4.5rem)] font-black leading-none tracking-tight">{name}</h1>
         <div className="flex gap-2">
           <button type="button" onClick={goFullScreen} className="min-h-14 rounded-xl border border-line px-5 text-lg font-semibold">
             Fill screen
@@ -58,7 +75,7 @@ export function RoomView({ benchId }: { benchId: number }) {
           </Link>
         </div>
       </header>
-      {run && <p className="text-[clamp(1.2rem,2vw,2.2rem)] text-ink-muted">{run.name}</p>}
+      <StateBar runState={run?.state ?? null} runName={run?.name ?? null} sourceState={status?.state ?? null} />
       {liveRun ? <RunRoom runId={liveRun.id} label={name} /> : <RoomNumbers store={benchStore} />}
     </div>
   );

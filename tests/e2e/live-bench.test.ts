@@ -1,0 +1,93 @@
+import { mkdirSync } from 'node:fs';
+import { resolve } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { Run } from '../../shared/schemas/run.js';
+import { ATTACHMENTS } from '../../server/server.js';
+import { DEMO_ACCOUNTS } from '../../server/db/seed-demo.js';
+import { createTestContext, type TestContext } from '../integration/helpers/index.js';
+import { launchBrowser, type TestBrowser } from './helpers/browser.js';
+import { buildClient } from './helpers/build-client.js';
+import { signInThroughForm } from './helpers/sign-in.js';
+import { demoDischarge, simulateLive } from './helpers/simulated-live.js';
+
+const SCREENSHOT_DIR = resolve('.data/screenshots');
+const RUN_ID = 101;
+const RUN_SECONDS = 7200;
+const technician = DEMO_ACCOUNTS.find((a) => a.role === 'technician')!;
+
+let t: TestContext;
+let browser: TestBrowser;
+let client: { dir: string; remove(): void };
+
+beforeAll(async () => {
+  client = await buildClient();
+  t = await createTestContext({ demo: true, users: false, attachments: ATTACHMENTS, config: { clientDir: client.dir } });
+  browser = await launchBrowser();
+  mkdirSync(SCREENSHOT_DIR, { recursive: true });
+});
+
+afterAll(async () => {
+  await browser?.close();
+  await t?.close();
+  client?.remove();
+});
+
+function demoRun(benchId: number): Run {
+  const now = new Date().toISOString();
+  return {
+    id: RUN_ID, name: 'Voltara 12.8 V 100 Ah · 600 W capacity', tags: ['lfp', 'demo'], origin: 'live', benchId, batteryId: 1,
+    kind: 'capacity-discharge', state: 'recording', endVolts: { mode: 'per-cell', voltsPerCell: 2.5 }, acceptancePercent: 95,
+    alarms: { onCutoff: true }, stopWhen: 'after-recovery', targetAh: null, targetWh: null, afterRecoverySeconds: 60,
+    readingsCount: RUN_SECONDS + 1, summary: null, startedAt: now, endedAt: null, createdBy: 2, createdAt: now, updatedAt: now,
+  };
+}
+
+describe('live bench page (live stream played by a /ws peer that speaks shared/schemas/ws.ts)', () => {
+  it('shows big numbers, totals, chart and events, then raises the cutoff alarm', async () => {
+    const page = await browser.context.newPage();
+    await signInThroughForm(page, t.url, technician.email, t.ctx.config.demoPassword);
+    const benches = (await page.evaluate(() => fetch('/api/benches').then((r) => r.json()))) as { benches: { id: number; name: string }[] };
+    const [benchA, benchB] = benches.benches;
+    const recent = demoDischarge(RUN_SECONDS);
+    const live = await simulateLive(page, [
+      { benchId: benchA.id, run: demoRun(benchA.id), recent, events: [{ type: 'run-start', t: 0 }, { type: 'annotation', t: 1800, text: 'Fan on, ambient 22 °C', author: 'Tomas' }] },
+      { benchId: benchB.id, run: null, recent: { t: [], volts: [], amps: [], watts: [], temps: {} }, events: [] },
+    ]);
+
+    await page.goto(`${t.url}/benches/${benchA.id}`);
+    await page.getByRole('heading', { name: benchA.name, level: 1 }).waitFor();
+    await page.getByTestId('big-volts').filter({ hasText: /^\d/ }).waitFor();
+    const last = recent.t.length - 1;
+    expect(await page.getByTestId('big-volts').textContent()).toBe(recent.volts[last].toFixed(2));
+    expect(await page.getByTestId('big-energy-out').textContent()).toBe(recent.dischargeWh![last].toLocaleString('en-US', { minimumFractionDigits: 1, maximumFractionDigits: 1 }));
+    expect(await page.locator('[data-testid="live-chart"] canvas').count()).toBeGreaterThan(0);
+    expect(await page.getByText('Fan on, ambient 22 °C').count()).toBe(1);
+    // Numbers are drawn in the shipped JetBrains Mono, not a fallback.
+    expect(await page.evaluate(() => document.fonts.ready.then(() => document.fonts.check('700 16px "JetBrains Mono"')))).toBe(true);
+    await page.screenshot({ path: `${SCREENSHOT_DIR}/live-bench.png`, fullPage: true });
+
+    live.pushEvent(RUN_ID, { type: 'cutoff', t: RUN_SECONDS + 1, cause: 'protection', signal: 'current-zero', volts: 11.5, amps: 52, dischargeWh: 1200, dischargeAh: 96.2 });
+    const banner = page.getByRole('alert').filter({ hasText: 'CUTOFF' });
+    await banner.waitFor();
+    expect(await banner.textContent()).toContain('pack protection opened');
+    expect(await page.title()).toMatch(/CUTOFF/);
+    await page.screenshot({ path: `${SCREENSHOT_DIR}/live-bench-cutoff.png` });
+
+    await page.keyboard.press('f');
+    await page.waitForURL(/\/room$/);
+    await page.getByTestId('big-volts').filter({ hasText: /^\d/ }).waitFor();
+    await page.getByRole('alert').filter({ hasText: 'CUTOFF' }).waitFor();
+    await page.screenshot({ path: `${SCREENSHOT_DIR}/room-view.png` });
+
+    await page.keyboard.press('Escape');
+    await page.waitForURL(new RegExp(`/benches/${benchA.id}$`));
+    await page.keyboard.press('a');
+    await banner.waitFor({ state: 'detached' });
+
+    await page.goto(`${t.url}/benches/${benchB.id}`);
+    await page.getByRole('form', { name: 'Start a run' }).waitFor();
+    expect(await page.getByRole('region', { name: 'Safety cautions' }).textContent()).toMatch(/Lithium fire.*Hydrogen.*Short circuits.*Cold charging.*Unattended/s);
+    await page.screenshot({ path: `${SCREENSHOT_DIR}/start-run.png`, fullPage: true });
+    await page.close();
+  });
+});
