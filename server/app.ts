@@ -9,6 +9,7 @@ import { createUsersRouter } from './users/users-routes.js';
 import { createBatteriesRouter } from './batteries/batteries-routes.js';
 import { createSettingsRouter } from './settings/settings-routes.js';
 import { createBenchesRouter } from './benches/benches-routes.js';
+import { createRunsRouter } from './runs/runs-routes.js';
 
 /**
  * The Express app (no listen). Order matters: security headers, JSON body (size-limited),
@@ -31,6 +32,7 @@ export function createApp(ctx: AppContext): Express {
   //   app.use('/api/runs', createRunsRouter(ctx));         (live)
   // Guard every route with requireRole(...) from ./auth/guards.js; CSRF is already enforced above.
   app.use('/api/benches', createBenchesRouter(ctx));
+  app.use('/api/runs', createRunsRouter(ctx));
   // ── end of router mounts ──
 
   app.use('/api', apiNotFound);

@@ -10,6 +10,7 @@ import { seedDemo } from './db/seed-demo.js';
 import { consoleLogger, createAppContext, type AppContext, type Logger } from './app-context.js';
 import { createApp } from './app.js';
 import { attachBenchManager } from './benches/attach-bench-manager.js';
+import { attachLive } from './live/attach-live.js';
 
 /** Undoes an attachment (close sockets, stop timers); awaited on server close. */
 export type Detach = () => Promise<void> | void;
@@ -22,7 +23,7 @@ export type Attachment = (httpServer: Server, ctx: AppContext) => Promise<Detach
  *   attachBenchManager,   (ingest, from ./benches/...)
  *   attachLiveHub,        (live, from ./live/...)
  */
-export const ATTACHMENTS: Attachment[] = [attachBenchManager];
+export const ATTACHMENTS: Attachment[] = [attachBenchManager, attachLive];
 
 /** How to start; everything is optional (defaults: environment config, provisioned MariaDB). */
 export interface StartServerOptions {

@@ -65,3 +65,25 @@ describe('ArchiveWriter', () => {
     expect(seen[0]!.patch.startedAt).toEqual(new Date(0));
   });
 });
+
+describe('ArchiveWriter.shutdown', () => {
+  it('hands unwritten batches to the spill, in front of newer ones, when the database stays away', async () => {
+    const dir = await tempDir();
+    const writer = new ArchiveWriter({
+      spill: new SpillStore(dir),
+      memoryLimitBytes: 12_000, // two batches in memory, the rest spilled
+      sleep: () => new Promise((r) => setTimeout(r, 5)),
+      write: async () => {
+        throw new Error('ECONNREFUSED');
+      },
+    });
+    await writer.start();
+    for (let i = 0; i < 5; i++) writer.enqueue(batch(2, i));
+    await writer.shutdown(30);
+    const seen: number[] = [];
+    const next = new ArchiveWriter({ spill: new SpillStore(dir), write: async (b) => void seen.push(b.block!.firstSeq) });
+    await next.start();
+    await next.flush();
+    expect(seen).toEqual([0, 1, 2, 3, 4]);
+  });
+});

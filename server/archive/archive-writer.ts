@@ -89,7 +89,24 @@ export class ArchiveWriter {
     this.kick();
   }
 
-  /** Stops retrying (shutdown); whatever is left stays on disk or is lost from memory, so flush first. */
+  /**
+   * Shutdown: waits up to `deadlineMs` for the database to take everything, then stops
+   * and moves what is still in memory to the front of the spill, for the next start.
+   */
+  async shutdown(deadlineMs: number): Promise<void> {
+    let timer: NodeJS.Timeout | undefined;
+    const timedOut = new Promise<boolean>((resolve) => (timer = setTimeout(() => resolve(false), deadlineMs)));
+    const done = await Promise.race([this.flush().then(() => true), timedOut]);
+    clearTimeout(timer);
+    this.stop();
+    await this.spillWrites;
+    if (!done && this.memory.length) {
+      await this.opts.spill.pushFront(this.memory.splice(0));
+      this.memoryBytes = 0;
+    }
+  }
+
+  /** Stops retrying; prefer shutdown(), which keeps what is left. */
   stop(): void {
     this.stopped = true;
   }

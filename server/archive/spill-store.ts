@@ -5,6 +5,8 @@ import type { ArchiveBatch } from './archive-batch.js';
 const SPILL_SUFFIX = '.batch.json';
 /** File names sort in write order: a zero-padded counter, wide enough for years of batches. */
 const SEQ_DIGITS = 12;
+/** Counters start mid-range so batches can also be put in front (shutdown hands back older work). */
+const FIRST_SEQ = 100_000_000_000;
 
 interface SpilledBatch extends Omit<ArchiveBatch, 'block' | 'patch'> {
   block: (Omit<NonNullable<ArchiveBatch['block']>, 'data'> & { data: string }) | null;
@@ -29,7 +31,7 @@ export class SpillStore {
       await mkdir(this.dir, { recursive: true });
       this.files = (await readdir(this.dir)).filter((f) => f.endsWith(SPILL_SUFFIX)).sort();
       const last = this.files[this.files.length - 1];
-      this.nextSeq = last ? Number.parseInt(last, 10) + 1 : 0;
+      this.nextSeq = last ? Number.parseInt(last, 10) + 1 : FIRST_SEQ;
     })();
     return this.ready;
   }
@@ -41,7 +43,25 @@ export class SpillStore {
   /** Appends one batch at the end of the spill. */
   async push(batch: ArchiveBatch): Promise<void> {
     await this.init();
-    const name = String(this.nextSeq++).padStart(SEQ_DIGITS, '0') + SPILL_SUFFIX;
+    await this.write(this.nextSeq++, batch);
+    this.files.push(this.nameOf(this.nextSeq - 1));
+  }
+
+  /** Puts batches, in their order, before everything already spilled (they are older). */
+  async pushFront(batches: readonly ArchiveBatch[]): Promise<void> {
+    await this.init();
+    const first = this.files[0] ? Number.parseInt(this.files[0], 10) : this.nextSeq;
+    const start = first - batches.length;
+    for (let i = 0; i < batches.length; i++) await this.write(start + i, batches[i]!);
+    this.files.unshift(...batches.map((_, i) => this.nameOf(start + i)));
+  }
+
+  private nameOf(seq: number): string {
+    return String(seq).padStart(SEQ_DIGITS, '0') + SPILL_SUFFIX;
+  }
+
+  private async write(seq: number, batch: ArchiveBatch): Promise<void> {
+    const name = this.nameOf(seq);
     const spilled: SpilledBatch = {
       ...batch,
       block: batch.block ? { ...batch.block, data: batch.block.data.toString('base64') } : null,
@@ -54,7 +74,6 @@ export class SpillStore {
     const tmp = join(this.dir, name + '.tmp');
     await writeFile(tmp, JSON.stringify(spilled));
     await rename(tmp, join(this.dir, name));
-    this.files.push(name);
   }
 
   /** The oldest spilled batch, or null when the spill is empty. */

@@ -28,7 +28,7 @@ export const up: Migration = async ({ context: { sequelize } }) => {
     KEY runs_bench (benchId),
     KEY runs_battery (batteryId),
     KEY runs_created (createdAt),
-    CONSTRAINT runs_battery_fk FOREIGN KEY (batteryId) REFERENCES batteries (id) ON DELETE SET NULL,
+    CONSTRAINT runs_battery_fk FOREIGN KEY (batteryId) REFERENCES batteries (id),
     CONSTRAINT runs_user_fk FOREIGN KEY (createdById) REFERENCES users (id) ON DELETE SET NULL
   ) ENGINE=InnoDB DEFAULT CHARSET=utf8mb4 COLLATE=utf8mb4_unicode_ci`);
   await sequelize.query(`CREATE TABLE run_events (

@@ -1,0 +1,37 @@
+import type { Sequelize } from 'sequelize';
+import type { ArchiveBatch } from './archive-batch.js';
+import { ArchiveWriter } from './archive-writer.js';
+import { COMPACT_READINGS, compactRun, writeBatch } from './chunk-store.js';
+import { SpillStore } from './spill-store.js';
+
+export interface ArchiveOptions {
+  spillDir: string;
+  memoryLimitBytes?: number;
+  log?: (message: string) => void;
+  sleep?: (ms: number) => Promise<void>;
+}
+
+/**
+ * The archive as the recorder sees it: an ordered writer into MariaDB that buffers and
+ * spills while the database is away, and merges a run's small live chunks into larger
+ * blocks once enough have gathered (and all of them when the run ends).
+ */
+export function createArchiveWriter(sequelize: Sequelize, opts: ArchiveOptions): ArchiveWriter {
+  const smallReadings = new Map<number, number>();
+  const afterWrite = async (batch: ArchiveBatch) => {
+    const n = (smallReadings.get(batch.runId) ?? 0) + (batch.block?.count ?? 0);
+    const ended = batch.patch.endedAt !== undefined;
+    if (n >= COMPACT_READINGS || ended) {
+      await compactRun(sequelize, batch.runId, ended);
+      smallReadings.delete(batch.runId);
+    } else smallReadings.set(batch.runId, n);
+  };
+  return new ArchiveWriter({
+    write: (batch) => writeBatch(sequelize, batch),
+    spill: new SpillStore(opts.spillDir),
+    memoryLimitBytes: opts.memoryLimitBytes,
+    afterWrite,
+    log: opts.log,
+    sleep: opts.sleep,
+  });
+}

@@ -1,0 +1,83 @@
+import type { Server } from 'node:http';
+import { join } from 'node:path';
+import type { AppContext } from '../app-context.js';
+import { createArchiveWriter } from '../archive/archive-service.js';
+import { isSameOrigin, sessionUserFromRequest } from '../auth/upgrade-auth.js';
+import { batteryLookup } from '../runs/battery-facts.js';
+import { RunRecorder, type FrameFeed } from '../runs/run-recorder.js';
+import { RunsRepo } from '../runs/runs-repo.js';
+import '../runs/runs-services.js';
+import { LiveHub } from './live-hub.js';
+import { attachWsServer } from './ws-server.js';
+
+/** How long a shutdown waits for the database to take pending readings before spilling them. */
+export const SHUTDOWN_FLUSH_MS = 5000;
+
+export interface LiveOptions {
+  /** Frames to record from; default the ingest area's bench manager. */
+  feed?: FrameFeed;
+  /** Where batches go when the database is away; default <dataDir>/spill. */
+  spillDir?: string;
+  memoryLimitBytes?: number;
+}
+
+/**
+ * Server attachment for the live area: the archive writer, the run recorder (resuming
+ * runs that were recording when the server stopped), the hub, and the WebSocket at /ws.
+ * Runs after the bench manager's attachment so its frames are there to subscribe to.
+ */
+export function liveAttachment(options: LiveOptions = {}) {
+  return async function attachLive(httpServer: Server, ctx: AppContext): Promise<() => Promise<void>> {
+    const repo = new RunsRepo(ctx.sequelize);
+    const writer = createArchiveWriter(ctx.sequelize, {
+      spillDir: options.spillDir ?? join(ctx.config.dataDir, 'spill'),
+      memoryLimitBytes: options.memoryLimitBytes,
+      log: (m) => ctx.log.warn(m),
+    });
+    const recorder = new RunRecorder({ repo, writer, getBattery: batteryLookup(ctx), log: (m, e) => ctx.log.error(m, e) });
+    const hub = new LiveHub({
+      source: {
+        benchStatus: (id) => ctx.services.benchManager?.getStatus(id) ?? null,
+        run: async (id) => {
+          const s = recorder.session(id);
+          if (s) return { run: { ...s.run, readingsCount: s.readingsCount }, events: s.events };
+          const run = await repo.get(id);
+          return run ? { run, events: (await repo.events(id)).map((e) => e.event) } : null;
+        },
+      },
+    });
+    recorder.readings.add((runId, reading) => hub.publishSample({ kind: 'run', id: runId }, reading));
+    recorder.events.add((runId, e) => ('id' in e ? hub.publishStoredEvent(e) : hub.publishEvent(runId, e.event, null)));
+    recorder.runChanges.add((run) => hub.publishRun(run));
+
+    // Batches an earlier process spilled hold the newest state of its runs: write them first.
+    await writer.start();
+    await writer.flush();
+    await recorder.resume();
+    const feed = options.feed ?? ctx.services.benchManager;
+    const unsubscribe: (() => void)[] = [];
+    if (feed) {
+      recorder.attach(feed);
+      unsubscribe.push(feed.onFrame((benchId, frame) => hub.publishSample({ kind: 'bench', id: benchId }, frame)));
+      if (feed.onStatus) unsubscribe.push(feed.onStatus((benchId, status) => hub.publishStatus(benchId, status)));
+    } else ctx.log.warn('Live: no frame feed; runs cannot record');
+    ctx.services.runRecorder = recorder;
+    const ws = attachWsServer(httpServer, {
+      hub,
+      authenticate: (req) => sessionUserFromRequest(ctx, req),
+      checkOrigin: isSameOrigin,
+      log: (m, e) => ctx.log.error(m, e),
+    });
+    return async () => {
+      await ws.close();
+      for (const off of unsubscribe) off();
+      recorder.detach();
+      hub.close();
+      delete ctx.services.runRecorder;
+      await writer.shutdown(SHUTDOWN_FLUSH_MS);
+    };
+  };
+}
+
+/** The attachment with defaults, for server.ts's list. */
+export const attachLive = liveAttachment();

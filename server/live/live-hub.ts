@@ -1,0 +1,163 @@
+import type { StoredRunEvent } from '../../shared/schemas/api-runs.js';
+import type { BenchStatus } from '../../shared/schemas/bench.js';
+import type { RunEvent } from '../../shared/schemas/run-event.js';
+import type { Run } from '../../shared/schemas/run.js';
+import { topicKey, type Topic } from '../../shared/schemas/ws.js';
+import type { ClientSender } from './client-sender.js';
+import { toReadingColumns, type LiveSample } from './reading-columns.js';
+
+/** Batches of one topic go out at most this often. */
+export const MIN_BATCH_INTERVAL_MS = 100;
+/** Readings kept per topic for a new subscriber's snapshot (30 s at 10 Hz). */
+export const RECENT_READINGS = 300;
+
+/** What a snapshot needs that the hub does not hold itself. */
+export interface SnapshotSource {
+  benchStatus(benchId: number): BenchStatus | null;
+  /** The run (live or archived) and its events; null when there is no such run. */
+  run(runId: number): Promise<{ run: Run; events: RunEvent[] } | null>;
+}
+
+export interface LiveHubOptions {
+  source: SnapshotSource;
+  now?: () => number;
+  setTimer?: (fn: () => void, ms: number) => unknown;
+  clearTimer?: (handle: unknown) => void;
+}
+
+interface TopicState {
+  topic: Topic;
+  pending: LiveSample[];
+  recent: LiveSample[];
+  lastFlushMs: number;
+  timer: unknown;
+  subscribers: Set<ClientSender>;
+}
+
+/**
+ * Fans live data out to WebSocket clients by topic. Readings are gathered per topic and
+ * sent at most every MIN_BATCH_INTERVAL_MS (at once when the last batch is older than
+ * that, so latency stays low at meter rates); events, run changes and status go out at
+ * once. A slow client is thinned by its own sender and never holds up the others.
+ */
+export class LiveHub {
+  private readonly topics = new Map<string, TopicState>();
+  private readonly now: () => number;
+  private readonly setTimer: (fn: () => void, ms: number) => unknown;
+  private readonly clearTimer: (handle: unknown) => void;
+
+  constructor(private readonly opts: LiveHubOptions) {
+    this.now = opts.now ?? (() => performance.now());
+    this.setTimer = opts.setTimer ?? ((fn, ms) => setTimeout(fn, ms));
+    this.clearTimer = opts.clearTimer ?? ((h) => clearTimeout(h as NodeJS.Timeout));
+  }
+
+  /** Subscribes a client and sends it the topic's snapshot; an unknown run gets an error. */
+  async subscribe(client: ClientSender, topic: Topic): Promise<void> {
+    const key = topicKey(topic);
+    let run: Run | null = null;
+    let events: RunEvent[] = [];
+    if (topic.kind === 'run') {
+      const found = await this.opts.source.run(topic.id);
+      if (!found) return client.send({ type: 'error', message: `Run ${topic.id} not found`, topic });
+      ({ run, events } = found);
+    }
+    const state = this.state(topic);
+    state.subscribers.add(client);
+    client.subscriptions.add(key);
+    const status = topic.kind === 'bench' ? this.opts.source.benchStatus(topic.id) : null;
+    client.send({ type: 'snapshot', topic, status, run, recent: toReadingColumns(state.recent), events });
+  }
+
+  /** Stops sending a topic to a client. */
+  unsubscribe(client: ClientSender, topic: Topic): void {
+    const key = topicKey(topic);
+    client.subscriptions.delete(key);
+    this.topics.get(key)?.subscribers.delete(client);
+  }
+
+  /** Forgets a disconnected client everywhere. */
+  removeClient(client: ClientSender): void {
+    for (const key of client.subscriptions) this.topics.get(key)?.subscribers.delete(client);
+    client.subscriptions.clear();
+  }
+
+  /** A bench frame or a run reading arrived. */
+  publishSample(topic: Topic, sample: LiveSample): void {
+    const state = this.state(topic);
+    state.recent.push(sample);
+    if (state.recent.length > RECENT_READINGS) state.recent.splice(0, state.recent.length - RECENT_READINGS);
+    if (state.subscribers.size === 0) return;
+    state.pending.push(sample);
+    if (state.timer !== null) return;
+    const wait = state.lastFlushMs + MIN_BATCH_INTERVAL_MS - this.now();
+    if (wait <= 0) this.flush(state);
+    else state.timer = this.setTimer(() => this.flush(state), wait);
+  }
+
+  /** A run event: sent at once, never thinned. */
+  publishEvent(runId: number, event: RunEvent, eventId: number | null): void {
+    const topic: Topic = { kind: 'run', id: runId };
+    const state = this.topics.get(topicKey(topic));
+    if (!state?.subscribers.size) return;
+    // Readings before the event go first so a chart never shows an event ahead of its data.
+    this.flush(state);
+    const json = JSON.stringify({ type: 'event', topic, eventId, event });
+    for (const c of state.subscribers) c.sendPayload(json);
+  }
+
+  /** A stored event (annotation) for a run. */
+  publishStoredEvent(stored: StoredRunEvent): void {
+    this.publishEvent(stored.runId, stored.event, stored.id);
+  }
+
+  /** A run changed state, name or tags. A run that ended drops its reading buffers. */
+  publishRun(run: Run): void {
+    const topic: Topic = { kind: 'run', id: run.id };
+    const key = topicKey(topic);
+    const state = this.topics.get(key);
+    if (state) {
+      this.flush(state);
+      const json = JSON.stringify({ type: 'run', topic, run });
+      for (const c of state.subscribers) c.sendPayload(json);
+      if ((run.state === 'finished' || run.state === 'aborted') && state.subscribers.size === 0) this.topics.delete(key);
+    }
+  }
+
+  /** A bench's source status changed. */
+  publishStatus(benchId: number, status: BenchStatus): void {
+    const topic: Topic = { kind: 'bench', id: benchId };
+    const state = this.topics.get(topicKey(topic));
+    if (!state?.subscribers.size) return;
+    const json = JSON.stringify({ type: 'status', topic, status });
+    for (const c of state.subscribers) c.sendPayload(json);
+  }
+
+  /** Cancels pending timers (shutdown). */
+  close(): void {
+    for (const s of this.topics.values()) if (s.timer !== null) this.clearTimer(s.timer);
+    this.topics.clear();
+  }
+
+  private state(topic: Topic): TopicState {
+    const key = topicKey(topic);
+    let s = this.topics.get(key);
+    if (!s) {
+      s = { topic, pending: [], recent: [], lastFlushMs: Number.NEGATIVE_INFINITY, timer: null, subscribers: new Set() };
+      this.topics.set(key, s);
+    }
+    return s;
+  }
+
+  private flush(state: TopicState): void {
+    if (state.timer !== null) this.clearTimer(state.timer);
+    state.timer = null;
+    if (state.pending.length === 0) return;
+    const samples = state.pending;
+    state.pending = [];
+    state.lastFlushMs = this.now();
+    let shared: string | null = null;
+    const build = () => (shared ??= JSON.stringify({ type: 'batch', topic: state.topic, readings: toReadingColumns(samples), dropped: 0 }));
+    for (const c of state.subscribers) c.sendBatch(state.topic, samples, build);
+  }
+}

@@ -1,0 +1,103 @@
+import type { IncomingMessage, Server } from 'node:http';
+import type { Duplex } from 'node:stream';
+import { WebSocketServer, type WebSocket } from 'ws';
+import { ClientMessageSchema, MAX_CLIENT_MESSAGE_BYTES } from '../../shared/schemas/ws.js';
+import type { SessionUser } from '../auth/session-user.js';
+import { ClientSender } from './client-sender.js';
+import type { LiveHub } from './live-hub.js';
+
+export const WS_PATH = '/ws';
+/** A socket that has not answered the previous ping by the next one is terminated. */
+export const HEARTBEAT_MS = 15_000;
+
+export interface WsServerOptions {
+  hub: LiveHub;
+  /** Resolves the signed-in user of an upgrade request, or null (refused with 401). */
+  authenticate: (req: IncomingMessage) => Promise<SessionUser | null>;
+  /** Refuses cross-site upgrades (403); default: allow. */
+  checkOrigin?: (req: IncomingMessage) => boolean;
+  heartbeatMs?: number;
+  log?: (message: string, err?: unknown) => void;
+}
+
+function refuse(socket: Duplex, status: number, reason: string): void {
+  socket.write(`HTTP/1.1 ${status} ${reason}\r\nConnection: close\r\nContent-Length: 0\r\n\r\n`);
+  socket.destroy();
+}
+
+/**
+ * The WebSocket endpoint on the HTTP server's own port: checks the session on upgrade,
+ * greets with hello, hands validated subscribe/unsubscribe messages to the hub, answers
+ * pings, and terminates sockets that stop answering heartbeats.
+ */
+export function attachWsServer(httpServer: Server, opts: WsServerOptions): { close(): Promise<void>; clients(): number } {
+  const wss = new WebSocketServer({ noServer: true, maxPayload: MAX_CLIENT_MESSAGE_BYTES });
+  const alive = new WeakMap<WebSocket, boolean>();
+  const log = opts.log ?? (() => undefined);
+
+  const onUpgrade = (req: IncomingMessage, socket: Duplex, head: Buffer) => {
+    const path = (req.url ?? '').split('?')[0];
+    if (path !== WS_PATH) return; // another attachment may own this path
+    if (opts.checkOrigin && !opts.checkOrigin(req)) return refuse(socket, 403, 'Forbidden');
+    opts
+      .authenticate(req)
+      .then((user) => {
+        if (!user) return refuse(socket, 401, 'Unauthorized');
+        wss.handleUpgrade(req, socket, head, (ws) => onConnection(ws, user));
+      })
+      .catch((err: unknown) => {
+        log('ws: session check failed', err);
+        refuse(socket, 500, 'Internal Server Error');
+      });
+  };
+
+  const onConnection = (ws: WebSocket, user: SessionUser) => {
+    const client = new ClientSender(ws, user);
+    alive.set(ws, true);
+    ws.on('pong', () => alive.set(ws, true));
+    ws.on('close', () => opts.hub.removeClient(client));
+    ws.on('error', () => ws.terminate());
+    ws.on('message', (data, isBinary) => {
+      let parsed: unknown;
+      try {
+        parsed = isBinary ? null : JSON.parse(String(data));
+      } catch {
+        parsed = null;
+      }
+      const msg = ClientMessageSchema.safeParse(parsed);
+      if (!msg.success) return client.send({ type: 'error', message: `Invalid message: ${msg.error.issues[0]?.message ?? 'not JSON'}` });
+      const m = msg.data;
+      if (m.type === 'ping') return client.send({ type: 'pong', id: m.id, serverTimeMs: Date.now() });
+      if (m.type === 'unsubscribe') return opts.hub.unsubscribe(client, m.topic);
+      opts.hub.subscribe(client, m.topic).catch((err: unknown) => {
+        log('ws: subscribe failed', err);
+        client.send({ type: 'error', message: 'Subscribe failed', topic: m.topic });
+      });
+    });
+    client.send({ type: 'hello', serverTimeMs: Date.now(), user: { id: user.id, role: user.role } });
+  };
+
+  const heartbeat = setInterval(() => {
+    for (const ws of wss.clients) {
+      if (!alive.get(ws)) {
+        ws.terminate();
+        continue;
+      }
+      alive.set(ws, false);
+      ws.ping();
+    }
+  }, opts.heartbeatMs ?? HEARTBEAT_MS);
+  heartbeat.unref();
+
+  httpServer.on('upgrade', onUpgrade);
+  return {
+    clients: () => wss.clients.size,
+    close: () =>
+      new Promise<void>((resolve) => {
+        clearInterval(heartbeat);
+        httpServer.off('upgrade', onUpgrade);
+        for (const ws of wss.clients) ws.terminate();
+        wss.close(() => resolve());
+      }),
+  };
+}

@@ -1,0 +1,56 @@
+import { QueryTypes, type Sequelize } from 'sequelize';
+import type { Run } from '../../shared/schemas/run.js';
+import type { BatteryFacts } from './measure-config.js';
+
+/** Everything an export says about a run before its readings. */
+export interface ExportMeta {
+  run: Run;
+  battery: BatteryFacts | null;
+  bench: { id: number; name: string } | null;
+  units: Record<string, string>;
+  /** Stored column names (t, elapsed, volts, …, temp:cell, aux:heaterAmps), in export order. */
+  columns: string[];
+}
+
+/** Units of every exported column; positive amps = discharge. */
+export const EXPORT_UNITS: Record<string, string> = {
+  elapsed: 's since run start',
+  t: 's (source clock)',
+  volts: 'V',
+  amps: 'A (positive = discharge)',
+  watts: 'W',
+  dischargeWh: 'Wh',
+  dischargeAh: 'Ah',
+  chargeWh: 'Wh',
+  chargeAh: 'Ah',
+  'temp:*': '°C',
+};
+
+const FIXED = ['elapsed', 't', 'volts', 'amps', 'watts', 'dischargeWh', 'dischargeAh', 'chargeWh', 'chargeAh'];
+
+/** Gathers the metadata block of an export, including every channel any chunk holds. */
+export async function exportMeta(
+  sequelize: Sequelize,
+  run: Run,
+  getBattery: (id: number) => Promise<BatteryFacts | null>,
+): Promise<ExportMeta> {
+  const layouts = await sequelize.query<{ layout: string }>('SELECT layout FROM run_sample_chunks WHERE runId = ?', {
+    replacements: [run.id],
+    type: QueryTypes.SELECT,
+  });
+  const extra = new Set<string>();
+  for (const { layout } of layouts) {
+    for (const c of (JSON.parse(layout) as { columns: { name: string }[] }).columns) if (!FIXED.includes(c.name)) extra.add(c.name);
+  }
+  const battery = run.batteryId ? await getBattery(run.batteryId) : null;
+  let bench: ExportMeta['bench'] = null;
+  if (run.benchId) {
+    // The benches table belongs to the ingest area; read only its name.
+    const rows = await sequelize.query<{ id: number; name: string }>('SELECT id, name FROM benches WHERE id = ?', {
+      replacements: [run.benchId],
+      type: QueryTypes.SELECT,
+    }).catch(() => []);
+    bench = rows[0] ?? { id: run.benchId, name: `bench ${run.benchId}` };
+  }
+  return { run, battery, bench, units: EXPORT_UNITS, columns: [...FIXED, ...[...extra].sort()] };
+}

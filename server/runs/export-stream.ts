@@ -1,0 +1,87 @@
+import { once } from 'node:events';
+import type { Writable } from 'node:stream';
+import type { Sequelize } from 'sequelize';
+import { forEachChunk } from '../archive/chunk-store.js';
+import type { Columns } from '../archive/column-block.js';
+import type { ExportMeta } from './export-meta.js';
+
+/** Writes text, waiting when the client reads slower than we produce (bounded memory). */
+async function put(out: Writable, text: string): Promise<void> {
+  if (!out.write(text)) await once(out, 'drain');
+}
+
+function value(cols: Columns, name: string, i: number): number {
+  if (name === 'watts') return cols.volts![i]! * cols.amps![i]!;
+  const col = cols[name];
+  return col ? col[i]! : Number.NaN;
+}
+
+const csvHeaderName = (name: string): string =>
+  name.startsWith('temp:') ? `temp_${name.slice(5)}_c` : name.startsWith('aux:') ? `aux_${name.slice(4)}` : name;
+
+/** CSV text of one field: quoted when it holds a separator, quote or line break. */
+function csvField(text: string): string {
+  return /[",\n\r]/.test(text) ? `"${text.replace(/"/g, '""')}"` : text;
+}
+
+/** The metadata lines (each starting with `#`) above the CSV header. */
+function metaLines(meta: ExportMeta): string[] {
+  const { run, battery, bench } = meta;
+  const s = run.summary;
+  const lines = [
+    `Kneepoint run export`,
+    `run: ${run.id} ${run.name}`,
+    `kind: ${run.kind}; state: ${run.state}; origin: ${run.origin}`,
+    `battery: ${battery ? `${battery.brand} ${battery.label} (${battery.chemistry}, ${battery.cellsInSeries}S, rated ${battery.ratedAh} Ah)` : 'none'}`,
+    `bench: ${bench ? `${bench.id} ${bench.name}` : 'none'}`,
+    `started: ${run.startedAt ?? 'unknown'}; ended: ${run.endedAt ?? 'not yet'}`,
+    `units: ${Object.entries(meta.units).map(([k, u]) => `${k} ${u}`).join('; ')}`,
+  ];
+  if (s) {
+    lines.push(
+      `summary: dischargeWh ${s.dischargeWh}; dischargeAh ${s.dischargeAh}; chargeWh ${s.chargeWh}; chargeAh ${s.chargeAh}; durationSeconds ${s.durationSeconds}; ` +
+        `cutoffVolts ${s.cutoffVolts ?? 'none'}; recoverySeconds ${s.recoverySeconds ?? 'none'}; percentRatedAh ${s.percentRatedAh ?? 'n/a'}; verdict ${s.verdict}`,
+    );
+  }
+  return lines.map((l) => `# ${l.replace(/[\r\n]+/g, ' ')}`);
+}
+
+/** Streams the whole run as CSV: metadata lines, a header, then every reading in order. */
+export async function streamCsvExport(out: Writable, sequelize: Sequelize, meta: ExportMeta): Promise<void> {
+  await put(out, metaLines(meta).join('\n') + '\n' + meta.columns.map((c) => csvField(csvHeaderName(c))).join(',') + '\n');
+  await forEachChunk(sequelize, meta.run.id, async (cols) => {
+    const n = cols.elapsed!.length;
+    const rows: string[] = new Array(n);
+    for (let i = 0; i < n; i++) {
+      let line = '';
+      for (let c = 0; c < meta.columns.length; c++) {
+        const v = value(cols, meta.columns[c]!, i);
+        line += (c ? ',' : '') + (Number.isNaN(v) ? '' : String(v));
+      }
+      rows[i] = line;
+    }
+    await put(out, rows.join('\n') + '\n');
+  });
+}
+
+/** Streams the whole run as one JSON document: `{ meta, columns, rows: [[…], …] }`. */
+export async function streamJsonExport(out: Writable, sequelize: Sequelize, meta: ExportMeta): Promise<void> {
+  const head = { meta: { run: meta.run, battery: meta.battery, bench: meta.bench, units: meta.units }, columns: meta.columns };
+  await put(out, JSON.stringify(head).slice(0, -1) + ',"rows":[');
+  let first = true;
+  await forEachChunk(sequelize, meta.run.id, async (cols) => {
+    const n = cols.elapsed!.length;
+    const rows: string[] = new Array(n);
+    for (let i = 0; i < n; i++) {
+      rows[i] = '[' + meta.columns.map((name) => {
+        const v = value(cols, name, i);
+        return Number.isFinite(v) ? String(v) : 'null';
+      }).join(',') + ']';
+    }
+    if (n) {
+      await put(out, (first ? '' : ',') + rows.join(','));
+      first = false;
+    }
+  });
+  await put(out, ']}');
+}

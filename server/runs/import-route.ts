@@ -1,0 +1,58 @@
+import { mkdirSync } from 'node:fs';
+import { unlink } from 'node:fs/promises';
+import { join } from 'node:path';
+import type { RequestHandler } from 'express';
+import multer from 'multer';
+import { ImportColumnMapSchema, ImportFieldsSchema } from '../../shared/schemas/api-runs.js';
+import type { AppContext } from '../app-context.js';
+import { HttpError } from '../http/http-error.js';
+import { importRun } from './import-service.js';
+import type { BatteryFacts } from './measure-config.js';
+import type { RunsRepo } from './runs-repo.js';
+
+/** Largest log accepted: a million rows of a wide logger fit well below this. */
+export const IMPORT_MAX_BYTES = 512 * 1024 * 1024;
+
+/**
+ * POST /api/runs/import: multer writes the upload to disk under the data folder (never
+ * into memory), then the importer streams it twice. The temporary file always goes.
+ */
+export function createImportHandler(ctx: AppContext, repo: RunsRepo, getBattery: (id: number) => Promise<BatteryFacts | null>): RequestHandler {
+  const dir = join(ctx.config.dataDir, 'uploads');
+  mkdirSync(dir, { recursive: true });
+  const upload = multer({ dest: dir, limits: { fileSize: IMPORT_MAX_BYTES, files: 1, fields: 20 } }).single('file');
+  return (req, res, next) => {
+    upload(req, res, (uploadError: unknown) => {
+      const file = req.file;
+      const done = (err?: unknown) => {
+        if (file) void unlink(file.path).catch(() => undefined);
+        next(err);
+      };
+      if (uploadError) {
+        const e = uploadError as { code?: string; message?: string };
+        return done(new HttpError(e.code === 'LIMIT_FILE_SIZE' ? 413 : 400, `Upload refused: ${e.message ?? 'bad multipart body'}`));
+      }
+      void (async () => {
+        if (!file) throw new HttpError(400, 'No file: send the CSV as the multipart field "file"', { file: ['required'] });
+        const fields = ImportFieldsSchema.parse(req.body);
+        let columns = {};
+        if (fields.columns) {
+          try {
+            columns = ImportColumnMapSchema.parse(JSON.parse(fields.columns));
+          } catch {
+            throw new HttpError(400, 'columns must be JSON such as {"time":"Elapsed","volts":"U","amps":"I"}', { columns: ['invalid mapping'] });
+          }
+        }
+        const battery = fields.batteryId ? await getBattery(fields.batteryId) : null;
+        if (fields.batteryId && !battery) throw new HttpError(400, `Battery ${fields.batteryId} does not exist`, { batteryId: ['no such battery'] });
+        const tags = (fields.tags ?? '').split(',').map((t) => t.trim()).filter(Boolean);
+        const result = await importRun(ctx.sequelize, repo, {
+          filePath: file.path, name: fields.name, tags, battery, endVolts: fields.endVolts,
+          currentSign: fields.currentSign, columns, userId: req.user!.id,
+        });
+        if (file) await unlink(file.path).catch(() => undefined);
+        res.status(201).json(result);
+      })().catch(done);
+    });
+  };
+}

@@ -1,0 +1,142 @@
+import { createReadStream } from 'node:fs';
+import { parse } from 'csv-parse';
+import type { Sequelize } from 'sequelize';
+import { createRunPipeline } from '../../shared/measure/run-pipeline.js';
+import { summarizeRun } from '../../shared/measure/summarize-run.js';
+import type { ImportResponse } from '../../shared/schemas/api-runs.js';
+import type { Frame } from '../../shared/schemas/frame.js';
+import type { Reading } from '../../shared/schemas/reading.js';
+import type { CutoffEvent, RecoveryEvent, RunEvent } from '../../shared/schemas/run-event.js';
+import { COMPACT_READINGS, writeBatch } from '../archive/chunk-store.js';
+import { encodeBlock } from '../archive/column-block.js';
+import { readingsToColumns } from '../archive/reading-columns.js';
+import { HttpError } from '../http/http-error.js';
+import { parseRow, planColumns, type ColumnOverrides, type ColumnPlan } from './import-headers.js';
+import { measureConfigFor, type BatteryFacts } from './measure-config.js';
+import type { RunConfig, RunsRepo } from './runs-repo.js';
+
+export interface ImportRequest {
+  filePath: string;
+  name: string;
+  tags: string[];
+  battery: BatteryFacts | null;
+  endVolts?: number;
+  currentSign: 'discharge-positive' | 'discharge-negative' | 'auto';
+  columns: ColumnOverrides;
+  userId: number;
+}
+
+/** csv-parse records with their line numbers, so errors can name the line. */
+async function* records(filePath: string): AsyncGenerator<{ fields: string[]; line: number }> {
+  const parser = createReadStream(filePath).pipe(parse({ info: true, relax_column_count: false, skip_empty_lines: true, trim: true, comment: '#' }));
+  try {
+    for await (const rec of parser as AsyncIterable<{ record: string[]; info: { lines: number } }>) yield { fields: rec.record, line: rec.info.lines };
+  } catch (err) {
+    const e = err as { message?: string; lines?: number; code?: string };
+    if (e.code?.startsWith('CSV_')) throw new HttpError(400, `line ${e.lines ?? '?'}: ${e.message ?? 'malformed CSV'}`);
+    throw err;
+  }
+}
+
+/** Pass 1: check every row and learn the sign of the current, holding nothing but counts. */
+async function survey(req: ImportRequest): Promise<{ plan: ColumnPlan; flip: boolean; rows: number }> {
+  let headers: string[] | null = null;
+  let plan: ColumnPlan | null = null;
+  let rows = 0;
+  let positive = 0;
+  let negative = 0;
+  for await (const { fields, line } of records(req.filePath)) {
+    if (!headers) {
+      headers = fields;
+      continue;
+    }
+    plan ??= planColumns(headers, fields, req.columns);
+    if (fields.length !== headers.length) throw new HttpError(400, `line ${line}: ${fields.length} fields, the header has ${headers.length}`);
+    const row = parseRow(plan, fields, line);
+    if (row.amps > 0) positive++;
+    else if (row.amps < 0) negative++;
+    rows++;
+  }
+  if (!headers) throw new HttpError(400, 'line 1: the file is empty; expected a header row');
+  if (!plan || rows < 2) throw new HttpError(400, `line ${rows + 2}: at least two readings are needed after the header`);
+  const flip = req.currentSign === 'discharge-negative' || (req.currentSign === 'auto' && negative > positive);
+  return { plan, flip, rows };
+}
+
+/**
+ * Imports a logged run from a CSV on disk in two streaming passes (check, then integrate
+ * and archive), so a file of a million rows never sits in memory and a bad file leaves
+ * nothing behind. The run's figures come from the same pipeline as live runs.
+ */
+export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: ImportRequest): Promise<ImportResponse> {
+  const { plan, flip, rows } = await survey(req);
+  const config: RunConfig = {
+    kind: 'capacity-discharge',
+    endVolts: req.endVolts ? { mode: 'absolute', volts: req.endVolts } : null,
+    acceptancePercent: 100,
+    alarms: { onCutoff: false },
+    stopWhen: 'manual',
+    targetAh: null,
+    targetWh: null,
+    afterRecoverySeconds: 0,
+  };
+  const run = await repo.create({
+    name: req.name, tags: req.tags, origin: 'import', benchId: null, batteryId: req.battery?.id ?? null,
+    state: 'recording', config, createdById: req.userId, startedAt: null,
+  });
+  try {
+    const pipeline = createRunPipeline(measureConfigFor(config, req.battery));
+    const events: RunEvent[] = [];
+    let pending: Reading[] = [];
+    let seq = 0;
+    let firstT: number | null = null;
+    const flush = async () => {
+      if (!pending.length) return;
+      const block = { firstSeq: seq - pending.length, count: pending.length, firstElapsed: pending[0]!.elapsedSeconds, lastElapsed: pending[pending.length - 1]!.elapsedSeconds, ...encodeBlock(readingsToColumns(pending)) };
+      pending = [];
+      await writeBatch(sequelize, { runId: run.id, block, events: [], patch: { readingsCount: seq } });
+    };
+    let header = true;
+    for await (const { fields, line } of records(req.filePath)) {
+      if (header) {
+        header = false;
+        continue;
+      }
+      const row = parseRow(plan, fields, line);
+      firstT ??= row.t;
+      const frame: Frame = { t: row.t, volts: row.volts, amps: flip ? -row.amps : row.amps, clock: 'device', ...(row.tempC !== null ? { temps: { cell: row.tempC } } : {}) };
+      const out = pipeline.push(frame);
+      if (!out.reading) continue;
+      pending.push(out.reading);
+      seq++;
+      for (const e of out.events) events.push(e);
+      if (pending.length >= COMPACT_READINGS) await flush();
+    }
+    await flush();
+    const summary = summarizeRun({ snapshot: pipeline.snapshot(), events, acceptancePercent: 100, price: req.battery?.price ?? null, massKg: req.battery?.massKg ?? null });
+    await writeBatch(sequelize, {
+      runId: run.id, block: null, events: events.map((event, eventSeq) => ({ eventSeq, event })),
+      patch: { state: 'finished', summary, readingsCount: seq, endedAt: new Date(), ...(plan.time.unit === 'iso' && firstT !== null ? { startedAt: new Date(firstT * 1000) } : {}) },
+    });
+    const cutoff = events.find((e): e is CutoffEvent => e.type === 'cutoff') ?? null;
+    const recovery = events.find((e): e is RecoveryEvent => e.type === 'recovery') ?? null;
+    const totals = pipeline.totals();
+    return {
+      run: (await repo.get(run.id))!,
+      summary: {
+        energyWh: cutoff?.dischargeWh ?? totals.dischargeWh,
+        chargeAh: cutoff?.dischargeAh ?? totals.dischargeAh,
+        durationS: summary.durationSeconds,
+        cutoff: cutoff ? { atS: cutoff.t, volts: cutoff.volts } : null,
+        recoveryS: recovery?.recoverySeconds ?? null,
+        rows,
+        ...(req.battery ? { percentOfRated: summary.percentRatedAh } : {}),
+      },
+      fullSummary: summary,
+    };
+  } catch (err) {
+    // Nothing half-imported stays behind (chunks and events go with the run).
+    await sequelize.query('DELETE FROM runs WHERE id = ?', { replacements: [run.id] }).catch(() => undefined);
+    throw err;
+  }
+}

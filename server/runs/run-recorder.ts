@@ -1,0 +1,204 @@
+import type { StartRunRequestSchema, StoredRunEvent } from '../../shared/schemas/api-runs.js';
+import type { BenchStatus } from '../../shared/schemas/bench.js';
+import type { Frame } from '../../shared/schemas/frame.js';
+import type { Reading } from '../../shared/schemas/reading.js';
+import type { Run } from '../../shared/schemas/run.js';
+import type { z } from 'zod';
+import type { ArchiveWriter } from '../archive/archive-writer.js';
+import { HttpError, notFound } from '../http/http-error.js';
+import { ListenerSet } from '../ingest/listener-set.js';
+import { measureConfigFor, type BatteryFacts } from './measure-config.js';
+import { RunSession, type RunSessionSnapshot, type SequencedEvent } from './run-session.js';
+import type { RunsRepo } from './runs-repo.js';
+
+/** Where frames come from: the ingest area's BenchManager satisfies this. */
+export interface FrameFeed {
+  onFrame(listener: (benchId: number, frame: Frame) => void): () => void;
+  onStatus?(listener: (benchId: number, status: BenchStatus) => void): () => void;
+}
+
+/** Readings not yet archived are handed to the archive at least this often. */
+export const FLUSH_INTERVAL_MS = 1000;
+/** …or as soon as this many are pending (a fast meter). */
+export const FLUSH_READINGS = 2000;
+/** Bench states that mean the meter is not delivering. */
+const SOURCE_DOWN_STATES = new Set(['stale', 'error', 'reconnecting', 'idle']);
+
+export interface RunRecorderDeps {
+  repo: RunsRepo;
+  writer: ArchiveWriter;
+  getBattery: (id: number) => Promise<BatteryFacts | null>;
+  log?: (message: string, err?: unknown) => void;
+  /** Injected timer (tests drive flushes by hand with `flushAll`). */
+  setInterval?: (fn: () => void, ms: number) => { unref?: () => void };
+  clearInterval?: (handle: unknown) => void;
+}
+
+type StartRequest = z.infer<typeof StartRunRequestSchema>;
+
+/**
+ * Records live runs: one run per bench at a time. Every frame of a bench with a live run
+ * goes through that run's RunSession (the measurement core), out to listeners (the
+ * WebSocket hub) and, in batches, to the archive. Totals live here on the server, so they
+ * never depend on a browser being open.
+ */
+export class RunRecorder {
+  private readonly sessions = new Map<number, RunSession>();
+  private readonly byBench = new Map<number, number>();
+  private readonly unsubscribe: (() => void)[] = [];
+  private timer: unknown = null;
+  readonly readings = new ListenerSet<[runId: number, reading: Reading]>((e) => this.log('run readings listener failed', e));
+  readonly events = new ListenerSet<[runId: number, event: SequencedEvent | StoredRunEvent]>((e) => this.log('run event listener failed', e));
+  readonly runChanges = new ListenerSet<[run: Run]>((e) => this.log('run change listener failed', e));
+  private readonly log: (message: string, err?: unknown) => void;
+
+  constructor(private readonly deps: RunRecorderDeps) {
+    this.log = deps.log ?? ((m, e) => console.warn(m, e ?? ''));
+  }
+
+  /** Subscribes to a frame feed and starts the flush timer. */
+  attach(feed: FrameFeed): void {
+    this.unsubscribe.push(feed.onFrame((benchId, frame) => this.onFrame(benchId, frame)));
+    if (feed.onStatus) this.unsubscribe.push(feed.onStatus((benchId, status) => this.onStatus(benchId, status)));
+    const every = this.deps.setInterval ?? ((fn, ms) => setInterval(fn, ms));
+    const handle = every(() => this.flushAll(), FLUSH_INTERVAL_MS);
+    handle.unref?.();
+    this.timer = handle;
+  }
+
+  /** Picks up runs that were live when the server stopped, from their archived state. */
+  async resume(): Promise<Run[]> {
+    const resumed: Run[] = [];
+    for (const run of await this.deps.repo.listLive()) {
+      try {
+        const raw = await this.deps.repo.getPipelineState(run.id);
+        const previous = raw ? (JSON.parse(raw) as RunSessionSnapshot) : undefined;
+        const battery = run.batteryId ? await this.deps.getBattery(run.batteryId) : null;
+        const past = (await this.deps.repo.events(run.id)).map((e) => e.event);
+        const session = new RunSession(run, battery, measureConfigFor(run, battery), previous, past);
+        this.register(session);
+        resumed.push(run);
+        this.log(`run ${run.id} resumed at ${session.readingsCount} readings`);
+      } catch (err) {
+        this.log(`run ${run.id} could not be resumed`, err);
+      }
+    }
+    return resumed;
+  }
+
+  /** Starts a run on a bench (409 when the bench already records one). */
+  async start(req: StartRequest, userId: number | null): Promise<Run> {
+    if (this.byBench.has(req.benchId)) throw new HttpError(409, `Bench ${req.benchId} is already recording run ${this.byBench.get(req.benchId)}`);
+    const battery = await this.deps.getBattery(req.batteryId);
+    if (!battery) throw new HttpError(400, `Battery ${req.batteryId} does not exist`, { batteryId: ['no such battery'] });
+    const { benchId, batteryId, name, tags, ...config } = req;
+    const run = await this.deps.repo.create({
+      name, tags, origin: 'live', benchId, batteryId, state: 'armed', config, createdById: userId, startedAt: new Date(),
+    });
+    const session = new RunSession(run, battery, measureConfigFor(config, battery));
+    this.register(session);
+    this.emitEvent(run.id, session.addEvent({ type: 'run-start', t: 0 }));
+    this.deps.writer.enqueue(session.takeBatch());
+    this.runChanges.emit(run);
+    return run;
+  }
+
+  /** Stops a live run: finished, or aborted when `abort`. */
+  async stop(runId: number, abort: boolean): Promise<Run> {
+    const session = this.sessions.get(runId);
+    if (!session) {
+      const run = await this.deps.repo.get(runId);
+      if (!run) throw notFound(`Run ${runId}`);
+      throw new HttpError(409, `Run ${runId} is ${run.state}, not live`);
+    }
+    return this.endSession(session, abort ? 'aborted' : 'finished');
+  }
+
+  /** Adds an annotation at a run time (default: the latest reading) and tells every viewer. */
+  async annotate(runId: number, text: string, t: number | undefined, author: { id: number; name: string }): Promise<StoredRunEvent> {
+    const session = this.sessions.get(runId);
+    if (!session && !(await this.deps.repo.get(runId))) throw notFound(`Run ${runId}`);
+    const at = t ?? session?.lastElapsed ?? 0;
+    const stored = await this.deps.repo.insertEvent(runId, { type: 'annotation', t: at, text, author: author.name }, author.id);
+    session?.events.push(stored.event);
+    this.events.emit(runId, stored);
+    return stored;
+  }
+
+  /** Tells viewers about a new name or tags (and keeps a live session's copy current). */
+  renamed(run: Run): void {
+    const session = this.sessions.get(run.id);
+    if (session) session.run = { ...session.run, name: run.name, tags: run.tags };
+    this.runChanges.emit(run);
+  }
+
+  /** The live session of a run, if it is recording. */
+  session(runId: number): RunSession | undefined {
+    return this.sessions.get(runId);
+  }
+
+  /** The run recording on a bench, if any. */
+  runOnBench(benchId: number): number | undefined {
+    return this.byBench.get(benchId);
+  }
+
+  /** Hands everything pending to the archive (timer, shutdown, tests). */
+  flushAll(): void {
+    for (const session of this.sessions.values()) if (session.hasPending()) this.deps.writer.enqueue(session.takeBatch());
+  }
+
+  /** Stops listening and hands what is pending to the archive; runs stay live for the next start. */
+  detach(): void {
+    for (const off of this.unsubscribe.splice(0)) off();
+    if (this.timer) (this.deps.clearInterval ?? ((h) => clearInterval(h as NodeJS.Timeout)))(this.timer);
+    this.timer = null;
+    this.flushAll();
+  }
+
+  private register(session: RunSession): void {
+    this.sessions.set(session.run.id, session);
+    if (session.run.benchId !== null) this.byBench.set(session.run.benchId, session.run.id);
+  }
+
+  private onFrame(benchId: number, frame: Frame): void {
+    const runId = this.byBench.get(benchId);
+    const session = runId === undefined ? undefined : this.sessions.get(runId);
+    if (!session) return;
+    const out = session.push(frame);
+    if (out.reading) this.readings.emit(session.run.id, out.reading);
+    for (const e of out.events) this.emitEvent(session.run.id, e);
+    if (out.stateChanged) this.runChanges.emit({ ...session.run, readingsCount: session.readingsCount });
+    if (session.shouldFinish()) void this.endSession(session, 'finished').catch((err) => this.log(`run ${session.run.id} did not end cleanly`, err));
+    else if (session.hasPending() && out.stateChanged) this.deps.writer.enqueue(session.takeBatch());
+    else if (session.readingsCount % FLUSH_READINGS === 0) this.deps.writer.enqueue(session.takeBatch());
+  }
+
+  private onStatus(benchId: number, status: BenchStatus): void {
+    const runId = this.byBench.get(benchId);
+    const session = runId === undefined ? undefined : this.sessions.get(runId);
+    if (!session || session.state === 'armed') return;
+    const down = SOURCE_DOWN_STATES.has(status.state);
+    const lastWasLost = [...session.events].reverse().find((e) => e.type === 'source-lost' || e.type === 'source-restored')?.type === 'source-lost';
+    const t = session.lastElapsed ?? 0;
+    if (down && !lastWasLost) this.emitEvent(session.run.id, session.addEvent({ type: 'source-lost', t, reason: status.message ?? status.state }));
+    if (status.state === 'receiving' && lastWasLost) this.emitEvent(session.run.id, session.addEvent({ type: 'source-restored', t }));
+  }
+
+  private async endSession(session: RunSession, state: 'finished' | 'aborted'): Promise<Run> {
+    const id = session.run.id;
+    if (!this.sessions.has(id)) return session.run;
+    this.sessions.delete(id);
+    if (session.run.benchId !== null && this.byBench.get(session.run.benchId) === id) this.byBench.delete(session.run.benchId);
+    session.end(state);
+    const summary = session.summary();
+    const batch = session.takeBatch();
+    this.deps.writer.enqueue(batch);
+    const run: Run = { ...session.run, state, summary, readingsCount: session.readingsCount, endedAt: (batch.patch.endedAt ?? new Date()).toISOString() };
+    this.runChanges.emit(run);
+    return run;
+  }
+
+  private emitEvent(runId: number, e: SequencedEvent): void {
+    this.events.emit(runId, e);
+  }
+}

@@ -1,0 +1,102 @@
+import { Router } from 'express';
+import {
+  AnnotateRequestSchema,
+  ListRunsQuerySchema,
+  PatchRunRequestSchema,
+  SamplesQuerySchema,
+  StartRunRequestSchema,
+  StopRunRequestSchema,
+} from '../../shared/schemas/api-runs.js';
+import type { AppContext } from '../app-context.js';
+import { requireRole } from '../auth/guards.js';
+import { notFound } from '../http/http-error.js';
+import { parseBody, parseIdParam } from '../http/validate.js';
+import { batteryLookup } from './battery-facts.js';
+import { exportMeta } from './export-meta.js';
+import { streamCsvExport, streamJsonExport } from './export-stream.js';
+import { createImportHandler } from './import-route.js';
+import { RunsRepo } from './runs-repo.js';
+import { recorderOf } from './runs-services.js';
+import { runSamples } from './samples-service.js';
+
+/** /api/runs: everyone signed in reads; technicians start, stop, rename, annotate and import. */
+export function createRunsRouter(ctx: AppContext): Router {
+  const router = Router();
+  const repo = new RunsRepo(ctx.sequelize);
+  const getBattery = batteryLookup(ctx);
+  const runOr404 = async (raw: string | string[] | undefined) => {
+    const id = parseIdParam(raw);
+    return (await repo.get(id)) ?? Promise.reject(notFound(`Run ${id}`));
+  };
+
+  router.get('/', requireRole('viewer'), async (req, res) => {
+    res.json(await repo.list(ListRunsQuerySchema.parse(req.query)));
+  });
+
+  router.post('/', requireRole('technician'), async (req, res) => {
+    const body = parseBody(StartRunRequestSchema, req.body);
+    res.status(201).json({ run: await recorderOf(ctx).start(body, req.user!.id) });
+  });
+
+  router.post('/import', requireRole('technician'), createImportHandler(ctx, repo, getBattery));
+
+  router.get('/:id', requireRole('viewer'), async (req, res) => {
+    res.json({ run: await runOr404(req.params.id) });
+  });
+
+  router.patch('/:id', requireRole('technician'), async (req, res) => {
+    const change = parseBody(PatchRunRequestSchema, req.body);
+    const run = await runOr404(req.params.id);
+    const updated = (await repo.patch(run.id, change))!;
+    ctx.services.runRecorder?.renamed(updated);
+    res.json({ run: updated });
+  });
+
+  router.post('/:id/stop', requireRole('technician'), async (req, res) => {
+    const { abort } = parseBody(StopRunRequestSchema, req.body);
+    res.json({ run: await recorderOf(ctx).stop(parseIdParam(req.params.id), abort) });
+  });
+
+  router.post('/:id/abort', requireRole('technician'), async (req, res) => {
+    res.json({ run: await recorderOf(ctx).stop(parseIdParam(req.params.id), true) });
+  });
+
+  router.get('/:id/events', requireRole('viewer'), async (req, res) => {
+    const run = await runOr404(req.params.id);
+    res.json({ events: await repo.events(run.id) });
+  });
+
+  router.post('/:id/events', requireRole('technician'), async (req, res) => {
+    const body = parseBody(AnnotateRequestSchema, req.body);
+    const run = await runOr404(req.params.id);
+    const author = { id: req.user!.id, name: req.user!.name };
+    const recorder = ctx.services.runRecorder;
+    const stored = recorder
+      ? await recorder.annotate(run.id, body.text, body.t, author)
+      : await repo.insertEvent(run.id, { type: 'annotation', t: body.t ?? 0, text: body.text, author: author.name }, author.id);
+    res.status(201).json({ event: stored });
+  });
+
+  router.get('/:id/samples', requireRole('viewer'), async (req, res) => {
+    const run = await runOr404(req.params.id);
+    res.json(await runSamples(ctx.sequelize, run.id, SamplesQuerySchema.parse(req.query)));
+  });
+
+  router.get('/:id/export.csv', requireRole('viewer'), async (req, res) => {
+    const meta = await exportMeta(ctx.sequelize, await runOr404(req.params.id), getBattery);
+    res.setHeader('Content-Type', 'text/csv; charset=utf-8');
+    res.setHeader('Content-Disposition', `attachment; filename="run-${meta.run.id}.csv"`);
+    await streamCsvExport(res, ctx.sequelize, meta);
+    res.end();
+  });
+
+  router.get('/:id/export.json', requireRole('viewer'), async (req, res) => {
+    const meta = await exportMeta(ctx.sequelize, await runOr404(req.params.id), getBattery);
+    res.setHeader('Content-Type', 'application/json; charset=utf-8');
+    res.setHeader('Content-Disposition', `attachment; filename="run-${meta.run.id}.json"`);
+    await streamJsonExport(res, ctx.sequelize, meta);
+    res.end();
+  });
+
+  return router;
+}
