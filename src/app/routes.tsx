@@ -6,6 +6,8 @@ import {
   BatteriesRoute,
   BenchRoute,
   DashboardRoute,
+  EditBenchRoute,
+  NewBenchRoute,
   NotFoundRoute,
   RoomRoute,
   RunRoute,
@@ -27,7 +29,9 @@ export const routes: RouteObject[] = [
         element: <AppLayout />,
         children: [
           { path: '/', element: <DashboardRoute /> },
+          { path: '/benches/new', element: <NewBenchRoute /> },
           { path: '/benches/:benchId', element: <BenchRoute /> },
+          { path: '/benches/:benchId/setup', element: <EditBenchRoute /> },
           { path: '/runs', element: <RunsRoute /> },
           { path: '/runs/:runId', element: <RunRoute /> },
           { path: '/batteries', element: <BatteriesRoute /> },

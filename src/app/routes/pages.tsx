@@ -1,7 +1,8 @@
-import { useParams } from 'react-router-dom';
+import { Link, useParams } from 'react-router-dom';
 import { useMe } from '../../features/auth/api/get-me';
 import { BatteriesPage } from '../../features/batteries/components/batteries-page';
 import { BenchesOverview } from '../../features/benches/components/benches-overview';
+import { BenchSetupPage } from '../../features/benches/components/bench-setup-page';
 import { BenchLivePage } from '../../features/live/components/bench-live-page';
 import { RoomView } from '../../features/live/components/room-view';
 import { RunDetail } from '../../features/runs/components/run-detail';
@@ -25,9 +26,14 @@ function NotFound() {
 /** Dashboard: every bench live. */
 export function DashboardRoute() {
   const me = useMe();
+  const isAdmin = hasRole(me.data?.role, 'admin');
   return (
     <>
-      <PageHeader title="Benches" subtitle="Live status of every bench in the lab." />
+      <PageHeader
+        title="Benches"
+        subtitle="Live status of every bench in the lab."
+        actions={isAdmin ? <Link to="/benches/new" className="inline-flex min-h-11 items-center rounded-lg bg-accent px-4 text-sm font-semibold text-accent-ink">New bench</Link> : undefined}
+      />
       <BenchesOverview canManage={hasRole(me.data?.role, 'admin')} />
     </>
   );
@@ -38,7 +44,27 @@ export function BenchRoute() {
   const me = useMe();
   const benchId = useIdParam('benchId');
   if (Number.isNaN(benchId)) return <NotFound />;
-  return <BenchLivePage key={benchId} benchId={benchId} canAct={hasRole(me.data?.role, 'technician')} />;
+  return <BenchLivePage key={benchId} benchId={benchId} canAct={hasRole(me.data?.role, 'technician')} canSetUp={hasRole(me.data?.role, 'admin')} />;
+}
+
+/** Add a bench (admin). */
+export function NewBenchRoute() {
+  return (
+    <RequireRole min="admin">
+      <BenchSetupPage benchId={null} />
+    </RequireRole>
+  );
+}
+
+/** Change a bench and its source (admin). */
+export function EditBenchRoute() {
+  const benchId = useIdParam('benchId');
+  if (Number.isNaN(benchId)) return <NotFound />;
+  return (
+    <RequireRole min="admin">
+      <BenchSetupPage key={benchId} benchId={benchId} />
+    </RequireRole>
+  );
 }
 
 /** The across-the-room view. */

@@ -12,7 +12,7 @@ import { Readouts } from './readouts';
 import { StartRunForm } from './start-run-form';
 
 /** One bench: its live run when there is one, otherwise its raw readings and the start form. */
-export function BenchLivePage({ benchId, canAct }: { benchId: number; canAct: boolean }) {
+export function BenchLivePage({ benchId, canAct, canSetUp = false }: { benchId: number; canAct: boolean; canSetUp?: boolean }) {
   const bench = useBench(benchId);
   const store = useLiveStore({ kind: 'bench', id: benchId });
   const view = useLiveView(store);
@@ -37,7 +37,18 @@ export function BenchLivePage({ benchId, canAct }: { benchId: number; canAct: bo
             {status.message && <span>{status.message}</span>}
           </span>
         }
-        actions={<Link to="/" className="inline-flex min-h-11 items-center rounded-lg border border-line px-4 text-sm font-semibold">All benches</Link>}
+        actions={
+          <>
+            {canSetUp && (
+              <Link to={`/benches/${benchId}/setup`} className="inline-flex min-h-11 items-center rounded-lg border border-line px-4 text-sm font-semibold">
+                Set up bench
+              </Link>
+            )}
+            <Link to="/" className="inline-flex min-h-11 items-center rounded-lg border border-line px-4 text-sm font-semibold">
+              All benches
+            </Link>
+          </>
+        }
       />
       {status.lastRejection && <p className="mb-4 text-sm text-status-stale">Last rejected reading: {status.lastRejection}</p>}
       {liveRunId !== null ? (

@@ -1,0 +1,51 @@
+import { screen, waitFor } from '@testing-library/react';
+import userEvent from '@testing-library/user-event';
+import { describe, expect, it } from 'vitest';
+import { demoUser, renderAt, stubApi } from '../../../testing/render-app';
+
+const savedBench = {
+  id: 5, name: 'Bench C', source: { kind: 'simulator', scenario: 'lfp-12v-weak-cell', speed: 10, seed: 1, staleAfterS: 10 },
+  enabled: true, notes: '', createdAt: '2026-12-01T20:00:00Z', updatedAt: '2026-12-01T20:00:00Z',
+  status: { state: 'idle', framesOk: 0, framesRejected: 0 },
+};
+
+describe('bench form (admin)', () => {
+  it('refuses a serial source whose format is not valid, before calling the server', async () => {
+    const { calls } = stubApi(demoUser('admin'), (url) => (url === '/api/benches/ports' ? { status: 200, body: { ports: [] } } : undefined));
+    renderAt('/benches/new');
+    await userEvent.type(await screen.findByLabelText('Name'), 'Bench C');
+    await userEvent.selectOptions(screen.getByLabelText('Meter source'), 'serial');
+    await userEvent.type(screen.getByLabelText('Device path'), '/tmp/kp-tty');
+    const format = screen.getByLabelText('Format details (JSON)');
+    await userEvent.clear(format);
+    await userEvent.click(format);
+    await userEvent.paste('{"kind":"csv","columns":["t"]}');
+    await userEvent.click(screen.getByRole('button', { name: 'Add bench' }));
+    const alert = await screen.findByRole('alert');
+    expect(alert.textContent).toMatch(/columns/);
+    expect(calls.some((c) => c.url === '/api/benches' && c.init?.method === 'POST')).toBe(false);
+  });
+
+  it('posts a simulator bench checked against the shared schema', async () => {
+    const { calls } = stubApi(demoUser('admin'), (url, init) =>
+      url === '/api/benches' && init?.method === 'POST' ? { status: 201, body: { bench: savedBench } } : undefined,
+    );
+    const { router } = renderAt('/benches/new');
+    await userEvent.type(await screen.findByLabelText('Name'), 'Bench C');
+    const scenario = screen.getByLabelText('Scenario');
+    await userEvent.clear(scenario);
+    await userEvent.type(scenario, 'lfp-12v-weak-cell');
+    const speed = screen.getByLabelText('Speed (× real time)');
+    await userEvent.clear(speed);
+    await userEvent.type(speed, '10');
+    await userEvent.click(screen.getByRole('button', { name: 'Add bench' }));
+    await waitFor(() => expect(router.state.location.pathname).toBe('/benches/5'));
+    const post = calls.find((c) => c.url === '/api/benches' && c.init?.method === 'POST');
+    expect(JSON.parse(String(post?.init?.body))).toEqual({
+      name: 'Bench C',
+      notes: '',
+      enabled: true,
+      source: { kind: 'simulator', scenario: 'lfp-12v-weak-cell', speed: 10, seed: 1, staleAfterS: 10 },
+    });
+  });
+});

@@ -1,0 +1,162 @@
+import { useState, type FormEvent } from 'react';
+import { BenchSourceConfigSchema, type BenchWithStatus, type SerialFormat } from '../../../../shared/schemas/bench';
+import { Button } from '../../../components/ui/button';
+import { SelectField, TextField } from '../../../components/ui/field';
+import { ApiError } from '../../../lib/api-client';
+import { useSaveBench, useSerialPorts } from '../api/manage-bench';
+import { FORMAT_TEMPLATES, SCENARIO_SUGGESTIONS } from './source-templates';
+
+type SourceKind = 'simulator' | 'serial' | 'none';
+const BAUD_RATES = ['9600', '19200', '38400', '57600', '115200', '230400'] as const;
+const DEFAULT_BAUD = '115200';
+
+function initialFormat(bench?: BenchWithStatus): { kind: SerialFormat['kind']; json: string } {
+  if (bench?.source.kind === 'serial') return { kind: bench.source.format.kind, json: JSON.stringify(bench.source.format, null, 2) };
+  return { kind: 'csv', json: JSON.stringify(FORMAT_TEMPLATES.csv, null, 2) };
+}
+
+/** Builds the source config from the form and checks it against the shared schema. */
+function buildSource(kind: SourceKind, f: Record<string, string>, formatJson: string): { source?: unknown; error?: string } {
+  let candidate: unknown = { kind: 'none' };
+  if (kind === 'simulator') candidate = { kind, scenario: f.scenario.trim(), speed: Number(f.speed), seed: Number(f.seed) };
+  if (kind === 'serial') {
+    let format: unknown;
+    try {
+      format = JSON.parse(formatJson);
+    } catch {
+      return { error: 'The format is not valid JSON.' };
+    }
+    candidate = { kind, path: f.path.trim(), baudRate: Number(f.baudRate), staleAfterS: Number(f.staleAfterS), format };
+  }
+  const parsed = BenchSourceConfigSchema.safeParse(candidate);
+  if (!parsed.success) return { error: parsed.error.issues.map((i) => `${i.path.join('.') || 'source'}: ${i.message}`).join('; ') };
+  return { source: parsed.data };
+}
+
+/** Adds or edits a bench and its meter source (lab managers). */
+export function BenchForm({ bench, onSaved }: { bench?: BenchWithStatus; onSaved: (benchId: number) => void }) {
+  const save = useSaveBench(bench?.id ?? null);
+  const src = bench?.source;
+  const [kind, setKind] = useState<SourceKind>(src?.kind ?? 'simulator');
+  const [fields, setFields] = useState<Record<string, string>>({
+    name: bench?.name ?? '',
+    notes: bench?.notes ?? '',
+    scenario: src?.kind === 'simulator' ? src.scenario : SCENARIO_SUGGESTIONS[0],
+    speed: src?.kind === 'simulator' ? String(src.speed) : '1',
+    seed: src?.kind === 'simulator' ? String(src.seed) : '1',
+    path: src?.kind === 'serial' ? src.path : '',
+    baudRate: src?.kind === 'serial' ? String(src.baudRate) : DEFAULT_BAUD,
+    staleAfterS: src?.kind === 'serial' ? String(src.staleAfterS) : '10',
+  });
+  const [format, setFormat] = useState(() => initialFormat(bench));
+  const [enabled, setEnabled] = useState(bench?.enabled ?? true);
+  const [localError, setLocalError] = useState<string | null>(null);
+  const ports = useSerialPorts(kind === 'serial');
+  const set = (name: string) => (e: { target: { value: string } }) => setFields((f) => ({ ...f, [name]: e.target.value }));
+
+  const submit = (e: FormEvent) => {
+    e.preventDefault();
+    if (!fields.name.trim()) return setLocalError('Give the bench a name.');
+    const built = buildSource(kind, fields, format.json);
+    if (built.error) return setLocalError(built.error);
+    setLocalError(null);
+    save.mutate(
+      { name: fields.name.trim(), notes: fields.notes, enabled, source: built.source as never },
+      { onSuccess: (saved) => onSaved(saved.id) },
+    );
+  };
+
+  const serverError = save.error instanceof ApiError ? save.error.message : save.error ? 'The bench was not saved.' : null;
+  return (
+    <form onSubmit={submit} noValidate aria-label="Bench" className="flex flex-col gap-4">
+      <div className="grid gap-4 md:grid-cols-2">
+        <TextField label="Name" value={fields.name} onChange={set('name')} placeholder="Bench C: 48 V rack packs" />
+        <SelectField
+          label="Meter source"
+          value={kind}
+          onChange={(e) => setKind(e.target.value as SourceKind)}
+          options={[
+            { value: 'simulator', label: 'Simulator (no hardware)' },
+            { value: 'serial', label: 'Serial meter (CSV, JSON lines, SCPI, Modbus RTU)' },
+            { value: 'none', label: 'None yet' },
+          ]}
+        />
+      </div>
+      {kind === 'simulator' && (
+        <div className="grid gap-4 md:grid-cols-3">
+          <TextField label="Scenario" list="kp-scenarios" value={fields.scenario} onChange={set('scenario')} />
+          <datalist id="kp-scenarios">
+            {SCENARIO_SUGGESTIONS.map((s) => (
+              <option key={s} value={s} />
+            ))}
+          </datalist>
+          <TextField label="Speed (× real time)" inputMode="decimal" value={fields.speed} onChange={set('speed')} />
+          <TextField label="Seed" inputMode="numeric" value={fields.seed} onChange={set('seed')} />
+        </div>
+      )}
+      {kind === 'serial' && (
+        <div className="grid gap-4 md:grid-cols-3">
+          <TextField
+            label="Device path"
+            list="kp-ports"
+            value={fields.path}
+            onChange={set('path')}
+            placeholder="/dev/ttyUSB0"
+            hint={ports.data?.message ?? (ports.data ? `${ports.data.ports.length} port(s) found` : undefined)}
+          />
+          <datalist id="kp-ports">
+            {ports.data?.ports.map((p) => (
+              <option key={p.path} value={p.path}>
+                {p.manufacturer ?? ''}
+              </option>
+            ))}
+          </datalist>
+          <SelectField label="Baud rate" value={fields.baudRate} onChange={set('baudRate')} options={BAUD_RATES.map((b) => ({ value: b, label: `${b} baud` }))} />
+          <TextField label="No data after (s)" inputMode="decimal" value={fields.staleAfterS} onChange={set('staleAfterS')} />
+          <SelectField
+            label="Format"
+            value={format.kind}
+            onChange={(e) => {
+              const k = e.target.value as SerialFormat['kind'];
+              setFormat({ kind: k, json: JSON.stringify(FORMAT_TEMPLATES[k], null, 2) });
+            }}
+            options={[
+              { value: 'csv', label: 'CSV lines' },
+              { value: 'jsonl', label: 'JSON lines' },
+              { value: 'scpi', label: 'SCPI polling' },
+              { value: 'modbus', label: 'Modbus RTU registers' },
+            ]}
+          />
+          <div className="flex flex-col gap-1 md:col-span-2">
+            <label htmlFor="bench-format" className="text-sm font-medium text-ink-muted">
+              Format details (JSON)
+            </label>
+            <textarea
+              id="bench-format"
+              value={format.json}
+              onChange={(e) => setFormat({ ...format, json: e.target.value })}
+              rows={8}
+              spellCheck={false}
+              className="num w-full rounded-lg border border-line bg-surface-sunken p-3 text-sm text-ink"
+            />
+          </div>
+        </div>
+      )}
+      <TextField label="Notes" value={fields.notes} onChange={set('notes')} />
+      <label className="flex min-h-11 items-center gap-3 text-ink">
+        <input type="checkbox" checked={enabled} onChange={(e) => setEnabled(e.target.checked)} className="h-5 w-5" />
+        Enabled (the server opens the source and watches it)
+      </label>
+      {(localError ?? serverError) && (
+        <p role="alert" className="text-sm font-medium text-state-cutoff">
+          {localError ?? serverError}
+        </p>
+      )}
+      <div>
+        <Button type="submit" disabled={save.isPending}>
+          {bench ? 'Save bench' : 'Add bench'}
+        </Button>
+      </div>
+    </form>
+  );
+}
