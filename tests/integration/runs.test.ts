@@ -1,0 +1,133 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { liveAttachment } from '../../server/live/attach-live.js';
+import { createTestContext, signInAs, type SignedInAgent, type TestContext } from './helpers/index.js';
+import { batteryAndBench, eventually, ManualFeed, tempSpillDir } from './runs-kit.js';
+
+const feed = new ManualFeed();
+let t: TestContext;
+let tech: SignedInAgent;
+let viewer: SignedInAgent;
+let ids: { batteryId: number; benchId: number };
+
+beforeAll(async () => {
+  t = await createTestContext({ attachments: [liveAttachment({ feed, spillDir: tempSpillDir() })] });
+  tech = await signInAs(t, 'technician');
+  viewer = await signInAs(t, 'viewer');
+  ids = await batteryAndBench(await signInAs(t, 'admin'));
+});
+afterAll(() => t?.close());
+
+// A linear voltage ramp at constant current: the trapezoidal rule is exact for a linear
+// integrand, so Wh and Ah have closed forms (any calculus text: ∫(a − b·t)·I dt).
+const AMPS = 5;
+const V0 = 13.2;
+const SLOPE_V_PER_S = 0.001;
+const END_VOLTS = 10.4;
+const volts = (t: number) => V0 - SLOPE_V_PER_S * t;
+
+describe('a live run', () => {
+  let runId: number;
+
+  it('starts armed on a bench for a registered battery (technician)', async () => {
+    const res = await tech
+      .post('/api/runs')
+      .send({ ...ids, name: 'Capacity check Voltara A-12', tags: ['acceptance', 'lfp'], endVolts: { mode: 'absolute', volts: END_VOLTS }, stopWhen: 'after-recovery' })
+      .expect(201);
+    runId = res.body.run.id;
+    expect(res.body.run).toMatchObject({ state: 'armed', benchId: ids.benchId, kind: 'capacity-discharge', tags: ['acceptance', 'lfp'] });
+    await tech.post('/api/runs').send({ ...ids, name: 'second' }).expect(409);
+  });
+
+  it('refuses a viewer, and a start for a battery that does not exist', async () => {
+    await viewer.post('/api/runs').send({ ...ids, name: 'x' }).expect(403);
+    const res = await tech.post('/api/runs').send({ benchId: ids.benchId + 1000, batteryId: 999_999, name: 'x' }).expect(400);
+    expect(res.body.error.fields.batteryId).toBeDefined();
+  });
+
+  it('integrates every frame on the server, cuts off at the end voltage and finishes by itself', async () => {
+    for (let s = 0; s <= 3000; s++) feed.emit(ids.benchId, { t: 5000 + s, volts: volts(s), amps: AMPS, temps: { cell: 25 }, clock: 'device' });
+    const run = await eventually(async () => {
+      const r = await viewer.get(`/api/runs/${runId}`).expect(200);
+      expect(r.body.run.state).toBe('finished');
+      return r.body.run;
+    });
+    const events = (await viewer.get(`/api/runs/${runId}/events`).expect(200)).body.events.map((e: { event: { type: string } }) => e.event);
+    const cutoffs = events.filter((e: { type: string }) => e.type === 'cutoff');
+    expect(cutoffs).toHaveLength(1);
+    const cut = cutoffs[0];
+    expect(cut.cause).toBe('end-voltage');
+    // Closed form up to the cutoff time: Ah = I·T/3600, Wh = I·(V0·T − b·T²/2)/3600.
+    const T = cut.t;
+    expect(cut.dischargeAh).toBeCloseTo((AMPS * T) / 3600, 9);
+    expect(cut.dischargeWh).toBeCloseTo((AMPS * (V0 * T - (SLOPE_V_PER_S * T * T) / 2)) / 3600, 9);
+    expect(volts(T)).toBeLessThan(END_VOLTS);
+    expect(run.summary.dischargeAh).toBeCloseTo((AMPS * run.summary.durationSeconds) / 3600, 9);
+    expect(run.readingsCount).toBe(run.summary.readings);
+    expect(events.map((e: { type: string }) => e.type)).toEqual(expect.arrayContaining(['run-start', 'cutoff', 'alarm', 'run-stop']));
+    // Frames after the end are not recorded.
+    feed.emit(ids.benchId, { t: 9000, volts: 12, amps: 1, clock: 'device' });
+    await tech.post(`/api/runs/${runId}/stop`).send({}).expect(409);
+  });
+
+  it('serves the history reduced to min/max buckets, and in full for a small window', async () => {
+    const reduced = (await viewer.get(`/api/runs/${runId}/samples?maxPoints=100`).expect(200)).body;
+    expect(reduced.reduced).toBe(true);
+    expect(reduced.t).toHaveLength(100);
+    expect(reduced.volts.max[0]).toBeCloseTo(V0, 9);
+    expect(Math.min(...reduced.volts.min.filter((v: number | null) => v !== null))).toBeLessThan(END_VOLTS);
+    expect(reduced.temps.cell.max[50]).toBe(25);
+    const full = (await viewer.get(`/api/runs/${runId}/samples?from=100&to=109&maxPoints=50`).expect(200)).body;
+    expect(full.reduced).toBe(false);
+    expect(full.t).toEqual([100, 101, 102, 103, 104, 105, 106, 107, 108, 109]);
+    expect(full.volts.min[0]).toBeCloseTo(volts(100), 12);
+    await viewer.get(`/api/runs/${runId}/samples?from=10&to=5`).expect(400);
+  });
+
+  it('exports every reading as CSV after a metadata block, and as JSON', async () => {
+    const run = (await viewer.get(`/api/runs/${runId}`)).body.run;
+    const csv = await viewer.get(`/api/runs/${runId}/export.csv`).expect(200).expect('content-type', /text\/csv/);
+    const lines = csv.text.trim().split('\n');
+    const meta = lines.filter((l) => l.startsWith('#'));
+    expect(meta.join('\n')).toMatch(/battery: Voltara Pack A-12 \(lfp, 4S, rated 10 Ah\)/);
+    expect(meta.join('\n')).toMatch(/units: .*amps A \(positive = discharge\)/);
+    const header = lines[meta.length]!.split(',');
+    expect(header).toEqual(['elapsed', 't', 'volts', 'amps', 'watts', 'dischargeWh', 'dischargeAh', 'chargeWh', 'chargeAh', 'temp_cell_c']);
+    const rows = lines.slice(meta.length + 1);
+    expect(rows).toHaveLength(run.readingsCount);
+    expect(Number(rows[10]!.split(',')[2])).toBe(volts(10));
+    const json = await viewer.get(`/api/runs/${runId}/export.json`).expect(200);
+    const doc = JSON.parse(json.text);
+    expect(doc.rows).toHaveLength(run.readingsCount);
+    expect(doc.meta.run.id).toBe(runId);
+  });
+
+  it('lets a technician annotate and rename, never a viewer; list filters by name, tag, battery and state', async () => {
+    await viewer.post(`/api/runs/${runId}/events`).send({ text: 'smell of hot plastic' }).expect(403);
+    const note = await tech.post(`/api/runs/${runId}/events`).send({ t: 120, text: 'fan moved closer' }).expect(201);
+    expect(note.body.event.event).toMatchObject({ type: 'annotation', t: 120, text: 'fan moved closer' });
+    await tech.post(`/api/runs/${runId}/events`).send({ text: '' }).expect(400);
+    await viewer.patch(`/api/runs/${runId}`).send({ name: 'nope' }).expect(403);
+    await tech.patch(`/api/runs/${runId}`).send({ name: 'Capacity Voltara A-12 (repeat)', tags: ['repeat'] }).expect(200);
+    const byName = (await viewer.get('/api/runs?q=repeat').expect(200)).body;
+    expect(byName.runs.map((r: { id: number }) => r.id)).toEqual([runId]);
+    expect((await viewer.get('/api/runs?tag=repeat')).body.total).toBe(1);
+    expect((await viewer.get('/api/runs?tag=acceptance')).body.total).toBe(0);
+    expect((await viewer.get(`/api/runs?batteryId=${ids.batteryId}&state=finished`)).body.total).toBe(1);
+    expect((await viewer.get('/api/runs?state=recording')).body.total).toBe(0);
+    await viewer.get('/api/runs?state=boiling').expect(400);
+  });
+
+  it('aborts a run by hand and keeps what was recorded', async () => {
+    const res = await tech.post('/api/runs').send({ ...ids, name: 'Manual stop', stopWhen: 'manual' }).expect(201);
+    for (let s = 0; s < 50; s++) feed.emit(ids.benchId, { t: 20_000 + s, volts: 13, amps: 2, clock: 'device' });
+    const stopped = await tech.post(`/api/runs/${res.body.run.id}/abort`).send({}).expect(200);
+    expect(stopped.body.run.state).toBe('aborted');
+    const run = await eventually(async () => {
+      const r = (await viewer.get(`/api/runs/${res.body.run.id}`)).body.run;
+      expect(r.readingsCount).toBe(50);
+      return r;
+    });
+    // 49 s at 2 A = 98/3600 Ah (constant current, exact).
+    expect(run.summary.dischargeAh).toBeCloseTo(98 / 3600, 12);
+  });
+});
