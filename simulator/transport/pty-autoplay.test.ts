@@ -7,6 +7,7 @@ import type { Scenario } from '../scenario/schema.js';
 import { startPtyMeter, type PtyMeter } from './pty-meter.js';
 
 const SPEED = 50;
+const WATCHDOG_MS = 100;
 const UNPLUG = { atS: 30, forS: 10 };
 const base = loadScenario('noisy-meter-unplug');
 // A short run of the noisy scenario with a clean line, so every missing frame is the unplug's doing.
@@ -36,11 +37,21 @@ function reconnectingGateway(path: string, onFrame: (f: Frame) => void, onClose:
       onClose();
       setTimeout(open, 10);
     });
-    port.pipe(new ReadlineParser({ delimiter: '\n' })).on('data', (line: string) => onFrame(FrameSchema.parse(JSON.parse(line))));
+    port.pipe(new ReadlineParser({ delimiter: '\n' })).on('data', (line: string) => {
+      lastDataMs = Date.now();
+      onFrame(FrameSchema.parse(JSON.parse(line)));
+    });
   };
+  // The no-data watchdog: a silent port gets a probe byte, which fails with EIO (and closes
+  // the port) if the device has gone without serialport noticing on its read.
+  let lastDataMs = Date.now();
+  const watchdog = setInterval(() => {
+    if (port?.isOpen && Date.now() - lastDataMs > WATCHDOG_MS) port.write('\n');
+  }, WATCHDOG_MS / 2);
   open();
   return () => {
     stopped = true;
+    clearInterval(watchdog);
     if (port?.isOpen) port.close();
   };
 }
