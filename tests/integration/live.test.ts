@@ -1,0 +1,129 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { liveAttachment } from '../../server/live/attach-live.js';
+import { createTestContext, signInAs, type SignedInAgent, type TestContext } from './helpers/index.js';
+import { batteryAndBench, ManualFeed, sessionCookie, tempSpillDir, WsProbe } from './runs-kit.js';
+
+const feed = new ManualFeed();
+let t: TestContext;
+let tech: SignedInAgent;
+let viewer: SignedInAgent;
+let ids: { batteryId: number; benchId: number };
+const probes: WsProbe[] = [];
+
+beforeAll(async () => {
+  t = await createTestContext({ attachments: [liveAttachment({ feed, spillDir: tempSpillDir() })] });
+  tech = await signInAs(t, 'technician');
+  viewer = await signInAs(t, 'viewer');
+  ids = await batteryAndBench(await signInAs(t, 'admin'));
+});
+afterAll(async () => {
+  for (const p of probes) p.close();
+  await t?.close();
+});
+
+const open = async (cookie?: string) => {
+  const p = await WsProbe.open(t, cookie);
+  probes.push(p);
+  return p;
+};
+
+describe('WebSocket /ws', () => {
+  it('refuses an upgrade without a session (401) and one from another origin (403)', async () => {
+    await expect(WsProbe.open(t)).rejects.toThrow('refused: 401');
+    await expect(WsProbe.open({ url: t.url }, 'kneepoint.sid=s%3Aforged.sig')).rejects.toThrow('refused: 401');
+    const cookie = await sessionCookie(t, 'viewer');
+    const WebSocket = (await import('ws')).default;
+    const ws = new WebSocket(t.url.replace('http', 'ws') + '/ws', { headers: { cookie, origin: 'http://elsewhere.example' } });
+    const status = await new Promise<number>((resolve) => ws.once('unexpected-response', (_q, res) => resolve(res.statusCode ?? 0)));
+    expect(status).toBe(403);
+  });
+
+  it('greets a viewer, sends a snapshot, then batches of a run with totals; events arrive; annotation is refused to the viewer', async () => {
+    const run = (await tech.post('/api/runs').send({ ...ids, name: 'WS run', stopWhen: 'manual' }).expect(201)).body.run;
+    const p = await open(await sessionCookie(t, 'viewer'));
+    const hello = await p.next('hello');
+    expect(hello.user.role).toBe('viewer');
+    expect(Math.abs(hello.serverTimeMs - Date.now())).toBeLessThan(5000);
+    p.send({ type: 'subscribe', topic: { kind: 'run', id: run.id } });
+    const snap = await p.next('snapshot');
+    expect(snap.run?.id).toBe(run.id);
+    expect(snap.events.map((e) => e.type)).toContain('run-start');
+    for (let s = 0; s < 20; s++) feed.emit(ids.benchId, { t: s, volts: 12, amps: 3, clock: 'device' });
+    await p.next('batch', (b) => b.readings.t.includes(19));
+    const batches = p.messages.filter((m) => m.type === 'batch');
+    const t0 = batches.flatMap((b) => (b.type === 'batch' ? b.readings.t : []));
+    expect(t0).toEqual(Array.from({ length: 20 }, (_, i) => i));
+    const last = batches[batches.length - 1]!;
+    // 19 s at 3 A = 57/3600 Ah (constant current).
+    if (last.type === 'batch') expect(last.readings.dischargeAh!.at(-1)).toBeCloseTo(57 / 3600, 12);
+    // seq increases by one per message on this connection.
+    const seqs = p.messages.map((m) => m.seq);
+    expect(seqs).toEqual(seqs.map((_, i) => seqs[0]! + i));
+
+    await viewer.post(`/api/runs/${run.id}/events`).send({ text: 'viewer note' }).expect(403);
+    await tech.post(`/api/runs/${run.id}/events`).send({ text: 'load switched on' }).expect(201);
+    const ev = await p.next('event', (e) => e.event.type === 'annotation');
+    expect(ev.event).toMatchObject({ type: 'annotation', text: 'load switched on', t: 19 });
+    expect(ev.eventId).toBeGreaterThan(0);
+    await tech.post(`/api/runs/${run.id}/stop`).send({}).expect(200);
+    const change = await p.next('run', (m) => m.run.state === 'finished');
+    expect(change.run.summary?.dischargeAh).toBeCloseTo(57 / 3600, 12);
+  });
+
+  it('answers ping, reports a bad message and an unknown run without closing', async () => {
+    const p = await open(await sessionCookie(t, 'viewer'));
+    p.send({ type: 'ping', id: 7 });
+    expect((await p.next('pong')).id).toBe(7);
+    p.send({ type: 'subscribe', topic: { kind: 'planet', id: 1 } });
+    await p.next('error', (e) => /Invalid message/.test(e.message));
+    p.ws.send('not json');
+    p.send({ type: 'subscribe', topic: { kind: 'run', id: 987654 } });
+    await p.next('error', (e) => e.topic?.id === 987654);
+    p.send({ type: 'ping', id: 8 });
+    expect((await p.next('pong', (m) => m.id === 8)).id).toBe(8);
+  });
+
+  it('streams a bench topic with status, and a client that stops reading does not slow another', async () => {
+    const fast = await open(await sessionCookie(t, 'viewer'));
+    const slow = await open(await sessionCookie(t, 'technician'));
+    for (const p of [fast, slow]) p.send({ type: 'subscribe', topic: { kind: 'bench', id: ids.benchId } });
+    await fast.next('snapshot');
+    await slow.next('snapshot');
+    feed.status(ids.benchId, { state: 'receiving', framesOk: 1, framesRejected: 0 });
+    await fast.next('status', (s) => s.status.state === 'receiving');
+    // The slow client stops reading: its socket's receive buffer fills, the server's backlog grows.
+    (slow.ws as unknown as { _socket: { pause(): void } })._socket.pause();
+    const temps = Object.fromEntries(Array.from({ length: 12 }, (_, i) => [`probe${i}`, 20 + i / 7]));
+    const FRAMES = 60_000;
+    const sentAt: number[] = [];
+    for (let i = 0; i < FRAMES; i += 500) {
+      for (let j = i; j < i + 500; j++) feed.emit(ids.benchId, { t: 1_000_000 + j, volts: 12 + (j % 100) / 1000, amps: 2, temps, clock: 'device' });
+      sentAt.push(Date.now());
+      await new Promise((r) => setImmediate(r));
+    }
+    const lastT = 1_000_000 + FRAMES - 1;
+    const got = await fast.next('batch', (b) => b.readings.t.includes(lastT), 30_000);
+    const lag = Date.now() - sentAt[sentAt.length - 1]!;
+    const fastTs = fast.messages.flatMap((m) => (m.type === 'batch' ? m.readings.t : [])).filter((x) => x >= 1_000_000);
+    expect(fastTs).toHaveLength(FRAMES); // the fast client got every reading, in order
+    expect(fastTs[FRAMES - 1]).toBe(lastT);
+    expect(got.dropped).toBe(0);
+    expect(lag).toBeLessThan(2000);
+    // The slow client resumes: it was thinned (dropped counted), not allowed to stall the others.
+    (slow.ws as unknown as { _socket: { resume(): void } })._socket.resume();
+    // While its backlog drains the server may still hold readings back: keep the meter going.
+    let extra = 0;
+    const ticker = setInterval(() => feed.emit(ids.benchId, { t: lastT + ++extra, volts: 12, amps: 2, clock: 'device' }), 50);
+    try {
+      await slow.next('batch', (b) => b.readings.t.some((x) => x > lastT), 30_000);
+    } finally {
+      clearInterval(ticker);
+    }
+    const lastSeen = Math.max(...slow.messages.flatMap((m) => (m.type === 'batch' ? m.readings.t : [])));
+    const dropped = slow.messages.reduce((s, m) => s + (m.type === 'batch' ? m.dropped : 0), 0);
+    const slowTs = slow.messages.flatMap((m) => (m.type === 'batch' ? m.readings.t : [])).filter((x) => x >= 1_000_000);
+    expect(dropped).toBeGreaterThan(0);
+    // Every reading up to the newest one it saw was either sent or counted as dropped.
+    expect(slowTs.length + dropped).toBe(lastSeen - 1_000_000 + 1);
+  });
+});
