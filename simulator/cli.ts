@@ -19,6 +19,9 @@ const USAGE = `Usage: npm run simulator -- [options]
   --no-time              CSV without the time column
   --unit-id N            Modbus unit address (default 1)`;
 
+/** Modbus serial unit addresses run from 1 to 247 (Modbus over Serial Line, §2.2). */
+const MAX_MODBUS_UNIT = 247;
+
 const ArgsSchema = z.object({
   list: z.boolean().default(false),
   help: z.boolean().default(false),
@@ -28,7 +31,7 @@ const ArgsSchema = z.object({
   speed: z.coerce.number().positive().finite().default(1),
   seed: z.coerce.number().int().nonnegative().default(1),
   'no-time': z.boolean().default(false),
-  'unit-id': z.coerce.number().int().min(1).max(247).default(1),
+  'unit-id': z.coerce.number().int().min(1).max(MAX_MODBUS_UNIT).default(1),
 });
 
 async function main(): Promise<void> {

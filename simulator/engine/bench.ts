@@ -10,6 +10,10 @@ import type { SimEvent, SimTotals } from './events.js';
 import { chargeAmps, dischargeAmps } from './load.js';
 
 const SECONDS_PER_HOUR = 3600;
+/** Without a set termination current a charge ends at C/20 of its CC current (common practice). */
+const DEFAULT_TERM_FRACTION = 1 / 20;
+/** A charger needs a moment to push current before "too little current" can mean "full". */
+const CHARGED_SETTLE_S = 1;
 
 /** The electrical state at one instant: what a meter on the terminals would see. */
 export interface OperatingPoint {
@@ -76,8 +80,8 @@ export function createBench(scenario: Scenario, prng: Prng): Bench {
     if (step.stopWhen === 'bms-release' && trips.some((e) => e.kind === 'bms-release')) return 'bms-release';
     // A blocked charger carries no current: that is not a full pack.
     if (step.kind === 'charge' && step.stopWhen === 'charged' && !chargeWasOpen && !bms?.chargeOpen) {
-      const termAmps = step.charger.termAmps ?? step.charger.ccAmps / 20;
-      if (-p.cellAmps < termAmps && stepElapsedS > 1) return 'charged';
+      const termAmps = step.charger.termAmps ?? step.charger.ccAmps * DEFAULT_TERM_FRACTION;
+      if (-p.cellAmps < termAmps && stepElapsedS > CHARGED_SETTLE_S) return 'charged';
     }
     return stepElapsedS >= step.maxS ? 'max-time' : undefined;
   };

@@ -8,6 +8,8 @@ import { systemClock, type Clock } from './clock.js';
 import { playSamples, type Player } from './play.js';
 
 export const DEFAULT_SEED = 1;
+/** Keeps 1 s / 0.25 s at 4 steps, not 5, when the division lands a hair above an integer. */
+const STEP_COUNT_EPSILON = 1e-9;
 
 export interface SimulationOptions {
   /** Same seed, same physics spread and the same meter noise, hence the same bytes. */
@@ -53,7 +55,7 @@ export function createSimulation(input: Scenario | ScenarioInput, options: Simul
   const bench = createBench(scenario, createPrng(seed, 'physics'));
   const meterPrng = createPrng(seed, 'meter');
   const hasHeater = scenario.pack.heater !== undefined;
-  const substeps = Math.max(1, Math.ceil(meter.samplePeriodS / scenario.maxPhysicsStepS - 1e-9));
+  const substeps = Math.max(1, Math.ceil(meter.samplePeriodS / scenario.maxPhysicsStepS - STEP_COUNT_EPSILON));
   const dtS = meter.samplePeriodS / substeps;
   let seq = 0;
   let wasPlugged = true;
