@@ -22,6 +22,7 @@ export { modbusCrc16, withCrc, hasValidCrc } from './encoders/modbus/crc16.js';
 export { DEFAULT_REGISTER_MAP, RegisterMapSchema, frameToRegisters, registersToValue } from './encoders/modbus/register-map.js';
 export type { RegisterMap } from './encoders/modbus/register-map.js';
 export { startPtyMeter } from './transport/pty-meter.js';
+export type { Player } from './engine/play.js';
 export type { PtyMeter, PtyMeterOptions } from './transport/pty-meter.js';
 export { startStreamMeter } from './transport/stdio-meter.js';
 export { ocvAt, meanOcvCellVolts } from './model/ocv.js';

@@ -58,8 +58,17 @@ export async function startPtyMeter(options: PtyMeterOptions): Promise<PtyMeter>
     }
   };
   const plugIn = async (): Promise<void> => {
-    pair = await openPtyPair(options.linkPath);
-    const opened = new SerialPort({ path: pair.devicePath, baudRate: DEVICE_BAUD, autoOpen: false });
+    const opening = await openPtyPair(options.linkPath);
+    pair = opening;
+    // socat dying on its own (killed from outside) is an unplug; the next sample plugs back in.
+    opening.process.once('exit', () => {
+      if (pair !== opening) return;
+      const orphan = port;
+      pair = undefined;
+      port = undefined;
+      if (orphan?.isOpen) orphan.close();
+    });
+    const opened = new SerialPort({ path: opening.devicePath, baudRate: DEVICE_BAUD, autoOpen: false });
     await new Promise<void>((ok, fail) => opened.open((error) => (error ? fail(error) : ok())));
     // The far end vanishing (unplug, stop) surfaces here as EIO; the meter just goes quiet.
     opened.on('error', () => undefined);

@@ -1,4 +1,4 @@
-import { existsSync } from 'node:fs';
+import { existsSync, symlinkSync, unlinkSync, writeFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import type ModbusClient from 'modbus-serial';
 import { ReadlineParser, SerialPort } from 'serialport';
@@ -144,6 +144,21 @@ describe('serial round trip through a socat pseudo-terminal', { timeout: TIMEOUT
     const sent = (await meter.tick())!.frame;
     await until(() => lines.length > 0, 'a line after replug');
     expect(FrameSchema.parse(JSON.parse(lines[0]))).toEqual(sent);
+  });
+
+  it('replaces a dangling link left by a killed socat, but never a file that is not a link', async () => {
+    const path = link('stale');
+    symlinkSync('/dev/pts/no-such-terminal', path);
+    meter = await startPtyMeter({ scenario, format: 'csv', linkPath: path, autoplay: false });
+    expect(existsSync(path)).toBe(true);
+    await meter.stop();
+    const file = link('file');
+    writeFileSync(file, 'not a terminal');
+    try {
+      await expect(startPtyMeter({ scenario, format: 'csv', linkPath: file, autoplay: false })).rejects.toThrow(/already exists/);
+    } finally {
+      unlinkSync(file);
+    }
   });
 
   it('refuses a link inside the repository (a pty there hangs the CSS build)', async () => {

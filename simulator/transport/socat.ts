@@ -1,5 +1,5 @@
 import { spawn, type ChildProcess } from 'node:child_process';
-import { existsSync } from 'node:fs';
+import { existsSync, lstatSync, unlinkSync } from 'node:fs';
 import { resolve, sep } from 'node:path';
 import { fileURLToPath } from 'node:url';
 
@@ -33,10 +33,29 @@ export function assertLinkOutsideRepo(linkPath: string, repoRoots = [process.cwd
   }
 }
 
+/**
+ * A link left by a killed socat points at a pseudo-terminal that is gone: remove it. A live
+ * one belongs to another meter, and anything else is not ours to delete.
+ */
+function removeStaleLink(linkPath: string): void {
+  let isLink: boolean;
+  try {
+    isLink = lstatSync(linkPath).isSymbolicLink();
+  } catch {
+    return;
+  }
+  if (!isLink || existsSync(linkPath)) throw new Error(`${linkPath} already exists (another simulated meter?)`);
+  unlinkSync(linkPath);
+}
+
 /** Starts `socat` with two raw pseudo-terminals, one of them linked at linkPath. */
 export function openPtyPair(linkPath: string): Promise<PtyPair> {
   assertLinkOutsideRepo(linkPath);
-  if (existsSync(linkPath)) return Promise.reject(new Error(`${linkPath} already exists (another simulated meter?)`));
+  try {
+    removeStaleLink(linkPath);
+  } catch (error) {
+    return Promise.reject(error);
+  }
   const child = spawn('socat', ['-d', '-d', `pty,raw,echo=0,link=${linkPath}`, 'pty,raw,echo=0'], {
     stdio: ['ignore', 'ignore', 'pipe'],
   });
