@@ -1,8 +1,15 @@
+import { join } from 'node:path';
 import type { Sequelize } from 'sequelize';
 import type { ArchiveBatch } from './archive-batch.js';
 import { ArchiveWriter } from './archive-writer.js';
 import { COMPACT_READINGS, compactRun, writeBatch } from './chunk-store.js';
 import { SpillStore } from './spill-store.js';
+
+/** Connection trouble is worth waiting out; an SQL error (missing run or table) is not. */
+function isTransient(err: unknown): boolean {
+  const name = (err as { name?: string })?.name ?? '';
+  return name !== 'SequelizeDatabaseError' && name !== 'SequelizeForeignKeyConstraintError';
+}
 
 export interface ArchiveOptions {
   spillDir: string;
@@ -26,8 +33,11 @@ export function createArchiveWriter(sequelize: Sequelize, opts: ArchiveOptions):
       smallReadings.delete(batch.runId);
     } else smallReadings.set(batch.runId, n);
   };
+  const deadLetters = new SpillStore(join(opts.spillDir, 'failed'));
   return new ArchiveWriter({
     write: (batch) => writeBatch(sequelize, batch),
+    isTransient,
+    deadLetter: (batch) => deadLetters.push(batch),
     spill: new SpillStore(opts.spillDir),
     memoryLimitBytes: opts.memoryLimitBytes,
     afterWrite,

@@ -87,3 +87,26 @@ describe('ArchiveWriter.shutdown', () => {
     expect(seen).toEqual([0, 1, 2, 3, 4]);
   });
 });
+
+describe('ArchiveWriter with a permanent error', () => {
+  it('sets the batch aside after a few attempts and goes on with the next', async () => {
+    const dir = await tempDir();
+    const aside: number[] = [];
+    const written: number[] = [];
+    const writer = new ArchiveWriter({
+      spill: new SpillStore(dir),
+      sleep: async () => undefined,
+      isTransient: (err) => !String(err).includes('no such run'),
+      deadLetter: async (b) => void aside.push(b.block!.firstSeq),
+      write: async (b) => {
+        if (b.runId === 404) throw new Error('no such run');
+        written.push(b.block!.firstSeq);
+      },
+    });
+    writer.enqueue(batch(404, 1));
+    writer.enqueue(batch(1, 2));
+    await writer.flush();
+    expect(aside).toEqual([1]);
+    expect(written).toEqual([2]);
+  });
+});

@@ -14,7 +14,18 @@ export interface ArchiveWriterOptions {
   afterWrite?: (batch: ArchiveBatch) => Promise<void>;
   sleep?: (ms: number) => Promise<void>;
   log?: (message: string) => void;
+  /**
+   * False for an error that retrying cannot fix (the run was deleted, the schema is wrong).
+   * Such a batch is tried PERMANENT_ERROR_ATTEMPTS times, then handed to `deadLetter` so it
+   * is kept for a person to look at instead of blocking every later batch. Default: all
+   * errors are transient.
+   */
+  isTransient?: (err: unknown) => boolean;
+  deadLetter?: (batch: ArchiveBatch, err: unknown) => Promise<void>;
 }
+
+/** Attempts before a batch with a permanent error is set aside. */
+export const PERMANENT_ERROR_ATTEMPTS = 3;
 
 export interface ArchiveWriterStats {
   inMemory: number;
@@ -149,6 +160,7 @@ export class ArchiveWriter {
   }
 
   private async writeWithRetry(batch: ArchiveBatch): Promise<void> {
+    let permanent = 0;
     for (let attempt = 0; !this.stopped; attempt++) {
       try {
         await this.opts.write(batch);
@@ -157,6 +169,11 @@ export class ArchiveWriter {
         return;
       } catch (err) {
         this.stats.failures++;
+        if (this.opts.deadLetter && this.opts.isTransient && !this.opts.isTransient(err) && ++permanent >= PERMANENT_ERROR_ATTEMPTS) {
+          this.opts.log?.(`archive: batch for run ${batch.runId} set aside after ${permanent} failures (${String(err)})`);
+          await this.opts.deadLetter(batch, err);
+          return;
+        }
         if (this.stats.healthy) this.opts.log?.(`archive: write failed, buffering (${String(err)})`);
         this.stats.healthy = false;
         await this.sleep(RETRY_DELAYS_MS[Math.min(attempt, RETRY_DELAYS_MS.length - 1)]!);
