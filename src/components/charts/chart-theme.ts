@@ -14,3 +14,24 @@ export const AXIS_FONT = '12px "JetBrains Mono", ui-monospace, monospace';
 export const RUN_TIME_INCREMENTS_S = [1, 2, 5, 10, 15, 30, 60, 120, 300, 600, 900, 1800, 3600, 7200, 10_800, 21_600, 43_200, 86_400];
 /** Minimum gap between run-time labels ("01:23:20" is wide). */
 export const RUN_TIME_LABEL_SPACE_PX = 90;
+
+/**
+ * A y range that never zooms into meter noise: at least `minSpan` wide, centred on the data,
+ * with a little headroom. (A 5 mV wobble drawn full height reads like a fault.)
+ */
+export function paddedRange(minSpan: number) {
+  return (_u: unknown, min: number | null, max: number | null): [number, number] => {
+    if (min === null || max === null || !Number.isFinite(min) || !Number.isFinite(max)) return [0, minSpan];
+    const span = max - min;
+    if (span < minSpan) {
+      const mid = (min + max) / 2;
+      return [mid - minSpan / 2, mid + minSpan / 2];
+    }
+    const pad = span * RANGE_PAD_FRACTION;
+    return [min - pad, max + pad];
+  };
+}
+
+const RANGE_PAD_FRACTION = 0.05;
+/** Smallest axis spans: 1 V, 2 A, 20 W, 5 °C. */
+export const MIN_SPAN = { V: 1, A: 2, W: 20, C: 5 } as const;

@@ -5,7 +5,7 @@ import type { SamplesResponse } from '../../../shared/schemas/api-runs';
 import { SIGNAL_COLORS } from '../../lib/palette';
 import { formatAmps, formatElapsedClock, formatTemperature, formatVolts } from '../../lib/units';
 import { useTheme } from '../../lib/use-theme';
-import { AXIS_FONT, chartTheme, RUN_TIME_INCREMENTS_S, RUN_TIME_LABEL_SPACE_PX } from './chart-theme';
+import { AXIS_FONT, chartTheme, MIN_SPAN, paddedRange, RUN_TIME_INCREMENTS_S, RUN_TIME_LABEL_SPACE_PX } from './chart-theme';
 import { useChartWidth } from './use-chart-size';
 
 /** A vertical line on the chart at a run time (cutoff, recovery, a note). */
@@ -29,7 +29,13 @@ function buildOptions(width: number, heightPx: number, temperatureUnit: 'C' | 'F
   return {
     width,
     height: heightPx,
-    scales: { x: { time: false } },
+    scales: {
+      x: { time: false },
+      V: { range: paddedRange(MIN_SPAN.V) },
+      A: { range: paddedRange(MIN_SPAN.A) },
+      W: { range: paddedRange(MIN_SPAN.W) },
+      C: { range: paddedRange(MIN_SPAN.C) },
+    },
     // Dragging selects a window; we fetch that window again at finer resolution.
     cursor: { drag: { x: true, y: false, setScale: false } },
     series: [
@@ -38,7 +44,7 @@ function buildOptions(width: number, heightPx: number, temperatureUnit: 'C' | 'F
       { label: 'Volts min', scale: 'V', stroke: SIGNAL_COLORS.volts, width: 1, value: (_u, v) => formatVolts(v) },
       { label: 'Amps max', scale: 'A', stroke: SIGNAL_COLORS.amps, width: 2, value: (_u, v) => formatAmps(v) },
       { label: 'Amps min', scale: 'A', stroke: SIGNAL_COLORS.amps, width: 1, value: (_u, v) => formatAmps(v) },
-      { label: 'Temperature', scale: 'C', stroke: SIGNAL_COLORS.temp, width: 1, value: (_u, v) => formatTemperature(v, temperatureUnit) },
+      { label: 'Temperature', scale: 'C', stroke: SIGNAL_COLORS.temp, width: 1, points: { show: false }, value: (_u, v) => formatTemperature(v, temperatureUnit) },
     ],
     // Min/max bands: a spike or a cutoff inside a bucket is never averaged away.
     bands: [

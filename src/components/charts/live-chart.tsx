@@ -5,7 +5,7 @@ import { SIGNAL_COLORS } from '../../lib/palette';
 import { formatAmps, formatElapsedClock, formatTemperature, formatVolts, formatWatts } from '../../lib/units';
 import type { LiveStore } from '../../lib/live-store';
 import { useTheme } from '../../lib/use-theme';
-import { AXIS_FONT, chartTheme, RUN_TIME_INCREMENTS_S, RUN_TIME_LABEL_SPACE_PX } from './chart-theme';
+import { AXIS_FONT, chartTheme, MIN_SPAN, paddedRange, RUN_TIME_INCREMENTS_S, RUN_TIME_LABEL_SPACE_PX } from './chart-theme';
 import { useChartWidth } from './use-chart-size';
 
 const LINE_WIDTH_PX = 2;
@@ -17,13 +17,19 @@ function buildOptions(width: number, heightPx: number, temperatureUnit: 'C' | 'F
     width,
     height: heightPx,
     cursor: { drag: { x: false, y: false } },
-    scales: { x: { time: false } },
+    scales: {
+      x: { time: false },
+      V: { range: paddedRange(MIN_SPAN.V) },
+      A: { range: paddedRange(MIN_SPAN.A) },
+      W: { range: paddedRange(MIN_SPAN.W) },
+      C: { range: paddedRange(MIN_SPAN.C) },
+    },
     series: [
       { label: 'Run time', value: (_u, v) => formatElapsedClock(v) },
-      { label: 'Volts', scale: 'V', stroke: SIGNAL_COLORS.volts, width: LINE_WIDTH_PX, value: (_u, v) => formatVolts(v) },
-      { label: 'Amps', scale: 'A', stroke: SIGNAL_COLORS.amps, width: LINE_WIDTH_PX, value: (_u, v) => formatAmps(v) },
-      { label: 'Watts', scale: 'W', stroke: SIGNAL_COLORS.watts, width: 1, value: (_u, v) => formatWatts(v) },
-      { label: 'Temperature', scale: 'C', stroke: SIGNAL_COLORS.temp, width: 1, value: (_u, v) => formatTemperature(v, temperatureUnit) },
+      { label: 'Volts', scale: 'V', stroke: SIGNAL_COLORS.volts, width: LINE_WIDTH_PX, points: { show: false }, value: (_u, v) => formatVolts(v) },
+      { label: 'Amps', scale: 'A', stroke: SIGNAL_COLORS.amps, width: LINE_WIDTH_PX, points: { show: false }, value: (_u, v) => formatAmps(v) },
+      { label: 'Watts', scale: 'W', stroke: SIGNAL_COLORS.watts, width: 1, points: { show: false }, value: (_u, v) => formatWatts(v) },
+      { label: 'Temperature', scale: 'C', stroke: SIGNAL_COLORS.temp, width: 1, points: { show: false }, value: (_u, v) => formatTemperature(v, temperatureUnit) },
     ],
     axes: [
       { ...axisBase, incrs: RUN_TIME_INCREMENTS_S, space: RUN_TIME_LABEL_SPACE_PX, values: (_u, ticks) => ticks.map((t) => formatElapsedClock(t)) },

@@ -4,6 +4,7 @@ import { BigNumber } from '../../../components/ui/big-number';
 import { BenchStatusBadge, RunStateBadge } from '../../../components/ui/state-badge';
 import { SIGNAL_COLORS } from '../../../lib/palette';
 import { formatAmps, formatTemperature, formatVolts, formatWatts } from '../../../lib/units';
+import { isLiveRun, useLatestBenchRun } from '../../../lib/current-run';
 import { useLiveStore, useLiveView } from '../../../lib/use-live';
 
 /** One bench on the overview: its health, its run, and its numbers as they arrive. */
@@ -11,7 +12,9 @@ export function BenchCard({ bench, temperatureUnit }: { bench: BenchWithStatus; 
   const store = useLiveStore({ kind: 'bench', id: bench.id });
   const live = useLiveView(store);
   const status = live.status ?? bench.status;
-  const run = live.run;
+  const latest = useLatestBenchRun(bench.id);
+  const newest = live.run ?? latest.data ?? null;
+  const run = isLiveRun(newest) ? newest : null;
   const alarm = run?.state === 'cutoff';
 
   return (

@@ -1,10 +1,11 @@
 import { useState } from 'react';
 import { Link } from 'react-router-dom';
-import { LIVE_RUN_STATES } from '../../../../shared/schemas/run';
 import { Card, PageHeader } from '../../../components/ui/card';
 import { BenchStatusBadge } from '../../../components/ui/state-badge';
 import { Loading, QueryError } from '../../../components/ui/status';
+import { isLiveRun, useLatestBenchRun } from '../../../lib/current-run';
 import { useLabSettings } from '../../../lib/lab-settings';
+import { RunStateBadge } from '../../../components/ui/state-badge';
 import { useLiveStore, useLiveView } from '../../../lib/use-live';
 import { useBench } from '../api/get-bench';
 import { LiveRunPanel } from './live-run-panel';
@@ -17,13 +18,18 @@ export function BenchLivePage({ benchId, canAct, canSetUp = false }: { benchId: 
   const store = useLiveStore({ kind: 'bench', id: benchId });
   const view = useLiveView(store);
   const settings = useLabSettings();
-  const [startedRunId, setStartedRunId] = useState<number | null>(null);
+  const latest = useLatestBenchRun(benchId);
+  // The run on screen stays there after it ends (its alarm may still need acknowledging)
+  // until the technician closes it or starts another.
+  const [pinnedRunId, setPinnedRunId] = useState<number | null>(null);
+  const liveRun = isLiveRun(view.run) ? view.run : isLiveRun(latest.data) ? latest.data : null;
+  if (liveRun && liveRun.id !== pinnedRunId) setPinnedRunId(liveRun.id);
 
   if (bench.isPending) return <Loading label="Loading bench…" />;
   if (bench.isError) return <QueryError error={bench.error} what="This bench" />;
 
   const status = view.status ?? bench.data.status;
-  const liveRunId = view.run && LIVE_RUN_STATES.includes(view.run.state) ? view.run.id : startedRunId;
+  const shownRunId = liveRun?.id ?? pinnedRunId;
   const roomViewPath = `/benches/${benchId}/room`;
 
   return (
@@ -51,10 +57,28 @@ export function BenchLivePage({ benchId, canAct, canSetUp = false }: { benchId: 
         }
       />
       {status.lastRejection && <p className="mb-4 text-sm text-status-stale">Last rejected reading: {status.lastRejection}</p>}
-      {liveRunId !== null ? (
-        <LiveRunPanel runId={liveRunId} label={bench.data.name} roomViewPath={roomViewPath} canAct={canAct} />
+      {shownRunId !== null ? (
+        <LiveRunPanel
+          runId={shownRunId}
+          label={bench.data.name}
+          roomViewPath={roomViewPath}
+          canAct={canAct}
+          onClose={liveRun ? undefined : () => setPinnedRunId(null)}
+        />
       ) : (
         <div className="flex flex-col gap-4">
+          {latest.data && (
+            <Card className="flex flex-wrap items-center justify-between gap-3">
+              <span className="flex flex-wrap items-center gap-3">
+                <span className="text-ink-muted">Last run on this bench:</span>
+                <span className="font-semibold">{latest.data.name}</span>
+                <RunStateBadge state={latest.data.state} />
+              </span>
+              <Link to={`/runs/${latest.data.id}`} className="inline-flex min-h-11 items-center rounded-lg border border-line px-4 text-sm font-semibold">
+                Run details
+              </Link>
+            </Card>
+          )}
           <Card className="p-6">
             <h2 className="mb-4 font-semibold text-ink-muted">Meter readings (no run recording)</h2>
             <Readouts view={view} temperatureUnit={settings.temperatureUnit} energyUnit={settings.energyUnit} />
@@ -62,7 +86,7 @@ export function BenchLivePage({ benchId, canAct, canSetUp = false }: { benchId: 
           {canAct ? (
             <Card className="p-6">
               <h2 className="mb-4 text-lg font-bold">Start a run on {bench.data.name}</h2>
-              <StartRunForm benchId={benchId} onStarted={setStartedRunId} />
+              <StartRunForm benchId={benchId} onStarted={setPinnedRunId} />
             </Card>
           ) : (
             <p className="text-ink-muted">No run on this bench right now.</p>

@@ -66,4 +66,14 @@ describe('cutoff alarm', () => {
     expect(sound.stop).toHaveBeenCalled();
     expect(document.title).toBe('Kneepoint');
   });
+
+  it('keeps saying CUTOFF when the server follows the cutoff with a critical alarm', () => {
+    const { store } = setup();
+    act(() => store.handle(cutoff));
+    act(() =>
+      store.handle({ type: 'event', seq: 4, topic, eventId: 41, event: { type: 'alarm', t: 18_000, level: 'critical', code: 'cutoff', message: 'Pack cut off' } }),
+    );
+    expect(screen.getByRole('alert').textContent).toContain('CUTOFF · Bench 2');
+    expect(document.title).toBe('⚠ CUTOFF · Bench 2');
+  });
 });

@@ -38,7 +38,7 @@ export function CutoffAlarm({ store, label, sound, large = false }: { store: Liv
   useFlashingTitle(title);
   useShortcut('a', acknowledge, alarm !== null);
 
-  const alarmKey = alarm?.key ?? null;
+  const alarmKey = alarm ? alarm.keys.join('|') : null;
   useEffect(() => {
     if (!alarmKey) return;
     player.start();

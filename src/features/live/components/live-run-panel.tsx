@@ -19,10 +19,12 @@ interface Props {
   label: string;
   roomViewPath: string;
   canAct: boolean;
+  /** Offered once the run has ended: back to the bench and its start form. */
+  onClose?: () => void;
 }
 
 /** A run as it happens: numbers, totals, the streaming chart, events, notes and the alarm. */
-export function LiveRunPanel({ runId, label, roomViewPath, canAct }: Props) {
+export function LiveRunPanel({ runId, label, roomViewPath, canAct, onClose }: Props) {
   const store = useLiveStore({ kind: 'run', id: runId });
   const view = useLiveView(store);
   const socketState = useSocketState();
@@ -56,6 +58,11 @@ export function LiveRunPanel({ runId, label, roomViewPath, canAct }: Props) {
           <Link to={`/runs/${runId}`} className="inline-flex min-h-11 items-center rounded-lg border border-line px-4 text-sm font-semibold hover:border-accent">
             Run details
           </Link>
+          {onClose && !live && (
+            <Button variant="secondary" onClick={onClose}>
+              Close run
+            </Button>
+          )}
           {canAct && live && (
             <>
               <Button variant="secondary" onClick={() => stopRun(false)} disabled={stop.isPending}>

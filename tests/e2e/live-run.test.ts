@@ -1,0 +1,71 @@
+import { mkdirSync } from 'node:fs';
+import { resolve } from 'node:path';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { ATTACHMENTS } from '../../server/server.js';
+import { DEMO_ACCOUNTS } from '../../server/db/seed-demo.js';
+import { createTestContext, type TestContext } from '../integration/helpers/index.js';
+import { launchBrowser, type TestBrowser } from './helpers/browser.js';
+import { buildClient } from './helpers/build-client.js';
+import { signInThroughForm } from './helpers/sign-in.js';
+
+const SCREENSHOT_DIR = resolve('.data/screenshots');
+/** The demo scenario's two-hour discharge plays in about 25 s at this speed. */
+const SIMULATOR_SPEED = 300;
+const CUTOFF_WAIT_MS = 75_000;
+const account = (role: string) => DEMO_ACCOUNTS.find((a) => a.role === role)!;
+
+let t: TestContext;
+let browser: TestBrowser;
+let client: { dir: string; remove(): void };
+
+beforeAll(async () => {
+  client = await buildClient();
+  t = await createTestContext({ demo: true, users: false, attachments: ATTACHMENTS, config: { clientDir: client.dir } });
+  browser = await launchBrowser();
+  mkdirSync(SCREENSHOT_DIR, { recursive: true });
+});
+
+afterAll(async () => {
+  await browser?.close();
+  await t?.close();
+  client?.remove();
+});
+
+describe('a run from start to cutoff, through the real server, simulator and /ws', () => {
+  it('admin speeds up the simulated bench, technician arms a run, the room sees the cutoff', { timeout: 150_000 }, async () => {
+    const page = await browser.context.newPage();
+    await signInThroughForm(page, t.url, account('admin').email, t.ctx.config.demoPassword);
+    await page.getByRole('link', { name: /^Bench Bench A/ }).click();
+    await page.getByRole('link', { name: 'Set up bench' }).click();
+    await page.getByLabel('Speed (× real time)').fill(String(SIMULATOR_SPEED));
+    await page.getByRole('button', { name: 'Save bench' }).click();
+    await page.waitForURL(/\/benches\/\d+$/);
+    const benchUrl = page.url();
+
+    await browser.context.clearCookies();
+    await signInThroughForm(page, t.url, account('technician').email, t.ctx.config.demoPassword);
+    await page.goto(benchUrl);
+    const form = page.getByRole('form', { name: 'Start a run' });
+    await form.waitFor();
+    await form.getByLabel('Battery pack').selectOption({ label: 'Kestrel 12 V camper · Kestrel Energy · 4S 50 Ah' });
+    await form.getByLabel('Run name').fill('Kestrel camper 600 W capacity');
+    await form.getByRole('button', { name: 'Arm the run' }).click();
+
+    await page.getByRole('heading', { name: 'Kestrel camper 600 W capacity' }).waitFor();
+    await page.getByTestId('big-energy-out').filter({ hasText: /^[1-9]/ }).waitFor({ timeout: 30_000 });
+    expect(await page.getByTestId('big-volts').textContent()).toMatch(/^1[0-4]\.\d\d$/);
+    await page.screenshot({ path: `${SCREENSHOT_DIR}/live-run-real.png`, fullPage: true });
+
+    await page.getByRole('alert').filter({ hasText: 'CUTOFF' }).waitFor({ timeout: CUTOFF_WAIT_MS });
+    expect(await page.title()).toMatch(/CUTOFF/);
+    await page.screenshot({ path: `${SCREENSHOT_DIR}/live-run-real-cutoff.png`, fullPage: true });
+    await page.getByRole('button', { name: 'Acknowledge (A)' }).click();
+
+    await page.getByRole('link', { name: 'Runs', exact: true }).click();
+    await page.getByRole('link', { name: 'Kestrel camper 600 W capacity' }).click();
+    await page.getByTestId('history-chart').locator('canvas').waitFor();
+    expect(await page.getByText(/Cutoff \(/).count()).toBeGreaterThan(0);
+    await page.screenshot({ path: `${SCREENSHOT_DIR}/run-detail.png`, fullPage: true });
+    await page.close();
+  });
+});
