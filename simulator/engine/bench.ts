@@ -58,8 +58,8 @@ export function createBench(scenario: Scenario, prng: Prng): Bench {
 
   const point = (): OperatingPoint => {
     const step = currentStep();
-    if (!step) return { cellAmps: 0, heaterAmps: 0, amps: 0, volts: pack.sourceVolts() };
-    const sourceVolts = pack.sourceVolts();
+    if (!step) return { cellAmps: 0, heaterAmps: 0, amps: 0, volts: pack.sourceVolts(tempC) };
+    const sourceVolts = pack.sourceVolts(tempC);
     const ohms = pack.ohms(tempC);
     if (step.kind === 'discharge' || step.kind === 'rest') {
       const blocked = bms?.dischargeOpen ?? false;
@@ -76,8 +76,10 @@ export function createBench(scenario: Scenario, prng: Prng): Bench {
   const stopReason = (p: OperatingPoint, trips: SimEvent[], chargeWasOpen: boolean): SimEvent['reason'] | undefined => {
     const step = currentStep();
     if (step.kind === 'discharge' && step.endVolts !== undefined && p.cellAmps > 0 && p.volts < step.endVolts) return 'end-volts';
-    if (step.stopWhen === 'bms-trip' && trips.some((e) => e.kind === 'bms-trip')) return 'bms-trip';
-    if (step.stopWhen === 'bms-release' && trips.some((e) => e.kind === 'bms-release')) return 'bms-release';
+    // Only a switch that stops this step's current counts: a cold-charge flag does not end a discharge.
+    const blocked = step.kind === 'discharge' ? bms?.dischargeOpen : step.kind === 'charge' ? bms?.chargeOpen : (bms?.active.length ?? 0) > 0;
+    if (step.stopWhen === 'bms-trip' && blocked && trips.some((e) => e.kind === 'bms-trip')) return 'bms-trip';
+    if (step.stopWhen === 'bms-release' && !blocked && trips.some((e) => e.kind === 'bms-release')) return 'bms-release';
     // A blocked charger carries no current: that is not a full pack.
     if (step.kind === 'charge' && step.stopWhen === 'charged' && !chargeWasOpen && !bms?.chargeOpen) {
       const termAmps = step.charger.termAmps ?? step.charger.ccAmps * DEFAULT_TERM_FRACTION;

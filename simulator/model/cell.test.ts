@@ -28,18 +28,18 @@ describe('cell model', () => {
     const cell = lfpCell(0.5);
     for (let i = 0; i < 600; i += 1) cell.step(50, 1, 25);
     const tau = CHEMISTRIES.lfp.rcTauSeconds;
-    const atStop = cell.ocv() - cell.rcVolts;
+    const atStop = cell.ocv(25) - cell.rcVolts;
     expect(cell.rcVolts).toBeGreaterThan(0);
     const rested: number[] = [];
     for (let i = 0; i < 5 * tau; i += 1) {
       cell.step(0, 1, 25);
-      rested.push(cell.ocv() - cell.rcVolts);
+      rested.push(cell.ocv(25) - cell.rcVolts);
     }
     for (let i = 1; i < rested.length; i += 1) expect(rested[i]).toBeGreaterThanOrEqual(rested[i - 1]);
     expect(rested[rested.length - 1]).toBeGreaterThan(atStop);
     // After one time constant 1/e of the RC voltage is left (first-order RC response).
     const afterTau = rested[tau - 1] - atStop;
-    const total = cell.ocv() - atStop;
+    const total = cell.ocv(25) - atStop;
     expect(afterTau / total).toBeCloseTo(1 - Math.exp(-1), 2);
   });
 });

@@ -1,5 +1,5 @@
 import { CHEMISTRIES, type Chemistry } from './chemistry.js';
-import { ocvAt } from './ocv.js';
+import { interpolate, ocvAt } from './ocv.js';
 
 const REFERENCE_TEMP_C = 25;
 const SECONDS_PER_HOUR = 3600;
@@ -27,8 +27,8 @@ export interface Cell {
   soc: number;
   /** Voltage across the RC pair (positive while discharging). */
   rcVolts: number;
-  /** Open-circuit volts at the present state of charge. */
-  ocv(): number;
+  /** Open-circuit volts at the present state of charge, with the capacity usable at tempC. */
+  ocv(tempC: number): number;
   /** Ohmic resistance at a temperature and the present state of charge. */
   ohms(tempC: number): number;
   /** RC pair resistance at a temperature. */
@@ -41,6 +41,9 @@ export interface Cell {
 export function createCell(params: CellParams): Cell {
   const chem = CHEMISTRIES[params.chemistry];
   const referenceAmps = params.ratedAh / chem.ratedHours;
+  // A cold cell empties early: depth of discharge counts against the capacity usable at its
+  // temperature, and comes back when it warms (the charge is still there, just not reachable).
+  const usableSoc = (soc: number, tempC: number): number => 1 - (1 - soc) / interpolate(chem.capacityByTemp, tempC);
   const temperatureFactor = (tempC: number): number =>
     Math.min(MAX_COLD_FACTOR, Math.exp(chem.resistancePerKelvin * (REFERENCE_TEMP_C - tempC)));
 
@@ -48,12 +51,13 @@ export function createCell(params: CellParams): Cell {
     params,
     soc: params.initialSoc,
     rcVolts: 0,
-    ocv() {
-      if (cell.soc >= 0) return ocvAt(params.chemistry, cell.soc);
-      return ocvAt(params.chemistry, 0) + OVER_DISCHARGE_SLOPE_VOLTS * cell.soc;
+    ocv(tempC) {
+      const soc = usableSoc(cell.soc, tempC);
+      if (soc >= 0) return ocvAt(params.chemistry, soc);
+      return ocvAt(params.chemistry, 0) + OVER_DISCHARGE_SLOPE_VOLTS * soc;
     },
     ohms(tempC) {
-      const depth = Math.max(0, 1 - cell.soc / LOW_SOC_KNEE);
+      const depth = Math.max(0, 1 - usableSoc(cell.soc, tempC) / LOW_SOC_KNEE);
       const lowSocFactor = 1 + LOW_SOC_GAIN[params.chemistry] * depth * depth;
       return params.ohmicOhms * temperatureFactor(tempC) * lowSocFactor;
     },

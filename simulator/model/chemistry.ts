@@ -23,6 +23,8 @@ export interface ChemistryProfile {
   peukertExponent: number;
   /** Hours of the rate at which the rated capacity is specified (C/20 → 20). */
   ratedHours: number;
+  /** Usable share of the capacity against cell temperature (°C), ascending temperature. */
+  capacityByTemp: ReadonlyArray<readonly [tempC: number, share: number]>;
 }
 
 /*
@@ -46,6 +48,8 @@ const LFP: ChemistryProfile = {
   resistancePerKelvin: 0.035,
   peukertExponent: 1.03,
   ratedHours: 5,
+  // LFP datasheet discharge-temperature curves: roughly 70-80 % at −10 °C and 85-90 % at 0 °C (from memory).
+  capacityByTemp: [[-20, 0.6], [-10, 0.75], [0, 0.87], [25, 1], [45, 1.02]],
 };
 
 /*
@@ -67,6 +71,8 @@ const NMC: ChemistryProfile = {
   resistancePerKelvin: 0.03,
   peukertExponent: 1.05,
   ratedHours: 5,
+  // NMC datasheets: about 80 % at −10 °C and 90 % at 0 °C (from memory).
+  capacityByTemp: [[-20, 0.7], [-10, 0.8], [0, 0.9], [25, 1], [45, 1.01]],
 };
 
 /*
@@ -88,6 +94,8 @@ const LEAD_ACID: ChemistryProfile = {
   resistancePerKelvin: 0.02,
   peukertExponent: 1.25,
   ratedHours: 20,
+  // Lead-acid loses about 1 % of capacity per °C below 25 °C at moderate rates (common practice, from memory).
+  capacityByTemp: [[-20, 0.5], [-10, 0.65], [0, 0.8], [25, 1], [40, 1.08]],
 };
 
 export const CHEMISTRIES: Readonly<Record<Chemistry, ChemistryProfile>> = {

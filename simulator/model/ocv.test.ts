@@ -13,7 +13,7 @@ function chargeToTaper(chemistry: keyof typeof CHEMISTRIES, cvVolts: number): { 
   let maxVolts = 0;
   for (let t = 0; t < 10 * 3600; t += STEP_S) {
     const ohms = cell.ohms(ROOM_C);
-    const source = cell.ocv() - cell.rcVolts;
+    const source = cell.ocv(ROOM_C) - cell.rcVolts;
     const amps = -Math.min(ratedAh / 2, Math.max(0, (cvVolts - source) / ohms));
     maxVolts = Math.max(maxVolts, source - amps * ohms);
     if (-amps < ratedAh / 20) break;
@@ -28,7 +28,7 @@ function capacityToEnd(chemistry: keyof typeof CHEMISTRIES, endVolts: number): n
   const amps = ratedAh / 5;
   const cell = createCell({ chemistry, ratedAh, capacityAh: ratedAh, ohmicOhms: CHEMISTRIES[chemistry].ohmAhProduct / ratedAh, initialSoc: 1 });
   let ah = 0;
-  while (cell.ocv() - cell.rcVolts - amps * cell.ohms(ROOM_C) > endVolts) {
+  while (cell.ocv(ROOM_C) - cell.rcVolts - amps * cell.ohms(ROOM_C) > endVolts) {
     cell.step(amps, STEP_S, ROOM_C);
     ah += (amps * STEP_S) / 3600;
   }

@@ -1,20 +1,24 @@
 import { CHEMISTRIES, type Chemistry } from './chemistry.js';
 
-/** Open-circuit volts of one cell at a state of charge (clamped to 0..1), by linear interpolation. */
-export function ocvAt(chemistry: Chemistry, soc: number): number {
-  const table = CHEMISTRIES[chemistry].ocvTable;
+/** Linear interpolation in a table of ascending x, flat beyond its ends. */
+export function interpolate(table: ReadonlyArray<readonly [number, number]>, x: number): number {
   const first = table[0];
   const last = table[table.length - 1];
-  if (soc <= first[0]) return first[1];
-  if (soc >= last[0]) return last[1];
+  if (x <= first[0]) return first[1];
+  if (x >= last[0]) return last[1];
   for (let i = 1; i < table.length; i += 1) {
-    const [socHigh, voltsHigh] = table[i];
-    if (soc <= socHigh) {
-      const [socLow, voltsLow] = table[i - 1];
-      return voltsLow + ((voltsHigh - voltsLow) * (soc - socLow)) / (socHigh - socLow);
+    const [xHigh, yHigh] = table[i];
+    if (x <= xHigh) {
+      const [xLow, yLow] = table[i - 1];
+      return yLow + ((yHigh - yLow) * (x - xLow)) / (xHigh - xLow);
     }
   }
   return last[1];
+}
+
+/** Open-circuit volts of one cell at a state of charge (clamped to 0..1), by linear interpolation. */
+export function ocvAt(chemistry: Chemistry, soc: number): number {
+  return interpolate(CHEMISTRIES[chemistry].ocvTable, soc);
 }
 
 /**

@@ -11,7 +11,7 @@ export interface CellSpec {
 export interface Pack {
   readonly cells: readonly Cell[];
   /** Sum of the cells' open-circuit volts minus their RC voltages: the source behind the resistance. */
-  sourceVolts(): number;
+  sourceVolts(tempC: number): number;
   /** Sum of the cells' ohmic resistances at a temperature. */
   ohms(tempC: number): number;
   /** Each cell's terminal volts while the pack carries amps. */
@@ -27,9 +27,9 @@ export function createPack(chemistry: Chemistry, ratedAh: number, specs: readonl
   );
   return {
     cells,
-    sourceVolts: () => cells.reduce((sum, cell) => sum + cell.ocv() - cell.rcVolts, 0),
+    sourceVolts: (tempC) => cells.reduce((sum, cell) => sum + cell.ocv(tempC) - cell.rcVolts, 0),
     ohms: (tempC) => cells.reduce((sum, cell) => sum + cell.ohms(tempC), 0),
-    cellVolts: (amps, tempC) => cells.map((cell) => cell.ocv() - cell.rcVolts - amps * cell.ohms(tempC)),
+    cellVolts: (amps, tempC) => cells.map((cell) => cell.ocv(tempC) - cell.rcVolts - amps * cell.ohms(tempC)),
     step(amps, dtS, tempC) {
       let heatWatts = 0;
       for (const cell of cells) {
