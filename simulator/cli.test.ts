@@ -1,4 +1,6 @@
-import { spawnSync } from 'node:child_process';
+import { spawn, spawnSync } from 'node:child_process';
+import { existsSync } from 'node:fs';
+import { ReadlineParser, SerialPort } from 'serialport';
 import { createHash } from 'node:crypto';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
@@ -40,5 +42,28 @@ describe('simulator CLI', { timeout: 90_000 }, () => {
     const unknown = run('--scenario', 'no-such-pack');
     expect(unknown.status).toBe(1);
     expect(unknown.stderr).toMatch(/Unknown scenario "no-such-pack"/);
+  });
+
+  it('serves a meter on a pseudo-terminal until stopped, then removes the link', async () => {
+    const linkPath = `/tmp/kneepoint-sim-cli-${process.pid}`;
+    const child = spawn(TSX, ['simulator/cli.ts', '--scenario', 'lfp-12v-weak-cell', '--format', 'jsonl', '--speed', '20', '--out', linkPath], { cwd: ROOT, stdio: ['ignore', 'ignore', 'pipe'] });
+    const exited = new Promise<number | null>((done) => child.once('exit', (code) => done(code)));
+    try {
+      const deadline = Date.now() + 30_000;
+      while (!existsSync(linkPath) && Date.now() < deadline) await new Promise((r) => setTimeout(r, 50));
+      const port = new SerialPort({ path: linkPath, baudRate: 115200 });
+      const lines: string[] = [];
+      port.pipe(new ReadlineParser({ delimiter: '\n' })).on('data', (l: string) => lines.push(l));
+      while (lines.length < 6 && Date.now() < deadline) await new Promise((r) => setTimeout(r, 20));
+      port.close();
+      // The port opened mid-stream, so its first line may be a tail: skip it.
+      const ts = lines.slice(1).map((l) => (JSON.parse(l) as { t: number }).t);
+      expect(ts.length).toBeGreaterThanOrEqual(5);
+      for (let i = 1; i < ts.length; i += 1) expect(ts[i] - ts[i - 1]).toBe(1);
+    } finally {
+      child.kill('SIGTERM');
+    }
+    expect(await exited).toBe(0);
+    expect(existsSync(linkPath)).toBe(false);
   });
 });
