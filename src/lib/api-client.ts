@@ -60,6 +60,7 @@ async function toApiError(res: Response): Promise<ApiError> {
 
 export interface ApiRequest<T> {
   method?: 'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE';
+  /** JSON body, or a FormData for multipart uploads (the browser sets its boundary). */
   body?: unknown;
   /** Validates the answer; the client never trusts a shape it has not checked. */
   schema?: z.ZodType<T>;
@@ -68,13 +69,14 @@ export interface ApiRequest<T> {
 
 async function send(path: string, method: string, body: unknown, signal?: AbortSignal): Promise<Response> {
   const headers: Record<string, string> = { Accept: 'application/json' };
-  if (body !== undefined) headers['Content-Type'] = 'application/json';
+  const multipart = typeof FormData !== 'undefined' && body instanceof FormData;
+  if (body !== undefined && !multipart) headers['Content-Type'] = 'application/json';
   if (MUTATING_METHODS.has(method)) headers[CSRF_HEADER] = csrfToken ?? (await fetchCsrfToken());
   return fetch(path, {
     method,
     headers,
     credentials: 'same-origin',
-    body: body === undefined ? undefined : JSON.stringify(body),
+    body: body === undefined ? undefined : multipart ? (body as FormData) : JSON.stringify(body),
     signal,
   });
 }

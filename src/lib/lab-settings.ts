@@ -20,7 +20,7 @@ export function useLabSettings(): LabSettings {
   return query.data ?? DEFAULTS;
 }
 
-/** A date-time in the lab's time zone, e.g. "2026-12-01 22:14". */
+/** A date-time in the lab's time zone, with the zone, e.g. "2026-12-01 22:14 UTC". */
 export function formatLabTime(iso: string | null | undefined, timeZone: string): string {
   if (!iso) return '—';
   const date = new Date(iso);
@@ -33,6 +33,7 @@ export function formatLabTime(iso: string | null | undefined, timeZone: string):
     hour: '2-digit',
     minute: '2-digit',
     hour12: false,
+    timeZoneName: 'short',
   })
     .format(date)
     .replace(',', '');

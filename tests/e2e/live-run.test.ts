@@ -62,10 +62,17 @@ describe('a run from start to cutoff, through the real server, simulator and /ws
     await page.getByRole('button', { name: 'Acknowledge (A)' }).click();
 
     await page.getByRole('link', { name: 'Runs', exact: true }).click();
+    await page.getByRole('link', { name: 'Kestrel camper 600 W capacity' }).waitFor();
+    await page.screenshot({ path: `${SCREENSHOT_DIR}/runs-list.png` });
     await page.getByRole('link', { name: 'Kestrel camper 600 W capacity' }).click();
     await page.getByTestId('history-chart').locator('canvas').waitFor();
     expect(await page.getByText(/Cutoff \(/).count()).toBeGreaterThan(0);
     await page.screenshot({ path: `${SCREENSHOT_DIR}/run-detail.png`, fullPage: true });
+    // The light "report" theme, as a client would print it.
+    await page.getByRole('button', { name: /Switch to light/ }).click();
+    expect(await page.evaluate(() => document.documentElement.classList.contains('dark'))).toBe(false);
+    await page.getByTestId('history-chart').locator('canvas').waitFor();
+    await page.screenshot({ path: `${SCREENSHOT_DIR}/run-detail-light.png`, fullPage: true });
     await page.close();
   });
 });

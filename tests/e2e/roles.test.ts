@@ -57,6 +57,7 @@ describe('each demo role signs in and sees what it may do', () => {
     await page.getByLabel('Password').fill('not-the-password');
     await page.getByRole('button', { name: 'Sign in' }).click();
     await page.getByText('That e-mail and password do not match an account.').waitFor();
+    await page.screenshot({ path: `${SCREENSHOT_DIR}/sign-in-error.png` });
     await page.close();
   });
 

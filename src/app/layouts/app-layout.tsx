@@ -20,7 +20,7 @@ export function AppLayout() {
 
   return (
     <div className="flex min-h-screen flex-col md:flex-row">
-      <aside className="flex shrink-0 flex-col gap-4 border-b border-line bg-surface-sunken p-4 md:w-60 md:border-r md:border-b-0">
+      <aside className="flex shrink-0 print:hidden flex-col gap-4 border-b border-line bg-surface-sunken p-4 md:w-60 md:border-r md:border-b-0">
         <div className="flex items-center gap-3">
           <Logo />
           <span className="text-lg font-bold tracking-tight">Kneepoint</span>
@@ -62,7 +62,7 @@ export function AppLayout() {
           </div>
         </div>
       </aside>
-      <main className="min-w-0 flex-1 p-4 md:p-8">
+      <main className="min-w-0 flex-1 p-4 md:p-8 print:p-0">
         <RouteErrorBoundary>
           <Outlet />
         </RouteErrorBoundary>

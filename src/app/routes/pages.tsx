@@ -1,3 +1,4 @@
+import { useState } from 'react';
 import { Link, useParams } from 'react-router-dom';
 import { useMe } from '../../features/auth/api/get-me';
 import { BatteriesPage } from '../../features/batteries/components/batteries-page';
@@ -7,9 +8,11 @@ import { BenchLivePage } from '../../features/live/components/bench-live-page';
 import { RoomView } from '../../features/live/components/room-view';
 import { RunDetail } from '../../features/runs/components/run-detail';
 import { RunsTable } from '../../features/runs/components/runs-table';
+import { ImportRunForm } from '../../features/runs/components/import-run-form';
 import { SettingsForm } from '../../features/settings/components/settings-form';
 import { UsersPage } from '../../features/users/components/users-page';
-import { PageHeader } from '../../components/ui/card';
+import { Card, PageHeader } from '../../components/ui/card';
+import { Button } from '../../components/ui/button';
 import { hasRole } from '../../lib/roles';
 import { RequireRole } from '../require-auth';
 
@@ -74,11 +77,23 @@ export function RoomRoute() {
   return <RoomView key={benchId} benchId={benchId} />;
 }
 
-/** The run archive. */
+/** The run archive; technicians may import logs from other loggers. */
 export function RunsRoute() {
+  const me = useMe();
+  const [importing, setImporting] = useState(false);
+  const canImport = hasRole(me.data?.role, 'technician');
   return (
     <>
-      <PageHeader title="Runs" subtitle="Every run recorded or imported, searchable." />
+      <PageHeader
+        title="Runs"
+        subtitle="Every run recorded or imported, searchable."
+        actions={canImport && !importing ? <Button onClick={() => setImporting(true)}>Import a CSV log</Button> : undefined}
+      />
+      {importing && (
+        <Card className="mb-6 p-6">
+          <ImportRunForm onDone={() => setImporting(false)} />
+        </Card>
+      )}
       <RunsTable />
     </>
   );
@@ -86,9 +101,10 @@ export function RunsRoute() {
 
 /** One recorded run. */
 export function RunRoute() {
+  const me = useMe();
   const runId = useIdParam('runId');
   if (Number.isNaN(runId)) return <NotFound />;
-  return <RunDetail key={runId} runId={runId} />;
+  return <RunDetail key={runId} runId={runId} canEdit={hasRole(me.data?.role, 'technician')} />;
 }
 
 /** Battery packs. */

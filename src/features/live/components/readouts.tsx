@@ -3,6 +3,10 @@ import type { LiveView } from '../../../lib/live-store';
 import { SIGNAL_COLORS } from '../../../lib/palette';
 import { formatAmps, formatCharge, formatElapsedClock, formatEnergy, formatTemperature, formatVolts, formatWatts } from '../../../lib/units';
 
+/** Below these, a reading is meter noise around zero, not a charge. */
+const CHARGING_BELOW_AMPS = -0.1;
+const SHOW_CHARGE_FROM_WH = 0.1;
+
 interface Props {
   view: LiveView;
   temperatureUnit: 'C' | 'F';
@@ -13,7 +17,7 @@ interface Props {
 /** The instantaneous numbers and the running totals, every one with its unit. */
 export function Readouts({ view, temperatureUnit, energyUnit, size = 'lg' }: Props) {
   const tempUnit = temperatureUnit === 'F' ? '°F' : '°C';
-  const charging = (view.amps ?? 0) < 0;
+  const charging = (view.amps ?? 0) < CHARGING_BELOW_AMPS;
   return (
     <div className="flex flex-col gap-6">
       <div className={`grid gap-6 ${size === 'room' ? 'grid-cols-2' : 'grid-cols-2 lg:grid-cols-4'}`}>
@@ -33,7 +37,7 @@ export function Readouts({ view, temperatureUnit, energyUnit, size = 'lg' }: Pro
         <BigNumber label="Charge out" text={formatCharge(view.dischargeAh)} unit="Ah" size={size === 'room' ? 'room-small' : 'md'} />
         <BigNumber label="Run time" text={view.t === null ? '—' : `${formatElapsedClock(view.t)} h:m:s`} unit="h:m:s" size={size === 'room' ? 'room-small' : 'md'} />
       </div>
-      {(view.chargeWh ?? 0) > 0 && (
+      {(view.chargeWh ?? 0) >= SHOW_CHARGE_FROM_WH && (
         <p className="text-sm text-ink-muted">
           Charged in: <span className="num">{formatEnergy(view.chargeWh, energyUnit)}</span>, <span className="num">{formatCharge(view.chargeAh)}</span>
         </p>

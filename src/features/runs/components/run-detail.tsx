@@ -13,6 +13,7 @@ import { RUN_STATE_COLORS, SIGNAL_COLORS } from '../../../lib/palette';
 import { formatElapsedClock } from '../../../lib/units';
 import { useRun, useRunEvents } from '../api/get-run';
 import { useRunSamples, type SampleWindow } from '../api/get-run-samples';
+import { RunLabelEditor } from './run-label-editor';
 import { RunSummaryPanel } from './run-summary-panel';
 
 /** About one bucket per horizontal pixel of a wide chart. */
@@ -27,12 +28,13 @@ function markerFor(e: RunEvent): ChartMarker | null {
 }
 
 /** A recorded run: verdict, figures, the zoomable history chart, events and exports. */
-export function RunDetail({ runId }: { runId: number }) {
+export function RunDetail({ runId, canEdit = false }: { runId: number; canEdit?: boolean }) {
   const run = useRun(runId);
   const events = useRunEvents(runId);
   const settings = useLabSettings();
   const [sampleWindow, setWindow] = useState<SampleWindow>(FULL_WINDOW);
   const samples = useRunSamples(runId, sampleWindow, CHART_MAX_POINTS);
+  const [editing, setEditing] = useState(false);
   // Stable between renders so the chart is not rebuilt for nothing.
   const markers = useMemo(
     () => (events.data ?? []).map((e) => markerFor(e.event)).filter((m): m is ChartMarker => m !== null),
@@ -60,7 +62,15 @@ export function RunDetail({ runId }: { runId: number }) {
           </span>
         }
         actions={
-          <>
+          <div className="flex flex-wrap gap-2 print:hidden">
+            {canEdit && !editing && (
+              <Button variant="secondary" onClick={() => setEditing(true)}>
+                Rename / tag
+              </Button>
+            )}
+            <Button variant="secondary" onClick={() => window.print()}>
+              Print report
+            </Button>
             {live && r.benchId !== null && (
               <Link to={`/benches/${r.benchId}`} className="inline-flex min-h-11 items-center rounded-lg bg-accent px-4 text-sm font-semibold text-accent-ink">
                 Watch live
@@ -72,10 +82,15 @@ export function RunDetail({ runId }: { runId: number }) {
             <a href={`/api/runs/${runId}/export.json`} className="inline-flex min-h-11 items-center rounded-lg border border-line px-4 text-sm font-semibold" download>
               Export JSON
             </a>
-          </>
+          </div>
         }
       />
       <div className="flex flex-col gap-4">
+        {editing && (
+          <Card className="print:hidden">
+            <RunLabelEditor run={r} onDone={() => setEditing(false)} />
+          </Card>
+        )}
         {r.summary ? (
           <Card className="p-6">
             <RunSummaryPanel summary={r.summary} temperatureUnit={settings.temperatureUnit} energyUnit={settings.energyUnit} />
@@ -94,7 +109,7 @@ export function RunDetail({ runId }: { runId: number }) {
                 </span>
               )}
             </h2>
-            <div className="flex items-center gap-2 text-sm text-ink-muted">
+            <div className="flex items-center gap-2 text-sm text-ink-muted print:hidden">
               <span>Drag across the chart to zoom.</span>
               <Button variant="secondary" disabled={!zoomed} onClick={() => setWindow(FULL_WINDOW)}>
                 Whole run

@@ -39,7 +39,7 @@ export function RunSummaryPanel({ summary, temperatureUnit, energyUnit }: { summ
         <Figure label="Energy density" value={unit(summary.whPerKg, 'Wh/kg', 1)} />
         {summary.correctedAh25C !== null && <Figure label="Corrected to 25 °C" value={formatCharge(summary.correctedAh25C)} />}
         {summary.roundTripEfficiency !== null && <Figure label="Round trip" value={formatPercent(summary.roundTripEfficiency * 100)} />}
-        {summary.costPerKWh !== null && <Figure label="Cost per kWh" value={formatNumber(summary.costPerKWh, 2)} />}
+        {summary.costPerKWh !== null && <Figure label="Price per kWh (pack's currency)" value={formatNumber(summary.costPerKWh, 2)} />}
         <Figure label="Gaps" value={`${summary.gaps} (${formatDuration(summary.gapSeconds)})`} />
       </dl>
     </div>

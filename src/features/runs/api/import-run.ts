@@ -1,0 +1,30 @@
+import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { ImportResponseSchema } from '../../../../shared/schemas/api-runs';
+import { api } from '../../../lib/api-client';
+
+export interface ImportRunInput {
+  file: File;
+  name: string;
+  batteryId?: number;
+  endVolts?: number;
+  currentSign: 'discharge-positive' | 'discharge-negative' | 'auto';
+  tags?: string;
+}
+
+/** POST /api/runs/import (technician): a CSV log from another logger becomes a run. */
+export function importRun(input: ImportRunInput) {
+  const form = new FormData();
+  form.set('file', input.file);
+  form.set('name', input.name);
+  form.set('currentSign', input.currentSign);
+  if (input.batteryId !== undefined) form.set('batteryId', String(input.batteryId));
+  if (input.endVolts !== undefined) form.set('endVolts', String(input.endVolts));
+  if (input.tags) form.set('tags', input.tags);
+  return api('/api/runs/import', { method: 'POST', body: form, schema: ImportResponseSchema });
+}
+
+/** Mutation for the import form. */
+export function useImportRun() {
+  const queryClient = useQueryClient();
+  return useMutation({ mutationFn: importRun, onSuccess: () => queryClient.invalidateQueries({ queryKey: ['runs'] }) });
+}

@@ -1,0 +1,16 @@
+import { useMutation, useQueryClient } from '@tanstack/react-query';
+import { RunResponseSchema } from '../../../../shared/schemas/api-runs';
+import { api } from '../../../lib/api-client';
+
+/** PATCH /api/runs/:id (technician): rename or retag a run. */
+export function usePatchRun(runId: number) {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: (patch: { name?: string; tags?: string[] }) =>
+      api(`/api/runs/${runId}`, { method: 'PATCH', body: patch, schema: RunResponseSchema }).then((b) => b.run),
+    onSuccess: (run) => {
+      queryClient.setQueryData(['runs', runId], run);
+      return queryClient.invalidateQueries({ queryKey: ['runs', 'list'] });
+    },
+  });
+}

@@ -1,0 +1,48 @@
+import { screen, waitFor } from '@testing-library/react';
+import userEvent from '@testing-library/user-event';
+import { describe, expect, it } from 'vitest';
+import { demoUser, renderAt, stubApi } from '../../../testing/render-app';
+
+const emptyRuns = { status: 200, body: { runs: [], total: 0 } };
+
+describe('runs page', () => {
+  it('offers no import to a viewer', async () => {
+    stubApi(demoUser('viewer'), (url) => (url.startsWith('/api/runs?') ? emptyRuns : undefined));
+    renderAt('/runs');
+    expect(await screen.findByText('No runs match.')).toBeTruthy();
+    expect(screen.queryByRole('button', { name: 'Import a CSV log' })).toBeNull();
+  });
+
+  it('uploads a CSV log as multipart with the CSRF header, then shows its error clearly', async () => {
+    const { calls } = stubApi(demoUser('technician'), (url, init) => {
+      if (url.startsWith('/api/runs?')) return emptyRuns;
+      if (url === '/api/batteries') return { status: 200, body: { batteries: [] } };
+      if (url === '/api/runs/import' && init?.method === 'POST') return { status: 400, body: { error: { message: 'Line 3: volts is not a number' } } };
+      return undefined;
+    });
+    renderAt('/runs');
+    await userEvent.click(await screen.findByRole('button', { name: 'Import a CSV log' }));
+    const csv = new File(['time_s,volts,amps\n0,13.2,5\n1,abc,5\n'], 'hollis-log.csv', { type: 'text/csv' });
+    await userEvent.upload(screen.getByLabelText(/CSV file/), csv);
+    await userEvent.type(screen.getByLabelText('Run name'), 'Hollis standby log');
+    await userEvent.click(screen.getByRole('button', { name: 'Import' }));
+    expect((await screen.findByRole('alert')).textContent).toBe('Line 3: volts is not a number');
+    const upload = calls.find((c) => c.url === '/api/runs/import');
+    const body = upload?.init?.body;
+    expect(body).toBeInstanceOf(FormData);
+    expect((body as FormData).get('name')).toBe('Hollis standby log');
+    expect(((body as FormData).get('file') as File).name).toBe('hollis-log.csv');
+    const headers = new Headers(upload?.init?.headers);
+    expect(headers.get('X-CSRF-Token')).toBe('test-token');
+    expect(headers.get('Content-Type')).toBeNull();
+  });
+
+  it('asks for a file before sending anything', async () => {
+    const { calls } = stubApi(demoUser('technician'), (url) => (url.startsWith('/api/runs?') ? emptyRuns : url === '/api/batteries' ? { status: 200, body: { batteries: [] } } : undefined));
+    renderAt('/runs');
+    await userEvent.click(await screen.findByRole('button', { name: 'Import a CSV log' }));
+    await userEvent.click(screen.getByRole('button', { name: 'Import' }));
+    await waitFor(() => expect(screen.getByRole('alert').textContent).toBe('Choose a CSV file.'));
+    expect(calls.some((c) => c.url === '/api/runs/import')).toBe(false);
+  });
+});

@@ -1,0 +1,83 @@
+import { useState, type FormEvent } from 'react';
+import { useNavigate } from 'react-router-dom';
+import { Button } from '../../../components/ui/button';
+import { SelectField, TextField } from '../../../components/ui/field';
+import { formatCharge, formatDuration, formatEnergy } from '../../../lib/units';
+import { useBatteryChoices } from '../api/get-batteries';
+import { useImportRun, type ImportRunInput } from '../api/import-run';
+
+const SIGN_OPTIONS = [
+  { value: 'auto', label: 'Work it out (the sign most samples have is discharge)' },
+  { value: 'discharge-positive', label: 'Positive amps = discharge' },
+  { value: 'discharge-negative', label: 'Negative amps = discharge' },
+] as const;
+
+/** Turns a CSV log from another logger into a run (technicians). */
+export function ImportRunForm({ onDone }: { onDone: () => void }) {
+  const batteries = useBatteryChoices(true);
+  const importRun = useImportRun();
+  const navigate = useNavigate();
+  const [file, setFile] = useState<File | null>(null);
+  const [name, setName] = useState('');
+  const [batteryId, setBatteryId] = useState('');
+  const [endVolts, setEndVolts] = useState('');
+  const [currentSign, setCurrentSign] = useState<ImportRunInput['currentSign']>('auto');
+  const [error, setError] = useState<string | null>(null);
+
+  const submit = (e: FormEvent) => {
+    e.preventDefault();
+    if (!file) return setError('Choose a CSV file.');
+    if (!name.trim()) return setError('Give the run a name.');
+    if (endVolts && !(Number(endVolts) > 0)) return setError('The end voltage must be a number above 0 V.');
+    setError(null);
+    importRun.mutate(
+      { file, name: name.trim(), currentSign, batteryId: batteryId ? Number(batteryId) : undefined, endVolts: endVolts ? Number(endVolts) : undefined },
+      { onSuccess: (r) => navigate(`/runs/${r.run.id}`) },
+    );
+  };
+
+  const message = error ?? (importRun.error instanceof Error ? importRun.error.message : null);
+  return (
+    <form onSubmit={submit} noValidate aria-label="Import a logged run" className="grid gap-4 md:grid-cols-2">
+      <div className="flex flex-col gap-1">
+        <label htmlFor="import-file" className="text-sm font-medium text-ink-muted">
+          CSV file (header row: time, volts, amps, temperature)
+        </label>
+        <input
+          id="import-file"
+          type="file"
+          accept=".csv,text/csv"
+          onChange={(e) => setFile(e.target.files?.[0] ?? null)}
+          className="min-h-11 rounded-lg border border-line bg-surface-sunken p-2 text-ink"
+        />
+      </div>
+      <TextField label="Run name" value={name} onChange={(e) => setName(e.target.value)} placeholder="Hollis standby 12 V, 2025 acceptance log" />
+      <SelectField
+        label="Battery pack (optional)"
+        value={batteryId}
+        onChange={(e) => setBatteryId(e.target.value)}
+        options={[{ value: '', label: 'Not linked to a pack' }, ...(batteries.data ?? []).map((b) => ({ value: String(b.id), label: `${b.label} · ${b.brand}` }))]}
+      />
+      <TextField label="End voltage of the pack (V, optional)" inputMode="decimal" value={endVolts} onChange={(e) => setEndVolts(e.target.value)} />
+      <SelectField label="Current sign in the file" value={currentSign} onChange={(e) => setCurrentSign(e.target.value as ImportRunInput['currentSign'])} options={SIGN_OPTIONS} />
+      {message && (
+        <p role="alert" className="text-sm font-medium text-state-cutoff md:col-span-2">
+          {message}
+        </p>
+      )}
+      {importRun.data && (
+        <p role="status" className="num text-sm md:col-span-2">
+          {formatEnergy(importRun.data.summary.energyWh)} · {formatCharge(importRun.data.summary.chargeAh)} · {formatDuration(importRun.data.summary.durationS)}
+        </p>
+      )}
+      <div className="flex gap-2 md:col-span-2">
+        <Button type="submit" disabled={importRun.isPending}>
+          {importRun.isPending ? 'Importing…' : 'Import'}
+        </Button>
+        <Button variant="ghost" onClick={onDone}>
+          Cancel
+        </Button>
+      </div>
+    </form>
+  );
+}
