@@ -33,21 +33,20 @@ export function measure(truth: TrueReading, seq: number, config: MeterConfig, pr
   };
   const volts = noisy(truth.volts, config.voltsNoise, config.voltsStep);
   const amps = noisy(truth.amps, config.ampsNoise, config.ampsStep);
-  const cell = noisy(truth.cellTempC, config.tempNoise, config.tempStep);
-  const ambient = noisy(truth.ambientC, config.tempNoise, config.tempStep);
+  const cell = noisy(truth.cellTempC, config.tempNoise, config.tempStep) + 0;
+  const ambient = noisy(truth.ambientC, config.tempNoise, config.tempStep) + 0;
   const heater = noisy(truth.heaterAmps ?? 0, config.ampsNoise, config.ampsStep);
+  // Rounding a small negative value leaves -0; JSON writes it as 0, so +0 makes a frame equal
+  // to its own round trip through the wire.
   const frame: Frame = {
     t: truth.t,
-    volts,
-    amps,
+    volts: volts + 0,
+    amps: amps + 0,
     temps: { cell, ambient },
     clock: 'device',
     seq,
   };
-  // Object.is(-0) would print "-0" in JSON: normalise negative zero from rounding.
   if (truth.heaterAmps !== undefined) frame.aux = { [HEATER_AMPS_CHANNEL]: Math.max(0, heater) + 0 };
-  frame.volts += 0;
-  frame.amps += 0;
   return frame;
 }
 
