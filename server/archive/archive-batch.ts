@@ -1,7 +1,7 @@
 import type { RunEvent } from '../../shared/schemas/run-event.js';
 import type { RunState } from '../../shared/schemas/run.js';
 import type { RunSummary } from '../../shared/schemas/run-summary.js';
-import type { BlockLayout } from './column-block.js';
+import type { EncodedChunk } from './chunk-encode.js';
 
 /** Fields of a run row the recorder updates together with each batch of readings. */
 export interface RunPatch {
@@ -21,7 +21,7 @@ export interface RunPatch {
  */
 export interface ArchiveBatch {
   runId: number;
-  block: { firstSeq: number; count: number; firstElapsed: number; lastElapsed: number; layout: BlockLayout; data: Buffer } | null;
+  block: EncodedChunk | null;
   events: { eventSeq: number; event: RunEvent }[];
   patch: RunPatch;
 }
@@ -30,5 +30,5 @@ export interface ArchiveBatch {
 export function batchBytes(batch: ArchiveBatch): number {
   const EVENT_BYTES = 512;
   const OVERHEAD_BYTES = 1024;
-  return (batch.block?.data.length ?? 0) + batch.events.length * EVENT_BYTES + (batch.patch.pipelineState?.length ?? 0) + OVERHEAD_BYTES;
+  return (batch.block ? batch.block.data.length + batch.block.stats.length : 0) + batch.events.length * EVENT_BYTES + (batch.patch.pipelineState?.length ?? 0) + OVERHEAD_BYTES;
 }

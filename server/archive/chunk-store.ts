@@ -1,6 +1,8 @@
 import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
 import type { ArchiveBatch } from './archive-batch.js';
-import { decodeBlock, encodeBlock, type BlockLayout, type Columns } from './column-block.js';
+import { encodeChunk } from './chunk-encode.js';
+import { computeStats } from './chunk-stats.js';
+import { decodeBlock, type BlockLayout, type Columns } from './column-block.js';
 import { concatColumns } from './reading-columns.js';
 
 /** Small chunks are merged once this many readings sit in them (about 7 minutes at 10 Hz). */
@@ -21,8 +23,8 @@ export async function writeBatch(sequelize: Sequelize, batch: ArchiveBatch): Pro
     const b = batch.block;
     if (b) {
       await sequelize.query(
-        'INSERT IGNORE INTO run_sample_chunks (runId, firstSeq, count, firstElapsed, lastElapsed, layout, data) VALUES (?, ?, ?, ?, ?, ?, ?)',
-        { replacements: [batch.runId, b.firstSeq, b.count, b.firstElapsed, b.lastElapsed, JSON.stringify(b.layout), b.data], transaction },
+        'INSERT IGNORE INTO run_sample_chunks (runId, firstSeq, count, firstElapsed, lastElapsed, layout, data, statsLayout, stats) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)',
+        { replacements: [batch.runId, b.firstSeq, b.count, b.firstElapsed, b.lastElapsed, JSON.stringify(b.layout), b.data, JSON.stringify(b.statsLayout), b.stats], transaction },
       );
     }
     for (const { eventSeq, event } of batch.events) {
@@ -88,18 +90,17 @@ export async function compactRun(sequelize: Sequelize, runId: number, all = fals
 }
 
 async function mergeGroup(sequelize: Sequelize, runId: number, group: ChunkRow[]): Promise<void> {
-  const cols = concatColumns(group.map((r) => decodeBlock(JSON.parse(r.layout) as BlockLayout, r.data)));
-  const { layout, data } = encodeBlock(cols);
   const first = group[0]!;
   const last = group[group.length - 1]!;
+  const c = encodeChunk(first.firstSeq, concatColumns(group.map((r) => decodeBlock(JSON.parse(r.layout) as BlockLayout, r.data))));
   await sequelize.transaction(async (transaction) => {
     await sequelize.query('DELETE FROM run_sample_chunks WHERE runId = ? AND firstSeq >= ? AND firstSeq <= ?', {
       replacements: [runId, first.firstSeq, last.firstSeq],
       transaction,
     });
     await sequelize.query(
-      'INSERT INTO run_sample_chunks (runId, firstSeq, count, firstElapsed, lastElapsed, layout, data) VALUES (?, ?, ?, ?, ?, ?, ?)',
-      { replacements: [runId, first.firstSeq, layout.count, first.firstElapsed, last.lastElapsed, JSON.stringify(layout), data], transaction },
+      'INSERT INTO run_sample_chunks (runId, firstSeq, count, firstElapsed, lastElapsed, layout, data, statsLayout, stats) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)',
+      { replacements: [runId, c.firstSeq, c.count, c.firstElapsed, c.lastElapsed, JSON.stringify(c.layout), c.data, JSON.stringify(c.statsLayout), c.stats], transaction },
     );
   });
 }
@@ -122,6 +123,28 @@ export async function readChunks(
     const names = wanted ? layout.columns.map((c) => c.name).filter((n) => wanted.includes(n) || (wanted.includes('temp:*') && n.startsWith('temp:'))) : undefined;
     return decodeBlock(layout, r.data, names);
   });
+}
+
+/** Decoded min/max groups (chunk-stats.ts) of the chunks overlapping [from, to]; a chunk without them is decoded from its readings. */
+export async function readStats(sequelize: Sequelize, runId: number, from: number, to: number): Promise<Columns[]> {
+  // Only the small stats column is read: selecting `data` at all would pull every reading off disk.
+  const rows = await sequelize.query<{ firstSeq: number; statsLayout: string | null; stats: Buffer | null }>(
+    'SELECT firstSeq, statsLayout, stats FROM run_sample_chunks WHERE runId = ? AND lastElapsed >= ? AND firstElapsed <= ? ORDER BY firstSeq',
+    { replacements: [runId, from, to], type: QueryTypes.SELECT },
+  );
+  const out: Columns[] = [];
+  for (const r of rows) {
+    if (r.stats && r.statsLayout) {
+      out.push(decodeBlock(JSON.parse(r.statsLayout) as BlockLayout, r.stats));
+      continue;
+    }
+    const [raw] = await sequelize.query<{ layout: string; data: Buffer }>('SELECT layout, data FROM run_sample_chunks WHERE runId = ? AND firstSeq = ?', {
+      replacements: [runId, r.firstSeq],
+      type: QueryTypes.SELECT,
+    });
+    if (raw) out.push(computeStats(decodeBlock(JSON.parse(raw.layout) as BlockLayout, raw.data)));
+  }
+  return out;
 }
 
 /** Calls `each` with every chunk of a run in order, one at a time (bounded memory for export). */

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { reduceSamples } from './sample-reducer.js';
+import { reduceSamples, reduceStats } from './sample-reducer.js';
 
 const cols = (elapsed: number[], volts: number[], amps?: number[]) => ({
   elapsed: Float64Array.from(elapsed),
@@ -46,5 +46,26 @@ describe('reduceSamples', () => {
     const r = reduceSamples([p], 0, 3, 2);
     expect(r.temps.cell!.min).toEqual([20, 22]);
     expect(r.temps.cell!.max).toEqual([25, 22]);
+  });
+});
+
+describe('reduceStats', () => {
+  it('gives the same extremes as the reading-by-reading reducer, from 64-reading groups', async () => {
+    const { computeStats } = await import('./chunk-stats.js');
+    const n = 20_000;
+    const elapsed = Float64Array.from({ length: n }, (_, i) => i / 10);
+    const volts = Float64Array.from({ length: n }, (_, i) => 13 - i * 1e-4 + Math.sin(i) * 0.01);
+    volts[12_345] = 2.2; // a one-reading collapse
+    const amps = Float64Array.from({ length: n }, () => 4);
+    const part = { elapsed, volts, amps, 'temp:cell': Float64Array.from({ length: n }, (_, i) => 20 + i / 1000) };
+    const exact = reduceSamples([part], 0, elapsed[n - 1]!, 50);
+    const fast = reduceStats([computeStats(part)], 0, elapsed[n - 1]!, 50);
+    expect(fast.readingsInWindow).toBe(n);
+    const min = (c: (number | null)[]) => Math.min(...(c.filter((v) => v !== null) as number[]));
+    expect(min(fast.volts.min)).toBe(2.2);
+    expect(min(fast.volts.min)).toBe(min(exact.volts.min));
+    expect(Math.max(...(fast.temps.cell!.max as number[]))).toBe(Math.max(...(exact.temps.cell!.max as number[])));
+    // Each bucket's extremes are those of the exact reducer or of a neighbouring group's readings.
+    for (let b = 0; b < 50; b++) expect(fast.volts.min[b]!).toBeLessThanOrEqual(exact.volts.min[b]!);
   });
 });

@@ -124,3 +124,48 @@ export function reduceSamples(parts: readonly Columns[], from: number, to: numbe
   }
   return { reduced: true, bucketSeconds, readingsInWindow: inWindow, t, volts, amps, watts, temps };
 }
+
+/**
+ * The same min/max buckets built from pre-computed groups (chunk-stats.ts) instead of
+ * every reading, for windows holding far more readings than buckets. A group that
+ * straddles a bucket border counts in both buckets, so an extreme is never lost; the
+ * bucket it lands in is off by at most one group's duration.
+ */
+export function reduceStats(parts: readonly Columns[], from: number, to: number, buckets: number): ReducedSamples {
+  const bucketSeconds = (to - from) / buckets;
+  const t = Array.from({ length: buckets }, (_, b) => from + b * bucketSeconds);
+  const volts = emptyMinMax(buckets);
+  const amps = emptyMinMax(buckets);
+  const watts = emptyMinMax(buckets);
+  const temps: Record<string, MinMax> = {};
+  let inWindow = 0;
+  const bucketOf = (x: number) => Math.max(0, Math.min(buckets - 1, Math.floor((x - from) / bucketSeconds)));
+  for (const p of parts) {
+    const targets: [MinMax, Float64Array, Float64Array][] = [
+      [volts, p['volts:min']!, p['volts:max']!],
+      [amps, p['amps:min']!, p['amps:max']!],
+      [watts, p['watts:min']!, p['watts:max']!],
+    ];
+    for (const name of Object.keys(p)) {
+      if (!name.startsWith(TEMP_PREFIX) || !name.endsWith(':min')) continue;
+      const ch = name.slice(TEMP_PREFIX.length, -':min'.length);
+      temps[ch] ??= emptyMinMax(buckets);
+      targets.push([temps[ch], p[name]!, p[`${TEMP_PREFIX}${ch}:max`]!]);
+    }
+    const start = p.start!;
+    const end = p.end!;
+    for (let g = 0; g < start.length; g++) {
+      if (end[g]! < from || start[g]! > to) continue;
+      inWindow += p.n![g]!;
+      const b0 = bucketOf(start[g]!);
+      const b1 = bucketOf(end[g]!);
+      for (let b = b0; b <= b1; b++) {
+        for (const [mm, lo, hi] of targets) {
+          put(mm, b, lo[g]!);
+          put(mm, b, hi[g]!);
+        }
+      }
+    }
+  }
+  return { reduced: true, bucketSeconds, readingsInWindow: inWindow, t, volts, amps, watts, temps };
+}

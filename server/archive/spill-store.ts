@@ -9,7 +9,7 @@ const SEQ_DIGITS = 12;
 const FIRST_SEQ = 100_000_000_000;
 
 interface SpilledBatch extends Omit<ArchiveBatch, 'block' | 'patch'> {
-  block: (Omit<NonNullable<ArchiveBatch['block']>, 'data'> & { data: string }) | null;
+  block: (Omit<NonNullable<ArchiveBatch['block']>, 'data' | 'stats'> & { data: string; stats: string }) | null;
   patch: Omit<ArchiveBatch['patch'], 'startedAt' | 'endedAt'> & { startedAt?: string; endedAt?: string };
 }
 
@@ -64,7 +64,7 @@ export class SpillStore {
     const name = this.nameOf(seq);
     const spilled: SpilledBatch = {
       ...batch,
-      block: batch.block ? { ...batch.block, data: batch.block.data.toString('base64') } : null,
+      block: batch.block ? { ...batch.block, data: batch.block.data.toString('base64'), stats: batch.block.stats.toString('base64') } : null,
       patch: {
         ...batch.patch,
         startedAt: batch.patch.startedAt?.toISOString(),
@@ -84,7 +84,7 @@ export class SpillStore {
     const s = JSON.parse(await readFile(join(this.dir, name), 'utf8')) as SpilledBatch;
     return {
       ...s,
-      block: s.block ? { ...s.block, data: Buffer.from(s.block.data, 'base64') } : null,
+      block: s.block ? { ...s.block, data: Buffer.from(s.block.data, 'base64'), stats: Buffer.from(s.block.stats, 'base64') } : null,
       patch: {
         ...s.patch,
         startedAt: s.patch.startedAt ? new Date(s.patch.startedAt) : undefined,

@@ -8,7 +8,7 @@ import type { Frame } from '../../shared/schemas/frame.js';
 import type { Reading } from '../../shared/schemas/reading.js';
 import type { CutoffEvent, RecoveryEvent, RunEvent } from '../../shared/schemas/run-event.js';
 import { COMPACT_READINGS, writeBatch } from '../archive/chunk-store.js';
-import { encodeBlock } from '../archive/column-block.js';
+import { encodeChunk } from '../archive/chunk-encode.js';
 import { readingsToColumns } from '../archive/reading-columns.js';
 import { HttpError } from '../http/http-error.js';
 import { parseRow, planColumns, type ColumnOverrides, type ColumnPlan } from './import-headers.js';
@@ -92,7 +92,7 @@ export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: Impor
     let firstT: number | null = null;
     const flush = async () => {
       if (!pending.length) return;
-      const block = { firstSeq: seq - pending.length, count: pending.length, firstElapsed: pending[0]!.elapsedSeconds, lastElapsed: pending[pending.length - 1]!.elapsedSeconds, ...encodeBlock(readingsToColumns(pending)) };
+      const block = encodeChunk(seq - pending.length, readingsToColumns(pending));
       pending = [];
       await writeBatch(sequelize, { runId: run.id, block, events: [], patch: { readingsCount: seq } });
     };

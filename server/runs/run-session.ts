@@ -7,7 +7,7 @@ import type { RunEvent } from '../../shared/schemas/run-event.js';
 import type { RunSummary } from '../../shared/schemas/run-summary.js';
 import type { Run, RunState } from '../../shared/schemas/run.js';
 import type { ArchiveBatch } from '../archive/archive-batch.js';
-import { encodeBlock } from '../archive/column-block.js';
+import { encodeChunk } from '../archive/chunk-encode.js';
 import { readingsToColumns } from '../archive/reading-columns.js';
 import type { BatteryFacts } from './measure-config.js';
 
@@ -172,7 +172,7 @@ export class RunSession {
     const final = this.snap.state === 'finished' || this.snap.state === 'aborted';
     const block =
       readings.length > 0
-        ? { firstSeq, count: readings.length, firstElapsed: readings[0]!.elapsedSeconds, lastElapsed: readings[readings.length - 1]!.elapsedSeconds, ...encodeBlock(readingsToColumns(readings)) }
+        ? encodeChunk(firstSeq, readingsToColumns(readings))
         : null;
     const patch: ArchiveBatch['patch'] = {
       readingsCount: this.snap.nextSeq,

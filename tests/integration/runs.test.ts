@@ -81,6 +81,12 @@ describe('a live run', () => {
     expect(full.t).toEqual([100, 101, 102, 103, 104, 105, 106, 107, 108, 109]);
     expect(full.volts.min[0]).toBeCloseTo(volts(100), 12);
     await viewer.get(`/api/runs/${runId}/samples?from=10&to=5`).expect(400);
+    // Ten buckets over ~3,000 readings: served from the stored 64-reading min/max groups.
+    const coarse = (await viewer.get(`/api/runs/${runId}/samples?maxPoints=10`).expect(200)).body;
+    const run = (await viewer.get(`/api/runs/${runId}`)).body.run;
+    expect(coarse.readingsInWindow).toBe(run.readingsCount);
+    expect(coarse.volts.max[0]).toBeCloseTo(V0, 9);
+    expect(Math.min(...coarse.volts.min)).toBe(Math.min(...reduced.volts.min.filter((v: number | null) => v !== null)));
   });
 
   it('exports every reading as CSV after a metadata block, and as JSON', async () => {

@@ -1,0 +1,24 @@
+import { encodeBlock, type BlockLayout, type Columns } from './column-block.js';
+import { computeStats } from './chunk-stats.js';
+import { columnLength } from './reading-columns.js';
+
+/** One chunk ready for the database: its readings block and its min/max groups. */
+export interface EncodedChunk {
+  firstSeq: number;
+  count: number;
+  firstElapsed: number;
+  lastElapsed: number;
+  layout: BlockLayout;
+  data: Buffer;
+  statsLayout: BlockLayout;
+  stats: Buffer;
+}
+
+/** Encodes reading columns (which must have `elapsed`) starting at reading number `firstSeq`. */
+export function encodeChunk(firstSeq: number, cols: Columns): EncodedChunk {
+  const count = columnLength(cols);
+  const e = cols.elapsed!;
+  const block = encodeBlock(cols);
+  const stats = encodeBlock(computeStats(cols));
+  return { firstSeq, count, firstElapsed: e[0]!, lastElapsed: e[count - 1]!, ...block, statsLayout: stats.layout, stats: stats.data };
+}
