@@ -35,6 +35,14 @@ describe('simulator CLI', { timeout: 90_000 }, () => {
     expect(parsed.length).toBeGreaterThan(0.97 * lines.length);
   });
 
+  it('--ideal and --sample-period: a perfect meter writes every sample at the chosen period', () => {
+    const result = run('--scenario', 'noisy-meter-unplug', '--ideal', '--sample-period', '0.5', '--speed', '1000000');
+    const lines = result.stdout.trim().split('\r\n');
+    // 2100 s of program at 0.5 s a sample, plus the sample at t = 0 and the header.
+    expect(lines.length).toBe(2100 / 0.5 + 1 + 1);
+    expect(lines[2].split(',')[0]).toBe('1.0');
+  });
+
   it('rejects a bad format and an unknown scenario with a clear message', () => {
     const badFormat = run('--scenario', 'lfp-12v-weak-cell', '--format', 'xml');
     expect(badFormat.status).toBe(1);

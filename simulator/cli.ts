@@ -16,8 +16,12 @@ const USAGE = `Usage: npm run simulator -- [options]
   --out PATH|-           a pseudo-terminal link to create (under /tmp), or - for stdout (default)
   --speed N              simulated seconds per real second (default 1; 60 plays an hour in a minute)
   --seed N               random seed (default 1): the same seed writes the same bytes
+  --sample-period S      seconds between meter samples (default: the scenario's)
+  --ideal                a perfect meter: no noise, drops, garbling or unplugs
   --no-time              CSV without the time column
   --unit-id N            Modbus unit address (default 1)`;
+
+const IDEAL_METER = { voltsNoise: 0, ampsNoise: 0, tempNoise: 0, dropProbability: 0, corruptProbability: 0, unplugs: [] };
 
 /** Modbus serial unit addresses run from 1 to 247 (Modbus over Serial Line, §2.2). */
 const MAX_MODBUS_UNIT = 247;
@@ -31,6 +35,8 @@ const ArgsSchema = z.object({
   speed: z.coerce.number().positive().finite().default(1),
   seed: z.coerce.number().int().nonnegative().default(1),
   'no-time': z.boolean().default(false),
+  'sample-period': z.coerce.number().positive().finite().optional(),
+  ideal: z.boolean().default(false),
   'unit-id': z.coerce.number().int().min(1).max(MAX_MODBUS_UNIT).default(1),
 });
 
@@ -40,6 +46,7 @@ async function main(): Promise<void> {
       list: { type: 'boolean' }, help: { type: 'boolean' }, scenario: { type: 'string' },
       format: { type: 'string' }, out: { type: 'string' }, speed: { type: 'string' },
       seed: { type: 'string' }, 'no-time': { type: 'boolean' }, 'unit-id': { type: 'string' },
+      'sample-period': { type: 'string' }, ideal: { type: 'boolean' },
     },
   });
   const parsed = ArgsSchema.safeParse(values);
@@ -58,6 +65,10 @@ async function main(): Promise<void> {
     speed: args.speed,
     seed: args.seed,
     csv: csvOptionsFor(scenario, !args['no-time']),
+    meter: {
+      ...(args['sample-period'] ? { samplePeriodS: args['sample-period'] } : {}),
+      ...(args.ideal ? IDEAL_METER : {}),
+    },
     modbus: { unitId: args['unit-id'] },
   };
   if (args.out === '-') {
