@@ -6,10 +6,14 @@ const GAIN = 0.35;
 
 type AudioContextLike = Pick<AudioContext, 'currentTime' | 'destination' | 'createOscillator' | 'createGain' | 'resume' | 'state'>;
 
-/** Plays the cutoff alarm through WebAudio (no sound file to ship). */
+/**
+ * Plays the alarm through WebAudio (no sound file to ship). Several screens may raise an
+ * alarm at once; the tone plays while any of them (by key) is active, and only once.
+ */
 export class AlarmSound {
   private ctx: AudioContextLike | null = null;
   private timer: ReturnType<typeof setInterval> | null = null;
+  private readonly active = new Set<string>();
 
   constructor(private readonly createContext: () => AudioContextLike | null = defaultContext) {}
 
@@ -18,18 +22,26 @@ export class AlarmSound {
     return this.timer !== null;
   }
 
-  /** Starts repeating the alarm; harmless when already playing or when audio is unavailable. */
-  start(): void {
-    if (this.timer !== null) return;
+  /** Browsers only allow sound after a user gesture: call this from one so later alarms are heard. */
+  unlock(): void {
     this.ctx ??= this.createContext();
+    if (this.ctx?.state === 'suspended') void this.ctx.resume().catch(() => undefined);
+  }
+
+  /** Starts (or keeps) the alarm for `key`; harmless when audio is unavailable. */
+  start(key = 'default'): void {
+    this.active.add(key);
+    if (this.timer !== null) return;
+    this.unlock();
     if (!this.ctx) return;
-    if (this.ctx.state === 'suspended') void this.ctx.resume().catch(() => undefined);
     this.beep();
     this.timer = setInterval(() => this.beep(), REPEAT_MS);
   }
 
-  /** Stops the alarm. */
-  stop(): void {
+  /** Stops the alarm for `key`; the tone ends when no key is left. */
+  stop(key = 'default'): void {
+    this.active.delete(key);
+    if (this.active.size > 0) return;
     if (this.timer !== null) clearInterval(this.timer);
     this.timer = null;
   }
@@ -54,4 +66,18 @@ export class AlarmSound {
 function defaultContext(): AudioContextLike | null {
   const Ctor = typeof window !== 'undefined' ? window.AudioContext : undefined;
   return Ctor ? new Ctor() : null;
+}
+
+/** The app's one alarm sound. */
+export const sharedAlarmSound = new AlarmSound();
+
+/** Unlocks audio on the first click or key press anywhere, so an alarm hours later is heard. */
+export function installAudioUnlock(target: Window = window): void {
+  const unlock = () => {
+    sharedAlarmSound.unlock();
+    target.removeEventListener('pointerdown', unlock);
+    target.removeEventListener('keydown', unlock);
+  };
+  target.addEventListener('pointerdown', unlock);
+  target.addEventListener('keydown', unlock);
 }

@@ -1,14 +1,15 @@
 import { Link } from 'react-router-dom';
 import type { BenchWithStatus } from '../../../../shared/schemas/bench';
 import { BigNumber } from '../../../components/ui/big-number';
-import { BenchStatusBadge, RunStateBadge } from '../../../components/ui/state-badge';
+import { BenchStatusBadge } from '../../../components/ui/state-badge';
 import { SIGNAL_COLORS } from '../../../lib/palette';
 import { formatAmps, formatTemperature, formatVolts, formatWatts } from '../../../lib/units';
 import { isLiveRun, useLatestBenchRun } from '../../../lib/current-run';
 import { useLiveStore, useLiveView } from '../../../lib/use-live';
+import { BenchRunLine } from './bench-run-line';
 
 /** One bench on the overview: its health, its run, and its numbers as they arrive. */
-export function BenchCard({ bench, temperatureUnit }: { bench: BenchWithStatus; temperatureUnit: 'C' | 'F' }) {
+export function BenchCard({ bench, temperatureUnit, energyUnit }: { bench: BenchWithStatus; temperatureUnit: 'C' | 'F'; energyUnit: 'Wh' | 'kWh' }) {
   const store = useLiveStore({ kind: 'bench', id: bench.id });
   const live = useLiveView(store);
   const status = live.status ?? bench.status;
@@ -18,38 +19,29 @@ export function BenchCard({ bench, temperatureUnit }: { bench: BenchWithStatus; 
   const alarm = run?.state === 'cutoff';
 
   return (
-    <Link
-      to={`/benches/${bench.id}`}
-      className={`flex flex-col gap-4 rounded-2xl border-2 bg-surface-raised p-5 transition hover:border-accent ${alarm ? 'border-state-cutoff' : 'border-line'}`}
-      aria-label={`Bench ${bench.name}`}
-    >
-      <div className="flex flex-wrap items-center justify-between gap-2">
-        <h2 className="text-xl font-bold">{bench.name}</h2>
-        <BenchStatusBadge state={status.state} />
-      </div>
-      <div className="grid grid-cols-2 gap-4">
-        <BigNumber label="Volts" text={formatVolts(live.volts)} unit="V" color={SIGNAL_COLORS.volts} size="md" />
-        <BigNumber label="Amps" text={formatAmps(live.amps)} unit="A" color={SIGNAL_COLORS.amps} size="md" />
-        <BigNumber label="Watts" text={formatWatts(live.watts)} unit="W" color={SIGNAL_COLORS.watts} size="md" />
-        <BigNumber
-          label="Temp"
-          text={formatTemperature(live.tempCelsius, temperatureUnit)}
-          unit={temperatureUnit === 'F' ? '°F' : '°C'}
-          color={SIGNAL_COLORS.temp}
-          size="md"
-        />
-      </div>
-      <div className="flex min-h-8 items-center justify-between gap-2 border-t border-line pt-3 text-sm">
-        {run ? (
-          <>
-            <span className="truncate font-medium">{run.name}</span>
-            <RunStateBadge state={run.state} />
-          </>
-        ) : (
-          <span className="text-ink-faint">No run on this bench</span>
-        )}
+    <div className={`flex flex-col gap-4 rounded-2xl border-2 bg-surface-raised p-5 transition hover:border-accent ${alarm ? 'border-state-cutoff' : 'border-line'}`}>
+      <Link to={`/benches/${bench.id}`} className="flex flex-col gap-4" aria-label={`Bench ${bench.name}`}>
+        <div className="flex flex-wrap items-center justify-between gap-2">
+          <h2 className="text-xl font-bold">{bench.name}</h2>
+          <BenchStatusBadge state={status.state} />
+        </div>
+        <div className="grid grid-cols-2 gap-4">
+          <BigNumber label="Volts" text={formatVolts(live.volts)} unit="V" color={SIGNAL_COLORS.volts} size="md" />
+          <BigNumber label="Amps" text={formatAmps(live.amps)} unit="A" color={SIGNAL_COLORS.amps} size="md" />
+          <BigNumber label="Watts" text={formatWatts(live.watts)} unit="W" color={SIGNAL_COLORS.watts} size="md" />
+          <BigNumber
+            label="Temp"
+            text={formatTemperature(live.tempCelsius, temperatureUnit)}
+            unit={temperatureUnit === 'F' ? '°F' : '°C'}
+            color={SIGNAL_COLORS.temp}
+            size="md"
+          />
+        </div>
+      </Link>
+      <div className="border-t border-line pt-3">
+        {run ? <BenchRunLine run={run} benchName={bench.name} energyUnit={energyUnit} /> : <span className="text-sm text-ink-faint">No run on this bench</span>}
       </div>
       {status.message && <p className="text-sm text-ink-muted">{status.message}</p>}
-    </Link>
+    </div>
   );
 }

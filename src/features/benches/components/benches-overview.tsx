@@ -32,7 +32,7 @@ export function BenchesOverview({ canManage }: { canManage: boolean }) {
     <div className="flex flex-col gap-6">
       <div className="grid gap-4 md:grid-cols-2 2xl:grid-cols-3">
         {benches.data.map((bench) => (
-          <BenchCard key={bench.id} bench={bench} temperatureUnit={settings.temperatureUnit} />
+          <BenchCard key={bench.id} bench={bench} temperatureUnit={settings.temperatureUnit} energyUnit={settings.energyUnit} />
         ))}
       </div>
       <RunStateLegend />

@@ -10,7 +10,7 @@ import { useLiveStore, useLiveView, useSocketState } from '../../../lib/use-live
 import { useShortcut } from '../../../lib/use-shortcut';
 import { useStopRun } from '../api/stop-run';
 import { AnnotationBox } from './annotation-box';
-import { CutoffAlarm } from './cutoff-alarm';
+import { CutoffAlarm } from '../../../components/alarm/cutoff-alarm';
 import { Readouts } from './readouts';
 
 interface Props {

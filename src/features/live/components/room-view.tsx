@@ -9,7 +9,7 @@ import type { SourceState } from '../../../../shared/schemas/bench';
 import { useLiveStore, useLiveView } from '../../../lib/use-live';
 import { useShortcut } from '../../../lib/use-shortcut';
 import { useBench } from '../api/get-bench';
-import { CutoffAlarm } from './cutoff-alarm';
+import { CutoffAlarm } from '../../../components/alarm/cutoff-alarm';
 import { Readouts } from './readouts';
 
 function RoomNumbers({ store }: { store: LiveStore }) {
@@ -22,7 +22,7 @@ function RunRoom({ runId, label }: { runId: number; label: string }) {
   const store = useLiveStore({ kind: 'run', id: runId });
   return (
     <>
-      <CutoffAlarm store={store} label={label} large />
+      <CutoffAlarm store={store} label={label} size="large" />
       <RoomNumbers store={store} />
     </>
   );

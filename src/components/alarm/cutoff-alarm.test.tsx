@@ -1,9 +1,9 @@
 import { act, render, screen } from '@testing-library/react';
 import userEvent from '@testing-library/user-event';
 import { beforeEach, describe, expect, it, vi } from 'vitest';
-import type { Run } from '../../../../shared/schemas/run';
-import type { ServerMessage } from '../../../../shared/schemas/ws';
-import { LiveStore } from '../../../lib/live-store';
+import type { Run } from '../../../shared/schemas/run';
+import type { ServerMessage } from '../../../shared/schemas/ws';
+import { LiveStore } from '../../lib/live-store';
 import { CutoffAlarm } from './cutoff-alarm';
 
 const topic = { kind: 'run', id: 12 } as const;

@@ -1,8 +1,8 @@
 import { useCallback, useEffect, useState } from 'react';
-import { LIVE_RUN_STATES } from '../../../../shared/schemas/run';
-import type { RunEvent } from '../../../../shared/schemas/run-event';
-import type { LiveStore, LiveView } from '../../../lib/live-store';
-import { safeSession } from '../../../lib/safe-storage';
+import { LIVE_RUN_STATES } from '../../../shared/schemas/run';
+import type { RunEvent } from '../../../shared/schemas/run-event';
+import type { LiveStore, LiveView } from '../../lib/live-store';
+import { safeSession } from '../../lib/safe-storage';
 
 const ACK_KEY_PREFIX = 'kneepoint.alarm-ack.';
 

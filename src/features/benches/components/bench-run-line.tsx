@@ -1,0 +1,25 @@
+import type { Run } from '../../../../shared/schemas/run';
+import { CutoffAlarm } from '../../../components/alarm/cutoff-alarm';
+import { RunStateBadge } from '../../../components/ui/state-badge';
+import { formatCharge, formatElapsedClock, formatEnergy } from '../../../lib/units';
+import { useLiveStore, useLiveView } from '../../../lib/use-live';
+
+/** A live run on the overview: its totals, and its alarm, so a cutoff is loud here too. */
+export function BenchRunLine({ run, benchName, energyUnit }: { run: Run; benchName: string; energyUnit: 'Wh' | 'kWh' }) {
+  const store = useLiveStore({ kind: 'run', id: run.id });
+  const view = useLiveView(store);
+  const state = view.run?.state ?? run.state;
+  return (
+    <div className="flex flex-col gap-3">
+      <CutoffAlarm store={store} label={benchName} size="compact" />
+      <div className="flex flex-wrap items-center justify-between gap-2 text-sm">
+        <span className="truncate font-medium">{view.run?.name ?? run.name}</span>
+        <RunStateBadge state={state} />
+      </div>
+      <p className="num text-lg font-bold">
+        {formatEnergy(view.dischargeWh, energyUnit)} · {formatCharge(view.dischargeAh)} ·{' '}
+        <span className="text-ink-muted">{view.t === null ? '—' : formatElapsedClock(view.t)} h:m:s</span>
+      </p>
+    </div>
+  );
+}
