@@ -60,3 +60,33 @@ describe('LiveStore', () => {
     expect(store.getSnapshot().events.map((e) => e.type)).toEqual(['run-start', 'annotation']);
   });
 });
+
+describe('LiveStore.backfill', () => {
+  const history = {
+    t: [0, 10, 20, 30],
+    bucketSeconds: 10,
+    volts: { min: [13.1, 13.0, 12.9, 12.8], max: [13.2, 13.1, 13.0, 12.9] },
+    amps: { min: [5, 5, 5, 5], max: [5, 5, 5, 5] },
+    watts: { min: [65, 65, 65, 65], max: [66, 66, 66, 66] },
+    temps: {},
+  };
+
+  it('puts archived min/max rows before the live rows and keeps the live rows intact', () => {
+    const store = new LiveStore((fn) => fn());
+    store.handle(batch([30, 31, 32]));
+    store.backfill(history);
+    const t = Array.from({ length: store.buffer.length }, (_, i) => store.buffer.at(LIVE_COLUMN.t, i));
+    // Buckets at 0, 10, 20 give a min row and a max row half a bucket later; the bucket at 30 overlaps the live rows.
+    expect(t).toEqual([0, 5, 10, 15, 20, 25, 30, 31, 32]);
+    const volts = Array.from({ length: 6 }, (_, i) => store.buffer.at(LIVE_COLUMN.volts, i));
+    expect(volts).toEqual([13.1, 13.2, 13.0, 13.1, 12.9, 13.0]);
+  });
+
+  it('leaves a gap when the archive ends well before the live rows begin', () => {
+    const store = new LiveStore((fn) => fn());
+    store.handle(batch([300, 301]));
+    store.backfill(history);
+    const volts = Array.from({ length: store.buffer.length }, (_, i) => store.buffer.at(LIVE_COLUMN.volts, i));
+    expect(volts.slice(-3)).toEqual([null, 12.8, 12.8]);
+  });
+});

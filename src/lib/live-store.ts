@@ -42,6 +42,20 @@ const EMPTY: LiveView = {
   run: null, status: null, events: [], droppedReadings: 0, dataVersion: 0,
 };
 
+/** Archived history as the samples API answers it: min/max per bucket (equal at full resolution). */
+export interface HistoryColumns {
+  t: number[];
+  bucketSeconds: number | null;
+  volts: MinMax;
+  amps: MinMax;
+  watts: MinMax;
+  temps: Record<string, MinMax>;
+}
+interface MinMax {
+  min: (number | null)[];
+  max: (number | null)[];
+}
+
 export type FrameScheduler = (fn: () => void) => void;
 export type EventListener = (event: RunEvent, live: boolean) => void;
 
@@ -66,6 +80,7 @@ export class LiveStore {
   private lastDtSeconds = 0;
   private readonly listeners = new Set<() => void>();
   private readonly eventListeners = new Set<EventListener>();
+  private readonly snapshotListeners = new Set<(firstT: number | null) => void>();
   private readonly row: (number | null)[] = new Array(COLUMN_COUNT).fill(null);
 
   constructor(private readonly schedule: FrameScheduler = defaultScheduler) {}
@@ -85,6 +100,56 @@ export class LiveStore {
     return () => this.eventListeners.delete(listener);
   }
 
+  /** Hears each snapshot (first subscribe and every reconnect) with the first reading time it holds. */
+  onSnapshot(listener: (firstT: number | null) => void): () => void {
+    this.snapshotListeners.add(listener);
+    return () => this.snapshotListeners.delete(listener);
+  }
+
+  /**
+   * Puts archived history in front of the live rows: a run opened half-way, or a reconnect,
+   * shows the whole curve, not only the last seconds. Each bucket becomes two rows (its min,
+   * then its max) so a spike or a cutoff inside a bucket still shows.
+   */
+  backfill(h: HistoryColumns): void {
+    const firstLiveT = this.buffer.length > 0 ? (this.buffer.at(LIVE_COLUMN.t, 0) ?? Infinity) : Infinity;
+    const saved: (number | null)[][] = Array.from({ length: COLUMN_COUNT }, () => []);
+    const savedCount = this.buffer.copyOrdered(saved);
+    this.buffer.clear();
+    const channel = this.next.tempChannel ?? pickTempChannel(h.temps);
+    const temp = channel ? h.temps[channel] : undefined;
+    const half = (h.bucketSeconds ?? 0) / 2;
+    let lastT: number | null = null;
+    for (let i = 0; i < h.t.length; i++) {
+      const t = h.t[i];
+      if (t >= firstLiveT) break;
+      this.pushHistoryRow(t, h, temp, i, 'min');
+      lastT = t;
+      if (half > 0 && t + half < firstLiveT) {
+        this.pushHistoryRow(t + half, h, temp, i, 'max');
+        lastT = t + half;
+      }
+    }
+    // The archive may lag the live stream: never draw a line across what is missing.
+    if (lastT !== null && savedCount > 0 && firstLiveT - lastT > Math.max(MIN_GAP_SECONDS, GAP_FACTOR * Math.max(half * 2, this.lastDtSeconds))) {
+      this.pushGap((lastT + firstLiveT) / 2);
+    }
+    for (let r = 0; r < savedCount; r++) {
+      for (let c = 0; c < COLUMN_COUNT; c++) this.row[c] = saved[c][r];
+      this.buffer.push(this.row);
+    }
+    this.update({ tempChannel: channel, dataVersion: this.next.dataVersion + 1 });
+  }
+
+  private pushHistoryRow(t: number, h: HistoryColumns, temp: MinMax | undefined, i: number, side: 'min' | 'max'): void {
+    this.row[LIVE_COLUMN.t] = t;
+    this.row[LIVE_COLUMN.volts] = h.volts[side][i];
+    this.row[LIVE_COLUMN.amps] = h.amps[side][i];
+    this.row[LIVE_COLUMN.watts] = h.watts[side][i];
+    this.row[LIVE_COLUMN.temp] = temp ? temp[side][i] : null;
+    this.buffer.push(this.row);
+  }
+
   /** Feeds one WebSocket message for this store's topic. */
   handle(message: ServerMessage): void {
     switch (message.type) {
@@ -92,6 +157,7 @@ export class LiveStore {
         this.update({ run: message.run, status: message.status ?? this.next.status, events: message.events });
         this.appendReadings(message.recent, true);
         message.events.forEach((e) => this.eventListeners.forEach((l) => l(e, false)));
+        this.snapshotListeners.forEach((l) => l(message.recent.t.length > 0 ? message.recent.t[0] : null));
         break;
       case 'batch':
         this.appendReadings(message.readings, false);

@@ -54,6 +54,11 @@ describe('a run from start to cutoff, through the real server, simulator and /ws
     await page.getByRole('heading', { name: 'Kestrel camper 600 W capacity' }).waitFor();
     await page.getByTestId('big-energy-out').filter({ hasText: /^[1-9]/ }).waitFor({ timeout: 30_000 });
     expect(await page.getByTestId('big-volts').textContent()).toMatch(/^1[0-4]\.\d\d$/);
+    // Opened again half-way, the chart gets the archived start of the run, not only the last seconds.
+    const backfill = page.waitForResponse((r) => /\/api\/runs\/\d+\/samples\?/.test(r.url()) && r.status() === 200);
+    await page.reload();
+    await backfill;
+    await page.getByTestId('big-energy-out').filter({ hasText: /^[1-9]/ }).waitFor();
     await page.screenshot({ path: `${SCREENSHOT_DIR}/live-run-real.png`, fullPage: true });
 
     await page.getByRole('alert').filter({ hasText: 'CUTOFF' }).waitFor({ timeout: CUTOFF_WAIT_MS });

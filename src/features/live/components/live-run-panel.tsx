@@ -9,6 +9,7 @@ import { useLabSettings } from '../../../lib/lab-settings';
 import { useLiveStore, useLiveView, useSocketState } from '../../../lib/use-live';
 import { useShortcut } from '../../../lib/use-shortcut';
 import { useStopRun } from '../api/stop-run';
+import { useHistoryBackfill } from '../api/use-history-backfill';
 import { AnnotationBox } from './annotation-box';
 import { CutoffAlarm } from '../../../components/alarm/cutoff-alarm';
 import { Readouts } from './readouts';
@@ -27,6 +28,7 @@ interface Props {
 export function LiveRunPanel({ runId, label, roomViewPath, canAct, onClose }: Props) {
   const store = useLiveStore({ kind: 'run', id: runId });
   const view = useLiveView(store);
+  useHistoryBackfill(store, runId);
   const socketState = useSocketState();
   const settings = useLabSettings();
   const stop = useStopRun();

@@ -1,0 +1,32 @@
+import { useEffect } from 'react';
+import { SamplesResponseSchema } from '../../../../shared/schemas/api-runs';
+import { api } from '../../../lib/api-client';
+import type { LiveStore } from '../../../lib/live-store';
+
+/** Buckets of history fetched for the live chart (two rows each: min and max). */
+const BACKFILL_MAX_POINTS = 2_000;
+
+/**
+ * After every snapshot (first open, reconnect) fetch the run's archived readings before the
+ * snapshot from GET /api/runs/:id/samples and put them in front of the live rows.
+ */
+export function useHistoryBackfill(store: LiveStore, runId: number): void {
+  useEffect(() => {
+    let cancelled = false;
+    const controller = new AbortController();
+    const stop = store.onSnapshot((firstT) => {
+      const params = new URLSearchParams({ maxPoints: String(BACKFILL_MAX_POINTS) });
+      if (firstT !== null) params.set('to', String(firstT));
+      api(`/api/runs/${runId}/samples?${params}`, { schema: SamplesResponseSchema, signal: controller.signal })
+        .then((history) => {
+          if (!cancelled) store.backfill(history);
+        })
+        .catch(() => undefined); // The live stream goes on; only the older part of the curve is missing.
+    });
+    return () => {
+      cancelled = true;
+      controller.abort();
+      stop();
+    };
+  }, [store, runId]);
+}
