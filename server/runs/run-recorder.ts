@@ -61,7 +61,7 @@ export class RunRecorder {
     this.unsubscribe.push(feed.onFrame((benchId, frame) => this.onFrame(benchId, frame)));
     if (feed.onStatus) this.unsubscribe.push(feed.onStatus((benchId, status) => this.onStatus(benchId, status)));
     const every = this.deps.setInterval ?? ((fn, ms) => setInterval(fn, ms));
-    const handle = every(() => this.flushAll(), FLUSH_INTERVAL_MS);
+    const handle = every(() => this.flushSpread(), FLUSH_INTERVAL_MS);
     handle.unref?.();
     this.timer = handle;
   }
@@ -145,6 +145,21 @@ export class RunRecorder {
   /** Hands everything pending to the archive (timer, shutdown, tests). */
   flushAll(): void {
     for (const session of this.sessions.values()) if (session.hasPending()) this.deps.writer.enqueue(session.takeBatch());
+  }
+
+  /**
+   * The timer's flush: one run per turn of the event loop, so encoding twenty runs'
+   * batches never holds up frames waiting to go out to viewers.
+   */
+  private flushSpread(): void {
+    const queue = [...this.sessions.values()];
+    const next = () => {
+      const session = queue.shift();
+      if (!session) return;
+      if (this.sessions.has(session.run.id) && session.hasPending()) this.deps.writer.enqueue(session.takeBatch());
+      setImmediate(next);
+    };
+    next();
   }
 
   /** Stops listening and hands what is pending to the archive; runs stay live for the next start. */

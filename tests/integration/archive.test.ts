@@ -50,7 +50,7 @@ afterAll(async () => {
 });
 
 async function newRun(name: string, benchId: number) {
-  const battery = await server.ctx.models.Battery.create({ ...BATTERY_OPTIONAL_DEFAULTS, label: name, brand: 'Kestrel Energy', chemistry: 'lfp', cellsInSeries: 4, ratedAh: 20 });
+  const battery = await server.ctx.models.Battery.create({ ...BATTERY_OPTIONAL_DEFAULTS, label: name, brand: 'Kestrel Energy', chemistry: 'lfp', cellsInSeries: 4, cellsInParallel: 1, ratedAh: 20, createdById: null });
   return server.ctx.services.runRecorder!.start(
     { benchId, batteryId: battery.id, name, tags: [], kind: 'capacity-discharge', endVolts: null, acceptancePercent: 100, alarms: { onCutoff: true }, stopWhen: 'manual', targetAh: null, targetWh: null, afterRecoverySeconds: 0 },
     null,

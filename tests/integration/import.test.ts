@@ -97,9 +97,9 @@ describe('POST /api/runs/import', () => {
     for (let i = 0; i < ROWS; i += 10_000) {
       let chunk = '';
       for (let j = i; j < i + 10_000; j++) chunk += `${j * 100},${(13.3 - j * 2e-6).toFixed(6)},4,${(25 + (j % 50) / 100).toFixed(2)}\n`;
-      if (!out.write(chunk)) await new Promise((r) => out.once('drain', r));
+      if (!out.write(chunk)) await new Promise<void>((r) => out.once('drain', () => r()));
     }
-    await new Promise((r) => out.end(r));
+    await new Promise<void>((r) => out.end(() => r()));
     let peak = 0;
     const base = process.memoryUsage().heapUsed;
     const probe = setInterval(() => (peak = Math.max(peak, process.memoryUsage().heapUsed - base)), 20);
