@@ -27,6 +27,14 @@ describe('column blocks', () => {
     expect(back['temp:cell']![2]).toBe(22);
   });
 
+  it('stores small blocks raw when asked, and reads them back the same', () => {
+    const cols = readingsToColumns([reading(0), reading(1)]);
+    const { layout, data } = encodeBlock(cols, 'raw');
+    expect(layout.encoding).toBe('raw');
+    expect(data.length).toBe(Object.keys(cols).length * 2 * 8);
+    expect(Array.from(decodeBlock(layout, data).volts!)).toEqual(Array.from(cols.volts!));
+  });
+
   it('inflates only the wanted columns', () => {
     const { layout, data } = encodeBlock(readingsToColumns([reading(0), reading(1)]));
     expect(Object.keys(decodeBlock(layout, data, ['elapsed', 'volts'])).sort()).toEqual(['elapsed', 'volts']);

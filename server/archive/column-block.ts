@@ -13,6 +13,8 @@ export interface ColumnLayoutEntry {
 }
 export interface BlockLayout {
   endian: 'le';
+  /** Absent = gzip (the default); `raw` for small blocks where inflating costs more than it saves. */
+  encoding?: 'gzip' | 'raw';
   count: number;
   columns: ColumnLayoutEntry[];
 }
@@ -22,7 +24,7 @@ export type Columns = Record<string, Float64Array>;
 const GZIP_LEVEL = 1;
 
 /** Packs equal-length Float64 columns into one buffer plus its layout. */
-export function encodeBlock(columns: Columns): { layout: BlockLayout; data: Buffer } {
+export function encodeBlock(columns: Columns, encoding: 'gzip' | 'raw' = 'gzip'): { layout: BlockLayout; data: Buffer } {
   const names = Object.keys(columns);
   const count = names.length ? columns[names[0]!]!.length : 0;
   const parts: Buffer[] = [];
@@ -31,12 +33,13 @@ export function encodeBlock(columns: Columns): { layout: BlockLayout; data: Buff
   for (const name of names) {
     const col = columns[name]!;
     if (col.length !== count) throw new Error(`column ${name} has ${col.length} values, expected ${count}`);
-    const packed = gzipSync(Buffer.from(col.buffer, col.byteOffset, col.byteLength), { level: GZIP_LEVEL });
+    const bytes = Buffer.from(col.buffer, col.byteOffset, col.byteLength);
+    const packed = encoding === 'raw' ? Buffer.from(bytes) : gzipSync(bytes, { level: GZIP_LEVEL });
     parts.push(packed);
     entries.push({ name, offset, bytes: packed.length });
     offset += packed.length;
   }
-  return { layout: { endian: 'le', count, columns: entries }, data: Buffer.concat(parts) };
+  return { layout: { endian: 'le', ...(encoding === 'raw' ? { encoding } : {}), count, columns: entries }, data: Buffer.concat(parts) };
 }
 
 /** Inflates the named columns of a block (all when `wanted` is omitted); missing names are skipped. */
@@ -44,7 +47,8 @@ export function decodeBlock(layout: BlockLayout, data: Buffer, wanted?: readonly
   const out: Columns = {};
   for (const entry of layout.columns) {
     if (wanted && !wanted.includes(entry.name)) continue;
-    const raw = gunzipSync(data.subarray(entry.offset, entry.offset + entry.bytes));
+    const slice = data.subarray(entry.offset, entry.offset + entry.bytes);
+    const raw = layout.encoding === 'raw' ? slice : gunzipSync(slice);
     // A Float64Array view needs 8-byte alignment; gunzip's buffer may come from a pool.
     const aligned = raw.byteOffset % 8 === 0 ? raw : Buffer.from(raw);
     const view = new Float64Array(aligned.buffer, aligned.byteOffset, aligned.byteLength / 8);

@@ -41,16 +41,25 @@ function upperBound(col: Float64Array, x: number): number {
   return lo;
 }
 
-const emptyMinMax = (n: number): MinMax => ({ min: new Array(n).fill(null), max: new Array(n).fill(null) });
+/** Bucket extremes while reducing: typed arrays (fast), +/-Infinity meaning "empty so far". */
+interface Acc {
+  min: Float64Array;
+  max: Float64Array;
+}
+const emptyAcc = (n: number): Acc => ({ min: new Float64Array(n).fill(Infinity), max: new Float64Array(n).fill(-Infinity) });
 const finiteOrNull = (v: number): number | null => (Number.isFinite(v) ? v : null);
 
-function put(mm: MinMax, b: number, v: number): void {
-  if (!Number.isFinite(v)) return;
-  const lo = mm.min[b];
-  if (lo === null || lo === undefined || v < lo) mm.min[b] = v;
-  const hi = mm.max[b];
-  if (hi === null || hi === undefined || v > hi) mm.max[b] = v;
+function put(mm: Acc, b: number, v: number): void {
+  // NaN (a channel missing in this reading) fails both comparisons and changes nothing.
+  if (v < mm.min[b]!) mm.min[b] = v;
+  if (v > mm.max[b]!) mm.max[b] = v;
 }
+
+/** The API's shape: an empty bucket becomes null. */
+function toMinMax(acc: Acc): MinMax {
+  return { min: Array.from(acc.min, finiteOrNull), max: Array.from(acc.max, finiteOrNull) };
+}
+const accRecord = (r: Record<string, Acc>): Record<string, MinMax> => Object.fromEntries(Object.entries(r).map(([k, v]) => [k, toMinMax(v)]));
 
 /**
  * Reduces time-ordered column parts (each with `elapsed`, `volts`, `amps`, optional
@@ -101,11 +110,11 @@ export function reduceSamples(parts: readonly Columns[], from: number, to: numbe
   const buckets = maxPoints;
   const bucketSeconds = (to - from) / buckets;
   const t = Array.from({ length: buckets }, (_, b) => from + b * bucketSeconds);
-  const volts = emptyMinMax(buckets);
-  const amps = emptyMinMax(buckets);
-  const watts = emptyMinMax(buckets);
-  const temps: Record<string, MinMax> = {};
-  for (const name of tempNames) temps[name.slice(TEMP_PREFIX.length)] = emptyMinMax(buckets);
+  const volts = emptyAcc(buckets);
+  const amps = emptyAcc(buckets);
+  const watts = emptyAcc(buckets);
+  const temps: Record<string, Acc> = {};
+  for (const name of tempNames) temps[name.slice(TEMP_PREFIX.length)] = emptyAcc(buckets);
   for (const { p, start, end } of ranges) {
     const e = p.elapsed!;
     const vCol = p.volts!;
@@ -122,7 +131,7 @@ export function reduceSamples(parts: readonly Columns[], from: number, to: numbe
       for (const [mm, col] of tempCols) put(mm, b, col[i]!);
     }
   }
-  return { reduced: true, bucketSeconds, readingsInWindow: inWindow, t, volts, amps, watts, temps };
+  return { reduced: true, bucketSeconds, readingsInWindow: inWindow, t, volts: toMinMax(volts), amps: toMinMax(amps), watts: toMinMax(watts), temps: accRecord(temps) };
 }
 
 /**
@@ -134,14 +143,14 @@ export function reduceSamples(parts: readonly Columns[], from: number, to: numbe
 export function reduceStats(parts: readonly Columns[], from: number, to: number, buckets: number): ReducedSamples {
   const bucketSeconds = (to - from) / buckets;
   const t = Array.from({ length: buckets }, (_, b) => from + b * bucketSeconds);
-  const volts = emptyMinMax(buckets);
-  const amps = emptyMinMax(buckets);
-  const watts = emptyMinMax(buckets);
-  const temps: Record<string, MinMax> = {};
+  const volts = emptyAcc(buckets);
+  const amps = emptyAcc(buckets);
+  const watts = emptyAcc(buckets);
+  const temps: Record<string, Acc> = {};
   let inWindow = 0;
   const bucketOf = (x: number) => Math.max(0, Math.min(buckets - 1, Math.floor((x - from) / bucketSeconds)));
   for (const p of parts) {
-    const targets: [MinMax, Float64Array, Float64Array][] = [
+    const targets: [Acc, Float64Array, Float64Array][] = [
       [volts, p['volts:min']!, p['volts:max']!],
       [amps, p['amps:min']!, p['amps:max']!],
       [watts, p['watts:min']!, p['watts:max']!],
@@ -149,7 +158,7 @@ export function reduceStats(parts: readonly Columns[], from: number, to: number,
     for (const name of Object.keys(p)) {
       if (!name.startsWith(TEMP_PREFIX) || !name.endsWith(':min')) continue;
       const ch = name.slice(TEMP_PREFIX.length, -':min'.length);
-      temps[ch] ??= emptyMinMax(buckets);
+      temps[ch] ??= emptyAcc(buckets);
       targets.push([temps[ch], p[name]!, p[`${TEMP_PREFIX}${ch}:max`]!]);
     }
     const start = p.start!;
@@ -167,5 +176,5 @@ export function reduceStats(parts: readonly Columns[], from: number, to: number,
       }
     }
   }
-  return { reduced: true, bucketSeconds, readingsInWindow: inWindow, t, volts, amps, watts, temps };
+  return { reduced: true, bucketSeconds, readingsInWindow: inWindow, t, volts: toMinMax(volts), amps: toMinMax(amps), watts: toMinMax(watts), temps: accRecord(temps) };
 }
