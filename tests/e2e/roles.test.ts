@@ -72,6 +72,23 @@ describe('each demo role signs in and sees what it may do', () => {
     await page.close();
   });
 
+  it('admin switches the lab to °F and every screen follows', async () => {
+    const { page } = await navFor('admin');
+    await page.getByRole('link', { name: 'Lab settings' }).click();
+    await page.getByLabel('Temperature unit').selectOption('F');
+    await page.getByRole('button', { name: 'Save settings' }).click();
+    await page.getByText('Saved.').waitFor();
+    await page.getByRole('link', { name: 'Benches' }).click();
+    await page.getByRole('link', { name: /^Bench Bench A/ }).waitFor();
+    expect(await page.getByText('°F').count()).toBeGreaterThan(0);
+    expect(await page.getByText('°C').count()).toBe(0);
+    await page.getByRole('link', { name: 'Lab settings' }).click();
+    await page.getByLabel('Temperature unit').selectOption('C');
+    await page.getByRole('button', { name: 'Save settings' }).click();
+    await page.getByText('Saved.').waitFor();
+    await page.close();
+  });
+
   it('technician registers packs but has no user management', async () => {
     const { page, labels } = await navFor('technician');
     expect(labels).not.toContain('Users');

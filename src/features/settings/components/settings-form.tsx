@@ -13,13 +13,17 @@ const MAX_END_VOLTS_PER_CELL = 5;
 
 function Form({ initial }: { initial: LabSettings }) {
   const update = useUpdateSettings();
-  const { register, handleSubmit, formState: { errors, isDirty } } = useForm<LabSettings>({ defaultValues: initial });
+  const { register, handleSubmit, reset, formState: { errors, isDirty } } = useForm<LabSettings>({ defaultValues: initial });
   const onSubmit = handleSubmit((v) =>
-    update.mutate({
-      ...v,
-      acceptancePercent: Number(v.acceptancePercent),
-      endVoltsPerCell: Object.fromEntries(CHEMISTRIES.map((c) => [c, Number(v.endVoltsPerCell[c])])) as LabSettings['endVoltsPerCell'],
-    }),
+    update.mutate(
+      {
+        ...v,
+        acceptancePercent: Number(v.acceptancePercent),
+        endVoltsPerCell: Object.fromEntries(CHEMISTRIES.map((c) => [c, Number(v.endVoltsPerCell[c])])) as LabSettings['endVoltsPerCell'],
+      },
+      // The saved document becomes the form's new baseline, so "Saved." shows until the next edit.
+      { onSuccess: (saved) => reset(saved) },
+    ),
   );
   return (
     <form onSubmit={onSubmit} noValidate aria-label="Lab settings" className="flex flex-col gap-6">
