@@ -75,7 +75,7 @@ describe('a run from start to cutoff, through the real server, simulator and /ws
     await page.screenshot({ path: `${SCREENSHOT_DIR}/run-detail.png`, fullPage: true });
     // The light "report" theme, as a client would print it.
     await page.getByRole('button', { name: /Switch to light/ }).click();
-    expect(await page.evaluate(() => document.documentElement.classList.contains('dark'))).toBe(false);
+    expect(await page.evaluate(`document.documentElement.classList.contains('dark')`)).toBe(false);
     await page.getByTestId('history-chart').locator('canvas').waitFor();
     await page.screenshot({ path: `${SCREENSHOT_DIR}/run-detail-light.png`, fullPage: true });
     await page.close();

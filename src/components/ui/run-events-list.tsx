@@ -61,7 +61,7 @@ export function RunEventsList({ events, temperatureUnit = 'C' }: { events: reado
   if (events.length === 0) return <p className="text-sm text-ink-faint">No events yet.</p>;
   const newestFirst = [...events].sort((a, b) => b.t - a.t);
   return (
-    <ol aria-label="Run events" className="flex flex-col gap-2">
+    <ol aria-label="Run events" className="flex max-h-96 flex-col gap-2 overflow-y-auto print:max-h-none print:overflow-visible">
       {newestFirst.map((e, i) => (
         <li key={`${e.t}-${e.type}-${i}`} className="flex gap-3 border-l-4 pl-3 text-sm" style={{ borderColor: eventColor(e) }}>
           <span className="num shrink-0 text-ink-muted">{formatElapsedClock(e.t)}</span>

@@ -1,5 +1,6 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { api, resetCsrfToken } from '../../../lib/api-client';
+import { getLiveSocket } from '../../../lib/live-socket';
 import { ME_QUERY_KEY } from './get-me';
 
 /** Ends the session on the server. */
@@ -14,6 +15,8 @@ export function useLogout() {
   return useMutation({
     mutationFn: logout,
     onSettled: () => {
+      // The socket belonged to the old session; the next live screen opens a new one.
+      getLiveSocket().close();
       queryClient.clear();
       queryClient.setQueryData(ME_QUERY_KEY, null);
     },
