@@ -1,21 +1,18 @@
+import type { ComponentType } from 'react';
 import type { RouteObject } from 'react-router-dom';
 import { AppLayout } from './layouts/app-layout';
 import { RequireAuth } from './require-auth';
-import { AccountRoute } from './routes/account';
-import {
-  BatteriesRoute,
-  BenchRoute,
-  DashboardRoute,
-  EditBenchRoute,
-  NewBenchRoute,
-  NotFoundRoute,
-  RoomRoute,
-  RunRoute,
-  RunsRoute,
-  SettingsRoute,
-  UsersRoute,
-} from './routes/pages';
 import { SignInRoute } from './routes/sign-in';
+
+type Pages = typeof import('./routes/pages');
+
+/**
+ * The pages (and uPlot, react-table with them) load after sign-in, in their own chunk: the
+ * sign-in page and the shell stay small for a bench PC on a slow lab network.
+ */
+function page(name: keyof Pages): Pick<RouteObject, 'lazy'> {
+  return { lazy: async () => ({ Component: (await import('./routes/pages'))[name] as ComponentType }) };
+}
 
 /** Every route of the app; the browser router and the tests' memory router share them. */
 export const routes: RouteObject[] = [
@@ -24,21 +21,21 @@ export const routes: RouteObject[] = [
     element: <RequireAuth />,
     children: [
       // The room view fills the screen: no navigation around it.
-      { path: '/benches/:benchId/room', element: <RoomRoute /> },
+      { path: '/benches/:benchId/room', ...page('RoomRoute') },
       {
         element: <AppLayout />,
         children: [
-          { path: '/', element: <DashboardRoute /> },
-          { path: '/benches/new', element: <NewBenchRoute /> },
-          { path: '/benches/:benchId', element: <BenchRoute /> },
-          { path: '/benches/:benchId/setup', element: <EditBenchRoute /> },
-          { path: '/runs', element: <RunsRoute /> },
-          { path: '/runs/:runId', element: <RunRoute /> },
-          { path: '/batteries', element: <BatteriesRoute /> },
-          { path: '/users', element: <UsersRoute /> },
-          { path: '/settings', element: <SettingsRoute /> },
-          { path: '/account', element: <AccountRoute /> },
-          { path: '*', element: <NotFoundRoute /> },
+          { path: '/', ...page('DashboardRoute') },
+          { path: '/benches/new', ...page('NewBenchRoute') },
+          { path: '/benches/:benchId', ...page('BenchRoute') },
+          { path: '/benches/:benchId/setup', ...page('EditBenchRoute') },
+          { path: '/runs', ...page('RunsRoute') },
+          { path: '/runs/:runId', ...page('RunRoute') },
+          { path: '/batteries', ...page('BatteriesRoute') },
+          { path: '/users', ...page('UsersRoute') },
+          { path: '/settings', ...page('SettingsRoute') },
+          { path: '/account', ...page('AccountRoute') },
+          { path: '*', ...page('NotFoundRoute') },
         ],
       },
     ],

@@ -134,3 +134,4 @@ export function SettingsRoute() {
 }
 
 export { NotFound as NotFoundRoute };
+export { AccountRoute } from './account';
