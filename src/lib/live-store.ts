@@ -1,8 +1,9 @@
-import type { BenchStatus } from '../../shared/schemas/bench';
 import type { RunEvent } from '../../shared/schemas/run-event';
-import type { Run } from '../../shared/schemas/run';
 import type { ReadingColumns, ServerMessage } from '../../shared/schemas/ws';
 import { ColumnarRingBuffer } from './ring-buffer';
+import { EMPTY_LIVE_VIEW, pickTempChannel, type HistoryColumns, type LiveView, type MinMax } from './live-view';
+
+export type { HistoryColumns, LiveView } from './live-view';
 
 /** Column order in the ring buffer (and in the chart's data). */
 export const LIVE_COLUMN = { t: 0, volts: 1, amps: 2, watts: 3, temp: 4 } as const;
@@ -12,49 +13,6 @@ export const LIVE_WINDOW_ROWS = 9_000;
 /** A pause longer than this, and longer than GAP_FACTOR sample periods, is drawn as a gap. */
 const MIN_GAP_SECONDS = 3;
 const GAP_FACTOR = 5;
-/** Temperature channel shown when a reading has several (the cell is what protections watch). */
-const PREFERRED_TEMP_CHANNEL = 'cell';
-
-/** The low-rate picture React renders: latest values, totals, events, state. */
-export interface LiveView {
-  t: number | null;
-  volts: number | null;
-  amps: number | null;
-  watts: number | null;
-  tempCelsius: number | null;
-  tempChannel: string | null;
-  dischargeWh: number | null;
-  dischargeAh: number | null;
-  chargeWh: number | null;
-  chargeAh: number | null;
-  run: Run | null;
-  status: BenchStatus | null;
-  events: readonly RunEvent[];
-  /** Readings the server thinned away for this screen (display only; totals are unaffected). */
-  droppedReadings: number;
-  /** Bumped whenever the ring buffer changes, so the chart knows to redraw. */
-  dataVersion: number;
-}
-
-const EMPTY: LiveView = {
-  t: null, volts: null, amps: null, watts: null, tempCelsius: null, tempChannel: null,
-  dischargeWh: null, dischargeAh: null, chargeWh: null, chargeAh: null,
-  run: null, status: null, events: [], droppedReadings: 0, dataVersion: 0,
-};
-
-/** Archived history as the samples API answers it: min/max per bucket (equal at full resolution). */
-export interface HistoryColumns {
-  t: number[];
-  bucketSeconds: number | null;
-  volts: MinMax;
-  amps: MinMax;
-  watts: MinMax;
-  temps: Record<string, MinMax>;
-}
-interface MinMax {
-  min: (number | null)[];
-  max: (number | null)[];
-}
 
 export type FrameScheduler = (fn: () => void) => void;
 export type EventListener = (event: RunEvent, live: boolean) => void;
@@ -62,20 +20,14 @@ export type EventListener = (event: RunEvent, live: boolean) => void;
 const defaultScheduler: FrameScheduler = (fn) =>
   typeof requestAnimationFrame === 'function' ? requestAnimationFrame(() => fn()) : setTimeout(fn, 16);
 
-function pickTempChannel(temps: Record<string, unknown>): string | null {
-  const names = Object.keys(temps);
-  if (names.length === 0) return null;
-  return names.includes(PREFERRED_TEMP_CHANNEL) ? PREFERRED_TEMP_CHANNEL : names.sort()[0];
-}
-
 /**
  * Live state of one topic, kept outside React. Readings go into a preallocated ring buffer;
  * listeners (React and the chart) are told at most once per animation frame.
  */
 export class LiveStore {
   readonly buffer = new ColumnarRingBuffer(COLUMN_COUNT, LIVE_WINDOW_ROWS);
-  private view: LiveView = EMPTY;
-  private next: LiveView = EMPTY;
+  private view: LiveView = EMPTY_LIVE_VIEW;
+  private next: LiveView = EMPTY_LIVE_VIEW;
   private scheduled = false;
   private lastDtSeconds = 0;
   private readonly listeners = new Set<() => void>();

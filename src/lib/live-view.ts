@@ -1,0 +1,56 @@
+import type { BenchStatus } from '../../shared/schemas/bench';
+import type { RunEvent } from '../../shared/schemas/run-event';
+import type { Run } from '../../shared/schemas/run';
+
+/** The low-rate picture React renders: latest values, totals, events, state. */
+export interface LiveView {
+  t: number | null;
+  volts: number | null;
+  amps: number | null;
+  watts: number | null;
+  tempCelsius: number | null;
+  tempChannel: string | null;
+  dischargeWh: number | null;
+  dischargeAh: number | null;
+  chargeWh: number | null;
+  chargeAh: number | null;
+  run: Run | null;
+  status: BenchStatus | null;
+  events: readonly RunEvent[];
+  /** Readings the server thinned away for this screen (display only; totals are unaffected). */
+  droppedReadings: number;
+  /** Bumped whenever the ring buffer changes, so the chart knows to redraw. */
+  dataVersion: number;
+}
+
+/** A topic before its first message. */
+export const EMPTY_LIVE_VIEW: LiveView = {
+  t: null, volts: null, amps: null, watts: null, tempCelsius: null, tempChannel: null,
+  dischargeWh: null, dischargeAh: null, chargeWh: null, chargeAh: null,
+  run: null, status: null, events: [], droppedReadings: 0, dataVersion: 0,
+};
+
+/** Archived history as the samples API answers it: min/max per bucket (equal at full resolution). */
+export interface HistoryColumns {
+  t: number[];
+  bucketSeconds: number | null;
+  volts: MinMax;
+  amps: MinMax;
+  watts: MinMax;
+  temps: Record<string, MinMax>;
+}
+/** One channel's bucket minima and maxima; null = no reading (a gap). */
+export interface MinMax {
+  min: (number | null)[];
+  max: (number | null)[];
+}
+
+/** Temperature channel shown when a reading has several (the cell is what protections watch). */
+const PREFERRED_TEMP_CHANNEL = 'cell';
+
+/** The channel a live screen shows: `cell` when present, else the first by name. */
+export function pickTempChannel(temps: Record<string, unknown>): string | null {
+  const names = Object.keys(temps);
+  if (names.length === 0) return null;
+  return names.includes(PREFERRED_TEMP_CHANNEL) ? PREFERRED_TEMP_CHANNEL : names.sort()[0];
+}
