@@ -17,6 +17,7 @@ import type { ServerMessage } from '../shared/schemas/ws.js';
 import { hashPassword } from '../server/auth/password.js';
 import { BATTERY_OPTIONAL_DEFAULTS } from '../server/db/models/battery.js';
 import { liveAttachment } from '../server/live/attach-live.js';
+import { benchModel } from '../server/benches/bench-model.js';
 import { startServer } from '../server/server.js';
 import { testConfig } from '../tests/integration/helpers/test-config.js';
 import { openBenchDb } from './bench-db.js';
@@ -78,6 +79,7 @@ export async function run(): Promise<Record<string, string | number>> {
     const battery = await Battery.create({ ...BATTERY_OPTIONAL_DEFAULTS, label: 'Soak pack', brand: 'Kestrel Energy', chemistry: 'lfp', cellsInSeries: 4, cellsInParallel: 1, ratedAh: 100, createdById: null });
     const recorder = server.ctx.services.runRecorder!;
     for (let b = 1; b <= BENCHES; b++) {
+      await benchModel(server.ctx.sequelize).create({ id: b, name: `Soak bench ${b}`, source: JSON.stringify({ kind: 'none' }), enabled: true, notes: '' });
       await recorder.start(
         { benchId: b, batteryId: battery.id, name: `Soak ${b}`, tags: [], kind: 'capacity-discharge', endVolts: null, acceptancePercent: 100, alarms: { onCutoff: true }, stopWhen: 'manual', targetAh: null, targetWh: null, afterRecoverySeconds: 0 },
         null,

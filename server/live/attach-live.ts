@@ -34,13 +34,15 @@ export function liveAttachment(options: LiveOptions = {}) {
       memoryLimitBytes: options.memoryLimitBytes,
       log: (m) => ctx.log.warn(m),
     });
-    const recorder = new RunRecorder({ repo, writer, getBattery: batteryLookup(ctx), log: (m, e) => ctx.log.error(m, e) });
+    const recorder = new RunRecorder({
+      repo, writer, getBattery: batteryLookup(ctx), benchExists: (id) => repo.benchExists(id), log: (m, e) => ctx.log.error(m, e),
+    });
     const hub = new LiveHub({
       source: {
         benchStatus: (id) => ctx.services.benchManager?.getStatus(id) ?? null,
         run: async (id) => {
           const s = recorder.session(id);
-          if (s) return { run: { ...s.run, readingsCount: s.readingsCount }, events: s.events };
+          if (s) return { run: recorder.liveView(s), events: s.events };
           const run = await repo.get(id);
           return run ? { run, events: (await repo.events(id)).map((e) => e.event) } : null;
         },

@@ -28,6 +28,8 @@ export interface RunRecorderDeps {
   repo: RunsRepo;
   writer: ArchiveWriter;
   getBattery: (id: number) => Promise<BatteryFacts | null>;
+  /** Checks a bench id before a run starts on it (default: any id is taken). */
+  benchExists?: (id: number) => Promise<boolean>;
   log?: (message: string, err?: unknown) => void;
   /** Injected timer (tests drive flushes by hand with `flushAll`). */
   setInterval?: (fn: () => void, ms: number) => { unref?: () => void };
@@ -89,6 +91,7 @@ export class RunRecorder {
   /** Starts a run on a bench (409 when the bench already records one). */
   async start(req: StartRequest, userId: number | null): Promise<Run> {
     if (this.byBench.has(req.benchId)) throw new HttpError(409, `Bench ${req.benchId} is already recording run ${this.byBench.get(req.benchId)}`);
+    if (this.deps.benchExists && !(await this.deps.benchExists(req.benchId))) throw new HttpError(400, `Bench ${req.benchId} does not exist`, { benchId: ['no such bench'] });
     const battery = await this.deps.getBattery(req.batteryId);
     if (!battery) throw new HttpError(400, `Battery ${req.batteryId} does not exist`, { batteryId: ['no such battery'] });
     const { benchId, batteryId, name, tags, ...config } = req;
@@ -130,6 +133,17 @@ export class RunRecorder {
     const session = this.sessions.get(run.id);
     if (session) session.run = { ...session.run, name: run.name, tags: run.tags };
     this.runChanges.emit(run);
+  }
+
+  /** A live run as viewers should see it now (the database row lags by up to a batch). */
+  liveView(session: RunSession): Run {
+    return { ...session.run, readingsCount: session.readingsCount, summary: session.summary() };
+  }
+
+  /** Overlays the live state on a run read from the database, when it is recording here. */
+  withLive(run: Run): Run {
+    const session = this.sessions.get(run.id);
+    return session ? { ...run, ...this.liveView(session), name: run.name, tags: run.tags } : run;
   }
 
   /** The live session of a run, if it is recording. */
@@ -182,7 +196,7 @@ export class RunRecorder {
     const out = session.push(frame);
     if (out.reading) this.readings.emit(session.run.id, out.reading);
     for (const e of out.events) this.emitEvent(session.run.id, e);
-    if (out.stateChanged) this.runChanges.emit({ ...session.run, readingsCount: session.readingsCount });
+    if (out.stateChanged) this.runChanges.emit(this.liveView(session));
     if (session.shouldFinish()) void this.endSession(session, 'finished').catch((err) => this.log(`run ${session.run.id} did not end cleanly`, err));
     else if (session.hasPending() && out.stateChanged) this.deps.writer.enqueue(session.takeBatch());
     else if (session.readingsCount % FLUSH_READINGS === 0) this.deps.writer.enqueue(session.takeBatch());

@@ -164,6 +164,12 @@ export class RunsRepo {
     return this.get(id);
   }
 
+  /** True when the ingest area's benches table has this id. */
+  async benchExists(id: number): Promise<boolean> {
+    const rows = await this.sequelize.query('SELECT id FROM benches WHERE id = ?', { replacements: [id], type: QueryTypes.SELECT });
+    return rows.length > 0;
+  }
+
   /** Every event of a run in time order. */
   async events(runId: number): Promise<StoredRunEvent[]> {
     const rows = await this.sequelize.query<{ id: number; runId: number; data: string; createdAt: Date | string }>(

@@ -7,6 +7,7 @@ import {
   StartRunRequestSchema,
   StopRunRequestSchema,
 } from '../../shared/schemas/api-runs.js';
+import type { Run } from '../../shared/schemas/run.js';
 import type { AppContext } from '../app-context.js';
 import { requireRole } from '../auth/guards.js';
 import { notFound } from '../http/http-error.js';
@@ -24,13 +25,15 @@ export function createRunsRouter(ctx: AppContext): Router {
   const router = Router();
   const repo = new RunsRepo(ctx.sequelize);
   const getBattery = batteryLookup(ctx);
+  const live = (run: Run) => ctx.services.runRecorder?.withLive(run) ?? run;
   const runOr404 = async (raw: string | string[] | undefined) => {
     const id = parseIdParam(raw);
     return (await repo.get(id)) ?? Promise.reject(notFound(`Run ${id}`));
   };
 
   router.get('/', requireRole('viewer'), async (req, res) => {
-    res.json(await repo.list(ListRunsQuerySchema.parse(req.query)));
+    const { runs, total } = await repo.list(ListRunsQuerySchema.parse(req.query));
+    res.json({ runs: runs.map(live), total });
   });
 
   router.post('/', requireRole('technician'), async (req, res) => {
@@ -41,7 +44,7 @@ export function createRunsRouter(ctx: AppContext): Router {
   router.post('/import', requireRole('technician'), createImportHandler(ctx, repo, getBattery));
 
   router.get('/:id', requireRole('viewer'), async (req, res) => {
-    res.json({ run: await runOr404(req.params.id) });
+    res.json({ run: live(await runOr404(req.params.id)) });
   });
 
   router.patch('/:id', requireRole('technician'), async (req, res) => {

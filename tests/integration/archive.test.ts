@@ -4,6 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { provisionMariaDb, type ProvisionedMariaDb } from '../../server/db/provisioner.js';
 import { BATTERY_OPTIONAL_DEFAULTS } from '../../server/db/models/battery.js';
 import { liveAttachment } from '../../server/live/attach-live.js';
+import { benchModel } from '../../server/benches/bench-model.js';
 import { startServer, type RunningServer } from '../../server/server.js';
 import { chunkExtent, readChunks } from '../../server/archive/chunk-store.js';
 import { RunsRepo } from '../../server/runs/runs-repo.js';
@@ -50,6 +51,8 @@ afterAll(async () => {
 });
 
 async function newRun(name: string, benchId: number) {
+  // A bench row without a source: this test drives frames by hand.
+  await benchModel(server.ctx.sequelize).findOrCreate({ where: { id: benchId }, defaults: { id: benchId, name: `Outage bench ${benchId}`, source: JSON.stringify({ kind: 'none' }), enabled: true, notes: '' } });
   const battery = await server.ctx.models.Battery.create({ ...BATTERY_OPTIONAL_DEFAULTS, label: name, brand: 'Kestrel Energy', chemistry: 'lfp', cellsInSeries: 4, cellsInParallel: 1, ratedAh: 20, createdById: null });
   return server.ctx.services.runRecorder!.start(
     { benchId, batteryId: battery.id, name, tags: [], kind: 'capacity-discharge', endVolts: null, acceptancePercent: 100, alarms: { onCutoff: true }, stopWhen: 'manual', targetAh: null, targetWh: null, afterRecoverySeconds: 0 },

@@ -41,7 +41,9 @@ describe('a live run', () => {
   it('refuses a viewer, and a start for a battery that does not exist', async () => {
     await viewer.post('/api/runs').send({ ...ids, name: 'x' }).expect(403);
     const res = await tech.post('/api/runs').send({ benchId: ids.benchId + 1000, batteryId: 999_999, name: 'x' }).expect(400);
-    expect(res.body.error.fields.batteryId).toBeDefined();
+    expect(res.body.error.fields.benchId).toBeDefined();
+    const res2 = await tech.post('/api/runs').send({ benchId: ids.benchId, batteryId: 999_999, name: 'x' }).expect(409);
+    expect(res2.body.error.message).toMatch(/already recording/);
   });
 
   it('integrates every frame on the server, cuts off at the end voltage and finishes by itself', async () => {
