@@ -1,9 +1,11 @@
 import { QueryClient } from '@tanstack/react-query';
 import { render } from '@testing-library/react';
-import type { ReactElement } from 'react';
+import type { ContextType, ReactElement } from 'react';
 import { createMemoryRouter, RouterProvider } from 'react-router-dom';
 import { vi } from 'vitest';
 import type { PublicUser } from '../../shared/schemas/user';
+import type { ServerMessage, Topic } from '../../shared/schemas/ws';
+import { LiveSocketContext } from '../lib/use-live';
 import { AppProvider } from '../app/provider';
 import { routes } from '../app/routes';
 
@@ -39,10 +41,33 @@ export function stubApi(user: PublicUser | null, handler: Handler = () => undefi
   return { fetchMock, calls };
 }
 
+type FakeSocket = NonNullable<ContextType<typeof LiveSocketContext>>;
+
+/** A live socket that answers every subscribe with `snapshot(topic)` (or nothing). */
+export function fakeLiveSocket(snapshot: (topic: Topic) => ServerMessage | null): FakeSocket {
+  return {
+    state: 'open',
+    onState: () => () => undefined,
+    subscribe: (topic, listener) => {
+      const message = snapshot(topic);
+      if (message) queueMicrotask(() => listener(message));
+      return () => undefined;
+    },
+  };
+}
+
 /** Renders the real route tree at `path` with a fresh, non-retrying query client. */
-export function renderAt(path: string) {
+export function renderAt(path: string, socket: FakeSocket = fakeLiveSocket(() => null)) {
   const queryClient = new QueryClient({ defaultOptions: { queries: { retry: false }, mutations: { retry: false } } });
   const router = createMemoryRouter(routes, { initialEntries: [path] });
-  const view = render((<AppProvider queryClient={queryClient}><RouterProvider router={router} /></AppProvider>) as ReactElement);
+  const view = render(
+    (
+      <LiveSocketContext.Provider value={socket}>
+        <AppProvider queryClient={queryClient}>
+          <RouterProvider router={router} />
+        </AppProvider>
+      </LiveSocketContext.Provider>
+    ) as ReactElement,
+  );
   return { ...view, router, queryClient };
 }

@@ -52,6 +52,11 @@ describe('a run from start to cutoff, through the real server, simulator and /ws
     await form.getByRole('button', { name: 'Arm the run' }).click();
 
     await page.getByRole('heading', { name: 'Kestrel camper 600 W capacity' }).waitFor();
+    // N jumps to the note box; the note comes back over /ws onto the timeline.
+    await page.keyboard.press('n');
+    await page.keyboard.type('Load on, fan on, ambient 23 °C');
+    await page.keyboard.press('Enter');
+    await page.getByRole('list', { name: 'Run events' }).getByText('Load on, fan on, ambient 23 °C').waitFor();
     await page.getByTestId('big-energy-out').filter({ hasText: /^[1-9]/ }).waitFor({ timeout: 30_000 });
     expect(await page.getByTestId('big-volts').textContent()).toMatch(/^1[0-4]\.\d\d$/);
     // Opened again half-way, the chart gets the archived start of the run, not only the last seconds.
