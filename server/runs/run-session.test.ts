@@ -1,0 +1,62 @@
+import { describe, expect, it } from 'vitest';
+import type { Run } from '../../shared/schemas/run.js';
+import { measureConfigFor } from './measure-config.js';
+import { RunSession } from './run-session.js';
+
+const baseRun = (over: Partial<Run> = {}): Run => ({
+  id: 1, name: 'r', tags: [], origin: 'live', benchId: 1, batteryId: null, kind: 'capacity-discharge', state: 'armed',
+  endVolts: { mode: 'absolute', volts: 10 }, acceptancePercent: 100, alarms: { onCutoff: true }, stopWhen: 'manual',
+  targetAh: null, targetWh: null, afterRecoverySeconds: 0, readingsCount: 0, summary: null, startedAt: null, endedAt: null,
+  createdBy: null, createdAt: '', updatedAt: '', ...over,
+});
+const session = (over: Partial<Run> = {}) => {
+  const run = baseRun(over);
+  return new RunSession(run, null, measureConfigFor(run, null));
+};
+
+describe('RunSession', () => {
+  it('goes armed → recording on the first reading and cutoff at the end voltage, with an alarm', () => {
+    const s = session();
+    expect(s.push({ t: 0, volts: 12, amps: 5, clock: 'device' }).stateChanged).toBe(true);
+    expect(s.state).toBe('recording');
+    let events: string[] = [];
+    for (let i = 1; i < 20; i++) events = events.concat(s.push({ t: i, volts: i < 10 ? 12 : 9.5, amps: 5, clock: 'device' }).events.map((e) => e.event.type));
+    expect(s.state).toBe('cutoff');
+    expect(events.filter((e) => e === 'cutoff')).toHaveLength(1);
+    expect(events.filter((e) => e === 'alarm')).toHaveLength(1);
+    // The end-voltage cutoff ends an after-recovery run (no reconnect follows it); manual never ends by itself.
+    expect(s.shouldFinish()).toBe(false);
+  });
+
+  it('stops a target-Ah run once the discharged charge reaches the target', () => {
+    // 3.6 A for 1,000 s = 1 Ah (constant current, exact).
+    const s = session({ stopWhen: 'target-ah', targetAh: 1, endVolts: null });
+    for (let i = 0; i < 1000; i++) s.push({ t: i, volts: 12, amps: 3.6, clock: 'device' });
+    expect(s.shouldFinish()).toBe(false);
+    s.push({ t: 1000, volts: 12, amps: 3.6, clock: 'device' });
+    expect(s.shouldFinish()).toBe(true);
+  });
+
+  it('finishes an after-recovery run the set time after an end-voltage cutoff', () => {
+    const s = session({ stopWhen: 'after-recovery', afterRecoverySeconds: 5 });
+    for (let i = 0; i < 40; i++) s.push({ t: i, volts: i < 10 ? 12 : 9, amps: 5, clock: 'device' });
+    expect(s.shouldFinish()).toBe(true);
+  });
+
+  it('hands each reading to the archive exactly once, with the state to resume from', () => {
+    const s = session();
+    for (let i = 0; i < 5; i++) s.push({ t: i, volts: 12, amps: 1, clock: 'device' });
+    const a = s.takeBatch();
+    for (let i = 5; i < 8; i++) s.push({ t: i, volts: 12, amps: 1, clock: 'device' });
+    const b = s.takeBatch();
+    expect([a.block!.firstSeq, a.block!.count, b.block!.firstSeq, b.block!.count]).toEqual([0, 5, 5, 3]);
+    expect(a.patch.state).toBe('recording');
+    expect(b.patch.state).toBeUndefined();
+    const resumed = new RunSession(baseRun({ state: 'recording' }), null, measureConfigFor(baseRun(), null), JSON.parse(b.patch.pipelineState!));
+    expect(resumed.readingsCount).toBe(8);
+    resumed.push({ t: 8, volts: 12, amps: 1, clock: 'device' });
+    // 8 s at 1 A across the hand-over: 8/3600 Ah.
+    expect(resumed.pipeline.totals().dischargeAh).toBeCloseTo(8 / 3600, 15);
+    expect(s.hasPending()).toBe(false);
+  });
+});
