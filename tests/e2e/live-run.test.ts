@@ -66,6 +66,12 @@ describe('a run from start to cutoff, through the real server, simulator and /ws
     await page.getByTestId('big-energy-out').filter({ hasText: /^[1-9]/ }).waitFor();
     await page.screenshot({ path: `${SCREENSHOT_DIR}/live-run-real.png`, fullPage: true });
 
+    // The overview carries the run's totals too.
+    await page.goto(`${t.url}/`);
+    await page.getByText('Kestrel camper 600 W capacity').waitFor();
+    await page.screenshot({ path: `${SCREENSHOT_DIR}/dashboard-live.png` });
+    await page.goto(benchUrl);
+
     await page.getByRole('alert').filter({ hasText: 'CUTOFF' }).waitFor({ timeout: CUTOFF_WAIT_MS });
     expect(await page.title()).toMatch(/CUTOFF/);
     await page.screenshot({ path: `${SCREENSHOT_DIR}/live-run-real-cutoff.png`, fullPage: true });

@@ -4,7 +4,7 @@ type Size = 'md' | 'lg' | 'room' | 'room-small';
 
 // Room size is for the full-screen view, read from three metres away.
 const VALUE_SIZE: Record<Size, string> = {
-  md: 'text-3xl',
+  md: 'text-4xl',
   lg: 'text-5xl md:text-6xl',
   room: 'text-[clamp(3.5rem,9vw,10rem)] leading-none',
   'room-small': 'text-[clamp(2rem,4.5vw,5rem)] leading-none',

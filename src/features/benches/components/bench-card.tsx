@@ -2,7 +2,7 @@ import { Link } from 'react-router-dom';
 import type { BenchWithStatus } from '../../../../shared/schemas/bench';
 import { BigNumber } from '../../../components/ui/big-number';
 import { BenchStatusBadge } from '../../../components/ui/state-badge';
-import { SIGNAL_COLORS } from '../../../lib/palette';
+import { RUN_STATE_COLORS, SIGNAL_COLORS } from '../../../lib/palette';
 import { formatAmps, formatTemperature, formatVolts, formatWatts } from '../../../lib/units';
 import { isLiveRun, useLatestBenchRun } from '../../../lib/current-run';
 import { useLiveStore, useLiveView } from '../../../lib/use-live';
@@ -19,7 +19,11 @@ export function BenchCard({ bench, temperatureUnit, energyUnit }: { bench: Bench
   const alarm = run?.state === 'cutoff';
 
   return (
-    <div className={`flex flex-col gap-4 rounded-2xl border-2 bg-surface-raised p-5 transition hover:border-accent ${alarm ? 'border-state-cutoff' : 'border-line'}`}>
+    <div
+      className={`flex flex-col gap-4 rounded-2xl border-2 border-l-8 bg-surface-raised p-5 transition hover:border-accent ${alarm ? 'border-state-cutoff' : 'border-line'}`}
+      // The left edge wears the run's state colour, the same one as the badge and the legend.
+      style={{ borderLeftColor: run ? RUN_STATE_COLORS[run.state] : undefined }}
+    >
       <Link to={`/benches/${bench.id}`} className="flex flex-col gap-4" aria-label={`Bench ${bench.name}`}>
         <div className="flex flex-wrap items-center justify-between gap-2">
           <h2 className="text-xl font-bold">{bench.name}</h2>
