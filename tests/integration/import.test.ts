@@ -4,6 +4,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { ImportResponseSchema } from '../../shared/schemas/api-runs.js';
 import { createTestContext, signInAs, type SignedInAgent, type TestContext } from './helpers/index.js';
 
 const NASA_CSV = fileURLToPath(new URL('../fixtures/nasa-pcoe-b0005-discharge-cycle1.csv', import.meta.url));
@@ -35,6 +36,7 @@ describe('POST /api/runs/import', () => {
       .field('currentSign', 'auto')
       .attach('file', NASA_CSV)
       .expect(201);
+    ImportResponseSchema.parse(res.body); // the shape the client validates with
     const s = res.body.summary;
     // Source: NASA Ames PCoE Li-ion Battery Aging Datasets (Saha & Goebel, 2007), B0005 cycle 1,
     // stated capacity 1.8564874208181574 Ah (trapezoid through the first sample below 2.7 V).

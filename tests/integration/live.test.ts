@@ -17,6 +17,8 @@ beforeAll(async () => {
   ids = await batteryAndBench(await signInAs(t, 'admin'));
 });
 afterAll(async () => {
+  // Every message any probe received matched the shared schema the client validates with.
+  expect(probes.flatMap((p) => p.invalid)).toEqual([]);
   for (const p of probes) p.close();
   await t?.close();
 });

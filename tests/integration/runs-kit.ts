@@ -4,7 +4,7 @@ import { join } from 'node:path';
 import WebSocket from 'ws';
 import type { BenchStatus } from '../../shared/schemas/bench.js';
 import type { Frame } from '../../shared/schemas/frame.js';
-import type { ServerMessage } from '../../shared/schemas/ws.js';
+import { ServerMessageSchema, type ServerMessage } from '../../shared/schemas/ws.js';
 import type { FrameFeed } from '../../server/runs/run-recorder.js';
 import { csrfAgent, TEST_PASSWORD, TEST_USERS, type SignedInAgent, type TestContext } from './helpers/index.js';
 
@@ -43,10 +43,15 @@ export async function sessionCookie(t: { url: string }, role: keyof typeof TEST_
 /** A WebSocket client that records every message; `next(pred)` waits for one. */
 export class WsProbe {
   readonly messages: ServerMessage[] = [];
+  /** Messages that did not match the shared ServerMessage schema (should stay empty). */
+  readonly invalid: { message: unknown; issue: string }[] = [];
   private waiters: { pred: (m: ServerMessage) => boolean; resolve: (m: ServerMessage) => void }[] = [];
   constructor(readonly ws: WebSocket) {
     ws.on('message', (data) => {
-      const m = JSON.parse(String(data)) as ServerMessage;
+      const raw: unknown = JSON.parse(String(data));
+      const checked = ServerMessageSchema.safeParse(raw);
+      if (!checked.success) this.invalid.push({ message: raw, issue: checked.error.issues[0]?.message ?? '?' });
+      const m = raw as ServerMessage;
       this.messages.push(m);
       this.waiters = this.waiters.filter((w) => (w.pred(m) ? (w.resolve(m), false) : true));
     });

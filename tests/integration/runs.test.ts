@@ -1,5 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { liveAttachment } from '../../server/live/attach-live.js';
+import { ListRunsResponseSchema, RunEventsResponseSchema, RunResponseSchema, SamplesResponseSchema } from '../../shared/schemas/api-runs.js';
 import { createTestContext, signInAs, type SignedInAgent, type TestContext } from './helpers/index.js';
 import { batteryAndBench, eventually, ManualFeed, tempSpillDir } from './runs-kit.js';
 
@@ -53,7 +54,10 @@ describe('a live run', () => {
       expect(r.body.run.state).toBe('finished');
       return r.body.run;
     });
-    const events = (await viewer.get(`/api/runs/${runId}/events`).expect(200)).body.events.map((e: { event: { type: string } }) => e.event);
+    const eventsBody = (await viewer.get(`/api/runs/${runId}/events`).expect(200)).body;
+    RunEventsResponseSchema.parse(eventsBody); // the shape the client validates with
+    RunResponseSchema.parse({ run });
+    const events = eventsBody.events.map((e: { event: { type: string } }) => e.event);
     const cutoffs = events.filter((e: { type: string }) => e.type === 'cutoff');
     expect(cutoffs).toHaveLength(1);
     const cut = cutoffs[0];
@@ -72,7 +76,7 @@ describe('a live run', () => {
   });
 
   it('serves the history reduced to min/max buckets, and in full for a small window', async () => {
-    const reduced = (await viewer.get(`/api/runs/${runId}/samples?maxPoints=100`).expect(200)).body;
+    const reduced = SamplesResponseSchema.parse((await viewer.get(`/api/runs/${runId}/samples?maxPoints=100`).expect(200)).body);
     expect(reduced.reduced).toBe(true);
     expect(reduced.t).toHaveLength(100);
     expect(reduced.volts.max[0]).toBeCloseTo(V0, 9);
@@ -116,7 +120,7 @@ describe('a live run', () => {
     await tech.post(`/api/runs/${runId}/events`).send({ text: '' }).expect(400);
     await viewer.patch(`/api/runs/${runId}`).send({ name: 'nope' }).expect(403);
     await tech.patch(`/api/runs/${runId}`).send({ name: 'Capacity Voltara A-12 (repeat)', tags: ['repeat'] }).expect(200);
-    const byName = (await viewer.get('/api/runs?q=repeat').expect(200)).body;
+    const byName = ListRunsResponseSchema.parse((await viewer.get('/api/runs?q=repeat').expect(200)).body);
     expect(byName.runs.map((r: { id: number }) => r.id)).toEqual([runId]);
     expect((await viewer.get('/api/runs?tag=repeat')).body.total).toBe(1);
     expect((await viewer.get('/api/runs?tag=acceptance')).body.total).toBe(0);
