@@ -23,4 +23,13 @@ describe('route guard', () => {
     renderAt('/users');
     expect(await screen.findByText('Not available for your role')).toBeTruthy();
   });
+
+  it('sends the user to sign-in when the session ends while a page is open (a 401 from any call)', async () => {
+    stubApi(demoUser('technician'), (url) =>
+      url === '/api/batteries' ? { status: 401, body: { error: { message: 'Sign in first' } } } : undefined,
+    );
+    const { router } = renderAt('/batteries');
+    await waitFor(() => expect(router.state.location.pathname).toBe('/sign-in'));
+    expect(router.state.location.search).toBe(`?next=${encodeURIComponent('/batteries')}`);
+  });
 });

@@ -125,6 +125,9 @@ export class LiveStore {
       case 'status':
         this.update({ status: message.status });
         break;
+      case 'error':
+        this.update({ error: message.message });
+        break;
       default:
         break;
     }

@@ -19,6 +19,8 @@ export interface LiveView {
   events: readonly RunEvent[];
   /** Readings the server thinned away for this screen (display only; totals are unaffected). */
   droppedReadings: number;
+  /** The server's complaint about this topic (unknown run, not allowed), if any. */
+  error: string | null;
   /** Bumped whenever the ring buffer changes, so the chart knows to redraw. */
   dataVersion: number;
 }
@@ -27,7 +29,7 @@ export interface LiveView {
 export const EMPTY_LIVE_VIEW: LiveView = {
   t: null, volts: null, amps: null, watts: null, tempCelsius: null, tempChannel: null,
   dischargeWh: null, dischargeAh: null, chargeWh: null, chargeAh: null,
-  run: null, status: null, events: [], droppedReadings: 0, dataVersion: 0,
+  run: null, status: null, events: [], droppedReadings: 0, error: null, dataVersion: 0,
 };
 
 /** Archived history as the samples API answers it: min/max per bucket (equal at full resolution). */

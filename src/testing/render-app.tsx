@@ -1,4 +1,3 @@
-import { QueryClient } from '@tanstack/react-query';
 import { render } from '@testing-library/react';
 import type { ContextType, ReactElement } from 'react';
 import { createMemoryRouter, RouterProvider } from 'react-router-dom';
@@ -6,6 +5,7 @@ import { vi } from 'vitest';
 import type { PublicUser } from '../../shared/schemas/user';
 import type { ServerMessage, Topic } from '../../shared/schemas/ws';
 import { LiveSocketContext } from '../lib/use-live';
+import { createQueryClient } from '../lib/query-client';
 import { AppProvider } from '../app/provider';
 import { routes } from '../app/routes';
 
@@ -58,7 +58,9 @@ export function fakeLiveSocket(snapshot: (topic: Topic) => ServerMessage | null)
 
 /** Renders the real route tree at `path` with a fresh, non-retrying query client. */
 export function renderAt(path: string, socket: FakeSocket = fakeLiveSocket(() => null)) {
-  const queryClient = new QueryClient({ defaultOptions: { queries: { retry: false }, mutations: { retry: false } } });
+  // The app's own client (with its 401 handling), minus retries so failures show at once.
+  const queryClient = createQueryClient();
+  queryClient.setDefaultOptions({ ...queryClient.getDefaultOptions(), queries: { ...queryClient.getDefaultOptions().queries, retry: false } });
   const router = createMemoryRouter(routes, { initialEntries: [path] });
   const view = render(
     (

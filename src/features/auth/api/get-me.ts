@@ -2,6 +2,7 @@ import { queryOptions, useQuery } from '@tanstack/react-query';
 import { z } from 'zod';
 import { PublicUserSchema, type PublicUser } from '../../../../shared/schemas/user';
 import { api, ApiError } from '../../../lib/api-client';
+import { ME_QUERY_KEY } from '../../../lib/session';
 
 const HTTP_UNAUTHORIZED = 401;
 
@@ -19,7 +20,7 @@ export async function getMe(): Promise<PublicUser | null> {
   }
 }
 
-export const ME_QUERY_KEY = ['auth', 'me'] as const;
+export { ME_QUERY_KEY };
 
 /** Query options for the current user; shared by the guard, the layout and the sign-in page. */
 export const meQueryOptions = () => queryOptions({ queryKey: ME_QUERY_KEY, queryFn: getMe, staleTime: Infinity });

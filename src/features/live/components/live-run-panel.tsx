@@ -45,6 +45,11 @@ export function LiveRunPanel({ runId, label, roomViewPath, canAct, onClose }: Pr
   return (
     <div className="flex flex-col gap-4">
       <CutoffAlarm store={store} label={label} />
+      {view.error && (
+        <p role="alert" className="rounded-lg border border-state-cutoff/60 bg-state-cutoff/10 p-3 text-sm">
+          Live data for this run is unavailable: {view.error}
+        </p>
+      )}
       <div className="flex flex-wrap items-center justify-between gap-3">
         <div className="flex flex-wrap items-center gap-3">
           <h2 className="text-xl font-bold">{run?.name ?? `Run ${runId}`}</h2>
