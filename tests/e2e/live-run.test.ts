@@ -89,6 +89,9 @@ describe('a run from start to cutoff, through the real server, simulator and /ws
     expect(await page.evaluate(`document.documentElement.classList.contains('dark')`)).toBe(false);
     await page.getByTestId('history-chart').locator('canvas').waitFor();
     await page.screenshot({ path: `${SCREENSHOT_DIR}/run-detail-light.png`, fullPage: true });
+    await page.emulateMedia({ media: 'print' });
+    await page.screenshot({ path: `${SCREENSHOT_DIR}/run-report-print.png`, fullPage: true });
+    expect(await page.getByRole('navigation', { name: 'Main' }).isVisible()).toBe(false);
     await page.close();
   });
 });

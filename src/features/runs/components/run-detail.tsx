@@ -14,6 +14,7 @@ import { formatElapsedClock } from '../../../lib/units';
 import { useRun, useRunEvents } from '../api/get-run';
 import { useRunSamples, type SampleWindow } from '../api/get-run-samples';
 import { RunLabelEditor } from './run-label-editor';
+import { RunSetupPanel } from './run-setup-panel';
 import { RunSummaryPanel } from './run-summary-panel';
 
 /** About one bucket per horizontal pixel of a wide chart. */
@@ -50,6 +51,9 @@ export function RunDetail({ runId, canEdit = false }: { runId: number; canEdit?:
 
   return (
     <>
+      <p className="mb-2 hidden text-sm text-ink-muted print:block">
+        {settings.labName} · Run report · printed {formatLabTime(new Date().toISOString(), settings.timeZone)}
+      </p>
       <PageHeader
         title={r.name}
         subtitle={
@@ -91,6 +95,9 @@ export function RunDetail({ runId, canEdit = false }: { runId: number; canEdit?:
             <RunLabelEditor run={r} onDone={() => setEditing(false)} />
           </Card>
         )}
+        <Card className="p-6">
+          <RunSetupPanel run={r} />
+        </Card>
         {r.summary ? (
           <Card className="p-6">
             <RunSummaryPanel summary={r.summary} temperatureUnit={settings.temperatureUnit} energyUnit={settings.energyUnit} />
