@@ -32,5 +32,6 @@ export function measureConfigFor(config: RunConfig, battery: BatteryFacts | null
     if (ev.cellsInSeries) out.cellsInSeries = ev.cellsInSeries;
   }
   if (config.alarms.nearEndMarginVolts !== undefined) out.warnMarginVolts = config.alarms.nearEndMarginVolts;
+  if (config.tempProtections?.length) out.tempProtections = config.tempProtections;
   return out;
 }

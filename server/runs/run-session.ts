@@ -103,10 +103,17 @@ export class RunSession {
         this.setState('recovered');
       }
     }
-    const high = this.run.alarms.highTempCelsius;
-    if (high !== undefined && !this.snap.tempAlarmRaised && reading.temps && Object.values(reading.temps).some((c) => c >= high)) {
-      this.snap.tempAlarmRaised = true;
-      out.push(this.addEvent({ type: 'alarm', t: reading.elapsedSeconds, level: 'warning', code: 'over-temperature', message: `Temperature reached ${high} °C` }));
+    const { highTempCelsius: high, lowTempCelsius: low } = this.run.alarms;
+    // One temperature alarm per run: it calls a person; the chart shows the rest.
+    if (!this.snap.tempAlarmRaised && reading.temps) {
+      const temps = Object.values(reading.temps);
+      const hot = high !== undefined && temps.some((c) => c >= high);
+      const cold = low !== undefined && temps.some((c) => c <= low);
+      if (hot || cold) {
+        this.snap.tempAlarmRaised = true;
+        const message = hot ? `Temperature reached ${high} °C` : `Temperature fell to ${low} °C`;
+        out.push(this.addEvent({ type: 'alarm', t: reading.elapsedSeconds, level: 'warning', code: hot ? 'over-temperature' : 'under-temperature', message }));
+      }
     }
     return { reading, events: out, stateChanged: this.snap.state !== before };
   }

@@ -3,6 +3,7 @@ import { z } from 'zod';
 import type { ListRunsQuery, StoredRunEvent } from '../../shared/schemas/api-runs.js';
 import { RunEventSchema, type RunEvent } from '../../shared/schemas/run-event.js';
 import { RunSummarySchema } from '../../shared/schemas/run-summary.js';
+import { TempProtectionSchema } from '../../shared/schemas/measure-config.js';
 import { EndVoltsSchema, RunAlarmsSchema, RunKindSchema, StopWhenSchema, LIVE_RUN_STATES, type Run, type RunState } from '../../shared/schemas/run.js';
 
 /** Settings of a run kept together in the `config` column (JSON). */
@@ -12,6 +13,7 @@ export const RunConfigSchema = z.object({
   acceptancePercent: z.number(),
   alarms: RunAlarmsSchema,
   stopWhen: StopWhenSchema,
+  tempProtections: z.array(TempProtectionSchema).optional(),
   targetAh: z.number().nullable(),
   targetWh: z.number().nullable(),
   afterRecoverySeconds: z.number(),

@@ -8,6 +8,7 @@ import {
   StopWhenSchema,
 } from './run.js';
 import { RunEventSchema } from './run-event.js';
+import { TempProtectionSchema } from './measure-config.js';
 import { RunSummarySchema } from './run-summary.js';
 
 const id = z.coerce.number().int().positive();
@@ -25,6 +26,7 @@ export const StartRunRequestSchema = z
     acceptancePercent: z.number().finite().positive().max(1000).default(100),
     alarms: RunAlarmsSchema.default({ onCutoff: true }),
     stopWhen: StopWhenSchema.default('after-recovery'),
+    tempProtections: z.array(TempProtectionSchema).max(8).default([]),
     targetAh: z.number().finite().positive().nullable().default(null),
     targetWh: z.number().finite().positive().nullable().default(null),
     afterRecoverySeconds: z.number().finite().nonnegative().max(86_400).default(0),

@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { RunSummarySchema } from './run-summary.js';
+import { TempProtectionSchema } from './measure-config.js';
 
 /** What a run is for; decides which detectors matter and how the verdict is read. */
 export const RunKindSchema = z.enum(['capacity-discharge', 'charge', 'protection-check', 'custom']);
@@ -59,6 +60,8 @@ export const RunSchema = z.object({
   acceptancePercent: z.number().finite().positive().max(1000),
   alarms: RunAlarmsSchema,
   stopWhen: StopWhenSchema,
+  /** Temperature protections to time (protection checks): limit crossed → current ≈ 0 A. Absent = none. */
+  tempProtections: z.array(TempProtectionSchema).optional(),
   /** Ah delivered at which a `target-ah` run stops. */
   targetAh: z.number().finite().positive().nullable(),
   /** Wh delivered at which a `target-wh` run stops. */

@@ -129,6 +129,33 @@ describe('a live run', () => {
     await viewer.get('/api/runs?state=boiling').expect(400);
   });
 
+  it('times a temperature protection on a protection-check run and raises the temperature alarm once', async () => {
+    const res = await tech
+      .post('/api/runs')
+      .send({
+        ...ids, name: 'Hot cutoff check', kind: 'protection-check', stopWhen: 'manual', alarms: { highTempCelsius: 55 },
+        tempProtections: [{ kind: 'high-temp-discharge', channel: 'cell', limitCelsius: 60, direction: 'above', current: 'discharge' }],
+      })
+      .expect(201);
+    expect(res.body.run.tempProtections).toHaveLength(1);
+    // Cell warms 0.5 °C/s from 50 °C, crosses 60 °C at s = 20; the pack opens 12 s later (a made-up delay for the check).
+    const TRIP_DELAY_S = 12;
+    for (let s = 0; s < 60; s++) {
+      const tempC = 50 + s * 0.5;
+      feed.emit(ids.benchId, { t: 30_000 + s, volts: 13, amps: s < 20 + TRIP_DELAY_S ? 5 : 0, temps: { cell: tempC }, clock: 'device' });
+    }
+    await tech.post(`/api/runs/${res.body.run.id}/stop`).send({}).expect(200);
+    const events = await eventually(async () => {
+      const e = (await viewer.get(`/api/runs/${res.body.run.id}/events`)).body.events.map((x: { event: { type: string } }) => x.event);
+      expect(e.map((x: { type: string }) => x.type)).toContain('run-stop');
+      return e;
+    });
+    const trip = events.find((e: { type: string }) => e.type === 'protection-trip');
+    expect(trip).toMatchObject({ kind: 'high-temp-discharge', channel: 'cell', limitCelsius: 60 });
+    expect(Math.abs(trip.delaySeconds - TRIP_DELAY_S)).toBeLessThanOrEqual(1); // within one sample period
+    expect(events.filter((e: { type: string; code?: string }) => e.type === 'alarm' && e.code === 'over-temperature')).toHaveLength(1);
+  });
+
   it('aborts a run by hand and keeps what was recorded', async () => {
     const res = await tech.post('/api/runs').send({ ...ids, name: 'Manual stop', stopWhen: 'manual' }).expect(201);
     for (let s = 0; s < 50; s++) feed.emit(ids.benchId, { t: 20_000 + s, volts: 13, amps: 2, clock: 'device' });
