@@ -86,7 +86,7 @@ export function BenchLivePage({ benchId, canAct, canSetUp = false }: { benchId: 
           {canAct ? (
             <Card className="p-6">
               <h2 className="mb-4 text-lg font-bold">Start a run on {bench.data.name}</h2>
-              <StartRunForm benchId={benchId} onStarted={setPinnedRunId} />
+              <StartRunForm benchId={benchId} onStarted={setPinnedRunId} packCelsius={view.tempCelsius} />
             </Card>
           ) : (
             <p className="text-ink-muted">No run on this bench right now.</p>

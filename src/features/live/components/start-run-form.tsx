@@ -10,6 +10,7 @@ import { ApiError } from '../../../lib/api-client';
 import { useLabSettings } from '../../../lib/lab-settings';
 import { useBatteryOptions } from '../api/get-battery-options';
 import { useStartRun } from '../api/start-run';
+import { contextualCautions } from './contextual-cautions';
 
 interface Values {
   batteryId: string;
@@ -36,7 +37,7 @@ const STOP_OPTIONS = [
 ] as const;
 
 /** Arms a run on a bench: pack, kind, end voltage, acceptance and when to stop. */
-export function StartRunForm({ benchId, onStarted }: { benchId: number; onStarted: (runId: number) => void }) {
+export function StartRunForm({ benchId, onStarted, packCelsius = null }: { benchId: number; onStarted: (runId: number) => void; packCelsius?: number | null }) {
   const batteries = useBatteryOptions(true);
   const settings = useLabSettings();
   const start = useStartRun();
@@ -44,6 +45,7 @@ export function StartRunForm({ benchId, onStarted }: { benchId: number; onStarte
     defaultValues: { batteryId: '', name: '', kind: 'capacity-discharge', endVoltsPerCell: '', acceptancePercent: String(settings.acceptancePercent), stopWhen: 'after-recovery', target: '' },
   });
   const stopWhen = watch('stopWhen');
+  const kind = watch('kind');
   const batteryId = Number(watch('batteryId'));
   const battery = batteries.data?.find((b) => b.id === batteryId);
   const defaultEnd = battery ? settings.endVoltsPerCell[battery.chemistry] ?? DEFAULT_END_VOLTS_PER_CELL[battery.chemistry] : null;
@@ -94,6 +96,16 @@ export function StartRunForm({ benchId, onStarted }: { benchId: number; onStarte
             {...register('target', { validate: (v) => Number(v) > 0 || 'Enter the target.' })}
           />
         )}
+        {battery &&
+          contextualCautions(battery.chemistry, kind, packCelsius).map((c) => (
+            <p
+              key={c.text}
+              role={c.severe ? 'alert' : undefined}
+              className={`rounded-lg p-3 text-sm md:col-span-2 ${c.severe ? 'bg-state-cutoff font-bold text-white' : 'border border-caution/50 bg-caution-surface text-ink'}`}
+            >
+              {c.text}
+            </p>
+          ))}
         {start.isError && (
           <p role="alert" className="text-sm font-medium text-state-cutoff md:col-span-2">
             {start.error instanceof Error ? start.error.message : 'The run did not start.'}

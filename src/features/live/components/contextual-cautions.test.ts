@@ -1,0 +1,21 @@
+import { describe, expect, it } from 'vitest';
+import { contextualCautions } from './contextual-cautions';
+
+// Common practice (cell makers' datasheets): lithium cells must not be charged below 0 °C.
+describe('contextual cautions', () => {
+  it('warns loudly about charging a cold lithium pack', () => {
+    const cautions = contextualCautions('lfp', 'charge', -4.5);
+    expect(cautions[0].severe).toBe(true);
+    expect(cautions[0].text).toContain('-4.5 °C');
+  });
+
+  it('only reminds when the lithium pack is warm enough or not charging', () => {
+    expect(contextualCautions('lfp', 'charge', 18).some((c) => c.severe)).toBe(false);
+    expect(contextualCautions('nmc', 'capacity-discharge', -10).some((c) => c.severe)).toBe(false);
+  });
+
+  it('names hydrogen for lead-acid and not for lithium', () => {
+    expect(contextualCautions('lead-acid', 'charge', 20).map((c) => c.text).join(' ')).toMatch(/hydrogen/);
+    expect(contextualCautions('lfp', 'charge', 20).map((c) => c.text).join(' ')).not.toMatch(/hydrogen/);
+  });
+});
