@@ -82,6 +82,11 @@ describe('live bench page (live stream played by a /ws peer that speaks shared/s
 
     await page.keyboard.press('Escape');
     await page.waitForURL(new RegExp(`/benches/${benchA.id}$`));
+    // A technician's phone: the same page must stay usable at 390 px.
+    await page.setViewportSize({ width: 390, height: 844 });
+    await page.getByTestId('big-volts').filter({ hasText: /^\d/ }).waitFor();
+    await page.screenshot({ path: `${SCREENSHOT_DIR}/live-bench-phone.png` });
+    await page.setViewportSize({ width: 1440, height: 900 });
     await page.keyboard.press('a');
     await banner.waitFor({ state: 'detached' });
 

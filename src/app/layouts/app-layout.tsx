@@ -20,19 +20,19 @@ export function AppLayout() {
 
   return (
     <div className="flex min-h-screen flex-col md:flex-row">
-      <aside className="flex shrink-0 print:hidden flex-col gap-4 border-b border-line bg-surface-sunken p-4 md:w-60 md:border-r md:border-b-0">
+      <aside className="flex shrink-0 flex-wrap items-center gap-2 border-b border-line bg-surface-sunken p-3 md:w-60 md:flex-col md:flex-nowrap md:items-stretch md:gap-4 md:border-r md:border-b-0 md:p-4 print:hidden">
         <div className="flex items-center gap-3">
           <Logo />
           <span className="text-lg font-bold tracking-tight">Kneepoint</span>
         </div>
-        <nav aria-label="Main" className="flex flex-row flex-wrap gap-1 md:flex-col">
+        <nav aria-label="Main" className="order-last flex w-full flex-row gap-1 overflow-x-auto md:order-none md:w-auto md:flex-col">
           {items.map((item) => (
             <NavLink
               key={item.to}
               to={item.to}
               end={item.to === '/'}
               className={({ isActive }) =>
-                `flex min-h-11 items-center rounded-lg px-3 text-base font-medium ${
+                `flex min-h-11 shrink-0 items-center rounded-lg px-3 text-base font-medium ${
                   isActive ? 'bg-accent text-accent-ink' : 'text-ink-muted hover:bg-surface-raised hover:text-ink'
                 }`
               }
@@ -41,9 +41,9 @@ export function AppLayout() {
             </NavLink>
           ))}
         </nav>
-        <div className="mt-auto flex flex-col gap-2 border-t border-line pt-4">
+        <div className="ml-auto flex items-center gap-2 md:mt-auto md:ml-0 md:flex-col md:items-stretch md:border-t md:border-line md:pt-4">
           {user && (
-            <div className="text-sm">
+            <div className="hidden text-sm md:block">
               <p className="font-semibold text-ink" data-testid="current-user">
                 {user.name}
               </p>
