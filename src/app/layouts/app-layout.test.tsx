@@ -1,4 +1,5 @@
 import { screen, within } from '@testing-library/react';
+import userEvent from '@testing-library/user-event';
 import { describe, expect, it } from 'vitest';
 import { demoUser, renderAt, stubApi } from '../../testing/render-app';
 
@@ -35,5 +36,18 @@ describe('navigation by role', () => {
     stubApi(demoUser('technician'), (url) => (url === '/api/batteries' ? { status: 200, body: { batteries: [] } } : undefined));
     renderAt('/batteries');
     expect(await screen.findByRole('button', { name: 'Register a pack' })).toBeTruthy();
+  });
+});
+
+describe('keyboard shortcut list', () => {
+  it('opens with ? and closes with Escape', async () => {
+    stubApi(demoUser('technician'));
+    renderAt('/account');
+    await screen.findByRole('navigation', { name: 'Main' });
+    expect(screen.queryByRole('dialog', { name: 'Keyboard shortcuts' })).toBeNull();
+    await userEvent.keyboard('?');
+    expect(screen.getByRole('dialog', { name: 'Keyboard shortcuts' }).textContent).toContain('Write a note on the run');
+    await userEvent.keyboard('{Escape}');
+    expect(screen.queryByRole('dialog', { name: 'Keyboard shortcuts' })).toBeNull();
   });
 });

@@ -3,6 +3,7 @@ import { useMe } from '../../features/auth/api/get-me';
 import { useLogout } from '../../features/auth/api/logout';
 import { Logo } from '../../components/ui/logo';
 import { ThemeToggle } from '../../components/ui/theme-toggle';
+import { ShortcutHelp } from '../../components/ui/shortcut-help';
 import { navItemsFor } from '../nav-items';
 import { RouteErrorBoundary } from './route-error-boundary';
 
@@ -48,6 +49,9 @@ export function AppLayout() {
                 {user.name}
               </p>
               <p className="text-ink-faint">{ROLE_LABEL[user.role]}</p>
+              <p className="mt-1 text-xs text-ink-faint">
+                Shortcuts: <kbd className="num rounded border border-line px-1">?</kbd>
+              </p>
             </div>
           )}
           <div className="flex gap-2">
@@ -62,6 +66,7 @@ export function AppLayout() {
           </div>
         </div>
       </aside>
+      <ShortcutHelp />
       <main className="min-w-0 flex-1 p-4 md:p-8 print:p-0">
         <RouteErrorBoundary>
           <Outlet />
