@@ -83,6 +83,18 @@ describe('a run from start to cutoff, through the real server, simulator and /ws
     await page.getByRole('link', { name: 'Kestrel camper 600 W capacity' }).click();
     await page.getByTestId('history-chart').locator('canvas').waitFor();
     expect(await page.getByText(/Cutoff \(/).count()).toBeGreaterThan(0);
+    // Drag across the last tenth of the chart: the page asks the server for that window again.
+    const over = page.getByTestId('history-chart').locator('.u-over');
+    await over.scrollIntoViewIfNeeded();
+    const box = (await over.boundingBox())!;
+    const zoomed = page.waitForResponse((r) => /\/samples\?.*from=.*to=/.test(r.url()) && r.status() === 200);
+    await page.mouse.move(box.x + box.width * 0.9, box.y + box.height / 2);
+    await page.mouse.down();
+    await page.mouse.move(box.x + box.width * 0.99, box.y + box.height / 2, { steps: 5 });
+    await page.mouse.up();
+    await zoomed;
+    await page.getByRole('button', { name: 'Whole run' }).and(page.locator(':enabled')).waitFor();
+    await page.getByTestId('history-chart').screenshot({ path: `${SCREENSHOT_DIR}/run-detail-zoomed-chart.png` });
     await page.screenshot({ path: `${SCREENSHOT_DIR}/run-detail.png`, fullPage: true });
     // The light "report" theme, as a client would print it.
     await page.getByRole('button', { name: /Switch to light/ }).click();

@@ -69,6 +69,14 @@ describe('each demo role signs in and sees what it may do', () => {
     await page.locator('table tbody tr').first().waitFor();
     for (const a of DEMO_ACCOUNTS) expect(await page.getByText(a.email).count()).toBe(1);
     await page.screenshot({ path: `${SCREENSHOT_DIR}/users-admin.png` });
+    await page.getByRole('button', { name: 'Create user' }).click();
+    const form = page.getByRole('form', { name: 'Create a user' });
+    await form.getByLabel('Name').fill('Ines Okafor');
+    await form.getByLabel('E-mail').fill('ines@harbourstreet.example');
+    await form.getByLabel('Role').selectOption('viewer');
+    await form.getByLabel('Starting password').fill('harbour-street-client');
+    await form.getByRole('button', { name: 'Create user' }).click();
+    await page.getByRole('cell', { name: 'ines@harbourstreet.example' }).waitFor();
     await page.close();
   });
 
@@ -97,6 +105,13 @@ describe('each demo role signs in and sees what it may do', () => {
     await page.getByRole('button', { name: 'Register a pack' }).waitFor();
     await page.getByRole('button', { name: 'Register a pack' }).click();
     expect(await page.getByRole('region', { name: 'Safety cautions' }).isVisible()).toBe(true);
+    const form = page.getByRole('form', { name: 'Register a pack' });
+    await form.getByLabel('Label').fill('NG-0150');
+    await form.getByLabel('Brand').fill('Voltara');
+    await form.getByLabel('Cells in series').fill('8');
+    await form.getByLabel('Rated capacity (Ah)').fill('100');
+    await form.getByRole('button', { name: 'Register pack' }).click();
+    await page.getByRole('cell', { name: 'NG-0150' }).waitFor();
     await page.goto(`${t.url}/users`);
     await page.getByText('Not available for your role').waitFor();
     await page.close();
