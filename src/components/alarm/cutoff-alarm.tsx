@@ -4,6 +4,7 @@ import type { LiveStore } from '../../lib/live-store';
 import { useLiveView } from '../../lib/use-live';
 import { useShortcut } from '../../lib/use-shortcut';
 import { describeEvent } from '../ui/run-events-list';
+import { MonoNumbers } from '../ui/mono-numbers';
 import { useCutoffAlarm } from './use-cutoff-alarm';
 
 const TITLE_FLASH_MS = 1_000;
@@ -58,7 +59,8 @@ export function CutoffAlarm({ store, label, sound, size = 'normal' }: { store: L
     <div role="alert" className={`alarm-pulse flex flex-wrap items-center justify-between gap-3 rounded-2xl bg-state-cutoff text-white shadow-lg ${size === 'compact' ? 'p-3' : 'p-5'}`}>
       <div>
         <p className={`${HEADLINE[size]} font-black tracking-tight`}>{alarm.event.type === 'cutoff' ? 'CUTOFF' : 'ALARM'} · {label}</p>
-        <p className={`mt-1 font-medium ${DETAIL[size]}`}>{describeEvent(alarm.event)}</p>
+        <p className={`mt-1 font-medium ${DETAIL[size]}`}><MonoNumbers text={describeEvent(alarm.event)} />
+        </p>
       </div>
       <button
         type="button"

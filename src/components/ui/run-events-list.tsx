@@ -1,3 +1,4 @@
+import { MonoNumbers } from './mono-numbers';
 import type { RunEvent } from '../../../shared/schemas/run-event';
 import { RUN_STATE_COLORS, SIGNAL_COLORS } from '../../lib/palette';
 import { formatAmps, formatCharge, formatDuration, formatElapsedClock, formatEnergy, formatTemperature, formatVolts } from '../../lib/units';
@@ -65,7 +66,9 @@ export function RunEventsList({ events, temperatureUnit = 'C' }: { events: reado
       {newestFirst.map((e, i) => (
         <li key={`${e.t}-${e.type}-${i}`} className="flex gap-3 border-l-4 pl-3 text-sm" style={{ borderColor: eventColor(e) }}>
           <span className="num shrink-0 text-ink-muted">{formatElapsedClock(e.t)}</span>
-          <span className="text-ink">{describeEvent(e, temperatureUnit)}</span>
+          <span className="text-ink">
+            <MonoNumbers text={describeEvent(e, temperatureUnit)} />
+          </span>
         </li>
       ))}
     </ol>
