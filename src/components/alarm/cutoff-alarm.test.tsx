@@ -76,4 +76,20 @@ describe('cutoff alarm', () => {
     expect(screen.getByRole('alert').textContent).toContain('CUTOFF · Bench 2');
     expect(document.title).toBe('⚠ CUTOFF · Bench 2');
   });
+
+  it('sends one system notification when this device allowed them', () => {
+    const shown: { title: string; body?: string }[] = [];
+    class FakeNotification {
+      static permission = 'granted';
+      constructor(title: string, options?: { body?: string }) {
+        shown.push({ title, body: options?.body });
+      }
+    }
+    vi.stubGlobal('Notification', FakeNotification);
+    const { store } = setup();
+    act(() => store.handle(cutoff));
+    expect(shown).toHaveLength(1);
+    expect(shown[0].title).toBe('⚠ CUTOFF · Bench 2');
+    expect(shown[0].body).toContain('20.01 V');
+  });
 });

@@ -2,6 +2,7 @@ import { useEffect } from 'react';
 import { sharedAlarmSound, type AlarmSound } from '../../lib/alarm-sound';
 import type { LiveStore } from '../../lib/live-store';
 import { useLiveView } from '../../lib/use-live';
+import { notify } from '../../lib/notify';
 import { useShortcut } from '../../lib/use-shortcut';
 import { describeEvent } from '../ui/run-events-list';
 import { MonoNumbers } from '../ui/mono-numbers';
@@ -48,11 +49,13 @@ export function CutoffAlarm({ store, label, sound, size = 'normal' }: { store: L
   useShortcut('a', acknowledge, alarm !== null);
 
   const alarmKey = alarm ? alarm.keys.join('|') : null;
+  const detail = alarm ? describeEvent(alarm.event) : '';
   useEffect(() => {
     if (!alarmKey) return;
+    notify(title ?? 'Kneepoint alarm', detail, alarmKey);
     player.start(alarmKey);
     return () => player.stop(alarmKey);
-  }, [alarmKey, player]);
+  }, [alarmKey, player]); // eslint-disable-line react-hooks/exhaustive-deps -- one notification per alarm, not per render
 
   if (!alarm) return null;
   return (

@@ -4,6 +4,7 @@ import { Button } from '../../../components/ui/button';
 import { Card } from '../../../components/ui/card';
 import { RunEventsList } from '../../../components/ui/run-events-list';
 import { RunStateBadge } from '../../../components/ui/state-badge';
+import { NotifyToggle } from '../../../components/ui/notify-toggle';
 import { LIVE_RUN_STATES } from '../../../../shared/schemas/run';
 import { useLabSettings } from '../../../lib/lab-settings';
 import { useLiveStore, useLiveView, useSocketState } from '../../../lib/use-live';
@@ -58,7 +59,8 @@ export function LiveRunPanel({ runId, label, roomViewPath, canAct, onClose }: Pr
             {socketState === 'open' ? '● Live' : '○ Reconnecting…'}
           </span>
         </div>
-        <div className="flex flex-wrap gap-2">
+        <div className="flex flex-wrap items-center gap-2">
+          <NotifyToggle />
           <Link to={roomViewPath} className="inline-flex min-h-11 items-center rounded-lg border border-line px-4 text-sm font-semibold hover:border-accent">
             Full screen <kbd className="num ml-2 rounded border border-line px-1 text-xs">F</kbd>
           </Link>
