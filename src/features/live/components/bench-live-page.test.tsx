@@ -16,9 +16,9 @@ const run: Run = {
   createdAt: now, updatedAt: now,
 };
 
-function openBenchAs(user: PublicUser) {
+function openBenchAs(user: PublicUser, status: object = bench.status) {
   stubApi(user, (url) => {
-    if (url === '/api/benches/1') return { status: 200, body: { bench } };
+    if (url === '/api/benches/1') return { status: 200, body: { bench: { ...bench, status } } };
     if (url.startsWith('/api/runs?benchId=1')) return { status: 200, body: { runs: [run], total: 1 } };
     return undefined;
   });
@@ -44,5 +44,10 @@ describe('bench page by role', () => {
     expect(screen.queryByRole('button', { name: 'Finish run' })).toBeNull();
     expect(screen.queryByRole('button', { name: 'Abort' })).toBeNull();
     expect(screen.queryByLabelText(/Note on this run/)).toBeNull();
+  });
+
+  it('says plainly when the meter has gone quiet during a run', async () => {
+    openBenchAs(demoUser('technician'), { state: 'stale', message: 'no data for 12 s', framesOk: 10, framesRejected: 0 });
+    expect((await screen.findByText(/Meter not delivering: no data for 12 s/)).textContent).toContain('integrates nothing across it');
   });
 });

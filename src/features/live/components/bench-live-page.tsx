@@ -1,16 +1,19 @@
 import { useState } from 'react';
 import { Link } from 'react-router-dom';
 import { Card, PageHeader } from '../../../components/ui/card';
-import { BenchStatusBadge } from '../../../components/ui/state-badge';
+import { BENCH_STATUS_LABEL, BenchStatusBadge, RunStateBadge } from '../../../components/ui/state-badge';
 import { Loading, QueryError } from '../../../components/ui/status';
 import { isLiveRun, useLatestBenchRun } from '../../../lib/current-run';
 import { useLabSettings } from '../../../lib/lab-settings';
-import { RunStateBadge } from '../../../components/ui/state-badge';
 import { useLiveStore, useLiveView } from '../../../lib/use-live';
 import { useBench } from '../api/get-bench';
+import type { SourceState } from '../../../../shared/schemas/bench';
 import { LiveRunPanel } from './live-run-panel';
 import { Readouts } from './readouts';
 import { StartRunForm } from './start-run-form';
+
+/** Source states in which the meter is not delivering readings. */
+const QUIET_STATES: ReadonlySet<SourceState> = new Set(['stale', 'error', 'reconnecting']);
 
 /** One bench: its live run when there is one, otherwise its raw readings and the start form. */
 export function BenchLivePage({ benchId, canAct, canSetUp = false }: { benchId: number; canAct: boolean; canSetUp?: boolean }) {
@@ -30,6 +33,7 @@ export function BenchLivePage({ benchId, canAct, canSetUp = false }: { benchId: 
 
   const status = view.status ?? bench.data.status;
   const shownRunId = liveRun?.id ?? pinnedRunId;
+  const sourceProblem = QUIET_STATES.has(status.state) ? (status.message ?? BENCH_STATUS_LABEL[status.state]) : null;
   const roomViewPath = `/benches/${benchId}/room`;
 
   return (
@@ -64,6 +68,7 @@ export function BenchLivePage({ benchId, canAct, canSetUp = false }: { benchId: 
           roomViewPath={roomViewPath}
           canAct={canAct}
           onClose={liveRun ? undefined : () => setPinnedRunId(null)}
+          sourceProblem={sourceProblem}
         />
       ) : (
         <div className="flex flex-col gap-4">

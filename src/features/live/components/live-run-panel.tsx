@@ -23,10 +23,12 @@ interface Props {
   canAct: boolean;
   /** Offered once the run has ended: back to the bench and its start form. */
   onClose?: () => void;
+  /** Why the bench's meter is not delivering (stale, error, reconnecting), or null when it is. */
+  sourceProblem?: string | null;
 }
 
 /** A run as it happens: numbers, totals, the streaming chart, events, notes and the alarm. */
-export function LiveRunPanel({ runId, label, roomViewPath, canAct, onClose }: Props) {
+export function LiveRunPanel({ runId, label, roomViewPath, canAct, onClose, sourceProblem = null }: Props) {
   const store = useLiveStore({ kind: 'run', id: runId });
   const view = useLiveView(store);
   useHistoryBackfill(store, runId);
@@ -84,8 +86,14 @@ export function LiveRunPanel({ runId, label, roomViewPath, canAct, onClose }: Pr
           )}
         </div>
       </div>
+      {sourceProblem && live && (
+        <p id="readouts-stale" role="status" className="rounded-lg border border-status-stale bg-caution-surface p-3 font-semibold text-ink">
+          Meter not delivering: {sourceProblem}. The numbers below are the last ones received; the run marks the gap and integrates
+          nothing across it.
+        </p>
+      )}
       <Card className="p-6">
-        <Readouts view={view} temperatureUnit={settings.temperatureUnit} energyUnit={settings.energyUnit} />
+        <Readouts view={view} temperatureUnit={settings.temperatureUnit} energyUnit={settings.energyUnit} stale={!!sourceProblem && live} />
       </Card>
       <Card>
         <LiveChart store={store} temperatureUnit={settings.temperatureUnit} />

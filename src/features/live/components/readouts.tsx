@@ -12,14 +12,16 @@ interface Props {
   temperatureUnit: 'C' | 'F';
   energyUnit: 'Wh' | 'kWh';
   size?: 'lg' | 'room';
+  /** The meter has gone quiet: the numbers are the last ones seen, and look it. */
+  stale?: boolean;
 }
 
 /** The instantaneous numbers and the running totals, every one with its unit. */
-export function Readouts({ view, temperatureUnit, energyUnit, size = 'lg' }: Props) {
+export function Readouts({ view, temperatureUnit, energyUnit, size = 'lg', stale = false }: Props) {
   const tempUnit = temperatureUnit === 'F' ? '°F' : '°C';
   const charging = (view.amps ?? 0) < CHARGING_BELOW_AMPS;
   return (
-    <div className="flex flex-col gap-6">
+    <div className={`flex flex-col gap-6 ${stale ? 'opacity-40 grayscale' : ''}`} aria-describedby={stale ? 'readouts-stale' : undefined}>
       <div className={`grid gap-6 ${size === 'room' ? 'grid-cols-2' : 'grid-cols-2 lg:grid-cols-4'}`}>
         <BigNumber label="Volts" text={formatVolts(view.volts)} unit="V" color={SIGNAL_COLORS.volts} size={size} />
         <BigNumber label={charging ? 'Amps (charging)' : 'Amps'} text={formatAmps(view.amps)} unit="A" color={SIGNAL_COLORS.amps} size={size} />
