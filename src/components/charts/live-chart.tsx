@@ -29,12 +29,21 @@ function buildOptions(width: number, heightPx: number, temperatureUnit: 'C' | 'F
       { label: 'Volts', scale: 'V', stroke: SIGNAL_COLORS.volts, width: LINE_WIDTH_PX, points: { show: false }, value: (_u, v) => formatVolts(v) },
       { label: 'Amps', scale: 'A', stroke: SIGNAL_COLORS.amps, width: LINE_WIDTH_PX, points: { show: false }, value: (_u, v) => formatAmps(v) },
       { label: 'Watts', scale: 'W', stroke: SIGNAL_COLORS.watts, width: 1, points: { show: false }, value: (_u, v) => formatWatts(v) },
-      { label: 'Temperature', scale: 'C', stroke: SIGNAL_COLORS.temp, width: 1, points: { show: false }, value: (_u, v) => formatTemperature(v, temperatureUnit) },
+      { label: 'Temperature', scale: 'C', stroke: SIGNAL_COLORS.temp, width: 1, dash: [6, 4], points: { show: false }, value: (_u, v) => formatTemperature(v, temperatureUnit) },
     ],
     axes: [
       { ...axisBase, incrs: RUN_TIME_INCREMENTS_S, space: RUN_TIME_LABEL_SPACE_PX, values: (_u, ticks) => ticks.map((t) => formatElapsedClock(t)) },
-      { ...axisBase, scale: 'V', values: (_u, ticks) => ticks.map((t) => `${t} V`), size: 70 },
-      { ...axisBase, scale: 'A', side: 1, grid: { show: false }, values: (_u, ticks) => ticks.map((t) => `${t} A`), size: 70 },
+      { ...axisBase, scale: 'V', stroke: SIGNAL_COLORS.volts, values: (_u, ticks) => ticks.map((t) => `${t} V`), size: 70 },
+      { ...axisBase, scale: 'A', side: 1, grid: { show: false }, stroke: SIGNAL_COLORS.amps, values: (_u, ticks) => ticks.map((t) => `${t} A`), size: 70 },
+      {
+        ...axisBase,
+        scale: 'C',
+        side: 1,
+        grid: { show: false },
+        stroke: SIGNAL_COLORS.temp,
+        values: (_u, ticks) => ticks.map((t) => formatTemperature(t, temperatureUnit, 0)),
+        size: 70,
+      },
     ],
   };
 }
