@@ -12,6 +12,9 @@ const SCREENSHOT_DIR = resolve('.data/screenshots');
 /** The demo scenario's two-hour discharge plays in about 25 s at this speed. */
 const SIMULATOR_SPEED = 300;
 const CUTOFF_WAIT_MS = 75_000;
+const SCENARIO = 'lfp-12v-100ah-cp-cutoff';
+/** A registered 4-cell pack, the same series count as the simulated one. */
+const PACK_CELLS_LABEL = '4S';
 const account = (role: string) => DEMO_ACCOUNTS.find((a) => a.role === role)!;
 
 let t: TestContext;
@@ -35,7 +38,13 @@ describe('a run from start to cutoff, through the real server, simulator and /ws
   it('admin speeds up the simulated bench, technician arms a run, the room sees the cutoff', { timeout: 150_000 }, async () => {
     const page = await browser.context.newPage();
     await signInThroughForm(page, t.url, account('admin').email, t.ctx.config.demoPassword);
-    await page.getByRole('link', { name: /^Bench Bench A/ }).click();
+    // The demo bench that plays the 12 V capacity scenario (found by its source, not its name).
+    const benches = (await page.evaluate(`fetch('/api/benches').then((r) => r.json())`)) as {
+      benches: { id: number; source: { kind: string; scenario?: string } }[];
+    };
+    const bench = benches.benches.find((b) => b.source.scenario === SCENARIO)!;
+    expect(bench).toBeDefined();
+    await page.goto(`${t.url}/benches/${bench.id}`);
     await page.getByRole('link', { name: 'Set up bench' }).click();
     await page.getByLabel('Speed (× real time)').fill(String(SIMULATOR_SPEED));
     await page.getByRole('button', { name: 'Save bench' }).click();
@@ -47,7 +56,9 @@ describe('a run from start to cutoff, through the real server, simulator and /ws
     await page.goto(benchUrl);
     const form = page.getByRole('form', { name: 'Start a run' });
     await form.waitFor();
-    await form.getByLabel('Battery pack').selectOption({ label: 'Kestrel 12 V camper · Kestrel Energy · 4S 50 Ah' });
+    const packPicker = form.getByLabel('Battery pack');
+    const pack = await packPicker.locator('option', { hasText: ` ${PACK_CELLS_LABEL} ` }).first().getAttribute('value');
+    await packPicker.selectOption(pack!);
     await form.getByLabel('Run name').fill('Kestrel camper 600 W capacity');
     await form.getByRole('button', { name: 'Arm the run' }).click();
 
