@@ -57,7 +57,29 @@ async function signIn(url: string, email: string): Promise<string> {
   return login.headers.getSetCookie().map((c) => c.split(';')[0]).join('; ');
 }
 
-const pct = (sorted: number[], p: number) => sorted[Math.min(sorted.length - 1, Math.floor(sorted.length * p))] ?? Number.NaN;
+/** Delays go into a fixed histogram (0.1 ms steps up to 10 s), so a long soak measures without growing. */
+const HIST_STEP_MS = 0.1;
+const HIST_SLOTS = 100_000;
+class Histogram {
+  private readonly counts = new Uint32Array(HIST_SLOTS + 1);
+  n = 0;
+  max = 0;
+  add(ms: number): void {
+    this.counts[Math.min(HIST_SLOTS, Math.floor(ms / HIST_STEP_MS))]!++;
+    this.n++;
+    if (ms > this.max) this.max = ms;
+  }
+  /** Upper edge of the slot holding the p-quantile. */
+  quantile(p: number): number {
+    const want = Math.ceil(this.n * p);
+    let seen = 0;
+    for (let i = 0; i <= HIST_SLOTS; i++) {
+      seen += this.counts[i]!;
+      if (seen >= want) return (i + 1) * HIST_STEP_MS;
+    }
+    return Number.NaN;
+  }
+}
 const mb = (b: number) => +(b / 1e6).toFixed(1);
 
 /** Prints and returns the live figures. */
@@ -86,7 +108,7 @@ export async function run(): Promise<Record<string, string | number>> {
       );
     }
     const sentAt = new Map<string, number>();
-    const delays: number[] = [];
+    const delays = new Histogram();
     let measuring = false;
     let received = 0;
     const cookie = await signIn(server.url, 'viewer@bench.lab');
@@ -100,7 +122,7 @@ export async function run(): Promise<Record<string, string | number>> {
         for (const t of m.readings.t) {
           received++;
           const at = sentAt.get(`${m.topic.id}:${t}`);
-          if (measuring && at !== undefined) delays.push(now - at);
+          if (measuring && at !== undefined) delays.add(now - at);
         }
       });
       for (let b = 1; b <= BENCHES; b++) ws.send(JSON.stringify({ type: 'subscribe', topic: { kind: 'bench', id: b } }));
@@ -137,7 +159,6 @@ export async function run(): Promise<Record<string, string | number>> {
     await new Promise((r) => setTimeout(r, (SOAK_S - WARMUP_S) * 1000));
     sample();
     measuring = false;
-    delays.sort((a, b) => a - b);
     const first = memory[0]!;
     const last = memory[memory.length - 1]!;
     const figures = {
@@ -147,9 +168,9 @@ export async function run(): Promise<Record<string, string | number>> {
       soakS: SOAK_S,
       framesIn: seq,
       readingsOut: received,
-      delayP50Ms: +pct(delays, 0.5).toFixed(1),
-      delayP99Ms: +pct(delays, 0.99).toFixed(1),
-      delayMaxMs: +(delays[delays.length - 1] ?? Number.NaN).toFixed(1),
+      delayP50Ms: +delays.quantile(0.5).toFixed(1),
+      delayP99Ms: +delays.quantile(0.99).toFixed(1),
+      delayMaxMs: +delays.max.toFixed(1),
       heapStartMB: mb(first.heap),
       heapEndMB: mb(last.heap),
       heapMaxMB: mb(Math.max(...memory.map((m) => m.heap))),
