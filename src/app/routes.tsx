@@ -30,6 +30,7 @@ export const routes: RouteObject[] = [
           { path: '/benches/:benchId', ...page('BenchRoute') },
           { path: '/benches/:benchId/setup', ...page('EditBenchRoute') },
           { path: '/runs', ...page('RunsRoute') },
+          { path: '/runs/compare', ...page('CompareRoute') },
           { path: '/runs/:runId', ...page('RunRoute') },
           { path: '/batteries', ...page('BatteriesRoute') },
           { path: '/users', ...page('UsersRoute') },

@@ -59,3 +59,6 @@ export const NEUTRALS = {
     900: '#1f1d18',
   },
 } as const;
+
+/** Line colours for runs laid over each other on the compare page (in selection order). */
+export const COMPARE_COLORS = ['#f4b63f', '#3db8cc', '#e86aa8', '#8fd16a'] as const;

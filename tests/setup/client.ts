@@ -6,6 +6,10 @@ import { afterEach, vi } from 'vitest';
 vi.mock('uplot', () => {
   class FakePlot {
     static instances: FakePlot[] = [];
+    /** Enough of uPlot.join for tests: tables that share one x column. */
+    static join(tables: number[][][]) {
+      return [tables[0][0], ...tables.flatMap((t) => t.slice(1))];
+    }
     data: unknown;
     setDataCalls = 0;
     constructor(_opts: unknown, data: unknown) {

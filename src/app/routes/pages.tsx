@@ -1,5 +1,5 @@
 import { useState } from 'react';
-import { Link, useParams } from 'react-router-dom';
+import { Link, useParams, useSearchParams } from 'react-router-dom';
 import { useMe } from '../../features/auth/api/get-me';
 import { BatteriesPage } from '../../features/batteries/components/batteries-page';
 import { BenchesOverview } from '../../features/benches/components/benches-overview';
@@ -8,6 +8,7 @@ import { BenchLivePage } from '../../features/live/components/bench-live-page';
 import { RoomView } from '../../features/live/components/room-view';
 import { RunDetail } from '../../features/runs/components/run-detail';
 import { RunsTable } from '../../features/runs/components/runs-table';
+import { MAX_COMPARED_RUNS, RunCompare } from '../../features/runs/components/run-compare';
 import { ImportRunForm } from '../../features/runs/components/import-run-form';
 import { SettingsForm } from '../../features/settings/components/settings-form';
 import { UsersPage } from '../../features/users/components/users-page';
@@ -97,6 +98,18 @@ export function RunsRoute() {
       <RunsTable />
     </>
   );
+}
+
+/** Several runs side by side: /runs/compare?ids=3,5 */
+export function CompareRoute() {
+  const [params] = useSearchParams();
+  const ids = (params.get('ids') ?? '')
+    .split(',')
+    .filter((x) => /^\d+$/.test(x))
+    .map(Number)
+    .slice(0, MAX_COMPARED_RUNS);
+  if (ids.length === 0) return <NotFound />;
+  return <RunCompare runIds={ids} />;
 }
 
 /** One recorded run. */

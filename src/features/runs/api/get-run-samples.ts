@@ -1,4 +1,4 @@
-import { keepPreviousData, useQuery } from '@tanstack/react-query';
+import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query';
 import { SamplesResponseSchema } from '../../../../shared/schemas/api-runs';
 import { api } from '../../../lib/api-client';
 
@@ -9,8 +9,8 @@ export interface SampleWindow {
 }
 
 /** GET /api/runs/:id/samples reduced to about `maxPoints` min/max buckets (one per pixel). */
-export function useRunSamples(runId: number, window: SampleWindow, maxPoints: number) {
-  return useQuery({
+export const samplesQueryOptions = (runId: number, window: SampleWindow, maxPoints: number) =>
+  queryOptions({
     queryKey: ['runs', runId, 'samples', window.from, window.to, maxPoints],
     queryFn: () => {
       const params = new URLSearchParams({ maxPoints: String(maxPoints) });
@@ -18,6 +18,9 @@ export function useRunSamples(runId: number, window: SampleWindow, maxPoints: nu
       if (window.to !== null) params.set('to', String(window.to));
       return api(`/api/runs/${runId}/samples?${params}`, { schema: SamplesResponseSchema });
     },
-    placeholderData: keepPreviousData,
   });
+
+/** A window of a run's readings; the previous window stays on screen while the next loads. */
+export function useRunSamples(runId: number, window: SampleWindow, maxPoints: number) {
+  return useQuery({ ...samplesQueryOptions(runId, window, maxPoints), placeholderData: keepPreviousData });
 }

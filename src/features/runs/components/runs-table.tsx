@@ -9,6 +9,7 @@ import { Loading, QueryError } from '../../../components/ui/status';
 import { formatLabTime, useLabSettings } from '../../../lib/lab-settings';
 import { formatCharge, formatDuration, formatEnergy, formatPercent } from '../../../lib/units';
 import { useRuns } from '../api/get-runs';
+import { MAX_COMPARED_RUNS } from './run-compare';
 import { VerdictBadge } from './verdict-badge';
 
 const PAGE_SIZE = 25;
@@ -36,8 +37,25 @@ export function RunsTable() {
 
   const runs = useRuns({ q: q || undefined, state: state || undefined, tag: tag || undefined, limit: PAGE_SIZE, offset });
 
+  const [selected, setSelected] = useState<number[]>([]);
+  const toggle = (id: number) =>
+    setSelected((list) => (list.includes(id) ? list.filter((x) => x !== id) : list.length < MAX_COMPARED_RUNS ? [...list, id] : list));
+
   const columns = useMemo(
     () => [
+      col.display({
+        id: 'compare',
+        header: 'Compare',
+        cell: (c) => (
+          <input
+            type="checkbox"
+            aria-label={`Compare ${c.row.original.name}`}
+            checked={selected.includes(c.row.original.id)}
+            onChange={() => toggle(c.row.original.id)}
+            className="h-6 w-6"
+          />
+        ),
+      }),
       col.accessor('name', {
         header: 'Run',
         cell: (c) => (
@@ -56,7 +74,7 @@ export function RunsTable() {
       col.accessor((r) => r.summary?.verdict ?? null, { id: 'verdict', header: 'Verdict', cell: (c) => (c.getValue() ? <VerdictBadge verdict={c.getValue()!} /> : '—') }),
       col.accessor('tags', { header: 'Tags', cell: (c) => c.getValue().join(', ') }),
     ],
-    [settings.timeZone, settings.energyUnit],
+    [settings.timeZone, settings.energyUnit, selected],
   );
 
   const data = runs.data?.runs;
@@ -78,6 +96,13 @@ export function RunsTable() {
         />
         <TextField label="Tag" placeholder="e.g. lfp" value={tag} onChange={(e) => { setTag(e.target.value.trim()); setOffset(0); }} />
       </div>
+      {selected.length >= 2 && (
+        <div>
+          <Link to={`/runs/compare?ids=${selected.join(',')}`} className="inline-flex min-h-11 items-center rounded-lg bg-accent px-4 text-sm font-semibold text-accent-ink">
+            Compare {selected.length} runs
+          </Link>
+        </div>
+      )}
       {runs.isPending ? (
         <Loading label="Loading runs…" />
       ) : runs.isError ? (
