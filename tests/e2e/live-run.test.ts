@@ -115,6 +115,33 @@ describe('a run from start to cutoff, through the real server, simulator and /ws
     await page.emulateMedia({ media: 'print' });
     await page.screenshot({ path: `${SCREENSHOT_DIR}/run-report-print.png`, fullPage: true });
     expect(await page.getByRole('navigation', { name: 'Main' }).isVisible()).toBe(false);
+
+    // A log from another logger, imported, then laid over the live run.
+    await page.emulateMedia({ media: 'screen' });
+    await page.getByRole('link', { name: 'Runs', exact: true }).click();
+    await page.getByRole('button', { name: 'Import a CSV log' }).click();
+    const importForm = page.getByRole('form', { name: 'Import a logged run' });
+    await importForm.getByLabel(/CSV file/).setInputFiles({ name: 'older-logger.csv', mimeType: 'text/csv', buffer: Buffer.from(demoCsv()) });
+    await importForm.getByLabel('Run name').fill('Older logger, same pack');
+    await importForm.getByRole('button', { name: 'Import' }).click();
+    await page.getByRole('heading', { name: 'Older logger, same pack' }).waitFor();
+    await page.getByRole('link', { name: 'Runs', exact: true }).click();
+    await page.getByRole('checkbox', { name: 'Compare Older logger, same pack' }).check();
+    await page.getByRole('checkbox', { name: 'Compare Kestrel camper 600 W capacity' }).check();
+    await page.getByRole('link', { name: 'Compare 2 runs' }).click();
+    await page.getByTestId('compare-chart').locator('canvas').waitFor();
+    await page.screenshot({ path: `${SCREENSHOT_DIR}/compare-runs.png`, fullPage: true });
     await page.close();
   });
 });
+
+/** An invented 1 Hz log of a 12 V pack on a 40 A load for 90 minutes, as another logger writes it (demo data). */
+function demoCsv(): string {
+  const lines = ['time,volts,amps,temperature'];
+  const seconds = 5400;
+  for (let t = 0; t <= seconds; t++) {
+    const x = t / seconds;
+    lines.push(`${t},${(13.2 - 0.5 * x - 1.5 * x ** 14).toFixed(3)},40.00,${(22 + 4 * x).toFixed(1)}`);
+  }
+  return lines.join('\n') + '\n';
+}
