@@ -76,6 +76,8 @@ describe('live bench page (live stream played by a /ws peer that speaks shared/s
 
     await page.keyboard.press('f');
     await page.waitForURL(/\/room$/);
+    // Wait for the room view itself: the bench page's numbers may still be on screen a moment.
+    await page.getByTestId('room-state').waitFor();
     await page.getByTestId('big-volts').filter({ hasText: /^\d/ }).waitFor();
     await page.getByRole('alert').filter({ hasText: 'CUTOFF' }).waitFor();
     await page.screenshot({ path: `${SCREENSHOT_DIR}/room-view.png` });

@@ -9,6 +9,8 @@ import type { SourceState } from '../../../../shared/schemas/bench';
 import { useLiveStore, useLiveView } from '../../../lib/use-live';
 import { useShortcut } from '../../../lib/use-shortcut';
 import { useBench } from '../api/get-bench';
+import { useHistoryBackfill } from '../api/use-history-backfill';
+import { LiveChart } from '../../../components/charts/live-chart';
 import { CutoffAlarm } from '../../../components/alarm/cutoff-alarm';
 import { Readouts } from './readouts';
 
@@ -18,12 +20,18 @@ function RoomNumbers({ store }: { store: LiveStore }) {
   return <Readouts view={view} temperatureUnit={settings.temperatureUnit} energyUnit={settings.energyUnit} size="room" />;
 }
 
+/** Chart height in the room view: the knee should be visible from the door. */
+const ROOM_CHART_HEIGHT_PX = 260;
+
 function RunRoom({ runId, label }: { runId: number; label: string }) {
   const store = useLiveStore({ kind: 'run', id: runId });
+  const settings = useLabSettings();
+  useHistoryBackfill(store, runId);
   return (
     <>
       <CutoffAlarm store={store} label={label} size="large" />
       <RoomNumbers store={store} />
+      <LiveChart store={store} heightPx={ROOM_CHART_HEIGHT_PX} temperatureUnit={settings.temperatureUnit} />
     </>
   );
 }
