@@ -5,6 +5,8 @@ import { BENCH_STATUS_LABEL, BenchStatusBadge, RunStateBadge } from '../../../co
 import { Loading, QueryError } from '../../../components/ui/status';
 import { isLiveRun, useLatestBenchRun } from '../../../lib/current-run';
 import { useLabSettings } from '../../../lib/lab-settings';
+import { formatDuration } from '../../../lib/units';
+import { useNow } from '../../../lib/use-now';
 import { useLiveStore, useLiveView } from '../../../lib/use-live';
 import { useBench } from '../api/get-bench';
 import type { SourceState } from '../../../../shared/schemas/bench';
@@ -14,6 +16,14 @@ import { StartRunForm } from './start-run-form';
 
 /** Source states in which the meter is not delivering readings. */
 const QUIET_STATES: ReadonlySet<SourceState> = new Set(['stale', 'error', 'reconnecting']);
+
+/** "last reading 4 s ago", ticking, so a frozen number never passes for a live one. */
+function LastReading({ iso }: { iso: string | undefined }) {
+  const now = useNow();
+  if (!iso) return null;
+  const ageSeconds = Math.max(0, (now - Date.parse(iso)) / 1000);
+  return <span>last reading {formatDuration(ageSeconds)} ago</span>;
+}
 
 /** One bench: its live run when there is one, otherwise its raw readings and the start form. */
 export function BenchLivePage({ benchId, canAct, canSetUp = false }: { benchId: number; canAct: boolean; canSetUp?: boolean }) {
@@ -44,6 +54,7 @@ export function BenchLivePage({ benchId, canAct, canSetUp = false }: { benchId: 
           <span className="flex flex-wrap items-center gap-3">
             <BenchStatusBadge state={status.state} />
             <span className="num">{status.framesOk} frames ok · {status.framesRejected} rejected</span>
+            <LastReading iso={status.lastFrameAt} />
             {status.message && <span>{status.message}</span>}
           </span>
         }
