@@ -82,4 +82,14 @@ describe('LiveSocket', () => {
     stopB();
     expect(sockets[0].sent[1]).toEqual({ type: 'unsubscribe', topic });
   });
+
+  it('learns the server clock offset from hello', () => {
+    globalThis.WebSocket = FakeSocket as unknown as typeof WebSocket;
+    const { live, sockets } = setup();
+    live.subscribe(topic, () => undefined);
+    sockets[0].open();
+    const serverAheadMs = 90_000;
+    sockets[0].onmessage?.({ data: JSON.stringify({ type: 'hello', seq: 1, serverTimeMs: Date.now() + serverAheadMs, user: { id: 1, role: 'viewer' } }) });
+    expect(Math.abs(live.clockOffsetMs - serverAheadMs)).toBeLessThan(1_000);
+  });
 });

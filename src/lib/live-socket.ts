@@ -38,6 +38,8 @@ export class LiveSocket {
   private readonly globalListeners = new Set<MessageListener>();
   private readonly stateListeners = new Set<(state: SocketState) => void>();
   private stateValue: SocketState = 'closed';
+  /** Server clock minus this browser's clock, from the last hello (ms). */
+  clockOffsetMs = 0;
 
   constructor(private readonly deps: LiveSocketDeps) {}
 
@@ -142,6 +144,7 @@ export class LiveSocket {
     const parsed = ServerMessageSchema.safeParse(raw);
     if (!parsed.success) return;
     const message = parsed.data;
+    if (message.type === 'hello') this.clockOffsetMs = message.serverTimeMs - Date.now();
     const topic = 'topic' in message ? message.topic : undefined;
     if (!topic) {
       this.globalListeners.forEach((l) => l(message));

@@ -4,7 +4,7 @@ import { getLiveSocket, type LiveSocket, type SocketState } from './live-socket'
 import { LiveStore, type LiveView } from './live-store';
 
 /** Lets tests hand in a fake socket; the app uses the shared one. */
-export const LiveSocketContext = createContext<Pick<LiveSocket, 'subscribe' | 'onState' | 'state'> | null>(null);
+export const LiveSocketContext = createContext<(Pick<LiveSocket, 'subscribe' | 'onState' | 'state'> & { clockOffsetMs?: number }) | null>(null);
 
 function useSocket() {
   return useContext(LiveSocketContext) ?? getLiveSocket();
@@ -36,4 +36,9 @@ export function useSocketState(): SocketState {
     (l) => socket.onState(() => l()),
     () => socket.state,
   );
+}
+
+/** Server clock minus browser clock (ms), so "last reading 3 s ago" is right on a skewed PC. */
+export function useServerClockOffsetMs(): number {
+  return useSocket().clockOffsetMs ?? 0;
 }

@@ -7,7 +7,7 @@ import { isLiveRun, useLatestBenchRun } from '../../../lib/current-run';
 import { useLabSettings } from '../../../lib/lab-settings';
 import { formatDuration } from '../../../lib/units';
 import { useNow } from '../../../lib/use-now';
-import { useLiveStore, useLiveView } from '../../../lib/use-live';
+import { useLiveStore, useLiveView, useServerClockOffsetMs } from '../../../lib/use-live';
 import { useBench } from '../api/get-bench';
 import type { SourceState } from '../../../../shared/schemas/bench';
 import { LiveRunPanel } from './live-run-panel';
@@ -19,7 +19,7 @@ const QUIET_STATES: ReadonlySet<SourceState> = new Set(['stale', 'error', 'recon
 
 /** "last reading 4 s ago", ticking, so a frozen number never passes for a live one. */
 function LastReading({ iso }: { iso: string | undefined }) {
-  const now = useNow();
+  const now = useNow() + useServerClockOffsetMs();
   if (!iso) return null;
   const ageSeconds = Math.max(0, (now - Date.parse(iso)) / 1000);
   return <span>last reading {formatDuration(ageSeconds)} ago</span>;
