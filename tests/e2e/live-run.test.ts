@@ -70,6 +70,17 @@ describe('a run from start to cutoff, through the real server, simulator and /ws
     await page.getByRole('list', { name: 'Run events' }).getByText('Load on, fan on, ambient 23 °C').waitFor();
     await page.getByTestId('big-energy-out').filter({ hasText: /^[1-9]/ }).waitFor({ timeout: 30_000 });
     expect(await page.getByTestId('big-volts').textContent()).toMatch(/^1[0-4]\.\d\d$/);
+    // A figure, not a check: frames drawn per second and long tasks while ~300 readings/s stream.
+    const perf = (await page.evaluate(`new Promise((resolve) => {
+      let frames = 0; let longTasks = 0; let longestMs = 0;
+      const obs = new PerformanceObserver((list) => { for (const e of list.getEntries()) { longTasks++; longestMs = Math.max(longestMs, e.duration); } });
+      try { obs.observe({ type: 'longtask', buffered: false }); } catch {}
+      const start = performance.now();
+      const tick = () => { frames++; if (performance.now() - start < 3000) requestAnimationFrame(tick); else { obs.disconnect(); resolve({ fps: frames / ((performance.now() - start) / 1000), longTasks, longestMs }); } };
+      requestAnimationFrame(tick);
+    })`)) as { fps: number; longTasks: number; longestMs: number };
+    console.log(`[figure] live page while streaming: ${perf.fps.toFixed(1)} frames/s, ${perf.longTasks} long tasks (longest ${perf.longestMs.toFixed(0)} ms)`);
+
     // Opened again half-way, the chart gets the archived start of the run, not only the last seconds.
     const backfill = page.waitForResponse((r) => /\/api\/runs\/\d+\/samples\?/.test(r.url()) && r.status() === 200);
     await page.reload();
