@@ -14,6 +14,7 @@ import { formatElapsedClock } from '../../../lib/units';
 import { useRun, useRunEvents } from '../api/get-run';
 import { useRunSamples, type SampleWindow } from '../api/get-run-samples';
 import { RunLabelEditor } from './run-label-editor';
+import { RunNoteForm } from './run-note-form';
 import { RunSetupPanel } from './run-setup-panel';
 import { RunSummaryPanel } from './run-summary-panel';
 
@@ -133,6 +134,11 @@ export function RunDetail({ runId, canEdit = false }: { runId: number; canEdit?:
         </Card>
         <Card>
           <h2 className="mb-3 font-semibold">Events</h2>
+          {canEdit && (
+            <div className="mb-4">
+              <RunNoteForm runId={runId} />
+            </div>
+          )}
           {events.isError ? <QueryError error={events.error} what="Events" /> : <RunEventsList events={stored} temperatureUnit={settings.temperatureUnit} />}
         </Card>
       </div>
