@@ -1,6 +1,6 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { z } from 'zod';
-import { BatterySchema, type BatteryInput } from '../../../../shared/schemas/battery';
+import { BatterySchema, type BatteryInput, type BatteryPatch } from '../../../../shared/schemas/battery';
 import { api } from '../../../lib/api-client';
 
 const BATTERIES_KEY = ['batteries'] as const;
@@ -23,6 +23,16 @@ export function useCreateBattery() {
   return useMutation({
     mutationFn: (body: BatteryInput) =>
       api('/api/batteries', { method: 'POST', body, schema: z.object({ battery: BatterySchema }) }).then((b) => b.battery),
+    onSuccess: () => queryClient.invalidateQueries({ queryKey: BATTERIES_KEY }),
+  });
+}
+
+/** PATCH /api/batteries/:id (technician): correct a pack's record. */
+export function useUpdateBattery() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: ({ id, patch }: { id: number; patch: BatteryPatch }) =>
+      api(`/api/batteries/${id}`, { method: 'PATCH', body: patch, schema: z.object({ battery: BatterySchema }) }).then((b) => b.battery),
     onSuccess: () => queryClient.invalidateQueries({ queryKey: BATTERIES_KEY }),
   });
 }

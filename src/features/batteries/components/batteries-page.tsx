@@ -1,4 +1,5 @@
 import { useState } from 'react';
+import type { Battery } from '../../../../shared/schemas/battery';
 import { Button } from '../../../components/ui/button';
 import { Card, PageHeader } from '../../../components/ui/card';
 import { SafetyCautions } from '../../../components/ui/safety-cautions';
@@ -11,6 +12,7 @@ import { BatteryForm } from './battery-form';
 export function BatteriesPage({ canWrite }: { canWrite: boolean }) {
   const batteries = useBatteries();
   const [adding, setAdding] = useState(false);
+  const [editing, setEditing] = useState<Battery | null>(null);
   return (
     <>
       <PageHeader
@@ -25,7 +27,19 @@ export function BatteriesPage({ canWrite }: { canWrite: boolean }) {
           <BatteryForm onDone={() => setAdding(false)} />
         </Card>
       )}
-      {batteries.isPending ? <Loading /> : batteries.isError ? <QueryError error={batteries.error} what="Battery packs" /> : <BatteriesTable batteries={batteries.data} />}
+      {editing && (
+        <Card className="mb-6 flex flex-col gap-4 p-6">
+          <h2 className="text-lg font-bold">Edit {editing.label}</h2>
+          <BatteryForm key={editing.id} battery={editing} onDone={() => setEditing(null)} />
+        </Card>
+      )}
+      {batteries.isPending ? (
+        <Loading />
+      ) : batteries.isError ? (
+        <QueryError error={batteries.error} what="Battery packs" />
+      ) : (
+        <BatteriesTable batteries={batteries.data} onEdit={canWrite ? setEditing : undefined} />
+      )}
     </>
   );
 }

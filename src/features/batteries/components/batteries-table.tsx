@@ -3,14 +3,14 @@ import { formatCharge, formatEnergy, formatNumber } from '../../../lib/units';
 import { CHEMISTRY_LABEL } from './chemistry-label';
 
 /** The registered packs, one row each, every figure with its unit. */
-export function BatteriesTable({ batteries }: { batteries: readonly Battery[] }) {
+export function BatteriesTable({ batteries, onEdit }: { batteries: readonly Battery[]; onEdit?: (battery: Battery) => void }) {
   if (batteries.length === 0) return <p className="p-6 text-center text-ink-muted">No packs registered yet.</p>;
   return (
     <div className="overflow-x-auto rounded-xl border border-line">
       <table className="w-full text-left text-sm">
         <thead className="bg-surface-sunken text-ink-muted">
           <tr>
-            {['Label', 'Brand / model', 'Chemistry', 'Cells', 'Rated', 'Protection', 'Mass', 'Serial', 'Sent by'].map((h) => (
+            {['Label', 'Brand / model', 'Chemistry', 'Cells', 'Rated', 'Protection', 'Mass', 'Serial', 'Sent by', ...(onEdit ? [''] : [])].map((h) => (
               <th key={h} className="px-3 py-3 font-semibold">
                 {h}
               </th>
@@ -34,6 +34,13 @@ export function BatteriesTable({ batteries }: { batteries: readonly Battery[] })
               <td className="num whitespace-nowrap px-3 py-3">{b.massKg === null ? '—' : `${formatNumber(b.massKg, 2)} kg`}</td>
               <td className="num whitespace-nowrap px-3 py-3">{b.serialNumber ?? '—'}</td>
               <td className="px-3 py-3">{b.sender ?? '—'}</td>
+              {onEdit && (
+                <td className="px-3 py-2">
+                  <button type="button" onClick={() => onEdit(b)} className="min-h-11 rounded-lg border border-line px-3 font-semibold" aria-label={`Edit ${b.label}`}>
+                    Edit
+                  </button>
+                </td>
+              )}
             </tr>
           ))}
         </tbody>

@@ -1,9 +1,9 @@
 import { useForm } from 'react-hook-form';
-import { CHEMISTRIES, type BatteryInput, type Chemistry } from '../../../../shared/schemas/battery';
+import { CHEMISTRIES, type Battery, type BatteryInput, type Chemistry } from '../../../../shared/schemas/battery';
 import { Button } from '../../../components/ui/button';
 import { SelectField, TextField } from '../../../components/ui/field';
 import { ApiError } from '../../../lib/api-client';
-import { useCreateBattery } from '../api/batteries';
+import { useCreateBattery, useUpdateBattery } from '../api/batteries';
 import { CHEMISTRY_LABEL } from './chemistry-label';
 
 interface Values {
@@ -24,12 +24,23 @@ interface Values {
 const optionalNumber = (v: string) => (v.trim() === '' ? null : Number(v));
 const positive = (v: string) => v.trim() === '' || Number(v) > 0 || 'A number above 0.';
 
-/** Registers a pack as it arrives at the lab (technicians and lab managers). */
-export function BatteryForm({ onDone }: { onDone: () => void }) {
-  const create = useCreateBattery();
-  const { register, handleSubmit, formState: { errors } } = useForm<Values>({
-    defaultValues: { chemistry: 'lfp', cellsInSeries: '', cellsInParallel: '1', label: '', brand: '', model: '', ratedAh: '', ratedWh: '', bmsRatedAmps: '', massKg: '', serialNumber: '', sender: '' },
-  });
+const text = (v: string | number | null | undefined) => (v === null || v === undefined ? '' : String(v));
+
+function initialValues(b?: Battery): Values {
+  return {
+    label: text(b?.label), brand: text(b?.brand), model: text(b?.model), chemistry: b?.chemistry ?? 'lfp',
+    cellsInSeries: text(b?.cellsInSeries), cellsInParallel: text(b?.cellsInParallel ?? 1), ratedAh: text(b?.ratedAh),
+    ratedWh: text(b?.ratedWh), bmsRatedAmps: text(b?.bmsRatedAmps), massKg: text(b?.massKg),
+    serialNumber: text(b?.serialNumber), sender: text(b?.sender),
+  };
+}
+
+/** Registers a pack as it arrives at the lab, or corrects one (technicians and lab managers). */
+export function BatteryForm({ battery, onDone }: { battery?: Battery; onDone: () => void }) {
+  const createMutation = useCreateBattery();
+  const updateMutation = useUpdateBattery();
+  const create = battery ? updateMutation : createMutation;
+  const { register, handleSubmit, formState: { errors } } = useForm<Values>({ defaultValues: initialValues(battery) });
   const server = create.error instanceof ApiError ? create.error.fields : {};
 
   const onSubmit = handleSubmit((v) => {
@@ -47,11 +58,12 @@ export function BatteryForm({ onDone }: { onDone: () => void }) {
       serialNumber: v.serialNumber.trim() || null,
       sender: v.sender.trim() || null,
     };
-    create.mutate(body, { onSuccess: onDone });
+    if (battery) updateMutation.mutate({ id: battery.id, patch: body }, { onSuccess: onDone });
+    else createMutation.mutate(body, { onSuccess: onDone });
   });
 
   return (
-    <form onSubmit={onSubmit} noValidate aria-label="Register a pack" className="grid gap-4 md:grid-cols-3">
+    <form onSubmit={onSubmit} noValidate aria-label={battery ? `Edit ${battery.label}` : 'Register a pack'} className="grid gap-4 md:grid-cols-3">
       <TextField label="Label" placeholder="NG-0142" error={errors.label?.message ?? server.label} {...register('label', { required: 'Give the pack a label.' })} />
       <TextField label="Brand" placeholder="Voltara" error={errors.brand?.message ?? server.brand} {...register('brand', { required: 'Enter the brand.' })} />
       <TextField label="Model" {...register('model')} />
@@ -71,7 +83,7 @@ export function BatteryForm({ onDone }: { onDone: () => void }) {
       )}
       <div className="flex gap-2 md:col-span-3">
         <Button type="submit" disabled={create.isPending}>
-          Register pack
+          {battery ? 'Save changes' : 'Register pack'}
         </Button>
         <Button variant="ghost" onClick={onDone}>
           Cancel

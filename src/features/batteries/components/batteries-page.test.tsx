@@ -1,0 +1,42 @@
+import { screen, waitFor } from '@testing-library/react';
+import userEvent from '@testing-library/user-event';
+import { describe, expect, it } from 'vitest';
+import type { Battery } from '../../../../shared/schemas/battery';
+import { demoUser, renderAt, stubApi } from '../../../testing/render-app';
+
+const now = '2026-12-01T20:00:00Z';
+// A fictional pack of the demo lab.
+const pack: Battery = {
+  id: 4, label: 'NG-0142', brand: 'Hollis Power', model: 'Keep 12-35', chemistry: 'lead-acid', cellsInSeries: 6, cellsInParallel: 1,
+  ratedAh: 35, ratedWh: 420, bmsRatedAmps: null, massKg: 10.8, price: null, priceCurrency: null, serialNumber: 'HP-K12-1180',
+  sender: null, notes: null, createdAt: now, updatedAt: now,
+};
+
+describe('battery packs page', () => {
+  it('shows every figure with its unit and no edit button to a viewer', async () => {
+    stubApi(demoUser('viewer'), (url) => (url === '/api/batteries' ? { status: 200, body: { batteries: [pack] } } : undefined));
+    renderAt('/batteries');
+    expect(await screen.findByText('35.00 Ah · 420.0 Wh')).toBeTruthy();
+    expect(screen.getByText('10.80 kg')).toBeTruthy();
+    expect(screen.queryByRole('button', { name: 'Edit NG-0142' })).toBeNull();
+  });
+
+  it('lets a technician correct a pack and sends the change as a PATCH', async () => {
+    const { calls } = stubApi(demoUser('technician'), (url, init) => {
+      if (url === '/api/batteries') return { status: 200, body: { batteries: [pack] } };
+      if (url === '/api/batteries/4' && init?.method === 'PATCH') return { status: 200, body: { battery: { ...pack, ratedAh: 36 } } };
+      return undefined;
+    });
+    renderAt('/batteries');
+    await userEvent.click(await screen.findByRole('button', { name: 'Edit NG-0142' }));
+    const rated = screen.getByLabelText('Rated capacity (Ah)');
+    expect((rated as HTMLInputElement).value).toBe('35');
+    await userEvent.clear(rated);
+    await userEvent.type(rated, '36');
+    await userEvent.click(screen.getByRole('button', { name: 'Save changes' }));
+    await waitFor(() => expect(calls.some((c) => c.url === '/api/batteries/4' && c.init?.method === 'PATCH')).toBe(true));
+    const body = JSON.parse(String(calls.find((c) => c.init?.method === 'PATCH')?.init?.body));
+    expect(body.ratedAh).toBe(36);
+    expect(body.label).toBe('NG-0142');
+  });
+});
