@@ -21,6 +21,18 @@ describe('battery packs page', () => {
     expect(screen.queryByRole('button', { name: 'Edit NG-0142' })).toBeNull();
   });
 
+  it("links each pack to its own run history", async () => {
+    const { calls } = stubApi(demoUser('viewer'), (url) => {
+      if (url === '/api/batteries') return { status: 200, body: { batteries: [pack] } };
+      if (url.startsWith('/api/runs?')) return { status: 200, body: { runs: [], total: 0 } };
+      return undefined;
+    });
+    renderAt('/batteries');
+    await userEvent.click(await screen.findByRole('link', { name: 'Runs of NG-0142' }));
+    expect(await screen.findByText('Only pack #4')).toBeTruthy();
+    await waitFor(() => expect(calls.some((c) => c.url.startsWith('/api/runs?') && c.url.includes('batteryId=4'))).toBe(true));
+  });
+
   it('lets a technician correct a pack and sends the change as a PATCH', async () => {
     const { calls } = stubApi(demoUser('technician'), (url, init) => {
       if (url === '/api/batteries') return { status: 200, body: { batteries: [pack] } };

@@ -1,3 +1,4 @@
+import { Link } from 'react-router-dom';
 import type { Battery } from '../../../../shared/schemas/battery';
 import { formatCharge, formatEnergy, formatNumber } from '../../../lib/units';
 import { CHEMISTRY_LABEL } from './chemistry-label';
@@ -10,7 +11,7 @@ export function BatteriesTable({ batteries, onEdit }: { batteries: readonly Batt
       <table className="w-full text-left text-sm">
         <thead className="bg-surface-sunken text-ink-muted">
           <tr>
-            {['Label', 'Brand / model', 'Chemistry', 'Cells', 'Rated', 'Protection', 'Mass', 'Serial', 'Sent by', ...(onEdit ? [''] : [])].map((h) => (
+            {['Label', 'Brand / model', 'Chemistry', 'Cells', 'Rated', 'Protection', 'Mass', 'Serial', 'Sent by', '', ...(onEdit ? [''] : [])].map((h) => (
               <th key={h} className="px-3 py-3 font-semibold">
                 {h}
               </th>
@@ -34,6 +35,11 @@ export function BatteriesTable({ batteries, onEdit }: { batteries: readonly Batt
               <td className="num whitespace-nowrap px-3 py-3">{b.massKg === null ? '—' : `${formatNumber(b.massKg, 2)} kg`}</td>
               <td className="num whitespace-nowrap px-3 py-3">{b.serialNumber ?? '—'}</td>
               <td className="px-3 py-3">{b.sender ?? '—'}</td>
+              <td className="px-3 py-2">
+                <Link to={`/runs?batteryId=${b.id}`} className="inline-flex min-h-11 items-center rounded-lg border border-line px-3 font-semibold" aria-label={`Runs of ${b.label}`}>
+                  Runs
+                </Link>
+              </td>
               {onEdit && (
                 <td className="px-3 py-2">
                   <button type="button" onClick={() => onEdit(b)} className="min-h-11 rounded-lg border border-line px-3 font-semibold" aria-label={`Edit ${b.label}`}>

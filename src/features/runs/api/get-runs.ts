@@ -7,6 +7,7 @@ export interface RunsFilter {
   q?: string;
   state?: RunState;
   tag?: string;
+  batteryId?: number;
   limit: number;
   offset: number;
 }

@@ -1,6 +1,6 @@
 import { createColumnHelper, flexRender, getCoreRowModel, useReactTable } from '@tanstack/react-table';
 import { useEffect, useMemo, useState } from 'react';
-import { Link } from 'react-router-dom';
+import { Link, useSearchParams } from 'react-router-dom';
 import { RunStateSchema, type Run, type RunState } from '../../../../shared/schemas/run';
 import { SelectField, TextField } from '../../../components/ui/field';
 import { Button } from '../../../components/ui/button';
@@ -26,6 +26,10 @@ export function RunsTable() {
   const [state, setState] = useState<RunState | ''>('');
   const [tag, setTag] = useState('');
   const [offset, setOffset] = useState(0);
+  // /runs?batteryId=4 lists one pack's history (linked from the battery list).
+  const [params, setParams] = useSearchParams();
+  const batteryParam = params.get('batteryId');
+  const batteryId = batteryParam && /^\d+$/.test(batteryParam) ? Number(batteryParam) : undefined;
 
   useEffect(() => {
     const timer = setTimeout(() => {
@@ -35,7 +39,7 @@ export function RunsTable() {
     return () => clearTimeout(timer);
   }, [search]);
 
-  const runs = useRuns({ q: q || undefined, state: state || undefined, tag: tag || undefined, limit: PAGE_SIZE, offset });
+  const runs = useRuns({ q: q || undefined, state: state || undefined, tag: tag || undefined, batteryId, limit: PAGE_SIZE, offset });
 
   const [selected, setSelected] = useState<number[]>([]);
   const toggle = (id: number) =>
@@ -96,6 +100,14 @@ export function RunsTable() {
         />
         <TextField label="Tag" placeholder="e.g. lfp" value={tag} onChange={(e) => { setTag(e.target.value.trim()); setOffset(0); }} />
       </div>
+      {batteryId !== undefined && (
+        <p className="flex items-center gap-3 text-sm">
+          <span className="rounded-full border border-accent px-3 py-1 font-semibold">Only pack #{batteryId}</span>
+          <button type="button" className="min-h-11 px-2 text-accent underline" onClick={() => setParams({})}>
+            Show every pack
+          </button>
+        </p>
+      )}
       {selected.length >= 2 && (
         <div>
           <Link to={`/runs/compare?ids=${selected.join(',')}`} className="inline-flex min-h-11 items-center rounded-lg bg-accent px-4 text-sm font-semibold text-accent-ink">
