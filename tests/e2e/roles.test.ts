@@ -76,7 +76,7 @@ describe('each demo role signs in and sees what it may do', () => {
     await form.getByLabel('Role').selectOption('viewer');
     await form.getByLabel('Starting password').fill('harbour-street-client');
     await form.getByRole('button', { name: 'Create user' }).click();
-    await page.getByRole('cell', { name: 'ines@harbourstreet.example' }).waitFor();
+    await page.getByRole('cell', { name: 'ines@harbourstreet.example', exact: true }).waitFor();
     await page.close();
   });
 
@@ -111,7 +111,7 @@ describe('each demo role signs in and sees what it may do', () => {
     await form.getByLabel('Cells in series').fill('8');
     await form.getByLabel('Rated capacity (Ah)').fill('100');
     await form.getByRole('button', { name: 'Register pack' }).click();
-    await page.getByRole('cell', { name: 'NG-0150' }).waitFor();
+    await page.getByRole('cell', { name: 'NG-0150', exact: true }).waitFor();
     await page.goto(`${t.url}/users`);
     await page.getByText('Not available for your role').waitFor();
     await page.close();
