@@ -1,5 +1,5 @@
 import { useState, type FormEvent } from 'react';
-import { BenchSourceConfigSchema, type BenchWithStatus, type SerialFormat } from '../../../../shared/schemas/bench';
+import { BenchSourceConfigSchema, DEFAULT_STALE_AFTER_S, type BenchWithStatus, type SerialFormat } from '../../../../shared/schemas/bench';
 import { Button } from '../../../components/ui/button';
 import { SelectField, TextField } from '../../../components/ui/field';
 import { ApiError } from '../../../lib/api-client';
@@ -9,6 +9,9 @@ import { FORMAT_TEMPLATES, SCENARIO_SUGGESTIONS } from './source-templates';
 type SourceKind = 'simulator' | 'serial' | 'none';
 const BAUD_RATES = ['9600', '19200', '38400', '57600', '115200', '230400'] as const;
 const DEFAULT_BAUD = '115200';
+/** Real time and a fixed seed: the same demo every time. */
+const DEFAULT_SIM_SPEED = '1';
+const DEFAULT_SIM_SEED = '1';
 
 function initialFormat(bench?: BenchWithStatus): { kind: SerialFormat['kind']; json: string } {
   if (bench?.source.kind === 'serial') return { kind: bench.source.format.kind, json: JSON.stringify(bench.source.format, null, 2) };
@@ -42,11 +45,11 @@ export function BenchForm({ bench, onSaved }: { bench?: BenchWithStatus; onSaved
     name: bench?.name ?? '',
     notes: bench?.notes ?? '',
     scenario: src?.kind === 'simulator' ? src.scenario : SCENARIO_SUGGESTIONS[0],
-    speed: src?.kind === 'simulator' ? String(src.speed) : '1',
-    seed: src?.kind === 'simulator' ? String(src.seed) : '1',
+    speed: src?.kind === 'simulator' ? String(src.speed) : DEFAULT_SIM_SPEED,
+    seed: src?.kind === 'simulator' ? String(src.seed) : DEFAULT_SIM_SEED,
     path: src?.kind === 'serial' ? src.path : '',
     baudRate: src?.kind === 'serial' ? String(src.baudRate) : DEFAULT_BAUD,
-    staleAfterS: src?.kind === 'serial' ? String(src.staleAfterS) : '10',
+    staleAfterS: src?.kind === 'serial' ? String(src.staleAfterS) : String(DEFAULT_STALE_AFTER_S),
   });
   const [format, setFormat] = useState(() => initialFormat(bench));
   const [enabled, setEnabled] = useState(bench?.enabled ?? true);
