@@ -9,6 +9,10 @@ export function BenchRunLine({ run, benchName, energyUnit }: { run: Run; benchNa
   const store = useLiveStore({ kind: 'run', id: run.id });
   const view = useLiveView(store);
   const state = view.run?.state ?? run.state;
+  // A charge run counts what goes in; every other run what comes out.
+  const charge = run.kind === 'charge';
+  const wh = charge ? view.chargeWh : view.dischargeWh;
+  const ah = charge ? view.chargeAh : view.dischargeAh;
   return (
     <div className="flex flex-col gap-3">
       <CutoffAlarm store={store} label={benchName} size="compact" />
@@ -17,7 +21,8 @@ export function BenchRunLine({ run, benchName, energyUnit }: { run: Run; benchNa
         <RunStateBadge state={state} />
       </div>
       <p className="num text-lg font-bold">
-        {formatEnergy(view.dischargeWh, energyUnit)} · {formatCharge(view.dischargeAh)} ·{' '}
+        {charge ? 'in ' : 'out '}
+        {formatEnergy(wh, energyUnit)} · {formatCharge(ah)} ·{' '}
         <span className="text-ink-muted">{view.t === null ? '—' : formatElapsedClock(view.t)} h:m:s</span>
       </p>
     </div>

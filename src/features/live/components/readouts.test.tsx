@@ -44,3 +44,26 @@ describe('readouts', () => {
     expect(screen.getByTestId('big-energy-out').nextElementSibling?.textContent).toBe('kWh');
   });
 });
+
+describe('readouts on a charge run', () => {
+  it('counts what goes in as the main totals', () => {
+    const store = new LiveStore((fn) => fn());
+    const topic = { kind: 'run', id: 5 } as const;
+    const now = '2026-12-01T20:00:00Z';
+    store.handle({
+      type: 'snapshot', seq: 1, topic, status: null, events: [],
+      run: {
+        id: 5, name: 'Kestrel cold charge', tags: [], origin: 'live', benchId: 2, batteryId: 3, kind: 'charge', state: 'recording',
+        endVolts: null, acceptancePercent: 95, alarms: { onCutoff: true }, stopWhen: 'manual', targetAh: null, targetWh: null,
+        afterRecoverySeconds: 0, readingsCount: 2, summary: null, startedAt: now, endedAt: now, createdBy: 1, createdAt: now, updatedAt: now,
+      },
+      // Demo charge at -10 A into a 25.6 V pack.
+      recent: { t: [0, 360], volts: [26.1, 26.4], amps: [-10, -10], watts: [-261, -264], temps: {}, dischargeWh: [0, 0], dischargeAh: [0, 0], chargeWh: [0, 26.3], chargeAh: [0, 1] },
+    });
+    render(<Readouts view={store.getSnapshot()} temperatureUnit="C" energyUnit="Wh" />);
+    expect(screen.getByText('Energy in')).toBeTruthy();
+    expect(screen.getByTestId('big-energy-in').textContent).toBe('26.3');
+    expect(screen.getByTestId('big-charge-in').textContent).toBe('1.00');
+    expect(screen.getByText('Amps (charging)')).toBeTruthy();
+  });
+});

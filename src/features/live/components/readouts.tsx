@@ -5,7 +5,8 @@ import { formatAmps, formatCharge, formatElapsedClock, formatEnergy, formatTempe
 
 /** Below these, a reading is meter noise around zero, not a charge. */
 const CHARGING_BELOW_AMPS = -0.1;
-const SHOW_CHARGE_FROM_WH = 0.1;
+/** Below this, energy the other way is noise around zero current, not worth a line. */
+const SHOW_OTHER_WAY_FROM_WH = 0.1;
 
 interface Props {
   view: LiveView;
@@ -20,6 +21,15 @@ interface Props {
 export function Readouts({ view, temperatureUnit, energyUnit, size = 'lg', stale = false }: Props) {
   const tempUnit = temperatureUnit === 'F' ? '°F' : '°C';
   const charging = (view.amps ?? 0) < CHARGING_BELOW_AMPS;
+  // A charge run counts what goes in; every other run counts what comes out.
+  const chargeRun = view.run?.kind === 'charge';
+  const main = chargeRun
+    ? { energyLabel: 'Energy in', chargeLabel: 'Charge in', wh: view.chargeWh, ah: view.chargeAh }
+    : { energyLabel: 'Energy out', chargeLabel: 'Charge out', wh: view.dischargeWh, ah: view.dischargeAh };
+  const other = chargeRun
+    ? { label: 'Discharged', wh: view.dischargeWh, ah: view.dischargeAh }
+    : { label: 'Charged in', wh: view.chargeWh, ah: view.chargeAh };
+  const totalsSize = size === 'room' ? 'room-small' : 'md';
   return (
     <div className={`flex flex-col gap-6 ${stale ? 'opacity-40 grayscale' : ''}`} aria-describedby={stale ? 'readouts-stale' : undefined}>
       <div className={`grid gap-6 ${size === 'room' ? 'grid-cols-2' : 'grid-cols-2 lg:grid-cols-4'}`}>
@@ -35,13 +45,13 @@ export function Readouts({ view, temperatureUnit, energyUnit, size = 'lg', stale
         />
       </div>
       <div className="grid grid-cols-3 gap-6 border-t border-line pt-4">
-        <BigNumber label="Energy out" text={formatEnergy(view.dischargeWh, energyUnit)} unit={energyUnit} size={size === 'room' ? 'room-small' : 'md'} />
-        <BigNumber label="Charge out" text={formatCharge(view.dischargeAh)} unit="Ah" size={size === 'room' ? 'room-small' : 'md'} />
-        <BigNumber label="Run time" text={view.t === null ? '—' : `${formatElapsedClock(view.t)} h:m:s`} unit="h:m:s" size={size === 'room' ? 'room-small' : 'md'} />
+        <BigNumber label={main.energyLabel} text={formatEnergy(main.wh, energyUnit)} unit={energyUnit} size={totalsSize} />
+        <BigNumber label={main.chargeLabel} text={formatCharge(main.ah)} unit="Ah" size={totalsSize} />
+        <BigNumber label="Run time" text={view.t === null ? '—' : `${formatElapsedClock(view.t)} h:m:s`} unit="h:m:s" size={totalsSize} />
       </div>
-      {(view.chargeWh ?? 0) >= SHOW_CHARGE_FROM_WH && (
+      {(other.wh ?? 0) >= SHOW_OTHER_WAY_FROM_WH && (
         <p className="text-sm text-ink-muted">
-          Charged in: <span className="num">{formatEnergy(view.chargeWh, energyUnit)}</span>, <span className="num">{formatCharge(view.chargeAh)}</span>
+          {other.label}: <span className="num">{formatEnergy(other.wh, energyUnit)}</span>, <span className="num">{formatCharge(other.ah)}</span>
         </p>
       )}
     </div>
