@@ -50,7 +50,7 @@ export function createRunsRouter(ctx: AppContext): Router {
   router.patch('/:id', requireRole('technician'), async (req, res) => {
     const change = parseBody(PatchRunRequestSchema, req.body);
     const run = await runOr404(req.params.id);
-    const updated = (await repo.patch(run.id, change))!;
+    const updated = live((await repo.patch(run.id, change))!);
     ctx.services.runRecorder?.renamed(updated);
     res.json({ run: updated });
   });
