@@ -9,7 +9,7 @@ import { createSequelize } from '../server/db/sequelize.js';
 import { migrate } from '../server/db/migrate.js';
 
 export const BENCH_DB_DIR = resolve('.data/bench-mariadb');
-export const BENCH_DB_PORT = Number(process.env.KNEEPOINT_BENCH_DB_PORT ?? 3319);
+export const BENCH_DB_PORT = Number(process.env.KNEEPOINT_BENCH_DB_PORT ?? 3329);
 
 /** Starts (or reuses) the benchmark MariaDB, creates a fresh database and migrates it. */
 export async function openBenchDb(name: string): Promise<{ mariadb: ProvisionedMariaDb; sequelize: Sequelize; close(): Promise<void> }> {
