@@ -40,6 +40,11 @@ export function liveAttachment(options: LiveOptions = {}) {
     const hub = new LiveHub({
       source: {
         benchStatus: (id) => ctx.services.benchManager?.getStatus(id) ?? null,
+        benchRun: (benchId) => {
+          const runId = recorder.runOnBench(benchId);
+          const s = runId === undefined ? undefined : recorder.session(runId);
+          return s ? recorder.liveView(s) : null;
+        },
         run: async (id) => {
           const s = recorder.session(id);
           if (s) return { run: recorder.liveView(s), events: s.events };

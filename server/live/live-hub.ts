@@ -14,6 +14,8 @@ export const RECENT_READINGS = 300;
 /** What a snapshot needs that the hub does not hold itself. */
 export interface SnapshotSource {
   benchStatus(benchId: number): BenchStatus | null;
+  /** The run live on a bench now (armed to recovered), or null when nothing records there. */
+  benchRun?(benchId: number): Run | null;
   /** The run (live or archived) and its events; null when there is no such run. */
   run(runId: number): Promise<{ run: Run; events: RunEvent[] } | null>;
 }
@@ -66,6 +68,7 @@ export class LiveHub {
     state.subscribers.add(client);
     client.subscriptions.add(key);
     const status = topic.kind === 'bench' ? this.opts.source.benchStatus(topic.id) : null;
+    if (topic.kind === 'bench') run = this.opts.source.benchRun?.(topic.id) ?? null;
     client.send({ type: 'snapshot', topic, status, run, recent: toReadingColumns(state.recent), events });
   }
 
@@ -111,7 +114,11 @@ export class LiveHub {
     this.publishEvent(stored.runId, stored.event, stored.id);
   }
 
-  /** A run changed state, name or tags. A run that ended drops its reading buffers. */
+  /**
+   * A run started, changed state, name or tags: told to the run's viewers and to its
+   * bench's, so a bench page learns of a run started elsewhere without polling. A run that
+   * ended drops its reading buffers.
+   */
   publishRun(run: Run): void {
     const topic: Topic = { kind: 'run', id: run.id };
     const key = topicKey(topic);
@@ -122,6 +129,12 @@ export class LiveHub {
       for (const c of state.subscribers) c.sendPayload(json);
       if ((run.state === 'finished' || run.state === 'aborted') && state.subscribers.size === 0) this.topics.delete(key);
     }
+    if (run.benchId === null) return;
+    const benchTopic: Topic = { kind: 'bench', id: run.benchId };
+    const bench = this.topics.get(topicKey(benchTopic));
+    if (!bench?.subscribers.size) return;
+    const json = JSON.stringify({ type: 'run', topic: benchTopic, run });
+    for (const c of bench.subscribers) c.sendPayload(json);
   }
 
   /** A bench's source status changed. */

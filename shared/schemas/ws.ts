@@ -59,7 +59,11 @@ export const HelloMessageSchema = z.object({
   user: z.object({ id: z.number().int(), role: z.enum(['admin', 'technician', 'viewer']) }),
 });
 
-/** Sent once after each subscribe: the current state and the last few readings. */
+/**
+ * Sent once after each subscribe: the current state and the last few readings. `run` is the
+ * run itself on a run topic, and on a bench topic the run live on that bench (armed to
+ * recovered) or null when nothing records there.
+ */
 export const SnapshotMessageSchema = z.object({
   type: z.literal('snapshot'),
   seq,
@@ -89,7 +93,10 @@ export const EventMessageSchema = z.object({
   event: RunEventSchema,
 });
 
-/** A run changed state (armed → recording → cutoff → …) or its name/tags/summary changed. */
+/**
+ * A run started, changed state (armed → recording → cutoff → …) or its name/tags/summary
+ * changed. Sent on the run's topic and on its bench's topic (`topic` says which).
+ */
 export const RunMessageSchema = z.object({ type: z.literal('run'), seq, topic: TopicSchema, run: RunSchema });
 
 /** A bench's source status changed. */

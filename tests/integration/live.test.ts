@@ -141,3 +141,34 @@ describe('WebSocket /ws', () => {
     expect(slowTs.length + dropped).toBe(lastSeen - 1_000_000 + 1);
   });
 });
+
+describe('bench topic carries its current run', () => {
+  it('snapshots the live run on a bench and sends run messages on start, state change and end', async () => {
+    const admin = await signInAs(t, 'admin');
+    const own = await batteryAndBench(admin);
+    const bench = { kind: 'bench' as const, id: own.benchId };
+    const p = await open(await sessionCookie(t, 'viewer'));
+    p.send({ type: 'subscribe', topic: bench });
+    expect((await p.next('snapshot')).run).toBeNull();
+
+    const run = (await tech.post('/api/runs').send({ ...own, name: 'Bench topic run', stopWhen: 'manual' }).expect(201)).body.run;
+    const armed = await p.next('run', (m) => m.topic.kind === 'bench' && m.run.id === run.id);
+    expect(armed.topic).toEqual(bench);
+    expect(armed.run.state).toBe('armed');
+
+    feed.emit(own.benchId, { t: 0, volts: 13.1, amps: 5, clock: 'device' });
+    await p.next('run', (m) => m.topic.kind === 'bench' && m.run.state === 'recording');
+
+    const late = await open(await sessionCookie(t, 'viewer'));
+    late.send({ type: 'subscribe', topic: bench });
+    const snap = await late.next('snapshot');
+    expect(snap.run?.id).toBe(run.id);
+    expect(snap.run?.state).toBe('recording');
+
+    await tech.post(`/api/runs/${run.id}/stop`).send({}).expect(200);
+    await p.next('run', (m) => m.topic.kind === 'bench' && m.run.state === 'finished');
+    const after = await open(await sessionCookie(t, 'viewer'));
+    after.send({ type: 'subscribe', topic: bench });
+    expect((await after.next('snapshot')).run).toBeNull();
+  });
+});
