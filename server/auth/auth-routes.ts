@@ -4,6 +4,7 @@ import { ChangePasswordRequestSchema, LoginRequestSchema, type PublicUser } from
 import { HttpError } from '../http/http-error.js';
 import { issueCsrfToken } from '../http/csrf.js';
 import { parseBody } from '../http/validate.js';
+import { endUserSessions } from './end-sessions.js';
 import { createLoginRateLimit } from './login-rate-limit.js';
 import { requireSignedIn } from './guards.js';
 import { hashPassword, verifyPassword } from './password.js';
@@ -49,6 +50,8 @@ export function createAuthRouter(ctx: AppContext): Router {
       throw new HttpError(400, 'The current password is wrong', { currentPassword: ['wrong password'] });
     }
     await row.update({ passwordHash: await hashPassword(body.newPassword) });
+    // Whoever else holds this account (a stolen cookie, another device) has to sign in again.
+    await endUserSessions(ctx, row.id, req.sessionID);
     res.status(204).end();
   });
 

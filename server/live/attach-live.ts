@@ -6,6 +6,7 @@ import { isSameOrigin, sessionUserFromRequest } from '../auth/upgrade-auth.js';
 import { batteryLookup } from '../runs/battery-facts.js';
 import { RunRecorder, type FrameFeed } from '../runs/run-recorder.js';
 import { RunsRepo } from '../runs/runs-repo.js';
+import '../auth/end-sessions.js';
 import '../runs/runs-services.js';
 import { LiveHub } from './live-hub.js';
 import { attachWsServer } from './ws-server.js';
@@ -75,7 +76,9 @@ export function liveAttachment(options: LiveOptions = {}) {
       checkOrigin: isSameOrigin,
       log: (m, e) => ctx.log.error(m, e),
     });
+    ctx.services.closeUserSockets = ws.closeUser;
     return async () => {
+      delete ctx.services.closeUserSockets;
       await ws.close();
       for (const off of unsubscribe) off();
       recorder.detach();

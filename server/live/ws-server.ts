@@ -9,6 +9,8 @@ import type { LiveHub } from './live-hub.js';
 export const WS_PATH = '/ws';
 /** A socket that has not answered the previous ping by the next one is terminated. */
 export const HEARTBEAT_MS = 15_000;
+/** Close code for a socket whose session was ended (policy violation, RFC 6455 §7.4.1). */
+export const SESSION_ENDED_CODE = 1008;
 
 export interface WsServerOptions {
   hub: LiveHub;
@@ -30,9 +32,14 @@ function refuse(socket: Duplex, status: number, reason: string): void {
  * greets with hello, hands validated subscribe/unsubscribe messages to the hub, answers
  * pings, and terminates sockets that stop answering heartbeats.
  */
-export function attachWsServer(httpServer: Server, opts: WsServerOptions): { close(): Promise<void>; clients(): number } {
+export function attachWsServer(
+  httpServer: Server,
+  opts: WsServerOptions,
+): { close(): Promise<void>; clients(): number; closeUser(userId: number, keepSid?: string): void } {
   const wss = new WebSocketServer({ noServer: true, maxPayload: MAX_CLIENT_MESSAGE_BYTES });
   const alive = new WeakMap<WebSocket, boolean>();
+  // Who opened each socket with which session, so ending a user's sessions closes their sockets too.
+  const owners = new WeakMap<WebSocket, { userId: number; sid: string | undefined }>();
   const log = opts.log ?? (() => undefined);
 
   const onUpgrade = (req: IncomingMessage, socket: Duplex, head: Buffer) => {
@@ -43,7 +50,11 @@ export function attachWsServer(httpServer: Server, opts: WsServerOptions): { clo
       .authenticate(req)
       .then((user) => {
         if (!user) return refuse(socket, 401, 'Unauthorized');
-        wss.handleUpgrade(req, socket, head, (ws) => onConnection(ws, user));
+        const sid = (req as IncomingMessage & { sessionID?: string }).sessionID;
+        wss.handleUpgrade(req, socket, head, (ws) => {
+          owners.set(ws, { userId: user.id, sid });
+          onConnection(ws, user);
+        });
       })
       .catch((err: unknown) => {
         log('ws: session check failed', err);
@@ -92,6 +103,12 @@ export function attachWsServer(httpServer: Server, opts: WsServerOptions): { clo
   httpServer.on('upgrade', onUpgrade);
   return {
     clients: () => wss.clients.size,
+    closeUser: (userId, keepSid) => {
+      for (const ws of wss.clients) {
+        const owner = owners.get(ws);
+        if (owner?.userId === userId && (keepSid === undefined || owner.sid !== keepSid)) ws.close(SESSION_ENDED_CODE, 'Session ended');
+      }
+    },
     close: () =>
       new Promise<void>((resolve) => {
         clearInterval(heartbeat);

@@ -2,6 +2,7 @@ import { Router } from 'express';
 import type { AppContext } from '../app-context.js';
 import { CreateUserRequestSchema, UpdateUserRequestSchema } from '../../shared/schemas/user.js';
 import { requireRole } from '../auth/guards.js';
+import { endUserSessions } from '../auth/end-sessions.js';
 import { parseBody, parseIdParam } from '../http/validate.js';
 import { createUser, listUsers, updateUser } from './users-service.js';
 
@@ -22,6 +23,8 @@ export function createUsersRouter(ctx: AppContext): Router {
   router.patch('/:id', async (req, res) => {
     const change = parseBody(UpdateUserRequestSchema, req.body);
     const user = await updateUser(ctx.models, req.user!.id, parseIdParam(req.params.id), change);
+    // A disabled account loses its sessions and live sockets now, and stays signed out if re-enabled.
+    if (change.disabled) await endUserSessions(ctx, user.id);
     res.json({ user });
   });
 
