@@ -7,6 +7,7 @@ import { parseBody, parseIdParam } from '../http/validate.js';
 import { benchManagerOf } from './bench-services.js';
 import { createBenchService, withStatus } from './bench-service.js';
 import { listSerialPorts } from './list-serial-ports.js';
+import { assertNoLiveRun } from './live-run-guard.js';
 
 /** /api/benches: everyone signed in reads benches with live status; admins configure them. */
 export function createBenchesRouter(ctx: AppContext): Router {
@@ -42,7 +43,9 @@ export function createBenchesRouter(ctx: AppContext): Router {
   });
 
   router.delete('/:id', requireRole('admin'), async (req, res) => {
-    await service.remove(await findOr404(parseIdParam(req.params.id)));
+    const row = await findOr404(parseIdParam(req.params.id));
+    await assertNoLiveRun(ctx, row.id);
+    await service.remove(row);
     res.status(204).end();
   });
 

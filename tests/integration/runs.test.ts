@@ -170,3 +170,21 @@ describe('a live run', () => {
     expect(run.summary.dischargeAh).toBeCloseTo(98 / 3600, 12);
   });
 });
+
+describe('deleting a bench', () => {
+  it('is refused (409, naming the run) while a run records on it, and allowed once the run ends; the run keeps its readings', async () => {
+    const admin = await signInAs(t, 'admin');
+    const own = await batteryAndBench(admin);
+    const run = (await tech.post('/api/runs').send({ ...own, name: 'Bench delete guard', stopWhen: 'manual' }).expect(201)).body.run;
+    for (let s = 0; s < 5; s++) feed.emit(own.benchId, { t: s, volts: 13, amps: 2, clock: 'device' });
+    const refused = await admin.delete(`/api/benches/${own.benchId}`).expect(409);
+    expect(refused.body.error.message).toMatch(new RegExp(`recording run ${run.id}`));
+    await admin.get(`/api/benches/${own.benchId}`).expect(200);
+    await tech.post(`/api/runs/${run.id}/stop`).send({}).expect(200);
+    await admin.delete(`/api/benches/${own.benchId}`).expect(204);
+    await eventually(async () => {
+      const got = RunResponseSchema.parse((await viewer.get(`/api/runs/${run.id}`).expect(200)).body);
+      expect(got.run).toMatchObject({ state: 'finished', readingsCount: 5 });
+    });
+  });
+});
