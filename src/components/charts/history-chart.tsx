@@ -2,6 +2,7 @@ import { useEffect, useRef } from 'react';
 import uPlot from 'uplot';
 import 'uplot/dist/uPlot.min.css';
 import type { SamplesResponse } from '../../../shared/schemas/api-runs';
+import { pickTempChannel } from '../../lib/live-view';
 import { SIGNAL_COLORS } from '../../lib/palette';
 import { formatAmps, formatElapsedClock, formatTemperature, formatVolts } from '../../lib/units';
 import { useTheme } from '../../lib/use-theme';
@@ -17,8 +18,9 @@ export interface ChartMarker {
 const BAND_ALPHA_HEX = '33';
 const MARKER_WIDTH_PX = 2;
 
+/** The chart's columns; the temperature is the same channel the live screens show (the cell when there is one). */
 function toData(s: SamplesResponse): uPlot.AlignedData {
-  const tempName = Object.keys(s.temps).sort()[0];
+  const tempName = pickTempChannel(s.temps);
   const temp = tempName ? s.temps[tempName].max : s.t.map(() => null);
   return [s.t, s.volts.max, s.volts.min, s.amps.max, s.amps.min, temp];
 }

@@ -1,0 +1,23 @@
+import { render } from '@testing-library/react';
+import uPlot from 'uplot';
+import { describe, expect, it } from 'vitest';
+import type { SamplesResponse } from '../../../shared/schemas/api-runs';
+import { HistoryChart } from './history-chart';
+
+// uplot is replaced by the recording stand-in from tests/setup/client.ts.
+const instances = (uPlot as unknown as { instances: { data: unknown[][] }[] }).instances;
+const col = (v: number[]) => ({ min: v, max: v });
+
+describe('HistoryChart', () => {
+  it('draws the cell temperature, as the live screens do, when the run also logged ambient', () => {
+    // Ambient sorts before cell: the chart must not fall back to alphabetical order.
+    const samples: SamplesResponse = {
+      runId: 1, from: 0, to: 2, reduced: false, bucketSeconds: null, readingsInWindow: 3,
+      t: [0, 1, 2], volts: col([13.2, 13.1, 13]), amps: col([45, 45, 46]), watts: col([594, 590, 598]),
+      temps: { ambient: col([23, 23, 23]), cell: col([23.4, 25.1, 28.6]) },
+    };
+    render(<HistoryChart samples={samples} onZoom={() => {}} />);
+    const plot = instances[instances.length - 1];
+    expect(plot.data[5]).toEqual([23.4, 25.1, 28.6]);
+  });
+});
