@@ -16,7 +16,8 @@ export function AnnotationBox({ runId }: { runId: number }) {
     e.preventDefault();
     const note = text.trim();
     if (!note) return;
-    annotate.mutate({ runId, text: note }, { onSuccess: () => setText('') });
+    // Saved: leave the box, so the next key press is a shortcut again (F, A), not more note.
+    annotate.mutate({ runId, text: note }, { onSuccess: () => { setText(''); inputRef.current?.blur(); } });
   };
 
   return (

@@ -1,4 +1,4 @@
-import { screen } from '@testing-library/react';
+import { fireEvent, screen, waitFor } from '@testing-library/react';
 import { describe, expect, it } from 'vitest';
 import type { Run } from '../../../../shared/schemas/run';
 import type { PublicUser } from '../../../../shared/schemas/user';
@@ -17,7 +17,8 @@ const run: Run = {
 };
 
 function openBenchAs(user: PublicUser, status: object = bench.status) {
-  stubApi(user, (url) => {
+  stubApi(user, (url, init) => {
+    if (url === '/api/runs/31/events' && init?.method === 'POST') return { status: 201, body: {} };
     if (url === '/api/benches/1') return { status: 200, body: { bench: { ...bench, status } } };
     if (url.startsWith('/api/runs?benchId=1')) return { status: 200, body: { runs: [run], total: 1 } };
     return undefined;
@@ -49,5 +50,15 @@ describe('bench page by role', () => {
   it('says plainly when the meter has gone quiet during a run', async () => {
     openBenchAs(demoUser('technician'), { state: 'stale', message: 'no data for 12 s', framesOk: 10, framesRejected: 0 });
     expect((await screen.findByText(/Meter not delivering: no data for 12 s/)).textContent).toContain('integrates nothing across it');
+  });
+
+  it('leaves the note box once a note is saved, so the next key is a shortcut again', async () => {
+    openBenchAs(demoUser('technician'));
+    const box = await screen.findByLabelText(/Note on this run/);
+    box.focus();
+    fireEvent.change(box, { target: { value: 'Fan on, ambient 22 °C' } });
+    fireEvent.keyDown(box, { key: 'Enter' });
+    await waitFor(() => expect((box as HTMLTextAreaElement).value).toBe(''));
+    expect(document.activeElement).not.toBe(box);
   });
 });
