@@ -35,7 +35,10 @@ export class LiveStore {
   private readonly snapshotListeners = new Set<(firstT: number | null) => void>();
   private readonly row: (number | null)[] = new Array(COLUMN_COUNT).fill(null);
 
-  constructor(private readonly schedule: FrameScheduler = defaultScheduler) {}
+  constructor(
+    private readonly schedule: FrameScheduler = defaultScheduler,
+    private readonly nowMs: () => number = Date.now,
+  ) {}
 
   /** For useSyncExternalStore. */
   subscribe = (listener: () => void): (() => void) => {
@@ -113,6 +116,7 @@ export class LiveStore {
         break;
       case 'batch':
         this.appendReadings(message.readings, false);
+        if (message.readings.t.length > 0) this.update({ receivedAtMs: this.nowMs() });
         if (message.dropped > 0) this.update({ droppedReadings: this.next.droppedReadings + message.dropped });
         break;
       case 'event':

@@ -23,13 +23,18 @@ export interface LiveView {
   error: string | null;
   /** Bumped whenever the ring buffer changes, so the chart knows to redraw. */
   dataVersion: number;
+  /**
+   * When (this browser's clock, ms) the latest live batch arrived. The bench status only
+   * moves when its state changes, so "last reading … ago" needs this to stay true.
+   */
+  receivedAtMs: number | null;
 }
 
 /** A topic before its first message. */
 export const EMPTY_LIVE_VIEW: LiveView = {
   t: null, volts: null, amps: null, watts: null, tempCelsius: null, tempChannel: null,
   dischargeWh: null, dischargeAh: null, chargeWh: null, chargeAh: null,
-  run: null, status: null, events: [], droppedReadings: 0, error: null, dataVersion: 0,
+  run: null, status: null, events: [], droppedReadings: 0, error: null, dataVersion: 0, receivedAtMs: null,
 };
 
 /** Archived history as the samples API answers it: min/max per bucket (equal at full resolution). */

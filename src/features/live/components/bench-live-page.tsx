@@ -17,12 +17,18 @@ import { StartRunForm } from './start-run-form';
 /** Source states in which the meter is not delivering readings. */
 const QUIET_STATES: ReadonlySet<SourceState> = new Set(['stale', 'error', 'reconnecting']);
 
-/** "last reading 4 s ago", ticking, so a frozen number never passes for a live one. */
-function LastReading({ iso }: { iso: string | undefined }) {
-  const now = useNow() + useServerClockOffsetMs();
-  if (!iso) return null;
-  const ageSeconds = Math.max(0, (now - Date.parse(iso)) / 1000);
-  return <span>last reading {formatDuration(ageSeconds)} ago</span>;
+/**
+ * "last reading 4 s ago", ticking, so a frozen number never passes for a live one. The status
+ * (server clock) moves only when the bench's state changes; a live batch (this browser's
+ * clock) is fresher while readings stream.
+ */
+function LastReading({ iso, receivedAtMs }: { iso: string | undefined; receivedAtMs: number | null }) {
+  const now = useNow();
+  const offsetMs = useServerClockOffsetMs();
+  const ages = [iso ? (now + offsetMs - Date.parse(iso)) / 1000 : Infinity, receivedAtMs === null ? Infinity : (now - receivedAtMs) / 1000];
+  const ageSeconds = Math.min(...ages);
+  if (!Number.isFinite(ageSeconds)) return null;
+  return <span>last reading {formatDuration(Math.max(0, ageSeconds))} ago</span>;
 }
 
 /** One bench: its live run when there is one, otherwise its raw readings and the start form. */
@@ -54,7 +60,7 @@ export function BenchLivePage({ benchId, canAct, canSetUp = false }: { benchId: 
           <span className="flex flex-wrap items-center gap-3">
             <BenchStatusBadge state={status.state} />
             <span className="num">{status.framesOk} frames ok · {status.framesRejected} rejected</span>
-            <LastReading iso={status.lastFrameAt} />
+            <LastReading iso={status.lastFrameAt} receivedAtMs={view.receivedAtMs} />
             {status.message && <span>{status.message}</span>}
           </span>
         }
