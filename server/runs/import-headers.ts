@@ -10,6 +10,8 @@ export interface ColumnPlan {
   volts: { index: number; scale: number };
   amps: { index: number; scale: number };
   temp: { index: number; unit: 'C' | 'F' | 'K' } | null;
+  /** Numbers written with a decimal comma (semicolon- or tab-separated logs). */
+  decimalComma?: boolean;
 }
 
 export interface ColumnOverrides {
@@ -71,7 +73,7 @@ export function planColumns(headers: readonly string[], firstRow: readonly strin
   const amps = find(headers, 'amps', AMP_NAMES, overrides.amps);
   const temp = find(headers, 'temp', TEMP_NAMES, overrides.temp);
   const missing = [!time && 'time', !volts && 'volts', !amps && 'amps'].filter(Boolean);
-  if (missing.length) throw new HttpError(400, `line 1: no ${missing.join(', ')} column recognised in header "${headers.join(',')}"; name them or send a column mapping`);
+  if (missing.length) throw new HttpError(400, `line 1: no ${missing.join(', ')} column recognised in header "${headers.join(',').slice(0, 200)}"; name them or send a column mapping`);
   const sample = firstRow?.[time!.index]?.trim() ?? '';
   const looksIso = sample !== '' && !Number.isFinite(Number(sample)) && !Number.isNaN(Date.parse(sample));
   const timeUnit = overrides.timeUnit ?? (looksIso ? 'iso' : (unitOf('time', time!.unit) as TimeUnit | undefined));
@@ -97,6 +99,9 @@ const SECONDS_PER: Record<Exclude<TimeUnit, 'iso'>, number> = { s: 1, ms: 1e-3, 
 /** °F → °C and K → °C (exact definitions of the scales). */
 const toCelsius = { C: (v: number) => v, F: (v: number) => ((v - 32) * 5) / 9, K: (v: number) => v - 273.15 };
 
+/** A plain decimal number as loggers write it (no hex, no "Infinity", no thousands separators). */
+const DECIMAL = /^[+-]?(\d+\.?\d*|\.\d+)(e[+-]?\d+)?$/i;
+
 /** One parsed row, before the current's sign is settled. */
 export interface ParsedRow {
   t: number;
@@ -108,9 +113,10 @@ export interface ParsedRow {
 /** Parses one data row by the plan; throws a 400 naming the line and the bad field. */
 export function parseRow(plan: ColumnPlan, fields: readonly string[], line: number): ParsedRow {
   const num = (index: number, what: string): number => {
-    const text = fields[index]?.trim() ?? '';
-    const v = text === '' ? Number.NaN : Number(text);
-    if (!Number.isFinite(v)) throw new HttpError(400, `line ${line}: ${what} "${text}" is not a number`);
+    const raw = fields[index]?.trim() ?? '';
+    const text = plan.decimalComma ? raw.replace(',', '.') : raw;
+    const v = DECIMAL.test(text) ? Number(text) : Number.NaN;
+    if (!Number.isFinite(v)) throw new HttpError(400, `line ${line}: ${what} "${raw.slice(0, 40)}" is not a number`);
     return v;
   };
   let t: number;

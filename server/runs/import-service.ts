@@ -1,5 +1,3 @@
-import { createReadStream } from 'node:fs';
-import { parse } from 'csv-parse';
 import type { Sequelize } from 'sequelize';
 import { createRunPipeline } from '../../shared/measure/run-pipeline.js';
 import { summarizeRun } from '../../shared/measure/summarize-run.js';
@@ -11,6 +9,7 @@ import { COMPACT_READINGS, writeBatch } from '../archive/chunk-store.js';
 import { encodeChunk } from '../archive/chunk-encode.js';
 import { readingsToColumns } from '../archive/reading-columns.js';
 import { HttpError } from '../http/http-error.js';
+import { csvRecords, sniffDelimiter, type Delimiter } from './import-csv.js';
 import { parseRow, planColumns, type ColumnOverrides, type ColumnPlan } from './import-headers.js';
 import { measureConfigFor, type BatteryFacts } from './measure-config.js';
 import type { RunConfig, RunsRepo } from './runs-repo.js';
@@ -26,39 +25,33 @@ export interface ImportRequest {
   userId: number;
 }
 
-/** csv-parse records with their line numbers, so errors can name the line. */
-async function* records(filePath: string): AsyncGenerator<{ fields: string[]; line: number }> {
-  const parser = createReadStream(filePath).pipe(parse({ info: true, relax_column_count: false, skip_empty_lines: true, trim: true, comment: '#' }));
-  try {
-    for await (const rec of parser as AsyncIterable<{ record: string[]; info: { lines: number } }>) yield { fields: rec.record, line: rec.info.lines };
-  } catch (err) {
-    const e = err as { message?: string; lines?: number; code?: string };
-    if (e.code?.startsWith('CSV_')) throw new HttpError(400, `line ${e.lines ?? '?'}: ${e.message ?? 'malformed CSV'}`);
-    throw err;
-  }
-}
-
 /** Pass 1: check every row and learn the sign of the current, holding nothing but counts. */
-async function survey(req: ImportRequest): Promise<{ plan: ColumnPlan; flip: boolean; rows: number }> {
+async function survey(req: ImportRequest, delimiter: Delimiter): Promise<{ plan: ColumnPlan; flip: boolean; rows: number }> {
   let headers: string[] | null = null;
   let plan: ColumnPlan | null = null;
   let rows = 0;
   let positive = 0;
   let negative = 0;
-  for await (const { fields, line } of records(req.filePath)) {
+  let lastT = Number.NEGATIVE_INFINITY;
+  for await (const { fields, line } of csvRecords(req.filePath, delimiter)) {
     if (!headers) {
       headers = fields;
       continue;
     }
-    plan ??= planColumns(headers, fields, req.columns);
+    plan ??= { ...planColumns(headers, fields, req.columns), decimalComma: delimiter !== ',' };
     if (fields.length !== headers.length) throw new HttpError(400, `line ${line}: ${fields.length} fields, the header has ${headers.length}`);
     const row = parseRow(plan, fields, line);
+    // Out-of-order rows would be dropped by the integrator: refuse the file rather than lose them quietly.
+    if (row.t < lastT) throw new HttpError(400, `line ${line}: time goes back (${row.t} s after ${lastT} s); rows must be in time order`);
+    lastT = row.t;
     if (row.amps > 0) positive++;
     else if (row.amps < 0) negative++;
     rows++;
   }
   if (!headers) throw new HttpError(400, 'line 1: the file is empty; expected a header row');
-  if (!plan || rows < 2) throw new HttpError(400, `line ${rows + 2}: at least two readings are needed after the header`);
+  // A header alone (or a file that is no CSV) is reported by what is wrong with its header first.
+  plan ??= { ...planColumns(headers, null, req.columns), decimalComma: delimiter !== ',' };
+  if (rows < 2) throw new HttpError(400, `line ${rows + 2}: at least two readings are needed after the header`);
   const flip = req.currentSign === 'discharge-negative' || (req.currentSign === 'auto' && negative > positive);
   return { plan, flip, rows };
 }
@@ -69,7 +62,8 @@ async function survey(req: ImportRequest): Promise<{ plan: ColumnPlan; flip: boo
  * nothing behind. The run's figures come from the same pipeline as live runs.
  */
 export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: ImportRequest): Promise<ImportResponse> {
-  const { plan, flip, rows } = await survey(req);
+  const delimiter = await sniffDelimiter(req.filePath);
+  const { plan, flip, rows } = await survey(req, delimiter);
   const config: RunConfig = {
     kind: 'capacity-discharge',
     endVolts: req.endVolts ? { mode: 'absolute', volts: req.endVolts } : null,
@@ -97,7 +91,7 @@ export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: Impor
       await writeBatch(sequelize, { runId: run.id, block, events: [], patch: { readingsCount: seq } });
     };
     let header = true;
-    for await (const { fields, line } of records(req.filePath)) {
+    for await (const { fields, line } of csvRecords(req.filePath, delimiter)) {
       if (header) {
         header = false;
         continue;
