@@ -34,5 +34,8 @@ describe('bench page: age of the last reading', () => {
     renderAt('/benches/1', socket);
     expect(await screen.findByText(/^last reading \d+ s ago$/)).toBeTruthy();
     expect(screen.queryByText(/last reading 10 min/)).toBeNull();
+    // No run records here: the meter's own clock is not a run time.
+    expect(screen.getByTestId('big-volts').textContent).toBe('13.10');
+    expect(screen.queryByTestId('big-run-time')).toBeNull();
   });
 });

@@ -103,7 +103,7 @@ export function BenchLivePage({ benchId, canAct, canSetUp = false }: { benchId: 
           )}
           <Card className="p-6">
             <h2 className="mb-4 font-semibold text-ink-muted">Meter readings (no run recording)</h2>
-            <Readouts view={view} temperatureUnit={settings.temperatureUnit} energyUnit={settings.energyUnit} />
+            <Readouts view={view} temperatureUnit={settings.temperatureUnit} energyUnit={settings.energyUnit} totals={false} />
           </Card>
           {canAct ? (
             <Card className="p-6">

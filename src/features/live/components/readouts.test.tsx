@@ -66,4 +66,15 @@ describe('readouts on a charge run', () => {
     expect(screen.getByTestId('big-charge-in').textContent).toBe('1.00');
     expect(screen.getByText('Amps (charging)')).toBeTruthy();
   });
+
+  it('shows no totals and no run time on a bench with no run', () => {
+    const view = viewAfter({
+      type: 'batch', seq: 3, topic: { kind: 'bench', id: 1 }, dropped: 0,
+      readings: { t: [26040], volts: [13.19], amps: [45.5], watts: [600], temps: {} },
+    });
+    render(<Readouts view={view} temperatureUnit="C" energyUnit="Wh" totals={false} />);
+    expect(screen.getByTestId('big-volts').textContent).toBe('13.19');
+    expect(screen.queryByTestId('big-run-time')).toBeNull();
+    expect(screen.queryByTestId('big-energy-out')).toBeNull();
+  });
 });

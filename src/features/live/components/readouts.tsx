@@ -15,10 +15,12 @@ interface Props {
   size?: 'lg' | 'room';
   /** The meter has gone quiet: the numbers are the last ones seen, and look it. */
   stale?: boolean;
+  /** False on a bench with no run: there is nothing to total, and no run time. */
+  totals?: boolean;
 }
 
 /** The instantaneous numbers and the running totals, every one with its unit. */
-export function Readouts({ view, temperatureUnit, energyUnit, size = 'lg', stale = false }: Props) {
+export function Readouts({ view, temperatureUnit, energyUnit, size = 'lg', stale = false, totals = true }: Props) {
   const tempUnit = temperatureUnit === 'F' ? '°F' : '°C';
   const charging = (view.amps ?? 0) < CHARGING_BELOW_AMPS;
   // A charge run counts what goes in; every other run counts what comes out.
@@ -44,12 +46,14 @@ export function Readouts({ view, temperatureUnit, energyUnit, size = 'lg', stale
           size={size}
         />
       </div>
-      <div className="grid grid-cols-3 gap-6 border-t border-line pt-4">
-        <BigNumber label={main.energyLabel} text={formatEnergy(main.wh, energyUnit)} unit={energyUnit} size={totalsSize} />
-        <BigNumber label={main.chargeLabel} text={formatCharge(main.ah)} unit="Ah" size={totalsSize} />
-        <BigNumber label="Run time" text={view.t === null ? '—' : `${formatElapsedClock(view.t)} h:m:s`} unit="h:m:s" size={totalsSize} />
-      </div>
-      {(other.wh ?? 0) >= SHOW_OTHER_WAY_FROM_WH && (
+      {totals && (
+        <div className="grid grid-cols-3 gap-6 border-t border-line pt-4">
+          <BigNumber label={main.energyLabel} text={formatEnergy(main.wh, energyUnit)} unit={energyUnit} size={totalsSize} />
+          <BigNumber label={main.chargeLabel} text={formatCharge(main.ah)} unit="Ah" size={totalsSize} />
+          <BigNumber label="Run time" text={view.t === null ? '—' : `${formatElapsedClock(view.t)} h:m:s`} unit="h:m:s" size={totalsSize} />
+        </div>
+      )}
+      {totals && (other.wh ?? 0) >= SHOW_OTHER_WAY_FROM_WH && (
         <p className="text-sm text-ink-muted">
           {other.label}: <span className="num">{formatEnergy(other.wh, energyUnit)}</span>, <span className="num">{formatCharge(other.ah)}</span>
         </p>
