@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import type { SessionUser } from '../auth/session-user.js';
 import { BACKPRESSURE_HIGH_BYTES } from './backpressure-policy.js';
 import { ClientSender, type SocketLike } from './client-sender.js';
-import { LiveHub, MIN_BATCH_INTERVAL_MS } from './live-hub.js';
+import { LiveHub, MAX_SUBSCRIPTIONS_PER_CLIENT, MIN_BATCH_INTERVAL_MS } from './live-hub.js';
 
 const user: SessionUser = { id: 1, email: 'v@lab', name: 'V', role: 'viewer', disabled: false };
 class FakeSocket implements SocketLike {
@@ -90,5 +90,34 @@ describe('LiveHub', () => {
     hub.publishSample({ kind: 'bench', id: 1 }, frame(0));
     advance(1000);
     expect([...a.sent, ...b.sent].filter((m) => m.type === 'batch')).toHaveLength(0);
+  });
+});
+
+describe('LiveHub memory under hostile subscriptions', () => {
+  it('caps one client\'s subscriptions and forgets empty topics when clients leave', async () => {
+    const { hub } = setup();
+    const sock = new FakeSocket();
+    const c = new ClientSender(sock, user);
+    for (let id = 1; id <= MAX_SUBSCRIPTIONS_PER_CLIENT + 100; id++) await hub.subscribe(c, { kind: 'bench', id });
+    expect(c.subscriptions.size).toBe(MAX_SUBSCRIPTIONS_PER_CLIENT);
+    expect(sock.sent.filter((m) => m.type === 'error')).toHaveLength(100);
+    expect(hub.topicCount()).toBe(MAX_SUBSCRIPTIONS_PER_CLIENT);
+    // A bench with readings keeps its recent buffer for the next viewer; made-up ids go.
+    hub.publishSample({ kind: 'bench', id: 1 }, frame(0));
+    hub.removeClient(c);
+    expect(hub.topicCount()).toBe(1);
+  });
+
+  it('forgets an ended run once its last viewer leaves', async () => {
+    const { hub } = setup();
+    const sock = new FakeSocket();
+    const c = new ClientSender(sock, user);
+    (hub as unknown as { opts: { source: { run: unknown } } }).opts.source.run = async () => ({ run: null, events: [] });
+    await hub.subscribe(c, { kind: 'run', id: 4 });
+    hub.publishSample({ kind: 'run', id: 4 }, { ...frame(0), elapsedSeconds: 0, watts: 12, dischargeWh: 0, dischargeAh: 0, chargeWh: 0, chargeAh: 0 });
+    hub.publishRun({ id: 4, benchId: null, state: 'finished' } as unknown as Parameters<typeof hub.publishRun>[0]);
+    expect(hub.topicCount()).toBe(1);
+    hub.unsubscribe(c, { kind: 'run', id: 4 });
+    expect(hub.topicCount()).toBe(0);
   });
 });

@@ -10,6 +10,8 @@ import { toReadingColumns, type LiveSample } from './reading-columns.js';
 export const MIN_BATCH_INTERVAL_MS = 100;
 /** Readings kept per topic for a new subscriber's snapshot (30 s at 10 Hz). */
 export const RECENT_READINGS = 300;
+/** Topics one connection may follow at once: a lab's benches and runs, with room to spare. */
+export const MAX_SUBSCRIPTIONS_PER_CLIENT = 64;
 
 /** What a snapshot needs that the hub does not hold itself. */
 export interface SnapshotSource {
@@ -34,6 +36,8 @@ interface TopicState {
   lastFlushMs: number;
   timer: unknown;
   subscribers: Set<ClientSender>;
+  /** The run finished or was aborted: nothing more will arrive. */
+  ended: boolean;
 }
 
 /**
@@ -57,6 +61,9 @@ export class LiveHub {
   /** Subscribes a client and sends it the topic's snapshot; an unknown run gets an error. */
   async subscribe(client: ClientSender, topic: Topic): Promise<void> {
     const key = topicKey(topic);
+    if (!client.subscriptions.has(key) && client.subscriptions.size >= MAX_SUBSCRIPTIONS_PER_CLIENT) {
+      return client.send({ type: 'error', message: `Too many subscriptions (at most ${MAX_SUBSCRIPTIONS_PER_CLIENT}); unsubscribe from one first`, topic });
+    }
     let run: Run | null = null;
     let events: RunEvent[] = [];
     if (topic.kind === 'run') {
@@ -76,13 +83,31 @@ export class LiveHub {
   unsubscribe(client: ClientSender, topic: Topic): void {
     const key = topicKey(topic);
     client.subscriptions.delete(key);
-    this.topics.get(key)?.subscribers.delete(client);
+    this.leave(key, client);
   }
 
   /** Forgets a disconnected client everywhere. */
   removeClient(client: ClientSender): void {
-    for (const key of client.subscriptions) this.topics.get(key)?.subscribers.delete(client);
+    for (const key of client.subscriptions) this.leave(key, client);
     client.subscriptions.clear();
+  }
+
+  /** Topics held in memory (for tests and logs). */
+  topicCount(): number {
+    return this.topics.size;
+  }
+
+  /**
+   * Drops a client from a topic, and the topic itself once nobody follows it and it holds
+   * nothing worth keeping, so subscribing to made-up ids never grows the server's memory.
+   */
+  private leave(key: string, client: ClientSender): void {
+    const state = this.topics.get(key);
+    if (!state) return;
+    state.subscribers.delete(client);
+    if (state.subscribers.size > 0 || (state.recent.length > 0 && !state.ended)) return;
+    if (state.timer !== null) this.clearTimer(state.timer);
+    this.topics.delete(key);
   }
 
   /** A bench frame or a run reading arrived. */
@@ -127,7 +152,8 @@ export class LiveHub {
       this.flush(state);
       const json = JSON.stringify({ type: 'run', topic, run });
       for (const c of state.subscribers) c.sendPayload(json);
-      if ((run.state === 'finished' || run.state === 'aborted') && state.subscribers.size === 0) this.topics.delete(key);
+      state.ended = run.state === 'finished' || run.state === 'aborted';
+      if (state.ended && state.subscribers.size === 0) this.topics.delete(key);
     }
     if (run.benchId === null) return;
     const benchTopic: Topic = { kind: 'bench', id: run.benchId };
@@ -156,7 +182,7 @@ export class LiveHub {
     const key = topicKey(topic);
     let s = this.topics.get(key);
     if (!s) {
-      s = { topic, pending: [], recent: [], lastFlushMs: Number.NEGATIVE_INFINITY, timer: null, subscribers: new Set() };
+      s = { topic, pending: [], recent: [], lastFlushMs: Number.NEGATIVE_INFINITY, timer: null, subscribers: new Set(), ended: false };
       this.topics.set(key, s);
     }
     return s;
