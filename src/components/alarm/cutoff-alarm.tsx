@@ -4,7 +4,7 @@ import type { LiveStore } from '../../lib/live-store';
 import { useLiveView } from '../../lib/use-live';
 import { notify } from '../../lib/notify';
 import { useShortcut } from '../../lib/use-shortcut';
-import { describeEvent } from '../ui/run-events-list';
+import { describeEvent, type EventUnits } from '../ui/run-events-list';
 import { MonoNumbers } from '../ui/mono-numbers';
 import { useCutoffAlarm } from './use-cutoff-alarm';
 
@@ -40,7 +40,7 @@ function useFlashingTitle(text: string | null): void {
  * The loud part of the product: a red banner, a repeating tone and a flashing tab title
  * when a run cuts off, until someone acknowledges it (button or the A key).
  */
-export function CutoffAlarm({ store, label, sound, size = 'normal' }: { store: LiveStore; label: string; sound?: Pick<AlarmSound, 'start' | 'stop'>; size?: AlarmSize }) {
+export function CutoffAlarm({ store, label, sound, size = 'normal', units = {} }: { store: LiveStore; label: string; sound?: Pick<AlarmSound, 'start' | 'stop'>; size?: AlarmSize; units?: EventUnits }) {
   const view = useLiveView(store);
   const { alarm, acknowledge } = useCutoffAlarm(store, view);
   const player = sound ?? sharedAlarmSound;
@@ -49,7 +49,7 @@ export function CutoffAlarm({ store, label, sound, size = 'normal' }: { store: L
   useShortcut('a', acknowledge, alarm !== null);
 
   const alarmKey = alarm ? alarm.keys.join('|') : null;
-  const detail = alarm ? describeEvent(alarm.event) : '';
+  const detail = alarm ? describeEvent(alarm.event, units) : '';
   useEffect(() => {
     if (!alarmKey) return;
     notify(title ?? 'Kneepoint alarm', detail, alarmKey);
@@ -62,7 +62,7 @@ export function CutoffAlarm({ store, label, sound, size = 'normal' }: { store: L
     <div role="alert" className={`alarm-pulse flex flex-wrap items-center justify-between gap-3 rounded-2xl bg-state-cutoff text-white shadow-lg ${size === 'compact' ? 'p-3' : 'p-5'}`}>
       <div>
         <p className={`${HEADLINE[size]} font-black tracking-tight`}>{alarm.event.type === 'cutoff' ? 'CUTOFF' : 'ALARM'} · {label}</p>
-        <p className={`mt-1 font-medium ${DETAIL[size]}`}><MonoNumbers text={describeEvent(alarm.event)} />
+        <p className={`mt-1 font-medium ${DETAIL[size]}`}><MonoNumbers text={detail} />
         </p>
       </div>
       <button

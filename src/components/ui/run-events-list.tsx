@@ -11,11 +11,17 @@ const MILESTONE_LABEL = {
   'near-end-voltage': 'Nearing the end voltage',
 } as const;
 
-/** One line of words for an event, with every number in its unit. */
-export function describeEvent(e: RunEvent, temperatureUnit: 'C' | 'F' = 'C'): string {
+/** The lab's display units (from its settings); Wh and °C when not given. */
+export interface EventUnits {
+  temperatureUnit?: 'C' | 'F';
+  energyUnit?: 'Wh' | 'kWh';
+}
+
+/** One line of words for an event, with every number in its unit (the lab's units). */
+export function describeEvent(e: RunEvent, { temperatureUnit = 'C', energyUnit = 'Wh' }: EventUnits = {}): string {
   switch (e.type) {
     case 'cutoff':
-      return `Cutoff (${e.cause === 'protection' ? 'pack protection opened' : 'end voltage reached'}) at ${formatVolts(e.volts)} after ${formatEnergy(e.dischargeWh)}, ${formatCharge(e.dischargeAh)}`;
+      return `Cutoff (${e.cause === 'protection' ? 'pack protection opened' : 'end voltage reached'}) at ${formatVolts(e.volts)} after ${formatEnergy(e.dischargeWh, energyUnit)}, ${formatCharge(e.dischargeAh)}`;
     case 'recovery':
       return `Pack reconnected after ${formatDuration(e.recoverySeconds)}, ${formatVolts(e.volts)}`;
     case 'alarm':
@@ -37,7 +43,7 @@ export function describeEvent(e: RunEvent, temperatureUnit: 'C' | 'F' = 'C'): st
     case 'heater-off':
       return `Heater off after ${formatDuration(e.onSeconds)}, mean ${formatAmps(e.meanHeaterAmps)}`;
     case 'milestone':
-      return `${MILESTONE_LABEL[e.milestone]}: ${formatVolts(e.volts)}, ${formatEnergy(e.dischargeWh)}, ${formatCharge(e.dischargeAh)}`;
+      return `${MILESTONE_LABEL[e.milestone]}: ${formatVolts(e.volts)}, ${formatEnergy(e.dischargeWh, energyUnit)}, ${formatCharge(e.dischargeAh)}`;
     case 'run-start':
       return 'Run started';
     case 'run-stop':
@@ -58,7 +64,7 @@ function eventColor(e: RunEvent): string {
 }
 
 /** A run's timeline, newest first, each event at its run time. */
-export function RunEventsList({ events, temperatureUnit = 'C' }: { events: readonly RunEvent[]; temperatureUnit?: 'C' | 'F' }) {
+export function RunEventsList({ events, temperatureUnit = 'C', energyUnit = 'Wh' }: { events: readonly RunEvent[] } & EventUnits) {
   if (events.length === 0) return <p className="text-sm text-ink-faint">No events yet.</p>;
   const newestFirst = [...events].sort((a, b) => b.t - a.t);
   return (
@@ -67,7 +73,7 @@ export function RunEventsList({ events, temperatureUnit = 'C' }: { events: reado
         <li key={`${e.t}-${e.type}-${i}`} className="flex gap-3 border-l-4 pl-3 text-sm" style={{ borderColor: eventColor(e) }}>
           <span className="num shrink-0 text-ink-muted">{formatElapsedClock(e.t)}</span>
           <span className="text-ink">
-            <MonoNumbers text={describeEvent(e, temperatureUnit)} />
+            <MonoNumbers text={describeEvent(e, { temperatureUnit, energyUnit })} />
           </span>
         </li>
       ))}

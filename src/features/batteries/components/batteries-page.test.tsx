@@ -51,4 +51,15 @@ describe('battery packs page', () => {
     expect(body.ratedAh).toBe(36);
     expect(body.label).toBe('NG-0142');
   });
+
+  it('gives the rated energy in kWh when the lab has chosen kWh', async () => {
+    stubApi(demoUser('viewer'), (url) => {
+      if (url === '/api/batteries') return { status: 200, body: { batteries: [pack] } };
+      if (url === '/api/settings') return { status: 200, body: { settings: { energyUnit: 'kWh' } } };
+      return undefined;
+    });
+    renderAt('/batteries');
+    // 420 Wh = 0.420 kWh (SI prefix kilo = 1000).
+    expect(await screen.findByText('35.00 Ah · 0.420 kWh')).toBeTruthy();
+  });
 });

@@ -1,10 +1,12 @@
 import { Link } from 'react-router-dom';
 import type { Battery } from '../../../../shared/schemas/battery';
+import { useLabSettings } from '../../../lib/lab-settings';
 import { formatCharge, formatEnergy, formatNumber } from '../../../lib/units';
 import { CHEMISTRY_LABEL } from './chemistry-label';
 
 /** The registered packs, one row each, every figure with its unit. */
 export function BatteriesTable({ batteries, onEdit }: { batteries: readonly Battery[]; onEdit?: (battery: Battery) => void }) {
+  const { energyUnit } = useLabSettings();
   if (batteries.length === 0) return <p className="p-6 text-center text-ink-muted">No packs registered yet.</p>;
   return (
     <div className="overflow-x-auto rounded-xl border border-line">
@@ -29,7 +31,7 @@ export function BatteriesTable({ batteries, onEdit }: { batteries: readonly Batt
               </td>
               <td className="num whitespace-nowrap px-3 py-3">
                 {formatCharge(b.ratedAh)}
-                {b.ratedWh !== null && ` · ${formatEnergy(b.ratedWh)}`}
+                {b.ratedWh !== null && ` · ${formatEnergy(b.ratedWh, energyUnit)}`}
               </td>
               <td className="num whitespace-nowrap px-3 py-3">{b.bmsRatedAmps === null ? '—' : `${formatNumber(b.bmsRatedAmps, 0)} A`}</td>
               <td className="num whitespace-nowrap px-3 py-3">{b.massKg === null ? '—' : `${formatNumber(b.massKg, 2)} kg`}</td>

@@ -15,7 +15,7 @@ export function BenchRunLine({ run, benchName, energyUnit }: { run: Run; benchNa
   const ah = charge ? view.chargeAh : view.dischargeAh;
   return (
     <div className="flex flex-col gap-3">
-      <CutoffAlarm store={store} label={benchName} size="compact" />
+      <CutoffAlarm store={store} label={benchName} size="compact" units={{ energyUnit }} />
       <div className="flex flex-wrap items-center justify-between gap-2 text-sm">
         <span className="truncate font-medium">{view.run?.name ?? run.name}</span>
         <RunStateBadge state={state} />

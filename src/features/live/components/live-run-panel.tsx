@@ -47,7 +47,7 @@ export function LiveRunPanel({ runId, label, roomViewPath, canAct, onClose, sour
 
   return (
     <div className="flex flex-col gap-4">
-      <CutoffAlarm store={store} label={label} />
+      <CutoffAlarm store={store} label={label} units={settings} />
       {view.error && (
         <p role="alert" className="rounded-lg border border-state-cutoff/60 bg-state-cutoff/10 p-3 text-sm">
           Live data for this run is unavailable: {view.error}
@@ -106,7 +106,7 @@ export function LiveRunPanel({ runId, label, roomViewPath, canAct, onClose, sour
       <div className="grid gap-4 lg:grid-cols-3">
         <Card className="lg:col-span-2">
           <h3 className="mb-3 font-semibold">Events</h3>
-          <RunEventsList events={view.events} temperatureUnit={settings.temperatureUnit} />
+          <RunEventsList events={view.events} temperatureUnit={settings.temperatureUnit} energyUnit={settings.energyUnit} />
         </Card>
         {canAct && (
           <Card>

@@ -29,7 +29,7 @@ function RunRoom({ runId, label }: { runId: number; label: string }) {
   useHistoryBackfill(store, runId);
   return (
     <>
-      <CutoffAlarm store={store} label={label} size="large" />
+      <CutoffAlarm store={store} label={label} size="large" units={settings} />
       <RoomNumbers store={store} />
       <LiveChart store={store} heightPx={ROOM_CHART_HEIGHT_PX} temperatureUnit={settings.temperatureUnit} />
     </>

@@ -2,6 +2,7 @@ import { useState, type FormEvent } from 'react';
 import { useNavigate } from 'react-router-dom';
 import { Button } from '../../../components/ui/button';
 import { SelectField, TextField } from '../../../components/ui/field';
+import { useLabSettings } from '../../../lib/lab-settings';
 import { formatCharge, formatDuration, formatEnergy } from '../../../lib/units';
 import { useBatteryChoices } from '../api/get-batteries';
 import { useImportRun, type ImportRunInput } from '../api/import-run';
@@ -16,6 +17,7 @@ const SIGN_OPTIONS = [
 export function ImportRunForm({ onDone }: { onDone: () => void }) {
   const batteries = useBatteryChoices(true);
   const importRun = useImportRun();
+  const { energyUnit } = useLabSettings();
   const navigate = useNavigate();
   const [file, setFile] = useState<File | null>(null);
   const [name, setName] = useState('');
@@ -67,7 +69,7 @@ export function ImportRunForm({ onDone }: { onDone: () => void }) {
       )}
       {importRun.data && (
         <p role="status" className="num text-sm md:col-span-2">
-          {formatEnergy(importRun.data.summary.energyWh)} · {formatCharge(importRun.data.summary.chargeAh)} · {formatDuration(importRun.data.summary.durationS)}
+          {formatEnergy(importRun.data.summary.energyWh, energyUnit)} · {formatCharge(importRun.data.summary.chargeAh)} · {formatDuration(importRun.data.summary.durationS)}
         </p>
       )}
       <div className="flex gap-2 md:col-span-2">

@@ -139,7 +139,7 @@ export function RunDetail({ runId, canEdit = false }: { runId: number; canEdit?:
               <RunNoteForm runId={runId} />
             </div>
           )}
-          {events.isError ? <QueryError error={events.error} what="Events" /> : <RunEventsList events={stored} temperatureUnit={settings.temperatureUnit} />}
+          {events.isError ? <QueryError error={events.error} what="Events" /> : <RunEventsList events={stored} temperatureUnit={settings.temperatureUnit} energyUnit={settings.energyUnit} />}
         </Card>
       </div>
     </>

@@ -1,4 +1,5 @@
 import type { Run } from '../../../../shared/schemas/run';
+import { useLabSettings } from '../../../lib/lab-settings';
 import { formatCharge, formatEnergy, formatNumber, formatPercent, formatVolts } from '../../../lib/units';
 import { useRunBattery, useRunBench } from '../api/get-run-context';
 
@@ -18,6 +19,7 @@ function Row({ label, value }: { label: string; value: string }) {
 export function RunSetupPanel({ run }: { run: Run }) {
   const battery = useRunBattery(run.batteryId);
   const bench = useRunBench(run.benchId);
+  const { energyUnit } = useLabSettings();
   const b = battery.data;
   const cells = run.endVolts?.mode === 'per-cell' ? (run.endVolts.cellsInSeries ?? b?.cellsInSeries ?? null) : null;
   const endVolts =
@@ -37,7 +39,7 @@ export function RunSetupPanel({ run }: { run: Run }) {
             <Row label="Label" value={b.label} />
             <Row label="Brand / model" value={[b.brand, b.model].filter(Boolean).join(' ')} />
             <Row label="Chemistry, cells" value={`${b.chemistry.toUpperCase()}, ${b.cellsInSeries}S${b.cellsInParallel > 1 ? `${b.cellsInParallel}P` : ''}`} />
-            <Row label="Rated" value={`${formatCharge(b.ratedAh)}${b.ratedWh !== null ? ` · ${formatEnergy(b.ratedWh)}` : ''}`} />
+            <Row label="Rated" value={`${formatCharge(b.ratedAh)}${b.ratedWh !== null ? ` · ${formatEnergy(b.ratedWh, energyUnit)}` : ''}`} />
             {b.bmsRatedAmps !== null && <Row label="Protection rating" value={`${formatNumber(b.bmsRatedAmps, 0)} A`} />}
             {b.serialNumber && <Row label="Serial number" value={b.serialNumber} />}
             {b.sender && <Row label="Sent by" value={b.sender} />}
@@ -55,7 +57,7 @@ export function RunSetupPanel({ run }: { run: Run }) {
           <Row label="Acceptance" value={`${formatPercent(run.acceptancePercent, 0)} of rated`} />
           <Row label="Stop" value={STOP[run.stopWhen]} />
           {run.targetAh !== null && <Row label="Target" value={formatCharge(run.targetAh)} />}
-          {run.targetWh !== null && <Row label="Target" value={formatEnergy(run.targetWh)} />}
+          {run.targetWh !== null && <Row label="Target" value={formatEnergy(run.targetWh, energyUnit)} />}
         </dl>
       </section>
     </div>
