@@ -1,7 +1,8 @@
+import { useState } from 'react';
 import { Link, useNavigate } from 'react-router-dom';
-import { LIVE_RUN_STATES } from '../../../../shared/schemas/run';
 import { BENCH_STATUS_LABEL, RUN_STATE_LABEL } from '../../../components/ui/state-badge';
 import { BENCH_STATUS_COLORS, RUN_STATE_COLORS } from '../../../lib/palette';
+import { isLiveRun, useLatestBenchRun } from '../../../lib/current-run';
 import { useLabSettings } from '../../../lib/lab-settings';
 import type { LiveStore } from '../../../lib/live-store';
 import type { RunStateName } from '../../../lib/palette';
@@ -14,23 +15,26 @@ import { LiveChart } from '../../../components/charts/live-chart';
 import { CutoffAlarm } from '../../../components/alarm/cutoff-alarm';
 import { Readouts } from './readouts';
 
-function RoomNumbers({ store }: { store: LiveStore }) {
+function RoomNumbers({ store, totals }: { store: LiveStore; totals: boolean }) {
   const view = useLiveView(store);
   const settings = useLabSettings();
-  return <Readouts view={view} temperatureUnit={settings.temperatureUnit} energyUnit={settings.energyUnit} size="room" />;
+  return <Readouts view={view} temperatureUnit={settings.temperatureUnit} energyUnit={settings.energyUnit} size="room" totals={totals} />;
 }
 
 /** Chart height in the room view: the knee should be visible from the door. */
 const ROOM_CHART_HEIGHT_PX = 260;
 
-function RunRoom({ runId, label }: { runId: number; label: string }) {
+/** A run on the big screen: its state, alarm, numbers and chart, from the run's own topic. */
+function RunRoom({ runId, label, sourceState, startingState }: { runId: number; label: string; sourceState: SourceState | null; startingState: RunStateName | null }) {
   const store = useLiveStore({ kind: 'run', id: runId });
+  const run = useLiveView(store).run;
   const settings = useLabSettings();
   useHistoryBackfill(store, runId);
   return (
     <>
+      <StateBar runState={run?.state ?? startingState} runName={run?.name ?? null} sourceState={sourceState} />
       <CutoffAlarm store={store} label={label} size="large" units={settings} />
-      <RoomNumbers store={store} />
+      <RoomNumbers store={store} totals />
       <LiveChart store={store} heightPx={ROOM_CHART_HEIGHT_PX} temperatureUnit={settings.temperatureUnit} />
     </>
   );
@@ -63,10 +67,15 @@ export function RoomView({ benchId }: { benchId: number }) {
   const back = () => navigate(`/benches/${benchId}`);
   useShortcut('Escape', back);
   useShortcut('f', back);
+  const latest = useLatestBenchRun(benchId);
+  // The run stays on the big screen after it ends (cutoff, then finished), with its alarm,
+  // until another run starts: the room must not forget a cutoff nobody has seen yet.
+  const [pinnedRunId, setPinnedRunId] = useState<number | null>(null);
+  const liveRun = isLiveRun(view.run) ? view.run : isLiveRun(latest.data) ? latest.data : null;
+  if (liveRun && liveRun.id !== pinnedRunId) setPinnedRunId(liveRun.id);
   const name = bench.data?.name ?? `Bench ${benchId}`;
-  const run = view.run;
-  const liveRun = run && LIVE_RUN_STATES.includes(run.state) ? run : null;
   const status = view.status ?? bench.data?.status;
+  const sourceState = status?.state ?? null;
 
   const goFullScreen = () => void document.documentElement.requestFullscreen?.().catch(() => undefined);
 
@@ -83,8 +92,14 @@ export function RoomView({ benchId }: { benchId: number }) {
           </Link>
         </div>
       </header>
-      <StateBar runState={run?.state ?? null} runName={run?.name ?? null} sourceState={status?.state ?? null} />
-      {liveRun ? <RunRoom runId={liveRun.id} label={name} /> : <RoomNumbers store={benchStore} />}
+      {pinnedRunId !== null ? (
+        <RunRoom key={pinnedRunId} runId={pinnedRunId} label={name} sourceState={sourceState} startingState={liveRun?.state ?? null} />
+      ) : (
+        <>
+          <StateBar runState={null} runName={null} sourceState={sourceState} />
+          <RoomNumbers store={benchStore} totals={false} />
+        </>
+      )}
     </div>
   );
 }
