@@ -9,6 +9,8 @@ export interface ImportRunInput {
   endVolts?: number;
   currentSign: 'discharge-positive' | 'discharge-negative' | 'auto';
   tags?: string;
+  /** Header names in the file, for columns Kneepoint does not recognise by itself. */
+  columns?: { time?: string; volts?: string; amps?: string; temp?: string };
 }
 
 /** POST /api/runs/import (technician): a CSV log from another logger becomes a run. */
@@ -20,6 +22,7 @@ export function importRun(input: ImportRunInput) {
   if (input.batteryId !== undefined) form.set('batteryId', String(input.batteryId));
   if (input.endVolts !== undefined) form.set('endVolts', String(input.endVolts));
   if (input.tags) form.set('tags', input.tags);
+  if (input.columns && Object.keys(input.columns).length > 0) form.set('columns', JSON.stringify(input.columns));
   return api('/api/runs/import', { method: 'POST', body: form, schema: ImportResponseSchema });
 }
 

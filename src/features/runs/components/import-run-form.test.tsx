@@ -45,4 +45,30 @@ describe('runs page', () => {
     await waitFor(() => expect(screen.getByRole('alert').textContent).toBe('Choose a CSV file.'));
     expect(calls.some((c) => c.url === '/api/runs/import')).toBe(false);
   });
+
+  it('sends the header names typed for columns it does not recognise, after the server names the missing one', async () => {
+    const { calls } = stubApi(demoUser('technician'), (url, init) => {
+      if (url.startsWith('/api/runs?')) return emptyRuns;
+      if (url === '/api/batteries') return { status: 200, body: { batteries: [] } };
+      if (url === '/api/runs/import' && init?.method === 'POST') {
+        return { status: 400, body: { error: { message: 'line 1: no time, volts, amps column recognised in header "Elapsed,U,I"' } } };
+      }
+      return undefined;
+    });
+    renderAt('/runs');
+    await userEvent.click(await screen.findByRole('button', { name: 'Import a CSV log' }));
+    await userEvent.upload(screen.getByLabelText(/CSV file/), new File(['Elapsed,U,I\n0,13.2,5\n'], 'logger.csv', { type: 'text/csv' }));
+    await userEvent.type(screen.getByLabelText('Run name'), 'Kestrel logger export');
+    await userEvent.click(screen.getByRole('button', { name: 'Import' }));
+    await screen.findByRole('alert');
+    // The mapping opens by itself once the server says a column is missing.
+    expect(screen.getByText('Columns named differently?').closest('details')?.open).toBe(true);
+    await userEvent.type(screen.getByLabelText('Time column'), 'Elapsed');
+    await userEvent.type(screen.getByLabelText('Volts column'), 'U');
+    await userEvent.type(screen.getByLabelText('Amps column'), 'I');
+    await userEvent.click(screen.getByRole('button', { name: 'Import' }));
+    await waitFor(() => expect(calls.filter((c) => c.url === '/api/runs/import')).toHaveLength(2));
+    const body = calls.filter((c) => c.url === '/api/runs/import')[1].init?.body as FormData;
+    expect(JSON.parse(String(body.get('columns')))).toEqual({ time: 'Elapsed', volts: 'U', amps: 'I' });
+  });
 });

@@ -13,6 +13,20 @@ const SIGN_OPTIONS = [
   { value: 'discharge-negative', label: 'Negative amps = discharge' },
 ] as const;
 
+/** The columns a log must have (temperature is optional), as the mapping names them. */
+const COLUMN_FIELDS = [
+  { key: 'time', label: 'Time column' },
+  { key: 'volts', label: 'Volts column' },
+  { key: 'amps', label: 'Amps column' },
+  { key: 'temp', label: 'Temperature column (optional)' },
+] as const;
+type ColumnKey = (typeof COLUMN_FIELDS)[number]['key'];
+
+/** The header names typed in, without the empty ones. */
+function columnMap(columns: Record<ColumnKey, string>): ImportRunInput['columns'] {
+  return Object.fromEntries(Object.entries(columns).map(([k, v]) => [k, v.trim()]).filter(([, v]) => v !== ''));
+}
+
 /** Turns a CSV log from another logger into a run (technicians). */
 export function ImportRunForm({ onDone }: { onDone: () => void }) {
   const batteries = useBatteryChoices(true);
@@ -25,6 +39,7 @@ export function ImportRunForm({ onDone }: { onDone: () => void }) {
   const [endVolts, setEndVolts] = useState('');
   const [currentSign, setCurrentSign] = useState<ImportRunInput['currentSign']>('auto');
   const [error, setError] = useState<string | null>(null);
+  const [columns, setColumns] = useState<Record<ColumnKey, string>>({ time: '', volts: '', amps: '', temp: '' });
 
   const submit = (e: FormEvent) => {
     e.preventDefault();
@@ -33,12 +48,14 @@ export function ImportRunForm({ onDone }: { onDone: () => void }) {
     if (endVolts && !(Number(endVolts) > 0)) return setError('The end voltage must be a number above 0 V.');
     setError(null);
     importRun.mutate(
-      { file, name: name.trim(), currentSign, batteryId: batteryId ? Number(batteryId) : undefined, endVolts: endVolts ? Number(endVolts) : undefined },
+      { file, name: name.trim(), currentSign, batteryId: batteryId ? Number(batteryId) : undefined, endVolts: endVolts ? Number(endVolts) : undefined, columns: columnMap(columns) },
       { onSuccess: (r) => navigate(`/runs/${r.run.id}`) },
     );
   };
 
   const message = error ?? (importRun.error instanceof Error ? importRun.error.message : null);
+  // The server names the column it could not find: open the mapping so it can be given.
+  const columnTrouble = !!message && /column/i.test(message);
   return (
     <form onSubmit={submit} noValidate aria-label="Import a logged run" className="grid gap-4 md:grid-cols-2">
       <div className="flex flex-col gap-1">
@@ -62,6 +79,18 @@ export function ImportRunForm({ onDone }: { onDone: () => void }) {
       />
       <TextField label="End voltage of the pack (V, optional)" inputMode="decimal" value={endVolts} onChange={(e) => setEndVolts(e.target.value)} />
       <SelectField label="Current sign in the file" value={currentSign} onChange={(e) => setCurrentSign(e.target.value as ImportRunInput['currentSign'])} options={SIGN_OPTIONS} />
+      <details open={columnTrouble || undefined} className="rounded-lg border border-line p-3 md:col-span-2">
+        <summary className="cursor-pointer text-sm font-medium">Columns named differently?</summary>
+        <p className="mt-2 text-sm text-ink-muted">
+          Kneepoint recognises common names (time, elapsed, voltage, current, temperature, with or without units such as
+          &quot;Voltage (V)&quot;). Otherwise type the header of each column exactly as it is in the file.
+        </p>
+        <div className="mt-3 grid gap-3 md:grid-cols-4">
+          {COLUMN_FIELDS.map((c) => (
+            <TextField key={c.key} label={c.label} value={columns[c.key]} onChange={(e) => setColumns({ ...columns, [c.key]: e.target.value })} />
+          ))}
+        </div>
+      </details>
       {message && (
         <p role="alert" className="text-sm font-medium text-state-cutoff md:col-span-2">
           {message}
