@@ -44,7 +44,11 @@ export function attachWsServer(
 
   const onUpgrade = (req: IncomingMessage, socket: Duplex, head: Buffer) => {
     const path = (req.url ?? '').split('?')[0];
-    if (path !== WS_PATH) return; // another attachment may own this path
+    if (path !== WS_PATH) {
+      // Another attachment may own this path; if none does, answer rather than leave the socket open forever.
+      if (httpServer.listenerCount('upgrade') === 1) refuse(socket, 404, 'Not Found');
+      return;
+    }
     if (opts.checkOrigin && !opts.checkOrigin(req)) return refuse(socket, 403, 'Forbidden');
     opts
       .authenticate(req)

@@ -40,6 +40,19 @@ describe('WebSocket /ws', () => {
     expect(status).toBe(403);
   });
 
+  it('answers an upgrade to any other path with 404 at once instead of leaving the socket open', async () => {
+    const cookie = await sessionCookie(t, 'viewer');
+    const WebSocket = (await import('ws')).default;
+    const ws = new WebSocket(t.url.replace('http', 'ws') + '/wsx', { headers: { cookie, origin: t.url } });
+    const status = await new Promise<number | string>((resolve) => {
+      const timer = setTimeout(() => resolve('no answer'), 3000);
+      ws.once('unexpected-response', (_q, res) => (clearTimeout(timer), resolve(res.statusCode ?? 0)));
+      ws.once('error', (e) => (clearTimeout(timer), resolve(e.message)));
+    });
+    ws.terminate();
+    expect(status).toBe(404);
+  });
+
   it('greets a viewer, sends a snapshot, then batches of a run with totals; events arrive; annotation is refused to the viewer', async () => {
     const run = (await tech.post('/api/runs').send({ ...ids, name: 'WS run', stopWhen: 'manual' }).expect(201)).body.run;
     const p = await open(await sessionCookie(t, 'viewer'));
