@@ -1,4 +1,4 @@
-import '@testing-library/dom';
+import { configure } from '@testing-library/dom';
 import { cleanup } from '@testing-library/react';
 import { afterEach, vi } from 'vitest';
 
@@ -26,6 +26,10 @@ vi.mock('uplot', () => {
   }
   return { default: FakePlot };
 });
+
+// The first test of a file loads the lazy route chunks; on a busy 2-core CI machine that can
+// pass the library's 1 s default for findBy/waitFor, failing a test that is right.
+configure({ asyncUtilTimeout: 5_000 });
 
 afterEach(() => {
   cleanup();
