@@ -124,3 +124,26 @@ describe('decodeModbusFrame', () => {
     expect(short).toBe('register 10 (t) missing from reply');
   });
 });
+
+describe('decodeModbusFrame with f32 NaN and infinity', () => {
+  // IEEE 754 single precision: 0x7FC00000 is a quiet NaN, 0x7F800000 is +∞, 0x41A00000 is 20.0.
+  const f32 = (address: number) => ({ address, type: 'f32' as const, scale: 1, offset: 0, wordOrder: 'high-first' as const });
+  const format = {
+    ...(config.format.kind === 'modbus' ? config.format : ({} as never)),
+    registers: { volts: f32(0), amps: f32(2), temps: { cell: f32(4), ambient: f32(6) }, aux: {} },
+  };
+  const block = (words: number[]) => [{ block: { start: 0, count: words.length }, words }];
+
+  it('rejects a frame whose volts or amps read NaN or infinity, naming the register', async () => {
+    const { decodeModbusFrame } = await import('./modbus-session.js');
+    expect(decodeModbusFrame(format, block([0x7fc0, 0, 0x41a0, 0, 0x41a0, 0, 0x41a0, 0]), 0)).toBe('register 0 (volts) reads NaN');
+    expect(decodeModbusFrame(format, block([0x41a0, 0, 0x7f80, 0, 0x41a0, 0, 0x41a0, 0]), 0)).toBe('register 2 (amps) reads Infinity');
+  });
+
+  it('leaves out a temperature probe that reads NaN and keeps the rest of the frame', async () => {
+    const { decodeModbusFrame } = await import('./modbus-session.js');
+    const frame = decodeModbusFrame(format, block([0x41a0, 0, 0x41a0, 0, 0x7fc0, 0, 0x41a0, 0]), 0);
+    expect(frame).toMatchObject({ volts: 20, amps: 20, temps: { ambient: 20 } });
+    expect(typeof frame !== 'string' && frame.temps).not.toHaveProperty('cell');
+  });
+});

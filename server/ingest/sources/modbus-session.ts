@@ -25,11 +25,15 @@ export function decodeModbusFrame(format: ModbusFormat, blocks: { block: ReadBlo
   const amps = read(format.registers.amps);
   if (volts === undefined) return `register ${format.registers.volts.address} (volts) missing from reply`;
   if (amps === undefined) return `register ${format.registers.amps.address} (amps) missing from reply`;
+  // An f32 register can hold NaN or ±∞ (many meters write NaN for "no reading").
+  if (!Number.isFinite(volts)) return `register ${format.registers.volts.address} (volts) reads ${volts}`;
+  if (!Number.isFinite(amps)) return `register ${format.registers.amps.address} (amps) reads ${amps}`;
   const frame: Frame = { t: tMs / MS_PER_S, volts, amps: toAmps(amps, 'A', format.currentSign), clock: 'arrival' };
   const { t: tSpec, seq: seqSpec } = format.registers;
   if (tSpec) {
     const t = read(tSpec);
     if (t === undefined) return `register ${tSpec.address} (t) missing from reply`;
+    if (!Number.isFinite(t)) return `register ${tSpec.address} (t) reads ${t}`;
     frame.t = t;
     frame.clock = 'device';
   }
@@ -43,7 +47,8 @@ export function decodeModbusFrame(format: ModbusFormat, blocks: { block: ReadBlo
     for (const [name, spec] of Object.entries(format.registers[group])) {
       const value = read(spec);
       if (value === undefined) return `register ${spec.address} (${name}) missing from reply`;
-      values[name] = value;
+      // A probe that reads NaN (unplugged sensor) leaves its channel out; volts and amps still count.
+      if (Number.isFinite(value)) values[name] = value;
     }
     if (Object.keys(values).length > 0) frame[group] = values;
   }
