@@ -1,6 +1,6 @@
 import type { StartRunRequestSchema, StoredRunEvent } from '../../shared/schemas/api-runs.js';
 import type { BenchStatus } from '../../shared/schemas/bench.js';
-import type { Frame } from '../../shared/schemas/frame.js';
+import { FrameSchema, type Frame } from '../../shared/schemas/frame.js';
 import type { Reading } from '../../shared/schemas/reading.js';
 import type { Run } from '../../shared/schemas/run.js';
 import type { z } from 'zod';
@@ -193,6 +193,8 @@ export class RunRecorder {
     const runId = this.byBench.get(benchId);
     const session = runId === undefined ? undefined : this.sessions.get(runId);
     if (!session) return;
+    // The measurement core trusts its input: a NaN temperature would poison the run's summary.
+    if (!FrameSchema.safeParse(frame).success) return;
     const out = session.push(frame);
     if (out.reading) this.readings.emit(session.run.id, out.reading);
     for (const e of out.events) this.emitEvent(session.run.id, e);

@@ -188,3 +188,22 @@ describe('deleting a bench', () => {
     });
   });
 });
+
+describe('malformed frames mid-run', () => {
+  it('drops a frame with a non-finite value; the run stays readable and keeps every good reading', async () => {
+    const admin = await signInAs(t, 'admin');
+    const own = await batteryAndBench(admin);
+    const run = (await tech.post('/api/runs').send({ ...own, name: 'NaN probe', stopWhen: 'manual' }).expect(201)).body.run;
+    feed.emit(own.benchId, { t: 0, volts: 13, amps: 2, temps: { cell: Number.NaN }, clock: 'device' });
+    for (let s = 1; s <= 10; s++) feed.emit(own.benchId, { t: s, volts: 13, amps: 2, temps: { cell: 21 }, clock: 'device' });
+    feed.emit(own.benchId, { t: 11, volts: 13, amps: 2, aux: { heaterAmps: Number.POSITIVE_INFINITY }, clock: 'device' });
+    const live = RunResponseSchema.parse((await viewer.get(`/api/runs/${run.id}`).expect(200)).body).run;
+    expect(live.readingsCount).toBe(10);
+    expect(live.summary?.minTempCelsius).toBe(21);
+    await tech.post(`/api/runs/${run.id}/stop`).send({}).expect(200);
+    await eventually(async () => {
+      const done = RunResponseSchema.parse((await viewer.get(`/api/runs/${run.id}`).expect(200)).body).run;
+      expect(done).toMatchObject({ state: 'finished', readingsCount: 10 });
+    });
+  });
+});
