@@ -21,6 +21,7 @@ export interface FrameFeed {
 export const FLUSH_INTERVAL_MS = 1000;
 /** …or as soon as this many are pending (a fast meter). */
 export const FLUSH_READINGS = 2000;
+const MS_PER_S = 1000;
 /** Bench states that mean the meter is not delivering. */
 const SOURCE_DOWN_STATES = new Set(['stale', 'error', 'reconnecting', 'idle']);
 
@@ -34,6 +35,8 @@ export interface RunRecorderDeps {
   /** Injected timer (tests drive flushes by hand with `flushAll`). */
   setInterval?: (fn: () => void, ms: number) => { unref?: () => void };
   clearInterval?: (handle: unknown) => void;
+  /** Server clock in ms, for how long a meter was away (default Date.now). */
+  nowMs?: () => number;
 }
 
 type StartRequest = z.infer<typeof StartRunRequestSchema>;
@@ -195,6 +198,12 @@ export class RunRecorder {
     if (!session) return;
     // The measurement core trusts its input: a NaN temperature would poison the run's summary.
     if (!FrameSchema.safeParse(frame).success) return;
+    const { frames } = session.clock.accept(frame, (this.deps.nowMs ?? Date.now)() / MS_PER_S);
+    for (const f of frames) if (this.sessions.has(session.run.id)) this.record(session, f);
+  }
+
+  /** One frame on the run's time line through the core, out to viewers and towards the archive. */
+  private record(session: RunSession, frame: Frame): void {
     const out = session.push(frame);
     if (out.reading) this.readings.emit(session.run.id, out.reading);
     for (const e of out.events) this.emitEvent(session.run.id, e);

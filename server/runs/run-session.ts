@@ -10,6 +10,7 @@ import type { ArchiveBatch } from '../archive/archive-batch.js';
 import { encodeChunk } from '../archive/chunk-encode.js';
 import { readingsToColumns } from '../archive/reading-columns.js';
 import type { BatteryFacts } from './measure-config.js';
+import { emptyClockState, SourceClockGuard, type ClockGuardState } from './source-clock-guard.js';
 
 /** Everything needed to pick a run up again after a restart; stored with each batch. */
 export interface RunSessionSnapshot {
@@ -24,6 +25,8 @@ export interface RunSessionSnapshot {
   cutoffCause: 'end-voltage' | 'protection' | null;
   lastElapsed: number | null;
   tempAlarmRaised: boolean;
+  /** The source clock guard's memory (absent in snapshots from before it existed). */
+  clock?: ClockGuardState;
 }
 
 /** One event with its per-run sequence number (its idempotency key in the archive). */
@@ -52,6 +55,8 @@ export class RunSession {
   private snap: Omit<RunSessionSnapshot, 'pipeline' | 'version'>;
   /** Every event of the run so far (for the summary). */
   readonly events: RunEvent[];
+  /** Keeps a glitched or restarted meter clock from stopping the run (see SourceClockGuard). */
+  readonly clock: SourceClockGuard;
 
   constructor(
     public run: Run,
@@ -65,6 +70,8 @@ export class RunSession {
     this.snap = previous
       ? { ...previous }
       : { nextSeq: 0, nextEventSeq: 0, state: run.state, recoveredAt: null, cutoffAt: null, cutoffCause: null, lastElapsed: null, tempAlarmRaised: false };
+    this.snap.clock ??= emptyClockState();
+    this.clock = new SourceClockGuard(this.pipeline.config.maxGapSeconds, this.snap.clock);
   }
 
   get state(): RunState {

@@ -207,3 +207,33 @@ describe('malformed frames mid-run', () => {
     });
   });
 });
+
+describe('a meter misbehaving mid-run', () => {
+  it('survives a glitched timestamp, garbage, an unplugged minute and a restarted meter clock, losing no good reading', async () => {
+    const admin = await signInAs(t, 'admin');
+    const own = await batteryAndBench(admin);
+    const run = (await tech.post('/api/runs').send({ ...own, name: 'Misbehaving meter', stopWhen: 'manual' }).expect(201)).body.run;
+    const emit = (t: number) => feed.emit(own.benchId, { t, volts: 13, amps: 2, clock: 'device' });
+    for (let s = 0; s < 10; s++) emit(s); // 10 good
+    emit(1e12); // a corrupted digit: far ahead, dropped
+    feed.emit(own.benchId, { t: 10, volts: Number.NaN, amps: 2, clock: 'device' }); // garbage, dropped
+    for (let s = 10; s < 20; s++) emit(s); // 10 good
+    feed.status(own.benchId, { state: 'reconnecting', message: 'unplugged', framesOk: 20, framesRejected: 1 });
+    feed.status(own.benchId, { state: 'receiving', framesOk: 20, framesRejected: 1 });
+    for (let s = 80; s < 90; s++) emit(s); // 10 good after a minute away: a gap
+    for (let s = 0; s < 10; s++) emit(s); // 10 good from a meter whose clock restarted
+    const live = RunResponseSchema.parse((await viewer.get(`/api/runs/${run.id}`).expect(200)).body).run;
+    expect(live.state).toBe('recording');
+    expect(live.readingsCount).toBe(40);
+    await tech.post(`/api/runs/${run.id}/stop`).send({}).expect(200);
+    await eventually(async () => {
+      const events = RunEventsResponseSchema.parse((await viewer.get(`/api/runs/${run.id}/events`).expect(200)).body).events.map((e) => e.event);
+      expect(events.map((e) => e.type)).toEqual(expect.arrayContaining(['source-lost', 'source-restored', 'gap', 'run-stop']));
+      const samples = SamplesResponseSchema.parse((await viewer.get(`/api/runs/${run.id}/samples?maxPoints=1000`).expect(200)).body);
+      expect(samples.readingsInWindow).toBe(40);
+      // The restarted clock carries on after the last reading: run time only moves forward.
+      expect(samples.t).toEqual([...samples.t].sort((a, b) => a - b));
+      expect(samples.t.at(-1)).toBeGreaterThan(89);
+    });
+  });
+});
