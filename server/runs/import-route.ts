@@ -3,7 +3,7 @@ import { unlink } from 'node:fs/promises';
 import { join } from 'node:path';
 import type { RequestHandler } from 'express';
 import multer from 'multer';
-import { ImportColumnMapSchema, ImportFieldsSchema } from '../../shared/schemas/api-runs.js';
+import { ImportColumnMapSchema, ImportFieldsSchema, RunTagsSchema } from '../../shared/schemas/api-runs.js';
 import type { AppContext } from '../app-context.js';
 import { HttpError } from '../http/http-error.js';
 import { importRun } from './import-service.js';
@@ -45,7 +45,10 @@ export function createImportHandler(ctx: AppContext, repo: RunsRepo, getBattery:
         }
         const battery = fields.batteryId ? await getBattery(fields.batteryId) : null;
         if (fields.batteryId && !battery) throw new HttpError(400, `Battery ${fields.batteryId} does not exist`, { batteryId: ['no such battery'] });
-        const tags = (fields.tags ?? '').split(',').map((t) => t.trim()).filter(Boolean);
+        // The same limits as a rename: a run the API answers must pass RunSchema on the client.
+        const split = RunTagsSchema.safeParse((fields.tags ?? '').split(',').map((t) => t.trim()).filter(Boolean));
+        if (!split.success) throw new HttpError(400, 'tags: at most 30, each 1 to 50 characters, comma-separated', { tags: split.error.issues.map((i) => i.message) });
+        const tags = split.data;
         const result = await importRun(ctx.sequelize, repo, {
           filePath: file.path, name: fields.name, tags, battery, endVolts: fields.endVolts,
           currentSign: fields.currentSign, columns, userId: req.user!.id,

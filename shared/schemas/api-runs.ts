@@ -13,6 +13,8 @@ import { RunSummarySchema } from './run-summary.js';
 
 const id = z.coerce.number().int().positive();
 const tags = z.array(z.string().trim().min(1).max(50)).max(30);
+/** A run's tags as every route accepts them (the import splits its comma-separated field into this). */
+export const RunTagsSchema = tags;
 
 /** POST /api/runs — start a run on a bench (technician). */
 export const StartRunRequestSchema = z

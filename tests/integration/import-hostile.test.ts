@@ -2,7 +2,7 @@ import { writeFile, mkdtemp, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { ImportResponseSchema } from '../../shared/schemas/api-runs.js';
+import { ImportResponseSchema, ListRunsResponseSchema } from '../../shared/schemas/api-runs.js';
 import { createTestContext, signInAs, type SignedInAgent, type TestContext } from './helpers/index.js';
 
 let t: TestContext;
@@ -68,5 +68,25 @@ describe('import: odd and hostile files', () => {
     const res = await upload('words.csv', 'hello world\n');
     expect(res.status).toBe(400);
     expect(res.body.error.message).toMatch(/^line 1: no time, volts, amps column recognised/);
+  });
+});
+
+describe('import: tags', () => {
+  const csv = 'time,volts,amps\n0,13,5\n1,12.9,5\n';
+  const withTags = async (tags: string) => {
+    const path = join(dir, 'tags.csv');
+    await writeFile(path, csv);
+    return tech.post('/api/runs/import').field('name', 'Tagged').field('tags', tags).attach('file', path);
+  };
+
+  it('refuses more tags, or longer ones, than a rename allows, so the run list stays valid for every client', async () => {
+    const before = await total();
+    const many = await withTags(Array.from({ length: 31 }, (_, i) => `t${i}`).join(','));
+    expect(many.status).toBe(400);
+    expect(many.body.error.fields).toHaveProperty('tags');
+    expect((await withTags('y'.repeat(51))).status).toBe(400);
+    expect(await total()).toBe(before);
+    expect((await withTags(' acceptance , lfp ,,')).body.run.tags).toEqual(['acceptance', 'lfp']);
+    ListRunsResponseSchema.parse((await tech.get('/api/runs').expect(200)).body);
   });
 });
