@@ -29,7 +29,7 @@ vi.mock('uplot', () => {
 
 // The first test of a file loads the lazy route chunks; on a busy 2-core CI machine that can
 // pass the library's 1 s default for findBy/waitFor, failing a test that is right.
-configure({ asyncUtilTimeout: 5_000 });
+configure({ asyncUtilTimeout: 3_000 });
 
 afterEach(() => {
   cleanup();
