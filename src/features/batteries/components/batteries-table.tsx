@@ -2,7 +2,7 @@ import { Link } from 'react-router-dom';
 import type { Battery } from '../../../../shared/schemas/battery';
 import { useLabSettings } from '../../../lib/lab-settings';
 import { formatCharge, formatEnergy, formatNumber } from '../../../lib/units';
-import { CHEMISTRY_LABEL } from './chemistry-label';
+import { CHEMISTRY_LABEL } from '../../../lib/chemistry-label';
 
 /** The registered packs, one row each, every figure with its unit. */
 export function BatteriesTable({ batteries, onEdit }: { batteries: readonly Battery[]; onEdit?: (battery: Battery) => void }) {

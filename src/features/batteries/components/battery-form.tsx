@@ -4,7 +4,7 @@ import { Button } from '../../../components/ui/button';
 import { SelectField, TextField } from '../../../components/ui/field';
 import { ApiError } from '../../../lib/api-client';
 import { useCreateBattery, useUpdateBattery } from '../api/batteries';
-import { CHEMISTRY_LABEL } from './chemistry-label';
+import { CHEMISTRY_LABEL } from '../../../lib/chemistry-label';
 
 interface Values {
   label: string;

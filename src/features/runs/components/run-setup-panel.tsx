@@ -1,4 +1,5 @@
 import type { Run } from '../../../../shared/schemas/run';
+import { CHEMISTRY_LABEL } from '../../../lib/chemistry-label';
 import { useLabSettings } from '../../../lib/lab-settings';
 import { formatCharge, formatEnergy, formatNumber, formatPercent, formatVolts } from '../../../lib/units';
 import { useRunBattery, useRunBench } from '../api/get-run-context';
@@ -38,7 +39,7 @@ export function RunSetupPanel({ run }: { run: Run }) {
           <dl>
             <Row label="Label" value={b.label} />
             <Row label="Brand / model" value={[b.brand, b.model].filter(Boolean).join(' ')} />
-            <Row label="Chemistry, cells" value={`${b.chemistry.toUpperCase()}, ${b.cellsInSeries}S${b.cellsInParallel > 1 ? `${b.cellsInParallel}P` : ''}`} />
+            <Row label="Chemistry, cells" value={`${CHEMISTRY_LABEL[b.chemistry]}, ${b.cellsInSeries}S${b.cellsInParallel > 1 ? `${b.cellsInParallel}P` : ''}`} />
             <Row label="Rated" value={`${formatCharge(b.ratedAh)}${b.ratedWh !== null ? ` · ${formatEnergy(b.ratedWh, energyUnit)}` : ''}`} />
             {b.bmsRatedAmps !== null && <Row label="Protection rating" value={`${formatNumber(b.bmsRatedAmps, 0)} A`} />}
             {b.serialNumber && <Row label="Serial number" value={b.serialNumber} />}

@@ -1,6 +1,7 @@
 import { useQuery } from '@tanstack/react-query';
 import { useForm } from 'react-hook-form';
 import { CHEMISTRIES } from '../../../../shared/schemas/battery';
+import { CHEMISTRY_LABEL } from '../../../lib/chemistry-label';
 import type { LabSettings } from '../../../../shared/schemas/lab-settings';
 import { Button } from '../../../components/ui/button';
 import { Card } from '../../../components/ui/card';
@@ -46,7 +47,7 @@ function Form({ initial }: { initial: LabSettings }) {
           {CHEMISTRIES.map((c) => (
             <TextField
               key={c}
-              label={c.toUpperCase()}
+              label={CHEMISTRY_LABEL[c]}
               inputMode="decimal"
               error={errors.endVoltsPerCell?.[c]?.message}
               {...register(`endVoltsPerCell.${c}`, { validate: (v) => (Number(v) > 0 && Number(v) <= MAX_END_VOLTS_PER_CELL) || `Between 0 and ${MAX_END_VOLTS_PER_CELL} V.` })}

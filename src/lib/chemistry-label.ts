@@ -1,4 +1,4 @@
-import type { Chemistry } from '../../../../shared/schemas/battery';
+import type { Chemistry } from '../../shared/schemas/battery';
 
 /** Trade names of the chemistries, for lists and forms. */
 export const CHEMISTRY_LABEL: Record<Chemistry, string> = {
