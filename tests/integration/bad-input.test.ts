@@ -66,6 +66,10 @@ describe('bad input gets a clear 4xx, never a 500 or a stack trace', () => {
     expectCleanClientError(await admin.patch('/api/users/1.5').send({ name: 'x' }), 400, /invalid id/i);
   });
 
+  it('an id written any way but plain digits (hex, exponent, decimal point, padding) → 400', async () => {
+    for (const id of ['0x1', '1e0', '1.0', '%201', '01', '+1']) expectCleanClientError(await technician.get(`/api/batteries/${id}`), 400, /invalid id/i);
+  });
+
   it('an unknown /api route → 404 JSON', async () => {
     expectCleanClientError(await technician.get('/api/no-such-thing'), 404, /no api route/i);
     expectCleanClientError(await technician.post('/api/no-such-thing').send({}), 404, /no api route/i);
