@@ -88,6 +88,20 @@ describe('live bench page (live stream played by a /ws peer that speaks shared/s
     await page.setViewportSize({ width: 390, height: 844 });
     await page.getByTestId('big-volts').filter({ hasText: /^\d/ }).waitFor();
     await page.screenshot({ path: `${SCREENSHOT_DIR}/live-bench-phone.png` });
+    // Nothing runs off the side of the phone, on the bench page or in the room view.
+    const overflowPx = `document.documentElement.scrollWidth - window.innerWidth`;
+    expect(await page.evaluate(overflowPx)).toBe(0);
+    await page.keyboard.press('f');
+    await page.getByTestId('room-state').waitFor();
+    await page.getByTestId('big-volts').filter({ hasText: /^\d/ }).waitFor();
+    expect(await page.evaluate(overflowPx)).toBe(0);
+    await page.screenshot({ path: `${SCREENSHOT_DIR}/room-view-phone.png` });
+    await page.keyboard.press('Escape');
+    await page.waitForURL(new RegExp(`/benches/${benchA.id}$`));
+    // The bench page (and its A shortcut) is back once its numbers are.
+    await page.getByRole('heading', { name: benchA.name, level: 1 }).waitFor();
+    await page.getByTestId('big-volts').filter({ hasText: /^\d/ }).waitFor();
+    await banner.waitFor();
     await page.setViewportSize({ width: 1440, height: 900 });
     await page.keyboard.press('a');
     await banner.waitFor({ state: 'detached' });

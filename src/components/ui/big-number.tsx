@@ -2,12 +2,13 @@ import { splitQuantity } from '../../lib/units';
 
 type Size = 'md' | 'lg' | 'room' | 'room-small';
 
-// Room size is for the full-screen view, read from three metres away.
+// Room size is for the full-screen view, read from three metres away. The smallest sizes
+// still fit "-45.82 A" in half of a 390 px phone.
 const VALUE_SIZE: Record<Size, string> = {
-  md: 'text-4xl',
-  lg: 'text-5xl md:text-6xl',
-  room: 'text-[clamp(3.5rem,9vw,10rem)] leading-none',
-  'room-small': 'text-[clamp(2rem,4.5vw,5rem)] leading-none',
+  md: 'text-2xl sm:text-4xl',
+  lg: 'text-3xl sm:text-5xl md:text-6xl',
+  room: 'text-[clamp(2rem,9vw,10rem)] leading-none',
+  'room-small': 'text-[clamp(1.5rem,4.5vw,5rem)] leading-none',
 };
 const UNIT_SIZE: Record<Size, string> = {
   md: 'text-base',

@@ -47,10 +47,13 @@ export function Readouts({ view, temperatureUnit, energyUnit, size = 'lg', stale
         />
       </div>
       {totals && (
-        <div className="grid grid-cols-3 gap-6 border-t border-line pt-4">
+        <div className="grid grid-cols-2 gap-6 border-t border-line pt-4 sm:grid-cols-3">
           <BigNumber label={main.energyLabel} text={formatEnergy(main.wh, energyUnit)} unit={energyUnit} size={totalsSize} />
           <BigNumber label={main.chargeLabel} text={formatCharge(main.ah)} unit="Ah" size={totalsSize} />
-          <BigNumber label="Run time" text={view.t === null ? '—' : `${formatElapsedClock(view.t)} h:m:s`} unit="h:m:s" size={totalsSize} />
+          {/* On a phone the clock takes a row of its own: eight digits do not fit a third. */}
+          <div className="col-span-2 sm:col-span-1">
+            <BigNumber label="Run time" text={view.t === null ? '—' : `${formatElapsedClock(view.t)} h:m:s`} unit="h:m:s" size={totalsSize} />
+          </div>
         </div>
       )}
       {totals && (other.wh ?? 0) >= SHOW_OTHER_WAY_FROM_WH && (
