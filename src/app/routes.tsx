@@ -3,6 +3,7 @@ import type { RouteObject } from 'react-router-dom';
 import { AppLayout } from './layouts/app-layout';
 import { RequireAuth } from './require-auth';
 import { SignInRoute } from './routes/sign-in';
+import { Loading } from '../components/ui/status';
 
 type Pages = typeof import('./routes/pages');
 
@@ -10,8 +11,12 @@ type Pages = typeof import('./routes/pages');
  * The pages (and uPlot, react-table with them) load after sign-in, in their own chunk: the
  * sign-in page and the shell stay small for a bench PC on a slow lab network.
  */
-function page(name: keyof Pages): Pick<RouteObject, 'lazy'> {
-  return { lazy: async () => ({ Component: (await import('./routes/pages'))[name] as ComponentType }) };
+function page(name: keyof Pages): Pick<RouteObject, 'lazy' | 'hydrateFallbackElement'> {
+  return {
+    lazy: async () => ({ Component: (await import('./routes/pages'))[name] as ComponentType }),
+    // Shown while a page's chunk loads on the first visit (and keeps the router from warning).
+    hydrateFallbackElement: <Loading />,
+  };
 }
 
 /** Every route of the app; the browser router and the tests' memory router share them. */
