@@ -13,11 +13,14 @@ export function BatteriesTable({ batteries, onEdit }: { batteries: readonly Batt
       <table className="w-full text-left text-sm">
         <thead className="bg-surface-sunken text-ink-muted">
           <tr>
-            {['Label', 'Brand / model', 'Chemistry', 'Cells', 'Rated', 'Protection', 'Mass', 'Serial', 'Sent by', '', ...(onEdit ? [''] : [])].map((h) => (
+            {['Label', 'Brand / model', 'Chemistry', 'Cells', 'Rated', 'Protection', 'Mass', 'Serial', 'Sent by'].map((h) => (
               <th key={h} className="px-3 py-3 font-semibold">
                 {h}
               </th>
             ))}
+            <th className="px-3 py-3">
+              <span className="sr-only">Actions</span>
+            </th>
           </tr>
         </thead>
         <tbody>
@@ -37,18 +40,19 @@ export function BatteriesTable({ batteries, onEdit }: { batteries: readonly Batt
               <td className="num whitespace-nowrap px-3 py-3">{b.massKg === null ? '—' : `${formatNumber(b.massKg, 2)} kg`}</td>
               <td className="num whitespace-nowrap px-3 py-3">{b.serialNumber ?? '—'}</td>
               <td className="px-3 py-3">{b.sender ?? '—'}</td>
+              {/* Both actions in one cell: two half-empty columns pushed Edit off a 1440 px screen. */}
               <td className="px-3 py-2">
-                <Link to={`/runs?batteryId=${b.id}`} className="inline-flex min-h-11 items-center rounded-lg border border-line px-3 font-semibold" aria-label={`Runs of ${b.label}`}>
-                  Runs
-                </Link>
+                <span className="flex gap-2">
+                  <Link to={`/runs?batteryId=${b.id}`} className="inline-flex min-h-11 items-center rounded-lg border border-line px-3 font-semibold" aria-label={`Runs of ${b.label}`}>
+                    Runs
+                  </Link>
+                  {onEdit && (
+                    <button type="button" onClick={() => onEdit(b)} className="min-h-11 rounded-lg border border-line px-3 font-semibold" aria-label={`Edit ${b.label}`}>
+                      Edit
+                    </button>
+                  )}
+                </span>
               </td>
-              {onEdit && (
-                <td className="px-3 py-2">
-                  <button type="button" onClick={() => onEdit(b)} className="min-h-11 rounded-lg border border-line px-3 font-semibold" aria-label={`Edit ${b.label}`}>
-                    Edit
-                  </button>
-                </td>
-              )}
             </tr>
           ))}
         </tbody>
