@@ -5,9 +5,34 @@ import { forEachChunk } from '../archive/chunk-store.js';
 import type { Columns } from '../archive/column-block.js';
 import type { ExportMeta } from './export-meta.js';
 
-/** Writes text, waiting when the client reads slower than we produce (bounded memory). */
+/** Thrown inside an export when the client has gone; the export then ends quietly. */
+class ClientGone extends Error {}
+
+/**
+ * Writes text, waiting when the client reads slower than we produce (bounded memory). A
+ * client that leaves while we wait would never drain: stop then, or the export would hang
+ * for ever holding a chunk in memory.
+ */
 async function put(out: Writable, text: string): Promise<void> {
-  if (!out.write(text)) await once(out, 'drain');
+  if (out.destroyed) throw new ClientGone();
+  if (out.write(text)) return;
+  const ac = new AbortController();
+  const gone = once(out, 'close', { signal: ac.signal }).then(() => Promise.reject(new ClientGone()));
+  try {
+    await Promise.race([once(out, 'drain', { signal: ac.signal }), gone]);
+  } finally {
+    ac.abort();
+    gone.catch(() => undefined);
+  }
+}
+
+/** Runs an export, ending quietly when the client went away. */
+async function untilClientGone(work: Promise<void>): Promise<void> {
+  try {
+    await work;
+  } catch (err) {
+    if (!(err instanceof ClientGone)) throw err;
+  }
 }
 
 function value(cols: Columns, name: string, i: number): number {
@@ -47,7 +72,11 @@ function metaLines(meta: ExportMeta): string[] {
 }
 
 /** Streams the whole run as CSV: metadata lines, a header, then every reading in order. */
-export async function streamCsvExport(out: Writable, sequelize: Sequelize, meta: ExportMeta): Promise<void> {
+export function streamCsvExport(out: Writable, sequelize: Sequelize, meta: ExportMeta): Promise<void> {
+  return untilClientGone(writeCsv(out, sequelize, meta));
+}
+
+async function writeCsv(out: Writable, sequelize: Sequelize, meta: ExportMeta): Promise<void> {
   await put(out, metaLines(meta).join('\n') + '\n' + meta.columns.map((c) => csvField(csvHeaderName(c))).join(',') + '\n');
   await forEachChunk(sequelize, meta.run.id, async (cols) => {
     const n = cols.elapsed!.length;
@@ -65,7 +94,11 @@ export async function streamCsvExport(out: Writable, sequelize: Sequelize, meta:
 }
 
 /** Streams the whole run as one JSON document: `{ meta, columns, rows: [[…], …] }`. */
-export async function streamJsonExport(out: Writable, sequelize: Sequelize, meta: ExportMeta): Promise<void> {
+export function streamJsonExport(out: Writable, sequelize: Sequelize, meta: ExportMeta): Promise<void> {
+  return untilClientGone(writeJson(out, sequelize, meta));
+}
+
+async function writeJson(out: Writable, sequelize: Sequelize, meta: ExportMeta): Promise<void> {
   const head = { meta: { run: meta.run, battery: meta.battery, bench: meta.bench, units: meta.units }, columns: meta.columns };
   await put(out, JSON.stringify(head).slice(0, -1) + ',"rows":[');
   let first = true;
