@@ -19,6 +19,8 @@ export async function runSamples(sequelize: Sequelize, runId: number, q: Samples
   const from = q.from ?? extent?.from ?? 0;
   const to = q.to ?? extent?.to ?? 0;
   if (to < from) throw new HttpError(400, '`to` must not be before `from`', { to: ['must be >= from'] });
+  // Two finite ends can still be an infinite span (-1e308 to 1e308): every bucket time would be NaN.
+  if (!Number.isFinite(to - from)) throw new HttpError(400, 'The window from `from` to `to` is too wide', { to: ['to - from must be a finite number of seconds'] });
   if (!extent) return { runId, from, to, ...reduceSamples([], from, to, q.maxPoints) };
   // Estimate the readings in the window from the run's mean rate; the groups are exact enough
   // once each bucket would hold several of them.

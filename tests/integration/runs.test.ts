@@ -237,3 +237,18 @@ describe('a meter misbehaving mid-run', () => {
     });
   });
 });
+
+describe('history windows a client should not ask for', () => {
+  it('answers 400 for a window too wide to cut into buckets, and a valid reduced answer just inside it', async () => {
+    const admin = await signInAs(t, 'admin');
+    const own = await batteryAndBench(admin);
+    const run = (await tech.post('/api/runs').send({ ...own, name: 'Wide window', stopWhen: 'manual' }).expect(201)).body.run;
+    for (let s = 0; s < 100; s++) feed.emit(own.benchId, { t: s, volts: 13, amps: 2, clock: 'device' });
+    await tech.post(`/api/runs/${run.id}/stop`).send({}).expect(200);
+    await eventually(async () => expect((await viewer.get(`/api/runs/${run.id}`)).body.run.readingsCount).toBe(100));
+    const wide = await viewer.get(`/api/runs/${run.id}/samples?maxPoints=10&from=-1e308&to=1e308`).expect(400);
+    expect(wide.body.error.fields).toHaveProperty('to');
+    const inside = SamplesResponseSchema.parse((await viewer.get(`/api/runs/${run.id}/samples?maxPoints=10&from=-1e307&to=1e307`).expect(200)).body);
+    expect(inside.readingsInWindow).toBe(100);
+  });
+});
