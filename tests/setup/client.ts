@@ -10,9 +10,11 @@ vi.mock('uplot', () => {
     static join(tables: number[][][]) {
       return [tables[0][0], ...tables.flatMap((t) => t.slice(1))];
     }
+    opts: unknown;
     data: unknown;
     setDataCalls = 0;
-    constructor(_opts: unknown, data: unknown) {
+    constructor(opts: unknown, data: unknown) {
+      this.opts = opts;
       this.data = data;
       FakePlot.instances.push(this);
     }

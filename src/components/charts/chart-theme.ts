@@ -12,6 +12,20 @@ export const AXIS_FONT = '12px "JetBrains Mono", ui-monospace, monospace';
 
 /** Run-time tick steps in seconds: whole seconds, minutes and hours a person counts in. */
 export const RUN_TIME_INCREMENTS_S = [1, 2, 5, 10, 15, 30, 60, 120, 300, 600, 900, 1800, 3600, 7200, 10_800, 21_600, 43_200, 86_400];
+/** Below this chart width (a phone) the y axes narrow and the temperature axis steps aside. */
+export const NARROW_CHART_PX = 600;
+const AXIS_SIZE_PX = 70;
+const NARROW_AXIS_SIZE_PX = 62;
+
+/**
+ * Width and visibility of the y axes for a chart `widthPx` wide: three 70 px axes leave a
+ * phone's chart a sliver. On a narrow chart the temperature keeps its line and legend value.
+ */
+export function yAxisLayout(widthPx: number): { sizePx: number; showTemperature: boolean } {
+  const narrow = widthPx < NARROW_CHART_PX;
+  return { sizePx: narrow ? NARROW_AXIS_SIZE_PX : AXIS_SIZE_PX, showTemperature: !narrow };
+}
+
 /** Minimum gap between run-time labels ("01:23:20" is wide). */
 export const RUN_TIME_LABEL_SPACE_PX = 90;
 

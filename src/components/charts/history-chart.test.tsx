@@ -1,12 +1,15 @@
 import { render } from '@testing-library/react';
 import uPlot from 'uplot';
-import { describe, expect, it } from 'vitest';
+import { afterEach, describe, expect, it, vi } from 'vitest';
 import type { SamplesResponse } from '../../../shared/schemas/api-runs';
 import { HistoryChart } from './history-chart';
 
 // uplot is replaced by the recording stand-in from tests/setup/client.ts.
-const instances = (uPlot as unknown as { instances: { data: unknown[][] }[] }).instances;
+type Axis = { scale?: string; size?: number; show?: boolean };
+const instances = (uPlot as unknown as { instances: { data: unknown[][]; opts: { axes: Axis[] } }[] }).instances;
 const col = (v: number[]) => ({ min: v, max: v });
+
+afterEach(() => vi.restoreAllMocks());
 
 describe('HistoryChart', () => {
   it('draws the cell temperature, as the live screens do, when the run also logged ambient', () => {
@@ -19,5 +22,19 @@ describe('HistoryChart', () => {
     render(<HistoryChart samples={samples} onZoom={() => {}} />);
     const plot = instances[instances.length - 1];
     expect(plot.data[5]).toEqual([23.4, 25.1, 28.6]);
+  });
+
+  it('leaves a phone-wide chart room to draw: narrower axes, temperature axis hidden (its line stays)', () => {
+    vi.spyOn(HTMLElement.prototype, 'clientWidth', 'get').mockReturnValue(358);
+    const samples: SamplesResponse = {
+      runId: 1, from: 0, to: 1, reduced: false, bucketSeconds: null, readingsInWindow: 2,
+      t: [0, 1], volts: col([13.2, 13.1]), amps: col([45, 45]), watts: col([594, 590]), temps: { cell: col([23.4, 23.5]) },
+    };
+    render(<HistoryChart samples={samples} onZoom={() => {}} />);
+    const axes = instances[instances.length - 1].opts.axes;
+    const temperature = axes.find((a) => a.scale === 'C')!;
+    expect(temperature.show).toBe(false);
+    expect(axes.find((a) => a.scale === 'V')!.size).toBeLessThan(70);
+    expect(instances[instances.length - 1].data[5]).toEqual([23.4, 23.5]);
   });
 });

@@ -5,7 +5,7 @@ import { SIGNAL_COLORS } from '../../lib/palette';
 import { formatAmps, formatElapsedClock, formatTemperature, formatVolts, formatWatts } from '../../lib/units';
 import type { LiveStore } from '../../lib/live-store';
 import { useTheme } from '../../lib/use-theme';
-import { AXIS_FONT, chartTheme, MIN_SPAN, paddedRange, RUN_TIME_INCREMENTS_S, RUN_TIME_LABEL_SPACE_PX } from './chart-theme';
+import { AXIS_FONT, chartTheme, MIN_SPAN, paddedRange, RUN_TIME_INCREMENTS_S, RUN_TIME_LABEL_SPACE_PX, yAxisLayout } from './chart-theme';
 import { useChartWidth } from './use-chart-size';
 
 const LINE_WIDTH_PX = 2;
@@ -13,6 +13,7 @@ const LINE_WIDTH_PX = 2;
 function buildOptions(width: number, heightPx: number, temperatureUnit: 'C' | 'F'): uPlot.Options {
   const { axis, grid } = chartTheme();
   const axisBase = { stroke: axis, font: AXIS_FONT, grid: { stroke: grid }, ticks: { stroke: grid } };
+  const { sizePx, showTemperature } = yAxisLayout(width);
   return {
     width,
     height: heightPx,
@@ -33,16 +34,17 @@ function buildOptions(width: number, heightPx: number, temperatureUnit: 'C' | 'F
     ],
     axes: [
       { ...axisBase, incrs: RUN_TIME_INCREMENTS_S, space: RUN_TIME_LABEL_SPACE_PX, values: (_u, ticks) => ticks.map((t) => formatElapsedClock(t)) },
-      { ...axisBase, scale: 'V', stroke: SIGNAL_COLORS.volts, values: (_u, ticks) => ticks.map((t) => `${t} V`), size: 70 },
-      { ...axisBase, scale: 'A', side: 1, grid: { show: false }, stroke: SIGNAL_COLORS.amps, values: (_u, ticks) => ticks.map((t) => `${t} A`), size: 70 },
+      { ...axisBase, scale: 'V', stroke: SIGNAL_COLORS.volts, values: (_u, ticks) => ticks.map((t) => `${t} V`), size: sizePx },
+      { ...axisBase, scale: 'A', side: 1, grid: { show: false }, stroke: SIGNAL_COLORS.amps, values: (_u, ticks) => ticks.map((t) => `${t} A`), size: sizePx },
       {
         ...axisBase,
         scale: 'C',
+        show: showTemperature,
         side: 1,
         grid: { show: false },
         stroke: SIGNAL_COLORS.temp,
         values: (_u, ticks) => ticks.map((t) => formatTemperature(t, temperatureUnit, 0)),
-        size: 70,
+        size: sizePx,
       },
     ],
   };
