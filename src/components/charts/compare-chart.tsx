@@ -4,6 +4,7 @@ import 'uplot/dist/uPlot.min.css';
 import { COMPARE_COLORS } from '../../lib/palette';
 import { formatElapsedClock, formatVolts } from '../../lib/units';
 import { useTheme } from '../../lib/use-theme';
+import { usePrinting } from './use-printing';
 import { AXIS_FONT, chartTheme, MIN_SPAN, paddedRange, RUN_TIME_INCREMENTS_S, RUN_TIME_LABEL_SPACE_PX } from './chart-theme';
 import { useChartWidth } from './use-chart-size';
 
@@ -20,6 +21,7 @@ export function CompareChart({ series, heightPx = 380 }: { series: readonly Comp
   const plotRef = useRef<uPlot | null>(null);
   const width = useChartWidth(containerRef);
   const { theme } = useTheme();
+  const printing = usePrinting();
 
   useEffect(() => {
     const el = containerRef.current;
@@ -58,7 +60,7 @@ export function CompareChart({ series, heightPx = 380 }: { series: readonly Comp
       plotRef.current = null;
     };
     // eslint-disable-next-line react-hooks/exhaustive-deps
-  }, [series, heightPx, theme]);
+  }, [series, heightPx, theme, printing]);
 
   useEffect(() => {
     plotRef.current?.setSize({ width, height: heightPx });

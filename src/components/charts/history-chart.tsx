@@ -8,6 +8,7 @@ import { formatAmps, formatElapsedClock, formatTemperature, formatVolts } from '
 import { useTheme } from '../../lib/use-theme';
 import { AXIS_FONT, chartTheme, MIN_SPAN, paddedRange, RUN_TIME_INCREMENTS_S, RUN_TIME_LABEL_SPACE_PX, yAxisLayout } from './chart-theme';
 import { useChartWidth } from './use-chart-size';
+import { usePrinting } from './use-printing';
 
 /** A vertical line on the chart at a run time (cutoff, recovery, a note). */
 export interface ChartMarker {
@@ -115,6 +116,8 @@ export function HistoryChart({ samples, markers = [], onZoom, heightPx = 360, te
   const zoomRef = useRef(onZoom);
   const width = useChartWidth(containerRef);
   const { theme } = useTheme();
+  // Printing redraws the chart in the report's colours (the canvas does not follow CSS).
+  const printing = usePrinting();
 
   useEffect(() => {
     zoomRef.current = onZoom;
@@ -134,7 +137,7 @@ export function HistoryChart({ samples, markers = [], onZoom, heightPx = 360, te
       plotRef.current = null;
     };
     // eslint-disable-next-line react-hooks/exhaustive-deps
-  }, [samples, markers, heightPx, theme, temperatureUnit]);
+  }, [samples, markers, heightPx, theme, temperatureUnit, printing]);
 
   useEffect(() => {
     plotRef.current?.setSize({ width, height: heightPx });
