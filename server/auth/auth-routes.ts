@@ -32,8 +32,11 @@ export function createAuthRouter(ctx: AppContext): Router {
   });
 
   router.post('/logout', (req, res, next) => {
+    const sid = req.sessionID;
     req.session.destroy((error) => {
       if (error) return next(error);
+      // A live view left open in another tab stops streaming once its session is gone.
+      ctx.services.closeSessionSockets?.(sid);
       res.clearCookie(SESSION_COOKIE, { httpOnly: true, sameSite: 'lax', secure: ctx.config.cookieSecure });
       res.status(204).end();
     });

@@ -2,9 +2,12 @@ import type { AppContext } from '../app-context.js';
 
 /** Closes a user's open WebSockets, except those of session `keepSid` (set by the live area's attachment). */
 export type CloseUserSockets = (userId: number, keepSid?: string) => void;
+/** Closes the WebSockets opened with one session (sign-out). */
+export type CloseSessionSockets = (sid: string) => void;
 declare module '../app-context.js' {
   interface AppServices {
     closeUserSockets: CloseUserSockets;
+    closeSessionSockets: CloseSessionSockets;
   }
 }
 

@@ -77,8 +77,10 @@ export function liveAttachment(options: LiveOptions = {}) {
       log: (m, e) => ctx.log.error(m, e),
     });
     ctx.services.closeUserSockets = ws.closeUser;
+    ctx.services.closeSessionSockets = ws.closeSession;
     return async () => {
       delete ctx.services.closeUserSockets;
+      delete ctx.services.closeSessionSockets;
       await ws.close();
       for (const off of unsubscribe) off();
       recorder.detach();

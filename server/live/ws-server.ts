@@ -35,7 +35,7 @@ function refuse(socket: Duplex, status: number, reason: string): void {
 export function attachWsServer(
   httpServer: Server,
   opts: WsServerOptions,
-): { close(): Promise<void>; clients(): number; closeUser(userId: number, keepSid?: string): void } {
+): { close(): Promise<void>; clients(): number; closeUser(userId: number, keepSid?: string): void; closeSession(sid: string): void } {
   const wss = new WebSocketServer({ noServer: true, maxPayload: MAX_CLIENT_MESSAGE_BYTES });
   const alive = new WeakMap<WebSocket, boolean>();
   // Who opened each socket with which session, so ending a user's sessions closes their sockets too.
@@ -107,6 +107,9 @@ export function attachWsServer(
   httpServer.on('upgrade', onUpgrade);
   return {
     clients: () => wss.clients.size,
+    closeSession: (sid) => {
+      for (const ws of wss.clients) if (owners.get(ws)?.sid === sid) ws.close(SESSION_ENDED_CODE, 'Signed out');
+    },
     closeUser: (userId, keepSid) => {
       for (const ws of wss.clients) {
         const owner = owners.get(ws);

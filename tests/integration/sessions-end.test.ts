@@ -34,6 +34,23 @@ async function socket(email: string, password: string): Promise<WsProbe> {
 const closed = (p: WsProbe) => new Promise<number>((resolve) => (p.ws.readyState === p.ws.CLOSED ? resolve(-1) : p.ws.once('close', (code) => resolve(code))));
 
 describe('ending sessions', () => {
+  it('signing out closes the sockets opened with that session, and only those', async () => {
+    await newUser('leaving-tab@test.lab', 'tab-password-1');
+    const agent = await csrfAgent(t);
+    const res = await agent.post('/api/auth/login').send({ email: 'leaving-tab@test.lab', password: 'tab-password-1' }).expect(200);
+    agent.set('X-CSRF-Token', res.body.csrfToken);
+    const cookie = ([] as string[]).concat(res.headers['set-cookie'] ?? []).map((c) => c.split(';')[0]!).find((c) => c.startsWith('kneepoint.sid='));
+    const tab = await WsProbe.open(t, cookie);
+    probes.push(tab);
+    await tab.next('hello');
+    const otherDevice = await socket('leaving-tab@test.lab', 'tab-password-1');
+    const tabClosed = closed(tab);
+    await agent.post('/api/auth/logout').expect(204);
+    expect(await tabClosed).toBe(SESSION_ENDED_CODE);
+    otherDevice.send({ type: 'ping', id: 5 });
+    expect((await otherDevice.next('pong')).id).toBe(5);
+  });
+
   it('a password change signs out the other sessions and sockets of that user, not the one that changed it', async () => {
     await newUser('mover@test.lab', 'first-password-1');
     const here = await login('mover@test.lab', 'first-password-1');
