@@ -50,6 +50,8 @@ type StartRequest = z.infer<typeof StartRunRequestSchema>;
 export class RunRecorder {
   private readonly sessions = new Map<number, RunSession>();
   private readonly byBench = new Map<number, number>();
+  /** Benches whose run is being created (between the check and the register, across awaits). */
+  private readonly starting = new Set<number>();
   private readonly unsubscribe: (() => void)[] = [];
   private timer: unknown = null;
   readonly readings = new ListenerSet<[runId: number, reading: Reading]>((e) => this.log('run readings listener failed', e));
@@ -94,6 +96,17 @@ export class RunRecorder {
   /** Starts a run on a bench (409 when the bench already records one). */
   async start(req: StartRequest, userId: number | null): Promise<Run> {
     if (this.byBench.has(req.benchId)) throw new HttpError(409, `Bench ${req.benchId} is already recording run ${this.byBench.get(req.benchId)}`);
+    // A double-clicked Start sends two requests: the second must not slip in while the first awaits the database.
+    if (this.starting.has(req.benchId)) throw new HttpError(409, `A run is already starting on bench ${req.benchId}`);
+    this.starting.add(req.benchId);
+    try {
+      return await this.create(req, userId);
+    } finally {
+      this.starting.delete(req.benchId);
+    }
+  }
+
+  private async create(req: StartRequest, userId: number | null): Promise<Run> {
     if (this.deps.benchExists && !(await this.deps.benchExists(req.benchId))) throw new HttpError(400, `Bench ${req.benchId} does not exist`, { benchId: ['no such bench'] });
     const battery = await this.deps.getBattery(req.batteryId);
     if (!battery) throw new HttpError(400, `Battery ${req.batteryId} does not exist`, { batteryId: ['no such battery'] });

@@ -252,3 +252,16 @@ describe('history windows a client should not ask for', () => {
     expect(inside.readingsInWindow).toBe(100);
   });
 });
+
+describe('starting a run twice at once (a double-clicked Start)', () => {
+  it('records one run: the other requests get 409', async () => {
+    const admin = await signInAs(t, 'admin');
+    const own = await batteryAndBench(admin);
+    const answers = await Promise.all([1, 2, 3].map((i) => tech.post('/api/runs').send({ ...own, name: `Double start ${i}`, stopWhen: 'manual' })));
+    expect(answers.map((r) => r.status).sort()).toEqual([201, 409, 409]);
+    const runs = ListRunsResponseSchema.parse((await viewer.get(`/api/runs?benchId=${own.benchId}`).expect(200)).body).runs;
+    expect(runs).toHaveLength(1);
+    const started = answers.find((r) => r.status === 201)!.body.run.id;
+    await tech.post(`/api/runs/${started}/stop`).send({}).expect(200);
+  });
+});
