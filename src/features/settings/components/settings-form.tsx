@@ -7,6 +7,7 @@ import { Button } from '../../../components/ui/button';
 import { Card } from '../../../components/ui/card';
 import { SelectField, TextField } from '../../../components/ui/field';
 import { Loading, QueryError } from '../../../components/ui/status';
+import { ApiError } from '../../../lib/api-client';
 import { labSettingsQueryOptions } from '../../../lib/lab-settings';
 import { useUpdateSettings } from '../api/update-settings';
 
@@ -15,6 +16,8 @@ const MAX_END_VOLTS_PER_CELL = 5;
 function Form({ initial }: { initial: LabSettings }) {
   const update = useUpdateSettings();
   const { register, handleSubmit, reset, formState: { errors, isDirty } } = useForm<LabSettings>({ defaultValues: initial });
+  // The server names the fields it refused; each message goes beside its field.
+  const server = update.error instanceof ApiError ? update.error.fields : {};
   const onSubmit = handleSubmit((v) =>
     update.mutate(
       {
@@ -29,14 +32,20 @@ function Form({ initial }: { initial: LabSettings }) {
   return (
     <form onSubmit={onSubmit} noValidate aria-label="Lab settings" className="flex flex-col gap-6">
       <Card className="grid gap-4 p-6 md:grid-cols-2">
-        <TextField label="Lab name" error={errors.labName?.message} {...register('labName', { required: 'The lab needs a name.' })} />
-        <TextField label="Time zone (IANA)" placeholder="Europe/Berlin" {...register('timeZone')} />
+        <TextField label="Lab name" error={errors.labName?.message ?? server.labName} {...register('labName', { required: 'The lab needs a name.' })} />
+        <TextField
+          label="Time zone"
+          placeholder="Europe/Berlin"
+          hint="A region and city, such as Europe/Berlin or America/Chicago; every time on screen and in reports uses it."
+          error={errors.timeZone?.message ?? (server.timeZone ? `Not a time zone Kneepoint knows (${server.timeZone}). Use a region/city name such as Europe/Berlin.` : undefined)}
+          {...register('timeZone', { required: 'Enter the lab’s time zone, such as Europe/Berlin.' })}
+        />
         <SelectField label="Temperature unit" options={[{ value: 'C', label: '°C' }, { value: 'F', label: '°F' }]} {...register('temperatureUnit')} />
         <SelectField label="Energy unit" options={[{ value: 'Wh', label: 'Wh' }, { value: 'kWh', label: 'kWh' }]} {...register('energyUnit')} />
         <TextField
           label="Acceptance (% of rated)"
           inputMode="decimal"
-          error={errors.acceptancePercent?.message}
+          error={errors.acceptancePercent?.message ?? server.acceptancePercent}
           {...register('acceptancePercent', { validate: (v) => (Number(v) >= 1 && Number(v) <= 100) || 'Between 1 and 100 %.' })}
         />
       </Card>
@@ -49,7 +58,7 @@ function Form({ initial }: { initial: LabSettings }) {
               key={c}
               label={CHEMISTRY_LABEL[c]}
               inputMode="decimal"
-              error={errors.endVoltsPerCell?.[c]?.message}
+              error={errors.endVoltsPerCell?.[c]?.message ?? server[`endVoltsPerCell.${c}`]}
               {...register(`endVoltsPerCell.${c}`, { validate: (v) => (Number(v) > 0 && Number(v) <= MAX_END_VOLTS_PER_CELL) || `Between 0 and ${MAX_END_VOLTS_PER_CELL} V.` })}
             />
           ))}
