@@ -10,6 +10,12 @@ describe('splitHeader', () => {
     expect(splitHeader('time_ms')).toEqual({ base: 'time', unit: 'ms' });
     expect(splitHeader('volts')).toEqual({ base: 'volts', unit: null });
   });
+
+  it('reads the degree sign of a file saved in Windows-1252 (decoded as U+FFFD) or double-encoded (Â°)', () => {
+    expect(splitHeader('Temp (\uFFFDC)')).toEqual({ base: 'temp', unit: 'c' });
+    expect(splitHeader('Temperature [Â°F]')).toEqual({ base: 'temperature', unit: 'f' });
+    expect(splitHeader('Temp (ºC)')).toEqual({ base: 'temp', unit: 'c' });
+  });
 });
 
 describe('planColumns', () => {

@@ -22,11 +22,17 @@ export interface ColumnOverrides {
   timeUnit?: TimeUnit;
 }
 
+/**
+ * A degree sign as loggers' files carry it: °, the ordinal º, or the mojibake of a file saved
+ * in Windows-1252 and read as UTF-8 (U+FFFD) or the reverse ("Â°").
+ */
+const DEGREE_SIGN = /^(Â°|°|º|\uFFFD)\s*/i;
+
 /** Splits "Voltage (V)", "voltage_v", "Current [mA]", "temp °C" into a base name and a unit. */
 export function splitHeader(header: string): { base: string; unit: string | null } {
   const h = header.trim().toLowerCase().replace(/^\uFEFF/, '');
   const bracket = /^(.*?)[\s_]*[([]\s*([^)\]]*?)\s*[)\]]\s*$/.exec(h);
-  if (bracket) return { base: bracket[1]!.trim(), unit: bracket[2]!.replace(/^°\s*/, '').trim() || null };
+  if (bracket) return { base: bracket[1]!.trim(), unit: bracket[2]!.replace(DEGREE_SIGN, '').trim() || null };
   const suffix = /^(.*?)[\s_/-]+(s|sec|ms|min|h|hr|v|mv|a|ma|c|°c|degc|f|°f|degf|k)$/.exec(h);
   if (suffix) return { base: suffix[1]!.trim(), unit: suffix[2]!.replace(/^(°|deg)/, '') };
   return { base: h, unit: null };
