@@ -18,4 +18,12 @@ describe('contextual cautions', () => {
     expect(contextualCautions('lead-acid', 'charge', 20).map((c) => c.text).join(' ')).toMatch(/hydrogen/);
     expect(contextualCautions('lfp', 'charge', 20).map((c) => c.text).join(' ')).not.toMatch(/hydrogen/);
   });
+
+  it('speaks the lab\'s unit: °F when the lab chose it', () => {
+    // −4.5 °C = 23.9 °F and 0 °C = 32 °F (°F = °C × 9/5 + 32, the Fahrenheit definition).
+    const cold = contextualCautions('lfp', 'charge', -4.5, 'F');
+    expect(cold[0].text).toContain('23.9 °F');
+    expect(cold[0].text).toContain('below 32 °F');
+    expect(contextualCautions('lfp', 'charge', 18, 'F')[0].text).toContain('above 32 °F');
+  });
 });

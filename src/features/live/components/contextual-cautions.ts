@@ -6,18 +6,24 @@ import { formatTemperature } from '../../../lib/units';
 const LITHIUM_MIN_CHARGE_CELSIUS = 0;
 const LITHIUM: readonly Chemistry[] = ['lfp', 'nmc', 'nca', 'lco', 'lmo', 'lto'];
 
-/** The cautions that apply to this pack and this test, most serious first. */
-export function contextualCautions(chemistry: Chemistry | null, kind: RunKind, packCelsius: number | null): { text: string; severe: boolean }[] {
+/** The cautions that apply to this pack and this test, most serious first, temperatures in the lab's unit. */
+export function contextualCautions(
+  chemistry: Chemistry | null,
+  kind: RunKind,
+  packCelsius: number | null,
+  temperatureUnit: 'C' | 'F' = 'C',
+): { text: string; severe: boolean }[] {
+  const freezing = formatTemperature(LITHIUM_MIN_CHARGE_CELSIUS, temperatureUnit, 0);
   const out: { text: string; severe: boolean }[] = [];
   const lithium = chemistry !== null && LITHIUM.includes(chemistry);
   const charging = kind === 'charge' || kind === 'protection-check';
   if (lithium && charging && packCelsius !== null && packCelsius < LITHIUM_MIN_CHARGE_CELSIUS) {
     out.push({
-      text: `The bench reads ${formatTemperature(packCelsius)}: do not charge a lithium pack below ${formatTemperature(LITHIUM_MIN_CHARGE_CELSIUS)} unless you are testing its cold-charge protection and its heater, and someone watches it.`,
+      text: `The bench reads ${formatTemperature(packCelsius, temperatureUnit)}: do not charge a lithium pack below ${freezing} unless you are testing its cold-charge protection and its heater, and someone watches it.`,
       severe: true,
     });
   } else if (lithium && charging) {
-    out.push({ text: 'Check the pack is above 0 °C before charging: charging lithium cells below freezing damages them.', severe: false });
+    out.push({ text: `Check the pack is above ${freezing} before charging: charging lithium cells below freezing damages them.`, severe: false });
   }
   if (chemistry === 'lead-acid') {
     out.push({ text: 'Lead-acid gives off hydrogen on charge and at the end of a discharge: ventilate and keep sparks away.', severe: false });

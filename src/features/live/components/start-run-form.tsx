@@ -97,7 +97,7 @@ export function StartRunForm({ benchId, onStarted, packCelsius = null }: { bench
           />
         )}
         {battery &&
-          contextualCautions(battery.chemistry, kind, packCelsius).map((c) => (
+          contextualCautions(battery.chemistry, kind, packCelsius, settings.temperatureUnit).map((c) => (
             <p
               key={c.text}
               role={c.severe ? 'alert' : undefined}
