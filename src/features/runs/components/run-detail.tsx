@@ -136,7 +136,7 @@ export function RunDetail({ runId, canEdit = false }: { runId: number; canEdit?:
           <h2 className="mb-3 font-semibold">Events</h2>
           {canEdit && (
             <div className="mb-4">
-              <RunNoteForm runId={runId} />
+              <RunNoteForm runId={runId} durationSeconds={r.summary?.durationSeconds ?? null} />
             </div>
           )}
           {events.isError ? <QueryError error={events.error} what="Events" /> : <RunEventsList events={stored} temperatureUnit={settings.temperatureUnit} energyUnit={settings.energyUnit} />}

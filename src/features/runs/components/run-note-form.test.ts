@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { parseRunClock } from './run-note-form';
+import { noteTimeProblem, parseRunClock } from './run-note-form';
 
 describe('parseRunClock', () => {
   it('reads h:mm:ss as seconds since the run started', () => {
@@ -11,5 +11,13 @@ describe('parseRunClock', () => {
     expect(parseRunClock('  ')).toBeUndefined();
     expect(parseRunClock('1:65:00')).toBeNaN();
     expect(parseRunClock('90 s')).toBeNaN();
+  });
+
+  it('refuses a note time after the run ended, and accepts one within it', () => {
+    // A run of 1 h 59 min 13 s (7,153 s).
+    expect(noteTimeProblem(parseRunClock('3:00:00'), 7153)).toMatch(/The run lasted 01:59:13/);
+    expect(noteTimeProblem(parseRunClock('1:30:00'), 7153)).toBeNull();
+    expect(noteTimeProblem(undefined, 7153)).toBeNull();
+    expect(noteTimeProblem(parseRunClock('1:65:00'), 7153)).toMatch(/h:mm:ss/);
   });
 });

@@ -1,6 +1,7 @@
 import { useState, type FormEvent } from 'react';
 import { Button } from '../../../components/ui/button';
 import { TextField } from '../../../components/ui/field';
+import { formatElapsedClock } from '../../../lib/units';
 import { useAddRunNote } from '../api/add-note';
 
 const MAX_NOTE_CHARS = 2000;
@@ -14,8 +15,16 @@ export function parseRunClock(text: string): number | undefined {
   return m ? Number(m[1]) * 3600 + Number(m[2]) * 60 + Number(m[3]) : Number.NaN;
 }
 
+/** Why a note's time cannot be used (malformed, or after the run ended), or null when it can. */
+export function noteTimeProblem(t: number | undefined, durationSeconds: number | null): string | null {
+  if (t === undefined) return null;
+  if (Number.isNaN(t)) return 'Give the time as h:mm:ss, e.g. 1:05:00, or leave it empty for the end of the run.';
+  if (durationSeconds !== null && t > durationSeconds) return `The run lasted ${formatElapsedClock(durationSeconds)}: give a time within it, or leave it empty for the end.`;
+  return null;
+}
+
 /** A note on a finished run: what the pack looked like opened, a photo's file name, a doubt. */
-export function RunNoteForm({ runId }: { runId: number }) {
+export function RunNoteForm({ runId, durationSeconds = null }: { runId: number; durationSeconds?: number | null }) {
   const add = useAddRunNote(runId);
   const [text, setText] = useState('');
   const [at, setAt] = useState('');
@@ -24,7 +33,8 @@ export function RunNoteForm({ runId }: { runId: number }) {
     e.preventDefault();
     const t = parseRunClock(at);
     if (!text.trim()) return setError('Write the note first.');
-    if (t !== undefined && Number.isNaN(t)) return setError('Give the time as h:mm:ss, e.g. 1:05:00, or leave it empty for the end of the run.');
+    const problem = noteTimeProblem(t, durationSeconds);
+    if (problem) return setError(problem);
     setError(null);
     add.mutate({ text: text.trim(), t }, { onSuccess: () => { setText(''); setAt(''); } });
   };
