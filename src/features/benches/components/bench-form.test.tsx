@@ -48,4 +48,16 @@ describe('bench form (admin)', () => {
       source: { kind: 'simulator', scenario: 'lfp-12v-weak-cell', speed: 10, seed: 1, staleAfterS: 10 },
     });
   });
+
+  it('says so when the admin reopens a bench\'s source', async () => {
+    const { calls } = stubApi(demoUser('admin'), (url, init) => {
+      if (url === '/api/benches/5/restart' && init?.method === 'POST') return { status: 200, body: { bench: savedBench } };
+      if (url === '/api/benches/5') return { status: 200, body: { bench: savedBench } };
+      return undefined;
+    });
+    renderAt('/benches/5/setup');
+    await userEvent.click(await screen.findByRole('button', { name: 'Reopen source' }));
+    expect((await screen.findByRole('status')).textContent).toBe('Source reopened.');
+    expect(calls.some((c) => c.url === '/api/benches/5/restart')).toBe(true);
+  });
 });

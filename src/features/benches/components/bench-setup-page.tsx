@@ -45,6 +45,13 @@ export function BenchSetupPage({ benchId }: { benchId: number | null }) {
       <div className="flex flex-col gap-4">
         <SafetyCautions compact />
         {existing?.status.message && <p className="text-sm text-ink-muted">Source: {existing.status.message}</p>}
+        {/* Reopening is quiet on the server: say that it happened, or why it did not. */}
+        {restart.isSuccess && <p role="status" className="text-sm font-medium text-state-recording">Source reopened.</p>}
+        {restart.isError && (
+          <p role="alert" className="text-sm font-medium text-state-cutoff">
+            The source was not reopened: {restart.error instanceof Error ? restart.error.message : 'unknown error'}
+          </p>
+        )}
         <Card className="p-6">
           <BenchForm key={existing?.id ?? 'new'} bench={existing} onSaved={(id) => navigate(`/benches/${id}`)} />
         </Card>
