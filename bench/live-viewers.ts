@@ -1,0 +1,84 @@
+/**
+ * The live benchmark's viewers, in a child process of their own (forked by
+ * bench/live.bench.ts) so the server process's memory and CPU figures are the server's
+ * alone. Opens VIEWERS WebSockets, subscribes each to every bench, and measures the delay
+ * from a frame being handed to the hub (its `t` carries the send time, in ms since a shared
+ * epoch on the wall clock) to the batch holding it being parsed here.
+ */
+import { performance } from 'node:perf_hooks';
+import WebSocket from 'ws';
+import type { ServerMessage } from '../shared/schemas/ws.js';
+
+/** Parent → child. */
+export type ToViewers =
+  | { type: 'start'; url: string; cookie: string; viewers: number; benches: number; epochMs: number }
+  | { type: 'measure'; on: boolean }
+  | { type: 'report' };
+/** Child → parent. */
+export type FromViewers =
+  | { type: 'ready' }
+  | { type: 'report'; received: number; p50Ms: number; p99Ms: number; maxMs: number; rssMB: number; heapMB: number };
+
+/** Delays go into a fixed histogram (0.1 ms steps up to 10 s), so a long soak measures without growing. */
+const HIST_STEP_MS = 0.1;
+const HIST_SLOTS = 100_000;
+export class Histogram {
+  private readonly counts = new Uint32Array(HIST_SLOTS + 1);
+  n = 0;
+  max = 0;
+  add(ms: number): void {
+    this.counts[Math.min(HIST_SLOTS, Math.max(0, Math.floor(ms / HIST_STEP_MS)))]!++;
+    this.n++;
+    if (ms > this.max) this.max = ms;
+  }
+  /** Upper edge of the slot holding the p-quantile. */
+  quantile(p: number): number {
+    const want = Math.ceil(this.n * p);
+    let seen = 0;
+    for (let i = 0; i <= HIST_SLOTS; i++) {
+      seen += this.counts[i]!;
+      if (seen >= want) return (i + 1) * HIST_STEP_MS;
+    }
+    return Number.NaN;
+  }
+}
+
+/** Wall-clock milliseconds with sub-millisecond resolution (comparable across processes). */
+export const wallMs = () => performance.timeOrigin + performance.now();
+const mb = (b: number) => +(b / 1e6).toFixed(1);
+
+async function main(): Promise<void> {
+  const delays = new Histogram();
+  const sockets: WebSocket[] = [];
+  let measuring = false;
+  let received = 0;
+  process.on('message', async (m: ToViewers) => {
+    if (m.type === 'measure') measuring = m.on;
+    else if (m.type === 'report') {
+      const mem = process.memoryUsage();
+      const r: FromViewers = { type: 'report', received, p50Ms: delays.quantile(0.5), p99Ms: delays.quantile(0.99), maxMs: delays.max, rssMB: mb(mem.rss), heapMB: mb(mem.heapUsed) };
+      process.send!(r);
+      for (const s of sockets) s.terminate();
+      process.disconnect();
+    } else if (m.type === 'start') {
+      for (let v = 0; v < m.viewers; v++) {
+        const ws = new WebSocket(m.url.replace('http', 'ws') + '/ws', { headers: { cookie: m.cookie, origin: m.url } });
+        await new Promise((resolve, reject) => (ws.once('open', resolve), ws.once('error', reject)));
+        ws.on('message', (data) => {
+          const now = wallMs() - m.epochMs;
+          const msg = JSON.parse(String(data)) as ServerMessage;
+          if (msg.type !== 'batch') return;
+          for (const t of msg.readings.t) {
+            received++;
+            if (measuring) delays.add(now - t * 1000);
+          }
+        });
+        for (let b = 1; b <= m.benches; b++) ws.send(JSON.stringify({ type: 'subscribe', topic: { kind: 'bench', id: b } }));
+        sockets.push(ws);
+      }
+      process.send!({ type: 'ready' } satisfies FromViewers);
+    }
+  });
+}
+
+void main();
