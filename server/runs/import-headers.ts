@@ -1,4 +1,5 @@
 import { HttpError } from '../http/http-error.js';
+import { parseTimestampMs } from './zoned-time.js';
 
 /** Channels an imported log can carry. */
 export type ImportChannel = 'time' | 'volts' | 'amps' | 'temp';
@@ -12,6 +13,8 @@ export interface ColumnPlan {
   temp: { index: number; unit: 'C' | 'F' | 'K' } | null;
   /** Numbers written with a decimal comma (semicolon- or tab-separated logs). */
   decimalComma?: boolean;
+  /** IANA zone of ISO timestamps written without one (the lab's); default UTC. */
+  timeZone?: string;
 }
 
 export interface ColumnOverrides {
@@ -128,7 +131,7 @@ export function parseRow(plan: ColumnPlan, fields: readonly string[], line: numb
   let t: number;
   if (plan.time.unit === 'iso') {
     const text = fields[plan.time.index]?.trim() ?? '';
-    t = Date.parse(text) / 1000;
+    t = parseTimestampMs(text, plan.timeZone ?? 'UTC') / 1000;
     if (!Number.isFinite(t)) throw new HttpError(400, `line ${line}: time "${text}" is not an ISO timestamp`);
   } else t = num(plan.time.index, 'time') * SECONDS_PER[plan.time.unit];
   const tempText = plan.temp ? (fields[plan.temp.index]?.trim() ?? '') : '';

@@ -6,6 +6,7 @@ import multer from 'multer';
 import { ImportColumnMapSchema, ImportFieldsSchema, RunTagsSchema } from '../../shared/schemas/api-runs.js';
 import type { AppContext } from '../app-context.js';
 import { HttpError } from '../http/http-error.js';
+import { getLabSettings } from '../settings/settings-service.js';
 import { importRun } from './import-service.js';
 import type { BatteryFacts } from './measure-config.js';
 import type { RunsRepo } from './runs-repo.js';
@@ -51,7 +52,7 @@ export function createImportHandler(ctx: AppContext, repo: RunsRepo, getBattery:
         const tags = split.data;
         const result = await importRun(ctx.sequelize, repo, {
           filePath: file.path, name: fields.name, tags, battery, endVolts: fields.endVolts,
-          currentSign: fields.currentSign, columns, userId: req.user!.id,
+          currentSign: fields.currentSign, columns, userId: req.user!.id, timeZone: (await getLabSettings(ctx.models)).timeZone,
         });
         if (file) await unlink(file.path).catch(() => undefined);
         res.status(201).json(result);

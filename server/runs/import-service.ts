@@ -23,6 +23,8 @@ export interface ImportRequest {
   currentSign: 'discharge-positive' | 'discharge-negative' | 'auto';
   columns: ColumnOverrides;
   userId: number;
+  /** The lab's zone, for timestamps written without one. */
+  timeZone?: string;
 }
 
 /** Pass 1: check every row and learn the sign of the current, holding nothing but counts. */
@@ -38,7 +40,7 @@ async function survey(req: ImportRequest, delimiter: Delimiter): Promise<{ plan:
       headers = fields;
       continue;
     }
-    plan ??= { ...planColumns(headers, fields, req.columns), decimalComma: delimiter !== ',' };
+    plan ??= { ...planColumns(headers, fields, req.columns), decimalComma: delimiter !== ',', timeZone: req.timeZone };
     if (fields.length !== headers.length) throw new HttpError(400, `line ${line}: ${fields.length} fields, the header has ${headers.length}`);
     const row = parseRow(plan, fields, line);
     // Out-of-order rows would be dropped by the integrator: refuse the file rather than lose them quietly.
@@ -50,7 +52,7 @@ async function survey(req: ImportRequest, delimiter: Delimiter): Promise<{ plan:
   }
   if (!headers) throw new HttpError(400, 'line 1: the file is empty; expected a header row');
   // A header alone (or a file that is no CSV) is reported by what is wrong with its header first.
-  plan ??= { ...planColumns(headers, null, req.columns), decimalComma: delimiter !== ',' };
+  plan ??= { ...planColumns(headers, null, req.columns), decimalComma: delimiter !== ',', timeZone: req.timeZone };
   if (rows < 2) throw new HttpError(400, `line ${rows + 2}: at least two readings are needed after the header`);
   const flip = req.currentSign === 'discharge-negative' || (req.currentSign === 'auto' && negative > positive);
   return { plan, flip, rows };

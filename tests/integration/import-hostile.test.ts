@@ -90,3 +90,21 @@ describe('import: tags', () => {
     ListRunsResponseSchema.parse((await tech.get('/api/runs').expect(200)).body);
   });
 });
+
+describe('import: timestamps without a zone', () => {
+  it('reads them in the lab time zone, so the run starts at the right instant', async () => {
+    const admin = await signInAs(t, 'admin');
+    await admin.patch('/api/settings').send({ timeZone: 'Europe/Berlin' }).expect(200);
+    try {
+      const lines = Array.from({ length: 5 }, (_, i) => `2026-07-15 12:00:0${i},${13 - i / 100},5`).join('\n');
+      const res = await upload('local-times.csv', `timestamp,volts,amps\n${lines}\n`);
+      expect(res.status).toBe(201);
+      const body = ImportResponseSchema.parse(res.body);
+      // Berlin is UTC+2 in July (EU summer time, from memory): 12:00 local is 10:00 UTC.
+      expect(body.run.startedAt).toBe('2026-07-15T10:00:00.000Z');
+      expect(body.summary.durationS).toBe(4);
+    } finally {
+      await admin.patch('/api/settings').send({ timeZone: 'UTC' }).expect(200);
+    }
+  });
+});

@@ -1,0 +1,44 @@
+/** An ISO date-time that says which zone it is in (Z or an offset such as +02:00). */
+const HAS_ZONE = /(z|[+-]\d{2}(:?\d{2})?)$/i;
+/** A date and wall-clock time without a zone: "2026-03-29 01:30:00", "2026-03-29T01:30:00.250". */
+const LOCAL_DATE_TIME = /^(\d{4})-(\d{2})-(\d{2})[T ](\d{2}):(\d{2})(?::(\d{2})(?:[.,](\d{1,9}))?)?$/i;
+const MS_PER_HOUR = 3_600_000;
+
+const formatters = new Map<string, Intl.DateTimeFormat>();
+const offsets = new Map<string, number>();
+
+/** How far `timeZone`'s wall clock is ahead of UTC at the instant `utcMs` (from the platform's IANA data). */
+function zoneOffsetMs(utcMs: number, timeZone: string): number {
+  // Offsets only change on the hour in practice: cache per zone and UTC hour (a long log asks millions of times).
+  const key = `${timeZone}|${Math.floor(utcMs / MS_PER_HOUR)}`;
+  const cached = offsets.get(key);
+  if (cached !== undefined) return cached;
+  let fmt = formatters.get(timeZone);
+  if (!fmt) {
+    fmt = new Intl.DateTimeFormat('en-US', { timeZone, hourCycle: 'h23', year: 'numeric', month: 'numeric', day: 'numeric', hour: 'numeric', minute: 'numeric', second: 'numeric' });
+    formatters.set(timeZone, fmt);
+  }
+  const part = (parts: Intl.DateTimeFormatPart[], type: string) => Number(parts.find((p) => p.type === type)?.value);
+  const hourStart = Math.floor(utcMs / MS_PER_HOUR) * MS_PER_HOUR;
+  const parts = fmt.formatToParts(new Date(hourStart));
+  const wall = Date.UTC(part(parts, 'year'), part(parts, 'month') - 1, part(parts, 'day'), part(parts, 'hour'), part(parts, 'minute'), part(parts, 'second'));
+  const offset = wall - hourStart;
+  if (offsets.size > 10_000) offsets.clear();
+  offsets.set(key, offset);
+  return offset;
+}
+
+/**
+ * Unix milliseconds of an ISO 8601 timestamp. One with a zone means what it says; one
+ * without is wall-clock time in `timeZone` (the lab's), not in whatever zone the server
+ * runs in. NaN when the text is not a timestamp.
+ */
+export function parseTimestampMs(text: string, timeZone: string): number {
+  const local = HAS_ZONE.test(text) ? null : LOCAL_DATE_TIME.exec(text);
+  if (!local) return Date.parse(text);
+  const [, y, mo, d, h, mi, s = '0', frac = ''] = local;
+  const wallMs = Date.UTC(+y!, +mo! - 1, +d!, +h!, +mi!, +s) + Number(`0.${frac || '0'}`) * 1000;
+  // Guess with the offset at the wall time, then correct once with the offset at the guess (DST edges).
+  const guess = wallMs - zoneOffsetMs(wallMs, timeZone);
+  return wallMs - zoneOffsetMs(guess, timeZone);
+}
