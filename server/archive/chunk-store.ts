@@ -4,6 +4,7 @@ import { encodeChunk } from './chunk-encode.js';
 import { computeStats } from './chunk-stats.js';
 import { decodeBlock, type BlockLayout, type Columns } from './column-block.js';
 import { concatColumns } from './reading-columns.js';
+import { utcDateTime } from '../db/utc-datetime.js';
 
 /** Small chunks are merged once this many readings sit in them (about 7 minutes at 10 Hz). */
 export const COMPACT_READINGS = 4096;
@@ -49,8 +50,8 @@ async function patchRun(sequelize: Sequelize, batch: ArchiveBatch, transaction: 
   if (p.summary !== undefined) add('summary', p.summary === null ? null : JSON.stringify(p.summary));
   if (p.pipelineState !== undefined) add('pipelineState', p.pipelineState);
   if (p.readingsCount !== undefined) add('readingsCount', p.readingsCount);
-  if (p.startedAt !== undefined) add('startedAt', p.startedAt);
-  if (p.endedAt !== undefined) add('endedAt', p.endedAt);
+  if (p.startedAt !== undefined) add('startedAt', utcDateTime(p.startedAt));
+  if (p.endedAt !== undefined) add('endedAt', utcDateTime(p.endedAt));
   if (!sets.length) return;
   sets.push('updatedAt = NOW(3)');
   await sequelize.query(`UPDATE runs SET ${sets.join(', ')} WHERE id = ?`, { replacements: [...values, batch.runId], transaction });

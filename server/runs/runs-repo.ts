@@ -5,6 +5,7 @@ import { RunEventSchema, type RunEvent } from '../../shared/schemas/run-event.js
 import { RunSummarySchema } from '../../shared/schemas/run-summary.js';
 import { TempProtectionSchema } from '../../shared/schemas/measure-config.js';
 import { EndVoltsSchema, RunAlarmsSchema, RunKindSchema, StopWhenSchema, LIVE_RUN_STATES, type Run, type RunState } from '../../shared/schemas/run.js';
+import { utcDateTime } from '../db/utc-datetime.js';
 
 /** Settings of a run kept together in the `config` column (JSON). */
 export const RunConfigSchema = z.object({
@@ -88,7 +89,7 @@ export class RunsRepo {
       `INSERT INTO runs (name, tags, origin, benchId, batteryId, kind, state, config, startedAt, createdById, createdAt, updatedAt)
        VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, NOW(3), NOW(3))`,
       {
-        replacements: [run.name, JSON.stringify(run.tags), run.origin, run.benchId, run.batteryId, run.config.kind, run.state, JSON.stringify(run.config), run.startedAt, run.createdById],
+        replacements: [run.name, JSON.stringify(run.tags), run.origin, run.benchId, run.batteryId, run.config.kind, run.state, JSON.stringify(run.config), utcDateTime(run.startedAt), run.createdById],
         type: QueryTypes.INSERT,
       },
     );
