@@ -108,7 +108,7 @@ export function BenchLivePage({ benchId, canAct, canSetUp = false }: { benchId: 
           {canAct ? (
             <Card className="p-6">
               <h2 className="mb-4 text-lg font-bold">Start a run on {bench.data.name}</h2>
-              <StartRunForm benchId={benchId} onStarted={setPinnedRunId} packCelsius={view.tempCelsius} />
+              <StartRunForm benchId={benchId} onStarted={setPinnedRunId} packCelsius={view.tempCelsius} tempChannel={view.tempChannel} />
             </Card>
           ) : (
             <p className="text-ink-muted">No run on this bench right now.</p>

@@ -11,6 +11,8 @@ import { useLabSettings } from '../../../lib/lab-settings';
 import { useBatteryOptions } from '../api/get-battery-options';
 import { useStartRun } from '../api/start-run';
 import { contextualCautions } from './contextual-cautions';
+import { celsiusToFahrenheit } from '../../../lib/units';
+import { COLD_CHARGE_LIMIT_CELSIUS, HOT_LIMIT_CELSIUS, tempProtectionsFrom } from './protection-presets';
 
 interface Values {
   batteryId: string;
@@ -20,7 +22,14 @@ interface Values {
   acceptancePercent: string;
   stopWhen: StopWhen;
   target: string;
+  coldCharge: boolean;
+  coldLimit: string;
+  hot: boolean;
+  hotLimit: string;
 }
+
+/** Channel the protections watch when the bench has not said which it has. */
+const DEFAULT_TEMP_CHANNEL = 'cell';
 
 const KIND_OPTIONS = [
   { value: 'capacity-discharge', label: 'Capacity discharge' },
@@ -37,12 +46,14 @@ const STOP_OPTIONS = [
 ] as const;
 
 /** Arms a run on a bench: pack, kind, end voltage, acceptance and when to stop. */
-export function StartRunForm({ benchId, onStarted, packCelsius = null }: { benchId: number; onStarted: (runId: number) => void; packCelsius?: number | null }) {
+export function StartRunForm({ benchId, onStarted, packCelsius = null, tempChannel = null }: { benchId: number; onStarted: (runId: number) => void; packCelsius?: number | null; tempChannel?: string | null }) {
   const batteries = useBatteryOptions(true);
   const settings = useLabSettings();
   const start = useStartRun();
+  const unit = settings.temperatureUnit;
+  const inLabUnit = (celsius: number) => String(unit === 'F' ? celsiusToFahrenheit(celsius) : celsius);
   const { register, handleSubmit, watch, formState: { errors } } = useForm<Values>({
-    defaultValues: { batteryId: '', name: '', kind: 'capacity-discharge', endVoltsPerCell: '', acceptancePercent: String(settings.acceptancePercent), stopWhen: 'after-recovery', target: '' },
+    defaultValues: { batteryId: '', name: '', kind: 'capacity-discharge', endVoltsPerCell: '', acceptancePercent: String(settings.acceptancePercent), stopWhen: 'after-recovery', target: '', coldCharge: true, coldLimit: inLabUnit(COLD_CHARGE_LIMIT_CELSIUS), hot: false, hotLimit: inLabUnit(HOT_LIMIT_CELSIUS) },
   });
   const stopWhen = watch('stopWhen');
   const kind = watch('kind');
@@ -66,6 +77,7 @@ export function StartRunForm({ benchId, onStarted, packCelsius = null }: { bench
       stopWhen: v.stopWhen,
       targetAh: v.stopWhen === 'target-ah' ? target : null,
       targetWh: v.stopWhen === 'target-wh' ? target : null,
+      tempProtections: v.kind === 'protection-check' ? tempProtectionsFrom(v, unit, tempChannel ?? DEFAULT_TEMP_CHANNEL) : [],
     };
     start.mutate(body, { onSuccess: (run) => onStarted(run.id) });
   });
@@ -95,6 +107,21 @@ export function StartRunForm({ benchId, onStarted, packCelsius = null }: { bench
             error={errors.target?.message ?? serverFields.targetAh ?? serverFields.targetWh}
             {...register('target', { validate: (v) => Number(v) > 0 || 'Enter the target.' })}
           />
+        )}
+        {kind === 'protection-check' && (
+          <fieldset className="grid gap-3 rounded-lg border border-line p-4 md:col-span-2 md:grid-cols-2">
+            <legend className="px-1 text-sm font-semibold">Temperature protections to time (on the {tempChannel ?? DEFAULT_TEMP_CHANNEL} sensor)</legend>
+            <label className="flex min-h-11 items-center gap-3">
+              <input type="checkbox" className="h-5 w-5" {...register('coldCharge')} />
+              Cold charge inhibit: charging must stop below
+            </label>
+            <TextField label={`Cold limit (°${unit})`} inputMode="decimal" error={errors.coldLimit?.message} {...register('coldLimit', { validate: (v) => (v.trim() !== '' && Number.isFinite(Number(v))) || 'A temperature.' })} />
+            <label className="flex min-h-11 items-center gap-3">
+              <input type="checkbox" className="h-5 w-5" {...register('hot')} />
+              High-temperature cutoff: current must stop above
+            </label>
+            <TextField label={`Hot limit (°${unit})`} inputMode="decimal" error={errors.hotLimit?.message} {...register('hotLimit', { validate: (v) => (v.trim() !== '' && Number.isFinite(Number(v))) || 'A temperature.' })} />
+          </fieldset>
         )}
         {battery &&
           contextualCautions(battery.chemistry, kind, packCelsius, settings.temperatureUnit).map((c) => (

@@ -1,0 +1,42 @@
+import { screen, waitFor } from '@testing-library/react';
+import userEvent from '@testing-library/user-event';
+import { describe, expect, it } from 'vitest';
+import type { Battery } from '../../../../shared/schemas/battery';
+import { demoUser, renderAt, stubApi } from '../../../testing/render-app';
+
+const now = '2026-12-01T20:00:00Z';
+// A fictional pack of the demo lab, with a low-temperature charge cutoff to check.
+const pack: Battery = {
+  id: 3, label: 'Kestrel 12 V camper', brand: 'Kestrel Energy', model: 'Nomad 12-50', chemistry: 'lfp', cellsInSeries: 4, cellsInParallel: 1,
+  ratedAh: 50, ratedWh: 640, bmsRatedAmps: 50, massKg: 6.2, price: null, priceCurrency: null, serialNumber: null,
+  sender: null, notes: null, createdAt: now, updatedAt: now,
+};
+
+describe('start form: protection check', () => {
+  it('sends the cold-charge limit typed in °F as a protection in °C', async () => {
+    const { calls } = stubApi(demoUser('technician'), (url, init) => {
+      if (url === '/api/benches/2') return { status: 200, body: { bench: { id: 2, name: 'Bench B', source: { kind: 'none' }, enabled: true, notes: '', createdAt: now, updatedAt: now, status: { state: 'idle', framesOk: 0, framesRejected: 0 } } } };
+      if (url.startsWith('/api/runs?benchId=2')) return { status: 200, body: { runs: [], total: 0 } };
+      if (url === '/api/batteries') return { status: 200, body: { batteries: [pack] } };
+      if (url === '/api/settings') return { status: 200, body: { settings: { temperatureUnit: 'F' } } };
+      if (url === '/api/runs' && init?.method === 'POST') return { status: 400, body: { error: { message: 'stop here' } } };
+      return undefined;
+    });
+    renderAt('/benches/2');
+    await userEvent.selectOptions(await screen.findByLabelText('Battery pack'), '3');
+    await userEvent.type(screen.getByLabelText('Run name'), 'Kestrel cold charge inhibit');
+    await userEvent.selectOptions(screen.getByLabelText('Kind of test'), 'protection-check');
+    // The lab works in °F: the default cold limit is 0 °C written as 32 °F.
+    const cold = screen.getByLabelText('Cold limit (°F)') as HTMLInputElement;
+    expect(cold.value).toBe('32');
+    await userEvent.clear(cold);
+    await userEvent.type(cold, '41');
+    await userEvent.click(screen.getByRole('button', { name: 'Arm the run' }));
+    await waitFor(() => expect(calls.some((c) => c.url === '/api/runs' && c.init?.method === 'POST')).toBe(true));
+    const body = JSON.parse(String(calls.find((c) => c.url === '/api/runs' && c.init?.method === 'POST')!.init!.body));
+    // 41 °F = 5 °C (°C = (°F − 32) × 5/9).
+    expect(body.tempProtections).toHaveLength(1);
+    expect(body.tempProtections[0]).toMatchObject({ kind: 'low-temp-charge', channel: 'cell', direction: 'below', current: 'charge' });
+    expect(body.tempProtections[0].limitCelsius).toBeCloseTo(5, 9);
+  });
+});
