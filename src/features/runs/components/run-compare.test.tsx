@@ -37,7 +37,9 @@ describe('comparing runs', () => {
     await userEvent.click(screen.getByRole('checkbox', { name: 'Compare Hollis pack' }));
     await userEvent.click(screen.getByRole('link', { name: 'Compare 2 runs' }));
     expect(router.state.location.search).toBe('?ids=3,8');
-    const table = await screen.findByRole('table');
+    // Wait for the compare page itself: the runs list (also a table) may still be on screen.
+    await screen.findByTestId('compare-chart');
+    const table = screen.getByRole('table');
     expect(within(table).getByText('Voltara pack A')).toBeTruthy();
     expect(within(table).getByText('Hollis pack')).toBeTruthy();
     expect(within(table).queryByText('Voltara pack B')).toBeNull();
