@@ -17,7 +17,7 @@ export type ToViewers =
 /** Child → parent. */
 export type FromViewers =
   | { type: 'ready' }
-  | { type: 'report'; received: number; p50Ms: number; p99Ms: number; maxMs: number; rssMB: number; heapMB: number };
+  | { type: 'report'; received: number; p50Ms: number; p99Ms: number; maxMs: number; rssStartMB: number; rssMB: number; heapMB: number };
 
 /** Delays go into a fixed histogram (0.1 ms steps up to 10 s), so a long soak measures without growing. */
 const HIST_STEP_MS = 0.1;
@@ -52,11 +52,15 @@ async function main(): Promise<void> {
   const sockets: WebSocket[] = [];
   let measuring = false;
   let received = 0;
+  let rssStartMB = 0;
   process.on('message', async (m: ToViewers) => {
-    if (m.type === 'measure') measuring = m.on;
+    if (m.type === 'measure') {
+      measuring = m.on;
+      if (m.on) rssStartMB = mb(process.memoryUsage().rss);
+    }
     else if (m.type === 'report') {
       const mem = process.memoryUsage();
-      const r: FromViewers = { type: 'report', received, p50Ms: delays.quantile(0.5), p99Ms: delays.quantile(0.99), maxMs: delays.max, rssMB: mb(mem.rss), heapMB: mb(mem.heapUsed) };
+      const r: FromViewers = { type: 'report', received, p50Ms: delays.quantile(0.5), p99Ms: delays.quantile(0.99), maxMs: delays.max, rssStartMB, rssMB: mb(mem.rss), heapMB: mb(mem.heapUsed) };
       process.send!(r);
       for (const s of sockets) s.terminate();
       process.disconnect();

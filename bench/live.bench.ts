@@ -155,7 +155,8 @@ export async function run(): Promise<Record<string, string | number>> {
       rssMaxMB: Math.max(...memory.map((m) => m.rss)),
       externalStartMB: first.external,
       externalEndMB: last.external,
-      viewersRssMB: v.rssMB,
+      viewersRssStartMB: v.rssStartMB,
+      viewersRssEndMB: v.rssMB,
       archivedReadings,
     };
     console.log(figures);
