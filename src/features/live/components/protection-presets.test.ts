@@ -20,4 +20,9 @@ describe('tempProtectionsFrom', () => {
   it('gives none when nothing is ticked', () => {
     expect(tempProtectionsFrom({ coldCharge: false, coldLimit: '0', hot: false, hotLimit: '60' }, 'C', 'cell')).toEqual([]);
   });
+
+  it('takes the common default for a limit left empty, whatever the lab unit', () => {
+    const out = tempProtectionsFrom({ coldCharge: true, coldLimit: '', hot: true, hotLimit: ' ' }, 'F', 'cell');
+    expect(out.map((p) => p.limitCelsius)).toEqual([0, 60]);
+  });
 });

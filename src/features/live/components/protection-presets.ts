@@ -5,7 +5,7 @@ import { fahrenheitToCelsius } from '../../../lib/units';
 export const COLD_CHARGE_LIMIT_CELSIUS = 0;
 export const HOT_LIMIT_CELSIUS = 60;
 
-/** What the technician ticked on the start form, limits as typed in the lab's unit. */
+/** What the technician ticked on the start form, limits as typed in the lab's unit (empty = the common default). */
 export interface ProtectionChoice {
   coldCharge: boolean;
   coldLimit: string;
@@ -13,7 +13,10 @@ export interface ProtectionChoice {
   hotLimit: string;
 }
 
-const toCelsius = (text: string, unit: 'C' | 'F') => (unit === 'F' ? fahrenheitToCelsius(Number(text)) : Number(text));
+function toCelsius(text: string, unit: 'C' | 'F', defaultCelsius: number): number {
+  if (text.trim() === '') return defaultCelsius;
+  return unit === 'F' ? fahrenheitToCelsius(Number(text)) : Number(text);
+}
 
 /**
  * The temperature protections a protection check times, on the bench's temperature channel:
@@ -21,7 +24,7 @@ const toCelsius = (text: string, unit: 'C' | 'F') => (unit === 'F' ? fahrenheitT
  */
 export function tempProtectionsFrom(choice: ProtectionChoice, unit: 'C' | 'F', channel: string): TempProtection[] {
   const out: TempProtection[] = [];
-  if (choice.coldCharge) out.push({ kind: 'low-temp-charge', channel, limitCelsius: toCelsius(choice.coldLimit, unit), direction: 'below', current: 'charge' });
-  if (choice.hot) out.push({ kind: 'high-temp', channel, limitCelsius: toCelsius(choice.hotLimit, unit), direction: 'above', current: 'any' });
+  if (choice.coldCharge) out.push({ kind: 'low-temp-charge', channel, limitCelsius: toCelsius(choice.coldLimit, unit, COLD_CHARGE_LIMIT_CELSIUS), direction: 'below', current: 'charge' });
+  if (choice.hot) out.push({ kind: 'high-temp', channel, limitCelsius: toCelsius(choice.hotLimit, unit, HOT_LIMIT_CELSIUS), direction: 'above', current: 'any' });
   return out;
 }

@@ -53,7 +53,7 @@ export function StartRunForm({ benchId, onStarted, packCelsius = null, tempChann
   const unit = settings.temperatureUnit;
   const inLabUnit = (celsius: number) => String(unit === 'F' ? celsiusToFahrenheit(celsius) : celsius);
   const { register, handleSubmit, watch, formState: { errors } } = useForm<Values>({
-    defaultValues: { batteryId: '', name: '', kind: 'capacity-discharge', endVoltsPerCell: '', acceptancePercent: String(settings.acceptancePercent), stopWhen: 'after-recovery', target: '', coldCharge: true, coldLimit: inLabUnit(COLD_CHARGE_LIMIT_CELSIUS), hot: false, hotLimit: inLabUnit(HOT_LIMIT_CELSIUS) },
+    defaultValues: { batteryId: '', name: '', kind: 'capacity-discharge', endVoltsPerCell: '', acceptancePercent: String(settings.acceptancePercent), stopWhen: 'after-recovery', target: '', coldCharge: true, coldLimit: '', hot: false, hotLimit: '' },
   });
   const stopWhen = watch('stopWhen');
   const kind = watch('kind');
@@ -113,14 +113,14 @@ export function StartRunForm({ benchId, onStarted, packCelsius = null, tempChann
             <legend className="px-1 text-sm font-semibold">Temperature protections to time (on the {tempChannel ?? DEFAULT_TEMP_CHANNEL} sensor)</legend>
             <label className="flex min-h-11 items-center gap-3">
               <input type="checkbox" className="h-5 w-5" {...register('coldCharge')} />
-              Cold charge inhibit: charging must stop below
+              Cold-charge inhibit: charging should cut out below the cold limit
             </label>
-            <TextField label={`Cold limit (°${unit})`} inputMode="decimal" error={errors.coldLimit?.message} {...register('coldLimit', { validate: (v) => (v.trim() !== '' && Number.isFinite(Number(v))) || 'A temperature.' })} />
+            <TextField label={`Cold limit (°${unit})`} inputMode="decimal" placeholder={`${inLabUnit(COLD_CHARGE_LIMIT_CELSIUS)} (common practice)`} error={errors.coldLimit?.message} {...register('coldLimit', { validate: (v) => Number.isFinite(Number(v)) || 'A temperature.' })} />
             <label className="flex min-h-11 items-center gap-3">
               <input type="checkbox" className="h-5 w-5" {...register('hot')} />
-              High-temperature cutoff: current must stop above
+              High-temperature cutoff: current should cut out above the hot limit
             </label>
-            <TextField label={`Hot limit (°${unit})`} inputMode="decimal" error={errors.hotLimit?.message} {...register('hotLimit', { validate: (v) => (v.trim() !== '' && Number.isFinite(Number(v))) || 'A temperature.' })} />
+            <TextField label={`Hot limit (°${unit})`} inputMode="decimal" placeholder={`${inLabUnit(HOT_LIMIT_CELSIUS)} (check the datasheet)`} error={errors.hotLimit?.message} {...register('hotLimit', { validate: (v) => Number.isFinite(Number(v)) || 'A temperature.' })} />
           </fieldset>
         )}
         {battery &&
