@@ -21,7 +21,7 @@ describe('loadConfig', () => {
   });
 
   it('names every bad variable at once', () => {
-    const env = { KNEEPOINT_PORT: 'eighty', KNEEPOINT_HOST: '0.0.0.0', KNEEPOINT_DB_PORT: '3306', SESSION_SECRET: 'short', KNEEPOINT_COOKIE_SECURE: 'maybe' };
+    const env = { KNEEPOINT_PORT: 'eighty', KNEEPOINT_HOST: '::', KNEEPOINT_DB_PORT: '3306', SESSION_SECRET: 'short', KNEEPOINT_COOKIE_SECURE: 'maybe' };
     let message = '';
     try {
       loadConfig(env, freshDir());
