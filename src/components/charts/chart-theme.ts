@@ -1,3 +1,7 @@
+import type uPlot from 'uplot';
+import { SIGNAL_COLORS } from '../../lib/palette';
+import { formatElapsedClock, formatTemperature } from '../../lib/units';
+
 /** Chart colours that follow the theme, read from the CSS variables in styles.css. */
 export function chartTheme(): { axis: string; grid: string } {
   const css = getComputedStyle(document.documentElement);
@@ -49,3 +53,39 @@ export function paddedRange(minSpan: number) {
 const RANGE_PAD_FRACTION = 0.05;
 /** Smallest axis spans: 1 V, 2 A, 20 W, 5 °C. */
 export const MIN_SPAN = { V: 1, A: 2, W: 20, C: 5 } as const;
+
+/** The scales every run chart shares: run time on x, then V, A, W and °C, none zoomed into noise. */
+export function signalScales(): uPlot.Scales {
+  return {
+    x: { time: false },
+    V: { range: paddedRange(MIN_SPAN.V) },
+    A: { range: paddedRange(MIN_SPAN.A) },
+    W: { range: paddedRange(MIN_SPAN.W) },
+    C: { range: paddedRange(MIN_SPAN.C) },
+  };
+}
+
+/**
+ * The axes the live and history charts share: run time, volts on the left, amps and the
+ * temperature on the right, each in its signal's colour and unit.
+ */
+export function signalAxes(widthPx: number, temperatureUnit: 'C' | 'F'): uPlot.Axis[] {
+  const { axis, grid } = chartTheme();
+  const axisBase = { stroke: axis, font: AXIS_FONT, grid: { stroke: grid }, ticks: { stroke: grid } };
+  const { sizePx, showTemperature } = yAxisLayout(widthPx);
+  return [
+    { ...axisBase, incrs: RUN_TIME_INCREMENTS_S, space: RUN_TIME_LABEL_SPACE_PX, values: (_u, ticks) => ticks.map((t) => formatElapsedClock(t)) },
+    { ...axisBase, scale: 'V', stroke: SIGNAL_COLORS.volts, values: (_u, ticks) => ticks.map((t) => `${t} V`), size: sizePx },
+    { ...axisBase, scale: 'A', side: 1, grid: { show: false }, stroke: SIGNAL_COLORS.amps, values: (_u, ticks) => ticks.map((t) => `${t} A`), size: sizePx },
+    {
+      ...axisBase,
+      scale: 'C',
+      show: showTemperature,
+      side: 1,
+      grid: { show: false },
+      stroke: SIGNAL_COLORS.temp,
+      values: (_u, ticks) => ticks.map((t) => formatTemperature(t, temperatureUnit, 0)),
+      size: sizePx,
+    },
+  ];
+}

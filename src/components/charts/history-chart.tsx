@@ -6,7 +6,7 @@ import { pickTempChannel } from '../../lib/live-view';
 import { SIGNAL_COLORS } from '../../lib/palette';
 import { formatAmps, formatElapsedClock, formatTemperature, formatVolts } from '../../lib/units';
 import { useTheme } from '../../lib/use-theme';
-import { AXIS_FONT, chartTheme, MIN_SPAN, paddedRange, RUN_TIME_INCREMENTS_S, RUN_TIME_LABEL_SPACE_PX, yAxisLayout } from './chart-theme';
+import { signalAxes, signalScales } from './chart-theme';
 import { useChartWidth } from './use-chart-size';
 import { usePrinting } from './use-printing';
 
@@ -27,19 +27,10 @@ function toData(s: SamplesResponse): uPlot.AlignedData {
 }
 
 function buildOptions(width: number, heightPx: number, temperatureUnit: 'C' | 'F', markers: readonly ChartMarker[], onZoom: (from: number, to: number) => void): uPlot.Options {
-  const { axis, grid } = chartTheme();
-  const axisBase = { stroke: axis, font: AXIS_FONT, grid: { stroke: grid }, ticks: { stroke: grid } };
-  const { sizePx, showTemperature } = yAxisLayout(width);
   return {
     width,
     height: heightPx,
-    scales: {
-      x: { time: false },
-      V: { range: paddedRange(MIN_SPAN.V) },
-      A: { range: paddedRange(MIN_SPAN.A) },
-      W: { range: paddedRange(MIN_SPAN.W) },
-      C: { range: paddedRange(MIN_SPAN.C) },
-    },
+    scales: signalScales(),
     // Dragging selects a window; we fetch that window again at finer resolution.
     cursor: { drag: { x: true, y: false, setScale: false } },
     series: [
@@ -55,21 +46,7 @@ function buildOptions(width: number, heightPx: number, temperatureUnit: 'C' | 'F
       { series: [1, 2], fill: SIGNAL_COLORS.volts + BAND_ALPHA_HEX },
       { series: [3, 4], fill: SIGNAL_COLORS.amps + BAND_ALPHA_HEX },
     ],
-    axes: [
-      { ...axisBase, incrs: RUN_TIME_INCREMENTS_S, space: RUN_TIME_LABEL_SPACE_PX, values: (_u, ticks) => ticks.map((t) => formatElapsedClock(t)) },
-      { ...axisBase, scale: 'V', stroke: SIGNAL_COLORS.volts, values: (_u, ticks) => ticks.map((t) => `${t} V`), size: sizePx },
-      { ...axisBase, scale: 'A', side: 1, grid: { show: false }, stroke: SIGNAL_COLORS.amps, values: (_u, ticks) => ticks.map((t) => `${t} A`), size: sizePx },
-      {
-        ...axisBase,
-        scale: 'C',
-        show: showTemperature,
-        side: 1,
-        grid: { show: false },
-        stroke: SIGNAL_COLORS.temp,
-        values: (_u, ticks) => ticks.map((t) => formatTemperature(t, temperatureUnit, 0)),
-        size: sizePx,
-      },
-    ],
+    axes: signalAxes(width, temperatureUnit),
     hooks: {
       setSelect: [
         (u) => {

@@ -5,26 +5,17 @@ import { SIGNAL_COLORS } from '../../lib/palette';
 import { formatAmps, formatElapsedClock, formatTemperature, formatVolts, formatWatts } from '../../lib/units';
 import type { LiveStore } from '../../lib/live-store';
 import { useTheme } from '../../lib/use-theme';
-import { AXIS_FONT, chartTheme, MIN_SPAN, paddedRange, RUN_TIME_INCREMENTS_S, RUN_TIME_LABEL_SPACE_PX, yAxisLayout } from './chart-theme';
+import { signalAxes, signalScales } from './chart-theme';
 import { useChartWidth } from './use-chart-size';
 
 const LINE_WIDTH_PX = 2;
 
 function buildOptions(width: number, heightPx: number, temperatureUnit: 'C' | 'F'): uPlot.Options {
-  const { axis, grid } = chartTheme();
-  const axisBase = { stroke: axis, font: AXIS_FONT, grid: { stroke: grid }, ticks: { stroke: grid } };
-  const { sizePx, showTemperature } = yAxisLayout(width);
   return {
     width,
     height: heightPx,
     cursor: { drag: { x: false, y: false } },
-    scales: {
-      x: { time: false },
-      V: { range: paddedRange(MIN_SPAN.V) },
-      A: { range: paddedRange(MIN_SPAN.A) },
-      W: { range: paddedRange(MIN_SPAN.W) },
-      C: { range: paddedRange(MIN_SPAN.C) },
-    },
+    scales: signalScales(),
     series: [
       { label: 'Run time', value: (_u, v) => formatElapsedClock(v) },
       { label: 'Volts', scale: 'V', stroke: SIGNAL_COLORS.volts, width: LINE_WIDTH_PX, points: { show: false }, value: (_u, v) => formatVolts(v) },
@@ -32,21 +23,7 @@ function buildOptions(width: number, heightPx: number, temperatureUnit: 'C' | 'F
       { label: 'Watts', scale: 'W', stroke: SIGNAL_COLORS.watts, width: 1, points: { show: false }, value: (_u, v) => formatWatts(v) },
       { label: 'Temperature', scale: 'C', stroke: SIGNAL_COLORS.temp, width: 1, dash: [6, 4], points: { show: false }, value: (_u, v) => formatTemperature(v, temperatureUnit) },
     ],
-    axes: [
-      { ...axisBase, incrs: RUN_TIME_INCREMENTS_S, space: RUN_TIME_LABEL_SPACE_PX, values: (_u, ticks) => ticks.map((t) => formatElapsedClock(t)) },
-      { ...axisBase, scale: 'V', stroke: SIGNAL_COLORS.volts, values: (_u, ticks) => ticks.map((t) => `${t} V`), size: sizePx },
-      { ...axisBase, scale: 'A', side: 1, grid: { show: false }, stroke: SIGNAL_COLORS.amps, values: (_u, ticks) => ticks.map((t) => `${t} A`), size: sizePx },
-      {
-        ...axisBase,
-        scale: 'C',
-        show: showTemperature,
-        side: 1,
-        grid: { show: false },
-        stroke: SIGNAL_COLORS.temp,
-        values: (_u, ticks) => ticks.map((t) => formatTemperature(t, temperatureUnit, 0)),
-        size: sizePx,
-      },
-    ],
+    axes: signalAxes(width, temperatureUnit),
   };
 }
 
