@@ -71,7 +71,7 @@ export default defineConfig({
           name: 'e2e',
           environment: 'node',
           include: ['tests/e2e/**/*.test.ts'],
-          globalSetup: ['tests/setup/mariadb-global.ts'],
+          globalSetup: ['tests/setup/mariadb-global.ts', 'tests/setup/e2e-client.ts'],
           fileParallelism: false,
           testTimeout: 90_000,
           hookTimeout: 180_000,

@@ -1,35 +1,27 @@
-import { mkdirSync } from 'node:fs';
-import { resolve } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Run } from '../../shared/schemas/run.js';
-import { ATTACHMENTS } from '../../server/server.js';
 import { DEMO_ACCOUNTS } from '../../server/db/seed-demo.js';
-import { createTestContext, type TestContext } from '../integration/helpers/index.js';
-import { launchBrowser, type TestBrowser } from './helpers/browser.js';
-import { buildClient } from './helpers/build-client.js';
+import type { TestContext } from '../integration/helpers/index.js';
+import type { TestBrowser } from './helpers/browser.js';
+import { SCREENSHOT_DIR, startE2eApp, type E2eApp } from './helpers/e2e-app.js';
 import { signInThroughForm } from './helpers/sign-in.js';
 import { demoDischarge, simulateLive } from './helpers/simulated-live.js';
 
-const SCREENSHOT_DIR = resolve('.data/screenshots');
 const RUN_ID = 101;
 const RUN_SECONDS = 7200;
 const technician = DEMO_ACCOUNTS.find((a) => a.role === 'technician')!;
 
 let t: TestContext;
 let browser: TestBrowser;
-let client: { dir: string; remove(): void };
+let app: E2eApp;
 
 beforeAll(async () => {
-  client = await buildClient();
-  t = await createTestContext({ demo: true, users: false, attachments: ATTACHMENTS, config: { clientDir: client.dir } });
-  browser = await launchBrowser();
-  mkdirSync(SCREENSHOT_DIR, { recursive: true });
+  app = await startE2eApp();
+  ({ t, browser } = app);
 });
 
 afterAll(async () => {
-  await browser?.close();
-  await t?.close();
-  client?.remove();
+  await app?.close();
 });
 
 function demoRun(benchId: number): Run {

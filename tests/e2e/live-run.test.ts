@@ -1,14 +1,10 @@
-import { mkdirSync } from 'node:fs';
-import { resolve } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { ATTACHMENTS } from '../../server/server.js';
 import { DEMO_ACCOUNTS } from '../../server/db/seed-demo.js';
-import { createTestContext, type TestContext } from '../integration/helpers/index.js';
-import { launchBrowser, type TestBrowser } from './helpers/browser.js';
-import { buildClient } from './helpers/build-client.js';
+import type { TestContext } from '../integration/helpers/index.js';
+import type { TestBrowser } from './helpers/browser.js';
+import { SCREENSHOT_DIR, startE2eApp, type E2eApp } from './helpers/e2e-app.js';
 import { signInThroughForm } from './helpers/sign-in.js';
 
-const SCREENSHOT_DIR = resolve('.data/screenshots');
 /** The demo scenario's two-hour discharge plays in about 25 s at this speed. */
 const SIMULATOR_SPEED = 300;
 const CUTOFF_WAIT_MS = 75_000;
@@ -19,19 +15,15 @@ const account = (role: string) => DEMO_ACCOUNTS.find((a) => a.role === role)!;
 
 let t: TestContext;
 let browser: TestBrowser;
-let client: { dir: string; remove(): void };
+let app: E2eApp;
 
 beforeAll(async () => {
-  client = await buildClient();
-  t = await createTestContext({ demo: true, users: false, attachments: ATTACHMENTS, config: { clientDir: client.dir } });
-  browser = await launchBrowser();
-  mkdirSync(SCREENSHOT_DIR, { recursive: true });
+  app = await startE2eApp();
+  ({ t, browser } = app);
 });
 
 afterAll(async () => {
-  await browser?.close();
-  await t?.close();
-  client?.remove();
+  await app?.close();
 });
 
 describe('a run from start to cutoff, through the real server, simulator and /ws', () => {

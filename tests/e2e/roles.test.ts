@@ -1,33 +1,25 @@
-import { mkdirSync } from 'node:fs';
-import { resolve } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { ATTACHMENTS } from '../../server/server.js';
 import { DEMO_ACCOUNTS } from '../../server/db/seed-demo.js';
-import { createTestContext, type TestContext } from '../integration/helpers/index.js';
-import { launchBrowser, type TestBrowser } from './helpers/browser.js';
-import { buildClient } from './helpers/build-client.js';
+import type { TestContext } from '../integration/helpers/index.js';
+import type { TestBrowser } from './helpers/browser.js';
+import { SCREENSHOT_DIR, startE2eApp, type E2eApp } from './helpers/e2e-app.js';
 import { signInThroughForm } from './helpers/sign-in.js';
 
-const SCREENSHOT_DIR = resolve('.data/screenshots');
 const account = (role: string) => DEMO_ACCOUNTS.find((a) => a.role === role)!;
 
 let t: TestContext;
 let browser: TestBrowser;
-let client: { dir: string; remove(): void };
+let app: E2eApp;
 let demoPassword: string;
 
 beforeAll(async () => {
-  client = await buildClient();
-  t = await createTestContext({ demo: true, users: false, attachments: ATTACHMENTS, config: { clientDir: client.dir } });
+  app = await startE2eApp();
+  ({ t, browser } = app);
   demoPassword = t.ctx.config.demoPassword;
-  browser = await launchBrowser();
-  mkdirSync(SCREENSHOT_DIR, { recursive: true });
 });
 
 afterAll(async () => {
-  await browser?.close();
-  await t?.close();
-  client?.remove();
+  await app?.close();
 });
 
 async function navFor(role: string) {
