@@ -108,12 +108,7 @@ export function reduceSamples(parts: readonly Columns[], from: number, to: numbe
   }
 
   const buckets = maxPoints;
-  const bucketSeconds = (to - from) / buckets;
-  const t = Array.from({ length: buckets }, (_, b) => from + b * bucketSeconds);
-  const volts = emptyAcc(buckets);
-  const amps = emptyAcc(buckets);
-  const watts = emptyAcc(buckets);
-  const temps: Record<string, Acc> = {};
+  const { bucketSeconds, t, volts, amps, watts, temps } = emptyBuckets(from, to, buckets);
   for (const name of tempNames) temps[name.slice(TEMP_PREFIX.length)] = emptyAcc(buckets);
   for (const { p, start, end } of ranges) {
     const e = p.elapsed!;
@@ -134,6 +129,19 @@ export function reduceSamples(parts: readonly Columns[], from: number, to: numbe
   return { reduced: true, bucketSeconds, readingsInWindow: inWindow, t, volts: toMinMax(volts), amps: toMinMax(amps), watts: toMinMax(watts), temps: accRecord(temps) };
 }
 
+/** Empty min/max buckets of equal width over [from, to], with each bucket's start time. */
+function emptyBuckets(from: number, to: number, buckets: number) {
+  const bucketSeconds = (to - from) / buckets;
+  return {
+    bucketSeconds,
+    t: Array.from({ length: buckets }, (_, b) => from + b * bucketSeconds),
+    volts: emptyAcc(buckets),
+    amps: emptyAcc(buckets),
+    watts: emptyAcc(buckets),
+    temps: {} as Record<string, Acc>,
+  };
+}
+
 /**
  * The same min/max buckets built from pre-computed groups (chunk-stats.ts) instead of
  * every reading, for windows holding far more readings than buckets. A group that
@@ -141,12 +149,7 @@ export function reduceSamples(parts: readonly Columns[], from: number, to: numbe
  * bucket it lands in is off by at most one group's duration.
  */
 export function reduceStats(parts: readonly Columns[], from: number, to: number, buckets: number): ReducedSamples {
-  const bucketSeconds = (to - from) / buckets;
-  const t = Array.from({ length: buckets }, (_, b) => from + b * bucketSeconds);
-  const volts = emptyAcc(buckets);
-  const amps = emptyAcc(buckets);
-  const watts = emptyAcc(buckets);
-  const temps: Record<string, Acc> = {};
+  const { bucketSeconds, t, volts, amps, watts, temps } = emptyBuckets(from, to, buckets);
   let inWindow = 0;
   const bucketOf = (x: number) => Math.max(0, Math.min(buckets - 1, Math.floor((x - from) / bucketSeconds)));
   for (const p of parts) {
