@@ -68,6 +68,7 @@ export class RunSession {
   private pending: Reading[] = [];
   private pendingEvents: SequencedEvent[] = [];
   private stateDirty = false;
+  private lastGoodSummary: RunSummary | null = null;
   private snap: SessionFields;
   /** Every event of the run so far (for the summary). */
   readonly events: RunEvent[];
@@ -173,15 +174,24 @@ export class RunSession {
     this.setState(state);
   }
 
-  /** The run's figures now (final once the run has ended). */
-  summary(): RunSummary {
-    return summarizeRun({
-      snapshot: this.pipeline.snapshot(),
-      events: this.events,
-      acceptancePercent: this.run.acceptancePercent,
-      price: this.battery?.price ?? null,
-      massKg: this.battery?.massKg ?? null,
-    });
+  /**
+   * The run's figures now (final once the run has ended). Never throws: should the figures
+   * ever fail their schema, the last good ones stand (null before any), so one bad reading
+   * can neither hide the run from every list nor keep it from being stopped.
+   */
+  summary(): RunSummary | null {
+    try {
+      this.lastGoodSummary = summarizeRun({
+        snapshot: this.pipeline.snapshot(),
+        events: this.events,
+        acceptancePercent: this.run.acceptancePercent,
+        price: this.battery?.price ?? null,
+        massKg: this.battery?.massKg ?? null,
+      });
+    } catch {
+      // Kept as it was: the readings are archived, so the figures can be recomputed from them.
+    }
+    return this.lastGoodSummary;
   }
 
   /** True when there is anything to archive. */
