@@ -60,3 +60,35 @@ describe('RunSession', () => {
     expect(s.hasPending()).toBe(false);
   });
 });
+
+describe('RunSession across restarts', () => {
+  const frameAt = (i: number) => ({ t: i, volts: 13.2 - i * 0.002, amps: 5 + (i % 7) * 0.1, clock: 'device' as const });
+  /** Resumes the way RunRecorder.resume does: the snapshot stored with the last batch, through JSON. */
+  const restart = (s: RunSession): RunSession => {
+    const stored = s.takeBatch().patch.pipelineState!;
+    const run = { ...s.run };
+    return new RunSession(run, null, measureConfigFor(run, null), JSON.parse(stored), [...s.events]);
+  };
+
+  it.each([1, 2, 3, 7])('ends with the same totals and events after %i restarts as a run never restarted', (restarts) => {
+    const frames = 700;
+    const straight = session();
+    for (let i = 0; i < frames; i++) straight.push(frameAt(i));
+    let resumed = session();
+    const every = Math.floor(frames / (restarts + 1));
+    let lastDischargeWh = 0;
+    for (let i = 0; i < frames; i++) {
+      if (i > 0 && i % every === 0 && i / every <= restarts) resumed = restart(resumed);
+      resumed.push(frameAt(i));
+      // Totals never go back over the run.
+      const wh = resumed.pipeline.totals().dischargeWh;
+      expect(wh).toBeGreaterThanOrEqual(lastDischargeWh);
+      lastDischargeWh = wh;
+    }
+    expect(resumed.pipeline.totals()).toEqual(straight.pipeline.totals());
+    expect(resumed.readingsCount).toBe(frames);
+    expect(resumed.events.filter((e) => e.type === 'gap')).toEqual([]);
+    expect(resumed.events).toEqual(straight.events);
+    expect(resumed.summary()).toEqual(straight.summary());
+  });
+});

@@ -29,6 +29,22 @@ export interface RunSessionSnapshot {
   clock?: ClockGuardState;
 }
 
+type SessionFields = Omit<RunSessionSnapshot, 'pipeline' | 'version'>;
+
+const FRESH_FIELDS: Omit<SessionFields, 'state'> = {
+  nextSeq: 0, nextEventSeq: 0, recoveredAt: null, cutoffAt: null, cutoffCause: null, lastElapsed: null, tempAlarmRaised: false,
+};
+
+/**
+ * The session's own fields of a stored snapshot, named one by one: the stored `pipeline`
+ * must not ride along, or every later snapshot would carry the state of the first resume
+ * over the live pipeline's (totals going back after a second restart).
+ */
+function sessionFields(previous: RunSessionSnapshot): SessionFields {
+  const { nextSeq, nextEventSeq, state, recoveredAt, cutoffAt, cutoffCause, lastElapsed, tempAlarmRaised, clock } = previous;
+  return { nextSeq, nextEventSeq, state, recoveredAt, cutoffAt, cutoffCause, lastElapsed, tempAlarmRaised, clock: clock ?? emptyClockState() };
+}
+
 /** One event with its per-run sequence number (its idempotency key in the archive). */
 export interface SequencedEvent {
   eventSeq: number;
@@ -52,7 +68,8 @@ export class RunSession {
   private pending: Reading[] = [];
   private pendingEvents: SequencedEvent[] = [];
   private stateDirty = false;
-  private snap: Omit<RunSessionSnapshot, 'pipeline' | 'version'>;
+  private lastGoodSummary: RunSummary | null = null;
+  private snap: SessionFields;
   /** Every event of the run so far (for the summary). */
   readonly events: RunEvent[];
   /** Keeps a glitched or restarted meter clock from stopping the run (see SourceClockGuard). */
@@ -67,10 +84,7 @@ export class RunSession {
   ) {
     this.pipeline = createRunPipeline(config, previous?.pipeline);
     this.events = [...pastEvents];
-    this.snap = previous
-      ? { ...previous }
-      : { nextSeq: 0, nextEventSeq: 0, state: run.state, recoveredAt: null, cutoffAt: null, cutoffCause: null, lastElapsed: null, tempAlarmRaised: false };
-    this.snap.clock ??= emptyClockState();
+    this.snap = previous ? sessionFields(previous) : { ...FRESH_FIELDS, state: run.state, clock: emptyClockState() };
     this.clock = new SourceClockGuard(this.pipeline.config.maxGapSeconds, this.snap.clock);
   }
 
@@ -160,15 +174,24 @@ export class RunSession {
     this.setState(state);
   }
 
-  /** The run's figures now (final once the run has ended). */
-  summary(): RunSummary {
-    return summarizeRun({
-      snapshot: this.pipeline.snapshot(),
-      events: this.events,
-      acceptancePercent: this.run.acceptancePercent,
-      price: this.battery?.price ?? null,
-      massKg: this.battery?.massKg ?? null,
-    });
+  /**
+   * The run's figures now (final once the run has ended). Never throws: should the figures
+   * ever fail their schema, the last good ones stand (null before any), so one bad reading
+   * can neither hide the run from every list nor keep it from being stopped.
+   */
+  summary(): RunSummary | null {
+    try {
+      this.lastGoodSummary = summarizeRun({
+        snapshot: this.pipeline.snapshot(),
+        events: this.events,
+        acceptancePercent: this.run.acceptancePercent,
+        price: this.battery?.price ?? null,
+        massKg: this.battery?.massKg ?? null,
+      });
+    } catch {
+      // Kept as it was: the readings are archived, so the figures can be recomputed from them.
+    }
+    return this.lastGoodSummary;
   }
 
   /** True when there is anything to archive. */
@@ -203,7 +226,7 @@ export class RunSession {
 
   /** The resumable state (JSON-safe). */
   snapshot(): RunSessionSnapshot {
-    return { version: 1, pipeline: this.pipeline.snapshot(), ...this.snap };
+    return { ...this.snap, clock: { ...this.clock.state }, version: 1, pipeline: this.pipeline.snapshot() };
   }
 
   private setState(state: RunState): void {

@@ -2,7 +2,7 @@ import { QueryTypes, type Sequelize } from 'sequelize';
 import { z } from 'zod';
 import type { ListRunsQuery, StoredRunEvent } from '../../shared/schemas/api-runs.js';
 import { RunEventSchema, type RunEvent } from '../../shared/schemas/run-event.js';
-import { RunSummarySchema } from '../../shared/schemas/run-summary.js';
+import { RunSummarySchema, type RunSummary } from '../../shared/schemas/run-summary.js';
 import { TempProtectionSchema } from '../../shared/schemas/measure-config.js';
 import { EndVoltsSchema, RunAlarmsSchema, RunKindSchema, StopWhenSchema, LIVE_RUN_STATES, type Run, type RunState } from '../../shared/schemas/run.js';
 import { utcDateTime } from '../db/utc-datetime.js';
@@ -43,6 +43,20 @@ interface RunRow {
 
 const iso = (d: Date | string | null): string | null => (d === null ? null : new Date(d).toISOString());
 
+/**
+ * A stored summary, or null when it is missing or unreadable: one bad row (say figures
+ * written before non-finite values were kept out) must not make every run list fail.
+ */
+function storedSummary(text: string | null): RunSummary | null {
+  if (!text) return null;
+  try {
+    const parsed = RunSummarySchema.safeParse(JSON.parse(text));
+    return parsed.success ? parsed.data : null;
+  } catch {
+    return null;
+  }
+}
+
 /** Turns a database row into the API's Run. */
 export function rowToRun(row: RunRow): Run {
   const config = RunConfigSchema.parse(JSON.parse(row.config));
@@ -56,7 +70,7 @@ export function rowToRun(row: RunRow): Run {
     ...config,
     state: row.state,
     readingsCount: Number(row.readingsCount),
-    summary: row.summary ? RunSummarySchema.parse(JSON.parse(row.summary)) : null,
+    summary: storedSummary(row.summary),
     startedAt: iso(row.startedAt),
     endedAt: iso(row.endedAt),
     createdBy: row.createdById,

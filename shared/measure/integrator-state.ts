@@ -24,6 +24,8 @@ export const IntegratorStateSchema = z.object({
   rejectedNonFinite: Count,
   rejectedBackwards: Count,
   rejectedDuplicate: Count,
+  /** Frames beyond the core's numeric range (absent in states from before it was counted). */
+  rejectedOutOfRange: Count.default(0),
   gaps: Count,
   gapSeconds: SumSchema,
 });
@@ -46,6 +48,7 @@ export function createIntegratorState(seed?: Partial<RunTotals>): IntegratorStat
     rejectedNonFinite: 0,
     rejectedBackwards: 0,
     rejectedDuplicate: 0,
+    rejectedOutOfRange: 0,
     gaps: 0,
     gapSeconds: createSum(),
   };
@@ -62,9 +65,10 @@ export function integratorTotals(s: IntegratorState): RunTotals {
 }
 
 /** Frames refused so far, by reason, and in all. */
-export function rejectedCounts(s: IntegratorState): { nonFinite: number; backwards: number; duplicate: number; total: number } {
-  const total = s.rejectedNonFinite + s.rejectedBackwards + s.rejectedDuplicate;
-  return { nonFinite: s.rejectedNonFinite, backwards: s.rejectedBackwards, duplicate: s.rejectedDuplicate, total };
+export function rejectedCounts(s: IntegratorState): { nonFinite: number; backwards: number; duplicate: number; outOfRange: number; total: number } {
+  const outOfRange = s.rejectedOutOfRange ?? 0;
+  const total = s.rejectedNonFinite + s.rejectedBackwards + s.rejectedDuplicate + outOfRange;
+  return { nonFinite: s.rejectedNonFinite, backwards: s.rejectedBackwards, duplicate: s.rejectedDuplicate, outOfRange, total };
 }
 
 /** A deep copy of a state (snapshots must not alias the live one). */

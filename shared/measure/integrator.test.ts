@@ -74,8 +74,9 @@ describe('integrator: bad input is counted and refused', () => {
     expect(integrateStep(s, 2, 12, Number.POSITIVE_INFINITY)).toBe('non-finite');
     expect(integrateStep(s, 0.5, 12, 1)).toBe('backwards');
     expect(integrateStep(s, 1, 12, 1)).toBe('duplicate');
+    expect(integrateStep(s, 2, 1e200, 1e200)).toBe('out-of-range');
     expect(integratorTotals(s)).toEqual(before);
-    expect(rejectedCounts(s)).toEqual({ nonFinite: 2, backwards: 1, duplicate: 1, total: 4 });
+    expect(rejectedCounts(s)).toEqual({ nonFinite: 2, backwards: 1, duplicate: 1, outOfRange: 1, total: 5 });
     expect(integrateStep(s, 2, 12, 1)).toBe('integrated');
     expect(integratorTotals(s).dischargeAh).toBeCloseTo(2 / HOUR_S, 15);
   });

@@ -8,7 +8,21 @@ import {
 export { createIntegratorState, integratorTotals, IntegratorStateSchema, rejectedCounts, type IntegratorState } from './integrator-state.js';
 
 /** What happened to one frame: integrated, first of the run, after a gap, or refused. */
-export type StepOutcome = 'integrated' | 'first' | 'gap' | 'non-finite' | 'backwards' | 'duplicate';
+export type StepOutcome = 'integrated' | 'first' | 'gap' | 'non-finite' | 'out-of-range' | 'backwards' | 'duplicate';
+
+/**
+ * Largest |volts| or |amps| the core takes. Far beyond any bench (the ingest area's
+ * per-bench limits are much tighter), and small enough that no product, sum or mean the
+ * core forms can overflow to Infinity: 1e9 V × 1e9 A × 2e15 s per panel is about 2e33 J.
+ */
+export const CORE_MAX_ABS_VALUE = 1e9;
+/** Largest |t| in seconds the core takes, so the difference of any two times stays finite. */
+export const CORE_MAX_ABS_T_SECONDS = 1e15;
+
+/** True when a finite frame lies inside the core's numeric range. */
+export function withinCoreRange(t: number, volts: number, amps: number): boolean {
+  return Math.abs(t) <= CORE_MAX_ABS_T_SECONDS && Math.abs(volts) <= CORE_MAX_ABS_VALUE && Math.abs(amps) <= CORE_MAX_ABS_VALUE;
+}
 
 /** Default gap limit: a meter silent for longer than this is a gap, not a straight line. */
 export const DEFAULT_MAX_GAP_SECONDS = 30;
@@ -19,14 +33,18 @@ const panel: [number, number] = [0, 0];
 /**
  * Adds one reading to the state by the trapezoidal rule (constant work).
  * Positive amps add to discharge totals, negative to charge; a panel that changes sign is
- * cut at its zero crossing. Non-finite values, a t that goes backwards or repeats, are
- * counted and refused without touching the totals; a step longer than maxGapSeconds is
+ * cut at its zero crossing. Non-finite values, values beyond the core's range, a t that
+ * goes backwards or repeats, are counted and refused without touching the totals; a step longer than maxGapSeconds is
  * counted as a gap and restarts integration from this reading.
  */
 export function integrateStep(s: IntegratorState, t: number, volts: number, amps: number, maxGapSeconds = DEFAULT_MAX_GAP_SECONDS): StepOutcome {
   if (!Number.isFinite(t) || !Number.isFinite(volts) || !Number.isFinite(amps)) {
     s.rejectedNonFinite++;
     return 'non-finite';
+  }
+  if (!withinCoreRange(t, volts, amps)) {
+    s.rejectedOutOfRange = (s.rejectedOutOfRange ?? 0) + 1;
+    return 'out-of-range';
   }
   const lastT = s.lastT;
   let outcome: StepOutcome = 'integrated';

@@ -57,7 +57,7 @@ const NO_EVENTS: readonly RunEvent[] = Object.freeze([]);
  * the simulator alike: `createRunPipeline(config)` returns an object whose `push(frame)`
  * integrates the frame (trapezoid, compensated sums, Wh/Ah out and in kept apart), runs
  * the event detector over the resulting Reading and returns `{ reading, events, outcome }`.
- * - A refused frame (non-finite value, t backwards or repeated) gives `reading: null` and
+ * - A refused frame (non-finite value, beyond the core's range, t backwards or repeated) gives `reading: null` and
  *   changes nothing; `outcome` says why. Frames should already have passed FrameSchema.
  * - A step in t longer than `maxGapSeconds` is not integrated; a `gap` event is returned.
  * - Event `t` and `reading.elapsedSeconds` are seconds since the run's origin
@@ -90,7 +90,7 @@ export function createRunPipeline(config: MeasureConfigInput, snapshot?: unknown
   function push(frame: Frame): PushResult {
     const prevT = integ.lastT;
     const outcome = integrateStep(integ, frame.t, frame.volts, frame.amps, cfg.maxGapSeconds);
-    if (outcome === 'non-finite' || outcome === 'backwards' || outcome === 'duplicate') return { reading: null, events: NO_EVENTS, outcome };
+    if (outcome === 'non-finite' || outcome === 'out-of-range' || outcome === 'backwards' || outcome === 'duplicate') return { reading: null, events: NO_EVENTS, outcome };
     if (originT === null) originT = frame.t;
     const elapsedSeconds = frame.t - originT;
     const reading: Reading = {

@@ -9,6 +9,14 @@ import { nominalVolts } from './nominal.js';
 import { internalResistanceFromSteps, type VoltAmpSample } from './internal-resistance.js';
 import { correctedAhAt25C } from './lead-acid-correction.js';
 
+/**
+ * A derived figure (a ratio of a run's totals to a rating, a price or a mass) that cannot
+ * be represented, such as a price over a vanishing energy, is not known: null, never Infinity.
+ */
+function known(x: number | null): number | null {
+  return x !== null && Number.isFinite(x) ? x : null;
+}
+
 /** What summarizeRun needs beyond the pipeline's own state. */
 export interface SummarizeRunInput {
   /** pipeline.snapshot() at the end of the run. */
@@ -40,13 +48,14 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
   const recovery = events.find((e): e is RecoveryEvent => e.type === 'recovery') ?? null;
   const deliveredAh = cutoff?.dischargeAh ?? totals.dischargeAh;
   const deliveredWh = cutoff?.dischargeWh ?? totals.dischargeWh;
-  const { meanVolts, meanAmps, meanWatts } = meansUnderLoad(snapshot.stats);
-  const percentRatedAh = percentOfRated(deliveredAh, cfg.ratedAh);
-  const percentRatedWh = percentOfRated(deliveredWh, cfg.ratedWh);
+  const means = meansUnderLoad(snapshot.stats);
+  const [meanVolts, meanAmps, meanWatts] = [known(means.meanVolts), known(means.meanAmps), known(means.meanWatts)];
+  const percentRatedAh = known(percentOfRated(deliveredAh, cfg.ratedAh));
+  const percentRatedWh = known(percentOfRated(deliveredWh, cfg.ratedWh));
   const basis = input.verdictBasis ?? 'ah';
   const percents = basis === 'both' ? [percentRatedAh, percentRatedWh] : basis === 'wh' ? [percentRatedWh] : [percentRatedAh ?? percentRatedWh];
   const acceptancePercent = input.acceptancePercent ?? DEFAULT_ACCEPTANCE_PERCENT;
-  const ir = input.readings ? internalResistanceFromSteps(input.readings).medianOhms : null;
+  const ir = known(input.readings ? internalResistanceFromSteps(input.readings).medianOhms : null);
   const leadTemp = input.leadAcidTempCelsius ?? null;
   return RunSummarySchema.parse({
     ...totals,
@@ -64,7 +73,7 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
     maxTempCelsius: snapshot.stats.maxTempCelsius,
     chemistry: cfg.chemistry ?? null,
     cellsInSeries: cfg.cellsInSeries ?? null,
-    nominalVolts: nominalVolts(cfg.chemistry, cfg.cellsInSeries),
+    nominalVolts: known(nominalVolts(cfg.chemistry, cfg.cellsInSeries)),
     ratedAh: cfg.ratedAh ?? null,
     ratedWh: cfg.ratedWh ?? null,
     percentRatedAh,
@@ -74,11 +83,11 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
     cutoffCause: cutoff?.cause ?? null,
     cutoffVolts: cutoff?.volts ?? null,
     recoverySeconds: recovery?.recoverySeconds ?? null,
-    cRate: cRate(meanAmps, cfg.ratedAh),
-    costPerKWh: costPerKWh(input.price, deliveredWh),
-    whPerKg: whPerKg(deliveredWh, input.massKg),
-    roundTripEfficiency: roundTripEfficiency(totals.dischargeWh, totals.chargeWh),
+    cRate: known(cRate(meanAmps, cfg.ratedAh)),
+    costPerKWh: known(costPerKWh(input.price, deliveredWh)),
+    whPerKg: known(whPerKg(deliveredWh, input.massKg)),
+    roundTripEfficiency: known(roundTripEfficiency(totals.dischargeWh, totals.chargeWh)),
     internalResistanceOhms: ir,
-    correctedAh25C: cfg.chemistry === 'lead-acid' && leadTemp !== null ? correctedAhAt25C(deliveredAh, leadTemp) : null,
+    correctedAh25C: known(cfg.chemistry === 'lead-acid' && leadTemp !== null ? correctedAhAt25C(deliveredAh, leadTemp) : null),
   });
 }

@@ -17,6 +17,28 @@ export const MAX_POLL_MS = 60_000;
 /** Default no-data watchdog: a source is "stale" after this long without a valid frame. */
 export const DEFAULT_STALE_AFTER_S = 10;
 
+/**
+ * Physical bounds of a bench's meter values: a frame outside them is no measurement (a
+ * garbled line, a wrong unit, a meter fault) and is counted as a bad frame with its reason
+ * instead of reaching a run. Defaults are well beyond any battery bench (a 1,500 V DC
+ * string, a 5 kA starter test) yet far inside what would break a figure.
+ */
+export const DEFAULT_MAX_ABS_VOLTS = 2000;
+export const DEFAULT_MAX_ABS_AMPS = 5000;
+export const DEFAULT_MIN_TEMP_CELSIUS = -100;
+export const DEFAULT_MAX_TEMP_CELSIUS = 300;
+/** The widest bounds a bench may set (the measurement core refuses beyond 1e9 on its own). */
+const LIMIT_CEILING = 1e6;
+
+export const FrameLimitsSchema = z
+  .object({
+    maxAbsVolts: z.number().finite().positive().max(LIMIT_CEILING).default(DEFAULT_MAX_ABS_VOLTS),
+    maxAbsAmps: z.number().finite().positive().max(LIMIT_CEILING).default(DEFAULT_MAX_ABS_AMPS),
+    minTempCelsius: z.number().finite().min(-LIMIT_CEILING).default(DEFAULT_MIN_TEMP_CELSIUS),
+    maxTempCelsius: z.number().finite().max(LIMIT_CEILING).default(DEFAULT_MAX_TEMP_CELSIUS),
+  })
+  .refine((l) => l.minTempCelsius < l.maxTempCelsius, { message: 'minTempCelsius must be below maxTempCelsius', path: ['minTempCelsius'] });
+
 export const CurrentSignSchema = z.enum(['discharge-positive', 'discharge-negative']);
 export const TimeUnitSchema = z.enum(['s', 'ms', 'iso']);
 export const VoltsUnitSchema = z.enum(['V', 'mV']);
@@ -140,6 +162,7 @@ export const SerialSourceConfigSchema = z.object({
   stopBits: z.union([z.literal(1), z.literal(2)]).default(1),
   staleAfterS: z.number().min(1).max(3600).default(DEFAULT_STALE_AFTER_S),
   format: SerialFormatSchema,
+  limits: FrameLimitsSchema.prefault({}),
 });
 
 /** A simulator scenario run in-process (or through a pty with `format`) at `speed`× real time. */
@@ -151,6 +174,7 @@ export const SimulatorSourceConfigSchema = z.object({
   /** Absent: frames handed over in-process. Present: bytes through a pseudo-terminal in that format. */
   format: z.enum(['csv', 'jsonl', 'scpi', 'modbus']).optional(),
   staleAfterS: z.number().min(1).max(3600).default(DEFAULT_STALE_AFTER_S),
+  limits: FrameLimitsSchema.prefault({}),
 });
 
 export const NoSourceConfigSchema = z.object({ kind: z.literal('none') });
@@ -221,6 +245,7 @@ export const SerialPortListResponseSchema = z.object({
   message: z.string().optional(),
 });
 
+export type FrameLimits = z.infer<typeof FrameLimitsSchema>;
 export type CurrentSign = z.infer<typeof CurrentSignSchema>;
 export type CsvFormat = z.infer<typeof CsvFormatSchema>;
 export type JsonlFormat = z.infer<typeof JsonlFormatSchema>;

@@ -71,7 +71,7 @@ export class SimulatorPtySource implements Source {
       this.meter = meter;
       const format = serialFormatForSimulator(this.config.format, scenario, this.config.speed);
       const serial = new SerialSource(
-        { kind: 'serial', path: linkPath, baudRate: 115200, dataBits: 8, parity: 'none', stopBits: 1, staleAfterS: this.config.staleAfterS, format },
+        { kind: 'serial', path: linkPath, baudRate: 115200, dataBits: 8, parity: 'none', stopBits: 1, staleAfterS: this.config.staleAfterS, format, limits: this.config.limits },
         this.sink,
         this.deps,
       );

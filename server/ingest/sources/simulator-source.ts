@@ -1,6 +1,8 @@
 import type { BenchStatus, SimulatorSourceConfig } from '../../../shared/schemas/bench.js';
+import type { Frame } from '../../../shared/schemas/frame.js';
 import { createSimulation, loadScenario, type SimSample, type Simulation } from '../../../simulator/index.js';
 import { systemClock, type Clock } from '../clock.js';
+import { frameOutOfBounds } from '../frame-limits.js';
 import { StatusTracker } from '../status-tracker.js';
 import { safeDeliver, type Source, type SourceSink } from './source.js';
 
@@ -68,7 +70,10 @@ export class SimulatorSource implements Source {
       this.tracker.rejected(`frame ${sample.seq} corrupted on the (simulated) wire`);
       return;
     }
+    const frame: Frame = { ...sample.frame, clock: 'device' };
+    const outside = frameOutOfBounds(frame, this.config.limits);
+    if (outside) return this.tracker.rejected(outside);
     this.tracker.frameOk();
-    safeDeliver(this.sink.frame, { ...sample.frame, clock: 'device' });
+    safeDeliver(this.sink.frame, frame);
   }
 }

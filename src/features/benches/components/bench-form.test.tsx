@@ -45,8 +45,34 @@ describe('bench form (admin)', () => {
       name: 'Bench C',
       notes: '',
       enabled: true,
-      source: { kind: 'simulator', scenario: 'lfp-12v-weak-cell', speed: 10, seed: 1, staleAfterS: 10 },
+      source: {
+        kind: 'simulator', scenario: 'lfp-12v-weak-cell', speed: 10, seed: 1, staleAfterS: 10,
+        limits: { maxAbsVolts: 2000, maxAbsAmps: 5000, minTempCelsius: -100, maxTempCelsius: 300 },
+      },
     });
+  });
+
+  it('sends the bench\'s own physical bounds, and refuses a temperature range upside down', async () => {
+    const { calls } = stubApi(demoUser('admin'), (url, init) =>
+      url === '/api/benches' && init?.method === 'POST' ? { status: 201, body: { bench: savedBench } } : undefined,
+    );
+    const { router } = renderAt('/benches/new');
+    await userEvent.type(await screen.findByLabelText('Name'), 'Bench D: 12 V packs');
+    const volts = screen.getByLabelText('Largest |voltage| (V)');
+    await userEvent.clear(volts);
+    await userEvent.type(volts, '60');
+    const hot = screen.getByLabelText('Highest temperature (°C)');
+    await userEvent.clear(hot);
+    await userEvent.type(hot, '-150');
+    await userEvent.click(screen.getByRole('button', { name: 'Add bench' }));
+    expect((await screen.findByRole('alert')).textContent).toMatch(/minTempCelsius must be below maxTempCelsius/);
+    expect(calls.some((c) => c.url === '/api/benches' && c.init?.method === 'POST')).toBe(false);
+    await userEvent.clear(hot);
+    await userEvent.type(hot, '90');
+    await userEvent.click(screen.getByRole('button', { name: 'Add bench' }));
+    await waitFor(() => expect(router.state.location.pathname).toBe('/benches/5'));
+    const post = calls.find((c) => c.url === '/api/benches' && c.init?.method === 'POST');
+    expect(JSON.parse(String(post?.init?.body)).source.limits).toEqual({ maxAbsVolts: 60, maxAbsAmps: 5000, minTempCelsius: -100, maxTempCelsius: 90 });
   });
 
   it('says so when the admin reopens a bench\'s source', async () => {

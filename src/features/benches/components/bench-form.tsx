@@ -4,6 +4,7 @@ import { Button } from '../../../components/ui/button';
 import { SelectField, TextField } from '../../../components/ui/field';
 import { ApiError } from '../../../lib/api-client';
 import { useSaveBench, useSerialPorts } from '../api/manage-bench';
+import { FrameLimitsFields, initialLimitFields, limitsFromFields, type LimitFields } from './frame-limits-fields';
 import { FORMAT_TEMPLATES, SCENARIO_SUGGESTIONS } from './source-templates';
 
 type SourceKind = 'simulator' | 'serial' | 'none';
@@ -19,9 +20,10 @@ function initialFormat(bench?: BenchWithStatus): { kind: SerialFormat['kind']; j
 }
 
 /** Builds the source config from the form and checks it against the shared schema. */
-function buildSource(kind: SourceKind, f: Record<string, string>, formatJson: string): { source?: unknown; error?: string } {
+function buildSource(kind: SourceKind, f: Record<string, string>, formatJson: string, limitFields: LimitFields): { source?: unknown; error?: string } {
   let candidate: unknown = { kind: 'none' };
-  if (kind === 'simulator') candidate = { kind, scenario: f.scenario.trim(), speed: Number(f.speed), seed: Number(f.seed) };
+  const limits = limitsFromFields(limitFields);
+  if (kind === 'simulator') candidate = { kind, scenario: f.scenario.trim(), speed: Number(f.speed), seed: Number(f.seed), limits };
   if (kind === 'serial') {
     let format: unknown;
     try {
@@ -29,7 +31,7 @@ function buildSource(kind: SourceKind, f: Record<string, string>, formatJson: st
     } catch {
       return { error: 'The format is not valid JSON.' };
     }
-    candidate = { kind, path: f.path.trim(), baudRate: Number(f.baudRate), staleAfterS: Number(f.staleAfterS), format };
+    candidate = { kind, path: f.path.trim(), baudRate: Number(f.baudRate), staleAfterS: Number(f.staleAfterS), format, limits };
   }
   const parsed = BenchSourceConfigSchema.safeParse(candidate);
   if (!parsed.success) return { error: parsed.error.issues.map((i) => `${i.path.join('.') || 'source'}: ${i.message}`).join('; ') };
@@ -52,6 +54,7 @@ export function BenchForm({ bench, onSaved }: { bench?: BenchWithStatus; onSaved
     staleAfterS: src?.kind === 'serial' ? String(src.staleAfterS) : String(DEFAULT_STALE_AFTER_S),
   });
   const [format, setFormat] = useState(() => initialFormat(bench));
+  const [limits, setLimits] = useState(() => initialLimitFields(src));
   const [enabled, setEnabled] = useState(bench?.enabled ?? true);
   const [localError, setLocalError] = useState<string | null>(null);
   const ports = useSerialPorts(kind === 'serial');
@@ -60,7 +63,7 @@ export function BenchForm({ bench, onSaved }: { bench?: BenchWithStatus; onSaved
   const submit = (e: FormEvent) => {
     e.preventDefault();
     if (!fields.name.trim()) return setLocalError('Give the bench a name.');
-    const built = buildSource(kind, fields, format.json);
+    const built = buildSource(kind, fields, format.json, limits);
     if (built.error) return setLocalError(built.error);
     setLocalError(null);
     save.mutate(
@@ -145,6 +148,7 @@ export function BenchForm({ bench, onSaved }: { bench?: BenchWithStatus; onSaved
           </div>
         </div>
       )}
+      {kind !== 'none' && <FrameLimitsFields value={limits} onChange={setLimits} />}
       <TextField label="Notes" value={fields.notes} onChange={set('notes')} />
       <label className="flex min-h-11 items-center gap-3 text-ink">
         <input type="checkbox" checked={enabled} onChange={(e) => setEnabled(e.target.checked)} className="h-5 w-5" />
