@@ -4,6 +4,7 @@ import { securityHeaders } from './http/security-headers.js';
 import { csrfProtection } from './http/csrf.js';
 import { apiNotFound, createErrorHandler } from './http/error-handler.js';
 import { serveClient } from './http/client-static.js';
+import { databaseGate, healthRoute } from './http/database-gate.js';
 import { createAuthRouter } from './auth/auth-routes.js';
 import { createUsersRouter } from './users/users-routes.js';
 import { createBatteriesRouter } from './batteries/batteries-routes.js';
@@ -12,7 +13,8 @@ import { createBenchesRouter } from './benches/benches-routes.js';
 import { createRunsRouter } from './runs/runs-routes.js';
 
 /**
- * The Express app (no listen). Order matters: security headers, JSON body (size-limited),
+ * The Express app (no listen). Order matters: security headers, the health endpoint, a 503
+ * while the database is away, JSON body (size-limited),
  * session + passport, CSRF on every state-changing /api request, the routers, 404 for unknown
  * /api paths, the client, and last the one error handler.
  */
@@ -20,6 +22,9 @@ export function createApp(ctx: AppContext): Express {
   const app = express();
   app.disable('x-powered-by');
   app.use(securityHeaders(ctx.config.cookieSecure));
+  // Health first: it needs no session, so it answers even while the database is away.
+  app.get('/api/health', healthRoute(ctx));
+  app.use('/api', databaseGate(ctx));
   app.use('/api', express.json({ limit: ctx.config.bodyLimit }));
   app.use('/api', ctx.sessionMiddleware, ctx.passport.initialize(), ctx.passport.session(), csrfProtection);
 

@@ -9,6 +9,10 @@ import { migrate } from './db/migrate.js';
 import { seedDemo } from './db/seed-demo.js';
 import { consoleLogger, createAppContext, type AppContext, type Logger } from './app-context.js';
 import { createApp } from './app.js';
+import { DatabaseHealth } from './db/database-health.js';
+import { createPingProbe } from './db/database-probe.js';
+import { watchDatabase, type DatabaseWatch } from './db/database-watch.js';
+import { guardQueries } from './db/query-guard.js';
 import { attachBenchManager } from './benches/attach-bench-manager.js';
 import { attachLive } from './live/attach-live.js';
 
@@ -92,7 +96,10 @@ export async function startServer(options: StartServerOptions = {}): Promise<Run
   const detaches: Detach[] = [];
   let httpServer: Server | undefined;
   let ctx: AppContext | undefined;
+  let watch: DatabaseWatch | undefined;
   const close = async () => {
+    // Stop supervising first, so a MariaDB being stopped on purpose is not started again.
+    await watch?.stop();
     for (const detach of detaches.splice(0).reverse()) await detach();
     if (httpServer?.listening) {
       httpServer.closeAllConnections();
@@ -106,6 +113,11 @@ export async function startServer(options: StartServerOptions = {}): Promise<Run
     await sequelize.authenticate();
     if (options.migrate ?? true) await migrate(sequelize);
     ctx = createAppContext(config, sequelize, log);
+    // Watch the database (and restart it when we provisioned it): queries fail fast while it is away.
+    const health = new DatabaseHealth(mariadb !== undefined);
+    ctx.services.databaseHealth = health;
+    guardQueries(sequelize, health);
+    watch = watchDatabase({ health, probe: createPingProbe(database), server: mariadb, log: (message) => log.warn(message) });
     const demoSeeded = options.seedDemo ? (await seedDemo(ctx.models, config.demoPassword)).seeded : false;
     const app = createApp(ctx);
     httpServer = createServer(app);

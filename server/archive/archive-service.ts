@@ -4,9 +4,15 @@ import type { ArchiveBatch } from './archive-batch.js';
 import { ArchiveWriter } from './archive-writer.js';
 import { COMPACT_READINGS, compactRun, writeBatch } from './chunk-store.js';
 import { SpillStore } from './spill-store.js';
+import { isConnectionFailure } from '../db/connection-errors.js';
 
-/** Connection trouble is worth waiting out; an SQL error (missing run or table) is not. */
-function isTransient(err: unknown): boolean {
+/**
+ * Connection trouble is worth waiting out; an SQL error (missing run or table) is not. A
+ * connection the killed server closed mid-query arrives as a DatabaseError marked fatal:
+ * that one is connection trouble too, or a database restart would set batches aside.
+ */
+export function isTransient(err: unknown): boolean {
+  if (isConnectionFailure(err)) return true;
   const name = (err as { name?: string })?.name ?? '';
   return name !== 'SequelizeDatabaseError' && name !== 'SequelizeForeignKeyConstraintError';
 }

@@ -40,6 +40,23 @@ describe('column blocks', () => {
     expect(Object.keys(decodeBlock(layout, data, ['elapsed', 'volts'])).sort()).toEqual(['elapsed', 'volts']);
   });
 
+  it('decodes small blocks into columns that own only their own bytes (no 16 KiB zlib buffer pinned per column)', () => {
+    const readings = Array.from({ length: 10 }, (_, i) => reading(i, { cell: 20 + i }));
+    for (const encoding of ['gzip', 'raw'] as const) {
+      const { layout, data } = encodeBlock(readingsToColumns(readings), encoding);
+      const back = decodeBlock(layout, data);
+      for (const col of Object.values(back)) expect(col.buffer.byteLength).toBe(10 * Float64Array.BYTES_PER_ELEMENT);
+      expect(readingAt(back, 9)).toEqual(readings[9]);
+    }
+  });
+
+  it('names the column when a block is corrupt', () => {
+    const { layout, data } = encodeBlock(readingsToColumns([reading(0), reading(1)]));
+    const broken = Buffer.from(data);
+    broken.fill(0, layout.columns[2]!.offset, layout.columns[2]!.offset + 12);
+    expect(() => decodeBlock(layout, broken)).toThrow(/column volts is corrupt/);
+  });
+
   it('refuses columns of unequal length', () => {
     expect(() => encodeBlock({ a: new Float64Array(2), b: new Float64Array(3) })).toThrow(/column b/);
   });

@@ -1,4 +1,4 @@
-import { gzipSync, gunzipSync } from 'node:zlib';
+import { constants as zlibConstants, gzipSync, gunzipSync } from 'node:zlib';
 
 /**
  * A chunk of readings stored as one gzip'd Float64 array per channel, concatenated.
@@ -22,6 +22,24 @@ export type Columns = Record<string, Float64Array>;
 
 /** gzip level 1: a few percent larger than the default level and several times faster to write. */
 const GZIP_LEVEL = 1;
+const BYTES_PER_VALUE = Float64Array.BYTES_PER_ELEMENT;
+
+/**
+ * A column as a Float64Array that owns exactly its own bytes. zlib's default output buffer is
+ * 16 KiB and the result is a view into it, so a 10-reading live chunk decoded as is would pin
+ * 16 KiB per column: compacting 20 runs at once held about 60 MB that way and the allocator
+ * kept the pages (docs/archive.md). Inflating into a buffer of the known size avoids that;
+ * anything else (a raw slice of the row, an unaligned view) is copied once.
+ */
+function columnOf(packed: Buffer, count: number, encoding: BlockLayout['encoding']): Float64Array {
+  const bytes = count * BYTES_PER_VALUE;
+  const raw = encoding === 'raw' ? packed : gunzipSync(packed, { chunkSize: Math.max(zlibConstants.Z_MIN_CHUNK, bytes) });
+  if (raw.byteLength !== bytes) throw new Error('corrupt');
+  if (raw.byteOffset === 0 && raw.buffer.byteLength === bytes) return new Float64Array(raw.buffer, 0, count);
+  const own = new Float64Array(count);
+  new Uint8Array(own.buffer).set(raw);
+  return own;
+}
 
 /** Packs equal-length Float64 columns into one buffer plus its layout. */
 export function encodeBlock(columns: Columns, encoding: 'gzip' | 'raw' = 'gzip'): { layout: BlockLayout; data: Buffer } {
@@ -48,11 +66,12 @@ export function decodeBlock(layout: BlockLayout, data: Buffer, wanted?: readonly
   for (const entry of layout.columns) {
     if (wanted && !wanted.includes(entry.name)) continue;
     const slice = data.subarray(entry.offset, entry.offset + entry.bytes);
-    const raw = layout.encoding === 'raw' ? slice : gunzipSync(slice);
-    // A Float64Array view needs 8-byte alignment; gunzip's buffer may come from a pool.
-    const aligned = raw.byteOffset % 8 === 0 ? raw : Buffer.from(raw);
-    const view = new Float64Array(aligned.buffer, aligned.byteOffset, aligned.byteLength / 8);
-    if (view.length !== layout.count) throw new Error(`column ${entry.name} is corrupt`);
+    let view: Float64Array;
+    try {
+      view = columnOf(slice, layout.count, layout.encoding);
+    } catch {
+      throw new Error(`column ${entry.name} is corrupt`);
+    }
     out[entry.name] = view;
   }
   return out;

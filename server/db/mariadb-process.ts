@@ -56,6 +56,17 @@ export function isAlive(pid: number): boolean {
   }
 }
 
+/** True when the process is stopped by a signal (SIGSTOP, state T in /proc/<pid>/stat). */
+export function isStopped(pid: number): boolean {
+  try {
+    const stat = readFileSync(`/proc/${pid}/stat`, 'utf8');
+    // The state follows the command name in parentheses, which may itself hold spaces.
+    return /^[Tt]$/.test(stat.slice(stat.lastIndexOf(')') + 2, stat.lastIndexOf(')') + 3));
+  } catch {
+    return false;
+  }
+}
+
 /** Asks the server over its Unix socket whether it answers. */
 export async function pingOverSocket(adminPath: string, socketPath: string, osUser: string): Promise<boolean> {
   try {

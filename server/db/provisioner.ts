@@ -5,7 +5,8 @@ import { basename, dirname, join, resolve } from 'node:path';
 import { userInfo } from 'node:os';
 import { ensureMariaDbBinaries, type MariaDbBinaries } from './mariadb-binaries.js';
 import { liveLeaseHolders, takeLease, withStartStopLock } from './mariadb-lease.js';
-import { findRunningMariaDb, isAlive, isPortFree, pingOverSocket, stopMariaDb, waitFor } from './mariadb-process.js';
+import { findRunningMariaDb, isAlive, isPortFree, isStopped, pingOverSocket, stopMariaDb, waitFor } from './mariadb-process.js';
+import type { SupervisedServer } from './database-watch.js';
 import { SYSTEM_MARIADB_PORT } from '../config/env-schema.js';
 import type { DatabaseConfig } from '../config/config.js';
 
@@ -25,7 +26,7 @@ export interface ProvisionOptions {
 }
 
 /** A running private MariaDB and how to reach it. */
-export interface ProvisionedMariaDb extends DatabaseConfig {
+export interface ProvisionedMariaDb extends DatabaseConfig, SupervisedServer {
   socketPath: string;
   pid: number;
   /** True when a healthy server was already running on this data (another user, or left by a crash). */
@@ -159,6 +160,15 @@ export async function provisionMariaDb(options: ProvisionOptions): Promise<Provi
   const osUser = userInfo().username;
   mkdirSync(baseDir, { recursive: true });
 
+  const readyTimeoutMs = options.readyTimeoutMs ?? DEFAULT_READY_TIMEOUT_MS;
+  const start = () => startServerProcess(bin, { dataDir, socketPath, pidFile, errorLog, osUser, port: options.port, readyTimeoutMs });
+  const running = () => {
+    const found = findRunningMariaDb(dataDir, pidFile);
+    return found === undefined ? undefined : { pid: found, stopped: isStopped(found) };
+  };
+  // The supervisor's restart: the same data, port and socket; another process may have restarted it first.
+  const ensureRunning = () => withStartStopLock(baseDir, async () => findRunningMariaDb(dataDir, pidFile) ?? (await start()));
+
   return withStartStopLock(baseDir, async () => {
     let pid = findRunningMariaDb(dataDir, pidFile);
     const reused = pid !== undefined;
@@ -173,10 +183,7 @@ export async function provisionMariaDb(options: ProvisionOptions): Promise<Provi
         throw new Error(`MariaDB port ${options.port} on 127.0.0.1 is already in use by another program: choose another port (KNEEPOINT_DB_PORT).`);
       }
       if (!existsSync(join(dataDir, 'mysql'))) await initialiseDataDir(bin, dataDir, osUser, log);
-      pid = await startServerProcess(bin, {
-        dataDir, socketPath, pidFile, errorLog, osUser, port: options.port,
-        readyTimeoutMs: options.readyTimeoutMs ?? DEFAULT_READY_TIMEOUT_MS,
-      });
+      pid = await start();
       log(`MariaDB started on 127.0.0.1:${options.port} (pid ${pid}, data in ${dataDir})`);
     }
     await createDatabaseAndUser(bin, socketPath, osUser, options);
@@ -190,7 +197,7 @@ export async function provisionMariaDb(options: ProvisionOptions): Promise<Provi
     });
     return {
       host: '127.0.0.1', port: options.port, database: options.database, user: options.user, password: options.password,
-      socketPath, pid: pid!, reused, stop,
+      socketPath, pid: pid!, reused, stop, running, ensureRunning,
     };
   });
 }

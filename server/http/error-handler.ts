@@ -1,6 +1,7 @@
 import type { ErrorRequestHandler, RequestHandler } from 'express';
 import { ZodError } from 'zod';
 import { HttpError } from './http-error.js';
+import { isConnectionFailure } from '../db/connection-errors.js';
 
 /** The JSON shape of every error answer: `{ error: { message, fields? } }`. */
 export interface ErrorBody {
@@ -34,6 +35,10 @@ function bodyParserError(error: unknown): { status: number; message: string } | 
   }
 }
 
+/** How long a client should wait before asking again while the database is away. */
+export const DATABASE_RETRY_AFTER_S = 5;
+const DATABASE_AWAY_MESSAGE = 'The database is not available right now. Recording and live readings continue; try again in a few seconds.';
+
 /** Sequelize errors that are the client's fault, mapped to their status. */
 function databaseError(error: unknown): { status: number; message: string } | undefined {
   const name = (error as { name?: string })?.name;
@@ -44,7 +49,7 @@ function databaseError(error: unknown): { status: number; message: string } | un
 
 /**
  * The one error handler: zod → 400 with field names, body-parser → 400/413, HttpError → its
- * status, anything else → 500 with a generic message (the details go to the server log only).
+ * status, the database away (refused, broken or timed-out connection) → 503, anything else → 500 with a generic message (the details go to the server log only).
  */
 export function createErrorHandler(log: (message: string, error: unknown) => void): ErrorRequestHandler {
   return (error, _req, res, next) => {
@@ -52,6 +57,11 @@ export function createErrorHandler(log: (message: string, error: unknown) => voi
     const send = (status: number, body: ErrorBody['error']) => res.status(status).json({ error: body } satisfies ErrorBody);
     if (error instanceof ZodError) return send(400, { message: 'Invalid request: check the listed fields', fields: zodFields(error) });
     if (error instanceof HttpError) return send(error.status, { message: error.message, ...(error.fields && { fields: error.fields }) });
+    if (isConnectionFailure(error)) {
+      res.set('Retry-After', String(DATABASE_RETRY_AFTER_S));
+      const message = (error as Error).name === 'DatabaseUnavailableError' ? (error as Error).message : DATABASE_AWAY_MESSAGE;
+      return send(503, { message });
+    }
     const known = bodyParserError(error) ?? databaseError(error);
     if (known) return send(known.status, { message: known.message });
     const status = (error as { status?: number })?.status;

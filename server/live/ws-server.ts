@@ -4,6 +4,7 @@ import { WebSocketServer, type WebSocket } from 'ws';
 import { ClientMessageSchema, MAX_CLIENT_MESSAGE_BYTES } from '../../shared/schemas/ws.js';
 import type { SessionUser } from '../auth/session-user.js';
 import { ClientSender } from './client-sender.js';
+import { isConnectionFailure } from '../db/connection-errors.js';
 import type { LiveHub } from './live-hub.js';
 
 export const WS_PATH = '/ws';
@@ -62,7 +63,9 @@ export function attachWsServer(
       })
       .catch((err: unknown) => {
         log('ws: session check failed', err);
-        refuse(socket, 500, 'Internal Server Error');
+        // The session lives in the database: while it is away, say so rather than fail.
+        if (isConnectionFailure(err)) refuse(socket, 503, 'Service Unavailable');
+        else refuse(socket, 500, 'Internal Server Error');
       });
   };
 

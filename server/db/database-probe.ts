@@ -1,0 +1,53 @@
+import mariadb from 'mariadb';
+import type { DatabaseConfig } from '../config/config.js';
+
+/** Asks the database whether it answers, within a time limit. */
+export interface DatabaseProbe {
+  /** Resolves true when the database answered within `timeoutMs`; never rejects. Calls must not overlap. */
+  check(timeoutMs: number): Promise<boolean>;
+  close(): Promise<void>;
+}
+
+/**
+ * A probe over one connection of its own (never the app's pool, which a stall can fill):
+ * pings on it, and drops and reopens it when a ping fails or is late. A closed TCP port
+ * answers at once; a stopped server accepts the connection but never greets, so the
+ * time limit is what tells a stall.
+ */
+export function createPingProbe(db: DatabaseConfig): DatabaseProbe {
+  let connection: mariadb.Connection | undefined;
+  const open = async (timeoutMs: number) => {
+    const c = await mariadb.createConnection({
+      host: db.host, port: db.port, user: db.user, password: db.password, database: db.database, connectTimeout: timeoutMs,
+    });
+    c.on('error', () => undefined); // a dropped socket is what the next check reports
+    return c;
+  };
+  return {
+    async check(timeoutMs) {
+      const reused = connection;
+      const work = (async () => {
+        const c = reused ?? (await open(timeoutMs));
+        await c.ping();
+        return c;
+      })();
+      let timer: NodeJS.Timeout | undefined;
+      const late = new Promise<undefined>((resolve) => (timer = setTimeout(() => resolve(undefined), timeoutMs)));
+      const answered = await Promise.race([work.catch(() => undefined), late]);
+      clearTimeout(timer);
+      if (answered) {
+        connection = answered;
+        return true;
+      }
+      if (connection === reused) connection = undefined;
+      reused?.destroy();
+      // A connection that completes after the limit is closed, not leaked.
+      void work.then((c) => c !== connection && c.destroy(), () => undefined);
+      return false;
+    },
+    async close() {
+      connection?.destroy();
+      connection = undefined;
+    },
+  };
+}

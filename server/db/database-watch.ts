@@ -1,0 +1,122 @@
+import type { DatabaseHealth } from './database-health.js';
+import type { DatabaseProbe } from './database-probe.js';
+
+/** The private MariaDB as the supervisor sees it (the provisioner implements it). */
+export interface SupervisedServer {
+  /** The running mariadbd on this data, and whether it is stopped (SIGSTOP); undefined when none runs. */
+  running(): { pid: number; stopped: boolean } | undefined;
+  /** Starts the server on the same data, port and socket unless one already runs; resolves its pid. */
+  ensureRunning(): Promise<number>;
+}
+
+/** How often the database is asked whether it answers. */
+export const PROBE_INTERVAL_MS = 250;
+/** A ping slower than this counts as no answer: with the interval, a stall is known within about 1.25 s. */
+export const PROBE_TIMEOUT_MS = 1000;
+/** Waits before each consecutive restart attempt; the last value repeats. */
+export const RESTART_DELAYS_MS = [0, 1000, 2000, 5000, 10_000, 30_000] as const;
+/** Up this long after a restart, and the back-off starts again from the first delay. */
+export const STABLE_AFTER_RESTART_MS = 60_000;
+
+export interface WatchOptions {
+  health: DatabaseHealth;
+  probe: DatabaseProbe;
+  /** Absent when the server did not provision the database: then it is only watched, never restarted. */
+  server?: SupervisedServer;
+  log: (message: string) => void;
+  intervalMs?: number;
+  probeTimeoutMs?: number;
+  restartDelaysMs?: readonly number[];
+  now?: () => number;
+}
+
+/** A running watch; `tick()` runs one check at once (tests), `stop()` ends the loop. */
+export interface DatabaseWatch {
+  tick(): Promise<void>;
+  stop(): Promise<void>;
+}
+
+/**
+ * Watches the database: pings it every PROBE_INTERVAL_MS and keeps `health` current. When the
+ * supervised MariaDB has died it is started again on the same data, at once the first time
+ * and then with growing delays while it keeps dying; every step is logged. A stalled server
+ * (alive but silent) is reported, not killed: a stop signal or a slow disk may pass.
+ */
+export function watchDatabase(opts: WatchOptions): DatabaseWatch {
+  const now = opts.now ?? Date.now;
+  const delays = opts.restartDelaysMs ?? RESTART_DELAYS_MS;
+  const timeoutMs = opts.probeTimeoutMs ?? PROBE_TIMEOUT_MS;
+  let attempt = 0;
+  let nextRestartAt = 0;
+  let lastRestartMs: number | undefined;
+  let outageStartMs: number | undefined;
+  let stopped = false;
+  let timer: NodeJS.Timeout | undefined;
+  let running: Promise<void> = Promise.resolve();
+
+  const restartIfDue = async (server: SupervisedServer) => {
+    const { health } = opts;
+    const state = health.status().state;
+    if (state !== 'down') {
+      health.set('down', 'the MariaDB server process has exited');
+      opts.log('[mariadb] the server process has exited; restarting it');
+      // Dead again right after a restart: the delay that attempt set stands.
+      if (state !== 'restarting') nextRestartAt = now() + delays[Math.min(attempt, delays.length - 1)]!;
+    }
+    if (now() < nextRestartAt || stopped) return;
+    health.set('restarting');
+    const started = now();
+    try {
+      const pid = await server.ensureRunning();
+      health.restarted();
+      lastRestartMs = now();
+      opts.log(`[mariadb] restarted (pid ${pid}) in ${now() - started} ms; restarts so far: ${health.status().restarts}`);
+    } catch (err) {
+      health.set('down', `restart failed: ${err instanceof Error ? err.message.split('\n')[0] : String(err)}`);
+      opts.log(`[mariadb] restart failed: ${String(err)}`);
+    }
+    attempt++;
+    nextRestartAt = now() + delays[Math.min(attempt, delays.length - 1)]!;
+  };
+
+  const check = async () => {
+    const { health } = opts;
+    if (await opts.probe.check(timeoutMs)) {
+      if (!health.available()) {
+        opts.log(`[mariadb] answering again after ${outageStartMs === undefined ? '?' : ((now() - outageStartMs) / 1000).toFixed(1)} s`);
+      }
+      outageStartMs = undefined;
+      health.set('up');
+      if (lastRestartMs !== undefined && now() - lastRestartMs >= STABLE_AFTER_RESTART_MS) attempt = 0;
+      return;
+    }
+    if (outageStartMs === undefined) outageStartMs = now();
+    if (!opts.server) {
+      if (health.available()) opts.log('[mariadb] the database does not answer');
+      return health.set('unreachable', `no answer within ${timeoutMs} ms`);
+    }
+    const proc = opts.server.running();
+    if (!proc) return restartIfDue(opts.server);
+    const why = proc.stopped ? `the server process (pid ${proc.pid}) is stopped (SIGSTOP)` : `the server (pid ${proc.pid}) gave no answer within ${timeoutMs} ms`;
+    if (health.available()) opts.log(`[mariadb] stalled: ${why}`);
+    health.set('stalled', why);
+  };
+
+  const tick = () => (running = running.then(check).catch((err: unknown) => opts.log(`[mariadb] watch failed: ${String(err)}`)));
+  const loop = () => {
+    if (stopped) return;
+    void tick().then(() => {
+      if (!stopped) timer = setTimeout(loop, opts.intervalMs ?? PROBE_INTERVAL_MS);
+    });
+  };
+  timer = setTimeout(loop, opts.intervalMs ?? PROBE_INTERVAL_MS);
+  return {
+    tick,
+    async stop() {
+      stopped = true;
+      clearTimeout(timer);
+      await running;
+      await opts.probe.close();
+    },
+  };
+}
