@@ -5,7 +5,7 @@ import { HttpError } from '../http/http-error.js';
 import { issueCsrfToken } from '../http/csrf.js';
 import { parseBody } from '../http/validate.js';
 import { endUserSessions } from './end-sessions.js';
-import { createLoginRateLimit } from './login-rate-limit.js';
+import { createLoginRateLimit, createPasswordChangeLimit } from './login-rate-limit.js';
 import { requireSignedIn } from './guards.js';
 import { hashPassword, verifyPassword } from './password.js';
 import { SESSION_COOKIE } from './session.js';
@@ -18,7 +18,7 @@ export function createAuthRouter(ctx: AppContext): Router {
     res.json({ csrfToken: issueCsrfToken(req) });
   });
 
-  router.post('/login', createLoginRateLimit(ctx.config), (req, res, next) => {
+  router.post('/login', ...createLoginRateLimit(ctx.config), (req, res, next) => {
     req.body = parseBody(LoginRequestSchema, req.body);
     ctx.passport.authenticate('local', (error: unknown, user: PublicUser | false) => {
       if (error) return next(error);
@@ -46,7 +46,7 @@ export function createAuthRouter(ctx: AppContext): Router {
     res.json({ user: req.user });
   });
 
-  router.post('/password', requireSignedIn, async (req, res) => {
+  router.post('/password', requireSignedIn, createPasswordChangeLimit(ctx.config), async (req, res) => {
     const body = parseBody(ChangePasswordRequestSchema, req.body);
     const row = await ctx.models.User.findByPk(req.user!.id);
     if (!row || !(await verifyPassword(body.currentPassword, row.passwordHash))) {

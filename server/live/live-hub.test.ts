@@ -1,8 +1,15 @@
 import { describe, expect, it } from 'vitest';
 import type { SessionUser } from '../auth/session-user.js';
-import { BACKPRESSURE_HIGH_BYTES } from './backpressure-policy.js';
+import {
+  CLIENT_BUDGET_BYTES,
+  CLIENT_HARD_LIMIT_BYTES,
+  OVER_BUDGET_GRACE_MS,
+  READINGS_STOP_BYTES,
+  THIN_ENTER_BYTES,
+  THIN_LEAVE_BYTES,
+} from './backpressure-policy.js';
 import { ClientSender, type SocketLike } from './client-sender.js';
-import { LiveHub, MAX_SUBSCRIPTIONS_PER_CLIENT, MIN_BATCH_INTERVAL_MS } from './live-hub.js';
+import { LiveHub, MAX_SUBSCRIPTIONS_PER_CLIENT, MIN_BATCH_INTERVAL_MS, RECENT_READINGS } from './live-hub.js';
 
 const user: SessionUser = { id: 1, email: 'v@lab', name: 'V', role: 'viewer', disabled: false };
 class FakeSocket implements SocketLike {
@@ -62,7 +69,7 @@ describe('LiveHub', () => {
     const c = new ClientSender(sock, user);
     (hub as unknown as { opts: { source: { run: unknown } } }).opts.source.run = async () => ({ run: null, events: [] });
     await hub.subscribe(c, { kind: 'run', id: 9 });
-    sock.bufferedAmount = BACKPRESSURE_HIGH_BYTES * 2;
+    sock.bufferedAmount = READINGS_STOP_BYTES * 2;
     const reading = { ...frame(0), elapsedSeconds: 0, watts: 12, dischargeWh: 0, dischargeAh: 0, chargeWh: 0, chargeAh: 0 };
     hub.publishSample({ kind: 'run', id: 9 }, reading);
     hub.publishEvent(9, { type: 'annotation', t: 0, text: 'note' }, 5);
@@ -119,5 +126,152 @@ describe('LiveHub memory under hostile subscriptions', () => {
     expect(hub.topicCount()).toBe(1);
     hub.unsubscribe(c, { kind: 'run', id: 4 });
     expect(hub.topicCount()).toBe(0);
+  });
+});
+
+/** A socket whose peer never reads: every byte sent stays buffered. */
+class StuckSocket extends FakeSocket {
+  override send(data: string) {
+    super.send(data);
+    this.bufferedAmount += Buffer.byteLength(data);
+  }
+}
+
+describe('LiveHub: a byte budget per client for every message type', () => {
+  it('closes a client that only asks for snapshots and never reads, at the hard limit at the latest', async () => {
+    const { hub } = setup();
+    const sock = new StuckSocket();
+    let closed = 0;
+    const c = new ClientSender(sock, user, { now: () => 0, onOverBudget: () => closed++ });
+    // A busy bench: each snapshot carries its RECENT_READINGS.
+    for (let i = 0; i < RECENT_READINGS; i++) hub.publishSample({ kind: 'bench', id: 1 }, frame(i));
+    let pairs = 0;
+    while (closed === 0 && pairs < 100_000) {
+      await hub.subscribe(c, { kind: 'bench', id: 1 });
+      hub.unsubscribe(c, { kind: 'bench', id: 1 });
+      pairs++;
+    }
+    expect(closed).toBe(1);
+    expect(sock.bufferedAmount).toBeGreaterThanOrEqual(CLIENT_HARD_LIMIT_BYTES);
+    const sentBefore = sock.sent.length;
+    // Once closing it is sent nothing more and its requests are not served.
+    await hub.subscribe(c, { kind: 'bench', id: 1 });
+    c.send({ type: 'pong', serverTimeMs: 0 });
+    expect(sock.sent.length).toBe(sentBefore);
+    expect(sock.bufferedAmount).toBeLessThan(CLIENT_HARD_LIMIT_BYTES + 64 * 1024);
+    expect(closed).toBe(1);
+  });
+
+  it('closes a client over its budget for the grace period even when only pongs and errors go out', () => {
+    let now = 0;
+    const sock = new FakeSocket();
+    let closed = 0;
+    const c = new ClientSender(sock, user, { now: () => now, onOverBudget: () => closed++ });
+    sock.bufferedAmount = CLIENT_BUDGET_BYTES;
+    c.send({ type: 'pong', serverTimeMs: 0 });
+    now += OVER_BUDGET_GRACE_MS - 1;
+    c.send({ type: 'error', message: 'x' });
+    expect(closed).toBe(0);
+    now += 1;
+    // Nothing new to send: the periodic check alone closes it.
+    c.checkBudget();
+    expect(closed).toBe(1);
+  });
+
+  it('sends every event to a client too far behind for readings, until the budget closes it', async () => {
+    const { hub } = setup();
+    const sock = new FakeSocket();
+    let closed = 0;
+    let now = 0;
+    const c = new ClientSender(sock, user, { now: () => now, onOverBudget: () => closed++ });
+    (hub as unknown as { opts: { source: { run: unknown } } }).opts.source.run = async () => ({ run: null, events: [] });
+    await hub.subscribe(c, { kind: 'run', id: 2 });
+    sock.bufferedAmount = CLIENT_BUDGET_BYTES;
+    for (let i = 0; i < 5; i++) hub.publishEvent(2, { type: 'annotation', t: i, text: `n${i}` }, i);
+    expect(sock.sent.filter((m) => m.type === 'event')).toHaveLength(5);
+    now = OVER_BUDGET_GRACE_MS;
+    hub.publishEvent(2, { type: 'annotation', t: 9, text: 'late' }, 9);
+    expect(closed).toBe(1);
+    expect(c.isOpen).toBe(false);
+  });
+
+  it('thins readings with hysteresis: between the marks, a thinning client stays thinned', async () => {
+    const { hub, advance } = setup();
+    const sock = new FakeSocket();
+    const c = new ClientSender(sock, user);
+    await hub.subscribe(c, { kind: 'bench', id: 5 });
+    const batchSizes: number[] = [];
+    const publish = (n: number) => {
+      for (let i = 0; i < n; i++) hub.publishSample({ kind: 'bench', id: 5 }, frame(i));
+      advance(MIN_BATCH_INTERVAL_MS);
+      const batches = sock.sent.filter((m) => m.type === 'batch') as { readings: { t: number[] } }[];
+      batchSizes.push(batches.reduce((n, b) => n + b.readings.t.length, 0));
+      sock.sent.length = 0;
+    };
+    const between = (THIN_LEAVE_BYTES + THIN_ENTER_BYTES) / 2;
+    sock.bufferedAmount = between;
+    publish(16); // never entered: everything
+    sock.bufferedAmount = THIN_ENTER_BYTES + 1;
+    publish(16); // entered: thinned
+    sock.bufferedAmount = between;
+    publish(16); // still thinned between the marks
+    sock.bufferedAmount = THIN_LEAVE_BYTES - 1;
+    publish(16); // left below the low mark
+    expect(batchSizes[0]).toBe(16);
+    expect(batchSizes[1]).toBeLessThan(16);
+    expect(batchSizes[2]).toBeLessThan(16);
+    expect(batchSizes[3]).toBe(16);
+  });
+});
+
+describe('LiveHub: subscribes that complete late', () => {
+  function deferredRuns(hub: LiveHub) {
+    const waiting: (() => void)[] = [];
+    (hub as unknown as { opts: { source: { run: unknown } } }).opts.source.run = () =>
+      new Promise((resolve) => waiting.push(() => resolve({ run: { id: 1 }, events: [] })));
+    return () => {
+      for (const w of waiting.splice(0)) w();
+    };
+  }
+
+  it('keeps nothing of a subscribe that completes after its socket closed', async () => {
+    const { hub } = setup();
+    const release = deferredRuns(hub);
+    const sock = new FakeSocket();
+    const c = new ClientSender(sock, user);
+    const pending = hub.subscribe(c, { kind: 'run', id: 7 });
+    sock.readyState = 3; // CLOSED
+    hub.removeClient(c);
+    release();
+    await pending;
+    expect(c.subscriptions.size).toBe(0);
+    expect(c.pendingSubscribes.size).toBe(0);
+    expect(hub.topicCount()).toBe(0);
+  });
+
+  it('counts subscribes still waiting against the cap, so a burst cannot exceed it', async () => {
+    const { hub } = setup();
+    const release = deferredRuns(hub);
+    const sock = new FakeSocket();
+    const c = new ClientSender(sock, user);
+    const burst = Array.from({ length: MAX_SUBSCRIPTIONS_PER_CLIENT + 36 }, (_, i) => hub.subscribe(c, { kind: 'run', id: i + 1 }));
+    release();
+    await Promise.all(burst);
+    expect(c.subscriptions.size).toBe(MAX_SUBSCRIPTIONS_PER_CLIENT);
+    expect(sock.sent.filter((m) => m.type === 'error')).toHaveLength(36);
+    expect(hub.topicCount()).toBe(MAX_SUBSCRIPTIONS_PER_CLIENT);
+  });
+
+  it('an unsubscribe while the subscribe waits cancels it', async () => {
+    const { hub } = setup();
+    const release = deferredRuns(hub);
+    const sock = new FakeSocket();
+    const c = new ClientSender(sock, user);
+    const pending = hub.subscribe(c, { kind: 'run', id: 3 });
+    hub.unsubscribe(c, { kind: 'run', id: 3 });
+    release();
+    await pending;
+    expect(c.subscriptions.size).toBe(0);
+    expect(sock.sent.filter((m) => m.type === 'snapshot')).toHaveLength(0);
   });
 });

@@ -58,31 +58,45 @@ export class LiveHub {
     this.clearTimer = opts.clearTimer ?? ((h) => clearTimeout(h as NodeJS.Timeout));
   }
 
-  /** Subscribes a client and sends it the topic's snapshot; an unknown run gets an error. */
+  /**
+   * Subscribes a client and sends it the topic's snapshot; an unknown run gets an error.
+   * Subscribes still waiting for their data count against the cap, and one that completes
+   * after its socket closed (or after an unsubscribe of the same topic) keeps nothing.
+   */
   async subscribe(client: ClientSender, topic: Topic): Promise<void> {
     const key = topicKey(topic);
-    if (!client.subscriptions.has(key) && client.subscriptions.size >= MAX_SUBSCRIPTIONS_PER_CLIENT) {
+    const known = client.subscriptions.has(key) || client.pendingSubscribes.has(key);
+    if (!known && client.subscriptions.size + client.pendingSubscribes.size >= MAX_SUBSCRIPTIONS_PER_CLIENT) {
       return client.send({ type: 'error', message: `Too many subscriptions (at most ${MAX_SUBSCRIPTIONS_PER_CLIENT}); unsubscribe from one first`, topic });
     }
-    let run: Run | null = null;
-    let events: RunEvent[] = [];
-    if (topic.kind === 'run') {
-      const found = await this.opts.source.run(topic.id);
-      if (!found) return client.send({ type: 'error', message: `Run ${topic.id} not found`, topic });
-      ({ run, events } = found);
+    const token = Symbol(key);
+    client.pendingSubscribes.set(key, token);
+    let found: { run: Run; events: RunEvent[] } | null = null;
+    try {
+      if (topic.kind === 'run') found = await this.opts.source.run(topic.id);
+    } catch (error) {
+      if (client.pendingSubscribes.get(key) === token) client.pendingSubscribes.delete(key);
+      throw error;
     }
+    // Only the newest subscribe of a topic completes it; an unsubscribe or a close cancels it.
+    if (client.pendingSubscribes.get(key) !== token) return;
+    client.pendingSubscribes.delete(key);
+    if (!client.isOpen) return;
+    if (topic.kind === 'run' && !found) return client.send({ type: 'error', message: `Run ${topic.id} not found`, topic });
     const state = this.state(topic);
     state.subscribers.add(client);
     client.subscriptions.add(key);
     const status = topic.kind === 'bench' ? this.opts.source.benchStatus(topic.id) : null;
-    if (topic.kind === 'bench') run = this.opts.source.benchRun?.(topic.id) ?? null;
-    client.send({ type: 'snapshot', topic, status, run, recent: toReadingColumns(state.recent), events });
+    const run = topic.kind === 'bench' ? (this.opts.source.benchRun?.(topic.id) ?? null) : found!.run;
+    client.send({ type: 'snapshot', topic, status, run, recent: toReadingColumns(state.recent), events: found?.events ?? [] });
   }
 
   /** Stops sending a topic to a client. */
   unsubscribe(client: ClientSender, topic: Topic): void {
     const key = topicKey(topic);
     client.subscriptions.delete(key);
+    client.pendingSubscribes.delete(key);
+    client.forgetTopic(key);
     this.leave(key, client);
   }
 
@@ -90,6 +104,7 @@ export class LiveHub {
   removeClient(client: ClientSender): void {
     for (const key of client.subscriptions) this.leave(key, client);
     client.subscriptions.clear();
+    client.pendingSubscribes.clear();
   }
 
   /** Topics held in memory (for tests and logs). */

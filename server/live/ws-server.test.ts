@@ -44,4 +44,18 @@ describe('attachWsServer', () => {
     expect(polite.readyState).toBe(WebSocket.OPEN);
     polite.terminate();
   });
+
+  it('terminates a socket that sends unsolicited pongs but never answers a ping', async () => {
+    const url = await serve(50);
+    const liar = new WebSocket(url, { headers: { 'x-test-user': '1' }, autoPong: false });
+    await new Promise((resolve) => liar.once('open', resolve));
+    // Pongs with a made-up payload, far more often than the heartbeat pings.
+    const flood = setInterval(() => liar.readyState === WebSocket.OPEN && liar.pong(Buffer.from('alive')), 5);
+    const closed = await new Promise<boolean>((resolve) => {
+      const timer = setTimeout(() => resolve(false), 2000);
+      liar.once('close', () => (clearTimeout(timer), resolve(true)));
+    });
+    clearInterval(flood);
+    expect(closed).toBe(true);
+  });
 });

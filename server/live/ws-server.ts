@@ -1,3 +1,4 @@
+import { randomBytes } from 'node:crypto';
 import type { IncomingMessage, Server } from 'node:http';
 import type { Duplex } from 'node:stream';
 import { WebSocketServer, type WebSocket } from 'ws';
@@ -12,6 +13,16 @@ export const WS_PATH = '/ws';
 export const HEARTBEAT_MS = 15_000;
 /** Close code for a socket whose session was ended (policy violation, RFC 6455 §7.4.1). */
 export const SESSION_ENDED_CODE = 1008;
+/**
+ * Close code for a client that stayed over its byte budget (it does not read what it is
+ * sent); from the range RFC 6455 §7.4.2 leaves to applications.
+ */
+export const CLIENT_TOO_SLOW_CODE = 4008;
+/** How often every client's backlog is compared with its budget, even when nothing new is sent. */
+export const BUDGET_CHECK_MS = 1_000;
+/** A client closed for its backlog that does not finish the close handshake is cut off after this. */
+export const CLOSE_HANDSHAKE_MS = 2_000;
+const PING_NONCE_BYTES = 8;
 
 export interface WsServerOptions {
   hub: LiveHub;
@@ -20,6 +31,8 @@ export interface WsServerOptions {
   /** Refuses cross-site upgrades (403); default: allow. */
   checkOrigin?: (req: IncomingMessage) => boolean;
   heartbeatMs?: number;
+  /** How often backlogs are checked against the budget (default BUDGET_CHECK_MS). */
+  budgetCheckMs?: number;
   log?: (message: string, err?: unknown) => void;
 }
 
@@ -38,7 +51,10 @@ export function attachWsServer(
   opts: WsServerOptions,
 ): { close(): Promise<void>; clients(): number; closeUser(userId: number, keepSid?: string): void; closeSession(sid: string): void } {
   const wss = new WebSocketServer({ noServer: true, maxPayload: MAX_CLIENT_MESSAGE_BYTES });
-  const alive = new WeakMap<WebSocket, boolean>();
+  // The payload of the ping each socket must answer; null once answered. Only a pong carrying
+  // it counts, so unsolicited pongs from a client that reads nothing cannot keep it alive.
+  const awaitedPong = new WeakMap<WebSocket, Buffer | null>();
+  const senders = new Map<WebSocket, ClientSender>();
   // Who opened each socket with which session, so ending a user's sessions closes their sockets too.
   const owners = new WeakMap<WebSocket, { userId: number; sid: string | undefined }>();
   const log = opts.log ?? (() => undefined);
@@ -70,12 +86,28 @@ export function attachWsServer(
   };
 
   const onConnection = (ws: WebSocket, user: SessionUser) => {
-    const client = new ClientSender(ws, user);
-    alive.set(ws, true);
-    ws.on('pong', () => alive.set(ws, true));
-    ws.on('close', () => opts.hub.removeClient(client));
+    const client = new ClientSender(ws, user, {
+      onOverBudget: () => {
+        // The bound on a client's memory: it is closed, never silently short of events.
+        opts.hub.removeClient(client);
+        ws.close(CLIENT_TOO_SLOW_CODE, 'Too far behind: not reading what the server sends');
+        setTimeout(() => ws.terminate(), CLOSE_HANDSHAKE_MS).unref();
+      },
+    });
+    senders.set(ws, client);
+    awaitedPong.set(ws, null);
+    ws.on('pong', (data) => {
+      const awaited = awaitedPong.get(ws);
+      if (awaited && data.equals(awaited)) awaitedPong.set(ws, null);
+    });
+    ws.on('close', () => {
+      senders.delete(ws);
+      opts.hub.removeClient(client);
+    });
     ws.on('error', () => ws.terminate());
     ws.on('message', (data, isBinary) => {
+      // A client being closed for its backlog gets nothing more, so its requests are not served.
+      if (!client.isOpen) return;
       let parsed: unknown;
       try {
         parsed = isBinary ? null : JSON.parse(String(data));
@@ -97,15 +129,20 @@ export function attachWsServer(
 
   const heartbeat = setInterval(() => {
     for (const ws of wss.clients) {
-      if (!alive.get(ws)) {
+      if (awaitedPong.get(ws)) {
         ws.terminate();
         continue;
       }
-      alive.set(ws, false);
-      ws.ping();
+      const nonce = randomBytes(PING_NONCE_BYTES);
+      awaitedPong.set(ws, nonce);
+      ws.ping(nonce);
     }
   }, opts.heartbeatMs ?? HEARTBEAT_MS);
   heartbeat.unref();
+  const budgetCheck = setInterval(() => {
+    for (const client of senders.values()) client.checkBudget();
+  }, opts.budgetCheckMs ?? BUDGET_CHECK_MS);
+  budgetCheck.unref();
 
   httpServer.on('upgrade', onUpgrade);
   return {
@@ -122,6 +159,7 @@ export function attachWsServer(
     close: () =>
       new Promise<void>((resolve) => {
         clearInterval(heartbeat);
+        clearInterval(budgetCheck);
         httpServer.off('upgrade', onUpgrade);
         for (const ws of wss.clients) ws.terminate();
         wss.close(() => resolve());

@@ -117,4 +117,46 @@ describe('login rate limiting', () => {
       await limited.close();
     }
   });
+
+  it('locks one account from one address, not every user behind that address', async () => {
+    const limited = await createTestContext({ users: true });
+    try {
+      const attacker = await csrfAgent(limited);
+      for (let attempt = 0; attempt < TEST_LOGIN_MAX_FAILURES; attempt += 1) {
+        await attacker.post('/api/auth/login').send({ email: TEST_USERS.admin.email, password: `wrong-${attempt}` }).expect(401);
+      }
+      // Hammering the locked account does not use up the address's allowance.
+      for (let attempt = 0; attempt < 4 * TEST_LOGIN_MAX_FAILURES; attempt += 1) {
+        await attacker.post('/api/auth/login').send({ email: TEST_USERS.admin.email, password: TEST_PASSWORD }).expect(429);
+      }
+      // A colleague behind the same address signs in at once.
+      await signInAs(limited, 'technician');
+      await signInAs(limited, 'viewer');
+    } finally {
+      await limited.close();
+    }
+  });
+
+  it(`bounds parallel guesses of the current password: at most ${TEST_LOGIN_MAX_FAILURES} are checked`, async () => {
+    const limited = await createTestContext({ users: true });
+    try {
+      const tech = await signInAs(limited, 'technician');
+      const guesses = 40;
+      const answers = await Promise.all(
+        Array.from({ length: guesses }, (_, i) => tech.post('/api/auth/password').send({ currentPassword: `guess-${i}-wrong`, newPassword: 'a-new-password-1' })),
+      );
+      const statuses = answers.map((a) => a.status);
+      expect(statuses.filter((s) => s === 400)).toHaveLength(TEST_LOGIN_MAX_FAILURES);
+      expect(statuses.filter((s) => s === 429)).toHaveLength(guesses - TEST_LOGIN_MAX_FAILURES);
+      expect(answers.find((a) => a.status === 429)!.body.error.message).toMatch(/too many/i);
+      // The right current password is refused too until the window passes: guessing stays closed.
+      await tech.post('/api/auth/password').send({ currentPassword: TEST_PASSWORD, newPassword: 'a-new-password-1' }).expect(429);
+      // Other users are not held up: their sign-in and password change still work.
+      const viewer = await signInAs(limited, 'viewer');
+      await viewer.post('/api/auth/password').send({ currentPassword: TEST_PASSWORD, newPassword: 'a-new-password-2' }).expect(204);
+    } finally {
+      await limited.close();
+    }
+  });
 });
+
