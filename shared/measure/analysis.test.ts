@@ -1,7 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { internalResistanceFromSteps, resistanceFromPoints } from './internal-resistance.js';
 import { incrementalCapacity, movingAverage } from './incremental-capacity.js';
-import { correctedAhAt25C, ieee450Factor, ieee450PercentCapacity } from './lead-acid-correction.js';
 import { noise } from './synthetic-trace.test-helper.js';
 
 describe('internal resistance from load steps (Ohm\'s law, R = −ΔV/ΔI; DC method, common practice)', () => {
@@ -46,22 +45,5 @@ describe('incremental capacity dQ/dV', () => {
   it('moving average keeps a constant and smooths a spike', () => {
     expect(movingAverage([2, 2, 2], 3)).toEqual([2, 2, 2]);
     expect(movingAverage([0, 3, 0], 3)[1]).toBe(1);
-  });
-});
-
-describe('lead-acid capacity corrected to 25 °C, IEEE 450 time-adjusted method (K_t table from memory)', () => {
-  it('K_t = 1 at 25 °C (77 °F), the method\'s reference temperature', () => {
-    expect(ieee450Factor(25)).toBeCloseTo(1, 12);
-    expect(correctedAhAt25C(100, 25)).toBeCloseTo(100, 12);
-  });
-  it('a cold battery is credited, a warm one debited (K_t > 1 below 25 °C)', () => {
-    expect(ieee450Factor(10)).toBeCloseTo(1.19, 9); // 50 °F: 1.19 (table value, from memory)
-    expect(correctedAhAt25C(90, 10)).toBeCloseTo(90 / 1.19, 9);
-    expect(ieee450Factor(30)).toBeLessThan(1);
-    // 8 h test at 50 °F that ran 7 h: 7 / (8 × 1.19) × 100 = 73.53 % (formula of the method).
-    expect(ieee450PercentCapacity(7 * 3600, 8 * 3600, 10)).toBeCloseTo(73.53, 2);
-  });
-  it('refuses temperatures outside its table', () => {
-    expect(() => ieee450Factor(-20)).toThrow(RangeError);
   });
 });

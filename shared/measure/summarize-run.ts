@@ -7,7 +7,7 @@ import type { RunPipelineSnapshot } from './run-pipeline.js';
 import { DEFAULT_ACCEPTANCE_PERCENT, costPerKWh, cRate, percentOfRated, roundTripEfficiency, verdictFor, whPerKg } from './figures.js';
 import { nominalVolts } from './nominal.js';
 import { internalResistanceFromSteps, type VoltAmpSample } from './internal-resistance.js';
-import { correctedAhAt25C } from './lead-acid-correction.js';
+import { correctedAhAt25C, inCapacityFactorRange } from './lead-acid-correction.js';
 
 /**
  * A derived figure (a ratio of a run's totals to a rating, a price or a mass) that cannot
@@ -31,7 +31,7 @@ export interface SummarizeRunInput {
   massKg?: number | null;
   /** Readings for internal resistance from load steps (optional; omit for none). */
   readings?: ArrayLike<VoltAmpSample>;
-  /** Lead-acid: initial electrolyte/cell temperature for the IEEE 450 correction, °C. */
+  /** Lead-acid: initial electrolyte/cell temperature for the IEEE 450 correction, °C (outside its table: no correction). */
   leadAcidTempCelsius?: number | null;
 }
 
@@ -88,6 +88,6 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
     whPerKg: known(whPerKg(deliveredWh, input.massKg)),
     roundTripEfficiency: known(roundTripEfficiency(totals.dischargeWh, totals.chargeWh)),
     internalResistanceOhms: ir,
-    correctedAh25C: known(cfg.chemistry === 'lead-acid' && leadTemp !== null ? correctedAhAt25C(deliveredAh, leadTemp) : null),
+    correctedAh25C: known(cfg.chemistry === 'lead-acid' && leadTemp !== null && inCapacityFactorRange(leadTemp) ? correctedAhAt25C(deliveredAh, leadTemp) : null),
   });
 }
