@@ -75,6 +75,7 @@ export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: Impor
     targetAh: null,
     targetWh: null,
     afterRecoverySeconds: 0,
+    maxGapSeconds: null,
   };
   const run = await repo.create({
     name: req.name, tags: req.tags, origin: 'import', benchId: null, batteryId: req.battery?.id ?? null,

@@ -85,7 +85,7 @@ export class RunSession {
     this.pipeline = createRunPipeline(config, previous?.pipeline);
     this.events = [...pastEvents];
     this.snap = previous ? sessionFields(previous) : { ...FRESH_FIELDS, state: run.state, clock: emptyClockState() };
-    this.clock = new SourceClockGuard(this.pipeline.config.maxGapSeconds, this.snap.clock);
+    this.clock = new SourceClockGuard(this.pipeline.gapLimit.seconds, this.snap.clock);
   }
 
   get state(): RunState {
