@@ -26,6 +26,7 @@ export interface DetectorSettings {
   tempHysteresisCelsius: number;
   heaterOnAmps: number;
   heaterOffAmps: number;
+  heaterPwmOffSeconds: number;
   heaterTempChannel: string | null;
 }
 
@@ -56,6 +57,7 @@ export function resolveDetectorSettings(config: MeasureConfig): DetectorSettings
     tempHysteresisCelsius: config.tempHysteresisCelsius,
     heaterOnAmps: config.heaterOnAmps,
     heaterOffAmps: Math.min(config.heaterOffAmps, config.heaterOnAmps),
+    heaterPwmOffSeconds: config.heaterPwmOffSeconds,
     heaterTempChannel: config.heaterTempChannel ?? null,
   };
 }

@@ -60,6 +60,8 @@ export const MeasureConfigSchema = z.object({
   /** Heater current above this turns the heater "on"; below heaterOffAmps "off". */
   heaterOnAmps: pos.default(0.5),
   heaterOffAmps: nonNeg.default(0.2),
+  /** A heater reading low for no longer than this is in a PWM off slot, not switched off, s. */
+  heaterPwmOffSeconds: nonNeg.default(5),
   /** Temperature channel reported with heater events; default the first channel present. */
   heaterTempChannel: z.string().min(1).optional(),
 });

@@ -108,9 +108,13 @@ export const HeaterOffEventSchema = z.object({
   ...base,
   type: z.literal('heater-off'),
   tempCelsius: finite.nullable(),
-  /** Time-weighted mean heater current while on. */
+  /** Time-weighted mean heater current while on (PWM off slots included: the element's true average). */
   meanHeaterAmps: finite,
   onSeconds: nonNeg,
+  /** Largest heater current while on (the element's current in a PWM on slot). */
+  peakHeaterAmps: finite.optional(),
+  /** Share of the on time with the current above the on threshold, % (100 for a heater not pulsed). */
+  dutyPercent: finite.optional(),
 });
 
 export const MilestoneKindSchema = z.enum(['half-rated-ah', 'rated-ah', 'half-rated-wh', 'rated-wh', 'near-end-voltage']);
