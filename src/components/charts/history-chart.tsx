@@ -18,6 +18,7 @@ export interface ChartMarker {
 
 const BAND_ALPHA_HEX = '33';
 const MARKER_WIDTH_PX = 2;
+const NO_MARKERS: readonly ChartMarker[] = [];
 
 /** The chart's columns; the temperature is the same channel the live screens show (the cell when there is one). */
 function toData(s: SamplesResponse): uPlot.AlignedData {
@@ -26,7 +27,7 @@ function toData(s: SamplesResponse): uPlot.AlignedData {
   return [s.t, s.volts.max, s.volts.min, s.amps.max, s.amps.min, temp];
 }
 
-function buildOptions(width: number, heightPx: number, temperatureUnit: 'C' | 'F', markers: readonly ChartMarker[], onZoom: (from: number, to: number) => void): uPlot.Options {
+function buildOptions(width: number, heightPx: number, temperatureUnit: 'C' | 'F', markers: () => readonly ChartMarker[], onZoom: (from: number, to: number) => void): uPlot.Options {
   return {
     width,
     height: heightPx,
@@ -62,7 +63,7 @@ function buildOptions(width: number, heightPx: number, temperatureUnit: 'C' | 'F
           const { ctx, bbox } = u;
           ctx.save();
           ctx.lineWidth = MARKER_WIDTH_PX * devicePixelRatio;
-          for (const m of markers) {
+          for (const m of markers()) {
             const x = Math.round(u.valToPos(m.t, 'x', true));
             if (x < bbox.left || x > bbox.left + bbox.width) continue;
             ctx.strokeStyle = m.color;
@@ -87,7 +88,7 @@ interface Props {
 }
 
 /** A run's history from min/max buckets; drag across it to zoom (the page fetches again). */
-export function HistoryChart({ samples, markers = [], onZoom, heightPx = 360, temperatureUnit = 'C' }: Props) {
+export function HistoryChart({ samples, markers = NO_MARKERS, onZoom, heightPx = 360, temperatureUnit = 'C' }: Props) {
   const containerRef = useRef<HTMLDivElement>(null);
   const plotRef = useRef<uPlot | null>(null);
   const zoomRef = useRef(onZoom);
@@ -96,16 +97,21 @@ export function HistoryChart({ samples, markers = [], onZoom, heightPx = 360, te
   // Printing redraws the chart in the report's colours (the canvas does not follow CSS).
   const printing = usePrinting();
 
+  const markersRef = useRef(markers);
+  const samplesRef = useRef(samples);
+
   useEffect(() => {
     zoomRef.current = onZoom;
   });
 
+  // One uPlot for the chart's life; only what its options hold (height, colours, unit, print)
+  // builds it again. A zoom or new markers reuse it (below).
   useEffect(() => {
     const el = containerRef.current;
     if (!el) return;
     const plot = new uPlot(
-      buildOptions(el.clientWidth || width, heightPx, temperatureUnit, markers, (from, to) => zoomRef.current(from, to)),
-      toData(samples),
+      buildOptions(el.clientWidth || width, heightPx, temperatureUnit, () => markersRef.current, (from, to) => zoomRef.current(from, to)),
+      toData(samplesRef.current),
       el,
     );
     plotRef.current = plot;
@@ -114,7 +120,23 @@ export function HistoryChart({ samples, markers = [], onZoom, heightPx = 360, te
       plotRef.current = null;
     };
     // eslint-disable-next-line react-hooks/exhaustive-deps
-  }, [samples, markers, heightPx, theme, temperatureUnit, printing]);
+  }, [heightPx, theme, temperatureUnit, printing]);
+
+  // A zoomed window arrives as new samples: swap the data in and set the x scale to the window.
+  useEffect(() => {
+    if (samplesRef.current === samples) return;
+    samplesRef.current = samples;
+    const plot = plotRef.current;
+    if (!plot) return;
+    plot.setData(toData(samples), false);
+    plot.setScale('x', { min: samples.from, max: samples.to });
+  }, [samples]);
+
+  useEffect(() => {
+    if (markersRef.current === markers) return;
+    markersRef.current = markers;
+    plotRef.current?.redraw(false);
+  }, [markers]);
 
   useEffect(() => {
     plotRef.current?.setSize({ width, height: heightPx });
