@@ -11,6 +11,8 @@ import { createBatteriesRouter } from './batteries/batteries-routes.js';
 import { createSettingsRouter } from './settings/settings-routes.js';
 import { createBenchesRouter } from './benches/benches-routes.js';
 import { createRunsRouter } from './runs/runs-routes.js';
+import { createInspectionRouter } from './inspection/inspection-routes.js';
+import { createPhotosRouter } from './photos/photos-routes.js';
 
 /**
  * The Express app (no listen). Order matters: security headers, the health endpoint, a 503
@@ -38,6 +40,8 @@ export function createApp(ctx: AppContext): Express {
   // Guard every route with requireRole(...) from ./auth/guards.js; CSRF is already enforced above.
   app.use('/api/benches', createBenchesRouter(ctx));
   app.use('/api/runs', createRunsRouter(ctx));
+  app.use('/api', createInspectionRouter(ctx));
+  app.use('/api', createPhotosRouter(ctx));
   // ── end of router mounts ──
 
   app.use('/api', apiNotFound);

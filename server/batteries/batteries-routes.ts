@@ -2,9 +2,11 @@ import { Router } from 'express';
 import type { AppContext } from '../app-context.js';
 import { BatteryInputSchema, BatteryPatchSchema } from '../../shared/schemas/battery.js';
 import { requireRole } from '../auth/guards.js';
-import { notFound } from '../http/http-error.js';
+import { HttpError, notFound } from '../http/http-error.js';
 import { parseBody, parseIdParam } from '../http/validate.js';
 import { BATTERY_OPTIONAL_DEFAULTS, toApiBattery } from '../db/models/battery.js';
+import { linkRunToBattery, RunLinkError } from '../runs/run-battery-link.js';
+import { batteriesCsv } from './batteries-csv.js';
 
 /** /api/batteries: everyone signed in reads; technicians and admins write. */
 export function createBatteriesRouter(ctx: AppContext): Router {
@@ -15,6 +17,13 @@ export function createBatteriesRouter(ctx: AppContext): Router {
   router.get('/', requireRole('viewer'), async (_req, res) => {
     const rows = await Battery.findAll({ order: [['label', 'ASC']] });
     res.json({ batteries: rows.map(toApiBattery) });
+  });
+
+  router.get('/export.csv', requireRole('viewer'), async (_req, res) => {
+    const rows = await Battery.findAll({ order: [['label', 'ASC']] });
+    res.setHeader('Content-Type', 'text/csv; charset=utf-8');
+    res.setHeader('Content-Disposition', 'attachment; filename="battery-register.csv"');
+    res.send(batteriesCsv(rows.map(toApiBattery)));
   });
 
   router.get('/:id', requireRole('viewer'), async (req, res) => {
@@ -32,6 +41,17 @@ export function createBatteriesRouter(ctx: AppContext): Router {
     const row = await findOr404(parseIdParam(req.params.id));
     await row.update(change);
     res.json({ battery: toApiBattery(row) });
+  });
+
+  // Files an already recorded or imported run under this pack (technician).
+  router.put('/:id/runs/:runId', requireRole('technician'), async (req, res) => {
+    const battery = await findOr404(parseIdParam(req.params.id));
+    try {
+      res.json({ run: await linkRunToBattery(ctx.sequelize, parseIdParam(req.params.runId, 'runId'), battery.id) });
+    } catch (error) {
+      if (error instanceof RunLinkError) throw new HttpError(error.reason === 'no-run' ? 404 : 409, error.message);
+      throw error;
+    }
   });
 
   router.delete('/:id', requireRole('technician'), async (req, res) => {

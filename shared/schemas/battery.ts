@@ -8,6 +8,15 @@ export type Chemistry = z.infer<typeof ChemistrySchema>;
 /** Largest series count we accept (a 1000 V pack of LTO cells is still well under this). */
 const MAX_CELLS_IN_SERIES = 600;
 const MAX_CELLS_IN_PARALLEL = 500;
+/** Longest side we accept for a pack, mm (a 10 m string of racks is still under this). */
+const MAX_DIMENSION_MM = 10_000;
+/** Stated cycle life above this is not a claim anyone makes for a chemistry we know. */
+const MAX_CYCLE_LIFE = 100_000;
+/** Longest warranty we accept, months (30 years). */
+const MAX_WARRANTY_MONTHS = 360;
+/** A calendar date, YYYY-MM-DD (the day the lab received the pack). */
+const isoDate = () => z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'a date such as 2026-11-30').refine((d) => !Number.isNaN(Date.parse(`${d}T00:00:00Z`)), 'not a real date');
+const dimensionMm = () => z.number().finite().positive().max(MAX_DIMENSION_MM).nullable().optional();
 
 const optionalText = (max: number) => z.string().trim().max(max).nullable().optional();
 const positive = () => z.number().finite().positive();
@@ -29,6 +38,15 @@ const BatteryFieldsSchema = z.object({
   serialNumber: optionalText(120),
   sender: optionalText(200),
   notes: optionalText(4000),
+  receivedOn: isoDate().nullable().optional(),
+  /** Who owns the pack or asked for the test (the client), when not the sender. */
+  owner: optionalText(200),
+  lengthMm: dimensionMm(),
+  widthMm: dimensionMm(),
+  heightMm: dimensionMm(),
+  terminalType: optionalText(120),
+  statedCycleLife: z.number().int().positive().max(MAX_CYCLE_LIFE).nullable().optional(),
+  warrantyMonths: z.number().int().nonnegative().max(MAX_WARRANTY_MONTHS).nullable().optional(),
 });
 
 /** Fields a technician sends to create a battery pack record (a single cell group by default). */
@@ -55,6 +73,14 @@ export const BatterySchema = BatteryInputSchema.extend({
   serialNumber: z.string().nullable(),
   sender: z.string().nullable(),
   notes: z.string().nullable(),
+  receivedOn: z.string().nullable(),
+  owner: z.string().nullable(),
+  lengthMm: z.number().nullable(),
+  widthMm: z.number().nullable(),
+  heightMm: z.number().nullable(),
+  terminalType: z.string().nullable(),
+  statedCycleLife: z.number().nullable(),
+  warrantyMonths: z.number().nullable(),
   createdAt: z.string(),
   updatedAt: z.string(),
 });

@@ -19,6 +19,14 @@ export interface BatteryRow extends Model<InferAttributes<BatteryRow>, InferCrea
   serialNumber: string | null;
   sender: string | null;
   notes: string | null;
+  receivedOn: string | null;
+  owner: string | null;
+  lengthMm: number | null;
+  widthMm: number | null;
+  heightMm: number | null;
+  terminalType: string | null;
+  statedCycleLife: number | null;
+  warrantyMonths: number | null;
   createdById: number | null;
   createdAt: CreationOptional<Date>;
   updatedAt: CreationOptional<Date>;
@@ -29,11 +37,13 @@ export type BatteryModel = ModelStatic<BatteryRow>;
 export const BATTERY_OPTIONAL_DEFAULTS = {
   model: null, ratedWh: null, bmsRatedAmps: null, massKg: null, price: null,
   priceCurrency: null, serialNumber: null, sender: null, notes: null,
+  receivedOn: null, owner: null, lengthMm: null, widthMm: null, heightMm: null,
+  terminalType: null, statedCycleLife: null, warrantyMonths: null,
 };
 
 const nullable = (type: DataTypes.DataType) => ({ type, allowNull: true, defaultValue: null });
 
-/** Defines the Battery model (table from migration 0001). */
+/** Defines the Battery model (table from migration 0001, register fields from 1000). */
 export function defineBattery(sequelize: Sequelize): BatteryModel {
   return sequelize.define<BatteryRow>(
     'Battery',
@@ -54,6 +64,14 @@ export function defineBattery(sequelize: Sequelize): BatteryModel {
       serialNumber: nullable(DataTypes.STRING(120)),
       sender: nullable(DataTypes.STRING(200)),
       notes: nullable(DataTypes.TEXT),
+      receivedOn: nullable(DataTypes.DATEONLY),
+      owner: nullable(DataTypes.STRING(200)),
+      lengthMm: nullable(DataTypes.DOUBLE),
+      widthMm: nullable(DataTypes.DOUBLE),
+      heightMm: nullable(DataTypes.DOUBLE),
+      terminalType: nullable(DataTypes.STRING(120)),
+      statedCycleLife: nullable(DataTypes.INTEGER),
+      warrantyMonths: nullable(DataTypes.INTEGER),
       createdById: nullable(DataTypes.INTEGER),
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
