@@ -18,11 +18,11 @@ import { attachLive } from './live/attach-live.js';
 
 /** Undoes an attachment (close sockets, stop timers); awaited on server close. */
 export type Detach = () => Promise<void> | void;
-/** Runs once the HTTP server listens: attach a WebSocket server, start bench managers, … */
+/** Runs just before the HTTP server listens: attach a WebSocket server, start bench managers, … */
 export type Attachment = (httpServer: Server, ctx: AppContext) => Promise<Detach | void> | Detach | void;
 
 /**
- * ── ATTACHMENTS: other areas add one line each here (they run in this order after listen,
+ * ── ATTACHMENTS: other areas add one line each here (they run in this order before listen,
  * and are detached in reverse order on close), e.g. ──
  *   attachBenchManager,   (ingest, from ./benches/...)
  *   attachLiveHub,        (live, from ./live/...)
@@ -121,11 +121,13 @@ export async function startServer(options: StartServerOptions = {}): Promise<Run
     const demoSeeded = options.seedDemo ? (await seedDemo(ctx.models, config.demoPassword)).seeded : false;
     const app = createApp(ctx);
     httpServer = createServer(app);
-    const port = await listen(httpServer, wantedPort, host);
+    // Attachments first, then listen: no request is answered before live runs have resumed
+    // (and replayed their journal), so nobody is ever shown a run's totals from before that.
     for (const attach of options.attachments ?? ATTACHMENTS) {
       const detach = await attach(httpServer, ctx);
       if (detach) detaches.push(detach);
     }
+    const port = await listen(httpServer, wantedPort, host);
     const urlHost = host.includes(':') ? `[${host}]` : host;
     return { url: `http://${urlHost}:${port}`, port, httpServer, app, ctx, mariadb, demoSeeded, close };
   } catch (error) {

@@ -22,6 +22,8 @@ export interface ArchiveOptions {
   memoryLimitBytes?: number;
   log?: (message: string) => void;
   sleep?: (ms: number) => Promise<void>;
+  /** Told of every batch once it is in the database (the journal drops what the archive holds). */
+  onArchived?: (batch: ArchiveBatch) => void;
 }
 
 /**
@@ -32,6 +34,7 @@ export interface ArchiveOptions {
 export function createArchiveWriter(sequelize: Sequelize, opts: ArchiveOptions): ArchiveWriter {
   const smallReadings = new Map<number, number>();
   const afterWrite = async (batch: ArchiveBatch) => {
+    opts.onArchived?.(batch);
     const n = (smallReadings.get(batch.runId) ?? 0) + (batch.block?.count ?? 0);
     const ended = batch.patch.endedAt !== undefined;
     if (n >= COMPACT_READINGS || ended) {

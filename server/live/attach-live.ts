@@ -3,6 +3,8 @@ import { join } from 'node:path';
 import type { AppContext } from '../app-context.js';
 import { createArchiveWriter } from '../archive/archive-service.js';
 import { isSameOrigin, sessionUserFromRequest } from '../auth/upgrade-auth.js';
+import { ReadingJournal } from '../journal/reading-journal.js';
+import { replayJournal } from '../journal/replay-journal.js';
 import { batteryLookup } from '../runs/battery-facts.js';
 import { RunRecorder, type FrameFeed } from '../runs/run-recorder.js';
 import { RunsRepo } from '../runs/runs-repo.js';
@@ -20,6 +22,8 @@ export interface LiveOptions {
   /** Where batches go when the database is away; default <dataDir>/spill. */
   spillDir?: string;
   memoryLimitBytes?: number;
+  /** Where the readings journal lives; default <dataDir>/journal. */
+  journalDir?: string;
 }
 
 /**
@@ -30,10 +34,12 @@ export interface LiveOptions {
 export function liveAttachment(options: LiveOptions = {}) {
   return async function attachLive(httpServer: Server, ctx: AppContext): Promise<() => Promise<void>> {
     const repo = new RunsRepo(ctx.sequelize);
+    const journal = new ReadingJournal({ dir: options.journalDir ?? join(ctx.config.dataDir, 'journal'), log: (m) => ctx.log.warn(m) });
     const writer = createArchiveWriter(ctx.sequelize, {
       spillDir: options.spillDir ?? join(ctx.config.dataDir, 'spill'),
       memoryLimitBytes: options.memoryLimitBytes,
       log: (m) => ctx.log.warn(m),
+      onArchived: (batch) => journal.archived(batch.runId, batch.patch.readingsCount ?? 0, batch.patch.endedAt !== undefined),
     });
     const recorder = new RunRecorder({
       repo, writer, getBattery: batteryLookup(ctx), benchExists: (id) => repo.benchExists(id),
@@ -56,13 +62,18 @@ export function liveAttachment(options: LiveOptions = {}) {
       },
     });
     recorder.readings.add((runId, reading) => hub.publishSample({ kind: 'run', id: runId }, reading));
+    recorder.readings.add((runId, reading, index) => journal.append(runId, index, reading));
     recorder.events.add((runId, e) => ('id' in e ? hub.publishStoredEvent(e) : hub.publishEvent(runId, e.event, null)));
     recorder.runChanges.add((run) => hub.publishRun(run));
 
     // Batches an earlier process spilled hold the newest state of its runs: write them first.
     await writer.start();
     await writer.flush();
+    const journalled = await journal.recover();
     await recorder.resume();
+    // Readings the journal kept past what the archive holds go back in before any meter is heard.
+    await replayJournal(journalled, journal, recorder, repo, ctx.log);
+    journal.start();
     const feed = options.feed ?? ctx.services.benchManager;
     const unsubscribe: (() => void)[] = [];
     if (feed) {
@@ -88,6 +99,7 @@ export function liveAttachment(options: LiveOptions = {}) {
       hub.close();
       delete ctx.services.runRecorder;
       await writer.shutdown(SHUTDOWN_FLUSH_MS);
+      await journal.close();
     };
   };
 }

@@ -43,6 +43,13 @@ export interface RunRecorderDeps {
 
 type StartRequest = z.infer<typeof StartRunRequestSchema>;
 
+/** A reading kept outside the archive: its index in the run, its frame on the run's time line, when it arrived (Unix s). */
+export interface KeptReading {
+  index: number;
+  frame: Frame;
+  arrivalS: number;
+}
+
 /**
  * Records live runs: one run per bench at a time. Every frame of a bench with a live run
  * goes through that run's RunSession (the measurement core), out to listeners (the
@@ -56,7 +63,8 @@ export class RunRecorder {
   private readonly starting = new Set<number>();
   private readonly unsubscribe: (() => void)[] = [];
   private timer: unknown = null;
-  readonly readings = new ListenerSet<[runId: number, reading: Reading]>((e) => this.log('run readings listener failed', e));
+  /** Every reading a run accepts, with its index in the run (the archive's sequence number). */
+  readonly readings = new ListenerSet<[runId: number, reading: Reading, index: number]>((e) => this.log('run readings listener failed', e));
   readonly events = new ListenerSet<[runId: number, event: SequencedEvent | StoredRunEvent]>((e) => this.log('run event listener failed', e));
   readonly runChanges = new ListenerSet<[run: Run]>((e) => this.log('run change listener failed', e));
   private readonly log: (message: string, err?: unknown) => void;
@@ -94,6 +102,31 @@ export class RunRecorder {
       }
     }
     return resumed;
+  }
+
+  /**
+   * Pushes readings a sink kept on disk (the journal) back through a resumed run, before
+   * its meter is heard again: those past what the archive holds, in order, as long as the
+   * indexes follow on. Returns how many went in.
+   */
+  replay(runId: number, kept: readonly KeptReading[]): number {
+    const session = this.sessions.get(runId);
+    if (!session) return 0;
+    const expected = kept.filter((k) => k.index >= session.readingsCount).length;
+    let replayed = 0;
+    let last: KeptReading | null = null;
+    for (const k of kept) {
+      if (k.index < session.readingsCount) continue;
+      if (k.index !== session.readingsCount || !this.sessions.has(runId)) break;
+      this.record(session, k.frame);
+      if (session.readingsCount !== k.index + 1) break; // the core refused it: what follows cannot be trusted
+      replayed++;
+      last = k;
+    }
+    if (replayed < expected)
+      this.log(`run ${runId}: replay stopped after ${replayed} of the journalled readings (indexes did not follow on)`);
+    if (last) session.clock.resumeAfter(last.frame.t, last.arrivalS);
+    return replayed;
   }
 
   /** Starts a run on a bench (409 when the bench already records one). */
@@ -225,7 +258,7 @@ export class RunRecorder {
   /** One frame on the run's time line through the core, out to viewers and towards the archive. */
   private record(session: RunSession, frame: Frame): void {
     const out = session.push(frame);
-    if (out.reading) this.readings.emit(session.run.id, out.reading);
+    if (out.reading) this.readings.emit(session.run.id, out.reading, session.readingsCount - 1);
     for (const e of out.events) this.emitEvent(session.run.id, e);
     if (out.stateChanged) this.runChanges.emit(this.liveView(session));
     if (session.shouldFinish()) void this.endSession(session, 'finished').catch((err) => this.log(`run ${session.run.id} did not end cleanly`, err));

@@ -215,9 +215,13 @@ export class RunSession {
       readingsCount: this.snap.nextSeq,
       pipelineState: final ? null : JSON.stringify(this.snapshot()),
     };
+    // The figures go with every batch, so the stored run is never more than one batch behind
+    // what viewers saw (a restart must not show totals from the run's first minute).
+    const summary = this.summary();
+    if (summary) patch.summary = summary;
     if (this.stateDirty || final) {
       patch.state = this.snap.state;
-      patch.summary = this.summary();
+      patch.summary = summary;
       if (final) patch.endedAt = new Date();
     }
     this.stateDirty = false;

@@ -65,6 +65,14 @@ export class SourceClockGuard {
     return { frames: [step > 0 ? this.take(frame, arrivalS) : this.shift(frame)], glitch };
   }
 
+  /** Carries on after a reading replayed from disk (`runT` on the run's time line, as recorded). */
+  resumeAfter(runT: number, arrivalS: number): void {
+    this.state.lastT = runT - this.state.offsetS;
+    this.state.lastArrivalS = arrivalS;
+    this.state.suspect = null;
+    this.state.suspectArrivalS = null;
+  }
+
   private take(frame: Frame, arrivalS: number): Frame {
     this.state.lastT = frame.t;
     this.state.lastArrivalS = arrivalS;

@@ -10,7 +10,8 @@ export function testConfig(database: DatabaseConfig, overrides: Partial<AppConfi
     mode: 'test',
     host: '127.0.0.1',
     port: 0,
-    dataDir: resolve('.data/test-app'),
+    // One data folder per test database: a server's journal and spill never meet another file's runs.
+    dataDir: resolve('.data/test-app', database.database),
     clientDir: resolve('.data/test-app/no-client'),
     db: { ...database, provision: false, mariadbDir: resolve('.data/test-mariadb') },
     sessionSecret: 'test-session-secret-that-is-long-enough-0123456789',

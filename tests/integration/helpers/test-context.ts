@@ -1,3 +1,4 @@
+import { rm } from 'node:fs/promises';
 import type { Express } from 'express';
 import type { Server } from 'node:http';
 import type { AppConfig } from '../../../server/config/config.js';
@@ -83,6 +84,7 @@ export async function createTestContext(options: TestContextOptions = {}): Promi
     close: async () => {
       await server.close();
       await dropTestDatabase(database.database);
+      if (server.ctx.config.dataDir.endsWith(database.database)) await rm(server.ctx.config.dataDir, { recursive: true, force: true });
     },
   };
 }
