@@ -15,6 +15,7 @@ import { watchDatabase, type DatabaseWatch } from './db/database-watch.js';
 import { guardQueries } from './db/query-guard.js';
 import { attachBenchManager } from './benches/attach-bench-manager.js';
 import { attachLive } from './live/attach-live.js';
+import { backupAttachment } from './backup/attach-backups.js';
 
 /** Undoes an attachment (close sockets, stop timers); awaited on server close. */
 export type Detach = () => Promise<void> | void;
@@ -27,7 +28,7 @@ export type Attachment = (httpServer: Server, ctx: AppContext) => Promise<Detach
  *   attachBenchManager,   (ingest, from ./benches/...)
  *   attachLiveHub,        (live, from ./live/...)
  */
-export const ATTACHMENTS: Attachment[] = [attachBenchManager, attachLive];
+export const ATTACHMENTS: Attachment[] = [attachBenchManager, attachLive, backupAttachment()];
 
 /** How to start; everything is optional (defaults: environment config, provisioned MariaDB). */
 export interface StartServerOptions {

@@ -35,4 +35,13 @@ describe('loadConfig', () => {
   it('requires real secrets in production instead of generating them', () => {
     expect(() => loadConfig({ KNEEPOINT_MODE: 'production' }, freshDir())).toThrow(/SESSION_SECRET[\s\S]*KNEEPOINT_DB_PASSWORD/);
   });
+
+  it('reads the backup folder, interval and retention, and refuses nonsense in them', () => {
+    const cwd = freshDir();
+    expect(loadConfig({}, cwd).backup).toEqual({ dir: null, everyMs: 24 * 3_600_000, keep: 7 });
+    expect(loadConfig({ KNEEPOINT_BACKUP_DIR: 'backups', KNEEPOINT_BACKUP_EVERY_HOURS: '6', KNEEPOINT_BACKUP_KEEP: '3' }, cwd).backup)
+      .toEqual({ dir: join(cwd, 'backups'), everyMs: 6 * 3_600_000, keep: 3 });
+    const bad = { KNEEPOINT_BACKUP_DIR: '  ', KNEEPOINT_BACKUP_EVERY_HOURS: '0', KNEEPOINT_BACKUP_KEEP: '0.5' };
+    expect(() => loadConfig(bad, cwd)).toThrow(/KNEEPOINT_BACKUP_DIR[\s\S]*KNEEPOINT_BACKUP_EVERY_HOURS[\s\S]*KNEEPOINT_BACKUP_KEEP/);
+  });
 });

@@ -26,6 +26,8 @@ export interface AppConfig {
   loginMaxFailures: number;
   loginWindowMs: number;
   demoPassword: string;
+  /** Scheduled backups: `dir` null = none (the npm scripts still back up and restore by hand). */
+  backup: { dir: string | null; everyMs: number; keep: number };
 }
 
 const MS_PER_HOUR = 3_600_000;
@@ -76,5 +78,10 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, cwd = process.c
     loginMaxFailures: parsed.KNEEPOINT_LOGIN_MAX_FAILURES,
     loginWindowMs: parsed.KNEEPOINT_LOGIN_WINDOW_MINUTES * MS_PER_MINUTE,
     demoPassword: parsed.KNEEPOINT_DEMO_PASSWORD,
+    backup: {
+      dir: parsed.KNEEPOINT_BACKUP_DIR ? resolve(cwd, parsed.KNEEPOINT_BACKUP_DIR) : null,
+      everyMs: parsed.KNEEPOINT_BACKUP_EVERY_HOURS * MS_PER_HOUR,
+      keep: parsed.KNEEPOINT_BACKUP_KEEP,
+    },
   };
 }

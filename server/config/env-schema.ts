@@ -44,5 +44,9 @@ export const EnvSchema = z.object({
   KNEEPOINT_LOGIN_MAX_FAILURES: z.coerce.number().int().min(1).default(10),
   KNEEPOINT_LOGIN_WINDOW_MINUTES: z.coerce.number().positive().default(15),
   KNEEPOINT_DEMO_PASSWORD: z.string().min(10).default('northgate-demo'),
+  /** Folder for scheduled backups (database dump and uploaded files); unset = no scheduled backups. */
+  KNEEPOINT_BACKUP_DIR: z.string().trim().min(1, 'a folder path, or leave it unset').optional(),
+  KNEEPOINT_BACKUP_EVERY_HOURS: z.coerce.number().positive().max(24 * 31).default(24),
+  KNEEPOINT_BACKUP_KEEP: z.coerce.number().int().min(1).max(1000).default(7),
 });
 export type Env = z.infer<typeof EnvSchema>;

@@ -21,6 +21,7 @@ export function testConfig(database: DatabaseConfig, overrides: Partial<AppConfi
     loginMaxFailures: TEST_LOGIN_MAX_FAILURES,
     loginWindowMs: 60_000,
     demoPassword: 'northgate-demo',
+    backup: { dir: null, everyMs: 24 * 3_600_000, keep: 7 },
     ...overrides,
   };
 }
