@@ -1,6 +1,7 @@
 import express, { type Express } from 'express';
 import type { AppContext } from './app-context.js';
 import { securityHeaders } from './http/security-headers.js';
+import { hostCheck } from './http/host-check.js';
 import { csrfProtection } from './http/csrf.js';
 import { apiNotFound, createErrorHandler } from './http/error-handler.js';
 import { serveClient } from './http/client-static.js';
@@ -19,6 +20,9 @@ import { createRunsRouter } from './runs/runs-routes.js';
 export function createApp(ctx: AppContext): Express {
   const app = express();
   app.disable('x-powered-by');
+  // Whose X-Forwarded-For/-Proto to believe: the sign-in limits key on the client's address.
+  app.set('trust proxy', ctx.config.trustProxy);
+  app.use(hostCheck(ctx.config.allowedHosts));
   app.use(securityHeaders(ctx.config.cookieSecure));
   app.use('/api', express.json({ limit: ctx.config.bodyLimit }));
   app.use('/api', ctx.sessionMiddleware, ctx.passport.initialize(), ctx.passport.session(), csrfProtection);

@@ -1,5 +1,6 @@
 import { resolve } from 'node:path';
 import { EnvSchema, type Env } from './env-schema.js';
+import type { TrustProxySetting } from './proxy-settings.js';
 import { loadOrCreateSecrets } from './secrets.js';
 
 /** Where and how to reach the application database. */
@@ -26,6 +27,10 @@ export interface AppConfig {
   loginMaxFailures: number;
   loginWindowMs: number;
   demoPassword: string;
+  /** Express's `trust proxy`: whose forwarded address and scheme to believe (default nobody). */
+  trustProxy: TrustProxySetting;
+  /** Public host names (or name:port) accepted in the Host header besides the loopback ones. */
+  allowedHosts: string[];
 }
 
 const MS_PER_HOUR = 3_600_000;
@@ -76,5 +81,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, cwd = process.c
     loginMaxFailures: parsed.KNEEPOINT_LOGIN_MAX_FAILURES,
     loginWindowMs: parsed.KNEEPOINT_LOGIN_WINDOW_MINUTES * MS_PER_MINUTE,
     demoPassword: parsed.KNEEPOINT_DEMO_PASSWORD,
+    trustProxy: parsed.KNEEPOINT_TRUST_PROXY,
+    allowedHosts: parsed.KNEEPOINT_ALLOWED_HOSTS,
   };
 }

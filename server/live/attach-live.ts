@@ -73,7 +73,7 @@ export function liveAttachment(options: LiveOptions = {}) {
     const ws = attachWsServer(httpServer, {
       hub,
       authenticate: (req) => sessionUserFromRequest(ctx, req),
-      checkOrigin: isSameOrigin,
+      checkOrigin: (req) => isSameOrigin(req, ctx.config),
       log: (m, e) => ctx.log.error(m, e),
     });
     ctx.services.closeUserSockets = ws.closeUser;

@@ -20,6 +20,8 @@ export function testConfig(database: DatabaseConfig, overrides: Partial<AppConfi
     loginMaxFailures: TEST_LOGIN_MAX_FAILURES,
     loginWindowMs: 60_000,
     demoPassword: 'northgate-demo',
+    trustProxy: false,
+    allowedHosts: [],
     ...overrides,
   };
 }
