@@ -75,6 +75,7 @@ export function liveAttachment(options: LiveOptions = {}) {
       authenticate: (req) => sessionUserFromRequest(ctx, req),
       checkOrigin: (req) => isSameOrigin(req, ctx.config),
       log: (m, e) => ctx.log.error(m, e),
+      warn: (m) => ctx.log.warn(m),
     });
     ctx.services.closeUserSockets = ws.closeUser;
     ctx.services.closeSessionSockets = ws.closeSession;
