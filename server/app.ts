@@ -1,6 +1,7 @@
 import express, { type Express } from 'express';
 import type { AppContext } from './app-context.js';
 import { securityHeaders } from './http/security-headers.js';
+import { hostCheck } from './http/host-check.js';
 import { csrfProtection } from './http/csrf.js';
 import { apiNotFound, createErrorHandler } from './http/error-handler.js';
 import { serveClient } from './http/client-static.js';
@@ -23,6 +24,9 @@ import { createPhotosRouter } from './photos/photos-routes.js';
 export function createApp(ctx: AppContext): Express {
   const app = express();
   app.disable('x-powered-by');
+  // Whose X-Forwarded-For/-Proto to believe: the sign-in limits key on the client's address.
+  app.set('trust proxy', ctx.config.trustProxy);
+  app.use(hostCheck(ctx.config.allowedHosts));
   app.use(securityHeaders(ctx.config.cookieSecure));
   // Health first: it needs no session, so it answers even while the database is away.
   app.get('/api/health', healthRoute(ctx));

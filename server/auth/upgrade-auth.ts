@@ -1,6 +1,8 @@
 import type { IncomingMessage, ServerResponse } from 'node:http';
 import type { Request, Response } from 'express';
 import type { AppContext } from '../app-context.js';
+import type { AppConfig } from '../config/config.js';
+import { isAllowedHost, requestScheme } from '../http/host-check.js';
 import { toPublicUser } from '../db/models/user.js';
 import type { SessionUser } from './session-user.js';
 
@@ -24,12 +26,17 @@ export function sessionUserFromRequest(ctx: AppContext, req: IncomingMessage): P
   });
 }
 
-/** True when the upgrade's Origin header is this server's own origin (blocks cross-site WebSocket hijacking). */
-export function isSameOrigin(req: IncomingMessage): boolean {
+/**
+ * True when the upgrade's Origin is this server's own origin, scheme included (blocks
+ * cross-site WebSocket hijacking, and a page served over plain http reaching an https
+ * install), and its Host is one of the server's names (DNS rebinding).
+ */
+export function isSameOrigin(req: IncomingMessage, config: Pick<AppConfig, 'trustProxy' | 'allowedHosts'>): boolean {
   const origin = req.headers.origin;
-  if (!origin) return false;
+  if (!origin || !isAllowedHost(req.headers.host, config.allowedHosts)) return false;
   try {
-    return new URL(origin).host === req.headers.host;
+    const url = new URL(origin);
+    return url.host === req.headers.host && url.protocol === `${requestScheme(req, config.trustProxy)}:`;
   } catch {
     return false;
   }

@@ -1,5 +1,6 @@
 import { resolve } from 'node:path';
 import { EnvSchema, type Env } from './env-schema.js';
+import type { TrustProxySetting } from './proxy-settings.js';
 import { loadOrCreateSecrets } from './secrets.js';
 
 /** Where and how to reach the application database. */
@@ -28,6 +29,10 @@ export interface AppConfig {
   demoPassword: string;
   /** Scheduled backups: `dir` null = none (the npm scripts still back up and restore by hand). */
   backup: { dir: string | null; everyMs: number; keep: number };
+  /** Express's `trust proxy`: whose forwarded address and scheme to believe (default nobody). */
+  trustProxy: TrustProxySetting;
+  /** Public host names (or name:port) accepted in the Host header besides the loopback ones. */
+  allowedHosts: string[];
 }
 
 const MS_PER_HOUR = 3_600_000;
@@ -83,5 +88,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, cwd = process.c
       everyMs: parsed.KNEEPOINT_BACKUP_EVERY_HOURS * MS_PER_HOUR,
       keep: parsed.KNEEPOINT_BACKUP_KEEP,
     },
+    trustProxy: parsed.KNEEPOINT_TRUST_PROXY,
+    allowedHosts: parsed.KNEEPOINT_ALLOWED_HOSTS,
   };
 }

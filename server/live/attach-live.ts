@@ -85,8 +85,9 @@ export function liveAttachment(options: LiveOptions = {}) {
     const ws = attachWsServer(httpServer, {
       hub,
       authenticate: (req) => sessionUserFromRequest(ctx, req),
-      checkOrigin: isSameOrigin,
+      checkOrigin: (req) => isSameOrigin(req, ctx.config),
       log: (m, e) => ctx.log.error(m, e),
+      warn: (m) => ctx.log.warn(m),
     });
     ctx.services.closeUserSockets = ws.closeUser;
     ctx.services.closeSessionSockets = ws.closeSession;

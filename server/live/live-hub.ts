@@ -33,6 +33,8 @@ interface TopicState {
   topic: Topic;
   pending: LiveSample[];
   recent: LiveSample[];
+  /** `recent` as ReadingColumns JSON, built once for every snapshot until the next reading. */
+  recentJson: string | null;
   lastFlushMs: number;
   timer: unknown;
   subscribers: Set<ClientSender>;
@@ -88,7 +90,9 @@ export class LiveHub {
     client.subscriptions.add(key);
     const status = topic.kind === 'bench' ? this.opts.source.benchStatus(topic.id) : null;
     const run = topic.kind === 'bench' ? (this.opts.source.benchRun?.(topic.id) ?? null) : found!.run;
-    client.send({ type: 'snapshot', topic, status, run, recent: toReadingColumns(state.recent), events: found?.events ?? [] });
+    state.recentJson ??= JSON.stringify(toReadingColumns(state.recent));
+    const head = JSON.stringify({ type: 'snapshot', topic, status, run });
+    client.sendPayload(`${head.slice(0, -1)},"recent":${state.recentJson},"events":${JSON.stringify(found?.events ?? [])}}`);
   }
 
   /** Stops sending a topic to a client. */
@@ -129,6 +133,7 @@ export class LiveHub {
   publishSample(topic: Topic, sample: LiveSample): void {
     const state = this.state(topic);
     state.recent.push(sample);
+    state.recentJson = null;
     if (state.recent.length > RECENT_READINGS) state.recent.splice(0, state.recent.length - RECENT_READINGS);
     if (state.subscribers.size === 0) return;
     state.pending.push(sample);
@@ -197,7 +202,7 @@ export class LiveHub {
     const key = topicKey(topic);
     let s = this.topics.get(key);
     if (!s) {
-      s = { topic, pending: [], recent: [], lastFlushMs: Number.NEGATIVE_INFINITY, timer: null, subscribers: new Set(), ended: false };
+      s = { topic, pending: [], recent: [], recentJson: null, lastFlushMs: Number.NEGATIVE_INFINITY, timer: null, subscribers: new Set(), ended: false };
       this.topics.set(key, s);
     }
     return s;

@@ -4,8 +4,10 @@ import type { Duplex } from 'node:stream';
 import { WebSocketServer, type WebSocket } from 'ws';
 import { ClientMessageSchema, MAX_CLIENT_MESSAGE_BYTES } from '../../shared/schemas/ws.js';
 import type { SessionUser } from '../auth/session-user.js';
+import { CLIENT_BUDGET_BYTES } from './backpressure-policy.js';
 import { ClientSender } from './client-sender.js';
 import { isConnectionFailure } from '../db/connection-errors.js';
+import { CLIENT_MESSAGES_PER_S, MessageRate } from './message-rate.js';
 import type { LiveHub } from './live-hub.js';
 
 export const WS_PATH = '/ws';
@@ -18,10 +20,16 @@ export const SESSION_ENDED_CODE = 1008;
  * sent); from the range RFC 6455 §7.4.2 leaves to applications.
  */
 export const CLIENT_TOO_SLOW_CODE = 4008;
+/** Close code for a client that sends more messages than CLIENT_MESSAGES_PER_S allows (a flood). */
+export const CLIENT_FLOOD_CODE = 4029;
 /** How often every client's backlog is compared with its budget, even when nothing new is sent. */
 export const BUDGET_CHECK_MS = 1_000;
-/** A client closed for its backlog that does not finish the close handshake is cut off after this. */
-export const CLOSE_HANDSHAKE_MS = 2_000;
+/**
+ * A client closed for its backlog that does not finish the close handshake is cut off after
+ * this: long enough for a slow reader to drain up to its hard limit and read the close code,
+ * while nothing more is queued for it meanwhile.
+ */
+export const CLOSE_HANDSHAKE_MS = 10_000;
 const PING_NONCE_BYTES = 8;
 
 export interface WsServerOptions {
@@ -34,6 +42,8 @@ export interface WsServerOptions {
   /** How often backlogs are checked against the budget (default BUDGET_CHECK_MS). */
   budgetCheckMs?: number;
   log?: (message: string, err?: unknown) => void;
+  /** Notable but expected events (a client closed for its backlog). */
+  warn?: (message: string) => void;
 }
 
 function refuse(socket: Duplex, status: number, reason: string): void {
@@ -86,14 +96,21 @@ export function attachWsServer(
   };
 
   const onConnection = (ws: WebSocket, user: SessionUser) => {
+    // Closing is what bounds a client that will not read or will not stop: nothing is dropped silently.
+    const closeClient = (code: number, reason: string, stopReading: boolean) => {
+      opts.hub.removeClient(client);
+      ws.close(code, reason);
+      // A flood still in the socket is left unread rather than parsed only to be ignored.
+      if (stopReading) ws.pause();
+      setTimeout(() => ws.terminate(), CLOSE_HANDSHAKE_MS).unref();
+    };
     const client = new ClientSender(ws, user, {
       onOverBudget: () => {
-        // The bound on a client's memory: it is closed, never silently short of events.
-        opts.hub.removeClient(client);
-        ws.close(CLIENT_TOO_SLOW_CODE, 'Too far behind: not reading what the server sends');
-        setTimeout(() => ws.terminate(), CLOSE_HANDSHAKE_MS).unref();
+        opts.warn?.(`ws: closed a client of user ${user.id} with code ${CLIENT_TOO_SLOW_CODE}: ${ws.bufferedAmount} bytes were waiting (budget ${CLIENT_BUDGET_BYTES})`);
+        closeClient(CLIENT_TOO_SLOW_CODE, 'Too far behind: not reading what the server sends', false);
       },
     });
+    const rate = new MessageRate();
     senders.set(ws, client);
     awaitedPong.set(ws, null);
     ws.on('pong', (data) => {
@@ -106,8 +123,12 @@ export function attachWsServer(
     });
     ws.on('error', () => ws.terminate());
     ws.on('message', (data, isBinary) => {
-      // A client being closed for its backlog gets nothing more, so its requests are not served.
+      // A client being closed gets nothing more, so its requests are not served.
       if (!client.isOpen) return;
+      if (!rate.take()) {
+        opts.warn?.(`ws: closed a client of user ${user.id} with code ${CLIENT_FLOOD_CODE}: more than ${CLIENT_MESSAGES_PER_S} messages a second`);
+        return closeClient(CLIENT_FLOOD_CODE, 'Too many messages', true);
+      }
       let parsed: unknown;
       try {
         parsed = isBinary ? null : JSON.parse(String(data));

@@ -47,8 +47,30 @@ describe('WebSocket upgrade authentication', () => {
 
   it('accepts only our own Origin', () => {
     const host = new URL(t.url).host;
-    expect(isSameOrigin(upgradeRequest({ origin: `http://${host}` }))).toBe(true);
-    expect(isSameOrigin(upgradeRequest({ origin: 'http://evil.example' }))).toBe(false);
-    expect(isSameOrigin(upgradeRequest({}))).toBe(false);
+    expect(isSameOrigin(upgradeRequest({ origin: `http://${host}` }), t.ctx.config)).toBe(true);
+    expect(isSameOrigin(upgradeRequest({ origin: 'http://evil.example' }), t.ctx.config)).toBe(false);
+    expect(isSameOrigin(upgradeRequest({}), t.ctx.config)).toBe(false);
+  });
+
+  it('compares the scheme too: an https page is not the origin of a plain http server, nor the reverse', () => {
+    const host = new URL(t.url).host;
+    expect(isSameOrigin(upgradeRequest({ origin: `https://${host}` }), t.ctx.config)).toBe(false);
+    // Behind a trusted TLS proxy the request arrived as https: only an https origin matches.
+    const behindProxy = { trustProxy: ['loopback'], allowedHosts: [] };
+    const viaProxy = (headers: Record<string, string>) => {
+      const req = upgradeRequest({ 'x-forwarded-proto': 'https', ...headers });
+      Object.defineProperty(req.socket, 'remoteAddress', { value: '127.0.0.1' });
+      return req;
+    };
+    expect(isSameOrigin(viaProxy({ origin: `https://${host}` }), behindProxy)).toBe(true);
+    expect(isSameOrigin(viaProxy({ origin: `http://${host}` }), behindProxy)).toBe(false);
+    // The same header from a peer that is not a trusted proxy is ignored.
+    expect(isSameOrigin(viaProxy({ origin: `https://${host}` }), { trustProxy: ['10.0.0.5'], allowedHosts: [] })).toBe(false);
+  });
+
+  it('refuses a Host that is not one of the server names, even with a matching Origin (DNS rebinding)', () => {
+    const rebound = upgradeRequest({ host: 'rebind.example:8080', origin: 'http://rebind.example:8080' });
+    expect(isSameOrigin(rebound, t.ctx.config)).toBe(false);
+    expect(isSameOrigin(rebound, { trustProxy: false, allowedHosts: ['rebind.example'] })).toBe(true);
   });
 });

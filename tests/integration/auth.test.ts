@@ -160,3 +160,52 @@ describe('login rate limiting', () => {
   });
 });
 
+
+describe('host names and proxies', () => {
+  it('answers only to loopback names by default, and to the configured public names', async () => {
+    await request(t.url).get('/api/auth/csrf').set('Host', 'rebind.example').expect(400);
+    await request(t.url).get('/').set('Host', 'rebind.example:8080').expect(400);
+    await request(t.url).get('/api/auth/csrf').set('Host', 'localhost:8080').expect(200);
+    await request(t.url).get('/api/auth/csrf').set('Host', '[::1]:8080').expect(200);
+    const named = await createTestContext({ users: false, config: { allowedHosts: ['lab.example.org', 'bench-pc:8443'] } });
+    try {
+      await request(named.url).get('/api/auth/csrf').set('Host', 'LAB.example.org').expect(200);
+      await request(named.url).get('/api/auth/csrf').set('Host', 'bench-pc:8443').expect(200);
+      await request(named.url).get('/api/auth/csrf').set('Host', 'bench-pc:9000').expect(400);
+      const refused = await request(named.url).get('/api/auth/csrf').set('Host', 'evil.example').expect(400);
+      expect(refused.body.error.message).toMatch(/KNEEPOINT_ALLOWED_HOSTS/);
+    } finally {
+      await named.close();
+    }
+  });
+
+  const lockFrom = async (target: TestContext, forwardedFor: string) => {
+    const agent = await csrfAgent(target);
+    for (let attempt = 0; attempt < TEST_LOGIN_MAX_FAILURES; attempt += 1) {
+      await agent.post('/api/auth/login').set('X-Forwarded-For', forwardedFor).send({ email: TEST_USERS.admin.email, password: `wrong-${attempt}` }).expect(401);
+    }
+  };
+
+  it('behind a trusted proxy, a lockout holds for the attacking client address only', async () => {
+    const proxied = await createTestContext({ users: true, config: { trustProxy: ['loopback'] } });
+    try {
+      await lockFrom(proxied, '203.0.113.7');
+      const agent = await csrfAgent(proxied);
+      await agent.post('/api/auth/login').set('X-Forwarded-For', '203.0.113.7').send({ email: TEST_USERS.admin.email, password: TEST_PASSWORD }).expect(429);
+      await agent.post('/api/auth/login').set('X-Forwarded-For', '198.51.100.20').send({ email: TEST_USERS.admin.email, password: TEST_PASSWORD }).expect(200);
+    } finally {
+      await proxied.close();
+    }
+  });
+
+  it('without trust proxy, a forged X-Forwarded-For does not escape the lockout', async () => {
+    const direct = await createTestContext({ users: true });
+    try {
+      await lockFrom(direct, '203.0.113.7');
+      const agent = await csrfAgent(direct);
+      await agent.post('/api/auth/login').set('X-Forwarded-For', '198.51.100.20').send({ email: TEST_USERS.admin.email, password: TEST_PASSWORD }).expect(429);
+    } finally {
+      await direct.close();
+    }
+  });
+});

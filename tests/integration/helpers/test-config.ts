@@ -22,6 +22,8 @@ export function testConfig(database: DatabaseConfig, overrides: Partial<AppConfi
     loginWindowMs: 60_000,
     demoPassword: 'northgate-demo',
     backup: { dir: null, everyMs: 24 * 3_600_000, keep: 7 },
+    trustProxy: false,
+    allowedHosts: [],
     ...overrides,
   };
 }
