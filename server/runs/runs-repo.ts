@@ -20,6 +20,7 @@ export const RunConfigSchema = z.object({
   targetAh: z.number().nullable(),
   targetWh: z.number().nullable(),
   afterRecoverySeconds: z.number(),
+  protectionEndsTest: z.boolean().optional(),
   /** Absent in runs stored before gap limits could be typed: the source's cadence decides. */
   maxGapSeconds: z.number().nullable().optional(),
 });
