@@ -206,3 +206,23 @@ describe('incomplete runs', () => {
     expect(run({ ...LFP_8S, ratedAh: 50 }, frames, { ended: false }).summary).toMatchObject({ capacityEndedBy: 'in-progress', verdict: 'incomplete' });
   });
 });
+
+describe('test rate and temperature beside the verdict', () => {
+  // IEC 61960-3 rates capacity at 0.2 It A and 20 ± 5 °C (from memory); the ±10 % rate tolerance is ours.
+  const frames = (amps: number, tempC: number): Frame[] => trace(0, 600, () => ({ volts: 25, amps, temps: { cell: tempC } }));
+  it('10 A from a 50 Ah pack at 24 °C: 0.2 C, nothing flagged', () => {
+    const { summary } = run({ ...LFP_8S, ratedAh: 50 }, frames(10, 24));
+    expect(summary.cRate!).toBeCloseTo(0.2, 12); // definition of C-rate: 10 A ÷ 50 Ah
+    expect(summary).toMatchObject({ testMinTempCelsius: 24, testMaxTempCelsius: 24, rateOutsideStandard: false, tempOutsideStandard: false });
+  });
+  it('25 A at 31 °C: 0.5 C, both flagged; a rest at 40 °C before the load does not count', () => {
+    const hotRest = trace(0, 100, () => ({ volts: 26, amps: 0, temps: { cell: 40 } }));
+    const load = frames(25, 31).map((f) => ({ ...f, t: f.t + 101 }));
+    const { summary } = run({ ...LFP_8S, ratedAh: 50 }, [...hotRest, ...load]);
+    expect(summary).toMatchObject({ testMaxTempCelsius: 31, rateOutsideStandard: true, tempOutsideStandard: true });
+  });
+  it('no rating or no temperature channel: not known, not "within"', () => {
+    const { summary } = run(LFP_8S, trace(0, 600, () => ({ volts: 25, amps: 10 })));
+    expect(summary).toMatchObject({ cRate: null, rateOutsideStandard: null, tempOutsideStandard: null, testMinTempCelsius: null });
+  });
+});

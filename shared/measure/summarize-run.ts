@@ -11,6 +11,7 @@ import { correctedAhAt25C } from './lead-acid-correction.js';
 import { resolveGapLimit } from './gap-limit.js';
 import { capacityResult, COMPLETE_ENDS } from './capacity-result.js';
 import { resolveDetectorSettings } from './detector-settings.js';
+import { testConditionFlags } from './test-conditions.js';
 
 /** What summarizeRun needs beyond the pipeline's own state. */
 export interface SummarizeRunInput {
@@ -61,6 +62,9 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
   const basis = input.verdictBasis ?? 'ah';
   const percents = basis === 'both' ? [percentRatedAh, percentRatedWh] : basis === 'wh' ? [percentRatedWh] : [percentRatedAh ?? percentRatedWh];
   const acceptancePercent = input.acceptancePercent ?? DEFAULT_ACCEPTANCE_PERCENT;
+  const rate = cRate(meanAmps, cfg.ratedAh);
+  const testMinTempCelsius = snapshot.stats.loadMinTempCelsius ?? null;
+  const testMaxTempCelsius = snapshot.stats.loadMaxTempCelsius ?? null;
   const verdict = COMPLETE_ENDS.has(capacity.endedBy) ? verdictFor(percents, acceptancePercent) : 'incomplete';
   const ir = input.readings ? internalResistanceFromSteps(input.readings).medianOhms : null;
   const leadTemp = input.leadAcidTempCelsius ?? null;
@@ -101,7 +105,10 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
     cutoffCause: cutoff?.cause ?? null,
     cutoffVolts: cutoff?.volts ?? null,
     recoverySeconds: recovery?.recoverySeconds ?? null,
-    cRate: cRate(meanAmps, cfg.ratedAh),
+    cRate: rate,
+    testMinTempCelsius,
+    testMaxTempCelsius,
+    ...testConditionFlags(rate, testMinTempCelsius, testMaxTempCelsius),
     costPerKWh: costPerKWh(input.price, deliveredWh),
     whPerKg: whPerKg(deliveredWh, input.massKg),
     roundTripEfficiency: roundTripEfficiency(totals.dischargeWh, totals.chargeWh),

@@ -90,8 +90,17 @@ export const RunSummarySchema = z
     cutoffVolts: finite.nullable(),
     /** Reconnect time of the first protection trip. */
     recoverySeconds: nonNeg.nullable(),
-    /** Mean discharge amps ÷ rated Ah. */
+    /** Mean discharge amps under load ÷ rated Ah: the test rate. */
     cRate: finite.nullable(),
+    /** Temperature range under load (any channel), °C: the test temperature. */
+    testMinTempCelsius: finite.nullable().default(null),
+    testMaxTempCelsius: finite.nullable().default(null),
+    /**
+     * Rate or temperature outside what IEC 61960-3 rates capacity at (0.2 C ± 10 %, 20 ± 5 °C;
+     * the standard from memory, the rate tolerance ours); null when not known.
+     */
+    rateOutsideStandard: z.boolean().nullable().default(null),
+    tempOutsideStandard: z.boolean().nullable().default(null),
     costPerKWh: finite.nullable(),
     whPerKg: finite.nullable(),
     /** Discharge Wh ÷ charge Wh when both halves are in the run. */
