@@ -82,6 +82,32 @@ describe('RunSession', () => {
     expect(s.push({ t: 60, volts: 12, amps: 5, clock: 'device' }).events).toHaveLength(0);
     expect(s.summary()).toMatchObject({ maxGapSeconds: 90, gapLimitBasis: 'explicit' });
   });
+
+  it('a load that stops itself at exactly the end voltage ends an after-recovery run (was a "protection" cutoff that never finished)', () => {
+    const s = session({ stopWhen: 'after-recovery', afterRecoverySeconds: 5 });
+    // 5 A; volts fall 10.5 → 10.0 V (the end voltage, reached exactly at t = 50), then the load stops and the pack rests at 10.4 V.
+    for (let t = 0; t <= 80; t++) s.push({ t, volts: t <= 50 ? 10.5 - t / 100 : 10.4, amps: t <= 50 ? 5 : 0, clock: 'device' });
+    expect(s.summary()).toMatchObject({ cutoffCause: 'end-voltage', capacityEndedBy: 'end-voltage' });
+    expect(s.shouldFinish()).toBe(true);
+  });
+
+  it('a protection trip that reconnects does not finish an after-recovery run unless the run says a trip ends the test', () => {
+    const feed = (s: RunSession) => {
+      for (let t = 0; t <= 300; t++) {
+        const open = t > 100 && t <= 160;
+        s.push({ t, volts: open ? 0.05 : 12, amps: open ? 0 : 5, clock: 'device' });
+      }
+    };
+    const runsOn = session({ stopWhen: 'after-recovery', afterRecoverySeconds: 10 });
+    feed(runsOn);
+    expect(runsOn.state).toBe('recovered');
+    expect(runsOn.shouldFinish()).toBe(false);
+    expect(runsOn.summary().protectionTripCount).toBe(1);
+    const ends = session({ stopWhen: 'after-recovery', afterRecoverySeconds: 10, protectionEndsTest: true });
+    feed(ends);
+    expect(ends.shouldFinish()).toBe(true);
+    expect(ends.summary().capacityEndedBy).toBe('protection');
+  });
 });
 
 describe('RunSession across restarts', () => {

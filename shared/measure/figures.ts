@@ -16,11 +16,25 @@ export function percentOfRated(delivered: number | null | undefined, rated: numb
   return (delivered / rated) * PERCENT;
 }
 
-/** Pass when every known percentage is ≥ the acceptance %; `unrated` when none is known. */
+/** Decimals a percentage of rated is shown with. */
+export const PERCENT_DECIMALS = 1;
+const PERCENT_SCALE = 10 ** PERCENT_DECIMALS;
+/** Slack for binary rounding (10 Ah integrated to 9.999999999999 Ah is 100.0 %, not 99.9 %). */
+const PERCENT_ROUNDING_SLACK = 1e-6;
+
+/**
+ * A percentage of rated as it is shown and judged: rounded down to 0.1 %, so 99.99 % shows
+ * 99.9 % and fails a 100 % acceptance; "100.0 %" never stands beside a fail.
+ */
+export function percentShown(percent: number): number {
+  return Math.floor(percent * PERCENT_SCALE + PERCENT_ROUNDING_SLACK) / PERCENT_SCALE;
+}
+
+/** Pass when every known percentage, as shown (percentShown), is ≥ the acceptance %; `unrated` when none is known. */
 export function verdictFor(percents: ReadonlyArray<number | null>, acceptancePercent = DEFAULT_ACCEPTANCE_PERCENT): Verdict {
   const known = percents.filter((p): p is number => p !== null);
   if (known.length === 0) return 'unrated';
-  return known.every((p) => p >= acceptancePercent) ? 'pass' : 'fail';
+  return known.every((p) => percentShown(p) >= acceptancePercent) ? 'pass' : 'fail';
 }
 
 /** C-rate: current ÷ rated Ah (0.2 C for 10 A from a 50 Ah pack). */

@@ -5,9 +5,10 @@ const VERDICT = {
   pass: { label: 'Pass', color: TONE_COLORS.good },
   fail: { label: 'Fail', color: TONE_COLORS.fault },
   unrated: { label: 'Unrated', color: TONE_COLORS.over },
+  incomplete: { label: 'Incomplete', color: TONE_COLORS.caution },
 } as const;
 
-/** Pass / fail / unrated in the palette's tones (good, fault, over), text in the theme's on-tone colour. */
+/** Pass / fail / unrated / incomplete in the palette's tones (good, fault, over, caution), text in the theme's on-tone colour. */
 export function VerdictBadge({ verdict, large }: { verdict: Verdict; large?: boolean }) {
   const v = VERDICT[verdict];
   return (
