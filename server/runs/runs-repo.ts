@@ -18,6 +18,8 @@ export const RunConfigSchema = z.object({
   targetAh: z.number().nullable(),
   targetWh: z.number().nullable(),
   afterRecoverySeconds: z.number(),
+  /** Lead-acid: initial electrolyte temperature, °C, for the correction to 25 °C (absent on older runs). */
+  electrolyteTempCelsius: z.number().nullable().optional(),
 });
 export type RunConfig = z.infer<typeof RunConfigSchema>;
 
