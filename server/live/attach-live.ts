@@ -36,7 +36,8 @@ export function liveAttachment(options: LiveOptions = {}) {
       log: (m) => ctx.log.warn(m),
     });
     const recorder = new RunRecorder({
-      repo, writer, getBattery: batteryLookup(ctx), benchExists: (id) => repo.benchExists(id), log: (m, e) => ctx.log.error(m, e),
+      repo, writer, getBattery: batteryLookup(ctx), benchExists: (id) => repo.benchExists(id),
+      benchSourceFacts: (id) => repo.benchSourceFacts(id), log: (m, e) => ctx.log.error(m, e),
     });
     const hub = new LiveHub({
       source: {

@@ -11,7 +11,6 @@ import { encodeChunk } from '../archive/chunk-encode.js';
 import { readingsToColumns } from '../archive/reading-columns.js';
 import { HttpError } from '../http/http-error.js';
 import { csvRecords, sniffDelimiter } from './import-csv.js';
-import { importGapSeconds } from './import-gap.js';
 import { createRowParser, type ColumnOverrides } from './import-headers.js';
 import { importNotices } from './import-notices.js';
 import { decideCurrentSign, type SignDecision } from './import-sign.js';
@@ -62,7 +61,6 @@ export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: Impor
   const survey = await surveyFile(req.filePath, delimiter, req.columns, req.timeZone ?? 'UTC');
   const { plan, rows, duplicates, medianStepS } = survey;
   const sign = settleSign(req, survey.sign);
-  const maxGapSeconds = req.maxGapSeconds ?? importGapSeconds(medianStepS);
   const config: RunConfig = {
     kind: 'capacity-discharge',
     endVolts: req.endVolts ? { mode: 'absolute', volts: req.endVolts } : null,
@@ -73,6 +71,7 @@ export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: Impor
     targetWh: null,
     afterRecoverySeconds: 0,
     electrolyteTempCelsius: electrolyte ?? null,
+    maxGapSeconds: req.maxGapSeconds ?? null,
   };
   // "Started" is the first reading when the file says when that was.
   const startedAt = isAbsoluteTime(plan.time.format, survey.firstT) ? new Date(survey.firstT * 1000) : null;
@@ -81,7 +80,9 @@ export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: Impor
     state: 'recording', config, createdById: req.userId, startedAt,
   });
   try {
-    const pipeline = createRunPipeline({ ...measureConfigFor(config, req.battery), maxGapSeconds });
+    // Gaps are judged against the file's own cadence (its median interval) unless a limit was typed.
+    const pipeline = createRunPipeline(measureConfigFor(config, req.battery, { cadenceSeconds: medianStepS }));
+    const maxGapSeconds = pipeline.gapLimit.seconds;
     const events: RunEvent[] = [];
     let pending: Reading[] = [];
     let seq = 0;

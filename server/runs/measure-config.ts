@@ -15,8 +15,14 @@ export interface BatteryFacts {
   massKg: number | null;
 }
 
-/** Builds the measurement core's config from a run's settings and its battery. */
-export function measureConfigFor(config: RunConfig, battery: BatteryFacts | null): MeasureConfigInput {
+/** What a run needs to know of where its readings come from (a bench's source, or an imported file). */
+export interface SourceFacts {
+  /** The source's own interval between readings, s (a poll period or a log's median interval); null = unknown. */
+  cadenceSeconds: number | null;
+}
+
+/** Builds the measurement core's config from a run's settings, its battery and its source. */
+export function measureConfigFor(config: RunConfig, battery: BatteryFacts | null, source: SourceFacts | null = null): MeasureConfigInput {
   // The core knows fewer chemistries than the battery form offers; the rest count as "other".
   const chemistry = battery ? (ChemistrySchema.safeParse(battery.chemistry).data ?? 'other') : undefined;
   const out: MeasureConfigInput = {
@@ -33,5 +39,8 @@ export function measureConfigFor(config: RunConfig, battery: BatteryFacts | null
   }
   if (config.alarms.nearEndMarginVolts !== undefined) out.warnMarginVolts = config.alarms.nearEndMarginVolts;
   if (config.tempProtections?.length) out.tempProtections = config.tempProtections;
+  // A limit typed on the run wins; otherwise the core derives it from the source's cadence.
+  if (config.maxGapSeconds != null) out.maxGapSeconds = config.maxGapSeconds;
+  if (source?.cadenceSeconds != null) out.cadenceSeconds = source.cadenceSeconds;
   return out;
 }

@@ -7,7 +7,7 @@ import type { z } from 'zod';
 import type { ArchiveWriter } from '../archive/archive-writer.js';
 import { HttpError, notFound } from '../http/http-error.js';
 import { ListenerSet } from '../ingest/listener-set.js';
-import { measureConfigFor, type BatteryFacts } from './measure-config.js';
+import { measureConfigFor, type BatteryFacts, type SourceFacts } from './measure-config.js';
 import { RunSession, type RunSessionSnapshot, type SequencedEvent } from './run-session.js';
 import type { RunsRepo } from './runs-repo.js';
 
@@ -31,6 +31,8 @@ export interface RunRecorderDeps {
   getBattery: (id: number) => Promise<BatteryFacts | null>;
   /** Checks a bench id before a run starts on it (default: any id is taken). */
   benchExists?: (id: number) => Promise<boolean>;
+  /** What a bench's source says of its pace (its poll period), for the run's gap limit; default: nothing known. */
+  benchSourceFacts?: (id: number) => Promise<SourceFacts | null>;
   log?: (message: string, err?: unknown) => void;
   /** Injected timer (tests drive flushes by hand with `flushAll`). */
   setInterval?: (fn: () => void, ms: number) => { unref?: () => void };
@@ -82,7 +84,8 @@ export class RunRecorder {
         const previous = raw ? (JSON.parse(raw) as RunSessionSnapshot) : undefined;
         const battery = run.batteryId ? await this.deps.getBattery(run.batteryId) : null;
         const past = (await this.deps.repo.events(run.id)).map((e) => e.event);
-        const session = new RunSession(run, battery, measureConfigFor(run, battery), previous, past);
+        const source = run.benchId !== null ? await this.sourceFacts(run.benchId) : null;
+        const session = new RunSession(run, battery, measureConfigFor(run, battery, source), previous, past);
         this.register(session);
         resumed.push(run);
         this.log(`run ${run.id} resumed at ${session.readingsCount} readings`);
@@ -114,12 +117,16 @@ export class RunRecorder {
     const run = await this.deps.repo.create({
       name, tags, origin: 'live', benchId, batteryId, state: 'armed', config, createdById: userId, startedAt: new Date(),
     });
-    const session = new RunSession(run, battery, measureConfigFor(config, battery));
+    const session = new RunSession(run, battery, measureConfigFor(config, battery, await this.sourceFacts(benchId)));
     this.register(session);
     this.emitEvent(run.id, session.addEvent({ type: 'run-start', t: 0 }));
     this.deps.writer.enqueue(session.takeBatch());
     this.runChanges.emit(run);
     return run;
+  }
+
+  private async sourceFacts(benchId: number): Promise<SourceFacts | null> {
+    return this.deps.benchSourceFacts ? this.deps.benchSourceFacts(benchId) : null;
   }
 
   /** Stops a live run: finished, or aborted when `abort`. */

@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import type { Run } from '../../shared/schemas/run.js';
 import { measureConfigFor } from './measure-config.js';
 import { RunSession } from './run-session.js';
+import { SerialSourceConfigSchema, sourceCadenceSeconds } from '../../shared/schemas/bench.js';
 
 const baseRun = (over: Partial<Run> = {}): Run => ({
   id: 1, name: 'r', tags: [], origin: 'live', benchId: 1, batteryId: null, kind: 'capacity-discharge', state: 'armed',
@@ -58,5 +59,27 @@ describe('RunSession', () => {
     // 8 s at 1 A across the hand-over: 8/3600 Ah.
     expect(resumed.pipeline.totals().dischargeAh).toBeCloseTo(8 / 3600, 15);
     expect(s.hasPending()).toBe(false);
+  });
+
+  it('integrates a meter polled every 60 s: the gap limit comes from the bench\'s poll period', () => {
+    // Analytic: 5 A for 1 h = 5 Ah. The bench polls a SCPI meter once a minute (pollMs 60,000, the most a bench allows).
+    const source = SerialSourceConfigSchema.parse({ kind: 'serial', path: '/dev/ttyUSB0', format: { kind: 'scpi', pollMs: 60_000 } });
+    const cadenceSeconds = sourceCadenceSeconds(source);
+    expect(cadenceSeconds).toBe(60);
+    const run = baseRun({ endVolts: null });
+    const s = new RunSession(run, null, measureConfigFor(run, null, { cadenceSeconds }));
+    const events: string[] = [];
+    for (let t = 0; t <= 3600; t += 60) events.push(...s.push({ t, volts: 12, amps: 5, clock: 'device' }).events.map((e) => e.event.type));
+    expect(s.pipeline.totals().dischargeAh).toBeCloseTo(5, 12);
+    expect(events).not.toContain('gap');
+    expect(s.summary()).toMatchObject({ maxGapSeconds: 180, gapLimitBasis: 'cadence' });
+  });
+
+  it('takes a gap limit typed on the run over the bench\'s cadence', () => {
+    const run = baseRun({ endVolts: null, maxGapSeconds: 90 });
+    const s = new RunSession(run, null, measureConfigFor(run, null, { cadenceSeconds: 1 }));
+    s.push({ t: 0, volts: 12, amps: 5, clock: 'device' });
+    expect(s.push({ t: 60, volts: 12, amps: 5, clock: 'device' }).events).toHaveLength(0);
+    expect(s.summary()).toMatchObject({ maxGapSeconds: 90, gapLimitBasis: 'explicit' });
   });
 });

@@ -71,7 +71,7 @@ export class RunSession {
       ? { ...previous }
       : { nextSeq: 0, nextEventSeq: 0, state: run.state, recoveredAt: null, cutoffAt: null, cutoffCause: null, lastElapsed: null, tempAlarmRaised: false };
     this.snap.clock ??= emptyClockState();
-    this.clock = new SourceClockGuard(this.pipeline.config.maxGapSeconds, this.snap.clock);
+    this.clock = new SourceClockGuard(this.pipeline.gapLimit.seconds, this.snap.clock);
   }
 
   get state(): RunState {

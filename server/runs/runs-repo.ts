@@ -5,7 +5,9 @@ import { RunEventSchema, type RunEvent } from '../../shared/schemas/run-event.js
 import { RunSummarySchema } from '../../shared/schemas/run-summary.js';
 import { TempProtectionSchema } from '../../shared/schemas/measure-config.js';
 import { EndVoltsSchema, RunAlarmsSchema, RunKindSchema, StopWhenSchema, LIVE_RUN_STATES, type Run, type RunState } from '../../shared/schemas/run.js';
+import { BenchSourceConfigSchema, sourceCadenceSeconds } from '../../shared/schemas/bench.js';
 import { utcDateTime } from '../db/utc-datetime.js';
+import type { SourceFacts } from './measure-config.js';
 
 /** Settings of a run kept together in the `config` column (JSON). */
 export const RunConfigSchema = z.object({
@@ -18,6 +20,8 @@ export const RunConfigSchema = z.object({
   targetAh: z.number().nullable(),
   targetWh: z.number().nullable(),
   afterRecoverySeconds: z.number(),
+  /** Absent in runs stored before gap limits could be typed: the source's cadence decides. */
+  maxGapSeconds: z.number().nullable().optional(),
   /** Lead-acid: initial electrolyte temperature, °C, for the correction to 25 °C (absent on older runs). */
   electrolyteTempCelsius: z.number().nullable().optional(),
 });
@@ -173,6 +177,20 @@ export class RunsRepo {
   async benchExists(id: number): Promise<boolean> {
     const rows = await this.sequelize.query('SELECT id FROM benches WHERE id = ?', { replacements: [id], type: QueryTypes.SELECT });
     return rows.length > 0;
+  }
+
+  /** What a run needs of a bench's source (its poll period), or null when there is no such bench. */
+  async benchSourceFacts(id: number): Promise<SourceFacts | null> {
+    const rows = await this.sequelize.query<{ source: string }>('SELECT source FROM benches WHERE id = ?', { replacements: [id], type: QueryTypes.SELECT });
+    if (rows.length === 0) return null;
+    let raw: unknown = null;
+    try {
+      raw = JSON.parse(rows[0]!.source);
+    } catch {
+      // A stored source that no longer reads has no known cadence; the run falls back to the default limit.
+    }
+    const source = BenchSourceConfigSchema.safeParse(raw);
+    return { cadenceSeconds: source.success ? sourceCadenceSeconds(source.data) : null };
   }
 
   /** Every event of a run in time order. */

@@ -1,6 +1,7 @@
 import type { RunTotals } from '../schemas/reading.js';
 import { addTo } from './compensated-sum.js';
 import { splitPanel } from './trapezoid.js';
+import { DEFAULT_MAX_GAP_SECONDS, resolveGapLimit, type GapLimitInput } from './gap-limit.js';
 import {
   createIntegratorState, integratorTotals, IntegratorStateSchema, type IntegratorState,
 } from './integrator-state.js';
@@ -10,8 +11,7 @@ export { createIntegratorState, integratorTotals, IntegratorStateSchema, rejecte
 /** What happened to one frame: integrated, first of the run, after a gap, or refused. */
 export type StepOutcome = 'integrated' | 'first' | 'gap' | 'non-finite' | 'backwards' | 'duplicate';
 
-/** Default gap limit: a meter silent for longer than this is a gap, not a straight line. */
-export const DEFAULT_MAX_GAP_SECONDS = 30;
+export { DEFAULT_MAX_GAP_SECONDS, DEFAULT_GAP_FACTOR, MIN_GAP_SECONDS, resolveGapLimit, type GapLimit, type GapLimitBasis, type GapLimitInput } from './gap-limit.js';
 
 // Scratch for splitPanel: one allocation for the module, not one per reading.
 const panel: [number, number] = [0, 0];
@@ -62,9 +62,8 @@ export function integrateStep(s: IntegratorState, t: number, volts: number, amps
   return outcome;
 }
 
-/** Options for integrating whole arrays. */
-export interface IntegrateOptions {
-  maxGapSeconds?: number;
+/** Options for integrating whole arrays; the gap limit is resolved as resolveGapLimit says. */
+export interface IntegrateOptions extends GapLimitInput {
   /** Continue from this state (it is not modified). */
   from?: IntegratorState;
 }
@@ -79,9 +78,10 @@ export interface Sample {
 /** Integrates an array of samples in one pass; returns the totals and the final state. */
 export function integrateSamples(samples: ArrayLike<Sample>, options: IntegrateOptions = {}): RunTotals & { state: IntegratorState } {
   const s = options.from ? IntegratorStateSchema.parse(structuredClone(options.from)) : createIntegratorState();
+  const gapSeconds = resolveGapLimit(options).seconds;
   for (let i = 0; i < samples.length; i++) {
     const x = samples[i]!;
-    integrateStep(s, x.t, x.volts, x.amps, options.maxGapSeconds);
+    integrateStep(s, x.t, x.volts, x.amps, gapSeconds);
   }
   return { ...integratorTotals(s), state: s };
 }
@@ -90,6 +90,7 @@ export function integrateSamples(samples: ArrayLike<Sample>, options: IntegrateO
 export function integrateColumns(t: ArrayLike<number>, volts: ArrayLike<number>, amps: ArrayLike<number>, options: IntegrateOptions = {}): RunTotals & { state: IntegratorState } {
   if (t.length !== volts.length || t.length !== amps.length) throw new RangeError('integrateColumns: columns differ in length');
   const s = options.from ? IntegratorStateSchema.parse(structuredClone(options.from)) : createIntegratorState();
-  for (let i = 0; i < t.length; i++) integrateStep(s, t[i]!, volts[i]!, amps[i]!, options.maxGapSeconds);
+  const gapSeconds = resolveGapLimit(options).seconds;
+  for (let i = 0; i < t.length; i++) integrateStep(s, t[i]!, volts[i]!, amps[i]!, gapSeconds);
   return { ...integratorTotals(s), state: s };
 }

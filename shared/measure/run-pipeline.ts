@@ -9,6 +9,7 @@ import { createIntegratorState, integratorTotals, IntegratorStateSchema, type In
 import { integrateStep, type StepOutcome } from './integrator.js';
 import { createDetectorState, DetectorStateSchema, detectStep, resolveDetectorSettings, type DetectorSettings, type DetectorState } from './detector.js';
 import { HALF_RATED } from './detector-settings.js';
+import { resolveGapLimit, type GapLimit } from './gap-limit.js';
 import { createRunStats, RunStatsSchema, updateRunStats, type RunStats } from './run-stats.js';
 
 /** Everything needed to resume a run exactly: plain JSON, safe to archive. */
@@ -43,6 +44,8 @@ export interface PushResult {
 export interface RunPipeline {
   readonly config: MeasureConfig;
   readonly settings: DetectorSettings;
+  /** The gap limit in force and how it was decided (explicit, the source's cadence, or the default). */
+  readonly gapLimit: GapLimit;
   push(frame: Frame): PushResult;
   pushMany(frames: Iterable<Frame>): { readings: Reading[]; events: RunEvent[]; rejected: number };
   totals(): RunTotals;
@@ -59,7 +62,8 @@ const NO_EVENTS: readonly RunEvent[] = Object.freeze([]);
  * the event detector over the resulting Reading and returns `{ reading, events, outcome }`.
  * - A refused frame (non-finite value, t backwards or repeated) gives `reading: null` and
  *   changes nothing; `outcome` says why. Frames should already have passed FrameSchema.
- * - A step in t longer than `maxGapSeconds` is not integrated; a `gap` event is returned.
+ * - A step in t longer than the gap limit (`maxGapSeconds` if given, else `gapFactor` ×
+ *   `cadenceSeconds`, else 30 s) is not integrated; a `gap` event is returned.
  * - Event `t` and `reading.elapsedSeconds` are seconds since the run's origin
  *   (`config.originT`, else the first accepted frame's t).
  * - `snapshot()` returns plain JSON; `createRunPipeline(config, snapshot)` or `restore()`
@@ -69,6 +73,7 @@ const NO_EVENTS: readonly RunEvent[] = Object.freeze([]);
 export function createRunPipeline(config: MeasureConfigInput, snapshot?: unknown): RunPipeline {
   let cfg = MeasureConfigSchema.parse(config);
   let settings = resolveDetectorSettings(cfg);
+  let gapLimit = resolveGapLimit(cfg);
   let originT: number | null = cfg.originT ?? null;
   let integ = createIntegratorState();
   let det = createDetectorState(settings);
@@ -79,6 +84,7 @@ export function createRunPipeline(config: MeasureConfigInput, snapshot?: unknown
     const snap = RunPipelineSnapshotSchema.parse(structuredClone(raw));
     cfg = snap.config;
     settings = resolveDetectorSettings(cfg);
+    gapLimit = resolveGapLimit(cfg);
     originT = snap.originT;
     integ = snap.integrator;
     det = snap.detector as unknown as DetectorState;
@@ -89,7 +95,7 @@ export function createRunPipeline(config: MeasureConfigInput, snapshot?: unknown
 
   function push(frame: Frame): PushResult {
     const prevT = integ.lastT;
-    const outcome = integrateStep(integ, frame.t, frame.volts, frame.amps, cfg.maxGapSeconds);
+    const outcome = integrateStep(integ, frame.t, frame.volts, frame.amps, gapLimit.seconds);
     if (outcome === 'non-finite' || outcome === 'backwards' || outcome === 'duplicate') return { reading: null, events: NO_EVENTS, outcome };
     if (originT === null) originT = frame.t;
     const elapsedSeconds = frame.t - originT;
@@ -111,6 +117,7 @@ export function createRunPipeline(config: MeasureConfigInput, snapshot?: unknown
   return {
     get config() { return cfg; },
     get settings() { return settings; },
+    get gapLimit() { return gapLimit; },
     push,
     pushMany(frames) {
       const readings: Reading[] = [];

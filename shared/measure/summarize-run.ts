@@ -8,6 +8,7 @@ import { DEFAULT_ACCEPTANCE_PERCENT, costPerKWh, cRate, percentOfRated, roundTri
 import { nominalVolts } from './nominal.js';
 import { internalResistanceFromSteps, type VoltAmpSample } from './internal-resistance.js';
 import { correctedAhAt25C, inCapacityFactorRange } from './lead-acid-correction.js';
+import { resolveGapLimit } from './gap-limit.js';
 
 /** What summarizeRun needs beyond the pipeline's own state. */
 export interface SummarizeRunInput {
@@ -48,6 +49,7 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
   const acceptancePercent = input.acceptancePercent ?? DEFAULT_ACCEPTANCE_PERCENT;
   const ir = input.readings ? internalResistanceFromSteps(input.readings).medianOhms : null;
   const leadTemp = input.leadAcidTempCelsius ?? null;
+  const gapLimit = resolveGapLimit(cfg);
   return RunSummarySchema.parse({
     ...totals,
     durationSeconds: snapshot.stats.lastElapsedSeconds ?? 0,
@@ -55,6 +57,9 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
     rejectedReadings: rejectedCounts(integ).total,
     gaps: integ.gaps,
     gapSeconds: sumValue(integ.gapSeconds),
+    maxGapSeconds: gapLimit.seconds,
+    gapLimitBasis: gapLimit.basis,
+    cadenceSeconds: gapLimit.cadenceSeconds,
     meanVolts,
     meanAmps,
     meanWatts,

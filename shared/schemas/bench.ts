@@ -240,3 +240,16 @@ export type CreateBenchRequest = z.input<typeof CreateBenchRequestSchema>;
 export type UpdateBenchRequest = z.input<typeof UpdateBenchRequestSchema>;
 export type SerialPortInfo = z.infer<typeof SerialPortInfoSchema>;
 export type SerialPortListResponse = z.infer<typeof SerialPortListResponseSchema>;
+
+const MS_PER_S = 1000;
+
+/**
+ * The source's own interval between readings, s, when its configuration states one: the
+ * poll period of a polled meter (SCPI, Modbus). Null when the device or the simulator sets
+ * its own pace; the run's gap limit then falls back to its default.
+ */
+export function sourceCadenceSeconds(source: BenchSourceConfig): number | null {
+  if (source.kind !== 'serial') return null;
+  const format = source.format;
+  return format.kind === 'scpi' || format.kind === 'modbus' ? format.pollMs / MS_PER_S : null;
+}

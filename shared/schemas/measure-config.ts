@@ -31,8 +31,15 @@ export const MeasureConfigSchema = z.object({
   ratedWh: pos.optional(),
   /** Source-clock t taken as the run's origin; default: the first accepted frame. */
   originT: z.number().finite().optional(),
-  /** No integration across a step in t longer than this; a gap event instead. */
-  maxGapSeconds: pos.default(30),
+  /**
+   * No integration across a step in t longer than this; a gap event instead. When absent the
+   * limit is `gapFactor` × `cadenceSeconds`, else 30 s (shared/measure/gap-limit.ts).
+   */
+  maxGapSeconds: pos.optional(),
+  /** The source's own interval between readings: a bench's poll period, or a log's median interval, s. */
+  cadenceSeconds: pos.optional(),
+  /** A step longer than this many cadences is a gap (3: two missed readings are still integrated). */
+  gapFactor: z.number().finite().min(1).max(1000).default(3),
   /** |amps| at or below this counts as "about 0 A". */
   zeroAmps: nonNeg.default(0.05),
   /** Discharge current at or above this counts as "load on". */

@@ -28,7 +28,9 @@ describe('ReadingSchema', () => {
 
 describe('MeasureConfigSchema', () => {
   it('fills defaults and refuses a zero rating', () => {
-    expect(MeasureConfigSchema.parse({}).maxGapSeconds).toBe(30);
+    // No explicit gap limit by default: it comes from the source's cadence (shared/measure/gap-limit.ts).
+    expect(MeasureConfigSchema.parse({}).maxGapSeconds).toBeUndefined();
+    expect(MeasureConfigSchema.parse({}).gapFactor).toBe(3);
     expect(MeasureConfigSchema.safeParse({ ratedAh: 0 }).success).toBe(false);
   });
 });

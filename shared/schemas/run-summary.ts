@@ -6,6 +6,9 @@ import { CutoffCauseSchema } from './run-event.js';
 const finite = z.number().finite();
 const nonNeg = z.number().finite().nonnegative();
 
+/** Where a run's gap limit came from: typed on the run or import, the source's cadence × factor, or the 30 s default. */
+export const GapLimitBasisSchema = z.enum(['explicit', 'cadence', 'default']);
+
 /** Pass/fail against the acceptance %, or `unrated` when no rating was given. */
 export const VerdictSchema = z.enum(['pass', 'fail', 'unrated']);
 export type Verdict = z.infer<typeof VerdictSchema>;
@@ -22,6 +25,11 @@ export const RunSummarySchema = z
     rejectedReadings: z.number().int().nonnegative(),
     gaps: z.number().int().nonnegative(),
     gapSeconds: nonNeg,
+    /** The gap limit in force, s, and where it came from (absent in summaries stored before it was kept). */
+    maxGapSeconds: nonNeg.nullable().default(null),
+    gapLimitBasis: GapLimitBasisSchema.nullable().default(null),
+    /** The source's cadence the limit was derived from, s (null when typed or defaulted). */
+    cadenceSeconds: nonNeg.nullable().default(null),
     /** Time-weighted means while under load (discharge amps ≥ the run's loadOnAmps). */
     meanVolts: finite.nullable(),
     meanAmps: finite.nullable(),

@@ -68,6 +68,8 @@ export const RunSchema = z.object({
   targetWh: z.number().finite().positive().nullable(),
   /** Seconds after recovery to keep recording before an `after-recovery` run finishes. */
   afterRecoverySeconds: z.number().finite().nonnegative(),
+  /** Gap limit typed on the run, s; null or absent = from the source's cadence (shared/measure/gap-limit.ts). */
+  maxGapSeconds: z.number().finite().positive().nullable().optional(),
   /** Lead-acid: initial electrolyte temperature, °C, for the correction to 25 °C (absent: none given). */
   electrolyteTempCelsius: z.number().finite().nullable().optional(),
   readingsCount: z.number().int().nonnegative(),
