@@ -168,6 +168,7 @@ export class RunSession {
       acceptancePercent: this.run.acceptancePercent,
       price: this.battery?.price ?? null,
       massKg: this.battery?.massKg ?? null,
+      leadAcidTempCelsius: this.run.electrolyteTempCelsius ?? null,
     });
   }
 

@@ -14,6 +14,8 @@ import { RunSummarySchema } from './run-summary.js';
 const id = z.coerce.number().int().positive();
 /** Longest gap limit a run or import may ask for: one day, s. */
 export const MAX_GAP_LIMIT_SECONDS = 86_400;
+/** Electrolyte temperatures a lab could meet at all (the correction itself covers a narrower table range). */
+const ELECTROLYTE_CELSIUS = { min: -40, max: 80 } as const;
 const tags = z.array(z.string().trim().min(1).max(50)).max(30);
 /** A run's tags as every route accepts them (the import splits its comma-separated field into this). */
 export const RunTagsSchema = tags;
@@ -36,6 +38,8 @@ export const StartRunRequestSchema = z
     afterRecoverySeconds: z.number().finite().nonnegative().max(86_400).default(0),
     /** Gap limit, s: a silence longer than this is a gap. Null = 3 × the bench's poll period, else 30 s. */
     maxGapSeconds: z.number().finite().positive().max(MAX_GAP_LIMIT_SECONDS).nullable().optional(),
+    /** Lead-acid: initial electrolyte temperature, °C, for the correction to 25 °C (IEEE 450). */
+    electrolyteTempCelsius: z.number().finite().min(ELECTROLYTE_CELSIUS.min).max(ELECTROLYTE_CELSIUS.max).nullable().optional(),
   })
   .refine((r) => r.stopWhen !== 'target-ah' || r.targetAh !== null, {
     message: 'targetAh is required when stopWhen is target-ah',
@@ -150,8 +154,6 @@ export const ImportColumnMapSchema = z.object({
   timeUnit: ImportTimeFormatSchema.optional(),
 });
 
-/** Electrolyte temperatures a lab could meet at all (the correction itself covers a narrower table range). */
-const ELECTROLYTE_CELSIUS = { min: -40, max: 80 } as const;
 
 /** Multipart fields of POST /api/runs/import (the CSV is the `file` part). */
 export const ImportFieldsSchema = z.object({
