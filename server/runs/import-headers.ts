@@ -1,19 +1,21 @@
 import { HttpError } from '../http/http-error.js';
-import { parseTimestampMs } from './zoned-time.js';
+import { checkTimeValue, createTimeReader, inferTimeFormat, parseDecimal, type TimeFormat, type TimeFormatSource } from './import-time.js';
 
 /** Channels an imported log can carry. */
 export type ImportChannel = 'time' | 'volts' | 'amps' | 'temp';
-export type TimeUnit = 's' | 'ms' | 'min' | 'h' | 'iso';
+export type TempUnit = 'C' | 'F' | 'K';
+/** Where a temperature unit came from: the column's unit mark, the person importing, or the lab's preference. */
+export type TempUnitSource = 'header' | 'chosen' | 'lab';
 
 /** Where each channel sits in a row and how to turn its text into SI-ish units (s, V, A, °C). */
 export interface ColumnPlan {
-  time: { index: number; unit: TimeUnit };
+  time: { index: number; format: TimeFormat; source: TimeFormatSource; column: string };
   volts: { index: number; scale: number };
   amps: { index: number; scale: number };
-  temp: { index: number; unit: 'C' | 'F' | 'K' } | null;
+  temp: { index: number; unit: TempUnit; source: TempUnitSource; column: string } | null;
   /** Numbers written with a decimal comma (semicolon- or tab-separated logs). */
   decimalComma?: boolean;
-  /** IANA zone of ISO timestamps written without one (the lab's); default UTC. */
+  /** IANA zone of dates written without one (the lab's); default UTC. */
   timeZone?: string;
 }
 
@@ -22,7 +24,12 @@ export interface ColumnOverrides {
   volts?: string;
   amps?: string;
   temp?: string;
-  timeUnit?: TimeUnit;
+  /** The time format chosen on the form (wins over a unit mark in the header). */
+  timeFormat?: TimeFormat;
+  /** Unit of a temperature column whose header names none. */
+  tempUnit?: TempUnit;
+  /** The lab's temperature unit, taken when neither the header nor the form names one. */
+  labTempUnit?: 'C' | 'F';
 }
 
 /**
@@ -30,86 +37,136 @@ export interface ColumnOverrides {
  * in Windows-1252 and read as UTF-8 (U+FFFD) or the reverse ("Â°").
  */
 const DEGREE_SIGN = /^(Â°|°|º|\uFFFD)\s*/i;
+/** "degF", "deg. C", "degrees C", "° C": the degree written out or as a sign, before the letter. */
+const DEGREE_WORD = /^(deg(rees?)?\.?|Â°|°|º|\uFFFD)\s*/i;
+/** Temperature names run together with their unit: TempF, Temp_degC, T1C, temperature-f. */
+const TEMP_WITH_UNIT = /^(t|temp|temperature)(\s?\d*)[\s_-]*(deg(?:rees?)?|Â°|°|º|\uFFFD)?\s*(c|f|k)$/;
 
-/** Splits "Voltage (V)", "voltage_v", "Current [mA]", "temp °C" into a base name and a unit. */
+/** Splits "Voltage (V)", "voltage_v", "Current [mA]", "temp °C", "TempF" into a base name and a unit. */
 export function splitHeader(header: string): { base: string; unit: string | null } {
   const h = header.trim().toLowerCase().replace(/^\uFEFF/, '');
-  const bracket = /^(.*?)[\s_]*[([]\s*([^)\]]*?)\s*[)\]]\s*$/.exec(h);
-  if (bracket) return { base: bracket[1]!.trim(), unit: bracket[2]!.replace(DEGREE_SIGN, '').trim() || null };
-  const suffix = /^(.*?)[\s_/-]+(s|sec|ms|min|h|hr|v|mv|a|ma|c|°c|degc|f|°f|degf|k)$/.exec(h);
-  if (suffix) return { base: suffix[1]!.trim(), unit: suffix[2]!.replace(/^(°|deg)/, '') };
+  const bracket = /^(.*?)[\s_,]*[([]\s*([^)\]]*?)\s*[)\]]\s*$/.exec(h);
+  if (bracket) return { base: bracket[1]!.trim(), unit: normaliseUnit(bracket[2]!) };
+  const joined = TEMP_WITH_UNIT.exec(h);
+  if (joined) return { base: `${joined[1]}${joined[2]!.trim()}`, unit: joined[4]! };
+  const suffix = /^(.*?)[\s_/,-]+(s|sec|ms|min|h|hr|v|mv|a|ma|(?:deg(?:rees?)?|Â°|°|º|\uFFFD)?\s*[cfk]|celsius|fahrenheit|kelvin)$/.exec(h);
+  if (suffix) return { base: suffix[1]!.trim(), unit: normaliseUnit(suffix[2]!) };
   return { base: h, unit: null };
 }
 
-const TIME_NAMES = /^(t|time|elapsed|elapsed time|test time|timestamp|date ?time|datetime|seconds|secs?|clock)$/;
-const VOLT_NAMES = /^(v|u|volt|volts|voltage|pack voltage|battery voltage|terminal voltage|voltage measured)$/;
-const AMP_NAMES = /^(i|a|amp|amps|ampere|amperes|current|pack current|battery current|current measured)$/;
-const TEMP_NAMES = /^(temp|temperature|cell temp|cell temperature|t cell|battery temperature|temperature measured)$/;
+/** One spelling per unit: "°C", "degC", "deg C", "celsius" → "c"; "degF", "fahrenheit" → "f"; "kelvin" → "k". */
+function normaliseUnit(raw: string): string | null {
+  const u = raw.replace(DEGREE_SIGN, '').trim();
+  const word = { celsius: 'c', fahrenheit: 'f', kelvin: 'k' }[u];
+  if (word) return word;
+  const deg = u.replace(DEGREE_WORD, '').trim();
+  if (deg !== u && /^[cfk]$/.test(deg)) return deg;
+  return u || null;
+}
+
+/** Common English names, and the German ones a lab's loggers often write (Zeit, Datum, Spannung, Strom). */
+const TIME_NAMES = /^(t|time|elapsed|elapsed time|test time|timestamp|date|date ?time|datetime|seconds|secs?|clock|date and time|zeit|datum|uhrzeit|datum ?zeit)$/;
+const VOLT_NAMES = /^(v|u|volt|volts|voltage|pack voltage|battery voltage|terminal voltage|voltage measured|spannung)$/;
+const AMP_NAMES = /^(i|a|amp|amps|ampere|amperes|current|pack current|battery current|current measured|strom)$/;
+/** Temperature names, numbered or not (Temp1, T2). A bare "t" is time unless it carries a temperature unit. */
+const TEMP_NAMES = /^(t ?\d+|temp [a-z0-9]+|temp ?\d*|temperature ?\d*|temperatur ?\d*|cell temp|cell temperature|t cell|battery temperature|temperature measured|ambient|ambient temp|ambient temperature)$/;
+const TEMP_UNITS = new Set(['c', 'f', 'k']);
 
 const normalise = (base: string) => base.replace(/[_-]+/g, ' ').replace(/\s+/g, ' ');
 
-function unitOf(kind: ImportChannel, unit: string | null): number | TimeUnit | 'C' | 'F' | 'K' | undefined {
+type Found = { index: number; unit: string | null; column: string };
+
+/** Does this header name the channel? Units decide between time and temperature for "T". */
+function matches(kind: ImportChannel, header: string): boolean {
+  const { base, unit } = splitHeader(header);
+  const name = normalise(base);
   switch (kind) {
     case 'time':
-      return unit === null || unit === 's' || unit === 'sec' ? 's' : unit === 'ms' ? 'ms' : unit === 'min' ? 'min' : unit === 'h' || unit === 'hr' ? 'h' : undefined;
-    case 'volts':
-      return unit === null || unit === 'v' ? 1 : unit === 'mv' ? 1e-3 : undefined;
-    case 'amps':
-      return unit === null || unit === 'a' ? 1 : unit === 'ma' ? 1e-3 : undefined;
+      return TIME_NAMES.test(name) && (unit === null || !TEMP_UNITS.has(unit));
     case 'temp':
-      return unit === null || unit === 'c' ? 'C' : unit === 'f' ? 'F' : unit === 'k' ? 'K' : undefined;
+      return (TEMP_NAMES.test(name) && (unit === null || TEMP_UNITS.has(unit))) || (name === 't' && unit !== null && TEMP_UNITS.has(unit));
+    case 'volts':
+      return VOLT_NAMES.test(name);
+    case 'amps':
+      return AMP_NAMES.test(name);
   }
 }
 
-function find(headers: readonly string[], kind: ImportChannel, names: RegExp, override?: string): { index: number; unit: string | null } | null {
+function find(headers: readonly string[], kind: ImportChannel, override?: string): Found | null {
   if (override !== undefined) {
     const index = headers.findIndex((h) => h.trim() === override.trim());
-    if (index < 0) throw new HttpError(400, `line 1: no column named "${override}" for ${kind}`);
-    return { index, unit: splitHeader(headers[index]!).unit };
+    if (index < 0) throw new HttpError(400, `line 1: no column named "${override}" for ${kind}`, { columns: [`no column "${override}"`] });
+    return { index, unit: splitHeader(headers[index]!).unit, column: headers[index]! };
   }
-  const index = headers.findIndex((h) => names.test(normalise(splitHeader(h).base)));
-  return index < 0 ? null : { index, unit: splitHeader(headers[index]!).unit };
+  const index = headers.findIndex((h) => matches(kind, h));
+  return index < 0 ? null : { index, unit: splitHeader(headers[index]!).unit, column: headers[index]! };
+}
+
+const TIME_UNIT_FORMAT: Record<string, TimeFormat> = { s: 's', sec: 's', ms: 'ms', min: 'min', h: 'h', hr: 'h' };
+const VOLT_SCALE: Record<string, number> = { v: 1, mv: 1e-3 };
+const AMP_SCALE: Record<string, number> = { a: 1, ma: 1e-3 };
+const TEMP_UNIT: Record<string, TempUnit> = { c: 'C', f: 'F', k: 'K' };
+const DEGREES: Record<TempUnit, string> = { C: '°C', F: '°F', K: 'K' };
+
+function planTime(time: Found, sample: string | null, overrides: ColumnOverrides): ColumnPlan['time'] | string {
+  const base = { index: time.index, column: time.column };
+  if (overrides.timeFormat) return { ...base, format: overrides.timeFormat, source: 'chosen' };
+  if (time.unit !== null) {
+    const format = TIME_UNIT_FORMAT[time.unit];
+    return format ? { ...base, format, source: 'header' } : `time unit "${time.unit}"`;
+  }
+  if (/^(seconds|secs?)$/.test(normalise(splitHeader(time.column).base))) return { ...base, format: 's', source: 'header' };
+  return { ...base, format: sample === null ? 's' : inferTimeFormat(sample, time.column), source: 'inferred' };
+}
+
+function planTemp(temp: Found, overrides: ColumnOverrides): ColumnPlan['temp'] | string {
+  const base = { index: temp.index, column: temp.column };
+  if (temp.unit !== null) {
+    const unit = TEMP_UNIT[temp.unit];
+    if (!unit) return `temperature unit "${temp.unit}"`;
+    if (overrides.tempUnit && overrides.tempUnit !== unit) {
+      throw new HttpError(400, `line 1: column "${temp.column}" is in ${DEGREES[unit]} but ${DEGREES[overrides.tempUnit]} was chosen; clear the choice or fix the header`, { tempUnit: ['contradicts the header'] });
+    }
+    return { ...base, unit, source: 'header' };
+  }
+  if (overrides.tempUnit) return { ...base, unit: overrides.tempUnit, source: 'chosen' };
+  if (overrides.labTempUnit) return { ...base, unit: overrides.labTempUnit, source: 'lab' };
+  throw new HttpError(400, `line 1: temperature column "${temp.column}" names no unit; choose °C, °F or K`, { tempUnit: ['choose the unit'] });
 }
 
 /**
  * Recognises the time, volts, amps and (optional) temperature columns of a header row,
- * with or without units in the names, or takes them from `overrides`. `firstRow` decides
- * whether the time column holds ISO timestamps. Throws a 400 naming line 1 otherwise.
+ * with or without units in the names, or takes them from `overrides`. `firstRow` lets the
+ * time format be recognised when the header names none. Throws a 400 naming line 1 otherwise.
  */
 export function planColumns(headers: readonly string[], firstRow: readonly string[] | null, overrides: ColumnOverrides = {}): ColumnPlan {
-  const time = find(headers, 'time', TIME_NAMES, overrides.time);
-  const volts = find(headers, 'volts', VOLT_NAMES, overrides.volts);
-  const amps = find(headers, 'amps', AMP_NAMES, overrides.amps);
-  const temp = find(headers, 'temp', TEMP_NAMES, overrides.temp);
+  const time = find(headers, 'time', overrides.time);
+  const volts = find(headers, 'volts', overrides.volts);
+  const amps = find(headers, 'amps', overrides.amps);
+  const temp = find(headers, 'temp', overrides.temp);
   const missing = [!time && 'time', !volts && 'volts', !amps && 'amps'].filter(Boolean);
-  if (missing.length) throw new HttpError(400, `line 1: no ${missing.join(', ')} column recognised in header "${headers.join(',').slice(0, 200)}"; name them or send a column mapping`);
-  const sample = firstRow?.[time!.index]?.trim() ?? '';
-  const looksIso = sample !== '' && !Number.isFinite(Number(sample)) && !Number.isNaN(Date.parse(sample));
-  const timeUnit = overrides.timeUnit ?? (looksIso ? 'iso' : (unitOf('time', time!.unit) as TimeUnit | undefined));
-  const vScale = unitOf('volts', volts!.unit) as number | undefined;
-  const aScale = unitOf('amps', amps!.unit) as number | undefined;
-  const tUnit = temp ? (unitOf('temp', temp.unit) as 'C' | 'F' | 'K' | undefined) : undefined;
+  if (missing.length) throw new HttpError(400, `line 1: no ${missing.join(', ')} column recognised in header "${headers.join(',').slice(0, 200)}"; name them or send a column mapping`, { columns: ['map the columns'] });
+  const timePlan = planTime(time!, firstRow?.[time!.index]?.trim() ?? null, overrides);
+  const tempPlan = temp ? planTemp(temp, overrides) : null;
+  const vScale = volts!.unit === null ? 1 : VOLT_SCALE[volts!.unit];
+  const aScale = amps!.unit === null ? 1 : AMP_SCALE[amps!.unit];
   const bad = [
-    !timeUnit && `time unit "${time!.unit}"`,
+    typeof timePlan === 'string' && timePlan,
     vScale === undefined && `volts unit "${volts!.unit}"`,
     aScale === undefined && `amps unit "${amps!.unit}"`,
-    temp && !tUnit && `temperature unit "${temp.unit}"`,
+    typeof tempPlan === 'string' && tempPlan,
   ].filter(Boolean);
   if (bad.length) throw new HttpError(400, `line 1: unknown ${bad.join(', ')}`);
   return {
-    time: { index: time!.index, unit: timeUnit! },
+    time: timePlan as ColumnPlan['time'],
     volts: { index: volts!.index, scale: vScale! },
     amps: { index: amps!.index, scale: aScale! },
-    temp: temp ? { index: temp.index, unit: tUnit! } : null,
+    temp: tempPlan as ColumnPlan['temp'],
   };
 }
 
-const SECONDS_PER: Record<Exclude<TimeUnit, 'iso'>, number> = { s: 1, ms: 1e-3, min: 60, h: 3600 };
 /** °F → °C and K → °C (exact definitions of the scales). */
 const toCelsius = { C: (v: number) => v, F: (v: number) => ((v - 32) * 5) / 9, K: (v: number) => v - 273.15 };
-
-/** A plain decimal number as loggers write it (no hex, no "Infinity", no thousands separators). */
-const DECIMAL = /^[+-]?(\d+\.?\d*|\.\d+)(e[+-]?\d+)?$/i;
 
 /** One parsed row, before the current's sign is settled. */
 export interface ParsedRow {
@@ -119,27 +176,39 @@ export interface ParsedRow {
   tempC: number | null;
 }
 
-/** Parses one data row by the plan; throws a 400 naming the line and the bad field. */
-export function parseRow(plan: ColumnPlan, fields: readonly string[], line: number): ParsedRow {
-  const num = (index: number, what: string): number => {
+/**
+ * A parser of one log's data rows by the plan (one per pass: clock times keep a day count).
+ * Throws a 400 naming the line and the bad field.
+ */
+export function createRowParser(plan: ColumnPlan): (fields: readonly string[], line: number) => ParsedRow {
+  const decimalComma = plan.decimalComma ?? false;
+  const readTime = createTimeReader(plan.time.format, { timeZone: plan.timeZone ?? 'UTC', decimalComma });
+  const num = (fields: readonly string[], index: number, what: string, line: number): number => {
     const raw = fields[index]?.trim() ?? '';
-    const text = plan.decimalComma ? raw.replace(',', '.') : raw;
-    const v = DECIMAL.test(text) ? Number(text) : Number.NaN;
+    const v = parseDecimal(raw, decimalComma);
     if (!Number.isFinite(v)) throw new HttpError(400, `line ${line}: ${what} "${raw.slice(0, 40)}" is not a number`);
     return v;
   };
-  let t: number;
-  if (plan.time.unit === 'iso') {
-    const text = fields[plan.time.index]?.trim() ?? '';
-    t = parseTimestampMs(text, plan.timeZone ?? 'UTC') / 1000;
-    if (!Number.isFinite(t)) throw new HttpError(400, `line ${line}: time "${text}" is not an ISO timestamp`);
-  } else t = num(plan.time.index, 'time') * SECONDS_PER[plan.time.unit];
-  const tempText = plan.temp ? (fields[plan.temp.index]?.trim() ?? '') : '';
-  return {
-    t,
-    volts: num(plan.volts.index, 'volts') * plan.volts.scale,
-    amps: num(plan.amps.index, 'amps') * plan.amps.scale,
-    // A blank temperature is "not measured", not an error.
-    tempC: plan.temp && tempText !== '' ? toCelsius[plan.temp.unit](num(plan.temp.index, 'temperature')) : null,
+  return (fields, line) => {
+    const timeText = fields[plan.time.index]?.trim() ?? '';
+    const t = readTime(timeText);
+    if (!Number.isFinite(t)) {
+      const comma = !decimalComma && /^\d+,\d+$/.test(timeText) ? '; a decimal comma needs a semicolon- or tab-separated file' : '';
+      throw new HttpError(400, `line ${line}: time "${timeText.slice(0, 40)}" is not ${plan.time.format === 'iso' ? 'an ISO 8601 date-time' : `in the format ${plan.time.format}`}${comma}`, { timeFormat: ['does not match the file'] });
+    }
+    checkTimeValue(t, timeText, plan.time.format, line);
+    const tempText = plan.temp ? (fields[plan.temp.index]?.trim() ?? '') : '';
+    return {
+      t,
+      volts: num(fields, plan.volts.index, 'volts', line) * plan.volts.scale,
+      amps: num(fields, plan.amps.index, 'amps', line) * plan.amps.scale,
+      // A blank temperature is "not measured", not an error.
+      tempC: plan.temp && tempText !== '' ? toCelsius[plan.temp.unit](num(fields, plan.temp.index, 'temperature', line)) : null,
+    };
   };
+}
+
+/** Parses one data row by the plan (a fresh parser: fine for one row, use createRowParser for a file). */
+export function parseRow(plan: ColumnPlan, fields: readonly string[], line: number): ParsedRow {
+  return createRowParser(plan)(fields, line);
 }

@@ -3,6 +3,7 @@ import { unlink } from 'node:fs/promises';
 import { join } from 'node:path';
 import type { RequestHandler } from 'express';
 import multer from 'multer';
+import type { z } from 'zod';
 import { ImportColumnMapSchema, ImportFieldsSchema, RunTagsSchema } from '../../shared/schemas/api-runs.js';
 import type { AppContext } from '../app-context.js';
 import { HttpError } from '../http/http-error.js';
@@ -36,7 +37,7 @@ export function createImportHandler(ctx: AppContext, repo: RunsRepo, getBattery:
       void (async () => {
         if (!file) throw new HttpError(400, 'No file: send the CSV as the multipart field "file"', { file: ['required'] });
         const fields = ImportFieldsSchema.parse(req.body);
-        let columns = {};
+        let columns: z.infer<typeof ImportColumnMapSchema> = {};
         if (fields.columns) {
           try {
             columns = ImportColumnMapSchema.parse(JSON.parse(fields.columns));
@@ -50,9 +51,14 @@ export function createImportHandler(ctx: AppContext, repo: RunsRepo, getBattery:
         const split = RunTagsSchema.safeParse((fields.tags ?? '').split(',').map((t) => t.trim()).filter(Boolean));
         if (!split.success) throw new HttpError(400, 'tags: at most 30, each 1 to 50 characters, comma-separated', { tags: split.error.issues.map((i) => i.message) });
         const tags = split.data;
+        const lab = await getLabSettings(ctx.models);
+        const { timeUnit, ...names } = columns;
         const result = await importRun(ctx.sequelize, repo, {
           filePath: file.path, name: fields.name, tags, battery, endVolts: fields.endVolts,
-          currentSign: fields.currentSign, columns, userId: req.user!.id, timeZone: (await getLabSettings(ctx.models)).timeZone,
+          currentSign: fields.currentSign, userId: req.user!.id, timeZone: lab.timeZone,
+          columns: { ...names, timeFormat: fields.timeFormat ?? timeUnit, tempUnit: fields.tempUnit, labTempUnit: lab.temperatureUnit },
+          acceptancePercent: fields.acceptancePercent ?? lab.acceptancePercent,
+          electrolyteTempCelsius: fields.electrolyteTempCelsius, maxGapSeconds: fields.maxGapSeconds,
         });
         if (file) await unlink(file.path).catch(() => undefined);
         res.status(201).json(result);

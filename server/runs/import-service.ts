@@ -1,4 +1,5 @@
 import type { Sequelize } from 'sequelize';
+import { CAPACITY_FACTOR_CELSIUS_RANGE, inCapacityFactorRange } from '../../shared/measure/lead-acid-correction.js';
 import { createRunPipeline } from '../../shared/measure/run-pipeline.js';
 import { summarizeRun } from '../../shared/measure/summarize-run.js';
 import type { ImportResponse } from '../../shared/schemas/api-runs.js';
@@ -9,8 +10,12 @@ import { COMPACT_READINGS, writeBatch } from '../archive/chunk-store.js';
 import { encodeChunk } from '../archive/chunk-encode.js';
 import { readingsToColumns } from '../archive/reading-columns.js';
 import { HttpError } from '../http/http-error.js';
-import { csvRecords, sniffDelimiter, type Delimiter } from './import-csv.js';
-import { parseRow, planColumns, type ColumnOverrides, type ColumnPlan } from './import-headers.js';
+import { csvRecords, sniffDelimiter } from './import-csv.js';
+import { createRowParser, type ColumnOverrides } from './import-headers.js';
+import { importNotices } from './import-notices.js';
+import { decideCurrentSign, type SignDecision } from './import-sign.js';
+import { surveyFile } from './import-survey.js';
+import { isAbsoluteTime } from './import-time.js';
 import { measureConfigFor, type BatteryFacts } from './measure-config.js';
 import type { RunConfig, RunsRepo } from './runs-repo.js';
 
@@ -21,41 +26,24 @@ export interface ImportRequest {
   battery: BatteryFacts | null;
   endVolts?: number;
   currentSign: 'discharge-positive' | 'discharge-negative' | 'auto';
+  /** Column names, time format and temperature units chosen on the form. */
   columns: ColumnOverrides;
   userId: number;
-  /** The lab's zone, for timestamps written without one. */
+  /** The lab's zone, for dates written without one. */
   timeZone?: string;
+  /** Share of rated capacity to pass, % (the form's, defaulting to the lab's setting). */
+  acceptancePercent: number;
+  /** Lead-acid: initial electrolyte temperature, °C. */
+  electrolyteTempCelsius?: number;
+  /** A step longer than this is a gap; omitted: judged against the file's cadence. */
+  maxGapSeconds?: number;
 }
 
-/** Pass 1: check every row and learn the sign of the current, holding nothing but counts. */
-async function survey(req: ImportRequest, delimiter: Delimiter): Promise<{ plan: ColumnPlan; flip: boolean; rows: number }> {
-  let headers: string[] | null = null;
-  let plan: ColumnPlan | null = null;
-  let rows = 0;
-  let positive = 0;
-  let negative = 0;
-  let lastT = Number.NEGATIVE_INFINITY;
-  for await (const { fields, line } of csvRecords(req.filePath, delimiter)) {
-    if (!headers) {
-      headers = fields;
-      continue;
-    }
-    plan ??= { ...planColumns(headers, fields, req.columns), decimalComma: delimiter !== ',', timeZone: req.timeZone };
-    if (fields.length !== headers.length) throw new HttpError(400, `line ${line}: ${fields.length} fields, the header has ${headers.length}`);
-    const row = parseRow(plan, fields, line);
-    // Out-of-order rows would be dropped by the integrator: refuse the file rather than lose them quietly.
-    if (row.t < lastT) throw new HttpError(400, `line ${line}: time goes back (${row.t} s after ${lastT} s); rows must be in time order`);
-    lastT = row.t;
-    if (row.amps > 0) positive++;
-    else if (row.amps < 0) negative++;
-    rows++;
-  }
-  if (!headers) throw new HttpError(400, 'line 1: the file is empty; expected a header row');
-  // A header alone (or a file that is no CSV) is reported by what is wrong with its header first.
-  plan ??= { ...planColumns(headers, null, req.columns), decimalComma: delimiter !== ',', timeZone: req.timeZone };
-  if (rows < 2) throw new HttpError(400, `line ${rows + 2}: at least two readings are needed after the header`);
-  const flip = req.currentSign === 'discharge-negative' || (req.currentSign === 'auto' && negative > positive);
-  return { plan, flip, rows };
+/** The sign as stated, or as the file's energy each way tells it. */
+function settleSign(req: ImportRequest, tally: Parameters<typeof decideCurrentSign>[0]): SignDecision {
+  if (req.currentSign === 'discharge-negative') return { flip: true, reason: 'negative amps are discharge (as chosen)' };
+  if (req.currentSign === 'discharge-positive') return { flip: false, reason: 'positive amps are discharge (as chosen)' };
+  return decideCurrentSign(tally);
 }
 
 /**
@@ -64,44 +52,55 @@ async function survey(req: ImportRequest, delimiter: Delimiter): Promise<{ plan:
  * nothing behind. The run's figures come from the same pipeline as live runs.
  */
 export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: ImportRequest): Promise<ImportResponse> {
+  const electrolyte = req.electrolyteTempCelsius;
+  if (electrolyte !== undefined && !inCapacityFactorRange(electrolyte)) {
+    const { min, max } = CAPACITY_FACTOR_CELSIUS_RANGE;
+    throw new HttpError(400, `Electrolyte temperature ${electrolyte} °C is outside the correction table (${min.toFixed(1)} to ${max.toFixed(1)} °C)`, { electrolyteTempCelsius: ['outside the table'] });
+  }
   const delimiter = await sniffDelimiter(req.filePath);
-  const { plan, flip, rows } = await survey(req, delimiter);
+  const survey = await surveyFile(req.filePath, delimiter, req.columns, req.timeZone ?? 'UTC');
+  const { plan, rows, duplicates, medianStepS } = survey;
+  const sign = settleSign(req, survey.sign);
   const config: RunConfig = {
     kind: 'capacity-discharge',
     endVolts: req.endVolts ? { mode: 'absolute', volts: req.endVolts } : null,
-    acceptancePercent: 100,
+    acceptancePercent: req.acceptancePercent,
     alarms: { onCutoff: false },
     stopWhen: 'manual',
     targetAh: null,
     targetWh: null,
     afterRecoverySeconds: 0,
-    maxGapSeconds: null,
+    electrolyteTempCelsius: electrolyte ?? null,
+    maxGapSeconds: req.maxGapSeconds ?? null,
   };
+  // "Started" is the first reading when the file says when that was.
+  const startedAt = isAbsoluteTime(plan.time.format, survey.firstT) ? new Date(survey.firstT * 1000) : null;
   const run = await repo.create({
     name: req.name, tags: req.tags, origin: 'import', benchId: null, batteryId: req.battery?.id ?? null,
-    state: 'recording', config, createdById: req.userId, startedAt: null,
+    state: 'recording', config, createdById: req.userId, startedAt,
   });
   try {
-    const pipeline = createRunPipeline(measureConfigFor(config, req.battery));
+    // Gaps are judged against the file's own cadence (its median interval) unless a limit was typed.
+    const pipeline = createRunPipeline(measureConfigFor(config, req.battery, { cadenceSeconds: medianStepS }));
+    const maxGapSeconds = pipeline.gapLimit.seconds;
     const events: RunEvent[] = [];
     let pending: Reading[] = [];
     let seq = 0;
-    let firstT: number | null = null;
     const flush = async () => {
       if (!pending.length) return;
       const block = encodeChunk(seq - pending.length, readingsToColumns(pending));
       pending = [];
       await writeBatch(sequelize, { runId: run.id, block, events: [], patch: { readingsCount: seq } });
     };
+    const parse = createRowParser(plan);
     let header = true;
     for await (const { fields, line } of csvRecords(req.filePath, delimiter)) {
       if (header) {
         header = false;
         continue;
       }
-      const row = parseRow(plan, fields, line);
-      firstT ??= row.t;
-      const frame: Frame = { t: row.t, volts: row.volts, amps: flip ? -row.amps : row.amps, clock: 'device', ...(row.tempC !== null ? { temps: { cell: row.tempC } } : {}) };
+      const row = parse(fields, line);
+      const frame: Frame = { t: row.t, volts: row.volts, amps: sign.flip ? -row.amps : row.amps, clock: 'device', ...(row.tempC !== null ? { temps: { cell: row.tempC } } : {}) };
       const out = pipeline.push(frame);
       if (!out.reading) continue;
       pending.push(out.reading);
@@ -110,10 +109,13 @@ export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: Impor
       if (pending.length >= COMPACT_READINGS) await flush();
     }
     await flush();
-    const summary = summarizeRun({ snapshot: pipeline.snapshot(), events, acceptancePercent: 100, price: req.battery?.price ?? null, massKg: req.battery?.massKg ?? null });
+    const summary = summarizeRun({
+      snapshot: pipeline.snapshot(), events, acceptancePercent: req.acceptancePercent,
+      price: req.battery?.price ?? null, massKg: req.battery?.massKg ?? null, leadAcidTempCelsius: electrolyte ?? null,
+    });
     await writeBatch(sequelize, {
       runId: run.id, block: null, events: events.map((event, eventSeq) => ({ eventSeq, event })),
-      patch: { state: 'finished', summary, readingsCount: seq, endedAt: new Date(), ...(plan.time.unit === 'iso' && firstT !== null ? { startedAt: new Date(firstT * 1000) } : {}) },
+      patch: { state: 'finished', summary, readingsCount: seq, endedAt: new Date() },
     });
     const cutoff = summary.capacityEndSeconds !== null ? events.find((e): e is CutoffEvent => e.type === 'cutoff' && e.t === summary.capacityEndSeconds) ?? null : null;
     const recovery = events.find((e): e is RecoveryEvent => e.type === 'recovery') ?? null;
@@ -127,6 +129,10 @@ export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: Impor
         cutoff: cutoff ? { atS: cutoff.t, volts: cutoff.volts } : null,
         recoveryS: recovery?.recoverySeconds ?? null,
         rows,
+        duplicateTimes: duplicates,
+        medianIntervalS: medianStepS,
+        maxGapSeconds,
+        notices: importNotices({ plan, sign, duplicates, medianStepS, maxGapSeconds, gapsFromForm: req.maxGapSeconds !== undefined }),
         ...(req.battery ? { percentOfRated: summary.percentRatedAh } : {}),
       },
       fullSummary: summary,

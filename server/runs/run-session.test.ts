@@ -29,6 +29,15 @@ describe('RunSession', () => {
     expect(s.shouldFinish()).toBe(false);
   });
 
+  it('corrects a cold lead-acid run up by the electrolyte temperature typed on the run', () => {
+    const run = baseRun({ endVolts: null, electrolyteTempCelsius: 10 });
+    const battery = { id: 1, label: 'LA', brand: 'Northgate Cell Lab', chemistry: 'lead-acid', cellsInSeries: 6, ratedAh: 100, ratedWh: null, price: null, massKg: null };
+    const s = new RunSession(run, battery, measureConfigFor(run, battery));
+    for (let i = 0; i <= 3600; i++) s.push({ t: i, volts: 12.2, amps: 25, clock: 'device' });
+    // 25 A for 1 h = 25 Ah; at 10 °C (50 °F) credited by the factor 1.19 (IEEE 450 table, from memory).
+    expect(s.summary().correctedAh25C).toBeCloseTo(25 * 1.19, 9);
+  });
+
   it('stops a target-Ah run once the discharged charge reaches the target', () => {
     // 3.6 A for 1,000 s = 1 Ah (constant current, exact).
     const s = session({ stopWhen: 'target-ah', targetAh: 1, endVolts: null });

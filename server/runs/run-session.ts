@@ -199,6 +199,7 @@ export class RunSession {
         protectionEndsTest: this.run.protectionEndsTest ?? false,
         price: this.battery?.price ?? null,
         massKg: this.battery?.massKg ?? null,
+        leadAcidTempCelsius: this.run.electrolyteTempCelsius ?? null,
       });
     } catch {
       // Kept as it was: the readings are archived, so the figures can be recomputed from them.

@@ -23,6 +23,8 @@ export const RunConfigSchema = z.object({
   protectionEndsTest: z.boolean().optional(),
   /** Absent in runs stored before gap limits could be typed: the source's cadence decides. */
   maxGapSeconds: z.number().nullable().optional(),
+  /** Lead-acid: initial electrolyte temperature, °C, for the correction to 25 °C (absent on older runs). */
+  electrolyteTempCelsius: z.number().nullable().optional(),
 });
 export type RunConfig = z.infer<typeof RunConfigSchema>;
 

@@ -3,6 +3,7 @@ const HAS_ZONE = /(z|[+-]\d{2}(:?\d{2})?)$/i;
 /** A date and wall-clock time without a zone: "2026-03-29 01:30:00", "2026-03-29T01:30:00.250". */
 const LOCAL_DATE_TIME = /^(\d{4})-(\d{2})-(\d{2})[T ](\d{2}):(\d{2})(?::(\d{2})(?:[.,](\d{1,9}))?)?$/i;
 const MS_PER_HOUR = 3_600_000;
+const MS_PER_SECOND = 1000;
 
 const formatters = new Map<string, Intl.DateTimeFormat>();
 const offsets = new Map<string, number>();
@@ -29,6 +30,33 @@ function zoneOffsetMs(utcMs: number, timeZone: string): number {
 }
 
 /**
+ * Unix milliseconds of a wall-clock reading in `timeZone`, given as milliseconds of the same
+ * calendar reading taken as if it were UTC (what Date.UTC of its parts gives). NaN stays NaN.
+ */
+export function wallMsToUtcMs(wallMs: number, timeZone: string): number {
+  if (!Number.isFinite(wallMs)) return Number.NaN;
+  // Guess with the offset at the wall time, then correct once with the offset at the guess (DST edges).
+  const guess = wallMs - zoneOffsetMs(wallMs, timeZone);
+  return wallMs - zoneOffsetMs(guess, timeZone);
+}
+
+/**
+ * Milliseconds of a calendar date and time read as if UTC, or NaN when a part is out of range
+ * (month 13, 31 April, 25 o'clock): Date.UTC would roll those over into another date silently.
+ */
+export function calendarWallMs(year: number, month: number, day: number, hour = 0, minute = 0, second = 0, fractionMs = 0): number {
+  const ms = Date.UTC(year, month - 1, day, hour, minute, second);
+  const d = new Date(ms);
+  const same = d.getUTCFullYear() === year && d.getUTCMonth() === month - 1 && d.getUTCDate() === day && d.getUTCHours() === hour && d.getUTCMinutes() === minute && d.getUTCSeconds() === second;
+  return same ? ms + fractionMs : Number.NaN;
+}
+
+/** Milliseconds of a decimal fraction of a second written as its digits ("25" of "12:00:00.25"). */
+export function fractionToMs(digits: string | undefined): number {
+  return digits ? Number(`0.${digits}`) * MS_PER_SECOND : 0;
+}
+
+/**
  * Unix milliseconds of an ISO 8601 timestamp. One with a zone means what it says; one
  * without is wall-clock time in `timeZone` (the lab's), not in whatever zone the server
  * runs in. NaN when the text is not a timestamp.
@@ -36,9 +64,6 @@ function zoneOffsetMs(utcMs: number, timeZone: string): number {
 export function parseTimestampMs(text: string, timeZone: string): number {
   const local = HAS_ZONE.test(text) ? null : LOCAL_DATE_TIME.exec(text);
   if (!local) return Date.parse(text);
-  const [, y, mo, d, h, mi, s = '0', frac = ''] = local;
-  const wallMs = Date.UTC(+y!, +mo! - 1, +d!, +h!, +mi!, +s) + Number(`0.${frac || '0'}`) * 1000;
-  // Guess with the offset at the wall time, then correct once with the offset at the guess (DST edges).
-  const guess = wallMs - zoneOffsetMs(wallMs, timeZone);
-  return wallMs - zoneOffsetMs(guess, timeZone);
+  const [, y, mo, d, h, mi, s = '0', frac] = local;
+  return wallMsToUtcMs(calendarWallMs(+y!, +mo!, +d!, +h!, +mi!, +s, fractionToMs(frac)), timeZone);
 }

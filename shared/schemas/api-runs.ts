@@ -14,6 +14,8 @@ import { RunSummarySchema } from './run-summary.js';
 const id = z.coerce.number().int().positive();
 /** Longest gap limit a run or import may ask for: one day, s. */
 export const MAX_GAP_LIMIT_SECONDS = 86_400;
+/** Electrolyte temperatures a lab could meet at all (the correction itself covers a narrower table range). */
+const ELECTROLYTE_CELSIUS = { min: -40, max: 80 } as const;
 const tags = z.array(z.string().trim().min(1).max(50)).max(30);
 /** A run's tags as every route accepts them (the import splits its comma-separated field into this). */
 export const RunTagsSchema = tags;
@@ -38,6 +40,8 @@ export const StartRunRequestSchema = z
     protectionEndsTest: z.boolean().optional(),
     /** Gap limit, s: a silence longer than this is a gap. Null = 3 × the bench's poll period, else 30 s. */
     maxGapSeconds: z.number().finite().positive().max(MAX_GAP_LIMIT_SECONDS).nullable().optional(),
+    /** Lead-acid: initial electrolyte temperature, °C, for the correction to 25 °C (IEEE 450). */
+    electrolyteTempCelsius: z.number().finite().min(ELECTROLYTE_CELSIUS.min).max(ELECTROLYTE_CELSIUS.max).nullable().optional(),
   })
   .refine((r) => r.stopWhen !== 'target-ah' || r.targetAh !== null, {
     message: 'targetAh is required when stopWhen is target-ah',
@@ -125,8 +129,22 @@ export const StoredRunEventSchema = z.object({
 export type StoredRunEvent = z.infer<typeof StoredRunEventSchema>;
 export const RunEventsResponseSchema = z.object({ events: z.array(StoredRunEventSchema) });
 
-/** How imported current is signed in the file. `auto`: the sign of the larger share of samples. */
+/**
+ * How imported current is signed in the file. `auto`: the direction with the lower mean
+ * voltage (Wh per Ah) is discharge; with current one way only, falling voltage is discharge;
+ * when neither tells, the import is refused and asks for the sign.
+ */
 export const ImportCurrentSignSchema = z.enum(['discharge-positive', 'discharge-negative', 'auto']);
+
+/**
+ * How a log writes its time: seconds, ms, minutes, hours (numbers since the logger's zero or
+ * since 1970), `h:mm:ss`, ISO 8601, day-first (dd.mm.yyyy) or month-first (mm/dd/yyyy) dates,
+ * or spreadsheet serial days. Dates without a zone are the lab's wall-clock time.
+ */
+export const ImportTimeFormatSchema = z.enum(['s', 'ms', 'min', 'h', 'hms', 'iso', 'dmy', 'mdy', 'serial-days']);
+export type ImportTimeFormat = z.infer<typeof ImportTimeFormatSchema>;
+/** Unit of a temperature column whose header names none. */
+export const ImportTempUnitSchema = z.enum(['C', 'F', 'K']);
 
 /** Optional column mapping for an import: header names in the file for each channel. */
 export const ImportColumnMapSchema = z.object({
@@ -134,9 +152,10 @@ export const ImportColumnMapSchema = z.object({
   volts: z.string().min(1).optional(),
   amps: z.string().min(1).optional(),
   temp: z.string().min(1).optional(),
-  /** Unit of the time column when it is numeric. */
-  timeUnit: z.enum(['s', 'ms', 'min', 'h', 'iso']).optional(),
+  /** Format of the time column (the same as the `timeFormat` field, which wins). */
+  timeUnit: ImportTimeFormatSchema.optional(),
 });
+
 
 /** Multipart fields of POST /api/runs/import (the CSV is the `file` part). */
 export const ImportFieldsSchema = z.object({
@@ -147,6 +166,16 @@ export const ImportFieldsSchema = z.object({
   tags: z.string().max(1000).optional(),
   /** JSON text of ImportColumnMap. */
   columns: z.string().max(2000).optional(),
+  /** Time format; omitted: from the header's unit mark or the values (refused when they cannot tell). */
+  timeFormat: ImportTimeFormatSchema.optional(),
+  /** Unit of a temperature column whose header names none; omitted: the lab's unit. */
+  tempUnit: ImportTempUnitSchema.optional(),
+  /** Share of rated capacity to pass, %; omitted: the lab's setting. */
+  acceptancePercent: z.coerce.number().finite().min(1).max(100).optional(),
+  /** Lead-acid: initial electrolyte temperature, °C, for the correction to 25 °C. */
+  electrolyteTempCelsius: z.coerce.number().finite().min(ELECTROLYTE_CELSIUS.min).max(ELECTROLYTE_CELSIUS.max).optional(),
+  /** A step longer than this is a gap, seconds; omitted: judged against the file's median interval. */
+  maxGapSeconds: z.coerce.number().finite().positive().max(MAX_GAP_LIMIT_SECONDS).optional(),
 });
 
 /** The short summary the import answers with. */
@@ -158,6 +187,14 @@ export const ImportSummarySchema = z.object({
   recoveryS: z.number().nullable(),
   percentOfRated: z.number().nullable().optional(),
   rows: z.number().int(),
+  /** Rows whose time repeats the row before (kept: the first of each; the lines of the first ten named). */
+  duplicateTimes: z.object({ count: z.number().int(), lines: z.array(z.number().int()) }).optional(),
+  /** The file's cadence: median step between distinct times, seconds. */
+  medianIntervalS: z.number().nullable().optional(),
+  /** The gap limit used, seconds. */
+  maxGapSeconds: z.number().optional(),
+  /** What the importer decided or assumed, in words (time format, temperature unit, current sign, duplicates). */
+  notices: z.array(z.string()).optional(),
 });
 export const ImportResponseSchema = z.object({
   run: RunSchema,

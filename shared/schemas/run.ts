@@ -75,6 +75,8 @@ export const RunSchema = z.object({
   protectionEndsTest: z.boolean().optional(),
   /** Gap limit typed on the run, s; null or absent = from the source's cadence (shared/measure/gap-limit.ts). */
   maxGapSeconds: z.number().finite().positive().nullable().optional(),
+  /** Lead-acid: initial electrolyte temperature, °C, for the correction to 25 °C (absent: none given). */
+  electrolyteTempCelsius: z.number().finite().nullable().optional(),
   readingsCount: z.number().int().nonnegative(),
   summary: RunSummarySchema.nullable(),
   startedAt: z.string().nullable(),
