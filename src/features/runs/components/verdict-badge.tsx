@@ -5,6 +5,7 @@ const VERDICT = {
   pass: { label: 'Pass', color: RUN_STATE_COLORS.recording },
   fail: { label: 'Fail', color: RUN_STATE_COLORS.cutoff },
   unrated: { label: 'Unrated', color: RUN_STATE_COLORS.finished },
+  'not-applicable': { label: 'No capacity verdict', color: RUN_STATE_COLORS.finished },
 } as const;
 
 /** Pass / fail / unrated in the run-state palette (pass = the "recording" green, fail = the cutoff red). */
