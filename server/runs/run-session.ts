@@ -1,5 +1,6 @@
 import { createRunPipeline, type RunPipeline, type RunPipelineSnapshot } from '../../shared/measure/run-pipeline.js';
 import { summarizeRun } from '../../shared/measure/summarize-run.js';
+import { withRunDetails } from '../../shared/measure/protection-summary.js';
 import type { Frame } from '../../shared/schemas/frame.js';
 import type { MeasureConfigInput } from '../../shared/schemas/measure-config.js';
 import type { Reading } from '../../shared/schemas/reading.js';
@@ -191,8 +192,9 @@ export class RunSession {
    */
   summary(): RunSummary | null {
     try {
-      this.lastGoodSummary = summarizeRun({
-        snapshot: this.pipeline.snapshot(),
+      const snapshot = this.pipeline.snapshot();
+      const summary = summarizeRun({
+        snapshot,
         events: this.events,
         acceptancePercent: this.run.acceptancePercent,
         ended: this.snap.state === 'finished' || this.snap.state === 'aborted',
@@ -201,6 +203,7 @@ export class RunSession {
         massKg: this.battery?.massKg ?? null,
         leadAcidTempCelsius: this.run.electrolyteTempCelsius ?? null,
       });
+      this.lastGoodSummary = withRunDetails(summary, snapshot, this.events, this.run.kind);
     } catch {
       // Kept as it was: the readings are archived, so the figures can be recomputed from them.
     }

@@ -1,5 +1,6 @@
 import type { MeasureConfig, TempProtection } from '../schemas/measure-config.js';
 import { resolveGapLimit } from './gap-limit.js';
+import type { ProtectionExpectation } from '../schemas/protection-check.js';
 
 /** Share of the end voltage used as the default hysteresis band. */
 const DEFAULT_HYSTERESIS_SHARE = 0.01;
@@ -36,6 +37,7 @@ export interface DetectorSettings {
   ratedAh: number | null;
   ratedWh: number | null;
   tempProtections: TempProtection[];
+  protectionChecks: ProtectionExpectation[];
   tempHysteresisCelsius: number;
   heaterOnAmps: number;
   heaterOffAmps: number;
@@ -70,6 +72,7 @@ export function resolveDetectorSettings(config: MeasureConfig): DetectorSettings
     ratedAh: config.ratedAh ?? null,
     ratedWh: config.ratedWh ?? null,
     tempProtections: config.tempProtections,
+    protectionChecks: config.protectionChecks,
     tempHysteresisCelsius: config.tempHysteresisCelsius,
     heaterOnAmps: config.heaterOnAmps,
     heaterOffAmps: Math.min(config.heaterOffAmps, config.heaterOnAmps),

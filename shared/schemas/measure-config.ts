@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { ChemistrySchema } from './chemistry.js';
+import { ProtectionExpectationSchema } from './protection-check.js';
 
 const pos = z.number().finite().positive();
 const nonNeg = z.number().finite().nonnegative();
@@ -58,6 +59,8 @@ export const MeasureConfigSchema = z.object({
   /** Recovery threshold after a protection cutoff; default the end voltage. */
   recoveryVolts: pos.optional(),
   tempProtections: z.array(TempProtectionSchema).default([]),
+  /** Protections a protection check times against their expected threshold and delay. */
+  protectionChecks: z.array(ProtectionExpectationSchema).default([]),
   /** Hysteresis on temperature limits: back inside only this far past the limit, °C. */
   tempHysteresisCelsius: nonNeg.default(1),
   /** Heater current above this turns the heater "on"; below heaterOffAmps "off". */

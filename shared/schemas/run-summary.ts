@@ -2,6 +2,7 @@ import { z } from 'zod';
 import { RunTotalsSchema } from './reading.js';
 import { ChemistrySchema } from './chemistry.js';
 import { CutoffCauseSchema, ProtectionSignalSchema } from './run-event.js';
+import { ProtectionResultSchema } from './protection-check.js';
 
 const finite = z.number().finite();
 const nonNeg = z.number().finite().nonnegative();
@@ -11,9 +12,10 @@ export const GapLimitBasisSchema = z.enum(['explicit', 'cadence', 'default']);
 
 /**
  * Pass/fail against the acceptance %; `unrated` when no rating was given; `incomplete` when
- * the run did not measure a capacity (see `capacityEndedBy`).
+ * the run did not measure a capacity (see `capacityEndedBy`); `not-applicable` on a run that
+ * is not a capacity test (a protection check is judged by its per-protection table).
  */
-export const VerdictSchema = z.enum(['pass', 'fail', 'unrated', 'incomplete']);
+export const VerdictSchema = z.enum(['pass', 'fail', 'unrated', 'incomplete', 'not-applicable']);
 
 /**
  * What ended the measured capacity: the end voltage, the pack's protection (a trip that did
@@ -108,6 +110,10 @@ export const RunSummarySchema = z
     internalResistanceOhms: finite.nullable(),
     /** Lead-acid only: capacity corrected to 25 °C (IEEE 450 method). */
     correctedAh25C: finite.nullable(),
+    /** Lowest and highest reading of each temperature channel, by the bench's channel name. */
+    tempChannels: z.record(z.string(), z.object({ minCelsius: finite, maxCelsius: finite })).optional(),
+    /** Protection checks only: one row per protection checked (see ProtectionResult). */
+    protections: z.array(ProtectionResultSchema).optional(),
   })
   /** Whole-run totals (every discharge and charge in the run), apart from the capacity above. */
   .extend(RunTotalsSchema.shape);

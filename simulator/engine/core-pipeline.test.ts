@@ -30,5 +30,5 @@ describe('simulated runs through the measurement core', () => {
     const coreOns = events.filter((e) => e.type === 'heater-on');
     expect(coreOns.length).toBe(modelOns.length);
     coreOns.forEach((on, i) => expect(Math.abs(on.t - modelOns[i].t)).toBeLessThanOrEqual(5));
-  });
+  }, 30_000); // hours of simulated charge at 1 Hz
 });

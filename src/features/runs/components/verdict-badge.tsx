@@ -6,6 +6,7 @@ const VERDICT = {
   fail: { label: 'Fail', color: TONE_COLORS.fault },
   unrated: { label: 'Unrated', color: TONE_COLORS.over },
   incomplete: { label: 'Incomplete', color: TONE_COLORS.caution },
+  'not-applicable': { label: 'No capacity verdict', color: TONE_COLORS.over },
 } as const;
 
 /** Pass / fail / unrated / incomplete in the palette's tones (good, fault, over, caution), text in the theme's on-tone colour. */
