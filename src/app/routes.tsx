@@ -59,6 +59,7 @@ export function createRoutes(queryClient: QueryClient): RouteObject[] {
             { path: '/runs/compare', ...at(() => import('./routes/compare')) },
             { path: '/runs/:runId', ...at(() => import('./routes/run')) },
             { path: '/batteries', ...at(() => import('./routes/batteries')) },
+            { path: '/batteries/:batteryId', ...at(() => import('./routes/battery')) },
             { path: '/users', ...at(() => import('./routes/users')) },
             { path: '/settings', ...at(() => import('./routes/settings')) },
             { path: '/account', ...at(() => import('./routes/account')) },

@@ -67,6 +67,11 @@ export interface ApiRequest<T> {
   signal?: AbortSignal;
 }
 
+/** The session's CSRF token for a request the api() helper cannot make (an upload with progress). */
+export async function csrfTokenForUpload(): Promise<string> {
+  return csrfToken ?? fetchCsrfToken();
+}
+
 async function send(path: string, method: string, body: unknown, signal?: AbortSignal): Promise<Response> {
   const headers: Record<string, string> = { Accept: 'application/json' };
   const multipart = typeof FormData !== 'undefined' && body instanceof FormData;

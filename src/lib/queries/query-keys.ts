@@ -21,7 +21,9 @@ export const queryKeys = {
     all: ['batteries'] as const,
     list: () => ['batteries'] as const,
     detail: (batteryId: number | null) => ['batteries', batteryId] as const,
+    inspection: (batteryId: number) => ['batteries', batteryId, 'inspection'] as const,
   },
+  inspectionItems: ['inspection-items'] as const,
   runs: {
     all: ['runs'] as const,
     lists: () => ['runs', 'list'] as const,

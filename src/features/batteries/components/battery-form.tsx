@@ -19,10 +19,24 @@ interface Values {
   massKg: string;
   serialNumber: string;
   sender: string;
+  owner: string;
+  receivedOn: string;
+  lengthMm: string;
+  widthMm: string;
+  heightMm: string;
+  terminalType: string;
+  statedCycleLife: string;
+  warrantyMonths: string;
+  price: string;
+  priceCurrency: string;
+  notes: string;
 }
 
 const optionalNumber = (v: string) => (v.trim() === '' ? null : Number(v));
 const positive = (v: string) => v.trim() === '' || Number(v) > 0 || 'A number above 0.';
+const wholeOrEmpty = (v: string) => v.trim() === '' || (Number.isInteger(Number(v)) && Number(v) >= 0) || 'A whole number.';
+const nonNegative = (v: string) => v.trim() === '' || Number(v) >= 0 || 'A number, 0 or more.';
+const orNull = (v: string) => v.trim() || null;
 
 const text = (v: string | number | null | undefined) => (v === null || v === undefined ? '' : String(v));
 
@@ -31,7 +45,10 @@ function initialValues(b?: Battery): Values {
     label: text(b?.label), brand: text(b?.brand), model: text(b?.model), chemistry: b?.chemistry ?? 'lfp',
     cellsInSeries: text(b?.cellsInSeries), cellsInParallel: text(b?.cellsInParallel ?? 1), ratedAh: text(b?.ratedAh),
     ratedWh: text(b?.ratedWh), bmsRatedAmps: text(b?.bmsRatedAmps), massKg: text(b?.massKg),
-    serialNumber: text(b?.serialNumber), sender: text(b?.sender),
+    serialNumber: text(b?.serialNumber), sender: text(b?.sender), owner: text(b?.owner), receivedOn: text(b?.receivedOn),
+    lengthMm: text(b?.lengthMm), widthMm: text(b?.widthMm), heightMm: text(b?.heightMm), terminalType: text(b?.terminalType),
+    statedCycleLife: text(b?.statedCycleLife), warrantyMonths: text(b?.warrantyMonths), price: text(b?.price),
+    priceCurrency: text(b?.priceCurrency), notes: text(b?.notes),
   };
 }
 
@@ -56,7 +73,18 @@ export function BatteryForm({ battery, onDone }: { battery?: Battery; onDone: ()
       bmsRatedAmps: optionalNumber(v.bmsRatedAmps),
       massKg: optionalNumber(v.massKg),
       serialNumber: v.serialNumber.trim() || null,
-      sender: v.sender.trim() || null,
+      sender: orNull(v.sender),
+      owner: orNull(v.owner),
+      receivedOn: orNull(v.receivedOn),
+      lengthMm: optionalNumber(v.lengthMm),
+      widthMm: optionalNumber(v.widthMm),
+      heightMm: optionalNumber(v.heightMm),
+      terminalType: orNull(v.terminalType),
+      statedCycleLife: optionalNumber(v.statedCycleLife),
+      warrantyMonths: optionalNumber(v.warrantyMonths),
+      price: optionalNumber(v.price),
+      priceCurrency: orNull(v.priceCurrency.toUpperCase()),
+      notes: orNull(v.notes),
     };
     if (battery) updateMutation.mutate({ id: battery.id, patch: body }, { onSuccess: onDone });
     else createMutation.mutate(body, { onSuccess: onDone });
@@ -76,6 +104,23 @@ export function BatteryForm({ battery, onDone }: { battery?: Battery; onDone: ()
       <TextField label="Mass (kg)" inputMode="decimal" error={errors.massKg?.message} {...register('massKg', { validate: positive })} />
       <TextField label="Serial number" {...register('serialNumber')} />
       <TextField label="Sent by" placeholder="Kestrel Energy" {...register('sender')} />
+      <TextField label="Owner or client" error={server.owner} {...register('owner')} />
+      <TextField label="Received on" type="date" error={server.receivedOn} {...register('receivedOn')} />
+      <TextField label="Length (mm)" inputMode="decimal" error={errors.lengthMm?.message ?? server.lengthMm} {...register('lengthMm', { validate: positive })} />
+      <TextField label="Width (mm)" inputMode="decimal" error={errors.widthMm?.message ?? server.widthMm} {...register('widthMm', { validate: positive })} />
+      <TextField label="Height (mm)" inputMode="decimal" error={errors.heightMm?.message ?? server.heightMm} {...register('heightMm', { validate: positive })} />
+      <TextField label="Terminal type" placeholder="M8 studs" {...register('terminalType')} />
+      <TextField label="Stated cycle life (cycles)" inputMode="numeric" error={errors.statedCycleLife?.message ?? server.statedCycleLife} {...register('statedCycleLife', { validate: wholeOrEmpty })} />
+      <TextField label="Warranty (months)" inputMode="numeric" error={errors.warrantyMonths?.message ?? server.warrantyMonths} {...register('warrantyMonths', { validate: wholeOrEmpty })} />
+      <TextField label="Price" inputMode="decimal" error={errors.price?.message ?? server.price} {...register('price', { validate: nonNegative })} />
+      <TextField label="Currency" placeholder="EUR" maxLength={3} error={server.priceCurrency} {...register('priceCurrency')} />
+      <div className="flex flex-col gap-1 md:col-span-3">
+        <label htmlFor="battery-notes" className="text-sm font-medium text-ink-muted">
+          Notes
+        </label>
+        <textarea id="battery-notes" rows={3} className="w-full rounded-lg border border-line bg-surface-sunken px-3 py-2 text-base text-ink focus:border-accent focus:outline-none" {...register('notes')} />
+        {server.notes && <p role="alert" className="text-sm font-medium text-state-cutoff">{server.notes}</p>}
+      </div>
       {create.isError && (
         <p role="alert" className="text-sm font-medium text-state-cutoff md:col-span-3">
           {create.error instanceof Error ? create.error.message : 'The pack was not saved.'}
