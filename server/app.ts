@@ -6,6 +6,7 @@ import { csrfProtection } from './http/csrf.js';
 import { apiNotFound, createErrorHandler } from './http/error-handler.js';
 import { serveClient } from './http/client-static.js';
 import { createAuthRouter } from './auth/auth-routes.js';
+import { requireSignedIn } from './auth/guards.js';
 import { createUsersRouter } from './users/users-routes.js';
 import { createBatteriesRouter } from './batteries/batteries-routes.js';
 import { createSettingsRouter } from './settings/settings-routes.js';
@@ -40,7 +41,7 @@ export function createApp(ctx: AppContext): Express {
   // ── end of router mounts ──
 
   app.use('/api', apiNotFound);
-  serveClient(app, ctx.config.clientDir);
+  serveClient(app, ctx.config.clientDir, [ctx.sessionMiddleware, ctx.passport.initialize(), ctx.passport.session(), requireSignedIn]);
   app.use(createErrorHandler((message, error) => ctx.log.error(message, error)));
   return app;
 }
