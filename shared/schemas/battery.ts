@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { labelText, noteText, optionalLabelText } from './text.js';
 
 /** Cell chemistries Kneepoint knows end voltages for (trade abbreviations). */
 export const CHEMISTRIES = ['lfp', 'nmc', 'nca', 'lco', 'lmo', 'lto', 'lead-acid', 'nimh'] as const;
@@ -9,14 +10,14 @@ export type Chemistry = z.infer<typeof ChemistrySchema>;
 const MAX_CELLS_IN_SERIES = 600;
 const MAX_CELLS_IN_PARALLEL = 500;
 
-const optionalText = (max: number) => z.string().trim().max(max).nullable().optional();
+const optionalLabel = (max: number) => optionalLabelText(max).nullable().optional();
 const positive = () => z.number().finite().positive();
 
 /** The editable fields, without defaults (so a partial update never resets a field). */
 const BatteryFieldsSchema = z.object({
-  label: z.string().trim().min(1).max(120),
-  brand: z.string().trim().min(1).max(120),
-  model: optionalText(120),
+  label: labelText(120),
+  brand: labelText(120),
+  model: optionalLabel(120),
   chemistry: ChemistrySchema,
   cellsInSeries: z.number().int().min(1).max(MAX_CELLS_IN_SERIES),
   cellsInParallel: z.number().int().min(1).max(MAX_CELLS_IN_PARALLEL),
@@ -26,9 +27,9 @@ const BatteryFieldsSchema = z.object({
   massKg: positive().nullable().optional(),
   price: z.number().finite().nonnegative().nullable().optional(),
   priceCurrency: z.string().regex(/^[A-Z]{3}$/, 'ISO 4217 code such as EUR').nullable().optional(),
-  serialNumber: optionalText(120),
-  sender: optionalText(200),
-  notes: optionalText(4000),
+  serialNumber: optionalLabel(120),
+  sender: optionalLabel(200),
+  notes: noteText(4000).nullable().optional(),
 });
 
 /** Fields a technician sends to create a battery pack record (a single cell group by default). */
