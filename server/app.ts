@@ -7,6 +7,7 @@ import { apiNotFound, createErrorHandler } from './http/error-handler.js';
 import { serveClient } from './http/client-static.js';
 import { databaseGate, healthRoute } from './http/database-gate.js';
 import { createAuthRouter } from './auth/auth-routes.js';
+import { requireSignedIn } from './auth/guards.js';
 import { createUsersRouter } from './users/users-routes.js';
 import { createBatteriesRouter } from './batteries/batteries-routes.js';
 import { createSettingsRouter } from './settings/settings-routes.js';
@@ -49,7 +50,7 @@ export function createApp(ctx: AppContext): Express {
   // ── end of router mounts ──
 
   app.use('/api', apiNotFound);
-  serveClient(app, ctx.config.clientDir);
+  serveClient(app, ctx.config.clientDir, [ctx.sessionMiddleware, ctx.passport.initialize(), ctx.passport.session(), requireSignedIn]);
   app.use(createErrorHandler((message, error) => ctx.log.error(message, error)));
   return app;
 }

@@ -1,15 +1,25 @@
 import { existsSync } from 'node:fs';
 import { join } from 'node:path';
-import express, { type Express } from 'express';
+import express, { type Express, type RequestHandler } from 'express';
 
 const NOT_BUILT_PAGE =
   '<!doctype html><meta charset="utf-8"><title>Kneepoint</title>' +
   '<p>The client is not built yet: run <code>npm run build:client</code> (npm start does it for you).</p>';
 
-/** Serves the built client with an SPA fallback (any non-API GET that wants HTML gets index.html). */
-export function serveClient(app: Express, clientDir: string): void {
+/**
+ * Serves the built client with an SPA fallback (any non-API GET that wants HTML gets
+ * index.html). Source maps hold the whole client source, so they pass `guardSourceMaps`
+ * (sign-in) first and are never cached by shared caches.
+ */
+export function serveClient(app: Express, clientDir: string, guardSourceMaps: RequestHandler[]): void {
   const indexFile = join(clientDir, 'index.html');
   const built = existsSync(indexFile);
+  const maps = express.Router();
+  maps.use(...guardSourceMaps, (_req, res, next) => {
+    res.setHeader('Cache-Control', 'private, no-store');
+    next();
+  });
+  app.use((req, res, next) => (req.path.endsWith('.map') ? maps(req, res, next) : next()));
   if (built) app.use(express.static(clientDir, { index: false, maxAge: '1h' }));
   app.use((req, res, next) => {
     const wantsPage = (req.method === 'GET' || req.method === 'HEAD') && !req.path.startsWith('/api/') && !req.path.startsWith('/ws');

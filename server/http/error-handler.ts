@@ -11,8 +11,12 @@ export interface ErrorBody {
 function zodFields(error: ZodError): Record<string, string[]> {
   const fields: Record<string, string[]> = {};
   for (const issue of error.issues) {
-    const key = issue.path.length > 0 ? issue.path.join('.') : '(body)';
-    (fields[key] ??= []).push(issue.message);
+    // An unknown key is listed under its own name, so the answer says which key to remove.
+    const paths = issue.code === 'unrecognized_keys' ? issue.keys.map((k) => [...issue.path, k]) : [issue.path];
+    for (const path of paths) {
+      const key = path.length > 0 ? path.join('.') : '(body)';
+      (fields[key] ??= []).push(issue.code === 'unrecognized_keys' ? 'unknown field' : issue.message);
+    }
   }
   return fields;
 }

@@ -275,3 +275,22 @@ describe('LiveHub: subscribes that complete late', () => {
     expect(sock.sent.filter((m) => m.type === 'snapshot')).toHaveLength(0);
   });
 });
+
+describe('LiveHub snapshots', () => {
+  it('a snapshot holds the readings up to its moment, also after earlier snapshots of the topic', async () => {
+    const { hub } = setup();
+    const sock = new FakeSocket();
+    const c = new ClientSender(sock, user);
+    for (let i = 0; i < 3; i++) hub.publishSample({ kind: 'bench', id: 8 }, frame(i));
+    await hub.subscribe(c, { kind: 'bench', id: 8 });
+    hub.unsubscribe(c, { kind: 'bench', id: 8 });
+    await hub.subscribe(c, { kind: 'bench', id: 8 });
+    hub.unsubscribe(c, { kind: 'bench', id: 8 });
+    hub.publishSample({ kind: 'bench', id: 8 }, frame(3));
+    await hub.subscribe(c, { kind: 'bench', id: 8 });
+    const snaps = sock.sent.filter((m) => m.type === 'snapshot') as { topic: unknown; status: unknown; recent: { t: number[]; volts: number[] }; events: unknown[] }[];
+    expect(snaps.map((s) => s.recent.t)).toEqual([[0, 1, 2], [0, 1, 2], [0, 1, 2, 3]]);
+    expect(snaps[2]).toMatchObject({ topic: { kind: 'bench', id: 8 }, status: { state: 'receiving' }, events: [] });
+    expect(snaps[2]!.recent.volts).toEqual([12, 12, 12, 12]);
+  });
+});

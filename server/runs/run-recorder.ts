@@ -50,6 +50,9 @@ export interface KeptReading {
   arrivalS: number;
 }
 
+/** How far past a live run's latest reading a note may be placed (a browser clock a little ahead). */
+export const NOTE_AHEAD_OF_LIVE_S = 10;
+
 /**
  * Records live runs: one run per bench at a time. Every frame of a bench with a live run
  * goes through that run's RunSession (the measurement core), out to listeners (the
@@ -176,12 +179,19 @@ export class RunRecorder {
   /** Adds an annotation at a run time (default: the latest reading) and tells every viewer. */
   async annotate(runId: number, text: string, t: number | undefined, author: { id: number; name: string }): Promise<StoredRunEvent> {
     const session = this.sessions.get(runId);
-    if (!session && !(await this.deps.repo.get(runId))) throw notFound(`Run ${runId}`);
+    const stored = session ? null : await this.deps.repo.get(runId);
+    if (!session && !stored) throw notFound(`Run ${runId}`);
+    // A note belongs within the run: up to its latest reading (live), or its length (ended).
+    const lengthS = session ? (session.lastElapsed ?? 0) + NOTE_AHEAD_OF_LIVE_S : (stored?.summary?.durationSeconds ?? null);
+    if (t !== undefined && lengthS !== null && t > lengthS) {
+      const what = session ? 'the latest reading' : 'the end of the run';
+      throw new HttpError(400, `The note's time (${t} s) is after ${what} (${lengthS.toFixed(1)} s)`, { t: [`at most ${lengthS.toFixed(1)} s`] });
+    }
     const at = t ?? session?.lastElapsed ?? 0;
-    const stored = await this.deps.repo.insertEvent(runId, { type: 'annotation', t: at, text, author: author.name }, author.id);
-    session?.events.push(stored.event);
-    this.events.emit(runId, stored);
-    return stored;
+    const note = await this.deps.repo.insertEvent(runId, { type: 'annotation', t: at, text, author: author.name }, author.id);
+    session?.events.push(note.event);
+    this.events.emit(runId, note);
+    return note;
   }
 
   /** Tells viewers about a new name or tags (and keeps a live session's copy current). */

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { labelText, noteText } from './text.js';
 import {
   EndVoltsSchema,
   RunAlarmsSchema,
@@ -16,7 +17,7 @@ const id = z.coerce.number().int().positive();
 export const MAX_GAP_LIMIT_SECONDS = 86_400;
 /** Electrolyte temperatures a lab could meet at all (the correction itself covers a narrower table range). */
 const ELECTROLYTE_CELSIUS = { min: -40, max: 80 } as const;
-const tags = z.array(z.string().trim().min(1).max(50)).max(30);
+const tags = z.array(labelText(50)).max(30);
 /** A run's tags as every route accepts them (the import splits its comma-separated field into this). */
 export const RunTagsSchema = tags;
 
@@ -25,7 +26,7 @@ export const StartRunRequestSchema = z
   .object({
     benchId: z.number().int().positive(),
     batteryId: z.number().int().positive(),
-    name: z.string().trim().min(1).max(200),
+    name: labelText(200),
     tags: tags.default([]),
     kind: RunKindSchema.default('capacity-discharge'),
     endVolts: EndVoltsSchema.nullable().default(null),
@@ -58,7 +59,7 @@ export const StopRunRequestSchema = z.object({ abort: z.boolean().default(false)
 
 /** PATCH /api/runs/:id — rename or retag. */
 export const PatchRunRequestSchema = z
-  .object({ name: z.string().trim().min(1).max(200).optional(), tags: tags.optional() })
+  .object({ name: labelText(200).optional(), tags: tags.optional() })
   .refine((p) => p.name !== undefined || p.tags !== undefined, { message: 'nothing to change' });
 
 /** GET /api/runs query: every filter optional, `q` searches the name. */
@@ -116,7 +117,7 @@ export type SamplesResponse = z.infer<typeof SamplesResponseSchema>;
 export const AnnotateRequestSchema = z.object({
   /** Seconds since the run started; default: the latest reading's time. */
   t: z.number().finite().nonnegative().optional(),
-  text: z.string().trim().min(1).max(2000),
+  text: noteText(2000, 1),
 });
 
 /** A stored event: the RunEvent plus its database id and when it was written. */
@@ -159,7 +160,7 @@ export const ImportColumnMapSchema = z.object({
 
 /** Multipart fields of POST /api/runs/import (the CSV is the `file` part). */
 export const ImportFieldsSchema = z.object({
-  name: z.string().trim().min(1).max(200),
+  name: labelText(200),
   batteryId: z.coerce.number().int().positive().optional(),
   endVolts: z.coerce.number().finite().positive().optional(),
   currentSign: ImportCurrentSignSchema.default('auto'),

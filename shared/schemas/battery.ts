@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { labelText, noteText, optionalLabelText } from './text.js';
 
 /** Cell chemistries Kneepoint knows end voltages for (trade abbreviations). */
 export const CHEMISTRIES = ['lfp', 'nmc', 'nca', 'lco', 'lmo', 'lto', 'lead-acid', 'nimh'] as const;
@@ -18,14 +19,14 @@ const MAX_WARRANTY_MONTHS = 360;
 const isoDate = () => z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'a date such as 2026-11-30').refine((d) => !Number.isNaN(Date.parse(`${d}T00:00:00Z`)), 'not a real date');
 const dimensionMm = () => z.number().finite().positive().max(MAX_DIMENSION_MM).nullable().optional();
 
-const optionalText = (max: number) => z.string().trim().max(max).nullable().optional();
+const optionalLabel = (max: number) => optionalLabelText(max).nullable().optional();
 const positive = () => z.number().finite().positive();
 
 /** The editable fields, without defaults (so a partial update never resets a field). */
 const BatteryFieldsSchema = z.object({
-  label: z.string().trim().min(1).max(120),
-  brand: z.string().trim().min(1).max(120),
-  model: optionalText(120),
+  label: labelText(120),
+  brand: labelText(120),
+  model: optionalLabel(120),
   chemistry: ChemistrySchema,
   cellsInSeries: z.number().int().min(1).max(MAX_CELLS_IN_SERIES),
   cellsInParallel: z.number().int().min(1).max(MAX_CELLS_IN_PARALLEL),
@@ -35,16 +36,16 @@ const BatteryFieldsSchema = z.object({
   massKg: positive().nullable().optional(),
   price: z.number().finite().nonnegative().nullable().optional(),
   priceCurrency: z.string().regex(/^[A-Z]{3}$/, 'ISO 4217 code such as EUR').nullable().optional(),
-  serialNumber: optionalText(120),
-  sender: optionalText(200),
-  notes: optionalText(4000),
+  serialNumber: optionalLabel(120),
+  sender: optionalLabel(200),
+  notes: noteText(4000).nullable().optional(),
   receivedOn: isoDate().nullable().optional(),
   /** Who owns the pack or asked for the test (the client), when not the sender. */
-  owner: optionalText(200),
+  owner: optionalLabel(200),
   lengthMm: dimensionMm(),
   widthMm: dimensionMm(),
   heightMm: dimensionMm(),
-  terminalType: optionalText(120),
+  terminalType: optionalLabel(120),
   statedCycleLife: z.number().int().positive().max(MAX_CYCLE_LIFE).nullable().optional(),
   warrantyMonths: z.number().int().nonnegative().max(MAX_WARRANTY_MONTHS).nullable().optional(),
 });

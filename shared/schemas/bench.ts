@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { labelText, noteText } from './text.js';
 
 /**
  * Benches and their sources: the one source of truth for the server's bench manager,
@@ -222,19 +223,19 @@ export const BenchSchema = z.object({
 export const BenchWithStatusSchema = BenchSchema.extend({ status: BenchStatusSchema });
 
 export const CreateBenchRequestSchema = z.object({
-  name: z.string().trim().min(1).max(NAME_MAX_CHARS),
+  name: labelText(NAME_MAX_CHARS),
   source: BenchSourceConfigSchema,
   enabled: z.boolean().default(true),
-  notes: z.string().max(NOTES_MAX_CHARS).default(''),
+  notes: noteText(NOTES_MAX_CHARS).default(''),
   loadOnAmps: LoadOnAmpsSchema.default(null),
 });
 
 export const UpdateBenchRequestSchema = z
   .object({
-    name: z.string().trim().min(1).max(NAME_MAX_CHARS),
+    name: labelText(NAME_MAX_CHARS),
     source: BenchSourceConfigSchema,
     enabled: z.boolean(),
-    notes: z.string().max(NOTES_MAX_CHARS),
+    notes: noteText(NOTES_MAX_CHARS),
     loadOnAmps: LoadOnAmpsSchema,
   })
   .partial();

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { labelText } from './text.js';
 import { CHEMISTRIES, type Chemistry } from './battery.js';
 
 /**
@@ -38,10 +39,12 @@ const endVoltsShape = Object.fromEntries(
   ]),
 ) as Record<Chemistry, z.ZodDefault<z.ZodNumber>>;
 
+const EndVoltsPerCellSchema = z.object(endVoltsShape);
+
 /** Lab-wide settings (admin writes, everyone reads). Missing keys take their defaults. */
 export const LabSettingsSchema = z.object({
-  labName: z.string().trim().min(1).max(120).default('My lab'),
-  endVoltsPerCell: z.object(endVoltsShape).prefault({}),
+  labName: labelText(120).default('My lab'),
+  endVoltsPerCell: EndVoltsPerCellSchema.prefault({}),
   acceptancePercent: z.number().min(1).max(100).default(DEFAULT_ACCEPTANCE_PERCENT),
   temperatureUnit: z.enum(['C', 'F']).default('C'),
   energyUnit: z.enum(['Wh', 'kWh']).default('Wh'),
@@ -49,5 +52,8 @@ export const LabSettingsSchema = z.object({
 });
 export type LabSettings = z.infer<typeof LabSettingsSchema>;
 
-/** PUT /api/settings body: the whole document, strictly checked (defaults fill the gaps). */
-export const LabSettingsInputSchema = LabSettingsSchema.strict();
+/**
+ * PUT /api/settings body: the whole document, strictly checked at every level (an unknown
+ * key, nested ones included, is refused rather than dropped; defaults fill the gaps).
+ */
+export const LabSettingsInputSchema = LabSettingsSchema.extend({ endVoltsPerCell: EndVoltsPerCellSchema.strict().prefault({}) }).strict();

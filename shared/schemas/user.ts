@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { labelText } from './text.js';
 
 /** Roles from least to most powerful: each one may do everything the ones before it may. */
 export const ROLES = ['viewer', 'technician', 'admin'] as const;
@@ -47,7 +48,7 @@ export const ChangePasswordRequestSchema = z.object({
 /** POST /api/users (admin) */
 export const CreateUserRequestSchema = z.object({
   email: EmailSchema,
-  name: z.string().trim().min(1).max(120),
+  name: labelText(120),
   role: RoleSchema,
   password: PasswordSchema,
 });
@@ -56,7 +57,7 @@ export type CreateUserRequest = z.infer<typeof CreateUserRequestSchema>;
 /** PATCH /api/users/:id (admin): set role, rename, disable or enable. */
 export const UpdateUserRequestSchema = z
   .object({
-    name: z.string().trim().min(1).max(120).optional(),
+    name: labelText(120).optional(),
     role: RoleSchema.optional(),
     disabled: z.boolean().optional(),
   })

@@ -98,3 +98,40 @@ describe('the error handler on an unexpected failure', () => {
     expect(logged).toHaveLength(1);
   });
 });
+
+describe('labels refuse control characters; settings refuse unknown keys at any depth', () => {
+  const nulOnly = '\u0000\u0000';
+
+  it('a NUL-only or control-laden label is refused in every label-like field', async () => {
+    const battery = { brand: 'Voltara', chemistry: 'lfp', cellsInSeries: 4, ratedAh: 10 };
+    for (const body of [
+      { ...battery, label: nulOnly },
+      { ...battery, label: 'Pack\u001b[2JA' },
+      { ...battery, label: 'Pack A', brand: '\u0000' },
+      { ...battery, label: 'Pack A', model: 'M\u0000' },
+      { ...battery, label: 'Pack A', notes: 'ok\u0000' },
+    ]) {
+      const response = await technician.post('/api/batteries').send(body);
+      expectCleanClientError(response, 400, /invalid request/i);
+    }
+    const bench = await admin.post('/api/benches').send({ name: nulOnly, source: { kind: 'none' } });
+    expectCleanClientError(bench, 400, /invalid request/i);
+    expect(Object.keys(bench.body.error.fields)).toContain('name');
+    const user = await admin.post('/api/users').send({ email: 'nul@test.lab', name: '\u200B', role: 'viewer', password: 'long-enough-pw' });
+    expect(Object.keys(user.body.error.fields)).toContain('name');
+    const lab = await admin.patch('/api/settings').send({ labName: nulOnly });
+    expect(Object.keys(lab.body.error.fields)).toContain('labName');
+    // Ordinary labels with accents and symbols still go through.
+    await technician.post('/api/batteries').send({ ...battery, label: 'Zelle Ø18 µΩ', model: '', notes: 'line one\nline two' }).expect(201);
+  });
+
+  it('an unknown nested key in the settings PATCH is a 400 naming the key, and nothing is saved', async () => {
+    const before = (await admin.get('/api/settings').expect(200)).body.settings;
+    const response = await admin.patch('/api/settings').send({ endVoltsPerCell: { lfp: 2.6, lfpp: 2.4 } });
+    expectCleanClientError(response, 400, /invalid request/i);
+    expect(response.body.error.fields).toEqual({ 'endVoltsPerCell.lfpp': ['unknown field'] });
+    const top = await admin.put('/api/settings').send({ labName: 'X', colour: 'red' });
+    expect(top.body.error.fields).toEqual({ colour: ['unknown field'] });
+    expect((await admin.get('/api/settings').expect(200)).body.settings).toEqual(before);
+  });
+});

@@ -118,6 +118,13 @@ describe('a live run', () => {
     const note = await tech.post(`/api/runs/${runId}/events`).send({ t: 120, text: 'fan moved closer' }).expect(201);
     expect(note.body.event.event).toMatchObject({ type: 'annotation', t: 120, text: 'fan moved closer' });
     await tech.post(`/api/runs/${runId}/events`).send({ text: '' }).expect(400);
+    await tech.post(`/api/runs/${runId}/events`).send({ text: '\u0000\u0000' }).expect(400);
+    // A note far beyond the run's end is refused with its length; one at the very end is kept.
+    const { durationSeconds } = (await viewer.get(`/api/runs/${runId}`)).body.run.summary;
+    const late = await tech.post(`/api/runs/${runId}/events`).send({ t: durationSeconds + 1e6, text: 'far beyond the end' }).expect(400);
+    expect(late.body.error.message).toMatch(/after the end of the run/);
+    expect(late.body.error.fields.t).toBeDefined();
+    await tech.post(`/api/runs/${runId}/events`).send({ t: durationSeconds, text: 'at the very end' }).expect(201);
     await viewer.patch(`/api/runs/${runId}`).send({ name: 'nope' }).expect(403);
     await tech.patch(`/api/runs/${runId}`).send({ name: 'Capacity Voltara A-12 (repeat)', tags: ['repeat'] }).expect(200);
     const byName = ListRunsResponseSchema.parse((await viewer.get('/api/runs?q=repeat').expect(200)).body);
