@@ -1,7 +1,7 @@
 import type { Run } from '../../../../shared/schemas/run';
 import { CHEMISTRY_LABEL } from '../../../lib/chemistry-label';
 import { useLabSettings } from '../../../lib/lab-settings';
-import { formatCharge, formatEnergy, formatNumber, formatPercent, formatVolts } from '../../../lib/units';
+import { formatCharge, formatEnergy, formatNumber, formatPercent, formatTemperature, formatVolts } from '../../../lib/units';
 import { useRunBattery, useRunBench } from '../api/get-run-context';
 
 const KIND = { 'capacity-discharge': 'Capacity discharge', charge: 'Charge', 'protection-check': 'Protection check', custom: 'Custom' } as const;
@@ -20,7 +20,7 @@ function Row({ label, value }: { label: string; value: string }) {
 export function RunSetupPanel({ run }: { run: Run }) {
   const battery = useRunBattery(run.batteryId);
   const bench = useRunBench(run.benchId);
-  const { energyUnit } = useLabSettings();
+  const { energyUnit, temperatureUnit } = useLabSettings();
   const b = battery.data;
   const cells = run.endVolts?.mode === 'per-cell' ? (run.endVolts.cellsInSeries ?? b?.cellsInSeries ?? null) : null;
   const endVolts =
@@ -56,6 +56,7 @@ export function RunSetupPanel({ run }: { run: Run }) {
           <Row label="Bench" value={run.origin === 'import' ? 'Imported log' : (bench.data?.name ?? (run.benchId === null ? '—' : `Bench ${run.benchId}`))} />
           <Row label="End voltage" value={endVolts} />
           <Row label="Acceptance" value={`${formatPercent(run.acceptancePercent, 0)} of rated`} />
+          {run.electrolyteTempCelsius != null && <Row label="Electrolyte at start" value={formatTemperature(run.electrolyteTempCelsius, temperatureUnit)} />}
           <Row label="Stop" value={STOP[run.stopWhen]} />
           {run.targetAh !== null && <Row label="Target" value={formatCharge(run.targetAh)} />}
           {run.targetWh !== null && <Row label="Target" value={formatEnergy(run.targetWh, energyUnit)} />}
