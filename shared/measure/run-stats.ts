@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { createRoundTripState, RoundTripStateSchema } from './round-trip.js';
 
 const nullableNumber = z.number().nullable();
 
@@ -23,6 +24,8 @@ export const RunStatsSchema = z.object({
   /** Temperature range (any channel) while under load, °C; absent in older snapshots. */
   loadMinTempCelsius: nullableNumber.default(null),
   loadMaxTempCelsius: nullableNumber.default(null),
+  /** The first discharge and the charge after it (round-trip efficiency); fresh in older snapshots. */
+  roundTrip: RoundTripStateSchema.default(createRoundTripState),
 });
 export type RunStats = z.infer<typeof RunStatsSchema>;
 
@@ -31,7 +34,7 @@ export function createRunStats(): RunStats {
   return {
     minVolts: null, maxVolts: null, minTempCelsius: null, maxTempCelsius: null, lastElapsedSeconds: null,
     loadSeconds: 0, loadVoltSeconds: 0, loadAmpSeconds: 0, loadWattSeconds: 0, lastLoadT: null, lastLoadVolts: 0, lastLoadAmps: 0,
-    loadMinTempCelsius: null, loadMaxTempCelsius: null,
+    loadMinTempCelsius: null, loadMaxTempCelsius: null, roundTrip: createRoundTripState(),
   };
 }
 

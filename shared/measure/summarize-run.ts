@@ -4,7 +4,7 @@ import { meansUnderLoad } from './run-stats.js';
 import { sumValue } from './compensated-sum.js';
 import { integratorTotals, rejectedCounts } from './integrator-state.js';
 import type { RunPipelineSnapshot } from './run-pipeline.js';
-import { DEFAULT_ACCEPTANCE_PERCENT, costPerKWh, cRate, percentOfRated, roundTripEfficiency, verdictFor, whPerKg } from './figures.js';
+import { DEFAULT_ACCEPTANCE_PERCENT, costPerKWh, cRate, percentOfRated, verdictFor, whPerKg } from './figures.js';
 import { nominalVolts } from './nominal.js';
 import { internalResistanceFromSteps, type VoltAmpSample } from './internal-resistance.js';
 import { correctedAhAt25C } from './lead-acid-correction.js';
@@ -12,6 +12,7 @@ import { resolveGapLimit } from './gap-limit.js';
 import { capacityResult, COMPLETE_ENDS } from './capacity-result.js';
 import { resolveDetectorSettings } from './detector-settings.js';
 import { testConditionFlags } from './test-conditions.js';
+import { roundTripResult } from './round-trip.js';
 
 /** What summarizeRun needs beyond the pipeline's own state. */
 export interface SummarizeRunInput {
@@ -65,6 +66,7 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
   const rate = cRate(meanAmps, cfg.ratedAh);
   const testMinTempCelsius = snapshot.stats.loadMinTempCelsius ?? null;
   const testMaxTempCelsius = snapshot.stats.loadMaxTempCelsius ?? null;
+  const roundTrip = roundTripResult(snapshot.stats.roundTrip);
   const verdict = COMPLETE_ENDS.has(capacity.endedBy) ? verdictFor(percents, acceptancePercent) : 'incomplete';
   const ir = input.readings ? internalResistanceFromSteps(input.readings).medianOhms : null;
   const leadTemp = input.leadAcidTempCelsius ?? null;
@@ -111,7 +113,8 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
     ...testConditionFlags(rate, testMinTempCelsius, testMaxTempCelsius),
     costPerKWh: costPerKWh(input.price, deliveredWh),
     whPerKg: whPerKg(deliveredWh, input.massKg),
-    roundTripEfficiency: roundTripEfficiency(totals.dischargeWh, totals.chargeWh),
+    roundTripEfficiency: roundTrip.efficiency,
+    roundTripStatus: roundTrip.status,
     internalResistanceOhms: ir,
     correctedAh25C: cfg.chemistry === 'lead-acid' && leadTemp !== null && deliveredAh !== null ? correctedAhAt25C(deliveredAh, leadTemp) : null,
   });

@@ -103,8 +103,12 @@ export const RunSummarySchema = z
     tempOutsideStandard: z.boolean().nullable().default(null),
     costPerKWh: finite.nullable(),
     whPerKg: finite.nullable(),
-    /** Discharge Wh ÷ charge Wh when both halves are in the run. */
+    /**
+     * Wh out of the first discharge ÷ Wh in to the full charge after it; null unless
+     * `roundTripStatus` is `complete` (`incomplete`: the charge was partial; null: no such pair).
+     */
     roundTripEfficiency: finite.nullable(),
+    roundTripStatus: z.enum(['complete', 'incomplete']).nullable().default(null),
     internalResistanceOhms: finite.nullable(),
     /** Lead-acid only: capacity corrected to 25 °C (IEEE 450 method). */
     correctedAh25C: finite.nullable(),
