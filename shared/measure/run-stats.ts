@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { createRoundTripState, RoundTripStateSchema } from './round-trip.js';
+import { createLoadStepState, LoadStepStateSchema } from './internal-resistance.js';
 
 const nullableNumber = z.number().nullable();
 
@@ -26,6 +27,8 @@ export const RunStatsSchema = z.object({
   loadMaxTempCelsius: nullableNumber.default(null),
   /** The first discharge and the charge after it (round-trip efficiency); fresh in older snapshots. */
   roundTrip: RoundTripStateSchema.default(createRoundTripState),
+  /** Load steps found so far, for the internal resistance; fresh in older snapshots. */
+  loadSteps: LoadStepStateSchema.default(createLoadStepState),
 });
 export type RunStats = z.infer<typeof RunStatsSchema>;
 
@@ -35,6 +38,7 @@ export function createRunStats(): RunStats {
     minVolts: null, maxVolts: null, minTempCelsius: null, maxTempCelsius: null, lastElapsedSeconds: null,
     loadSeconds: 0, loadVoltSeconds: 0, loadAmpSeconds: 0, loadWattSeconds: 0, lastLoadT: null, lastLoadVolts: 0, lastLoadAmps: 0,
     loadMinTempCelsius: null, loadMaxTempCelsius: null, roundTrip: createRoundTripState(),
+    loadSteps: createLoadStepState(),
   };
 }
 

@@ -6,7 +6,7 @@ import { integratorTotals, rejectedCounts } from './integrator-state.js';
 import type { RunPipelineSnapshot } from './run-pipeline.js';
 import { DEFAULT_ACCEPTANCE_PERCENT, costPerKWh, cRate, percentOfRated, verdictFor, whPerKg } from './figures.js';
 import { nominalVolts } from './nominal.js';
-import { internalResistanceFromSteps, type VoltAmpSample } from './internal-resistance.js';
+import { internalResistanceFromSteps, medianStepOhms, type VoltAmpSample } from './internal-resistance.js';
 import { correctedAhAt25C } from './lead-acid-correction.js';
 import { resolveGapLimit } from './gap-limit.js';
 import { capacityResult, COMPLETE_ENDS } from './capacity-result.js';
@@ -26,7 +26,7 @@ export interface SummarizeRunInput {
   /** Battery price (any currency) for cost per delivered kWh. */
   price?: number | null;
   massKg?: number | null;
-  /** Readings for internal resistance from load steps (optional; omit for none). */
+  /** Readings to find load steps in for the internal resistance (default: the steps the pipeline found as it ran). */
   readings?: ArrayLike<VoltAmpSample>;
   /** Lead-acid: initial electrolyte/cell temperature for the IEEE 450 correction, °C. */
   leadAcidTempCelsius?: number | null;
@@ -68,7 +68,9 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
   const testMaxTempCelsius = snapshot.stats.loadMaxTempCelsius ?? null;
   const roundTrip = roundTripResult(snapshot.stats.roundTrip);
   const verdict = COMPLETE_ENDS.has(capacity.endedBy) ? verdictFor(percents, acceptancePercent) : 'incomplete';
-  const ir = input.readings ? internalResistanceFromSteps(input.readings).medianOhms : null;
+  const fromReadings = input.readings ? internalResistanceFromSteps(input.readings, { collapseVolts: settings.collapseVolts }) : null;
+  const irOhms = fromReadings ? fromReadings.medianOhms : medianStepOhms(snapshot.stats.loadSteps);
+  const loadStepCount = fromReadings ? fromReadings.steps.length : snapshot.stats.loadSteps.steps;
   const leadTemp = input.leadAcidTempCelsius ?? null;
   const gapLimit = resolveGapLimit(cfg);
   return RunSummarySchema.parse({
@@ -115,7 +117,8 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
     whPerKg: whPerKg(deliveredWh, input.massKg),
     roundTripEfficiency: roundTrip.efficiency,
     roundTripStatus: roundTrip.status,
-    internalResistanceOhms: ir,
+    internalResistanceOhms: irOhms,
+    loadStepCount,
     correctedAh25C: cfg.chemistry === 'lead-acid' && leadTemp !== null && deliveredAh !== null ? correctedAhAt25C(deliveredAh, leadTemp) : null,
   });
 }

@@ -109,7 +109,9 @@ export const RunSummarySchema = z
      */
     roundTripEfficiency: finite.nullable(),
     roundTripStatus: z.enum(['complete', 'incomplete']).nullable().default(null),
+    /** Median −ΔV/ΔI over the load steps found (steps told apart from meter noise); null when none. */
     internalResistanceOhms: finite.nullable(),
+    loadStepCount: z.number().int().nonnegative().default(0),
     /** Lead-acid only: capacity corrected to 25 °C (IEEE 450 method). */
     correctedAh25C: finite.nullable(),
   })
