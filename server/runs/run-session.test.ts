@@ -108,4 +108,16 @@ describe('RunSession', () => {
     expect(ends.shouldFinish()).toBe(true);
     expect(ends.summary().capacityEndedBy).toBe('protection');
   });
+
+  it('a trip that reconnects with the load off (the discharge did not go on) ends an after-recovery run, capacity to the trip', () => {
+    const s = session({ stopWhen: 'after-recovery', afterRecoverySeconds: 10 });
+    for (let t = 0; t <= 300; t++) {
+      const open = t > 100 && t <= 160;
+      // Under load to t = 100, the protection opens (0.05 V), then it reconnects with no load: 12.4 V at 0 A.
+      s.push({ t, volts: open ? 0.05 : t <= 100 ? 12 : 12.4, amps: t <= 100 ? 5 : 0, clock: 'device' });
+    }
+    expect(s.shouldFinish()).toBe(true);
+    expect(s.summary()).toMatchObject({ capacityEndedBy: 'protection', protectionTripCount: 1 });
+    expect(s.summary().capacityAh!).toBeCloseTo((5 * 100) / 3600, 2);
+  });
 });
