@@ -8,6 +8,8 @@ export interface BenchRow extends Model<InferAttributes<BenchRow>, InferCreation
   source: string;
   enabled: boolean;
   notes: string;
+  /** Load threshold, A (migration 0600); null = the core's default. */
+  loadOnAmps: CreationOptional<number | null>;
   createdAt: CreationOptional<Date>;
   updatedAt: CreationOptional<Date>;
 }
@@ -26,6 +28,7 @@ export function benchModel(sequelize: Sequelize): BenchModel {
       source: { type: DataTypes.TEXT, allowNull: false },
       enabled: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: true },
       notes: { type: DataTypes.TEXT, allowNull: false },
+      loadOnAmps: { type: DataTypes.DOUBLE, allowNull: true, defaultValue: null },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },
@@ -55,6 +58,7 @@ export function toApiBench(row: BenchRow): Bench {
     source: readSource(row).source,
     enabled: row.enabled,
     notes: row.notes,
+    loadOnAmps: row.loadOnAmps ?? null,
     createdAt: row.createdAt.toISOString(),
     updatedAt: row.updatedAt.toISOString(),
   };

@@ -117,14 +117,14 @@ export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: Impor
       runId: run.id, block: null, events: events.map((event, eventSeq) => ({ eventSeq, event })),
       patch: { state: 'finished', summary, readingsCount: seq, endedAt: new Date() },
     });
-    const cutoff = events.find((e): e is CutoffEvent => e.type === 'cutoff') ?? null;
+    const cutoff = summary.capacityEndSeconds !== null ? events.find((e): e is CutoffEvent => e.type === 'cutoff' && e.t === summary.capacityEndSeconds) ?? null : null;
     const recovery = events.find((e): e is RecoveryEvent => e.type === 'recovery') ?? null;
     const totals = pipeline.totals();
     return {
       run: (await repo.get(run.id))!,
       summary: {
-        energyWh: cutoff?.dischargeWh ?? totals.dischargeWh,
-        chargeAh: cutoff?.dischargeAh ?? totals.dischargeAh,
+        energyWh: summary.capacityWh ?? totals.dischargeWh,
+        chargeAh: summary.capacityAh ?? totals.dischargeAh,
         durationS: summary.durationSeconds,
         cutoff: cutoff ? { atS: cutoff.t, volts: cutoff.volts } : null,
         recoveryS: recovery?.recoverySeconds ?? null,

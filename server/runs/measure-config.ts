@@ -19,6 +19,8 @@ export interface BatteryFacts {
 export interface SourceFacts {
   /** The source's own interval between readings, s (a poll period or a log's median interval); null = unknown. */
   cadenceSeconds: number | null;
+  /** The bench's load threshold, A; null = the core's default. */
+  loadOnAmps?: number | null;
 }
 
 /** Builds the measurement core's config from a run's settings, its battery and its source. */
@@ -42,5 +44,6 @@ export function measureConfigFor(config: RunConfig, battery: BatteryFacts | null
   // A limit typed on the run wins; otherwise the core derives it from the source's cadence.
   if (config.maxGapSeconds != null) out.maxGapSeconds = config.maxGapSeconds;
   if (source?.cadenceSeconds != null) out.cadenceSeconds = source.cadenceSeconds;
+  if (source?.loadOnAmps != null) out.loadOnAmps = source.loadOnAmps;
   return out;
 }

@@ -34,7 +34,9 @@ describe('RunSession', () => {
     const battery = { id: 1, label: 'LA', brand: 'Northgate Cell Lab', chemistry: 'lead-acid', cellsInSeries: 6, ratedAh: 100, ratedWh: null, price: null, massKg: null };
     const s = new RunSession(run, battery, measureConfigFor(run, battery));
     for (let i = 0; i <= 3600; i++) s.push({ t: i, volts: 12.2, amps: 25, clock: 'device' });
+    s.end('finished');
     // 25 A for 1 h = 25 Ah; at 10 °C (50 °F) credited by the factor 1.19 (IEEE 450 table, from memory).
+    expect(s.summary().capacityAh).toBeCloseTo(25, 9);
     expect(s.summary().correctedAh25C).toBeCloseTo(25 * 1.19, 9);
   });
 
@@ -90,5 +92,43 @@ describe('RunSession', () => {
     s.push({ t: 0, volts: 12, amps: 5, clock: 'device' });
     expect(s.push({ t: 60, volts: 12, amps: 5, clock: 'device' }).events).toHaveLength(0);
     expect(s.summary()).toMatchObject({ maxGapSeconds: 90, gapLimitBasis: 'explicit' });
+  });
+
+  it('a load that stops itself at exactly the end voltage ends an after-recovery run (was a "protection" cutoff that never finished)', () => {
+    const s = session({ stopWhen: 'after-recovery', afterRecoverySeconds: 5 });
+    // 5 A; volts fall 10.5 → 10.0 V (the end voltage, reached exactly at t = 50), then the load stops and the pack rests at 10.4 V.
+    for (let t = 0; t <= 80; t++) s.push({ t, volts: t <= 50 ? 10.5 - t / 100 : 10.4, amps: t <= 50 ? 5 : 0, clock: 'device' });
+    expect(s.summary()).toMatchObject({ cutoffCause: 'end-voltage', capacityEndedBy: 'end-voltage' });
+    expect(s.shouldFinish()).toBe(true);
+  });
+
+  it('a protection trip that reconnects does not finish an after-recovery run unless the run says a trip ends the test', () => {
+    const feed = (s: RunSession) => {
+      for (let t = 0; t <= 300; t++) {
+        const open = t > 100 && t <= 160;
+        s.push({ t, volts: open ? 0.05 : 12, amps: open ? 0 : 5, clock: 'device' });
+      }
+    };
+    const runsOn = session({ stopWhen: 'after-recovery', afterRecoverySeconds: 10 });
+    feed(runsOn);
+    expect(runsOn.state).toBe('recovered');
+    expect(runsOn.shouldFinish()).toBe(false);
+    expect(runsOn.summary().protectionTripCount).toBe(1);
+    const ends = session({ stopWhen: 'after-recovery', afterRecoverySeconds: 10, protectionEndsTest: true });
+    feed(ends);
+    expect(ends.shouldFinish()).toBe(true);
+    expect(ends.summary().capacityEndedBy).toBe('protection');
+  });
+
+  it('a trip that reconnects with the load off (the discharge did not go on) ends an after-recovery run, capacity to the trip', () => {
+    const s = session({ stopWhen: 'after-recovery', afterRecoverySeconds: 10 });
+    for (let t = 0; t <= 300; t++) {
+      const open = t > 100 && t <= 160;
+      // Under load to t = 100, the protection opens (0.05 V), then it reconnects with no load: 12.4 V at 0 A.
+      s.push({ t, volts: open ? 0.05 : t <= 100 ? 12 : 12.4, amps: t <= 100 ? 5 : 0, clock: 'device' });
+    }
+    expect(s.shouldFinish()).toBe(true);
+    expect(s.summary()).toMatchObject({ capacityEndedBy: 'protection', protectionTripCount: 1 });
+    expect(s.summary().capacityAh!).toBeCloseTo((5 * 100) / 3600, 2);
   });
 });

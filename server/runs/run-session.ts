@@ -3,7 +3,7 @@ import { summarizeRun } from '../../shared/measure/summarize-run.js';
 import type { Frame } from '../../shared/schemas/frame.js';
 import type { MeasureConfigInput } from '../../shared/schemas/measure-config.js';
 import type { Reading } from '../../shared/schemas/reading.js';
-import type { RunEvent } from '../../shared/schemas/run-event.js';
+import type { CutoffEvent, RunEvent } from '../../shared/schemas/run-event.js';
 import type { RunSummary } from '../../shared/schemas/run-summary.js';
 import type { Run, RunState } from '../../shared/schemas/run.js';
 import type { ArchiveBatch } from '../archive/archive-batch.js';
@@ -25,6 +25,8 @@ export interface RunSessionSnapshot {
   cutoffCause: 'end-voltage' | 'protection' | null;
   lastElapsed: number | null;
   tempAlarmRaised: boolean;
+  /** Run time the discharge last came back after a pause or a protection reconnect (absent in older snapshots). */
+  resumedAt?: number | null;
   /** The source clock guard's memory (absent in snapshots from before it existed). */
   clock?: ClockGuardState;
 }
@@ -98,13 +100,8 @@ export class RunSession {
     const out: SequencedEvent[] = [];
     for (const event of events) {
       out.push(this.addEvent(event));
-      if (event.type === 'cutoff' && this.snap.cutoffAt === null) {
-        this.snap.cutoffAt = event.t;
-        this.snap.cutoffCause = event.cause;
-        this.setState('cutoff');
-        if (this.run.alarms.onCutoff)
-          out.push(this.addEvent({ type: 'alarm', t: event.t, level: 'critical', code: 'cutoff', message: `Cutoff (${event.cause}) at ${event.volts.toFixed(3)} V` }));
-      }
+      if (event.type === 'cutoff') this.onCutoff(event, out);
+      if (event.type === 'load-on') this.snap.resumedAt = event.t;
       if (event.type === 'recovery' && this.snap.state === 'cutoff') {
         this.snap.recoveredAt = event.t;
         this.setState('recovered');
@@ -123,6 +120,22 @@ export class RunSession {
       }
     }
     return { reading, events: out, stateChanged: this.snap.state !== before };
+  }
+
+  /**
+   * A cutoff moves the run to `cutoff`. The first one raises the alarm; a protection trip that
+   * reconnects lets the test run on, so a later end-voltage cutoff is the one that counts (and
+   * raises its own alarm). Repeated trips after the first change the state but call no one.
+   */
+  private onCutoff(event: CutoffEvent, out: SequencedEvent[]): void {
+    const first = this.snap.cutoffAt === null;
+    const endAfterTrip = !first && event.cause === 'end-voltage' && this.snap.cutoffCause !== 'end-voltage';
+    if (!first && !endAfterTrip && this.snap.state !== 'recovered') return;
+    this.snap.cutoffAt = event.t;
+    if (this.snap.cutoffCause !== 'end-voltage') this.snap.cutoffCause = event.cause;
+    this.setState('cutoff');
+    if ((first || endAfterTrip) && this.run.alarms.onCutoff)
+      out.push(this.addEvent({ type: 'alarm', t: event.t, level: 'critical', code: 'cutoff', message: `Cutoff (${event.cause}) at ${event.volts.toFixed(3)} V` }));
   }
 
   /** Adds an event of the recorder's own (source lost, run start/stop) with the next sequence number. */
@@ -147,8 +160,11 @@ export class RunSession {
         return (charging ? totals.chargeWh : totals.dischargeWh) >= (this.run.targetWh ?? Infinity);
       case 'after-recovery': {
         const wait = this.run.afterRecoverySeconds;
-        // No reconnect follows an end-voltage cutoff (the pack's protection never opened).
-        const from = s.recoveredAt ?? (s.cutoffCause === 'end-voltage' ? s.cutoffAt : null);
+        // The end voltage ends the test; a protection's reconnect ends it when the run says a trip
+        // does, or when the discharge did not come back with it (the trip was the end of the test).
+        const resumed = s.recoveredAt !== null && (s.resumedAt ?? Number.NEGATIVE_INFINITY) >= s.recoveredAt;
+        const tripEnded = s.recoveredAt !== null && (this.run.protectionEndsTest === true || !resumed);
+        const from = s.cutoffCause === 'end-voltage' ? s.cutoffAt : tripEnded ? s.recoveredAt : null;
         return from !== null && s.lastElapsed !== null && s.lastElapsed - from >= wait;
       }
     }
@@ -166,6 +182,8 @@ export class RunSession {
       snapshot: this.pipeline.snapshot(),
       events: this.events,
       acceptancePercent: this.run.acceptancePercent,
+      ended: this.snap.state === 'finished' || this.snap.state === 'aborted',
+      protectionEndsTest: this.run.protectionEndsTest ?? false,
       price: this.battery?.price ?? null,
       massKg: this.battery?.massKg ?? null,
       leadAcidTempCelsius: this.run.electrolyteTempCelsius ?? null,

@@ -20,6 +20,7 @@ export const RunConfigSchema = z.object({
   targetAh: z.number().nullable(),
   targetWh: z.number().nullable(),
   afterRecoverySeconds: z.number(),
+  protectionEndsTest: z.boolean().optional(),
   /** Absent in runs stored before gap limits could be typed: the source's cadence decides. */
   maxGapSeconds: z.number().nullable().optional(),
   /** Lead-acid: initial electrolyte temperature, °C, for the correction to 25 °C (absent on older runs). */
@@ -179,9 +180,9 @@ export class RunsRepo {
     return rows.length > 0;
   }
 
-  /** What a run needs of a bench's source (its poll period), or null when there is no such bench. */
+  /** What a run needs of a bench (its source's poll period, its load threshold), or null when there is no such bench. */
   async benchSourceFacts(id: number): Promise<SourceFacts | null> {
-    const rows = await this.sequelize.query<{ source: string }>('SELECT source FROM benches WHERE id = ?', { replacements: [id], type: QueryTypes.SELECT });
+    const rows = await this.sequelize.query<{ source: string; loadOnAmps: number | null }>('SELECT source, loadOnAmps FROM benches WHERE id = ?', { replacements: [id], type: QueryTypes.SELECT });
     if (rows.length === 0) return null;
     let raw: unknown = null;
     try {
@@ -190,7 +191,8 @@ export class RunsRepo {
       // A stored source that no longer reads has no known cadence; the run falls back to the default limit.
     }
     const source = BenchSourceConfigSchema.safeParse(raw);
-    return { cadenceSeconds: source.success ? sourceCadenceSeconds(source.data) : null };
+    const loadOnAmps = rows[0]!.loadOnAmps === null ? null : Number(rows[0]!.loadOnAmps);
+    return { cadenceSeconds: source.success ? sourceCadenceSeconds(source.data) : null, loadOnAmps };
   }
 
   /** Every event of a run in time order. */

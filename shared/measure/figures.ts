@@ -7,8 +7,6 @@ import type { Verdict } from '../schemas/run-summary.js';
 export const DEFAULT_ACCEPTANCE_PERCENT = 100;
 const PERCENT = 100;
 const WH_PER_KWH = 1000;
-/** Round-trip efficiency is only meaningful when each half is at least this share of the other. */
-const MIN_ROUND_TRIP_SHARE = 0.25;
 
 /** Delivered as % of rated; null when either is unknown or rated ≤ 0. */
 export function percentOfRated(delivered: number | null | undefined, rated: number | null | undefined): number | null {
@@ -16,11 +14,25 @@ export function percentOfRated(delivered: number | null | undefined, rated: numb
   return (delivered / rated) * PERCENT;
 }
 
-/** Pass when every known percentage is ≥ the acceptance %; `unrated` when none is known. */
+/** Decimals a percentage of rated is shown with. */
+export const PERCENT_DECIMALS = 1;
+const PERCENT_SCALE = 10 ** PERCENT_DECIMALS;
+/** Slack for binary rounding (10 Ah integrated to 9.999999999999 Ah is 100.0 %, not 99.9 %). */
+const PERCENT_ROUNDING_SLACK = 1e-6;
+
+/**
+ * A percentage of rated as it is shown and judged: rounded down to 0.1 %, so 99.99 % shows
+ * 99.9 % and fails a 100 % acceptance; "100.0 %" never stands beside a fail.
+ */
+export function percentShown(percent: number): number {
+  return Math.floor(percent * PERCENT_SCALE + PERCENT_ROUNDING_SLACK) / PERCENT_SCALE;
+}
+
+/** Pass when every known percentage, as shown (percentShown), is ≥ the acceptance %; `unrated` when none is known. */
 export function verdictFor(percents: ReadonlyArray<number | null>, acceptancePercent = DEFAULT_ACCEPTANCE_PERCENT): Verdict {
   const known = percents.filter((p): p is number => p !== null);
   if (known.length === 0) return 'unrated';
-  return known.every((p) => p >= acceptancePercent) ? 'pass' : 'fail';
+  return known.every((p) => percentShown(p) >= acceptancePercent) ? 'pass' : 'fail';
 }
 
 /** C-rate: current ÷ rated Ah (0.2 C for 10 A from a 50 Ah pack). */
@@ -39,11 +51,4 @@ export function costPerKWh(price: number | null | undefined, deliveredWh: number
 export function whPerKg(deliveredWh: number | null | undefined, massKg: number | null | undefined): number | null {
   if (deliveredWh == null || massKg == null || !(massKg > 0)) return null;
   return deliveredWh / massKg;
-}
-
-/** Round-trip efficiency: Wh out ÷ Wh in; null unless both halves are substantial. */
-export function roundTripEfficiency(dischargeWh: number, chargeWh: number): number | null {
-  if (!(dischargeWh > 0) || !(chargeWh > 0)) return null;
-  if (dischargeWh < chargeWh * MIN_ROUND_TRIP_SHARE || chargeWh < dischargeWh * MIN_ROUND_TRIP_SHARE) return null;
-  return dischargeWh / chargeWh;
 }

@@ -1,4 +1,6 @@
 import { z } from 'zod';
+import { createRoundTripState, RoundTripStateSchema } from './round-trip.js';
+import { createLoadStepState, LoadStepStateSchema } from './internal-resistance.js';
 
 const nullableNumber = z.number().nullable();
 
@@ -20,6 +22,13 @@ export const RunStatsSchema = z.object({
   lastLoadT: nullableNumber,
   lastLoadVolts: z.number(),
   lastLoadAmps: z.number(),
+  /** Temperature range (any channel) while under load, °C; absent in older snapshots. */
+  loadMinTempCelsius: nullableNumber.default(null),
+  loadMaxTempCelsius: nullableNumber.default(null),
+  /** The first discharge and the charge after it (round-trip efficiency); fresh in older snapshots. */
+  roundTrip: RoundTripStateSchema.default(createRoundTripState),
+  /** Load steps found so far, for the internal resistance; fresh in older snapshots. */
+  loadSteps: LoadStepStateSchema.default(createLoadStepState),
 });
 export type RunStats = z.infer<typeof RunStatsSchema>;
 
@@ -28,6 +37,8 @@ export function createRunStats(): RunStats {
   return {
     minVolts: null, maxVolts: null, minTempCelsius: null, maxTempCelsius: null, lastElapsedSeconds: null,
     loadSeconds: 0, loadVoltSeconds: 0, loadAmpSeconds: 0, loadWattSeconds: 0, lastLoadT: null, lastLoadVolts: 0, lastLoadAmps: 0,
+    loadMinTempCelsius: null, loadMaxTempCelsius: null, roundTrip: createRoundTripState(),
+    loadSteps: createLoadStepState(),
   };
 }
 
@@ -44,6 +55,13 @@ export function updateRunStats(s: RunStats, elapsedSeconds: number, volts: numbe
   }
   s.lastElapsedSeconds = elapsedSeconds;
   const underLoad = amps >= loadOnAmps;
+  if (underLoad && temps) {
+    for (const key in temps) {
+      const c = temps[key]!;
+      if (s.loadMinTempCelsius == null || c < s.loadMinTempCelsius) s.loadMinTempCelsius = c;
+      if (s.loadMaxTempCelsius == null || c > s.loadMaxTempCelsius) s.loadMaxTempCelsius = c;
+    }
+  }
   if (underLoad && s.lastLoadT !== null && !gap) {
     const dt = elapsedSeconds - s.lastLoadT;
     s.loadSeconds += dt;

@@ -1,14 +1,18 @@
-import type { RunEvent, CutoffEvent, RecoveryEvent } from '../schemas/run-event.js';
+import type { RunEvent, RecoveryEvent } from '../schemas/run-event.js';
 import { RunSummarySchema, type RunSummary } from '../schemas/run-summary.js';
 import { meansUnderLoad } from './run-stats.js';
 import { sumValue } from './compensated-sum.js';
 import { integratorTotals, rejectedCounts } from './integrator-state.js';
 import type { RunPipelineSnapshot } from './run-pipeline.js';
-import { DEFAULT_ACCEPTANCE_PERCENT, costPerKWh, cRate, percentOfRated, roundTripEfficiency, verdictFor, whPerKg } from './figures.js';
+import { DEFAULT_ACCEPTANCE_PERCENT, costPerKWh, cRate, percentOfRated, verdictFor, whPerKg } from './figures.js';
 import { nominalVolts } from './nominal.js';
-import { internalResistanceFromSteps, type VoltAmpSample } from './internal-resistance.js';
+import { internalResistanceFromSteps, medianStepOhms, type VoltAmpSample } from './internal-resistance.js';
 import { correctedAhAt25C, inCapacityFactorRange } from './lead-acid-correction.js';
 import { resolveGapLimit } from './gap-limit.js';
+import { capacityResult, COMPLETE_ENDS } from './capacity-result.js';
+import { resolveDetectorSettings } from './detector-settings.js';
+import { testConditionFlags } from './test-conditions.js';
+import { roundTripResult } from './round-trip.js';
 
 /** What summarizeRun needs beyond the pipeline's own state. */
 export interface SummarizeRunInput {
@@ -22,32 +26,51 @@ export interface SummarizeRunInput {
   /** Battery price (any currency) for cost per delivered kWh. */
   price?: number | null;
   massKg?: number | null;
-  /** Readings for internal resistance from load steps (optional; omit for none). */
+  /** Readings to find load steps in for the internal resistance (default: the steps the pipeline found as it ran). */
   readings?: ArrayLike<VoltAmpSample>;
   /** Lead-acid: initial electrolyte/cell temperature for the IEEE 450 correction, °C (outside its table: no correction). */
   leadAcidTempCelsius?: number | null;
+  /** The run has ended (default true); while it records, a capacity not yet reached is "in progress". */
+  ended?: boolean;
+  /** A protection trip ends the test even when the pack reconnects (default false: the test runs on). */
+  protectionEndsTest?: boolean;
 }
 
 /**
- * Figures and verdict of one run. Delivered capacity is taken at the first cutoff (the
- * Ah/Wh at the end voltage or the protection opening); without a cutoff, the final totals.
+ * Figures and verdict of one run. The capacity is what capacityResult reads from the events
+ * (to the interpolated end-voltage crossing, or the protection that ended the test); the
+ * verdict uses it and nothing else, and is `incomplete` when there is none. The whole-run
+ * totals are reported beside it, apart.
  */
 export function summarizeRun(input: SummarizeRunInput): RunSummary {
   const { snapshot, events } = input;
   const cfg = snapshot.config;
   const integ = snapshot.integrator;
   const totals = integratorTotals(integ);
-  const cutoff = events.find((e): e is CutoffEvent => e.type === 'cutoff') ?? null;
-  const recovery = events.find((e): e is RecoveryEvent => e.type === 'recovery') ?? null;
-  const deliveredAh = cutoff?.dischargeAh ?? totals.dischargeAh;
-  const deliveredWh = cutoff?.dischargeWh ?? totals.dischargeWh;
+  const settings = resolveDetectorSettings(cfg);
   const { meanVolts, meanAmps, meanWatts } = meansUnderLoad(snapshot.stats);
+  const capacity = capacityResult({
+    events, totals, endVolts: settings.endVolts, ended: input.ended ?? true,
+    protectionEndsTest: input.protectionEndsTest ?? false, sawLoad: snapshot.stats.loadSeconds > 0,
+  });
+  const cutoff = capacity.cutoff;
+  const firstTrip = capacity.trips[0];
+  const recovery = firstTrip ? events.find((e): e is RecoveryEvent => e.type === 'recovery' && e.cutoffT === firstTrip.t) ?? null : null;
+  const deliveredAh = capacity.capacityAh;
+  const deliveredWh = capacity.capacityWh;
   const percentRatedAh = percentOfRated(deliveredAh, cfg.ratedAh);
   const percentRatedWh = percentOfRated(deliveredWh, cfg.ratedWh);
   const basis = input.verdictBasis ?? 'ah';
   const percents = basis === 'both' ? [percentRatedAh, percentRatedWh] : basis === 'wh' ? [percentRatedWh] : [percentRatedAh ?? percentRatedWh];
   const acceptancePercent = input.acceptancePercent ?? DEFAULT_ACCEPTANCE_PERCENT;
-  const ir = input.readings ? internalResistanceFromSteps(input.readings).medianOhms : null;
+  const rate = cRate(meanAmps, cfg.ratedAh);
+  const testMinTempCelsius = snapshot.stats.loadMinTempCelsius ?? null;
+  const testMaxTempCelsius = snapshot.stats.loadMaxTempCelsius ?? null;
+  const roundTrip = roundTripResult(snapshot.stats.roundTrip);
+  const verdict = COMPLETE_ENDS.has(capacity.endedBy) ? verdictFor(percents, acceptancePercent) : 'incomplete';
+  const fromReadings = input.readings ? internalResistanceFromSteps(input.readings, { collapseVolts: settings.collapseVolts }) : null;
+  const irOhms = fromReadings ? fromReadings.medianOhms : medianStepOhms(snapshot.stats.loadSteps);
+  const loadStepCount = fromReadings ? fromReadings.steps.length : snapshot.stats.loadSteps.steps;
   const leadTemp = input.leadAcidTempCelsius ?? null;
   const gapLimit = resolveGapLimit(cfg);
   return RunSummarySchema.parse({
@@ -72,18 +95,30 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
     nominalVolts: nominalVolts(cfg.chemistry, cfg.cellsInSeries),
     ratedAh: cfg.ratedAh ?? null,
     ratedWh: cfg.ratedWh ?? null,
+    capacityAh: deliveredAh,
+    capacityWh: deliveredWh,
+    capacityEndedBy: capacity.endedBy,
+    capacityEndSeconds: capacity.endSeconds,
+    protectionTrips: capacity.trips,
+    protectionTripCount: capacity.tripCount,
+    loadOnAmps: settings.loadOnAmps,
     percentRatedAh,
     percentRatedWh,
     acceptancePercent,
-    verdict: verdictFor(percents, acceptancePercent),
+    verdict,
     cutoffCause: cutoff?.cause ?? null,
     cutoffVolts: cutoff?.volts ?? null,
     recoverySeconds: recovery?.recoverySeconds ?? null,
-    cRate: cRate(meanAmps, cfg.ratedAh),
+    cRate: rate,
+    testMinTempCelsius,
+    testMaxTempCelsius,
+    ...testConditionFlags(rate, testMinTempCelsius, testMaxTempCelsius),
     costPerKWh: costPerKWh(input.price, deliveredWh),
     whPerKg: whPerKg(deliveredWh, input.massKg),
-    roundTripEfficiency: roundTripEfficiency(totals.dischargeWh, totals.chargeWh),
-    internalResistanceOhms: ir,
-    correctedAh25C: cfg.chemistry === 'lead-acid' && leadTemp !== null && inCapacityFactorRange(leadTemp) ? correctedAhAt25C(deliveredAh, leadTemp) : null,
+    roundTripEfficiency: roundTrip.efficiency,
+    roundTripStatus: roundTrip.status,
+    internalResistanceOhms: irOhms,
+    loadStepCount,
+    correctedAh25C: cfg.chemistry === 'lead-acid' && leadTemp !== null && inCapacityFactorRange(leadTemp) && deliveredAh !== null ? correctedAhAt25C(deliveredAh, leadTemp) : null,
   });
 }

@@ -36,6 +36,8 @@ export const StartRunRequestSchema = z
     targetAh: z.number().finite().positive().nullable().default(null),
     targetWh: z.number().finite().positive().nullable().default(null),
     afterRecoverySeconds: z.number().finite().nonnegative().max(86_400).default(0),
+    /** A protection trip ends the test even when the pack reconnects (default: the test runs on to the end voltage). */
+    protectionEndsTest: z.boolean().optional(),
     /** Gap limit, s: a silence longer than this is a gap. Null = 3 × the bench's poll period, else 30 s. */
     maxGapSeconds: z.number().finite().positive().max(MAX_GAP_LIMIT_SECONDS).nullable().optional(),
     /** Lead-acid: initial electrolyte temperature, °C, for the correction to 25 °C (IEEE 450). */

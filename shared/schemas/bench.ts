@@ -175,12 +175,21 @@ export const BenchStatusSchema = z.object({
   lastRejection: z.string().optional(),
 });
 
+/** Largest load threshold a bench may set, A (a threshold is a small current, not a load). */
+export const MAX_LOAD_ON_AMPS = 100;
+/**
+ * A bench's load threshold, A: discharge current at or above it counts as a load (the test
+ * starts, means are taken under it). Null: 0.2 A, or C/20 of the pack's rated Ah when lower.
+ */
+export const LoadOnAmpsSchema = z.number().finite().positive().max(MAX_LOAD_ON_AMPS).nullable();
+
 export const BenchSchema = z.object({
   id: z.number().int().positive(),
   name: z.string(),
   source: BenchSourceConfigSchema,
   enabled: z.boolean(),
   notes: z.string(),
+  loadOnAmps: LoadOnAmpsSchema.default(null),
   createdAt: z.string(),
   updatedAt: z.string(),
 });
@@ -193,6 +202,7 @@ export const CreateBenchRequestSchema = z.object({
   source: BenchSourceConfigSchema,
   enabled: z.boolean().default(true),
   notes: z.string().max(NOTES_MAX_CHARS).default(''),
+  loadOnAmps: LoadOnAmpsSchema.default(null),
 });
 
 export const UpdateBenchRequestSchema = z
@@ -201,6 +211,7 @@ export const UpdateBenchRequestSchema = z
     source: BenchSourceConfigSchema,
     enabled: z.boolean(),
     notes: z.string().max(NOTES_MAX_CHARS),
+    loadOnAmps: LoadOnAmpsSchema,
   })
   .partial();
 

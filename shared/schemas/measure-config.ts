@@ -42,9 +42,12 @@ export const MeasureConfigSchema = z.object({
   gapFactor: z.number().finite().min(1).max(1000).default(3),
   /** |amps| at or below this counts as "about 0 A". */
   zeroAmps: nonNeg.default(0.05),
-  /** Discharge current at or above this counts as "load on". */
-  loadOnAmps: pos.default(0.2),
-  /** Volts below this (absolute) count as a collapsed terminal voltage (protection open). */
+  /**
+   * Discharge current at or above this counts as "load on" (the bench's load threshold).
+   * Absent: 0.2 A, or C/20 of the rated capacity when that is lower (detector-settings.ts).
+   */
+  loadOnAmps: pos.optional(),
+  /** Volts at or below this (absolute; at most half the end voltage) count as a collapsed terminal voltage (protection open). */
   collapseVolts: nonNeg.default(1),
   /** Width of the hysteresis band on voltage thresholds, V; default 1 % of end volts. */
   hysteresisVolts: nonNeg.optional(),

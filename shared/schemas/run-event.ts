@@ -16,12 +16,16 @@ export const CutoffEventSchema = z.object({
   cause: CutoffCauseSchema,
   /** Present when cause = protection. */
   signal: ProtectionSignalSchema.optional(),
-  /** Last voltage under load before the cutoff. */
+  /**
+   * End voltage: the interpolated crossing (volts = the end voltage; t, amps, Wh, Ah at that
+   * instant). Protection: the last voltage and current under load before it opened.
+   */
   volts: finite,
-  /** Last current under load before the cutoff. */
   amps: finite,
   dischargeWh: nonNeg,
   dischargeAh: nonNeg,
+  /** End voltage reached with no discharge reading above it: the pack was below it when the test began. */
+  startedBelowEndVoltage: z.boolean().optional(),
 });
 
 export const RecoveryEventSchema = z.object({

@@ -68,6 +68,11 @@ export const RunSchema = z.object({
   targetWh: z.number().finite().positive().nullable(),
   /** Seconds after recovery to keep recording before an `after-recovery` run finishes. */
   afterRecoverySeconds: z.number().finite().nonnegative(),
+  /**
+   * A protection trip ends the test (capacity to the first trip) even when the pack reconnects.
+   * Absent or false: a trip that reconnects is listed and the test runs on to the end voltage.
+   */
+  protectionEndsTest: z.boolean().optional(),
   /** Gap limit typed on the run, s; null or absent = from the source's cadence (shared/measure/gap-limit.ts). */
   maxGapSeconds: z.number().finite().positive().nullable().optional(),
   /** Lead-acid: initial electrolyte temperature, °C, for the correction to 25 °C (absent: none given). */

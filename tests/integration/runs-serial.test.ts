@@ -43,11 +43,12 @@ describe('a simulated capacity run over the real serial path', () => {
     const battery = (await tech.post('/api/batteries').send({ label: '12.8 V 100 Ah', brand: 'Voltara', chemistry: 'lfp', cellsInSeries: 4, ratedAh: 100 }).expect(201)).body.battery;
     const manager = t.ctx.services.benchManager!;
     await eventually(async () => expect(manager.getStatus(bench.id).state).toMatch(/connected|receiving/));
-    // End voltage below the BMS's own cell limit, so the pack's protection is what cuts off.
+    // End voltage below the BMS's own cell limit, so the pack's protection is what cuts off; the
+    // run says a trip ends the test, so it finishes 30 s after the reconnect.
     const run = (
       await tech
         .post('/api/runs')
-        .send({ benchId: bench.id, batteryId: battery.id, name: 'Voltara 100 Ah at 600 W', endVolts: { mode: 'per-cell', voltsPerCell: 2.0 }, stopWhen: 'after-recovery', afterRecoverySeconds: 30 })
+        .send({ benchId: bench.id, batteryId: battery.id, name: 'Voltara 100 Ah at 600 W', endVolts: { mode: 'per-cell', voltsPerCell: 2.0 }, stopWhen: 'after-recovery', afterRecoverySeconds: 30, protectionEndsTest: true })
         .expect(201)
     ).body.run;
 

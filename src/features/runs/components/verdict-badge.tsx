@@ -5,9 +5,10 @@ const VERDICT = {
   pass: { label: 'Pass', color: RUN_STATE_COLORS.recording },
   fail: { label: 'Fail', color: RUN_STATE_COLORS.cutoff },
   unrated: { label: 'Unrated', color: RUN_STATE_COLORS.finished },
+  incomplete: { label: 'Incomplete', color: RUN_STATE_COLORS.recovered },
 } as const;
 
-/** Pass / fail / unrated in the run-state palette (pass = the "recording" green, fail = the cutoff red). */
+/** Pass / fail / unrated / incomplete in the run-state palette (pass = the "recording" green, fail = the cutoff red). */
 export function VerdictBadge({ verdict, large }: { verdict: Verdict; large?: boolean }) {
   const v = VERDICT[verdict];
   return (
