@@ -64,8 +64,10 @@ function metaLines(meta: ExportMeta): string[] {
   ];
   if (s) {
     lines.push(
-      `summary: dischargeWh ${s.dischargeWh}; dischargeAh ${s.dischargeAh}; chargeWh ${s.chargeWh}; chargeAh ${s.chargeAh}; durationSeconds ${s.durationSeconds}; ` +
-        `cutoffVolts ${s.cutoffVolts ?? 'none'}; recoverySeconds ${s.recoverySeconds ?? 'none'}; percentRatedAh ${s.percentRatedAh ?? 'n/a'}; verdict ${s.verdict}`,
+      `summary: capacityAh ${s.capacityAh ?? 'n/a'}; capacityWh ${s.capacityWh ?? 'n/a'}; capacityEndedBy ${s.capacityEndedBy ?? 'n/a'}; ` +
+        `whole run: dischargeWh ${s.dischargeWh}; dischargeAh ${s.dischargeAh}; chargeWh ${s.chargeWh}; chargeAh ${s.chargeAh}; durationSeconds ${s.durationSeconds}; ` +
+        `cutoffVolts ${s.cutoffVolts ?? 'none'}; recoverySeconds ${s.recoverySeconds ?? 'none'}; protectionTrips ${s.protectionTripCount}; ` +
+        `percentRatedAh ${s.percentRatedAh ?? 'n/a'}; verdict ${s.verdict}; cRate ${s.cRate ?? 'n/a'}`,
     );
   }
   return lines.map((l) => `# ${l.replace(/[\r\n]+/g, ' ')}`);

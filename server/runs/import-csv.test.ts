@@ -35,6 +35,16 @@ describe('csv errors become 400s naming the line', () => {
   });
 });
 
+describe('line numbers', () => {
+  it('name the last line of each record past comments, blank lines and quoted line breaks (as csv-parse counts them)', async () => {
+    const path = join(dir, 'lines.csv');
+    await writeFile(path, '# logger v2\n\ntime,volts,"a\nb"\n1,2,3\n\n# note\n2,"x\ny\nz",4\r\n3,4,5');
+    const lines: number[] = [];
+    for await (const r of csvRecords(path, ',')) lines.push(r.line);
+    expect(lines).toEqual([4, 5, 11, 12]);
+  });
+});
+
 describe('delimiter', () => {
   it('picks ; for a semicolon file whose headers hold commas', () => {
     expect(pickDelimiter('Time, s;Voltage, V;Current, A;Temp, °C\n0;13,2;5,1;20\n1;13,1;5,1;20\n2;13,0;5,1;20\n')).toBe(';');

@@ -79,14 +79,24 @@ export function csvErrorToHttp(err: unknown): unknown {
   return new HttpError(400, `line ${line}: ${problem} (${err.message.slice(0, 160)})`);
 }
 
-/** csv-parse records with their line numbers, so errors can name the line. */
+/** Bytes read from disk at a time: large reads keep the parser busy rather than the event loop. */
+const READ_CHUNK_BYTES = 1 << 20;
+
+/**
+ * csv-parse records with their line numbers, so errors can name the line. The number is read
+ * from the parser's running count as each record is pushed: csv-parse's own `info` option
+ * copies a dozen fields per record and doubles the time of a million-row pass.
+ */
 export async function* csvRecords(filePath: string, delimiter: Delimiter): AsyncGenerator<{ fields: string[]; line: number }> {
-  const source = createReadStream(filePath);
+  const source = createReadStream(filePath, { highWaterMark: READ_CHUNK_BYTES });
   const parser = source.pipe(
-    parse({ info: true, bom: true, delimiter, relax_column_count: false, skip_empty_lines: true, trim: true, comment: '#', max_record_size: MAX_CSV_LINE_BYTES }),
+    parse({ bom: true, delimiter, relax_column_count: false, skip_empty_lines: true, trim: true, comment: '#', max_record_size: MAX_CSV_LINE_BYTES }),
   );
+  const push = parser.push.bind(parser);
+  // csv-parse pushes each record synchronously once its last line is read, so the count is that record's last line.
+  parser.push = (record: unknown, encoding?: BufferEncoding) => push(Array.isArray(record) ? { fields: record as string[], line: parser.info.lines } : record, encoding);
   try {
-    for await (const rec of parser as AsyncIterable<{ record: string[]; info: { lines: number } }>) yield { fields: rec.record, line: rec.info.lines };
+    for await (const rec of parser as AsyncIterable<{ fields: string[]; line: number }>) yield rec;
   } catch (err) {
     throw csvErrorToHttp(err);
   } finally {

@@ -55,6 +55,11 @@ describe('planColumns', () => {
     expect(p.time).toMatchObject({ format: 'ms', source: 'chosen' });
   });
 
+  it('takes a Time column over a Date column beside it, and a Date column alone', () => {
+    expect(planColumns(['Date', 'Time', 'U (V)', 'I (A)'], ['15.07.2026', '12:00:00', '13', '5']).time).toMatchObject({ index: 1, format: 'hms' });
+    expect(planColumns(['Date', 'U (V)', 'I (A)'], ['2026-07-15 12:00:00', '13', '5']).time).toMatchObject({ index: 0, format: 'iso' });
+  });
+
   it('names what it could not find, on line 1', () => {
     expect(() => planColumns(['when', 'voltage'], null)).toThrow(/line 1: no time, amps column/);
     expect(() => planColumns(['time (fortnights)', 'v', 'i'], null)).toThrow(/line 1: unknown time unit "fortnights"/);

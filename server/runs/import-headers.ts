@@ -65,7 +65,9 @@ function normaliseUnit(raw: string): string | null {
 }
 
 /** Common English names, and the German ones a lab's loggers often write (Zeit, Datum, Spannung, Strom). */
-const TIME_NAMES = /^(t|time|elapsed|elapsed time|test time|timestamp|date|date ?time|datetime|seconds|secs?|clock|date and time|zeit|datum|uhrzeit|datum ?zeit)$/;
+const TIME_NAMES = /^(t|time|elapsed|elapsed time|test time|timestamp|date ?time|datetime|seconds|secs?|clock|date and time|zeit|uhrzeit|datum ?zeit)$/;
+/** A date column: the time column only when no other is there (a "Date" beside a "Time" holds the day, not the instant). */
+const DATE_NAMES = /^(date|datum)$/;
 const VOLT_NAMES = /^(v|u|volt|volts|voltage|pack voltage|battery voltage|terminal voltage|voltage measured|spannung)$/;
 const AMP_NAMES = /^(i|a|amp|amps|ampere|amperes|current|pack current|battery current|current measured|strom)$/;
 /** Temperature names, numbered or not (Temp1, T2). A bare "t" is time unless it carries a temperature unit. */
@@ -77,12 +79,14 @@ const normalise = (base: string) => base.replace(/[_-]+/g, ' ').replace(/\s+/g, 
 type Found = { index: number; unit: string | null; column: string };
 
 /** Does this header name the channel? Units decide between time and temperature for "T". */
-function matches(kind: ImportChannel, header: string): boolean {
+function matches(kind: ImportChannel | 'date', header: string): boolean {
   const { base, unit } = splitHeader(header);
   const name = normalise(base);
   switch (kind) {
     case 'time':
       return TIME_NAMES.test(name) && (unit === null || !TEMP_UNITS.has(unit));
+    case 'date':
+      return DATE_NAMES.test(name) && unit === null;
     case 'temp':
       return (TEMP_NAMES.test(name) && (unit === null || TEMP_UNITS.has(unit))) || (name === 't' && unit !== null && TEMP_UNITS.has(unit));
     case 'volts':
@@ -98,7 +102,8 @@ function find(headers: readonly string[], kind: ImportChannel, override?: string
     if (index < 0) throw new HttpError(400, `line 1: no column named "${override}" for ${kind}`, { columns: [`no column "${override}"`] });
     return { index, unit: splitHeader(headers[index]!).unit, column: headers[index]! };
   }
-  const index = headers.findIndex((h) => matches(kind, h));
+  let index = headers.findIndex((h) => matches(kind, h));
+  if (index < 0 && kind === 'time') index = headers.findIndex((h) => matches('date', h));
   return index < 0 ? null : { index, unit: splitHeader(headers[index]!).unit, column: headers[index]! };
 }
 

@@ -3,6 +3,7 @@ import { csvRecords, type Delimiter } from './import-csv.js';
 import { createRowParser, planColumns, type ColumnOverrides, type ColumnPlan } from './import-headers.js';
 import { createSignTally, tallyReading, type SignTally } from './import-sign.js';
 import { checkTimeSteps } from './import-time.js';
+import { checkAssumedTempUnit } from './import-temp-check.js';
 
 /** Lines of duplicate times named in the result; the count covers them all. */
 export const MAX_NAMED_DUPLICATES = 10;
@@ -59,6 +60,7 @@ export async function surveyFile(filePath: string, delimiter: Delimiter, overrid
   const duplicates: DuplicateTimes = { count: 0, lines: [] };
   const steps = new Map<number, number>();
   const sign = createSignTally();
+  let firstTempC: number | null = null;
   const makePlan = (first: string[] | null) => ({ ...planColumns(headers!, first, overrides), decimalComma: delimiter !== ',', timeZone });
   for await (const { fields, line } of csvRecords(filePath, delimiter)) {
     if (!headers) {
@@ -79,6 +81,7 @@ export async function surveyFile(filePath: string, delimiter: Delimiter, overrid
       steps.set(key, (steps.get(key) ?? 0) + 1);
     }
     tallyReading(sign, rows > 0 ? row.t - lastT : 0, row.volts, row.amps);
+    firstTempC ??= row.tempC;
     if (rows === 0) firstT = row.t;
     lastT = row.t;
     rows++;
@@ -88,6 +91,7 @@ export async function surveyFile(filePath: string, delimiter: Delimiter, overrid
   plan ??= makePlan(null);
   if (rows < 2) throw new HttpError(400, `line ${rows + 2}: at least two readings are needed after the header`);
   const medianStepS = medianOfCounts(steps);
+  if (plan.temp && firstTempC !== null) checkAssumedTempUnit(plan.temp, firstTempC);
   checkTimeSteps({ format: plan.time.format, source: plan.time.source, column: plan.time.column, medianStepS, spanS: lastT - firstT });
   return { plan, rows, duplicates, medianStepS, firstT, lastT, sign };
 }

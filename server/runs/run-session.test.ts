@@ -34,10 +34,10 @@ describe('RunSession', () => {
     const battery = { id: 1, label: 'LA', brand: 'Northgate Cell Lab', chemistry: 'lead-acid', cellsInSeries: 6, ratedAh: 100, ratedWh: null, price: null, massKg: null };
     const s = new RunSession(run, battery, measureConfigFor(run, battery));
     for (let i = 0; i <= 3600; i++) s.push({ t: i, volts: 12.2, amps: 25, clock: 'device' });
-    // The run ends with no end voltage: its capacity is the whole discharge (incomplete while it records).
     s.end('finished');
     // 25 A for 1 h = 25 Ah; at 10 °C (50 °F) credited by the factor 1.19 (IEEE 450 table, from memory).
-    expect(s.summary()?.correctedAh25C).toBeCloseTo(25 * 1.19, 9);
+    expect(s.summary()!.capacityAh).toBeCloseTo(25, 9);
+    expect(s.summary()!.correctedAh25C).toBeCloseTo(25 * 1.19, 9);
   });
 
   it('stops a target-Ah run once the discharged charge reaches the target', () => {
@@ -150,5 +150,17 @@ describe('RunSession across restarts', () => {
     expect(resumed.events.filter((e) => e.type === 'gap')).toEqual([]);
     expect(resumed.events).toEqual(straight.events);
     expect(resumed.summary()).toEqual(straight.summary());
+  });
+
+  it('a trip that reconnects with the load off (the discharge did not go on) ends an after-recovery run, capacity to the trip', () => {
+    const s = session({ stopWhen: 'after-recovery', afterRecoverySeconds: 10 });
+    for (let t = 0; t <= 300; t++) {
+      const open = t > 100 && t <= 160;
+      // Under load to t = 100, the protection opens (0.05 V), then it reconnects with no load: 12.4 V at 0 A.
+      s.push({ t, volts: open ? 0.05 : t <= 100 ? 12 : 12.4, amps: t <= 100 ? 5 : 0, clock: 'device' });
+    }
+    expect(s.shouldFinish()).toBe(true);
+    expect(s.summary()).toMatchObject({ capacityEndedBy: 'protection', protectionTripCount: 1 });
+    expect(s.summary()!.capacityAh!).toBeCloseTo((5 * 100) / 3600, 2);
   });
 });

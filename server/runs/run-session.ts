@@ -26,6 +26,8 @@ export interface RunSessionSnapshot {
   cutoffCause: 'end-voltage' | 'protection' | null;
   lastElapsed: number | null;
   tempAlarmRaised: boolean;
+  /** Run time the discharge last came back after a pause or a protection reconnect (absent in older snapshots). */
+  resumedAt?: number | null;
   /** The source clock guard's memory (absent in snapshots from before it existed). */
   clock?: ClockGuardState;
 }
@@ -114,6 +116,7 @@ export class RunSession {
     for (const event of events) {
       out.push(this.addEvent(event));
       if (event.type === 'cutoff') this.onCutoff(event, out);
+      if (event.type === 'load-on') this.snap.resumedAt = event.t;
       if (event.type === 'recovery' && this.snap.state === 'cutoff') {
         this.snap.recoveredAt = event.t;
         this.setState('recovered');
@@ -172,8 +175,11 @@ export class RunSession {
         return (charging ? totals.chargeWh : totals.dischargeWh) >= (this.run.targetWh ?? Infinity);
       case 'after-recovery': {
         const wait = this.run.afterRecoverySeconds;
-        // The end voltage ends the test; a protection's reconnect ends it only when the run says a trip does.
-        const from = s.cutoffCause === 'end-voltage' ? s.cutoffAt : this.run.protectionEndsTest ? s.recoveredAt : null;
+        // The end voltage ends the test; a protection's reconnect ends it when the run says a trip
+        // does, or when the discharge did not come back with it (the trip was the end of the test).
+        const resumed = s.recoveredAt !== null && (s.resumedAt ?? Number.NEGATIVE_INFINITY) >= s.recoveredAt;
+        const tripEnded = s.recoveredAt !== null && (this.run.protectionEndsTest === true || !resumed);
+        const from = s.cutoffCause === 'end-voltage' ? s.cutoffAt : tripEnded ? s.recoveredAt : null;
         return from !== null && s.lastElapsed !== null && s.lastElapsed - from >= wait;
       }
     }

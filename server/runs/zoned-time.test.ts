@@ -21,6 +21,12 @@ describe('parseTimestampMs', () => {
     expect(after - before).toBe(1000);
   });
 
+  it("reads a date alone as the lab's midnight, and refuses a date that does not exist", () => {
+    // Berlin keeps UTC+2 in July (EU summer time, from memory): local midnight is 22:00 UTC the day before.
+    expect(parseTimestampMs('2026-07-15', 'Europe/Berlin')).toBe(Date.UTC(2026, 6, 14, 22));
+    expect(parseTimestampMs('2026-02-30 10:00:00', 'UTC')).toBeNaN();
+  });
+
   it('answers NaN for text that is no timestamp', () => {
     expect(parseTimestampMs('yesterday-ish', 'UTC')).toBeNaN();
   });

@@ -1,7 +1,7 @@
-/** An ISO date-time that says which zone it is in (Z or an offset such as +02:00). */
-const HAS_ZONE = /(z|[+-]\d{2}(:?\d{2})?)$/i;
+/** An ISO date-time that says which zone it is in (Z or an offset such as +02:00 after the time; a date's own -15 is no zone). */
+const HAS_ZONE = /\d:\d{2}(?::\d{2}(?:[.,]\d+)?)?\s*(z|[+-]\d{2}(:?\d{2})?)$/i;
 /** A date and wall-clock time without a zone: "2026-03-29 01:30:00", "2026-03-29T01:30:00.250". */
-const LOCAL_DATE_TIME = /^(\d{4})-(\d{2})-(\d{2})[T ](\d{2}):(\d{2})(?::(\d{2})(?:[.,](\d{1,9}))?)?$/i;
+const LOCAL_DATE_TIME = /^(\d{4})-(\d{2})-(\d{2})(?:[T ](\d{2}):(\d{2})(?::(\d{2})(?:[.,](\d{1,9}))?)?)?$/i;
 const MS_PER_HOUR = 3_600_000;
 const MS_PER_SECOND = 1000;
 
@@ -64,6 +64,7 @@ export function fractionToMs(digits: string | undefined): number {
 export function parseTimestampMs(text: string, timeZone: string): number {
   const local = HAS_ZONE.test(text) ? null : LOCAL_DATE_TIME.exec(text);
   if (!local) return Date.parse(text);
-  const [, y, mo, d, h, mi, s = '0', frac] = local;
-  return wallMsToUtcMs(calendarWallMs(+y!, +mo!, +d!, +h!, +mi!, +s, fractionToMs(frac)), timeZone);
+  // A date alone is the lab's midnight (Date.parse would take it as UTC midnight).
+  const [, y, mo, d, h = '0', mi = '0', s = '0', frac] = local;
+  return wallMsToUtcMs(calendarWallMs(+y!, +mo!, +d!, +h, +mi, +s, fractionToMs(frac)), timeZone);
 }

@@ -2,6 +2,8 @@ import { describe, expect, it } from 'vitest';
 import { internalResistanceFromSteps, resistanceFromPoints } from './internal-resistance.js';
 import { incrementalCapacity, movingAverage } from './incremental-capacity.js';
 import { noise } from './synthetic-trace.test-helper.js';
+import { createRunPipeline } from './run-pipeline.js';
+import { summarizeRun } from './summarize-run.js';
 
 describe('internal resistance from load steps (Ohm\'s law, R = −ΔV/ΔI; DC method, common practice)', () => {
   it('two operating points', () => {
@@ -45,5 +47,45 @@ describe('incremental capacity dQ/dV', () => {
   it('moving average keeps a constant and smooths a spike', () => {
     expect(movingAverage([2, 2, 2], 3)).toEqual([2, 2, 2]);
     expect(movingAverage([0, 3, 0], 3)[1]).toBe(1);
+  });
+});
+
+describe('internal resistance: load steps told apart from meter noise (issue 11, item 14)', () => {
+  it('±0.6 A of meter noise at 100 A gives no steps (was 100 "steps", median −0.10 mΩ)', () => {
+    for (const seed of [1, 2, 3]) {
+      const n = noise(seed);
+      const samples = Array.from({ length: 20_000 }, (_, t) => ({ t, amps: 100 + n(0.6), volts: 51.2 - 0.002 * 100 + n(0.01) }));
+      expect(internalResistanceFromSteps(samples)).toEqual({ steps: [], medianOhms: null });
+    }
+  });
+
+  it('a slow taper (a CV charge) is no step; a real 100 → 150 A step under the same noise is found once', () => {
+    const taper = Array.from({ length: 3600 }, (_, t) => ({ t, amps: -(50 - (45 * t) / 3600), volts: 57.6 }));
+    expect(internalResistanceFromSteps(taper).steps).toHaveLength(0);
+    // Ohm's law: R = −ΔV/ΔI = 2 mΩ (common-practice DC method); 0.6 A and 10 mV of noise.
+    const n = noise(9);
+    const R = 0.002;
+    const samples = Array.from({ length: 600 }, (_, t) => {
+      const amps = t >= 300 ? 150 : 100;
+      return { t, amps: amps + n(0.6), volts: 53 - amps * R + n(0.01) };
+    });
+    const { steps, medianOhms } = internalResistanceFromSteps(samples);
+    expect(steps).toHaveLength(1);
+    expect(steps[0]!.t).toBe(300);
+    expect(Math.abs(medianOhms! - R)).toBeLessThan(0.0005);
+  });
+
+  it('the run pipeline finds the steps as it runs, so a run\'s summary shows a value (was always "—")', () => {
+    const n = noise(21);
+    const R = 0.02;
+    const frames = Array.from({ length: 300 }, (_, t) => {
+      const amps = t >= 100 && t < 200 ? 15 : 5;
+      return { t, clock: 'device' as const, amps: amps + n(0.02), volts: 26.4 - t * 0.0005 - amps * R + n(0.002) };
+    });
+    const p = createRunPipeline({ chemistry: 'lfp', cellsInSeries: 8 });
+    const { events } = p.pushMany(frames);
+    const s = summarizeRun({ snapshot: p.snapshot(), events });
+    expect(s.loadStepCount).toBe(2);
+    expect(Math.abs(s.internalResistanceOhms! - R)).toBeLessThan(R * 0.05);
   });
 });

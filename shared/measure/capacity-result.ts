@@ -38,9 +38,9 @@ export const COMPLETE_ENDS: ReadonlySet<CapacityEndedBy> = new Set<CapacityEnded
 
 /**
  * Reads a capacity run's events: capacity to the first confirmed end-voltage crossing; the
- * protection trips on the way (a trip that reconnects does not end the test unless
- * `protectionEndsTest`); a final trip that never reconnects ends it; a run without an end
- * voltage ends with its totals. Started below the end voltage, stopped by hand before it,
+ * protection trips on the way (a trip after which the discharge goes on does not end the
+ * test unless `protectionEndsTest`); a last trip after which no discharge followed, whether
+ * the pack reconnected or not, ends it; a run without an end voltage ends with its totals. Started below the end voltage, stopped by hand before it,
  * or still recording: incomplete, with no capacity figure.
  */
 export function capacityResult(input: CapacityInput): CapacityResult {
@@ -60,8 +60,9 @@ export function capacityResult(input: CapacityInput): CapacityResult {
   const firstTrip = protections[0];
   if (input.protectionEndsTest && firstTrip && (endCut === null || firstTrip.t < endCut.t)) return at(firstTrip, 'protection');
   if (endCut) return endCut.startedBelowEndVoltage ? none('started-below-end-voltage') : at(endCut, 'end-voltage');
+  // The last trip ended the test unless the discharge went on after it (a `load-on` after the trip).
   const lastTrip = protections.at(-1);
-  if (lastTrip && !recoveries.some((r) => r.cutoffT === lastTrip.t)) return at(lastTrip, 'protection');
+  if (lastTrip && !input.events.some((e) => e.type === 'load-on' && e.t > lastTrip.t)) return at(lastTrip, 'protection');
   if (!input.sawLoad) return none('no-discharge');
   if (!input.ended) return none('in-progress');
   if (input.endVolts === null) {

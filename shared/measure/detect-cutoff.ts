@@ -7,6 +7,8 @@ import { crossingPoint, takePoint, type CrossingPoint } from './end-voltage-cros
 /** Optional aux channel: 1 while the load is switched on, 0 when the operator switched it off. */
 export const LOAD_ON_CHANNEL = 'loadOn';
 
+const RESUMED_NOTE = 'discharge current back (after a pause or a protection reconnect)';
+
 type CandidateKind = 'end-voltage' | 'voltage-collapse' | 'current-zero';
 
 /** A cutoff seen but not yet confirmed: what will be reported if it is. */
@@ -154,8 +156,15 @@ function afterCutoff(s: CutoffState, r: Reading, k: DetectorSettings, out: RunEv
     const notBack = r.volts < k.recoveryVolts - k.hysteresisVolts && !flowing;
     if (advanceStreak(s.after, back, notBack, t, r.volts, k.confirmReadings)) {
       out.push({ type: 'recovery', t: s.after.startT, cutoffT: s.cutoffT, recoverySeconds: Math.max(0, s.after.startT - s.cutoffT), volts: s.after.startValue });
-      s.phase = r.amps >= k.loadOnAmps ? 'discharging' : 'idle';
       resetStreak(s.after);
+      // Whether the discharge goes on after the reconnect decides whether the trip ended the test: say when it does.
+      if (r.amps >= k.loadOnAmps) {
+        s.phase = 'discharging';
+        out.push({ type: 'load-on', t, note: RESUMED_NOTE });
+      } else {
+        s.phase = 'idle';
+        s.paused = true;
+      }
     }
     return;
   }
@@ -175,7 +184,7 @@ export function detectCutoff(s: CutoffState, r: Reading, k: DetectorSettings, ou
     if (r.amps < -k.zeroAmps) s.sawAboveEnd = false; // a charge: the next discharge is a new test
     if (r.amps >= k.loadOnAmps && r.volts > k.collapseVolts) {
       s.phase = 'discharging';
-      if (s.paused) out.push({ type: 'load-on', t: r.elapsedSeconds, note: 'current back after a pause' });
+      if (s.paused) out.push({ type: 'load-on', t: r.elapsedSeconds, note: RESUMED_NOTE });
       s.paused = false;
       trackLoad(s, r, k);
     }

@@ -7,8 +7,6 @@ import type { Verdict } from '../schemas/run-summary.js';
 export const DEFAULT_ACCEPTANCE_PERCENT = 100;
 const PERCENT = 100;
 const WH_PER_KWH = 1000;
-/** Round-trip efficiency is only meaningful when each half is at least this share of the other. */
-const MIN_ROUND_TRIP_SHARE = 0.25;
 
 /** Delivered as % of rated; null when either is unknown or rated ≤ 0. */
 export function percentOfRated(delivered: number | null | undefined, rated: number | null | undefined): number | null {
@@ -53,11 +51,4 @@ export function costPerKWh(price: number | null | undefined, deliveredWh: number
 export function whPerKg(deliveredWh: number | null | undefined, massKg: number | null | undefined): number | null {
   if (deliveredWh == null || massKg == null || !(massKg > 0)) return null;
   return deliveredWh / massKg;
-}
-
-/** Round-trip efficiency: Wh out ÷ Wh in; null unless both halves are substantial. */
-export function roundTripEfficiency(dischargeWh: number, chargeWh: number): number | null {
-  if (!(dischargeWh > 0) || !(chargeWh > 0)) return null;
-  if (dischargeWh < chargeWh * MIN_ROUND_TRIP_SHARE || chargeWh < dischargeWh * MIN_ROUND_TRIP_SHARE) return null;
-  return dischargeWh / chargeWh;
 }

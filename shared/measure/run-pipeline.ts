@@ -11,6 +11,8 @@ import { createDetectorState, DetectorStateSchema, detectStep, resolveDetectorSe
 import { HALF_RATED } from './detector-settings.js';
 import { resolveGapLimit, type GapLimit } from './gap-limit.js';
 import { createRunStats, RunStatsSchema, updateRunStats, type RunStats } from './run-stats.js';
+import { trackRoundTrip } from './round-trip.js';
+import { trackLoadSteps } from './internal-resistance.js';
 
 /** Everything needed to resume a run exactly: plain JSON, safe to archive. */
 export interface RunPipelineSnapshot {
@@ -109,6 +111,8 @@ export function createRunPipeline(config: MeasureConfigInput, snapshot?: unknown
       chargeAh: sumValue(integ.chargeAs) / SECONDS_PER_HOUR,
     };
     updateRunStats(stats, elapsedSeconds, frame.volts, frame.amps, frame.temps, settings.loadOnAmps, outcome === 'gap');
+    trackRoundTrip(stats.roundTrip, reading, settings.loadOnAmps, settings.zeroAmps);
+    trackLoadSteps(stats.loadSteps, { t: elapsedSeconds, volts: frame.volts, amps: frame.amps }, outcome === 'gap', { collapseVolts: settings.collapseVolts });
     scratch.length = 0;
     if (outcome === 'gap' && prevT !== null) scratch.push({ type: 'gap', t: prevT - originT, endT: elapsedSeconds, gapSeconds: frame.t - prevT });
     detectStep(det, settings, reading, scratch);

@@ -1,4 +1,6 @@
 import { z } from 'zod';
+import { createRoundTripState, RoundTripStateSchema } from './round-trip.js';
+import { createLoadStepState, LoadStepStateSchema } from './internal-resistance.js';
 
 const nullableNumber = z.number().nullable();
 
@@ -27,6 +29,10 @@ export const RunStatsSchema = z.object({
   tempChannels: z.record(z.string(), z.object({ min: z.number(), max: z.number() })).default({}),
   minAmps: nullableNumber.default(null),
   maxAmps: nullableNumber.default(null),
+  /** The first discharge and the charge after it (round-trip efficiency); fresh in older snapshots. */
+  roundTrip: RoundTripStateSchema.default(createRoundTripState),
+  /** Load steps found so far, for the internal resistance; fresh in older snapshots. */
+  loadSteps: LoadStepStateSchema.default(createLoadStepState),
 });
 export type RunStats = z.infer<typeof RunStatsSchema>;
 
@@ -35,8 +41,9 @@ export function createRunStats(): RunStats {
   return {
     minVolts: null, maxVolts: null, minTempCelsius: null, maxTempCelsius: null, lastElapsedSeconds: null,
     loadSeconds: 0, loadVoltSeconds: 0, loadAmpSeconds: 0, loadWattSeconds: 0, lastLoadT: null, lastLoadVolts: 0, lastLoadAmps: 0,
-    loadMinTempCelsius: null, loadMaxTempCelsius: null,
     tempChannels: {}, minAmps: null, maxAmps: null,
+    loadMinTempCelsius: null, loadMaxTempCelsius: null, roundTrip: createRoundTripState(),
+    loadSteps: createLoadStepState(),
   };
 }
 

@@ -4,14 +4,15 @@ import { meansUnderLoad } from './run-stats.js';
 import { sumValue } from './compensated-sum.js';
 import { integratorTotals, rejectedCounts } from './integrator-state.js';
 import type { RunPipelineSnapshot } from './run-pipeline.js';
-import { DEFAULT_ACCEPTANCE_PERCENT, costPerKWh, cRate, percentOfRated, roundTripEfficiency, verdictFor, whPerKg } from './figures.js';
+import { DEFAULT_ACCEPTANCE_PERCENT, costPerKWh, cRate, percentOfRated, verdictFor, whPerKg } from './figures.js';
 import { nominalVolts } from './nominal.js';
-import { internalResistanceFromSteps, type VoltAmpSample } from './internal-resistance.js';
+import { internalResistanceFromSteps, medianStepOhms, type VoltAmpSample } from './internal-resistance.js';
 import { correctedAhAt25C, inCapacityFactorRange } from './lead-acid-correction.js';
 import { resolveGapLimit } from './gap-limit.js';
 import { capacityResult, COMPLETE_ENDS } from './capacity-result.js';
 import { resolveDetectorSettings } from './detector-settings.js';
 import { testConditionFlags } from './test-conditions.js';
+import { roundTripResult } from './round-trip.js';
 
 /**
  * A derived figure (a ratio of a run's totals to a rating, a price or a mass) that cannot
@@ -33,7 +34,7 @@ export interface SummarizeRunInput {
   /** Battery price (any currency) for cost per delivered kWh. */
   price?: number | null;
   massKg?: number | null;
-  /** Readings for internal resistance from load steps (optional; omit for none). */
+  /** Readings to find load steps in for the internal resistance (default: the steps the pipeline found as it ran). */
   readings?: ArrayLike<VoltAmpSample>;
   /** Lead-acid: initial electrolyte/cell temperature for the IEEE 450 correction, °C (outside its table: no correction). */
   leadAcidTempCelsius?: number | null;
@@ -74,8 +75,11 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
   const rate = known(cRate(meanAmps, cfg.ratedAh));
   const testMinTempCelsius = snapshot.stats.loadMinTempCelsius ?? null;
   const testMaxTempCelsius = snapshot.stats.loadMaxTempCelsius ?? null;
+  const roundTrip = roundTripResult(snapshot.stats.roundTrip);
   const verdict = COMPLETE_ENDS.has(capacity.endedBy) ? verdictFor(percents, acceptancePercent) : 'incomplete';
-  const ir = known(input.readings ? internalResistanceFromSteps(input.readings).medianOhms : null);
+  const fromReadings = input.readings ? internalResistanceFromSteps(input.readings, { collapseVolts: settings.collapseVolts }) : null;
+  const irOhms = known(fromReadings ? fromReadings.medianOhms : medianStepOhms(snapshot.stats.loadSteps));
+  const loadStepCount = fromReadings ? fromReadings.steps.length : snapshot.stats.loadSteps.steps;
   const leadTemp = input.leadAcidTempCelsius ?? null;
   const gapLimit = resolveGapLimit(cfg);
   return RunSummarySchema.parse({
@@ -120,8 +124,10 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
     ...testConditionFlags(rate, testMinTempCelsius, testMaxTempCelsius),
     costPerKWh: known(costPerKWh(input.price, deliveredWh)),
     whPerKg: known(whPerKg(deliveredWh, input.massKg)),
-    roundTripEfficiency: known(roundTripEfficiency(totals.dischargeWh, totals.chargeWh)),
-    internalResistanceOhms: ir,
-    correctedAh25C: known(cfg.chemistry === 'lead-acid' && leadTemp !== null && deliveredAh !== null && inCapacityFactorRange(leadTemp) ? correctedAhAt25C(deliveredAh, leadTemp) : null),
+    roundTripEfficiency: known(roundTrip.efficiency),
+    roundTripStatus: roundTrip.status,
+    internalResistanceOhms: irOhms,
+    loadStepCount,
+    correctedAh25C: known(cfg.chemistry === 'lead-acid' && leadTemp !== null && inCapacityFactorRange(leadTemp) && deliveredAh !== null ? correctedAhAt25C(deliveredAh, leadTemp) : null),
   });
 }

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { peukertCapacityAh, peukertRuntimeHours } from './peukert.js';
 import { nominalVolts, nominalWh, packVolts } from './nominal.js';
-import { cRate, costPerKWh, percentOfRated, roundTripEfficiency, verdictFor, whPerKg, DEFAULT_ACCEPTANCE_PERCENT } from './figures.js';
+import { cRate, costPerKWh, percentOfRated, verdictFor, whPerKg, DEFAULT_ACCEPTANCE_PERCENT } from './figures.js';
 import { ahFromWh, voltsFrom } from '../units/convert.js';
 
 describe('trade arithmetic (common practice)', () => {
@@ -53,12 +53,10 @@ describe('verdict and derived figures', () => {
     expect(verdictFor([null])).toBe('unrated');
     expect(verdictFor([101, 99])).toBe('fail');
   });
-  it('C-rate, cost per delivered kWh, Wh/kg, round-trip efficiency', () => {
+  it('C-rate, cost per delivered kWh, Wh/kg (round trip: round-trip.test.ts)', () => {
     expect(cRate(10, 50)).toBeCloseTo(0.2, 12); // 0.2 C: 10 A from 50 Ah (definition of C-rate)
     expect(costPerKWh(320, 1280)).toBeCloseTo(250, 9); // price ÷ kWh
     expect(whPerKg(1280, 11.2)).toBeCloseTo(114.2857, 3);
-    expect(roundTripEfficiency(1200, 1300)).toBeCloseTo(0.923077, 6);
-    expect(roundTripEfficiency(1200, 0.00001)).toBeNull(); // no real charge half in the run
     expect(costPerKWh(320, 0)).toBeNull();
     expect(whPerKg(1280, null)).toBeNull();
   });

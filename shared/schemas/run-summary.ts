@@ -105,9 +105,15 @@ export const RunSummarySchema = z
     tempOutsideStandard: z.boolean().nullable().default(null),
     costPerKWh: finite.nullable(),
     whPerKg: finite.nullable(),
-    /** Discharge Wh ÷ charge Wh when both halves are in the run. */
+    /**
+     * Wh out of the first discharge ÷ Wh in to the full charge after it; null unless
+     * `roundTripStatus` is `complete` (`incomplete`: the charge was partial; null: no such pair).
+     */
     roundTripEfficiency: finite.nullable(),
+    roundTripStatus: z.enum(['complete', 'incomplete']).nullable().default(null),
+    /** Median −ΔV/ΔI over the load steps found (steps told apart from meter noise); null when none. */
     internalResistanceOhms: finite.nullable(),
+    loadStepCount: z.number().int().nonnegative().default(0),
     /** Lead-acid only: capacity corrected to 25 °C (IEEE 450 method). */
     correctedAh25C: finite.nullable(),
     /** Lowest and highest reading of each temperature channel, by the bench's channel name. */

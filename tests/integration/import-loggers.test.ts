@@ -147,6 +147,11 @@ describe('import: temperatures by unit mark, never °F read as °C (issue 11 ite
     const degF = await upload(csv('Temperature (degF)', '77'));
     expect(degF.status).toBe(201);
     expect(degF.body.fullSummary.maxTempCelsius).toBeCloseTo(25, 12);
+    // A bare Temperature of a °F log under a lab set to °C is not read as 77 °C: the importer asks.
+    const asked = await upload(csv('Temperature', '77'));
+    expect(asked.status).toBe(400);
+    expect(asked.body.error.message).toMatch(/fits °F better; choose the temperature unit/);
+    expect(asked.body.error.fields).toHaveProperty('tempUnit');
     await withLabSettings({ temperatureUnit: 'F' }, async () => {
       const bare = await upload(csv('Temperature', '77'));
       expect(bare.body.fullSummary.maxTempCelsius).toBeCloseTo(25, 12);

@@ -29,6 +29,7 @@ export function formatProtectionValue(protection: Protection, value: number | nu
 export function describeEvent(e: RunEvent, { temperatureUnit = 'C', energyUnit = 'Wh' }: EventUnits = {}): string {
   switch (e.type) {
     case 'cutoff':
+      if (e.startedBelowEndVoltage) return `Cutoff (already at or below the end voltage when the load came on) at ${formatVolts(e.volts)}: no capacity measured`;
       return `Cutoff (${e.cause === 'protection' ? 'pack protection opened' : 'end voltage reached'}) at ${formatVolts(e.volts)} after ${formatEnergy(e.dischargeWh, energyUnit)}, ${formatCharge(e.dischargeAh)}`;
     case 'recovery':
       return `Pack reconnected after ${formatDuration(e.recoverySeconds)}, ${formatVolts(e.volts)}`;
@@ -65,9 +66,9 @@ export function describeEvent(e: RunEvent, { temperatureUnit = 'C', energyUnit =
     case 'run-stop':
       return `Run stopped${e.note ? `: ${e.note}` : ''}`;
     case 'load-on':
-      return 'Load on';
+      return `Load on${e.note ? `: ${e.note}` : ''}`;
     case 'load-off':
-      return 'Load off';
+      return `Load off${e.note ? `: ${e.note}` : ''}`;
   }
 }
 

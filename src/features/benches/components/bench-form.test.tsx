@@ -45,6 +45,7 @@ describe('bench form (admin)', () => {
       name: 'Bench C',
       notes: '',
       enabled: true,
+      loadOnAmps: null,
       source: {
         kind: 'simulator', scenario: 'lfp-12v-weak-cell', speed: 10, seed: 1, staleAfterS: 10,
         limits: { maxAbsVolts: 2000, maxAbsAmps: 5000, minTempCelsius: -100, maxTempCelsius: 300 },
@@ -73,6 +74,25 @@ describe('bench form (admin)', () => {
     await waitFor(() => expect(router.state.location.pathname).toBe('/benches/5'));
     const post = calls.find((c) => c.url === '/api/benches' && c.init?.method === 'POST');
     expect(JSON.parse(String(post?.init?.body)).source.limits).toEqual({ maxAbsVolts: 60, maxAbsAmps: 5000, minTempCelsius: -100, maxTempCelsius: 90 });
+  });
+
+  it('sends the load threshold typed for the bench, and refuses one that is not a small positive current', async () => {
+    const { calls } = stubApi(demoUser('admin'), (url, init) =>
+      url === '/api/benches' && init?.method === 'POST' ? { status: 201, body: { bench: { ...savedBench, loadOnAmps: 0.1 } } } : undefined,
+    );
+    const { router } = renderAt('/benches/new');
+    await userEvent.type(await screen.findByLabelText('Name'), 'Bench C');
+    const threshold = screen.getByLabelText('Load threshold (A)');
+    await userEvent.type(threshold, '-1');
+    await userEvent.click(screen.getByRole('button', { name: 'Add bench' }));
+    expect((await screen.findByRole('alert')).textContent).toMatch(/Load threshold/);
+    await userEvent.clear(threshold);
+    await userEvent.type(threshold, '0.1');
+    await userEvent.click(screen.getByRole('button', { name: 'Add bench' }));
+    await waitFor(() => expect(router.state.location.pathname).toBe('/benches/5'));
+    const posts = calls.filter((c) => c.url === '/api/benches' && c.init?.method === 'POST');
+    expect(posts).toHaveLength(1);
+    expect(JSON.parse(String(posts[0]!.init!.body)).loadOnAmps).toBe(0.1);
   });
 
   it('says so when the admin reopens a bench\'s source', async () => {

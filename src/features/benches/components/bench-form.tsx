@@ -1,5 +1,5 @@
 import { useState, type FormEvent } from 'react';
-import { BenchSourceConfigSchema, DEFAULT_STALE_AFTER_S, type BenchWithStatus, type SerialFormat } from '../../../../shared/schemas/bench';
+import { BenchSourceConfigSchema, DEFAULT_STALE_AFTER_S, LoadOnAmpsSchema, MAX_LOAD_ON_AMPS, type BenchWithStatus, type SerialFormat } from '../../../../shared/schemas/bench';
 import { Button } from '../../../components/ui/button';
 import { SelectField, TextField } from '../../../components/ui/field';
 import { ApiError } from '../../../lib/api-client';
@@ -52,6 +52,7 @@ export function BenchForm({ bench, onSaved }: { bench?: BenchWithStatus; onSaved
     path: src?.kind === 'serial' ? src.path : '',
     baudRate: src?.kind === 'serial' ? String(src.baudRate) : DEFAULT_BAUD,
     staleAfterS: src?.kind === 'serial' ? String(src.staleAfterS) : String(DEFAULT_STALE_AFTER_S),
+    loadOnAmps: bench?.loadOnAmps == null ? '' : String(bench.loadOnAmps),
   });
   const [format, setFormat] = useState(() => initialFormat(bench));
   const [limits, setLimits] = useState(() => initialLimitFields(src));
@@ -65,9 +66,11 @@ export function BenchForm({ bench, onSaved }: { bench?: BenchWithStatus; onSaved
     if (!fields.name.trim()) return setLocalError('Give the bench a name.');
     const built = buildSource(kind, fields, format.json, limits);
     if (built.error) return setLocalError(built.error);
+    const threshold = LoadOnAmpsSchema.safeParse(fields.loadOnAmps.trim() ? Number(fields.loadOnAmps) : null);
+    if (!threshold.success) return setLocalError(`Load threshold: a current above 0 and at most ${MAX_LOAD_ON_AMPS} A, or empty for the default.`);
     setLocalError(null);
     save.mutate(
-      { name: fields.name.trim(), notes: fields.notes, enabled, source: built.source as never },
+      { name: fields.name.trim(), notes: fields.notes, enabled, source: built.source as never, loadOnAmps: threshold.data },
       { onSuccess: (saved) => onSaved(saved.id) },
     );
   };
@@ -148,6 +151,14 @@ export function BenchForm({ bench, onSaved }: { bench?: BenchWithStatus; onSaved
           </div>
         </div>
       )}
+      <TextField
+        label="Load threshold (A)"
+        inputMode="decimal"
+        value={fields.loadOnAmps}
+        onChange={set('loadOnAmps')}
+        placeholder="0.2, or C/20 of a small pack's rating"
+        hint="Discharge current at or above this counts as the load being on: the test starts, and means are taken under load. Set it below your smallest test current and above the meter's zero noise."
+      />
       {kind !== 'none' && <FrameLimitsFields value={limits} onChange={setLimits} />}
       <TextField label="Notes" value={fields.notes} onChange={set('notes')} />
       <label className="flex min-h-11 items-center gap-3 text-ink">

@@ -40,3 +40,28 @@ describe('start form: protection check', () => {
     expect(body.tempProtections[0].limitCelsius).toBeCloseTo(5, 9);
   });
 });
+
+describe('start form: capacity test settings', () => {
+  it('sends a typed gap limit and "a protection trip ends the test"; an empty gap limit is left to the meter\'s pace', async () => {
+    const { calls } = stubApi(demoUser('technician'), (url, init) => {
+      if (url === '/api/benches/2') return { status: 200, body: { bench: { id: 2, name: 'Bench B', source: { kind: 'none' }, enabled: true, notes: '', createdAt: now, updatedAt: now, status: { state: 'idle', framesOk: 0, framesRejected: 0 } } } };
+      if (url.startsWith('/api/runs?benchId=2')) return { status: 200, body: { runs: [], total: 0 } };
+      if (url === '/api/batteries') return { status: 200, body: { batteries: [pack] } };
+      if (url === '/api/settings') return { status: 200, body: { settings: { temperatureUnit: 'C' } } };
+      if (url === '/api/runs' && init?.method === 'POST') return { status: 400, body: { error: { message: 'stop here' } } };
+      return undefined;
+    });
+    renderAt('/benches/2');
+    await userEvent.selectOptions(await screen.findByLabelText('Battery pack'), '3');
+    await userEvent.type(screen.getByLabelText('Run name'), 'Kestrel capacity');
+    const posts = () => calls.filter((c) => c.url === '/api/runs' && c.init?.method === 'POST').map((c) => JSON.parse(String(c.init!.body)));
+    await userEvent.click(screen.getByRole('button', { name: 'Arm the run' }));
+    await waitFor(() => expect(posts()).toHaveLength(1));
+    expect(posts()[0]).toMatchObject({ maxGapSeconds: null, protectionEndsTest: false });
+    await userEvent.type(screen.getByLabelText('Gap limit (s)'), '900');
+    await userEvent.click(screen.getByLabelText(/A protection trip ends the test/));
+    await userEvent.click(screen.getByRole('button', { name: 'Arm the run' }));
+    await waitFor(() => expect(posts()).toHaveLength(2));
+    expect(posts()[1]).toMatchObject({ maxGapSeconds: 900, protectionEndsTest: true });
+  });
+});

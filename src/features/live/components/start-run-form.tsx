@@ -1,5 +1,5 @@
 import { useForm } from 'react-hook-form';
-import type { StartRunRequest } from '../../../../shared/schemas/api-runs';
+import { MAX_GAP_LIMIT_SECONDS, type StartRunRequest } from '../../../../shared/schemas/api-runs';
 import type { RunKind, StopWhen } from '../../../../shared/schemas/run';
 import { DEFAULT_END_VOLTS_PER_CELL } from '../../../../shared/schemas/lab-settings';
 import { Button } from '../../../components/ui/button';
@@ -26,6 +26,8 @@ interface Values {
   coldLimit: string;
   hot: boolean;
   hotLimit: string;
+  protectionEndsTest: boolean;
+  maxGapSeconds: string;
 }
 
 /** Channel the protections watch when the bench has not said which it has. */
@@ -39,7 +41,7 @@ const KIND_OPTIONS = [
 ] as const;
 
 const STOP_OPTIONS = [
-  { value: 'after-recovery', label: 'After cutoff and recovery' },
+  { value: 'after-recovery', label: 'At the end voltage (or a trip, if it ends the test)' },
   { value: 'target-ah', label: 'At a target Ah' },
   { value: 'target-wh', label: 'At a target Wh' },
   { value: 'manual', label: 'By hand' },
@@ -53,7 +55,7 @@ export function StartRunForm({ benchId, onStarted, packCelsius = null, tempChann
   const unit = settings.temperatureUnit;
   const inLabUnit = (celsius: number) => String(unit === 'F' ? celsiusToFahrenheit(celsius) : celsius);
   const { register, handleSubmit, watch, formState: { errors } } = useForm<Values>({
-    defaultValues: { batteryId: '', name: '', kind: 'capacity-discharge', endVoltsPerCell: '', acceptancePercent: String(settings.acceptancePercent), stopWhen: 'after-recovery', target: '', coldCharge: true, coldLimit: '', hot: false, hotLimit: '' },
+    defaultValues: { batteryId: '', name: '', kind: 'capacity-discharge', endVoltsPerCell: '', acceptancePercent: String(settings.acceptancePercent), stopWhen: 'after-recovery', target: '', coldCharge: true, coldLimit: '', hot: false, hotLimit: '', protectionEndsTest: false, maxGapSeconds: '' },
   });
   const stopWhen = watch('stopWhen');
   const kind = watch('kind');
@@ -78,6 +80,8 @@ export function StartRunForm({ benchId, onStarted, packCelsius = null, tempChann
       targetAh: v.stopWhen === 'target-ah' ? target : null,
       targetWh: v.stopWhen === 'target-wh' ? target : null,
       tempProtections: v.kind === 'protection-check' ? tempProtectionsFrom(v, unit, tempChannel ?? DEFAULT_TEMP_CHANNEL) : [],
+      protectionEndsTest: v.protectionEndsTest,
+      maxGapSeconds: v.maxGapSeconds.trim() ? Number(v.maxGapSeconds) : null,
     };
     start.mutate(body, { onSuccess: (run) => onStarted(run.id) });
   });
@@ -107,6 +111,20 @@ export function StartRunForm({ benchId, onStarted, packCelsius = null, tempChann
             error={errors.target?.message ?? serverFields.targetAh ?? serverFields.targetWh}
             {...register('target', { validate: (v) => Number(v) > 0 || 'Enter the target.' })}
           />
+        )}
+        <TextField
+          label="Gap limit (s)"
+          inputMode="decimal"
+          placeholder="3 × the meter's poll period, else 30"
+          hint="A silence longer than this is a marked gap, not integrated. Leave empty to judge by the meter's own pace."
+          error={errors.maxGapSeconds?.message ?? serverFields.maxGapSeconds}
+          {...register('maxGapSeconds', { validate: (v) => !v.trim() || (Number(v) > 0 && Number(v) <= MAX_GAP_LIMIT_SECONDS) || `Between 0 and ${MAX_GAP_LIMIT_SECONDS} s, or empty.` })}
+        />
+        {kind !== 'protection-check' && (
+          <label className="flex min-h-11 items-center gap-3 md:col-span-2">
+            <input type="checkbox" className="h-5 w-5" {...register('protectionEndsTest')} />
+            A protection trip ends the test (capacity to the first trip). Unticked: a trip that reconnects is listed and the test runs on to the end voltage.
+          </label>
         )}
         {kind === 'protection-check' && (
           <fieldset className="grid gap-3 rounded-lg border border-line p-4 md:col-span-2 md:grid-cols-2">

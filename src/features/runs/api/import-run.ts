@@ -1,5 +1,5 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
-import { ImportResponseSchema } from '../../../../shared/schemas/api-runs';
+import { ImportResponseSchema, type ImportTimeFormat } from '../../../../shared/schemas/api-runs';
 import { api } from '../../../lib/api-client';
 import { queryKeys } from '../../../lib/queries/query-keys';
 
@@ -12,6 +12,15 @@ export interface ImportRunInput {
   tags?: string;
   /** Header names in the file, for columns Kneepoint does not recognise by itself. */
   columns?: { time?: string; volts?: string; amps?: string; temp?: string };
+  /** How the time column is written; omitted: from the header or the values. */
+  timeFormat?: ImportTimeFormat;
+  /** Unit of a temperature column whose header names none; omitted: the lab's. */
+  tempUnit?: 'C' | 'F' | 'K';
+  acceptancePercent?: number;
+  /** Lead-acid: initial electrolyte temperature, °C. */
+  electrolyteTempCelsius?: number;
+  /** A longer step is a gap; omitted: judged against the file's cadence. */
+  maxGapSeconds?: number;
 }
 
 /** POST /api/runs/import (technician): a CSV log from another logger becomes a run. */
@@ -23,6 +32,10 @@ export function importRun(input: ImportRunInput) {
   if (input.batteryId !== undefined) form.set('batteryId', String(input.batteryId));
   if (input.endVolts !== undefined) form.set('endVolts', String(input.endVolts));
   if (input.tags) form.set('tags', input.tags);
+  for (const key of ['timeFormat', 'tempUnit', 'acceptancePercent', 'electrolyteTempCelsius', 'maxGapSeconds'] as const) {
+    const value = input[key];
+    if (value !== undefined) form.set(key, String(value));
+  }
   if (input.columns && Object.keys(input.columns).length > 0) form.set('columns', JSON.stringify(input.columns));
   return api('/api/runs/import', { method: 'POST', body: form, schema: ImportResponseSchema });
 }

@@ -1,7 +1,12 @@
 import { screen, waitFor } from '@testing-library/react';
 import userEvent from '@testing-library/user-event';
+import { render } from '@testing-library/react';
+import { MemoryRouter } from 'react-router-dom';
 import { describe, expect, it } from 'vitest';
+import type { Battery } from '../../../../shared/schemas/battery';
+import { LabSettingsSchema } from '../../../../shared/schemas/lab-settings';
 import { demoUser, renderAt, stubApi } from '../../../testing/render-app';
+import { ImportNoticesPanel } from './import-notices-panel';
 
 const emptyRuns = { status: 200, body: { runs: [], total: 0 } };
 
@@ -71,4 +76,76 @@ describe('runs page', () => {
     const body = calls.filter((c) => c.url === '/api/runs/import')[1].init?.body as FormData;
     expect(JSON.parse(String(body.get('columns')))).toEqual({ time: 'Elapsed', volts: 'U', amps: 'I' });
   });
+
+  it("starts the acceptance at the lab's setting and sends every choice of the form", async () => {
+    const now = '2026-03-01T10:00:00.000Z';
+    // A fictional lead-acid pack of the demo lab.
+    const pack: Battery = {
+      id: 4, label: 'NG-0142', brand: 'Hollis Power', model: null, chemistry: 'lead-acid', cellsInSeries: 6, cellsInParallel: 1,
+      ratedAh: 35, ratedWh: null, bmsRatedAmps: null, massKg: null, price: null, priceCurrency: null, serialNumber: null,
+      sender: null, notes: null, receivedOn: null, owner: null, lengthMm: null, widthMm: null, heightMm: null, terminalType: null,
+      statedCycleLife: null, warrantyMonths: null, createdAt: now, updatedAt: now,
+    };
+    const { calls } = stubApi(demoUser('technician'), (url, init) => {
+      if (url.startsWith('/api/runs?')) return emptyRuns;
+      if (url === '/api/settings') return { status: 200, body: { settings: LabSettingsSchema.parse({ acceptancePercent: 80, temperatureUnit: 'F' }) } };
+      if (url === '/api/batteries') return { status: 200, body: { batteries: [pack] } };
+      if (url === '/api/runs/import' && init?.method === 'POST') {
+        return { status: 400, body: { error: { message: 'line 2: time "03.04.2026 10:00:00" is a date that can be day-first or month-first; choose the time format', fields: { timeFormat: ['choose the time format'] } } } };
+      }
+      return undefined;
+    });
+    renderAt('/runs');
+    await userEvent.click(await screen.findByRole('button', { name: 'Import a CSV log' }));
+    await waitFor(() => expect((screen.getByLabelText(/^Acceptance/) as HTMLInputElement).value).toBe('80'));
+    expect(screen.getByRole('option', { name: "The lab's unit (°F)" })).toBeTruthy();
+    // The electrolyte temperature is asked for a lead-acid pack only.
+    expect(screen.queryByLabelText(/Electrolyte temperature/)).toBeNull();
+    await userEvent.selectOptions(await screen.findByLabelText('Battery pack (optional)'), '4');
+    await userEvent.type(screen.getByLabelText(/Electrolyte temperature/), '10');
+    await userEvent.upload(screen.getByLabelText(/CSV file/), new File(['Datum;U;I\n'], 'logger.csv', { type: 'text/csv' }));
+    await userEvent.type(screen.getByLabelText('Run name'), 'Cold lead-acid log');
+    await userEvent.selectOptions(screen.getByLabelText('Time column format'), 'dmy');
+    await userEvent.selectOptions(screen.getByLabelText('Current sign in the file'), 'discharge-negative');
+    await userEvent.selectOptions(screen.getByLabelText(/^Temperature unit/), 'C');
+    await userEvent.clear(screen.getByLabelText(/^Acceptance/));
+    await userEvent.type(screen.getByLabelText(/^Acceptance/), '90');
+    await userEvent.type(screen.getByLabelText(/^Gap limit/), '600');
+    await userEvent.click(screen.getByRole('button', { name: 'Import' }));
+    await waitFor(() => expect(screen.getAllByRole('alert').map((a) => a.textContent)).toContain('line 2: time "03.04.2026 10:00:00" is a date that can be day-first or month-first; choose the time format'));
+    const body = calls.find((c) => c.url === '/api/runs/import')?.init?.body as FormData;
+    expect(Object.fromEntries(['timeFormat', 'currentSign', 'tempUnit', 'acceptancePercent', 'electrolyteTempCelsius', 'maxGapSeconds', 'batteryId'].map((k) => [k, body.get(k)]))).toEqual({
+      timeFormat: 'dmy', currentSign: 'discharge-negative', tempUnit: 'C', acceptancePercent: '90', electrolyteTempCelsius: '10', maxGapSeconds: '600', batteryId: '4',
+    });
+    // The server's per-field message lands on the field it names.
+    expect(screen.getByLabelText('Time column format').getAttribute('aria-invalid')).toBe('true');
+  });
+
+  it('refuses an acceptance outside 1-100 % before sending', async () => {
+    const { calls } = stubApi(demoUser('technician'), (url) => (url.startsWith('/api/runs?') ? emptyRuns : url === '/api/batteries' ? { status: 200, body: { batteries: [] } } : undefined));
+    renderAt('/runs');
+    await userEvent.click(await screen.findByRole('button', { name: 'Import a CSV log' }));
+    await userEvent.upload(screen.getByLabelText(/CSV file/), new File(['time_s,volts,amps\n'], 'a.csv', { type: 'text/csv' }));
+    await userEvent.type(screen.getByLabelText('Run name'), 'x');
+    await userEvent.clear(screen.getByLabelText(/^Acceptance/));
+    await userEvent.type(screen.getByLabelText(/^Acceptance/), '150');
+    await userEvent.click(screen.getByRole('button', { name: 'Import' }));
+    await waitFor(() => expect(screen.getByRole('alert').textContent).toBe('The acceptance must be a share of rated capacity from 1 to 100 %.'));
+    expect(calls.some((c) => c.url === '/api/runs/import')).toBe(false);
+  });
 });
+
+describe('import notices on the run page', () => {
+  it('lists what the importer decided, once, when the import sent them along', () => {
+    const notices = ['Time column "Time" read as seconds (recognised from its values).', '2 row(s) repeat the time of the row before (line 4, 7).'];
+    render(
+      <MemoryRouter initialEntries={[{ pathname: '/runs/5', state: { importNotices: notices } }]}>
+        <ImportNoticesPanel />
+      </MemoryRouter>,
+    );
+    const panel = screen.getByRole('region', { name: 'How the file was read' });
+    expect(panel.textContent).toContain(notices[0]);
+    expect(panel.textContent).toContain(notices[1]);
+  });
+});
+

@@ -5,13 +5,9 @@ import { SelectField, TextField } from '../../../components/ui/field';
 import { useLabSettings } from '../../../lib/lab-settings';
 import { formatCharge, formatDuration, formatEnergy } from '../../../lib/units';
 import { useBatteryChoices } from '../api/get-batteries';
+import { ApiError } from '../../../lib/api-client';
 import { useImportRun, type ImportRunInput } from '../api/import-run';
-
-const SIGN_OPTIONS = [
-  { value: 'auto', label: 'Work it out (the sign most samples have is discharge)' },
-  { value: 'discharge-positive', label: 'Positive amps = discharge' },
-  { value: 'discharge-negative', label: 'Negative amps = discharge' },
-] as const;
+import { ImportOptionsFields, importOptionsError, importOptionsInput, type ImportOptions } from './import-options-fields';
 
 /** The columns a log must have (temperature is optional), as the mapping names them. */
 const COLUMN_FIELDS = [
@@ -31,13 +27,17 @@ function columnMap(columns: Record<ColumnKey, string>): ImportRunInput['columns'
 export function ImportRunForm({ onDone }: { onDone: () => void }) {
   const batteries = useBatteryChoices(true);
   const importRun = useImportRun();
-  const { energyUnit } = useLabSettings();
+  const { energyUnit, temperatureUnit, acceptancePercent } = useLabSettings();
   const navigate = useNavigate();
   const [file, setFile] = useState<File | null>(null);
   const [name, setName] = useState('');
   const [batteryId, setBatteryId] = useState('');
   const [endVolts, setEndVolts] = useState('');
-  const [currentSign, setCurrentSign] = useState<ImportRunInput['currentSign']>('auto');
+  const [typed, setOptions] = useState<Omit<ImportOptions, 'acceptancePercent'> & { acceptancePercent: string | null }>({
+    currentSign: 'auto', timeFormat: '', tempUnit: '', acceptancePercent: null, electrolyteTempCelsius: '', maxGapSeconds: '',
+  });
+  // The acceptance shows the lab's setting (once loaded) until someone types over it; the rest start at "work it out".
+  const options: ImportOptions = { ...typed, acceptancePercent: typed.acceptancePercent ?? String(acceptancePercent) };
   const [error, setError] = useState<string | null>(null);
   const [columns, setColumns] = useState<Record<ColumnKey, string>>({ time: '', volts: '', amps: '', temp: '' });
 
@@ -46,16 +46,22 @@ export function ImportRunForm({ onDone }: { onDone: () => void }) {
     if (!file) return setError('Choose a CSV file.');
     if (!name.trim()) return setError('Give the run a name.');
     if (endVolts && !(Number(endVolts) > 0)) return setError('The end voltage must be a number above 0 V.');
+    const optionsError = importOptionsError(options);
+    if (optionsError) return setError(optionsError);
     setError(null);
-    importRun.mutate(
-      { file, name: name.trim(), currentSign, batteryId: batteryId ? Number(batteryId) : undefined, endVolts: endVolts ? Number(endVolts) : undefined, columns: columnMap(columns) },
-      { onSuccess: (r) => navigate(`/runs/${r.run.id}`) },
-    );
+    const input: ImportRunInput = {
+      file, name: name.trim(), batteryId: batteryId ? Number(batteryId) : undefined, endVolts: endVolts ? Number(endVolts) : undefined, columns: columnMap(columns),
+      ...importOptionsInput(options),
+    };
+    // The importer's decisions (time format, sign, units, duplicate times) travel to the run page.
+    importRun.mutate(input, { onSuccess: (r) => navigate(`/runs/${r.run.id}`, { state: { importNotices: r.summary.notices ?? [] } }) });
   };
 
   const message = error ?? (importRun.error instanceof Error ? importRun.error.message : null);
   // The server names the column it could not find: open the mapping so it can be given.
   const columnTrouble = !!message && /column/i.test(message);
+  const fieldErrors = !error && importRun.error instanceof ApiError ? importRun.error.fields : {};
+  const leadAcid = (batteries.data ?? []).some((b) => String(b.id) === batteryId && b.chemistry === 'lead-acid');
   return (
     <form onSubmit={submit} noValidate aria-label="Import a logged run" className="grid gap-4 md:grid-cols-2">
       <div className="flex flex-col gap-1">
@@ -78,7 +84,7 @@ export function ImportRunForm({ onDone }: { onDone: () => void }) {
         options={[{ value: '', label: 'Not linked to a pack' }, ...(batteries.data ?? []).map((b) => ({ value: String(b.id), label: `${b.label} · ${b.brand}` }))]}
       />
       <TextField label="End voltage of the pack (V, optional)" inputMode="decimal" value={endVolts} onChange={(e) => setEndVolts(e.target.value)} />
-      <SelectField label="Current sign in the file" value={currentSign} onChange={(e) => setCurrentSign(e.target.value as ImportRunInput['currentSign'])} options={SIGN_OPTIONS} />
+      <ImportOptionsFields value={options} onChange={setOptions} labTempUnit={temperatureUnit} leadAcid={leadAcid} errors={fieldErrors} />
       <details open={columnTrouble || undefined} className="rounded-lg border border-line p-3 md:col-span-2">
         <summary className="cursor-pointer text-sm font-medium">Columns named differently?</summary>
         <p className="mt-2 text-sm text-ink-muted">

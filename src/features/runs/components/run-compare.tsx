@@ -7,10 +7,11 @@ import { RunStateBadge } from '../../../components/ui/state-badge';
 import { Loading, QueryError } from '../../../components/ui/status';
 import { useLabSettings } from '../../../lib/lab-settings';
 import { COMPARE_COLORS } from '../../../lib/palette';
-import { formatCharge, formatDuration, formatEnergy, formatPercent, formatVolts } from '../../../lib/units';
+import { formatCharge, formatDuration, formatEnergy, formatVolts } from '../../../lib/units';
 import { runQueryOptions } from '../api/get-run';
 import { samplesQueryOptions } from '../api/get-run-samples';
 import { VerdictBadge } from './verdict-badge';
+import { formatPercentOfRated } from './summary-wording';
 
 /** Buckets per run: a compare chart needs the shape, not every reading. */
 const COMPARE_MAX_POINTS = 800;
@@ -58,7 +59,7 @@ export function RunCompare({ runIds }: { runIds: readonly number[] }) {
           <table className="w-full text-left text-sm">
             <thead className="bg-surface-sunken text-ink-muted">
               <tr>
-                {['Run', 'State', 'Energy', 'Charge', 'Of rated', 'Duration', 'Cutoff', 'Verdict'].map((h) => (
+                {['Run', 'State', 'Capacity (Wh)', 'Capacity (Ah)', 'Of rated', 'Duration', 'Cutoff', 'Verdict'].map((h) => (
                   <th key={h} className={`px-3 py-3 font-semibold ${PHONE_COLUMNS.has(h) ? '' : 'hidden md:table-cell'}`}>
                     {h}
                   </th>
@@ -75,15 +76,15 @@ export function RunCompare({ runIds }: { runIds: readonly number[] }) {
                     </Link>
                     {/* On a phone the figure columns step aside and read under the name. */}
                     <span className="num mt-1 block text-ink-muted md:hidden">
-                      {formatCharge(r!.summary?.dischargeAh)} · {formatEnergy(r!.summary?.dischargeWh, settings.energyUnit)} · {formatDuration(r!.summary?.durationSeconds)}
+                      {formatCharge(r!.summary?.capacityAh)} · {formatEnergy(r!.summary?.capacityWh, settings.energyUnit)} · {formatDuration(r!.summary?.durationSeconds)}
                     </span>
                   </td>
                   <td className="hidden px-3 py-3 md:table-cell">
                     <RunStateBadge state={r!.state} />
                   </td>
-                  <td className="num hidden whitespace-nowrap px-3 py-3 md:table-cell">{formatEnergy(r!.summary?.dischargeWh, settings.energyUnit)}</td>
-                  <td className="num hidden whitespace-nowrap px-3 py-3 md:table-cell">{formatCharge(r!.summary?.dischargeAh)}</td>
-                  <td className="num whitespace-nowrap px-3 py-3">{formatPercent(r!.summary?.percentRatedAh)}</td>
+                  <td className="num hidden whitespace-nowrap px-3 py-3 md:table-cell">{formatEnergy(r!.summary?.capacityWh, settings.energyUnit)}</td>
+                  <td className="num hidden whitespace-nowrap px-3 py-3 md:table-cell">{formatCharge(r!.summary?.capacityAh)}</td>
+                  <td className="num whitespace-nowrap px-3 py-3">{formatPercentOfRated(r!.summary?.percentRatedAh ?? null)}</td>
                   <td className="num hidden whitespace-nowrap px-3 py-3 md:table-cell">{formatDuration(r!.summary?.durationSeconds)}</td>
                   <td className="num hidden whitespace-nowrap px-3 py-3 md:table-cell">{formatVolts(r!.summary?.cutoffVolts)}</td>
                   <td className="px-3 py-3">{r!.summary ? <VerdictBadge verdict={r!.summary.verdict} /> : '—'}</td>

@@ -13,6 +13,7 @@ import { NOTE_COLOR, RUN_STATE_COLORS } from '../../../lib/palette';
 import { formatElapsedClock } from '../../../lib/units';
 import { useRun, useRunEvents } from '../api/get-run';
 import { useRunSamples, type SampleWindow } from '../api/get-run-samples';
+import { ImportNoticesPanel } from './import-notices-panel';
 import { RunLabelEditor } from './run-label-editor';
 import { RunNoteForm } from './run-note-form';
 import { RunSetupPanel } from './run-setup-panel';
@@ -91,6 +92,7 @@ export function RunDetail({ runId, canEdit = false }: { runId: number; canEdit?:
         }
       />
       <div className="flex flex-col gap-4">
+        <ImportNoticesPanel />
         {editing && (
           <Card className="print:hidden">
             <RunLabelEditor run={r} onDone={() => setEditing(false)} />

@@ -1,11 +1,11 @@
 import type { Run } from '../../../../shared/schemas/run';
 import { CHEMISTRY_LABEL } from '../../../lib/chemistry-label';
 import { useLabSettings } from '../../../lib/lab-settings';
-import { formatCharge, formatEnergy, formatNumber, formatPercent, formatVolts } from '../../../lib/units';
+import { formatCharge, formatDuration, formatEnergy, formatNumber, formatPercent, formatTemperature, formatVolts } from '../../../lib/units';
 import { useRunBattery, useRunBench } from '../api/get-run-context';
 
 const KIND = { 'capacity-discharge': 'Capacity discharge', charge: 'Charge', 'protection-check': 'Protection check', custom: 'Custom' } as const;
-const STOP = { 'after-recovery': 'After cutoff and recovery', 'target-ah': 'At a target Ah', 'target-wh': 'At a target Wh', manual: 'By hand' } as const;
+const STOP = { 'after-recovery': 'At the end voltage (or a trip, if it ends the test)', 'target-ah': 'At a target Ah', 'target-wh': 'At a target Wh', manual: 'By hand' } as const;
 
 function Row({ label, value }: { label: string; value: string }) {
   return (
@@ -20,7 +20,7 @@ function Row({ label, value }: { label: string; value: string }) {
 export function RunSetupPanel({ run }: { run: Run }) {
   const battery = useRunBattery(run.batteryId);
   const bench = useRunBench(run.benchId);
-  const { energyUnit } = useLabSettings();
+  const { energyUnit, temperatureUnit } = useLabSettings();
   const b = battery.data;
   const cells = run.endVolts?.mode === 'per-cell' ? (run.endVolts.cellsInSeries ?? b?.cellsInSeries ?? null) : null;
   const endVolts =
@@ -56,7 +56,10 @@ export function RunSetupPanel({ run }: { run: Run }) {
           <Row label="Bench" value={run.origin === 'import' ? 'Imported log' : (bench.data?.name ?? (run.benchId === null ? '—' : `Bench ${run.benchId}`))} />
           <Row label="End voltage" value={endVolts} />
           <Row label="Acceptance" value={`${formatPercent(run.acceptancePercent, 0)} of rated`} />
+          {run.electrolyteTempCelsius != null && <Row label="Electrolyte at start" value={formatTemperature(run.electrolyteTempCelsius, temperatureUnit)} />}
           <Row label="Stop" value={STOP[run.stopWhen]} />
+          <Row label="A protection trip" value={run.protectionEndsTest ? 'ends the test' : 'is listed; the test runs on if the pack reconnects'} />
+          <Row label="Gap limit" value={run.maxGapSeconds == null ? "from the meter's pace" : formatDuration(run.maxGapSeconds)} />
           {run.targetAh !== null && <Row label="Target" value={formatCharge(run.targetAh)} />}
           {run.targetWh !== null && <Row label="Target" value={formatEnergy(run.targetWh, energyUnit)} />}
         </dl>

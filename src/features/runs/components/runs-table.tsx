@@ -7,10 +7,11 @@ import { Button } from '../../../components/ui/button';
 import { RUN_STATE_LABEL, RunStateBadge } from '../../../components/ui/state-badge';
 import { Loading, QueryError } from '../../../components/ui/status';
 import { formatLabTime, useLabSettings } from '../../../lib/lab-settings';
-import { formatCharge, formatDuration, formatEnergy, formatPercent } from '../../../lib/units';
+import { formatCharge, formatDuration, formatEnergy } from '../../../lib/units';
 import { useRuns } from '../api/get-runs';
 import { MAX_COMPARED_RUNS } from './run-compare';
 import { VerdictBadge } from './verdict-badge';
+import { formatPercentOfRated } from './summary-wording';
 
 const PAGE_SIZE = 25;
 const SEARCH_DEBOUNCE_MS = 300;
@@ -86,9 +87,9 @@ export function RunsTable() {
       col.accessor('kind', { header: 'Kind', cell: (c) => KIND_LABEL[c.getValue()] }),
       col.accessor('startedAt', { header: 'Started', cell: (c) => <span className="num whitespace-nowrap">{formatLabTime(c.getValue(), settings.timeZone)}</span> }),
       col.accessor((r) => r.summary?.durationSeconds ?? null, { id: 'duration', header: 'Duration', cell: (c) => <span className="num whitespace-nowrap">{formatDuration(c.getValue())}</span> }),
-      col.accessor((r) => r.summary?.dischargeWh ?? null, { id: 'wh', header: 'Energy', cell: (c) => <span className="num whitespace-nowrap">{formatEnergy(c.getValue(), settings.energyUnit)}</span> }),
-      col.accessor((r) => r.summary?.dischargeAh ?? null, { id: 'ah', header: 'Charge', cell: (c) => <span className="num whitespace-nowrap">{formatCharge(c.getValue())}</span> }),
-      col.accessor((r) => r.summary?.percentRatedAh ?? null, { id: 'pct', header: 'Of rated', cell: (c) => <span className="num whitespace-nowrap">{formatPercent(c.getValue())}</span> }),
+      col.accessor((r) => r.summary?.capacityWh ?? null, { id: 'wh', header: 'Capacity (Wh)', cell: (c) => <span className="num whitespace-nowrap">{formatEnergy(c.getValue(), settings.energyUnit)}</span> }),
+      col.accessor((r) => r.summary?.capacityAh ?? null, { id: 'ah', header: 'Capacity (Ah)', cell: (c) => <span className="num whitespace-nowrap">{formatCharge(c.getValue())}</span> }),
+      col.accessor((r) => r.summary?.percentRatedAh ?? null, { id: 'pct', header: 'Of rated', cell: (c) => <span className="num whitespace-nowrap">{formatPercentOfRated(c.getValue())}</span> }),
       col.accessor((r) => r.summary?.verdict ?? null, { id: 'verdict', header: 'Verdict', cell: (c) => (c.getValue() ? <VerdictBadge verdict={c.getValue()!} /> : '—') }),
       col.accessor('tags', { header: 'Tags', cell: (c) => c.getValue().join(', ') }),
     ],
