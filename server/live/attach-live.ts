@@ -37,6 +37,8 @@ export function liveAttachment(options: LiveOptions = {}) {
     });
     const recorder = new RunRecorder({
       repo, writer, getBattery: batteryLookup(ctx), benchExists: (id) => repo.benchExists(id), log: (m, e) => ctx.log.error(m, e),
+      // Arming a run on a simulated bench starts a fresh simulated pack, so a demo always starts from full.
+      prepareBench: async (id) => ctx.services.benchManager?.freshSimulation(id),
     });
     const hub = new LiveHub({
       source: {

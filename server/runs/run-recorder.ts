@@ -31,6 +31,8 @@ export interface RunRecorderDeps {
   getBattery: (id: number) => Promise<BatteryFacts | null>;
   /** Checks a bench id before a run starts on it (default: any id is taken). */
   benchExists?: (id: number) => Promise<boolean>;
+  /** Readies a bench just before a run is armed on it (a simulated bench gets a fresh pack). */
+  prepareBench?: (id: number) => Promise<unknown>;
   log?: (message: string, err?: unknown) => void;
   /** Injected timer (tests drive flushes by hand with `flushAll`). */
   setInterval?: (fn: () => void, ms: number) => { unref?: () => void };
@@ -111,6 +113,8 @@ export class RunRecorder {
     const battery = await this.deps.getBattery(req.batteryId);
     if (!battery) throw new HttpError(400, `Battery ${req.batteryId} does not exist`, { batteryId: ['no such battery'] });
     const { benchId, batteryId, name, tags, ...config } = req;
+    // Before the run exists, so it records the fresh pack from its first reading.
+    await this.deps.prepareBench?.(benchId);
     const run = await this.deps.repo.create({
       name, tags, origin: 'live', benchId, batteryId, state: 'armed', config, createdById: userId, startedAt: new Date(),
     });

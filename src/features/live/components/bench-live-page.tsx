@@ -108,6 +108,11 @@ export function BenchLivePage({ benchId, canAct, canSetUp = false }: { benchId: 
           {canAct ? (
             <Card className="p-6">
               <h2 className="mb-4 text-lg font-bold">Start a run on {bench.data.name}</h2>
+              {bench.data.source.kind === 'simulator' && (
+                <p className="mb-4 rounded-lg border border-line bg-surface-sunken p-3 text-sm text-ink-muted" data-testid="fresh-simulated-pack">
+                  Simulated bench: arming a run puts a fresh simulated pack on it (full charge, protection reset), so the test starts from the beginning.
+                </p>
+              )}
               <StartRunForm benchId={benchId} onStarted={setPinnedRunId} packCelsius={view.tempCelsius} tempChannel={view.tempChannel} />
             </Card>
           ) : (
