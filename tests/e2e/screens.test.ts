@@ -91,6 +91,26 @@ describe('every page reads well in both looks (axe-core: WCAG 2.2 AA and structu
   }
 });
 
+describe('the sign-in page', () => {
+  it('loads without a single console error (no failed "who is signed in" request)', async () => {
+    await browser.context.clearCookies();
+    const page = await browser.context.newPage();
+    const errors: string[] = [];
+    page.on('console', (m) => {
+      if (m.type() === 'error') errors.push(m.text());
+    });
+    page.on('requestfailed', (r) => errors.push(`failed ${r.url()}`));
+    page.on('response', (r) => {
+      if (r.status() >= 400) errors.push(`${r.status()} ${r.url()}`);
+    });
+    await page.goto(`${t.url}/`);
+    await page.waitForURL(/\/sign-in/);
+    await settle(page);
+    await page.close();
+    expect(errors).toEqual([]);
+  });
+});
+
 describe('every page fits a phone (390 x 844)', () => {
   it('nothing is wider than the viewport and every control is at least 44 px', { timeout: 180_000 }, async () => {
     const page = await signedInPage('light', PHONE);

@@ -12,6 +12,7 @@ import { formatLabTime, useLabSettings } from '../../../lib/lab-settings';
 import { NOTE_COLOR, RUN_STATE_COLORS } from '../../../lib/palette';
 import { formatElapsedClock } from '../../../lib/units';
 import { useRun, useRunEvents } from '../api/get-run';
+import { useRunBattery } from '../api/get-run-context';
 import { useRunSamples, type SampleWindow } from '../api/get-run-samples';
 import { RunLabelEditor } from './run-label-editor';
 import { RunNoteForm } from './run-note-form';
@@ -34,6 +35,7 @@ export function RunDetail({ runId, canEdit = false }: { runId: number; canEdit?:
   const run = useRun(runId);
   const events = useRunEvents(runId);
   const settings = useLabSettings();
+  const pack = useRunBattery(run.data?.batteryId ?? null);
   const [sampleWindow, setWindow] = useState<SampleWindow>(FULL_WINDOW);
   const samples = useRunSamples(runId, sampleWindow, CHART_MAX_POINTS);
   const [editing, setEditing] = useState(false);
@@ -101,7 +103,13 @@ export function RunDetail({ runId, canEdit = false }: { runId: number; canEdit?:
         </Card>
         {r.summary ? (
           <Card className="p-6">
-            <RunSummaryPanel summary={r.summary} temperatureUnit={settings.temperatureUnit} energyUnit={settings.energyUnit} />
+            <RunSummaryPanel
+              summary={r.summary}
+              temperatureUnit={settings.temperatureUnit}
+              energyUnit={settings.energyUnit}
+              // The price is the pack's, in the pack's currency when it names one, else the lab's.
+              currency={pack.data?.priceCurrency ?? settings.currency}
+            />
           </Card>
         ) : (
           <Card className="text-ink-muted">No summary yet: the run is still recording.</Card>

@@ -12,7 +12,7 @@ function Figure({ label, value }: { label: string; value: string }) {
 }
 
 /** A run's figures and verdict; a missing figure shows a dash, never a zero. */
-export function RunSummaryPanel({ summary, temperatureUnit, energyUnit }: { summary: RunSummary; temperatureUnit: 'C' | 'F'; energyUnit: 'Wh' | 'kWh' }) {
+export function RunSummaryPanel({ summary, temperatureUnit, energyUnit, currency }: { summary: RunSummary; temperatureUnit: 'C' | 'F'; energyUnit: 'Wh' | 'kWh'; currency: string }) {
   const unit = (v: number | null, u: string, d = 2) => (v === null ? '—' : `${formatNumber(v, d)} ${u}`);
   return (
     <div className="flex flex-col gap-4">
@@ -39,7 +39,7 @@ export function RunSummaryPanel({ summary, temperatureUnit, energyUnit }: { summ
         <Figure label="Energy density" value={unit(summary.whPerKg, 'Wh/kg', 1)} />
         {summary.correctedAh25C !== null && <Figure label="Corrected to 25 °C" value={formatCharge(summary.correctedAh25C)} />}
         {summary.roundTripEfficiency !== null && <Figure label="Round trip" value={formatPercent(summary.roundTripEfficiency * 100)} />}
-        {summary.costPerKWh !== null && <Figure label="Price per kWh (pack's currency)" value={formatNumber(summary.costPerKWh, 2)} />}
+        {summary.costPerKWh !== null && <Figure label="Price per kWh" value={`${formatNumber(summary.costPerKWh, 2)} ${currency}`} />}
         <Figure label="Gaps" value={`${summary.gaps} (${formatDuration(summary.gapSeconds)})`} />
       </dl>
     </div>
