@@ -116,7 +116,7 @@ export class LiveStore {
         break;
       case 'batch':
         this.appendReadings(message.readings, false);
-        if (message.readings.t.length > 0) this.update({ receivedAtMs: this.nowMs() });
+        if (message.readings.t.length > 0) this.update({ receivedAtMs: this.nowMs(), status: this.countFrames(message.readings.t.length + message.dropped) });
         if (message.dropped > 0) this.update({ droppedReadings: this.next.droppedReadings + message.dropped });
         break;
       case 'event':
@@ -135,6 +135,15 @@ export class LiveStore {
       default:
         break;
     }
+  }
+
+  /**
+   * The bench's "frames ok" count moves with every reading that arrives: the server sends a
+   * status only when the state changes, and its count then corrects ours.
+   */
+  private countFrames(readings: number): LiveView['status'] {
+    const status = this.next.status;
+    return status && readings > 0 ? { ...status, framesOk: status.framesOk + readings } : status;
   }
 
   private update(patch: Partial<LiveView>): void {
