@@ -59,6 +59,7 @@ export function liveAttachment(options: LiveOptions = {}) {
     recorder.readings.add((runId, reading) => hub.publishSample({ kind: 'run', id: runId }, reading));
     recorder.events.add((runId, e) => ('id' in e ? hub.publishStoredEvent(e) : hub.publishEvent(runId, e.event, null)));
     recorder.runChanges.add((run) => hub.publishRun(run));
+    recorder.noteChanges.add((change) => hub.publishNoteChange(change));
 
     // Batches an earlier process spilled hold the newest state of its runs: write them first.
     await writer.start();

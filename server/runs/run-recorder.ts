@@ -9,6 +9,7 @@ import { HttpError, notFound } from '../http/http-error.js';
 import { ListenerSet } from '../ingest/listener-set.js';
 import { measureConfigFor, type BatteryFacts } from './measure-config.js';
 import { RunSession, type RunSessionSnapshot, type SequencedEvent } from './run-session.js';
+import type { NoteChangeRecord } from './notes-repo.js';
 import type { RunsRepo } from './runs-repo.js';
 
 /** Where frames come from: the ingest area's BenchManager satisfies this. */
@@ -59,6 +60,7 @@ export class RunRecorder {
   readonly readings = new ListenerSet<[runId: number, reading: Reading]>((e) => this.log('run readings listener failed', e));
   readonly events = new ListenerSet<[runId: number, event: SequencedEvent | StoredRunEvent]>((e) => this.log('run event listener failed', e));
   readonly runChanges = new ListenerSet<[run: Run]>((e) => this.log('run change listener failed', e));
+  readonly noteChanges = new ListenerSet<[change: NoteChangeRecord]>((e) => this.log('note change listener failed', e));
   private readonly log: (message: string, err?: unknown) => void;
 
   constructor(private readonly deps: RunRecorderDeps) {
@@ -146,6 +148,19 @@ export class RunRecorder {
     session?.events.push(stored.event);
     this.events.emit(runId, stored);
     return stored;
+  }
+
+  /** A note was edited or removed: a live run's timeline follows, and every viewer is told. */
+  noteChanged(change: NoteChangeRecord): void {
+    const events = this.sessions.get(change.runId)?.events;
+    if (events) {
+      const i = events.findIndex((e) => e.type === 'annotation' && e.t === change.previous.t && e.text === change.previous.text && e.author === change.previous.author);
+      if (i >= 0) {
+        if (change.next) events[i] = change.next;
+        else events.splice(i, 1);
+      }
+    }
+    this.noteChanges.emit(change);
   }
 
   /** Tells viewers about a new name or tags (and keeps a live session's copy current). */
