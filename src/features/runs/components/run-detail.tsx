@@ -18,6 +18,8 @@ import { RunLabelEditor } from './run-label-editor';
 import { RunNoteForm } from './run-note-form';
 import { RunSetupPanel } from './run-setup-panel';
 import { RunSummaryPanel } from './run-summary-panel';
+import { RunNotes, type NoteViewer } from './run-notes';
+import { useLiveNotes } from '../api/use-live-notes';
 
 /** About one bucket per horizontal pixel of a wide chart. */
 const CHART_MAX_POINTS = 1000;
@@ -31,9 +33,10 @@ function markerFor(e: RunEvent): ChartMarker | null {
 }
 
 /** A recorded run: verdict, figures, the zoomable history chart, events and exports. */
-export function RunDetail({ runId, canEdit = false }: { runId: number; canEdit?: boolean }) {
+export function RunDetail({ runId, canEdit = false, viewer = null }: { runId: number; canEdit?: boolean; viewer?: NoteViewer | null }) {
   const run = useRun(runId);
   const events = useRunEvents(runId);
+  useLiveNotes(runId);
   const settings = useLabSettings();
   const pack = useRunBattery(run.data?.batteryId ?? null);
   const [sampleWindow, setWindow] = useState<SampleWindow>(FULL_WINDOW);
@@ -148,6 +151,9 @@ export function RunDetail({ runId, canEdit = false }: { runId: number; canEdit?:
             </div>
           )}
           {events.isError ? <QueryError error={events.error} what="Events" /> : <RunEventsList events={stored} temperatureUnit={settings.temperatureUnit} energyUnit={settings.energyUnit} />}
+        </Card>
+        <Card>
+          <RunNotes runId={runId} events={events.data ?? []} viewer={viewer} />
         </Card>
       </div>
     </>
