@@ -141,6 +141,23 @@ describe('every page fits a phone (390 x 844)', () => {
   });
 });
 
+describe('small faults', () => {
+  it('names the pack on the runs filter chip and exports without float noise, one column name in CSV and JSON', { timeout: 60_000 }, async () => {
+    const page = await signedInPage('light');
+    await page.goto(`${t.url}/batteries`);
+    await page.getByRole('link', { name: 'Runs of Kestrel 12 V camper' }).first().click();
+    await page.getByText('Only pack Kestrel 12 V camper').waitFor();
+    const csv = (await page.evaluate(`fetch('/api/runs/${runIds[0]}/export.csv').then((r) => r.text())`)) as string;
+    const json = (await page.evaluate(`fetch('/api/runs/${runIds[0]}/export.json').then((r) => r.json())`)) as { columns: string[]; rows: (number | null)[][] };
+    const lines = csv.trim().split('\n').filter((l) => !l.startsWith('#'));
+    expect(json.columns).toEqual(lines[0]!.split(','));
+    expect(json.columns.some((c) => /^temp_\w+_c$/.test(c))).toBe(true);
+    // Plain decimals, at most 4 places (docs/api.md, "Export").
+    expect(lines.slice(1).join(',').split(',').filter((x) => /e/i.test(x) || (x.split('.')[1]?.length ?? 0) > 4)).toEqual([]);
+    await page.close();
+  });
+});
+
 describe('notes on a run, live for every open screen', () => {
   it('the author edits a note on one screen and another open screen shows it without a reload; a lab manager removes it', { timeout: 90_000 }, async () => {
     const password = t.ctx.config.demoPassword;
