@@ -21,7 +21,7 @@ let t: TestContext;
 let browser: TestBrowser;
 let app: E2eApp;
 let paths: string[] = [];
-let runIds: number[] = [];
+const runIds: number[] = [];
 
 beforeAll(async () => {
   app = await startE2eApp();
