@@ -46,7 +46,12 @@ describe('a demo that starts fresh', () => {
     const page = await browser.context.newPage();
     page.on('dialog', (dialog) => void dialog.accept());
     await signInThroughForm(page, t.url, technician.email, t.ctx.config.demoPassword);
+    // The board: the played-out bench's last numbers are dimmed and say how old they are.
+    const card = page.locator('div.relative', { has: page.getByRole('heading', { name: /Bench A/ }) }).first();
+    await card.getByTestId('reading-age').waitFor();
+    expect(await card.getByTestId('big-volts').getAttribute('data-stale')).toBe('true');
     await page.goto(`${t.url}/benches/${benchId}`);
+    await page.getByTestId('reading-age').first().waitFor();
     const form = page.getByRole('form', { name: 'Start a run' });
     await form.waitFor();
     expect(await page.getByTestId('fresh-simulated-pack').isVisible()).toBe(true);
@@ -59,6 +64,10 @@ describe('a demo that starts fresh', () => {
 
     // The fresh pack starts full: a 12.8 V LFP pack at rest reads above 13 V (common practice).
     await page.getByTestId('big-volts').filter({ hasText: /^1[34]\.\d\d$/ }).waitFor({ timeout: 15_000 });
+    // "N frames ok" in the header moves while readings arrive (no status change needed).
+    const framesOk = async () => Number((await page.getByText(/\d+ frames ok/).textContent())!.match(/(\d+) frames ok/)![1]);
+    const before = await framesOk();
+    await expect.poll(framesOk, { timeout: 5_000 }).toBeGreaterThan(before);
     await page.getByRole('alert').filter({ hasText: 'CUTOFF' }).waitFor({ timeout: 60_000 });
     await page.getByRole('button', { name: 'Acknowledge (A)' }).click();
     // The form's default stop rule ends the run by itself once the pack has recovered.
