@@ -46,6 +46,12 @@ export function createAuthRouter(ctx: AppContext): Router {
     res.json({ user: req.user });
   });
 
+  // Who is signed in, for the client's start-up: signed out is an answer (null), not an
+  // error, so the sign-in page does not log a failed request on every load.
+  router.get('/session', (req, res) => {
+    res.json({ user: req.user ?? null });
+  });
+
   router.post('/password', requireSignedIn, createPasswordChangeLimit(ctx.config), async (req, res) => {
     const body = parseBody(ChangePasswordRequestSchema, req.body);
     const row = await ctx.models.User.findByPk(req.user!.id);

@@ -105,4 +105,27 @@ describe('BenchManager concurrency', () => {
     await manager.stopAll();
     expect(ports.filter((p) => p.isOpen)).toHaveLength(0);
   });
+
+  it('puts a fresh simulated pack on a simulated bench (its scenario from the start), and leaves a real meter alone', async () => {
+    const { clock, manager } = setup();
+    const frames: Frame[] = [];
+    manager.onFrame((id, f) => {
+      if (id === 3) frames.push(f);
+    });
+    const simulated = BenchSourceConfigSchema.parse({ kind: 'simulator', scenario: 'lfp-12v-100ah-cp-cutoff', speed: 10, seed: 7 });
+    await manager.apply({ id: 3, source: simulated, enabled: true });
+    await manager.apply({ id: 1, source: serial('/dev/ttyA'), enabled: true });
+    clock.advance(3000);
+    const lastBefore = frames[frames.length - 1]!.t;
+    expect(lastBefore).toBeGreaterThanOrEqual(29);
+    frames.length = 0;
+    expect(await manager.freshSimulation(3)).toBe(true);
+    clock.advance(1000);
+    // The scenario plays again from its device time 0 with a full pack.
+    expect(frames[0]!.t).toBe(0);
+    expect(frames[frames.length - 1]!.t).toBeLessThan(lastBefore);
+    expect(await manager.freshSimulation(1)).toBe(false);
+    expect(await manager.freshSimulation(99)).toBe(false);
+    await manager.stopAll();
+  });
 });

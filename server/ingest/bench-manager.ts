@@ -30,6 +30,7 @@ export interface BenchFeed {
 interface Entry {
   config: string;
   enabled: boolean;
+  simulated: boolean;
   source: Source;
 }
 
@@ -88,7 +89,7 @@ export class BenchManager implements BenchFeed {
     const source = bench.enabled
       ? createSource(bench.source, this.sinkFor(bench.id), this.deps)
       : new IdleSource('bench disabled');
-    const entry: Entry = { config, enabled: bench.enabled, source };
+    const entry: Entry = { config, enabled: bench.enabled, simulated: bench.enabled && bench.source.kind === 'simulator', source };
     this.entries.set(bench.id, entry);
     source.start();
     this.statusListeners.emit(bench.id, source.getStatus());
@@ -99,6 +100,15 @@ export class BenchManager implements BenchFeed {
     const keep = new Set(benches.map((b) => b.id));
     for (const id of this.benchIds()) if (!keep.has(id)) await this.remove(id);
     for (const bench of benches) await this.apply(bench);
+  }
+
+  /**
+   * Puts a fresh simulated pack on a simulated bench: its scenario plays again from the start
+   * (full pack, BMS reset). Resolves false, doing nothing, for a bench with a real meter.
+   */
+  freshSimulation(benchId: number): Promise<boolean> {
+    if (!this.entries.get(benchId)?.simulated) return Promise.resolve(false);
+    return this.restart(benchId);
   }
 
   /** Stops a bench's source and closes its port, then restarts it with the same configuration. */

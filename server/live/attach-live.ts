@@ -44,6 +44,8 @@ export function liveAttachment(options: LiveOptions = {}) {
     const recorder = new RunRecorder({
       repo, writer, getBattery: batteryLookup(ctx), benchExists: (id) => repo.benchExists(id),
       benchSourceFacts: (id) => repo.benchSourceFacts(id), log: (m, e) => ctx.log.error(m, e),
+      // Arming a run on a simulated bench starts a fresh simulated pack, so a demo always starts from full.
+      prepareBench: async (id) => ctx.services.benchManager?.freshSimulation(id),
     });
     const hub = new LiveHub({
       source: {
@@ -65,6 +67,7 @@ export function liveAttachment(options: LiveOptions = {}) {
     recorder.readings.add((runId, reading, index) => journal.append(runId, index, reading));
     recorder.events.add((runId, e) => ('id' in e ? hub.publishStoredEvent(e) : hub.publishEvent(runId, e.event, null)));
     recorder.runChanges.add((run) => hub.publishRun(run));
+    recorder.noteChanges.add((change) => hub.publishNoteChange(change));
 
     // Batches an earlier process spilled hold the newest state of its runs: write them first.
     await writer.start();

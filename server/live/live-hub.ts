@@ -1,6 +1,6 @@
 import type { StoredRunEvent } from '../../shared/schemas/api-runs.js';
 import type { BenchStatus } from '../../shared/schemas/bench.js';
-import type { RunEvent } from '../../shared/schemas/run-event.js';
+import type { AnnotationEvent, RunEvent } from '../../shared/schemas/run-event.js';
 import type { Run } from '../../shared/schemas/run.js';
 import { topicKey, type Topic } from '../../shared/schemas/ws.js';
 import type { ClientSender } from './client-sender.js';
@@ -151,6 +151,15 @@ export class LiveHub {
     // Readings before the event go first so a chart never shows an event ahead of its data.
     this.flush(state);
     const json = JSON.stringify({ type: 'event', topic, eventId, event });
+    for (const c of state.subscribers) c.sendPayload(json);
+  }
+
+  /** A note on a run was edited or removed: every viewer of the run is told (never thinned). */
+  publishNoteChange(change: { runId: number; eventId: number; previous: AnnotationEvent; next: AnnotationEvent | null }): void {
+    const topic: Topic = { kind: 'run', id: change.runId };
+    const state = this.topics.get(topicKey(topic));
+    if (!state?.subscribers.size) return;
+    const json = JSON.stringify({ type: 'note', topic, eventId: change.eventId, previous: change.previous, event: change.next });
     for (const c of state.subscribers) c.sendPayload(json);
   }
 

@@ -1,5 +1,6 @@
 import { QueryTypes, type Sequelize } from 'sequelize';
 import type { Run } from '../../shared/schemas/run.js';
+import { EXPORT_DECIMALS } from '../../shared/units/export-number.js';
 import type { BatteryFacts } from './measure-config.js';
 
 /** Everything an export says about a run before its readings. */
@@ -23,8 +24,33 @@ export const EXPORT_UNITS: Record<string, string> = {
   dischargeAh: 'Ah',
   chargeWh: 'Wh',
   chargeAh: 'Ah',
-  'temp:*': '°C',
+  'temp_*_c': '°C',
 };
+
+/**
+ * The name a stored column carries in every export format (CSV header and JSON `columns`
+ * alike): `temp:cell` becomes `temp_cell_c` (°C), `aux:heaterAmps` becomes `aux_heaterAmps`.
+ */
+export function exportColumnName(name: string): string {
+  return name.startsWith('temp:') ? `temp_${name.slice(5)}_c` : name.startsWith('aux:') ? `aux_${name.slice(4)}` : name;
+}
+
+const DECIMALS_BY_COLUMN: Record<string, number> = {
+  elapsed: EXPORT_DECIMALS.time,
+  t: EXPORT_DECIMALS.time,
+  volts: EXPORT_DECIMALS.volts,
+  amps: EXPORT_DECIMALS.amps,
+  watts: EXPORT_DECIMALS.watts,
+  dischargeWh: EXPORT_DECIMALS.energy,
+  chargeWh: EXPORT_DECIMALS.energy,
+  dischargeAh: EXPORT_DECIMALS.charge,
+  chargeAh: EXPORT_DECIMALS.charge,
+};
+
+/** Decimals an exported column keeps (see EXPORT_DECIMALS and docs/api.md). */
+export function exportDecimals(name: string): number {
+  return DECIMALS_BY_COLUMN[name] ?? (name.startsWith('temp:') ? EXPORT_DECIMALS.temperature : EXPORT_DECIMALS.other);
+}
 
 const FIXED = ['elapsed', 't', 'volts', 'amps', 'watts', 'dischargeWh', 'dischargeAh', 'chargeWh', 'chargeAh'];
 

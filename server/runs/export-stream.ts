@@ -3,7 +3,11 @@ import type { Writable } from 'node:stream';
 import type { Sequelize } from 'sequelize';
 import { forEachChunk } from '../archive/chunk-store.js';
 import type { Columns } from '../archive/column-block.js';
-import type { ExportMeta } from './export-meta.js';
+import { EXPORT_DECIMALS, formatExportNumber } from '../../shared/units/export-number.js';
+import { exportColumnName, exportDecimals, type ExportMeta } from './export-meta.js';
+
+/** Percentages in the metadata line: 0.01 %. */
+const PERCENT_DECIMALS = 2;
 
 /** Thrown inside an export when the client has gone; the export then ends quietly. */
 class ClientGone extends Error {}
@@ -41,8 +45,6 @@ function value(cols: Columns, name: string, i: number): number {
   return col ? col[i]! : Number.NaN;
 }
 
-const csvHeaderName = (name: string): string =>
-  name.startsWith('temp:') ? `temp_${name.slice(5)}_c` : name.startsWith('aux:') ? `aux_${name.slice(4)}` : name;
 
 /** CSV text of one field: quoted when it holds a separator, quote or line break. */
 function csvField(text: string): string {
@@ -63,11 +65,13 @@ function metaLines(meta: ExportMeta): string[] {
     `units: ${Object.entries(meta.units).map(([k, u]) => `${k} ${u}`).join('; ')}`,
   ];
   if (s) {
+    const n = (v: number, column: string) => formatExportNumber(v, exportDecimals(column));
     lines.push(
-      `summary: capacityAh ${s.capacityAh ?? 'n/a'}; capacityWh ${s.capacityWh ?? 'n/a'}; capacityEndedBy ${s.capacityEndedBy ?? 'n/a'}; ` +
-        `whole run: dischargeWh ${s.dischargeWh}; dischargeAh ${s.dischargeAh}; chargeWh ${s.chargeWh}; chargeAh ${s.chargeAh}; durationSeconds ${s.durationSeconds}; ` +
-        `cutoffVolts ${s.cutoffVolts ?? 'none'}; recoverySeconds ${s.recoverySeconds ?? 'none'}; protectionTrips ${s.protectionTripCount}; ` +
-        `percentRatedAh ${s.percentRatedAh ?? 'n/a'}; verdict ${s.verdict}; cRate ${s.cRate ?? 'n/a'}`,
+      `summary: capacityAh ${s.capacityAh === null ? 'n/a' : n(s.capacityAh, 'dischargeAh')}; capacityWh ${s.capacityWh === null ? 'n/a' : n(s.capacityWh, 'dischargeWh')}; capacityEndedBy ${s.capacityEndedBy ?? 'n/a'}; ` +
+        `whole run: dischargeWh ${n(s.dischargeWh, 'dischargeWh')}; dischargeAh ${n(s.dischargeAh, 'dischargeAh')}; chargeWh ${n(s.chargeWh, 'chargeWh')}; chargeAh ${n(s.chargeAh, 'chargeAh')}; ` +
+        `durationSeconds ${n(s.durationSeconds, 't')}; cutoffVolts ${s.cutoffVolts === null ? 'none' : n(s.cutoffVolts, 'volts')}; ` +
+        `recoverySeconds ${s.recoverySeconds === null ? 'none' : n(s.recoverySeconds, 't')}; protectionTrips ${s.protectionTripCount}; ` +
+        `percentRatedAh ${s.percentRatedAh === null ? 'n/a' : formatExportNumber(s.percentRatedAh, PERCENT_DECIMALS)}; verdict ${s.verdict}; cRate ${s.cRate === null ? 'n/a' : formatExportNumber(s.cRate, PERCENT_DECIMALS)}`,
     );
   }
   return lines.map((l) => `# ${l.replace(/[\r\n]+/g, ' ')}`);
@@ -79,20 +83,25 @@ export function streamCsvExport(out: Writable, sequelize: Sequelize, meta: Expor
 }
 
 async function writeCsv(out: Writable, sequelize: Sequelize, meta: ExportMeta): Promise<void> {
-  await put(out, metaLines(meta).join('\n') + '\n' + meta.columns.map((c) => csvField(csvHeaderName(c))).join(',') + '\n');
+  await put(out, metaLines(meta).join('\n') + '\n' + meta.columns.map((c) => csvField(exportColumnName(c))).join(',') + '\n');
+  const decimals = meta.columns.map(exportDecimals);
   await forEachChunk(sequelize, meta.run.id, async (cols) => {
     const n = cols.elapsed!.length;
     const rows: string[] = new Array(n);
     for (let i = 0; i < n; i++) {
       let line = '';
       for (let c = 0; c < meta.columns.length; c++) {
-        const v = value(cols, meta.columns[c]!, i);
-        line += (c ? ',' : '') + (Number.isNaN(v) ? '' : String(v));
+        line += (c ? ',' : '') + formatExportNumber(value(cols, meta.columns[c]!, i), decimals[c]!);
       }
       rows[i] = line;
     }
     await put(out, rows.join('\n') + '\n');
   });
+}
+
+/** The run's figures in the JSON head, rounded like the rows (4 decimals: no float noise, no exponent). */
+function roundMeta(_key: string, v: unknown): unknown {
+  return typeof v === 'number' && !Number.isInteger(v) ? Number(formatExportNumber(v, EXPORT_DECIMALS.other)) : v;
 }
 
 /** Streams the whole run as one JSON document: `{ meta, columns, rows: [[…], …] }`. */
@@ -101,17 +110,16 @@ export function streamJsonExport(out: Writable, sequelize: Sequelize, meta: Expo
 }
 
 async function writeJson(out: Writable, sequelize: Sequelize, meta: ExportMeta): Promise<void> {
-  const head = { meta: { run: meta.run, battery: meta.battery, bench: meta.bench, units: meta.units }, columns: meta.columns };
-  await put(out, JSON.stringify(head).slice(0, -1) + ',"rows":[');
+  // The same column names as the CSV header, and the same rounding.
+  const head = { meta: { run: meta.run, battery: meta.battery, bench: meta.bench, units: meta.units }, columns: meta.columns.map(exportColumnName) };
+  const decimals = meta.columns.map(exportDecimals);
+  await put(out, JSON.stringify(head, roundMeta).slice(0, -1) + ',"rows":[');
   let first = true;
   await forEachChunk(sequelize, meta.run.id, async (cols) => {
     const n = cols.elapsed!.length;
     const rows: string[] = new Array(n);
     for (let i = 0; i < n; i++) {
-      rows[i] = '[' + meta.columns.map((name) => {
-        const v = value(cols, name, i);
-        return Number.isFinite(v) ? String(v) : 'null';
-      }).join(',') + ']';
+      rows[i] = '[' + meta.columns.map((name, c) => formatExportNumber(value(cols, name, i), decimals[c]!) || 'null').join(',') + ']';
     }
     if (n) {
       await put(out, (first ? '' : ',') + rows.join(','));

@@ -9,6 +9,7 @@ import { HttpError, notFound } from '../http/http-error.js';
 import { ListenerSet } from '../ingest/listener-set.js';
 import { measureConfigFor, type BatteryFacts, type SourceFacts } from './measure-config.js';
 import { RunSession, type RunSessionSnapshot, type SequencedEvent } from './run-session.js';
+import type { NoteChangeRecord } from './notes-repo.js';
 import type { RunsRepo } from './runs-repo.js';
 
 /** Where frames come from: the ingest area's BenchManager satisfies this. */
@@ -33,6 +34,8 @@ export interface RunRecorderDeps {
   benchExists?: (id: number) => Promise<boolean>;
   /** What a bench's source says of its pace (its poll period), for the run's gap limit; default: nothing known. */
   benchSourceFacts?: (id: number) => Promise<SourceFacts | null>;
+  /** Readies a bench just before a run is armed on it (a simulated bench gets a fresh pack). */
+  prepareBench?: (id: number) => Promise<unknown>;
   log?: (message: string, err?: unknown) => void;
   /** Injected timer (tests drive flushes by hand with `flushAll`). */
   setInterval?: (fn: () => void, ms: number) => { unref?: () => void };
@@ -70,6 +73,7 @@ export class RunRecorder {
   readonly readings = new ListenerSet<[runId: number, reading: Reading, index: number]>((e) => this.log('run readings listener failed', e));
   readonly events = new ListenerSet<[runId: number, event: SequencedEvent | StoredRunEvent]>((e) => this.log('run event listener failed', e));
   readonly runChanges = new ListenerSet<[run: Run]>((e) => this.log('run change listener failed', e));
+  readonly noteChanges = new ListenerSet<[change: NoteChangeRecord]>((e) => this.log('note change listener failed', e));
   private readonly log: (message: string, err?: unknown) => void;
 
   constructor(private readonly deps: RunRecorderDeps) {
@@ -150,6 +154,8 @@ export class RunRecorder {
     const battery = await this.deps.getBattery(req.batteryId);
     if (!battery) throw new HttpError(400, `Battery ${req.batteryId} does not exist`, { batteryId: ['no such battery'] });
     const { benchId, batteryId, name, tags, ...config } = req;
+    // Before the run exists, so it records the fresh pack from its first reading.
+    await this.deps.prepareBench?.(benchId);
     const run = await this.deps.repo.create({
       name, tags, origin: 'live', benchId, batteryId, state: 'armed', config, createdById: userId, startedAt: new Date(),
     });
@@ -192,6 +198,19 @@ export class RunRecorder {
     session?.events.push(note.event);
     this.events.emit(runId, note);
     return note;
+  }
+
+  /** A note was edited or removed: a live run's timeline follows, and every viewer is told. */
+  noteChanged(change: NoteChangeRecord): void {
+    const events = this.sessions.get(change.runId)?.events;
+    if (events) {
+      const i = events.findIndex((e) => e.type === 'annotation' && e.t === change.previous.t && e.text === change.previous.text && e.author === change.previous.author);
+      if (i >= 0) {
+        if (change.next) events[i] = change.next;
+        else events.splice(i, 1);
+      }
+    }
+    this.noteChanges.emit(change);
   }
 
   /** Tells viewers about a new name or tags (and keeps a live session's copy current). */

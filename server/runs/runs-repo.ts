@@ -211,11 +211,11 @@ export class RunsRepo {
 
   /** Every event of a run in time order. */
   async events(runId: number): Promise<StoredRunEvent[]> {
-    const rows = await this.sequelize.query<{ id: number; runId: number; data: string; createdAt: Date | string }>(
-      'SELECT id, runId, data, createdAt FROM run_events WHERE runId = ? ORDER BY t, id',
+    const rows = await this.sequelize.query<{ id: number; runId: number; data: string; createdAt: Date | string; createdById: number | null }>(
+      'SELECT id, runId, data, createdAt, createdById FROM run_events WHERE runId = ? ORDER BY t, id',
       { replacements: [runId], type: QueryTypes.SELECT },
     );
-    return rows.map((r) => ({ id: r.id, runId: r.runId, event: RunEventSchema.parse(JSON.parse(r.data)), createdAt: iso(r.createdAt)! }));
+    return rows.map((r) => ({ id: r.id, runId: r.runId, event: RunEventSchema.parse(JSON.parse(r.data)), createdAt: iso(r.createdAt)!, createdBy: r.createdById }));
   }
 
   /** Stores an event outside the recorder's batches (annotations); returns it with its id. */
@@ -225,7 +225,7 @@ export class RunsRepo {
       { replacements: [runId, event.type, event.t, JSON.stringify(event), createdById], type: QueryTypes.INSERT },
     );
     const rows = await this.sequelize.query<{ createdAt: Date | string }>('SELECT createdAt FROM run_events WHERE id = ?', { replacements: [id], type: QueryTypes.SELECT });
-    return { id: Number(id), runId, event, createdAt: iso(rows[0]?.createdAt ?? new Date())! };
+    return { id: Number(id), runId, event, createdAt: iso(rows[0]?.createdAt ?? new Date())!, createdBy: createdById };
   }
 
 }

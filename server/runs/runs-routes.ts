@@ -1,6 +1,7 @@
-import { Router } from 'express';
+import { Router, type Request } from 'express';
 import {
   AnnotateRequestSchema,
+  EditNoteRequestSchema,
   ListRunsQuerySchema,
   PatchRunRequestSchema,
   SamplesQuerySchema,
@@ -16,6 +17,8 @@ import { batteryLookup } from './battery-facts.js';
 import { exportMeta } from './export-meta.js';
 import { streamCsvExport, streamJsonExport } from './export-stream.js';
 import { createImportHandler } from './import-route.js';
+import { NotesRepo, type NoteChangeRecord } from './notes-repo.js';
+import { changeNote } from './run-notes.js';
 import { RunsRepo } from './runs-repo.js';
 import { recorderOf } from './runs-services.js';
 import { runSamples } from './samples-service.js';
@@ -24,6 +27,15 @@ import { runSamples } from './samples-service.js';
 export function createRunsRouter(ctx: AppContext): Router {
   const router = Router();
   const repo = new RunsRepo(ctx.sequelize);
+  const notes = new NotesRepo(ctx.sequelize);
+  // Changes reach a live run's timeline and every viewer through the recorder when it runs.
+  const noteChanged = (change: NoteChangeRecord) => ctx.services.runRecorder?.noteChanged(change);
+  const editNote = async (req: Request, text: string | null) => {
+    const runId = parseIdParam(req.params.id);
+    const eventId = parseIdParam(req.params.eventId, 'eventId');
+    const user = req.user!;
+    return changeNote(notes, runId, eventId, text, { id: user.id, name: user.name, role: user.role }, noteChanged);
+  };
   const getBattery = batteryLookup(ctx);
   const live = (run: Run) => ctx.services.runRecorder?.withLive(run) ?? run;
   const runOr404 = async (raw: string | string[] | undefined) => {
@@ -62,6 +74,23 @@ export function createRunsRouter(ctx: AppContext): Router {
 
   router.post('/:id/abort', requireRole('technician'), async (req, res) => {
     res.json({ run: await recorderOf(ctx).stop(parseIdParam(req.params.id), true) });
+  });
+
+  // A note's author or an admin edits or removes it; the history keeps what it said.
+  router.patch('/:id/events/:eventId', requireRole('technician'), async (req, res) => {
+    const { text } = parseBody(EditNoteRequestSchema, req.body);
+    const change = await editNote(req, text);
+    res.json({ event: { id: change.eventId, runId: change.runId, event: change.next } });
+  });
+
+  router.delete('/:id/events/:eventId', requireRole('technician'), async (req, res) => {
+    await editNote(req, null);
+    res.status(204).end();
+  });
+
+  router.get('/:id/note-history', requireRole('viewer'), async (req, res) => {
+    const run = await runOr404(req.params.id);
+    res.json({ revisions: await notes.revisions(run.id) });
   });
 
   router.get('/:id/events', requireRole('viewer'), async (req, res) => {

@@ -114,6 +114,26 @@ export const SamplesResponseSchema = z.object({
 export type SamplesResponse = z.infer<typeof SamplesResponseSchema>;
 
 /** POST /api/runs/:id/events — an annotation at a run time (technician). */
+/** PATCH /api/runs/:id/events/:eventId: a note's new text (its author or an admin). */
+export const EditNoteRequestSchema = z.object({ text: z.string().trim().min(1).max(2000) });
+
+/** One change to a note: what it said before and after (null: removed), who and when. */
+export const NoteRevisionSchema = z.object({
+  id: z.number().int(),
+  runId: z.number().int(),
+  eventId: z.number().int(),
+  action: z.enum(['edited', 'removed']),
+  t: z.number(),
+  previousText: z.string(),
+  newText: z.string().nullable(),
+  changedBy: z.number().int().nullable(),
+  changedByName: z.string(),
+  changedAt: z.string(),
+});
+export type NoteRevision = z.infer<typeof NoteRevisionSchema>;
+/** GET /api/runs/:id/note-history */
+export const NoteHistoryResponseSchema = z.object({ revisions: z.array(NoteRevisionSchema) });
+
 export const AnnotateRequestSchema = z.object({
   /** Seconds since the run started; default: the latest reading's time. */
   t: z.number().finite().nonnegative().optional(),
@@ -126,6 +146,8 @@ export const StoredRunEventSchema = z.object({
   runId: z.number().int(),
   event: RunEventSchema,
   createdAt: z.string(),
+  /** Who wrote it (notes); null for the detector's events. */
+  createdBy: z.number().int().nullable().optional(),
 });
 export type StoredRunEvent = z.infer<typeof StoredRunEventSchema>;
 export const RunEventsResponseSchema = z.object({ events: z.array(StoredRunEventSchema) });

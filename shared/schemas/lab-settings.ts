@@ -49,6 +49,8 @@ export const LabSettingsSchema = z.object({
   temperatureUnit: z.enum(['C', 'F']).default('C'),
   energyUnit: z.enum(['Wh', 'kWh']).default('Wh'),
   timeZone: z.string().refine(isTimeZone, 'Unknown IANA time zone').default('UTC'),
+  /** The lab's currency (ISO 4217) for prices of packs that do not name their own. */
+  currency: z.string().regex(/^[A-Z]{3}$/, 'ISO 4217 code such as EUR').default('EUR'),
 });
 export type LabSettings = z.infer<typeof LabSettingsSchema>;
 

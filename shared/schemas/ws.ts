@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import { BenchStatusSchema } from './bench.js';
-import { RunEventSchema } from './run-event.js';
+import { AnnotationEventSchema, RunEventSchema } from './run-event.js';
 import { RunSchema } from './run.js';
 
 /**
@@ -94,6 +94,20 @@ export const EventMessageSchema = z.object({
 });
 
 /**
+ * A note on a run was edited (`event` holds the new text) or removed (`event` null); never
+ * dropped. `previous` is the note as viewers had it, so a screen without ids can find it.
+ */
+export const NoteChangeMessageSchema = z.object({
+  type: z.literal('note'),
+  seq,
+  topic: TopicSchema,
+  eventId: z.number().int(),
+  previous: AnnotationEventSchema,
+  event: AnnotationEventSchema.nullable(),
+});
+export type NoteChangeMessage = z.infer<typeof NoteChangeMessageSchema>;
+
+/**
  * A run started, changed state (armed → recording → cutoff → …) or its name/tags/summary
  * changed. Sent on the run's topic and on its bench's topic (`topic` says which).
  */
@@ -127,6 +141,7 @@ export const ServerMessageSchema = z.discriminatedUnion('type', [
   SnapshotMessageSchema,
   BatchMessageSchema,
   EventMessageSchema,
+  NoteChangeMessageSchema,
   RunMessageSchema,
   StatusMessageSchema,
   ErrorMessageSchema,

@@ -1,2 +1,3 @@
 export * from './convert.js';
 export * from './format.js';
+export * from './export-number.js';

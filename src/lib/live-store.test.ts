@@ -90,3 +90,19 @@ describe('LiveStore.backfill', () => {
     expect(volts.slice(-3)).toEqual([null, 12.8, 12.8]);
   });
 });
+
+describe('LiveStore notes', () => {
+  it('replaces an edited note and takes out a removed one, telling note listeners', () => {
+    const store = new LiveStore((fn) => fn());
+    const heard: number[] = [];
+    store.onNoteChange((id) => heard.push(id));
+    const note = { type: 'annotation' as const, t: 3, text: 'Fan on', author: 'Tomas' };
+    store.handle({ type: 'snapshot', seq: 1, topic, status: null, run: null, recent: cols([]), events: [{ type: 'run-start', t: 0 }, note] });
+    const edited = { ...note, text: 'Fan on, 30 cm away' };
+    store.handle({ type: 'note', seq: 2, topic, eventId: 8, previous: note, event: edited });
+    expect(store.getSnapshot().events).toEqual([{ type: 'run-start', t: 0 }, edited]);
+    store.handle({ type: 'note', seq: 3, topic, eventId: 8, previous: edited, event: null });
+    expect(store.getSnapshot().events).toEqual([{ type: 'run-start', t: 0 }]);
+    expect(heard).toEqual([8, 8]);
+  });
+});

@@ -1,4 +1,4 @@
-import type { RunEvent } from '../../shared/schemas/run-event';
+import type { AnnotationEvent, RunEvent } from '../../shared/schemas/run-event';
 import type { ReadingColumns, ServerMessage } from '../../shared/schemas/ws';
 import { ColumnarRingBuffer } from './ring-buffer';
 import { EMPTY_LIVE_VIEW, pickTempChannel, type HistoryColumns, type LiveView, type MinMax } from './live-view';
@@ -13,6 +13,13 @@ export const LIVE_WINDOW_ROWS = 9_000;
 /** A pause longer than this, and longer than GAP_FACTOR sample periods, is drawn as a gap. */
 const MIN_GAP_SECONDS = 3;
 const GAP_FACTOR = 5;
+
+/** The timeline with one note replaced by its new text, or taken out (`next` null). */
+function withNoteChange(events: readonly RunEvent[], previous: AnnotationEvent, next: AnnotationEvent | null): readonly RunEvent[] {
+  const i = events.findIndex((e) => e.type === 'annotation' && e.t === previous.t && e.text === previous.text && e.author === previous.author);
+  if (i < 0) return events;
+  return next ? [...events.slice(0, i), next, ...events.slice(i + 1)] : [...events.slice(0, i), ...events.slice(i + 1)];
+}
 
 export type FrameScheduler = (fn: () => void) => void;
 export type EventListener = (event: RunEvent, live: boolean) => void;
@@ -33,6 +40,7 @@ export class LiveStore {
   private readonly listeners = new Set<() => void>();
   private readonly eventListeners = new Set<EventListener>();
   private readonly snapshotListeners = new Set<(firstT: number | null) => void>();
+  private readonly noteListeners = new Set<(eventId: number) => void>();
   private readonly row: (number | null)[] = new Array(COLUMN_COUNT).fill(null);
 
   constructor(
@@ -53,6 +61,12 @@ export class LiveStore {
   onEvent(listener: EventListener): () => void {
     this.eventListeners.add(listener);
     return () => this.eventListeners.delete(listener);
+  }
+
+  /** Hears each edit or removal of a note on this run, with the note's stored id. */
+  onNoteChange(listener: (eventId: number) => void): () => void {
+    this.noteListeners.add(listener);
+    return () => this.noteListeners.delete(listener);
   }
 
   /** Hears each snapshot (first subscribe and every reconnect) with the first reading time it holds. */
@@ -116,12 +130,16 @@ export class LiveStore {
         break;
       case 'batch':
         this.appendReadings(message.readings, false);
-        if (message.readings.t.length > 0) this.update({ receivedAtMs: this.nowMs() });
+        if (message.readings.t.length > 0) this.update({ receivedAtMs: this.nowMs(), status: this.countFrames(message.readings.t.length + message.dropped) });
         if (message.dropped > 0) this.update({ droppedReadings: this.next.droppedReadings + message.dropped });
         break;
       case 'event':
         this.update({ events: [...this.next.events, message.event] });
         this.eventListeners.forEach((l) => l(message.event, true));
+        break;
+      case 'note':
+        this.update({ events: withNoteChange(this.next.events, message.previous, message.event) });
+        this.noteListeners.forEach((l) => l(message.eventId));
         break;
       case 'run':
         this.update({ run: message.run });
@@ -135,6 +153,15 @@ export class LiveStore {
       default:
         break;
     }
+  }
+
+  /**
+   * The bench's "frames ok" count moves with every reading that arrives: the server sends a
+   * status only when the state changes, and its count then corrects ours.
+   */
+  private countFrames(readings: number): LiveView['status'] {
+    const status = this.next.status;
+    return status && readings > 0 ? { ...status, framesOk: status.framesOk + readings } : status;
   }
 
   private update(patch: Partial<LiveView>): void {

@@ -16,7 +16,7 @@ export function demoUser(role: PublicUser['role']): PublicUser {
 
 type Handler = (url: string, init?: RequestInit) => { status: number; body?: unknown } | undefined;
 
-/** Stubs fetch: `me` answers with `user` (401 when null), other paths go to `handler` or 404. */
+/** Stubs fetch: `session` (and `me`) answer with `user` (null, or 401 for `me`, when signed out), other paths go to `handler` or 404. */
 export function stubApi(user: PublicUser | null, handler: Handler = () => undefined) {
   const calls: { url: string; init?: RequestInit }[] = [];
   const fetchMock = vi.fn(async (input: RequestInfo | URL, init?: RequestInit) => {
@@ -25,7 +25,9 @@ export function stubApi(user: PublicUser | null, handler: Handler = () => undefi
     const custom = handler(url, init);
     const answer =
       custom ??
-      (url.startsWith('/api/auth/me')
+      (url.startsWith('/api/auth/session')
+        ? { status: 200, body: { user } }
+        : url.startsWith('/api/auth/me')
         ? user
           ? { status: 200, body: { user } }
           : { status: 401, body: { error: { message: 'Sign in first' } } }

@@ -29,6 +29,8 @@ afterAll(async () => {
 describe('a run from start to cutoff, through the real server, simulator and /ws', () => {
   it('admin speeds up the simulated bench, technician arms a run, the room sees the cutoff', { timeout: 150_000 }, async () => {
     const page = await browser.context.newPage();
+    // A bench PC set to dark: the app follows the system until someone picks a look.
+    await page.emulateMedia({ colorScheme: 'dark' });
     await signInThroughForm(page, t.url, account('admin').email, t.ctx.config.demoPassword);
     // The demo bench that plays the 12 V capacity scenario (found by its source, not its name).
     const benches = (await page.evaluate(`fetch('/api/benches').then((r) => r.json())`)) as {

@@ -21,6 +21,7 @@ let t: TestContext;
 let browser: TestBrowser;
 let app: E2eApp;
 let paths: string[] = [];
+const runIds: number[] = [];
 
 beforeAll(async () => {
   app = await startE2eApp();
@@ -28,7 +29,6 @@ beforeAll(async () => {
   const password = t.ctx.config.demoPassword;
   // Two finished runs (a public discharge log imported twice) for the run and compare pages.
   const tech = await signInAs(t, 'technician', { email: technician.email, password });
-  const runIds: number[] = [];
   for (const name of ['Cell B0005 first discharge', 'Cell B0005 again']) {
     const res = await tech.post('/api/runs/import').field('name', name).field('endVolts', '2.7').field('currentSign', 'auto').attach('file', NASA_CSV).expect(201);
     runIds.push(res.body.run.id as number);
@@ -91,6 +91,26 @@ describe('every page reads well in both looks (axe-core: WCAG 2.2 AA and structu
   }
 });
 
+describe('the sign-in page', () => {
+  it('loads without a single console error (no failed "who is signed in" request)', async () => {
+    await browser.context.clearCookies();
+    const page = await browser.context.newPage();
+    const errors: string[] = [];
+    page.on('console', (m) => {
+      if (m.type() === 'error') errors.push(m.text());
+    });
+    page.on('requestfailed', (r) => errors.push(`failed ${r.url()}`));
+    page.on('response', (r) => {
+      if (r.status() >= 400) errors.push(`${r.status()} ${r.url()}`);
+    });
+    await page.goto(`${t.url}/`);
+    await page.waitForURL(/\/sign-in/);
+    await settle(page);
+    await page.close();
+    expect(errors).toEqual([]);
+  });
+});
+
 describe('every page fits a phone (390 x 844)', () => {
   it('nothing is wider than the viewport and every control is at least 44 px', { timeout: 180_000 }, async () => {
     const page = await signedInPage('light', PHONE);
@@ -118,5 +138,60 @@ describe('every page fits a phone (390 x 844)', () => {
       await page.screenshot({ path: `${SCREENSHOT_DIR}/phone${path.replace(/[/?=,]/g, '-')}.png` });
     }
     await page.close();
+  });
+});
+
+describe('small faults', () => {
+  it('names the pack on the runs filter chip and exports without float noise, one column name in CSV and JSON', { timeout: 60_000 }, async () => {
+    const page = await signedInPage('light');
+    await page.goto(`${t.url}/batteries`);
+    await page.getByRole('link', { name: 'Runs of Kestrel 12 V camper' }).first().click();
+    await page.getByText('Only pack Kestrel 12 V camper').waitFor();
+    const csv = (await page.evaluate(`fetch('/api/runs/${runIds[0]}/export.csv').then((r) => r.text())`)) as string;
+    const json = (await page.evaluate(`fetch('/api/runs/${runIds[0]}/export.json').then((r) => r.json())`)) as { columns: string[]; rows: (number | null)[][] };
+    const lines = csv.trim().split('\n').filter((l) => !l.startsWith('#'));
+    expect(json.columns).toEqual(lines[0]!.split(','));
+    expect(json.columns.some((c) => /^temp_\w+_c$/.test(c))).toBe(true);
+    // Plain decimals, at most 4 places (docs/api.md, "Export").
+    expect(lines.slice(1).join(',').split(',').filter((x) => /e/i.test(x) || (x.split('.')[1]?.length ?? 0) > 4)).toEqual([]);
+    await page.close();
+  });
+});
+
+describe('notes on a run, live for every open screen', () => {
+  it('the author edits a note on one screen and another open screen shows it without a reload; a lab manager removes it', { timeout: 90_000 }, async () => {
+    const password = t.ctx.config.demoPassword;
+    const tech = await signInAs(t, 'technician', { email: technician.email, password });
+    const runId = runIds[1]!;
+    await tech.post(`/api/runs/${runId}/events`).send({ text: 'Pack opened: cell 3 swollen' }).expect(201);
+    await browser.context.clearCookies();
+    const author = await browser.context.newPage();
+    await signInThroughForm(author, t.url, technician.email, password);
+    const watcher = await browser.context.newPage();
+    await watcher.goto(`${t.url}/runs/${runId}`);
+    const watcherNotes = watcher.getByRole('region', { name: 'Notes' });
+    await watcherNotes.getByText('Pack opened: cell 3 swollen', { exact: true }).waitFor();
+
+    await author.goto(`${t.url}/runs/${runId}`);
+    const notes = author.getByRole('region', { name: 'Notes' });
+    await notes.getByRole('button', { name: 'Edit note: Pack opened: cell 3 swollen' }).click();
+    const form = notes.getByRole('form', { name: 'Edit the note' });
+    await form.getByLabel('Note').fill('Pack opened: cell 3 swollen, vent intact');
+    await form.getByRole('button', { name: 'Save note' }).click();
+    // The other screen follows over /ws; it is never reloaded.
+    await watcherNotes.getByText('Pack opened: cell 3 swollen, vent intact', { exact: true }).waitFor({ timeout: 10_000 });
+    await watcherNotes.getByText(/Note history \(1 changes\)/).waitFor();
+
+    // A lab manager removes it (through the API here); both screens drop it, the history keeps it.
+    const lab = await signInAs(t, 'admin', { email: admin.email, password });
+    const events = (await lab.get(`/api/runs/${runId}/events`).expect(200)).body.events as { id: number; event: { type: string } }[];
+    await lab.delete(`/api/runs/${runId}/events/${events.find((e) => e.event.type === 'annotation')!.id}`).expect(204);
+    await watcherNotes.getByText('No notes on this run.').waitFor({ timeout: 10_000 });
+    await notes.getByText('No notes on this run.').waitFor({ timeout: 10_000 });
+    await watcherNotes.getByText(/Note history \(2 changes\)/).click();
+    expect(await watcherNotes.getByRole('list', { name: 'Note history' }).textContent()).toMatch(/removed the note .*vent intact/);
+    await watcher.screenshot({ path: `${SCREENSHOT_DIR}/run-notes-history.png`, fullPage: true });
+    await author.close();
+    await watcher.close();
   });
 });

@@ -40,6 +40,15 @@ describe('sign-in', () => {
     await agent.get('/api/auth/me').expect(401);
   });
 
+  it('answers who is signed in on /api/auth/session: null when signed out, never a failed request', async () => {
+    expect((await request(t.url).get('/api/auth/session').expect(200)).body).toEqual({ user: null });
+    const agent = await csrfAgent(t);
+    await agent.post('/api/auth/login').send({ email: TEST_USERS.viewer.email, password: TEST_PASSWORD }).expect(200);
+    const signedIn = (await agent.get('/api/auth/session').expect(200)).body.user;
+    expect(signedIn).toMatchObject({ email: TEST_USERS.viewer.email, role: 'viewer' });
+    expect(signedIn.passwordHash).toBeUndefined();
+  });
+
   it('answers 401 on /api/auth/me when signed out', async () => {
     const response = await request(t.url).get('/api/auth/me').expect(401);
     expect(response.body.error.message).toMatch(/sign in/i);

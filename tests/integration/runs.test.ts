@@ -111,6 +111,14 @@ describe('a live run', () => {
     const doc = JSON.parse(json.text);
     expect(doc.rows).toHaveLength(run.readingsCount);
     expect(doc.meta.run.id).toBe(runId);
+    // One name per column in both formats, and numbers without float noise or exponents
+    // (watts = V × A would otherwise carry binary tails such as 595.3199999999999).
+    expect(doc.columns).toEqual(header);
+    const numbers = [...rows.join(',').split(','), ...(json.text.match(/-?\d[\d.eE+-]*/g) ?? [])].filter((x) => x !== '');
+    expect(numbers.filter((x) => /e/i.test(x))).toEqual([]);
+    const decimalsOf = (x: string) => (x.includes('.') ? x.split('.')[1]!.length : 0);
+    expect(Math.max(...rows.map((r) => decimalsOf(r.split(',')[4]!)))).toBeLessThanOrEqual(3);
+    expect(Math.max(...numbers.map(decimalsOf))).toBeLessThanOrEqual(4);
   });
 
   it('lets a technician annotate and rename, never a viewer; list filters by name, tag, battery and state', async () => {

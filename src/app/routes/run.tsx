@@ -12,7 +12,8 @@ export function Component() {
   const me = useMe();
   const runId = useIdParam('runId');
   if (Number.isNaN(runId)) return <NotFound />;
-  return <RunDetail key={runId} runId={runId} canEdit={hasRole(me.data?.role, 'technician')} />;
+  const viewer = me.data ? { id: me.data.id, role: me.data.role } : null;
+  return <RunDetail key={runId} runId={runId} canEdit={hasRole(me.data?.role, 'technician')} viewer={viewer} />;
 }
 
 /** The run and its summary. */

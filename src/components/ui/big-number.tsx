@@ -31,16 +31,23 @@ export interface BigNumberProps {
   unit: string;
   color?: string;
   size?: Size;
+  /** The reading is old: drawn in the faint ink instead of its signal colour (still legible). */
+  stale?: boolean;
 }
 
 /** A number meant to be read from across the room: big digits, unit beside, label above. */
-export function BigNumber({ label, text, unit, color, size = 'lg' }: BigNumberProps) {
+export function BigNumber({ label, text, unit, color, size = 'lg', stale = false }: BigNumberProps) {
   const q = splitQuantity(text, unit);
   return (
     <div className="flex min-w-0 flex-col">
       <span className={`${LABEL_SIZE[size]} font-semibold uppercase tracking-wider text-ink-muted`}>{label}</span>
       <span className="flex items-baseline gap-2 whitespace-nowrap">
-        <span className={`num ${VALUE_SIZE[size]} font-bold`} style={color ? { color } : undefined} data-testid={`big-${label.toLowerCase().replace(/\s+/g, '-')}`}>
+        <span
+          className={`num ${VALUE_SIZE[size]} font-bold ${stale ? 'text-ink-faint' : ''}`}
+          style={color && !stale ? { color } : undefined}
+          data-stale={stale || undefined}
+          data-testid={`big-${label.toLowerCase().replace(/\s+/g, '-')}`}
+        >
           {q.value}
         </span>
         <span className={`${UNIT_SIZE[size]} font-semibold text-ink-muted`}>{q.unit}</span>

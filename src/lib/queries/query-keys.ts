@@ -30,6 +30,7 @@ export const queryKeys = {
     list: (filter: RunsListKey) => ['runs', 'list', filter] as const,
     detail: (runId: number) => ['runs', runId] as const,
     events: (runId: number) => ['runs', runId, 'events'] as const,
+    noteHistory: (runId: number) => ['runs', runId, 'note-history'] as const,
     samples: (runId: number, from: number | null, to: number | null, maxPoints: number) => ['runs', runId, 'samples', from, to, maxPoints] as const,
   },
   users: { all: ['users'] as const },

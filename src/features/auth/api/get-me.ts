@@ -6,13 +6,13 @@ import { ME_QUERY_KEY } from '../../../lib/session';
 
 const HTTP_UNAUTHORIZED = 401;
 
-// `me` answers { user } (or the user itself on older builds); both parse to a user.
-const MeResponseSchema = z.union([z.object({ user: PublicUserSchema }), PublicUserSchema.transform((user) => ({ user }))]);
+// `session` answers { user } with null when signed out.
+const SessionResponseSchema = z.object({ user: PublicUserSchema.nullable() });
 
-/** Who is signed in, or null when nobody is (a 401 is an answer here, not an error). */
+/** Who is signed in, or null when nobody is (GET /api/auth/session; a 401 still means nobody). */
 export async function getMe(): Promise<PublicUser | null> {
   try {
-    const body = await api('/api/auth/me', { schema: MeResponseSchema });
+    const body = await api('/api/auth/session', { schema: SessionResponseSchema });
     return body.user;
   } catch (error) {
     if (error instanceof ApiError && error.status === HTTP_UNAUTHORIZED) return null;

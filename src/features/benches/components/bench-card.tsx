@@ -2,6 +2,8 @@ import { Link } from 'react-router-dom';
 import type { BenchWithStatus } from '../../../../shared/schemas/bench';
 import { BigNumber } from '../../../components/ui/big-number';
 import { BenchStatusBadge } from '../../../components/ui/state-badge';
+import { ReadingAgeNote } from '../../../components/ui/reading-age-note';
+import { useReadingAge } from '../../../lib/reading-age';
 import { RUN_STATE_COLORS, SIGNAL_COLORS } from '../../../lib/palette';
 import { formatAmps, formatTemperature, formatVolts, formatWatts } from '../../../lib/units';
 import { isLiveRun, useLatestBenchRun } from '../../../lib/current-run';
@@ -17,6 +19,8 @@ export function BenchCard({ bench, temperatureUnit, energyUnit }: { bench: Bench
   const newest = live.run ?? latest.data ?? null;
   const run = isLiveRun(newest) ? newest : null;
   const alarm = run?.state === 'cutoff';
+  // Old numbers are dimmed and say their age: a glance at the board must not mistake them for now.
+  const age = useReadingAge(live, status);
 
   return (
     <div
@@ -35,17 +39,19 @@ export function BenchCard({ bench, temperatureUnit, energyUnit }: { bench: Bench
           <BenchStatusBadge state={status.state} />
         </div>
         <div className="grid grid-cols-2 gap-4">
-          <BigNumber label="Volts" text={formatVolts(live.volts)} unit="V" color={SIGNAL_COLORS.volts} size="md" />
-          <BigNumber label="Amps" text={formatAmps(live.amps)} unit="A" color={SIGNAL_COLORS.amps} size="md" />
-          <BigNumber label="Watts" text={formatWatts(live.watts)} unit="W" color={SIGNAL_COLORS.watts} size="md" />
+          <BigNumber label="Volts" text={formatVolts(live.volts)} unit="V" color={SIGNAL_COLORS.volts} size="md" stale={age.stale} />
+          <BigNumber label="Amps" text={formatAmps(live.amps)} unit="A" color={SIGNAL_COLORS.amps} size="md" stale={age.stale} />
+          <BigNumber label="Watts" text={formatWatts(live.watts)} unit="W" color={SIGNAL_COLORS.watts} size="md" stale={age.stale} />
           <BigNumber
             label="Temp"
             text={formatTemperature(live.tempCelsius, temperatureUnit)}
             unit={temperatureUnit === 'F' ? '°F' : '°C'}
             color={SIGNAL_COLORS.temp}
             size="md"
+            stale={age.stale}
           />
         </div>
+        {age.stale && <ReadingAgeNote ageSeconds={age.ageSeconds} />}
       </div>
       <div className="relative z-10 border-t border-line pt-3">
         {run ? <BenchRunLine run={run} benchName={bench.name} energyUnit={energyUnit} /> : <span className="text-sm text-ink-faint">No run on this bench</span>}

@@ -6,8 +6,8 @@ import { Loading, QueryError } from '../../../components/ui/status';
 import { isLiveRun, useLatestBenchRun } from '../../../lib/current-run';
 import { useLabSettings } from '../../../lib/lab-settings';
 import { formatDuration } from '../../../lib/units';
-import { useNow } from '../../../lib/use-now';
-import { useLiveStore, useLiveView, useServerClockOffsetMs } from '../../../lib/use-live';
+import { useLiveStore, useLiveView } from '../../../lib/use-live';
+import { useReadingAge } from '../../../lib/reading-age';
 import { useBench } from '../api/get-bench';
 import type { SourceState } from '../../../../shared/schemas/bench';
 import { LiveRunPanel } from './live-run-panel';
@@ -22,13 +22,9 @@ const QUIET_STATES: ReadonlySet<SourceState> = new Set(['stale', 'error', 'recon
  * (server clock) moves only when the bench's state changes; a live batch (this browser's
  * clock) is fresher while readings stream.
  */
-function LastReading({ iso, receivedAtMs }: { iso: string | undefined; receivedAtMs: number | null }) {
-  const now = useNow();
-  const offsetMs = useServerClockOffsetMs();
-  const ages = [iso ? (now + offsetMs - Date.parse(iso)) / 1000 : Infinity, receivedAtMs === null ? Infinity : (now - receivedAtMs) / 1000];
-  const ageSeconds = Math.min(...ages);
-  if (!Number.isFinite(ageSeconds)) return null;
-  return <span>last reading {formatDuration(Math.max(0, ageSeconds))} ago</span>;
+function LastReading({ ageSeconds }: { ageSeconds: number | null }) {
+  if (ageSeconds === null) return null;
+  return <span>last reading {formatDuration(ageSeconds)} ago</span>;
 }
 
 /** One bench: its live run when there is one, otherwise its raw readings and the start form. */
@@ -38,6 +34,7 @@ export function BenchLivePage({ benchId, canAct, canSetUp = false }: { benchId: 
   const view = useLiveView(store);
   const settings = useLabSettings();
   const latest = useLatestBenchRun(benchId);
+  const age = useReadingAge(view, view.status ?? bench.data?.status);
   // The run on screen stays there after it ends (its alarm may still need acknowledging)
   // until the technician closes it or starts another.
   const [pinnedRunId, setPinnedRunId] = useState<number | null>(null);
@@ -60,7 +57,7 @@ export function BenchLivePage({ benchId, canAct, canSetUp = false }: { benchId: 
           <span className="flex flex-wrap items-center gap-3">
             <BenchStatusBadge state={status.state} />
             <span className="num">{status.framesOk} frames ok · {status.framesRejected} rejected</span>
-            <LastReading iso={status.lastFrameAt} receivedAtMs={view.receivedAtMs} />
+            <LastReading ageSeconds={age.ageSeconds} />
             {status.message && <span>{status.message}</span>}
           </span>
         }
@@ -103,11 +100,16 @@ export function BenchLivePage({ benchId, canAct, canSetUp = false }: { benchId: 
           )}
           <Card className="p-6">
             <h2 className="mb-4 font-semibold text-ink-muted">Meter readings (no run recording)</h2>
-            <Readouts view={view} temperatureUnit={settings.temperatureUnit} energyUnit={settings.energyUnit} totals={false} />
+            <Readouts view={view} temperatureUnit={settings.temperatureUnit} energyUnit={settings.energyUnit} totals={false} stale={age.stale} ageSeconds={age.ageSeconds} />
           </Card>
           {canAct ? (
             <Card className="p-6">
               <h2 className="mb-4 text-lg font-bold">Start a run on {bench.data.name}</h2>
+              {bench.data.source.kind === 'simulator' && (
+                <p className="mb-4 rounded-lg border border-line bg-surface-sunken p-3 text-sm text-ink-muted" data-testid="fresh-simulated-pack">
+                  Simulated bench: arming a run puts a fresh simulated pack on it (full charge, protection reset), so the test starts from the beginning.
+                </p>
+              )}
               <StartRunForm benchId={benchId} onStarted={setPinnedRunId} packCelsius={view.tempCelsius} tempChannel={view.tempChannel} />
             </Card>
           ) : (

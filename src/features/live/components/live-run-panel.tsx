@@ -8,6 +8,7 @@ import { NotifyToggle } from '../../../components/ui/notify-toggle';
 import { LIVE_RUN_STATES } from '../../../../shared/schemas/run';
 import { useLabSettings } from '../../../lib/lab-settings';
 import { useLiveStore, useLiveView, useSocketState } from '../../../lib/use-live';
+import { useReadingAge } from '../../../lib/reading-age';
 import { useShortcut } from '../../../lib/use-shortcut';
 import { useStopRun } from '../api/stop-run';
 import { useHistoryBackfill } from '../api/use-history-backfill';
@@ -33,6 +34,7 @@ export function LiveRunPanel({ runId, label, roomViewPath, canAct, onClose, sour
   const view = useLiveView(store);
   useHistoryBackfill(store, runId);
   const socketState = useSocketState();
+  const age = useReadingAge(view, null);
   const settings = useLabSettings();
   const stop = useStopRun();
   const navigate = useNavigate();
@@ -93,7 +95,13 @@ export function LiveRunPanel({ runId, label, roomViewPath, canAct, onClose, sour
         </p>
       )}
       <Card className="p-6">
-        <Readouts view={view} temperatureUnit={settings.temperatureUnit} energyUnit={settings.energyUnit} stale={!!sourceProblem && live} />
+        <Readouts
+          view={view}
+          temperatureUnit={settings.temperatureUnit}
+          energyUnit={settings.energyUnit}
+          stale={live && (!!sourceProblem || age.stale)}
+          ageSeconds={age.ageSeconds}
+        />
       </Card>
       <Card>
         <LiveChart store={store} temperatureUnit={settings.temperatureUnit} />

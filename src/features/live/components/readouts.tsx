@@ -1,4 +1,5 @@
 import { BigNumber } from '../../../components/ui/big-number';
+import { ReadingAgeNote } from '../../../components/ui/reading-age-note';
 import type { LiveView } from '../../../lib/live-store';
 import { SIGNAL_COLORS } from '../../../lib/palette';
 import { formatAmps, formatCharge, formatElapsedClock, formatEnergy, formatTemperature, formatVolts, formatWatts } from '../../../lib/units';
@@ -15,12 +16,14 @@ interface Props {
   size?: 'lg' | 'room';
   /** The meter has gone quiet: the numbers are the last ones seen, and look it. */
   stale?: boolean;
+  /** How old the newest reading is (s), said beside stale numbers. */
+  ageSeconds?: number | null;
   /** False on a bench with no run: there is nothing to total, and no run time. */
   totals?: boolean;
 }
 
 /** The instantaneous numbers and the running totals, every one with its unit. */
-export function Readouts({ view, temperatureUnit, energyUnit, size = 'lg', stale = false, totals = true }: Props) {
+export function Readouts({ view, temperatureUnit, energyUnit, size = 'lg', stale = false, ageSeconds = null, totals = true }: Props) {
   const tempUnit = temperatureUnit === 'F' ? '°F' : '°C';
   const charging = (view.amps ?? 0) < CHARGING_BELOW_AMPS;
   // A charge run counts what goes in; every other run counts what comes out.
@@ -33,17 +36,20 @@ export function Readouts({ view, temperatureUnit, energyUnit, size = 'lg', stale
     : { label: 'Charged in', wh: view.chargeWh, ah: view.chargeAh };
   const totalsSize = size === 'room' ? 'room-small' : 'md';
   return (
-    <div className={`flex flex-col gap-6 ${stale ? 'opacity-40 grayscale' : ''}`} aria-describedby={stale ? 'readouts-stale' : undefined}>
+    // Stale numbers are dimmed to the faint ink (still 4.5:1, WCAG 2.2 AA) and say their age.
+    <div className="flex flex-col gap-6">
+      {stale && <ReadingAgeNote ageSeconds={ageSeconds} />}
       <div className={`grid gap-6 ${size === 'room' ? 'grid-cols-2' : 'grid-cols-2 lg:grid-cols-4'}`}>
-        <BigNumber label="Volts" text={formatVolts(view.volts)} unit="V" color={SIGNAL_COLORS.volts} size={size} />
-        <BigNumber label={charging ? 'Amps (charging)' : 'Amps'} text={formatAmps(view.amps)} unit="A" color={SIGNAL_COLORS.amps} size={size} />
-        <BigNumber label="Watts" text={formatWatts(view.watts)} unit="W" color={SIGNAL_COLORS.watts} size={size} />
+        <BigNumber label="Volts" text={formatVolts(view.volts)} unit="V" color={SIGNAL_COLORS.volts} size={size} stale={stale} />
+        <BigNumber label={charging ? 'Amps (charging)' : 'Amps'} text={formatAmps(view.amps)} unit="A" color={SIGNAL_COLORS.amps} size={size} stale={stale} />
+        <BigNumber label="Watts" text={formatWatts(view.watts)} unit="W" color={SIGNAL_COLORS.watts} size={size} stale={stale} />
         <BigNumber
           label={view.tempChannel ? `Temp ${view.tempChannel}` : 'Temp'}
           text={formatTemperature(view.tempCelsius, temperatureUnit)}
           unit={tempUnit}
           color={SIGNAL_COLORS.temp}
           size={size}
+          stale={stale}
         />
       </div>
       {totals && (

@@ -8,6 +8,7 @@ import type { LiveStore } from '../../../lib/live-store';
 import type { RunStateName } from '../../../lib/palette';
 import type { SourceState } from '../../../../shared/schemas/bench';
 import { useLiveStore, useLiveView } from '../../../lib/use-live';
+import { useReadingAge } from '../../../lib/reading-age';
 import { useShortcut } from '../../../lib/use-shortcut';
 import { useBench } from '../api/get-bench';
 import { useHistoryBackfill } from '../api/use-history-backfill';
@@ -18,7 +19,8 @@ import { Readouts } from './readouts';
 function RoomNumbers({ store, totals }: { store: LiveStore; totals: boolean }) {
   const view = useLiveView(store);
   const settings = useLabSettings();
-  return <Readouts view={view} temperatureUnit={settings.temperatureUnit} energyUnit={settings.energyUnit} size="room" totals={totals} />;
+  const age = useReadingAge(view, view.status);
+  return <Readouts view={view} temperatureUnit={settings.temperatureUnit} energyUnit={settings.energyUnit} size="room" totals={totals} stale={age.stale} ageSeconds={age.ageSeconds} />;
 }
 
 /** Chart height in the room view: the knee should be visible from the door. */

@@ -12,12 +12,15 @@ import { formatLabTime, useLabSettings } from '../../../lib/lab-settings';
 import { NOTE_COLOR, RUN_STATE_COLORS } from '../../../lib/palette';
 import { formatElapsedClock } from '../../../lib/units';
 import { useRun, useRunEvents } from '../api/get-run';
+import { useRunBattery } from '../api/get-run-context';
 import { useRunSamples, type SampleWindow } from '../api/get-run-samples';
 import { ImportNoticesPanel } from './import-notices-panel';
 import { RunLabelEditor } from './run-label-editor';
 import { RunNoteForm } from './run-note-form';
 import { RunSetupPanel } from './run-setup-panel';
 import { RunSummaryPanel } from './run-summary-panel';
+import { RunNotes, type NoteViewer } from './run-notes';
+import { useLiveNotes } from '../api/use-live-notes';
 
 /** About one bucket per horizontal pixel of a wide chart. */
 const CHART_MAX_POINTS = 1000;
@@ -31,10 +34,12 @@ function markerFor(e: RunEvent): ChartMarker | null {
 }
 
 /** A recorded run: verdict, figures, the zoomable history chart, events and exports. */
-export function RunDetail({ runId, canEdit = false }: { runId: number; canEdit?: boolean }) {
+export function RunDetail({ runId, canEdit = false, viewer = null }: { runId: number; canEdit?: boolean; viewer?: NoteViewer | null }) {
   const run = useRun(runId);
   const events = useRunEvents(runId);
+  useLiveNotes(runId);
   const settings = useLabSettings();
+  const pack = useRunBattery(run.data?.batteryId ?? null);
   const [sampleWindow, setWindow] = useState<SampleWindow>(FULL_WINDOW);
   const samples = useRunSamples(runId, sampleWindow, CHART_MAX_POINTS);
   const [editing, setEditing] = useState(false);
@@ -103,7 +108,13 @@ export function RunDetail({ runId, canEdit = false }: { runId: number; canEdit?:
         </Card>
         {r.summary ? (
           <Card className="p-6">
-            <RunSummaryPanel summary={r.summary} temperatureUnit={settings.temperatureUnit} energyUnit={settings.energyUnit} />
+            <RunSummaryPanel
+              summary={r.summary}
+              temperatureUnit={settings.temperatureUnit}
+              energyUnit={settings.energyUnit}
+              // The price is the pack's, in the pack's currency when it names one, else the lab's.
+              currency={pack.data?.priceCurrency ?? settings.currency}
+            />
           </Card>
         ) : (
           <Card className="text-ink-muted">No summary yet: the run is still recording.</Card>
@@ -142,6 +153,9 @@ export function RunDetail({ runId, canEdit = false }: { runId: number; canEdit?:
             </div>
           )}
           {events.isError ? <QueryError error={events.error} what="Events" /> : <RunEventsList events={stored} temperatureUnit={settings.temperatureUnit} energyUnit={settings.energyUnit} />}
+        </Card>
+        <Card>
+          <RunNotes runId={runId} events={events.data ?? []} viewer={viewer} />
         </Card>
       </div>
     </>

@@ -23,7 +23,7 @@ function runOn(crossAh: number, endAh: number, tempC = 23): Frame[] {
 }
 
 const tile = (label: string) => screen.getByText(label).closest('div')!;
-const show = (s: RunSummary) => render(<RunSummaryPanel summary={s} temperatureUnit="C" energyUnit="Wh" />);
+const show = (s: RunSummary) => render(<RunSummaryPanel summary={s} temperatureUnit="C" energyUnit="Wh" currency="EUR" />);
 
 describe('run summary panel: every number says what it is', () => {
   it('capacity to the end voltage and whole-run totals are separate tiles; the verdict line names its basis', () => {
@@ -54,5 +54,20 @@ describe('run summary panel: every number says what it is', () => {
     const conditions = screen.getByLabelText('Test conditions');
     expect(conditions.textContent).toMatch(/0\.20 C/); // 10 A ÷ 50 Ah
     expect(conditions.textContent).toMatch(/31\.0 °C under load, outside the 15\.0 °C to 25\.0 °C of IEC 61960-3/);
+  });
+});
+
+describe('RunSummaryPanel currency', () => {
+  it('shows the price per kWh with its currency', () => {
+    // Demo figures: a 12 V pack on 25 A for an hour delivers 305 Wh (12.2 V × 25 A × 1 h, P = V·I);
+    // no end voltage, so the ended run's capacity is its whole discharge.
+    const pipeline = createRunPipeline({ ratedAh: 100 });
+    const frames = Array.from({ length: 3601 }, (_, t) => ({ t, volts: 12.2, amps: 25, clock: 'device' as const }));
+    const events = pipeline.pushMany(frames).events;
+    const summary = summarizeRun({ snapshot: pipeline.snapshot(), events, price: 95 });
+    render(<RunSummaryPanel summary={summary} temperatureUnit="C" energyUnit="Wh" currency="GBP" />);
+    // 95 ÷ 0.305 kWh = 311.48 per kWh.
+    const figure = screen.getByText('Price per kWh').parentElement!;
+    expect(figure.textContent).toContain('311.48 GBP');
   });
 });

@@ -41,7 +41,7 @@ function VerdictLine({ summary: s, temperatureUnit }: { summary: RunSummary; tem
 }
 
 /** A run's figures and verdict; a missing figure shows a dash, never a zero. The capacity and the whole-run totals are labelled apart. */
-export function RunSummaryPanel({ summary, temperatureUnit, energyUnit }: { summary: RunSummary; temperatureUnit: 'C' | 'F'; energyUnit: 'Wh' | 'kWh' }) {
+export function RunSummaryPanel({ summary, temperatureUnit, energyUnit, currency }: { summary: RunSummary; temperatureUnit: 'C' | 'F'; energyUnit: 'Wh' | 'kWh'; currency: string }) {
   const unit = (v: number | null, u: string, d = 2) => (v === null ? '—' : `${formatNumber(v, d)} ${u}`);
   const capacityLabel = (summary.capacityEndedBy && CAPACITY_LABEL[summary.capacityEndedBy]) ?? 'Capacity';
   const roundTrip =
@@ -83,7 +83,7 @@ export function RunSummaryPanel({ summary, temperatureUnit, energyUnit }: { summ
             note={summary.roundTripStatus === 'incomplete' ? 'the charge after the discharge was partial' : 'first discharge ÷ the full charge after it'}
           />
         )}
-        {summary.costPerKWh !== null && <Figure label="Price per kWh (pack's currency)" value={formatNumber(summary.costPerKWh, 2)} />}
+        {summary.costPerKWh !== null && <Figure label="Price per kWh" value={`${formatNumber(summary.costPerKWh, 2)} ${currency}`} />}
         <Figure label="Gaps" value={`${summary.gaps}`} note={gapsText(summary)} />
       </dl>
       <ProtectionTripsTable trips={summary.protectionTrips} count={summary.protectionTripCount} />

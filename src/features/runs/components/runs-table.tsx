@@ -8,6 +8,7 @@ import { RUN_STATE_LABEL, RunStateBadge } from '../../../components/ui/state-bad
 import { Loading, QueryError } from '../../../components/ui/status';
 import { formatLabTime, useLabSettings } from '../../../lib/lab-settings';
 import { formatCharge, formatDuration, formatEnergy } from '../../../lib/units';
+import { useRunBattery } from '../api/get-run-context';
 import { useRuns } from '../api/get-runs';
 import { MAX_COMPARED_RUNS } from './run-compare';
 import { VerdictBadge } from './verdict-badge';
@@ -45,6 +46,8 @@ export function RunsTable() {
     return () => clearTimeout(timer);
   }, [search]);
 
+  // The chip names the pack by its label (the number until the pack's record arrives).
+  const filterPack = useRunBattery(batteryId ?? null);
   const runs = useRuns({ q: q || undefined, state: state || undefined, tag: tag || undefined, batteryId, limit: PAGE_SIZE, offset });
 
   const [selected, setSelected] = useState<number[]>([]);
@@ -117,7 +120,7 @@ export function RunsTable() {
       </div>
       {batteryId !== undefined && (
         <p className="flex items-center gap-3 text-sm">
-          <span className="rounded-full border border-accent px-3 py-1 font-semibold">Only pack #{batteryId}</span>
+          <span className="rounded-full border border-accent px-3 py-1 font-semibold">Only pack {filterPack.data?.label ?? `#${batteryId}`}</span>
           <button type="button" className="min-h-11 px-2 text-accent underline" onClick={() => setParams({})}>
             Show every pack
           </button>

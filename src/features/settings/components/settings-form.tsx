@@ -43,6 +43,13 @@ function Form({ initial }: { initial: LabSettings }) {
         <SelectField label="Temperature unit" options={[{ value: 'C', label: '°C' }, { value: 'F', label: '°F' }]} {...register('temperatureUnit')} />
         <SelectField label="Energy unit" options={[{ value: 'Wh', label: 'Wh' }, { value: 'kWh', label: 'kWh' }]} {...register('energyUnit')} />
         <TextField
+          label="Currency"
+          placeholder="EUR"
+          hint="Three-letter code (ISO 4217) for prices; a pack registered with its own currency keeps it."
+          error={errors.currency?.message ?? server.currency}
+          {...register('currency', { setValueAs: (v: string) => v.trim().toUpperCase(), validate: (v) => /^[A-Z]{3}$/.test(v) || 'A three-letter code such as EUR or USD.' })}
+        />
+        <TextField
           label="Acceptance (% of rated)"
           inputMode="decimal"
           error={errors.acceptancePercent?.message ?? server.acceptancePercent}
