@@ -1,6 +1,7 @@
 import type { RequestHandler } from 'express';
 import type { AppContext } from '../app-context.js';
 import type { ErrorBody } from './error-handler.js';
+import type { Health } from '../../shared/schemas/health.js';
 import { DATABASE_RETRY_AFTER_S } from './error-handler.js';
 
 /**
@@ -21,6 +22,6 @@ export function healthRoute(ctx: AppContext): RequestHandler {
   return (_req, res) => {
     const database = ctx.services.databaseHealth?.status() ?? null;
     res.set('Cache-Control', 'no-store');
-    res.status(database && database.state !== 'up' ? 503 : 200).json({ ok: !database || database.state === 'up', database });
+    res.status(database && database.state !== 'up' ? 503 : 200).json({ ok: !database || database.state === 'up', database } satisfies Health);
   };
 }
