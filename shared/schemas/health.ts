@@ -11,9 +11,17 @@ export const DatabaseStatusSchema = z.object({
 });
 export type DatabaseStatusBody = z.infer<typeof DatabaseStatusSchema>;
 
+/** Scheduled backups (null when none are configured); the reason of a failure is in the server log only. */
+export const BackupHealthSchema = z.object({
+  everyHours: z.number().positive(),
+  lastAt: z.string().nullable(),
+  failing: z.boolean(),
+});
+
 /** GET /api/health: 200 when everything answers, 503 (same body) while the database is away. */
 export const HealthSchema = z.object({
   ok: z.boolean(),
   database: DatabaseStatusSchema.nullable(),
+  backups: BackupHealthSchema.nullable().optional(),
 });
 export type Health = z.infer<typeof HealthSchema>;

@@ -133,6 +133,9 @@ describe('backup and restore', () => {
         await new Promise((ok) => setTimeout(ok, 1500));
         expect(readdirSync(scheduledDir).filter((n) => !n.endsWith('.partial'))).toHaveLength(2);
         expect(s.ctx.services.backupStatus).toMatchObject({ lastError: null, keep: 2 });
+        // The health endpoint says backups run, without naming the folder.
+        const health = (await (await fetch(`${s.url}/api/health`)).json()) as { backups: unknown };
+        expect(health.backups).toEqual({ everyHours: 400 / 3_600_000, lastAt: expect.any(String), failing: false });
       } finally {
         await s.close();
       }

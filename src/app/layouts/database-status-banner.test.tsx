@@ -31,4 +31,10 @@ describe('database status banner', () => {
     expect(screen.queryByText(/restarted/)).toBeNull();
     expect(screen.queryByRole('alert')).toBeNull();
   });
+
+  it('tells lab managers when the scheduled backup is failing', async () => {
+    stubApi(demoUser('admin'), healthAnswers({ ...status('up', 0), backups: { everyHours: 24, lastAt: null, failing: true } }));
+    renderAt('/account');
+    expect(await screen.findByText(/The last scheduled backup did not complete/)).toBeTruthy();
+  });
 });

@@ -14,7 +14,8 @@ const when = (iso: string) => new Date(iso).toLocaleString();
 
 /**
  * A line above every page while the database is away (everyone: what still works), and for
- * lab managers a note of the database's restarts since the server started.
+ * lab managers a note of the database's restarts since the server started and of a failing
+ * scheduled backup.
  */
 export function DatabaseStatusBanner({ user }: { user: PublicUser | null | undefined }) {
   const health = useServerHealth();
@@ -29,12 +30,22 @@ export function DatabaseStatusBanner({ user }: { user: PublicUser | null | undef
       </div>
     );
   }
-  if (user?.role !== 'admin' || db.restarts === 0) return null;
+  if (user?.role !== 'admin') return null;
+  const backupsFailing = health.data?.backups?.failing === true;
+  if (db.restarts === 0 && !backupsFailing) return null;
+  if (db.restarts === 0) {
+    return (
+      <div role="status" className="border-b border-state-cutoff/60 bg-state-cutoff/10 px-4 py-2 text-sm text-ink">
+        The last scheduled backup did not complete; the server log has the reason. Earlier backups are kept.
+      </div>
+    );
+  }
   return (
     <div role="status" className="border-b border-line bg-surface-sunken px-4 py-2 text-sm text-ink-muted">
       The database was restarted {db.restarts === 1 ? 'once' : `${db.restarts} times`} since the server started, last at{' '}
       {db.lastRestartAt ? when(db.lastRestartAt) : 'an unknown time'}
       {db.lastProblem ? ` (${db.lastProblem})` : ''}. It is available again; the server log has the details.
+      {backupsFailing && ' The last scheduled backup did not complete either.'}
     </div>
   );
 }
