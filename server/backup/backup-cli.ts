@@ -7,7 +7,7 @@ import { resolve } from 'node:path';
 import { loadConfig, type AppConfig, type DatabaseConfig } from '../config/config.js';
 import { liveLeaseHolders } from '../db/mariadb-lease.js';
 import { provisionMariaDb, type ProvisionedMariaDb } from '../db/provisioner.js';
-import { createBackup, listBackups, restoreBackup } from './backup-service.js';
+import { createBackup, listBackups, readManifest, restoreBackup } from './backup-service.js';
 
 const USAGE = 'usage: npm run backup [-- <folder>]   |   npm run restore -- <backup folder>';
 
@@ -25,6 +25,7 @@ async function main(): Promise<void> {
   const config = loadConfig();
   if (command === 'restore') {
     if (!target) throw new Error(`Name the backup folder to restore.\n${USAGE}`);
+    readManifest(resolve(target)); // a wrong folder is refused before anything starts
     const others = config.db.provision ? liveLeaseHolders(config.db.mariadbDir).filter((pid) => pid !== process.pid) : [];
     if (others.length > 0) throw new Error(`Kneepoint is still running (pid ${others.join(', ')}): stop it first, then restore.`);
     const { db, mariadb } = await openDatabase(config);

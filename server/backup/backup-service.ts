@@ -1,6 +1,6 @@
 import { spawn } from 'node:child_process';
 import { createReadStream, createWriteStream, existsSync, mkdirSync, readdirSync, readFileSync, renameSync, rmSync, statSync, cpSync, writeFileSync } from 'node:fs';
-import { join, resolve } from 'node:path';
+import { basename, dirname, join, resolve } from 'node:path';
 import { Readable, type Writable } from 'node:stream';
 import { pipeline } from 'node:stream/promises';
 import { createGunzip, createGzip } from 'node:zlib';
@@ -8,9 +8,18 @@ import type { DatabaseConfig } from '../config/config.js';
 
 /** Folders under the data directory that a backup copies beside the database dump. */
 export const BACKED_UP_FOLDERS = [
-  'uploads', // files people attach (photos, documents); absent until something is uploaded
+  'uploads', // files people upload and keep (photos, documents)
+  'attachments', // the same, for areas that name their folder so
   'spill', // readings batches still waiting for the database when the backup ran
 ] as const;
+
+/** An import's upload in transit (multer's random 32-hex name at the top of uploads/): its readings end up in the database. */
+const IN_TRANSIT_UPLOAD = /^[0-9a-f]{32}$/;
+
+/** False for files that are not worth keeping: imports still being read. */
+function worthKeeping(folderPath: string, path: string): boolean {
+  return !(dirname(path) === folderPath && IN_TRANSIT_UPLOAD.test(basename(path)));
+}
 
 /** Backup folders are named kneepoint-<UTC time>; the name sorts by age. */
 const NAME_PREFIX = 'kneepoint-';
@@ -102,7 +111,7 @@ export async function createBackup(opts: BackupOptions): Promise<string> {
     for (const folder of BACKED_UP_FOLDERS) {
       const from = join(opts.dataDir, folder);
       if (!existsSync(from)) continue;
-      cpSync(from, join(partial, FILES_FOLDER, folder), { recursive: true });
+      cpSync(from, join(partial, FILES_FOLDER, folder), { recursive: true, filter: (path) => worthKeeping(from, path) });
       folders.push(folder);
     }
     const manifest: BackupManifest = {

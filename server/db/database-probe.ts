@@ -8,6 +8,11 @@ export interface DatabaseProbe {
   close(): Promise<void>;
 }
 
+/** Closes a connection in the background, after whatever it is still waiting for. */
+function quietly(connection: mariadb.Connection): void {
+  connection.end().catch(() => undefined);
+}
+
 /**
  * A probe over one connection of its own (never the app's pool, which a stall can fill):
  * pings on it, and drops and reopens it when a ping fails or is late. A closed TCP port
@@ -40,13 +45,17 @@ export function createPingProbe(db: DatabaseConfig): DatabaseProbe {
         return true;
       }
       if (connection === reused) connection = undefined;
-      reused?.destroy();
+      // end(), never destroy(): mariadb 3.0.2's destroy() of a connection with a command in
+      // flight opens a second connection to KILL it, and that path throws an unhandled
+      // rejection (crashing the server) once a stopped server answers again. end() waits
+      // for the late ping, then closes.
+      if (reused) quietly(reused);
       // A connection that completes after the limit is closed, not leaked.
-      void work.then((c) => c !== connection && c.destroy(), () => undefined);
+      void work.then((c) => c !== connection && quietly(c), () => undefined);
       return false;
     },
     async close() {
-      connection?.destroy();
+      if (connection) quietly(connection);
       connection = undefined;
     },
   };

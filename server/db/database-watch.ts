@@ -11,10 +11,16 @@ export interface SupervisedServer {
 
 /** How often the database is asked whether it answers. */
 export const PROBE_INTERVAL_MS = 250;
-/** A ping slower than this counts as no answer: with the interval, a stall is known within about 1.25 s. */
+/** A ping slower than this counts as late (see LATE_PINGS_FOR_STALL for when that makes a stall). */
 export const PROBE_TIMEOUT_MS = 1000;
 /** Waits before each consecutive restart attempt; the last value repeats. */
 export const RESTART_DELAYS_MS = [0, 1000, 2000, 5000, 10_000, 30_000] as const;
+/**
+ * Late pings in a row before a server that is alive and not stopped counts as stalled: one
+ * late ping on a busy machine is not an outage. A stopped (SIGSTOP) or vanished process is
+ * known at the first late ping.
+ */
+export const LATE_PINGS_FOR_STALL = 2;
 /** Up this long after a restart, and the back-off starts again from the first delay. */
 export const STABLE_AFTER_RESTART_MS = 60_000;
 
@@ -50,6 +56,7 @@ export function watchDatabase(opts: WatchOptions): DatabaseWatch {
   let nextRestartAt = 0;
   let lastRestartMs: number | undefined;
   let outageStartMs: number | undefined;
+  let latePings = 0;
   let stopped = false;
   let timer: NodeJS.Timeout | undefined;
   let running: Promise<void> = Promise.resolve();
@@ -86,18 +93,21 @@ export function watchDatabase(opts: WatchOptions): DatabaseWatch {
         opts.log(`[mariadb] answering again after ${outageStartMs === undefined ? '?' : ((now() - outageStartMs) / 1000).toFixed(1)} s`);
       }
       outageStartMs = undefined;
+      latePings = 0;
       health.set('up');
       if (lastRestartMs !== undefined && now() - lastRestartMs >= STABLE_AFTER_RESTART_MS) attempt = 0;
       return;
     }
     if (outageStartMs === undefined) outageStartMs = now();
+    latePings++;
+    const proc = opts.server?.running();
+    if (opts.server && !proc) return restartIfDue(opts.server);
+    if (!proc?.stopped && latePings < LATE_PINGS_FOR_STALL) return;
     if (!opts.server) {
       if (health.available()) opts.log('[mariadb] the database does not answer');
-      return health.set('unreachable', `no answer within ${timeoutMs} ms`);
+      return health.set('unreachable', `no answer within ${timeoutMs} ms, ${latePings} times in a row`);
     }
-    const proc = opts.server.running();
-    if (!proc) return restartIfDue(opts.server);
-    const why = proc.stopped ? `the server process (pid ${proc.pid}) is stopped (SIGSTOP)` : `the server (pid ${proc.pid}) gave no answer within ${timeoutMs} ms`;
+    const why = proc!.stopped ? `the server process (pid ${proc!.pid}) is stopped (SIGSTOP)` : `the server (pid ${proc!.pid}) gave no answer within ${timeoutMs} ms, ${latePings} times in a row`;
     if (health.available()) opts.log(`[mariadb] stalled: ${why}`);
     health.set('stalled', why);
   };

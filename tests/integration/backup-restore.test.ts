@@ -75,6 +75,8 @@ describe('backup and restore', () => {
     const photo = Buffer.from(Array.from({ length: 5000 }, (_, i) => (i * 7) % 256));
     mkdirSync(join(dataDir, 'uploads', 'runs', '2'), { recursive: true });
     writeFileSync(join(dataDir, 'uploads', 'runs', '2', 'teardown.jpg'), photo);
+    // An import's file in transit (multer's temporary name) is not kept: its readings are in the database.
+    writeFileSync(join(dataDir, 'uploads', '0123456789abcdef0123456789abcdef'), 'time_s,voltage_v\n');
     const before = await snapshot(s.url);
     expect(before.runs.runs).toHaveLength(2);
     expect(before.users.users.length).toBeGreaterThanOrEqual(3);
@@ -103,6 +105,7 @@ describe('backup and restore', () => {
     expect(after.exports).toEqual(before.exports);
     expect(await adminQuery(`SELECT runId, firstSeq, count, HEX(data) AS d FROM \`${database.database}\`.run_sample_chunks ORDER BY runId, firstSeq`)).toEqual(chunksBefore);
     expect(readFileSync(join(dataDir, 'uploads', 'runs', '2', 'teardown.jpg')).equals(photo)).toBe(true);
+    expect(readdirSync(join(dataDir, 'uploads'))).toEqual(['runs']);
     // Users can still sign in with their passwords.
     await signInAs(server!.url, 'viewer');
   }, 120_000);
@@ -130,6 +133,9 @@ describe('backup and restore', () => {
         await new Promise((ok) => setTimeout(ok, 1500));
         expect(readdirSync(scheduledDir).filter((n) => !n.endsWith('.partial'))).toHaveLength(2);
         expect(s.ctx.services.backupStatus).toMatchObject({ lastError: null, keep: 2 });
+        // The health endpoint says backups run, without naming the folder.
+        const health = (await (await fetch(`${s.url}/api/health`)).json()) as { backups: unknown };
+        expect(health.backups).toEqual({ everyHours: 400 / 3_600_000, lastAt: expect.any(String), failing: false });
       } finally {
         await s.close();
       }

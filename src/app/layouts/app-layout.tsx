@@ -6,6 +6,7 @@ import { ThemeToggle } from '../../components/ui/theme-toggle';
 import { ShortcutHelp } from '../../components/ui/shortcut-help';
 import { navItemsFor } from '../nav-items';
 import { PageBoundary } from './page-boundary';
+import { DatabaseStatusBanner } from './database-status-banner';
 
 const ROLE_LABEL = { admin: 'Lab manager', technician: 'Technician', viewer: 'Viewer' } as const;
 
@@ -67,8 +68,13 @@ export function AppLayout() {
         </div>
       </aside>
       <ShortcutHelp />
-      <main className="min-w-0 flex-1 p-4 md:p-8 print:p-0">
-        <PageBoundary />
+      <main className="min-w-0 flex-1 print:p-0">
+        <div className="print:hidden">
+          <DatabaseStatusBanner user={user} />
+        </div>
+        <div className="p-4 md:p-8 print:p-0">
+          <PageBoundary />
+        </div>
       </main>
     </div>
   );

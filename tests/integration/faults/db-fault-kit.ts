@@ -4,7 +4,7 @@
  * signed-in HTTP client and a WebSocket viewer. Everything runs for real; nothing is mocked.
  */
 import { spawn, type ChildProcess } from 'node:child_process';
-import { closeSync, existsSync, mkdirSync, openSync, readFileSync, rmSync, writeSync } from 'node:fs';
+import { appendFileSync, closeSync, existsSync, mkdirSync, openSync, readFileSync, rmSync, writeFileSync, writeSync } from 'node:fs';
 import { createServer } from 'node:net';
 import { join, resolve } from 'node:path';
 import WebSocket from 'ws';
@@ -73,8 +73,15 @@ export async function startFaultServer(name: string, admin: { email: string; pas
     stdio: ['ignore', 'pipe', 'pipe'],
   });
   let out = '';
-  child.stdout!.on('data', (chunk: Buffer) => (out += chunk.toString()));
-  child.stderr!.on('data', (chunk: Buffer) => (out += chunk.toString()));
+  // The server's output is also kept in a file that outlives the data directory, for diagnosis.
+  const logFile = resolve(`.data/faults-${name}-${process.pid}.log`);
+  writeFileSync(logFile, '');
+  const keep = (chunk: Buffer) => {
+    out += chunk.toString();
+    appendFileSync(logFile, chunk);
+  };
+  child.stdout!.on('data', keep);
+  child.stderr!.on('data', keep);
   const exited = new Promise<void>((done) => child.once('exit', () => done()));
   const pidFile = join(dataDir, 'mariadb', 'mariadbd.pid');
   const mariadbPid = () => Number(readFileSync(pidFile, 'utf8').trim());
@@ -277,15 +284,19 @@ export function neverDecreases(values: readonly number[]): boolean {
   return values.every((v, i) => i === 0 || v >= values[i - 1]!);
 }
 
-/** Polls `path` every `everyMs` until `stop()`; records each answer's status and time. */
+/** Polls `path` every `everyMs` until `stop()`; records each answer's status and time (status 0: no answer at all). */
 export function pollApi(api: ApiClient, path: string, everyMs: number) {
   const answers: { atMs: number; status: number; ms: number; body: Body }[] = [];
   let running = true;
   const done = (async () => {
     while (running) {
       const atMs = Date.now();
-      const r = await api.call('GET', path);
-      answers.push({ atMs, status: r.status, ms: r.ms, body: r.body });
+      try {
+        const r = await api.call('GET', path);
+        answers.push({ atMs, status: r.status, ms: r.ms, body: r.body });
+      } catch (err) {
+        answers.push({ atMs, status: 0, ms: Date.now() - atMs, body: String(err) });
+      }
       await new Promise((ok) => setTimeout(ok, everyMs));
     }
   })();
