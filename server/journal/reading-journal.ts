@@ -24,8 +24,9 @@ export interface ReadingJournalOptions {
   log?: (message: string) => void;
   /** Server clock in ms (default Date.now). */
   nowMs?: () => number;
-  /** Injected timer (tests fire the batch by hand). */
+  /** Injected timers (tests fire the batch by hand). */
   setInterval?: (fn: () => void, ms: number) => { unref?: () => void };
+  setImmediate?: (fn: () => void) => void;
   clearInterval?: (handle: unknown) => void;
 }
 
@@ -39,7 +40,7 @@ interface RunJournalState {
   dir: string;
   /** Closed segments, oldest first, and the open one (last) while it takes appends. */
   segments: Segment[];
-  active: { segment: Segment; handle: FileHandle; readings: number } | null;
+  active: { segment: Segment; handle: FileHandle; readings: number; unsynced: boolean } | null;
   pending: string[];
   pendingBytes: number;
   pendingLastIndex: number;
@@ -61,6 +62,9 @@ export interface JournalStats {
   bytes: number;
   dropped: number;
   syncs: number;
+  /** How long the last write of pending lines took (after it, safe from a process crash). */
+  lastWriteMs: number;
+  /** How long the last batch took until every file was fdatasync'd (safe from a power cut). */
   lastSyncMs: number;
   maxSyncMs: number;
 }
@@ -77,9 +81,14 @@ export interface JournalStats {
  */
 export class ReadingJournal {
   private readonly runs = new Map<number, RunJournalState>();
-  private readonly stats: JournalStats = { bytes: 0, dropped: 0, syncs: 0, lastSyncMs: 0, maxSyncMs: 0 };
+  private readonly stats: JournalStats = { bytes: 0, dropped: 0, syncs: 0, lastWriteMs: 0, lastSyncMs: 0, maxSyncMs: 0 };
   private timer: { unref?: () => void } | null = null;
-  private flushing: Promise<void> | null = null;
+  /** Writes and file changes (open, close, delete), one at a time, so two never race on one file. */
+  private queue: Promise<void> = Promise.resolve();
+  /** Batches of fdatasync, one at a time; they run beside later writes, never beside a close. */
+  private syncs: Promise<void> = Promise.resolve();
+  private syncQueued: Promise<void> | null = null;
+  private writeScheduled = false;
   private full = false;
   private readonly now: () => number;
   private readonly log: (message: string) => void;
@@ -115,6 +124,27 @@ export class ReadingJournal {
     run.pendingLastIndex = index;
     run.lastIndex = index;
     this.stats.bytes += line.length;
+    this.scheduleWrite();
+  }
+
+  /**
+   * Once started, what arrived in one turn of the event loop is written right after it:
+   * a crash of the process then loses only the readings of that turn. The fdatasync that
+   * also survives a power cut follows on the batch timer.
+   */
+  private scheduleWrite(): void {
+    if (this.writeScheduled || !this.timer) return;
+    this.writeScheduled = true;
+    (this.opts.setImmediate ?? setImmediate)(() => {
+      this.writeScheduled = false;
+      void this.enqueue(() => this.writeAll());
+    });
+  }
+
+  private enqueue(step: () => Promise<void>): Promise<void> {
+    const next = this.queue.then(step).catch((err: unknown) => this.log(`journal: ${String(err)}`));
+    this.queue = next;
+    return next;
   }
 
   /** The database holds the run's readings below `count`; `ended` once its final batch is in. */
@@ -125,10 +155,21 @@ export class ReadingJournal {
     run.ended ||= ended;
   }
 
+  /** Resolves once the disk work queued so far (writes, syncs) is done. */
+  settled(): Promise<void> {
+    return this.queue;
+  }
+
   /** Writes and syncs everything taken so far, and deletes what the database already holds. */
   flush(): Promise<void> {
-    this.flushing ??= this.flushNow().finally(() => (this.flushing = null));
-    return this.flushing;
+    // A sync waiting in the queue will also take what arrives until it starts: join it.
+    this.syncQueued ??= this.syncs = this.syncs
+      .then(() => {
+        this.syncQueued = null;
+        return this.syncAll();
+      })
+      .catch((err: unknown) => this.log(`journal: ${String(err)}`));
+    return this.syncQueued;
   }
 
   /** Reads every run's journal left by an earlier process; call once, before the first append. */
@@ -204,26 +245,51 @@ export class ReadingJournal {
     return records;
   }
 
-  private async flushNow(): Promise<void> {
+  /** Writes every run's pending lines (from then on a crash of the process cannot lose them). */
+  private async writeAll(): Promise<void> {
     const started = this.now();
-    let synced = false;
-    for (const [runId, run] of this.runs) {
-      try {
-        if (run.pending.length > 0) synced = (await this.writePending(run)) || synced;
-        await this.dropArchived(runId, run);
-      } catch (err) {
-        this.log(`journal: run ${runId} could not be written (${String(err)}); will retry`);
-      }
-    }
-    if (!synced) return;
+    let wrote = false;
+    await Promise.all(
+      [...this.runs].map(async ([runId, run]) => {
+        if (run.pending.length > 0 && (await this.guard(runId, () => this.writePending(run)))) wrote = true;
+      }),
+    );
+    if (wrote) this.stats.lastWriteMs = this.now() - started;
+  }
+
+  /**
+   * One batch: what is pending is written, every file written since the last batch is
+   * fdatasync'd side by side (safe from a power cut too; new writes go on meanwhile), then
+   * full segments are closed and archived ones deleted.
+   */
+  private async syncAll(): Promise<void> {
+    const started = this.now();
+    await this.enqueue(() => this.writeAll());
+    const dirty = [...this.runs].filter(([, run]) => run.active?.unsynced);
+    await Promise.all(dirty.map(([runId, run]) => this.guard(runId, () => this.syncActive(run))));
+    await this.enqueue(async () => {
+      for (const [runId, run] of [...this.runs]) await this.guard(runId, () => this.tidy(runId, run));
+    });
+    if (dirty.length === 0) return;
     const took = this.now() - started;
     this.stats.syncs++;
     this.stats.lastSyncMs = took;
     this.stats.maxSyncMs = Math.max(this.stats.maxSyncMs, took);
   }
 
-  /** Appends a run's pending lines to its open segment (opening one as needed) and syncs it. */
-  private async writePending(run: RunJournalState): Promise<boolean> {
+  /** Runs one step for one run; a failure is logged (the lines stay pending or the file stays) and never spreads. */
+  private async guard(runId: number, step: () => Promise<unknown>): Promise<boolean> {
+    try {
+      await step();
+      return true;
+    } catch (err) {
+      this.log(`journal: run ${runId} could not be written (${String(err)}); will retry`);
+      return false;
+    }
+  }
+
+  /** Appends a run's pending lines to its open segment, opening one as needed (no sync yet). */
+  private async writePending(run: RunJournalState): Promise<void> {
     const lines = run.pending;
     const bytes = run.pendingBytes;
     const lastIndex = run.pendingLastIndex;
@@ -235,22 +301,40 @@ export class ReadingJournal {
       await syncDir(run.dir);
       const segment = { path, lastIndex: -1, bytes: 0 };
       run.segments.push(segment);
-      run.active = { segment, handle, readings: 0 };
+      run.active = { segment, handle, readings: 0, unsynced: false };
     }
     // Taken only once the file is open: a failure above leaves the lines pending for the next try.
     run.pending = [];
     run.pendingBytes = 0;
     const active = run.active;
     await active.handle.write(lines.join(''));
-    await active.handle.datasync();
     active.segment.bytes += bytes;
     active.segment.lastIndex = lastIndex;
     active.readings += lines.length;
-    if (active.readings >= (this.opts.segmentReadings ?? JOURNAL_SEGMENT_READINGS)) {
+    active.unsynced = true;
+  }
+
+  /** Syncs a run's open segment (no close here: a write may be queued on it). */
+  private async syncActive(run: RunJournalState): Promise<void> {
+    const active = run.active;
+    if (!active) return;
+    active.unsynced = false;
+    try {
+      await active.handle.datasync();
+    } catch (err) {
+      active.unsynced = true;
+      throw err;
+    }
+  }
+
+  /** Closes a full, synced segment (the next reading opens a new one), then drops what the archive holds. */
+  private async tidy(runId: number, run: RunJournalState): Promise<void> {
+    const active = run.active;
+    if (active && !active.unsynced && active.readings >= (this.opts.segmentReadings ?? JOURNAL_SEGMENT_READINGS)) {
       run.active = null;
       await active.handle.close();
     }
-    return true;
+    await this.dropArchived(runId, run);
   }
 
   /** Deletes segments the database holds in full; the whole folder once the run has ended. */
