@@ -12,6 +12,7 @@ export const JOURNAL_MAX_BYTES = 256 * 1024 * 1024;
 export const JOURNAL_SEGMENT_READINGS = 5000;
 const SEGMENT_SUFFIX = '.jnl';
 const RUN_PREFIX = 'run-';
+const RUN_FOLDER = /^run-(\d{1,15})$/;
 const INDEX_DIGITS = 12;
 const MS_PER_S = 1000;
 
@@ -177,8 +178,9 @@ export class ReadingJournal {
     await mkdir(this.opts.dir, { recursive: true });
     const found: RecoveredRun[] = [];
     for (const name of (await readdir(this.opts.dir)).sort()) {
-      const runId = Number(name.slice(RUN_PREFIX.length));
-      if (!name.startsWith(RUN_PREFIX) || !Number.isSafeInteger(runId)) continue;
+      const match = RUN_FOLDER.exec(name);
+      const runId = Number(match?.[1]);
+      if (!match || !Number.isSafeInteger(runId)) continue;
       try {
         found.push({ runId, records: await this.recoverRun(runId) });
       } catch (err) {
