@@ -6,6 +6,8 @@ import { decodeJournal, encodeRecord, type JournalRecord } from './journal-recor
 
 /** Readings reach the disk (written and fdatasync'd) at least this often: half the 100 ms promise. */
 export const JOURNAL_SYNC_INTERVAL_MS = 50;
+/** fdatasync calls in flight at once (the rest of the thread pool stays free for writes). */
+export const JOURNAL_SYNC_CONCURRENCY = 2;
 /** Default bound on the journal's bytes (pending and on disk): hours of a busy lab's outage. */
 export const JOURNAL_MAX_BYTES = 256 * 1024 * 1024;
 /** A segment file is closed after this many readings, so archived ones can be deleted in pieces. */
@@ -42,6 +44,8 @@ interface RunJournalState {
   /** Closed segments, oldest first, and the open one (last) while it takes appends. */
   segments: Segment[];
   active: { segment: Segment; handle: FileHandle; readings: number; unsynced: boolean } | null;
+  /** A segment file was created since the folder was last synced. */
+  dirUnsynced: boolean;
   pending: string[];
   pendingBytes: number;
   pendingLastIndex: number;
@@ -221,7 +225,7 @@ export class ReadingJournal {
   private runOf(runId: number): RunJournalState {
     let run = this.runs.get(runId);
     if (!run) {
-      run = { dir: this.runDir(runId), segments: [], active: null, pending: [], pendingBytes: 0, pendingLastIndex: -1, lastIndex: -1, archivedCount: 0, ended: false };
+      run = { dir: this.runDir(runId), segments: [], active: null, pending: [], pendingBytes: 0, pendingLastIndex: -1, lastIndex: -1, archivedCount: 0, ended: false, dirUnsynced: false };
       this.runs.set(runId, run);
     }
     return run;
@@ -268,7 +272,13 @@ export class ReadingJournal {
     const started = this.now();
     await this.enqueue(() => this.writeAll());
     const dirty = [...this.runs].filter(([, run]) => run.active?.unsynced);
-    await Promise.all(dirty.map(([runId, run]) => this.guard(runId, () => this.syncActive(run))));
+    // A few at a time: fdatasync holds a libuv worker thread (4 by default) until the disk
+    // answers, and the writes that keep readings safe from a crash need one free meanwhile.
+    const waiting = [...dirty];
+    const worker = async () => {
+      for (let next = waiting.shift(); next; next = waiting.shift()) await this.guard(next[0], () => this.syncActive(next[1]));
+    };
+    await Promise.all(Array.from({ length: JOURNAL_SYNC_CONCURRENCY }, worker));
     await this.enqueue(async () => {
       for (const [runId, run] of [...this.runs]) await this.guard(runId, () => this.tidy(runId, run));
     });
@@ -300,7 +310,7 @@ export class ReadingJournal {
       const first = JSON.parse(lines[0]!.slice(lines[0]!.indexOf(' ') + 1)) as { i: number };
       const path = join(run.dir, String(first.i).padStart(INDEX_DIGITS, '0') + SEGMENT_SUFFIX);
       const handle = await open(path, 'a');
-      await syncDir(run.dir);
+      run.dirUnsynced = true; // the new name is made durable with the next sync, off the write path
       const segment = { path, lastIndex: -1, bytes: 0 };
       run.segments.push(segment);
       run.active = { segment, handle, readings: 0, unsynced: false };
@@ -322,9 +332,14 @@ export class ReadingJournal {
     if (!active) return;
     active.unsynced = false;
     try {
+      if (run.dirUnsynced) {
+        run.dirUnsynced = false;
+        await syncDir(run.dir);
+      }
       await active.handle.datasync();
     } catch (err) {
       active.unsynced = true;
+      run.dirUnsynced = true;
       throw err;
     }
   }
@@ -343,12 +358,9 @@ export class ReadingJournal {
   private async dropArchived(runId: number, run: RunJournalState): Promise<void> {
     const allArchived = run.pending.length === 0 && run.lastIndex < run.archivedCount;
     if (run.ended && allArchived) return this.discard(runId);
-    for (let first = run.segments[0]; first && first.lastIndex < run.archivedCount; first = run.segments[0]) {
-      if (run.active?.segment === first) {
-        const { handle } = run.active;
-        run.active = null;
-        await handle.close();
-      }
+    // The open segment stays (reopening files each time the archive catches up would cost a
+    // directory sync each); it goes once full and closed, or with the run's folder.
+    for (let first = run.segments[0]; first && first !== run.active?.segment && first.lastIndex < run.archivedCount; first = run.segments[0]) {
       run.segments.shift();
       this.stats.bytes -= first.bytes;
       await unlink(first.path).catch(() => undefined);
