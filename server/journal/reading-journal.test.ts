@@ -47,6 +47,24 @@ describe('ReadingJournal', () => {
     await j.close();
   });
 
+  it('writes what arrived in one turn of the event loop right after it, before any sync', async () => {
+    const immediate: (() => void)[] = [];
+    let synced = 0;
+    const { dir, make } = fresh({ setInterval: () => ({}), clearInterval: () => undefined, setImmediate: (fn) => void immediate.push(fn) });
+    const j = make();
+    j.start();
+    for (let i = 0; i < 3; i++) j.append(1, i, reading(i));
+    expect(immediate).toHaveLength(1); // one write for the whole turn
+    immediate.shift()!();
+    await j.settled();
+    synced = j.getStats().syncs;
+    const segment = join(dir, 'run-1', files(join(dir, 'run-1'))[0]!);
+    expect(readFileSync(segment, 'utf8').split('\n').filter(Boolean)).toHaveLength(3);
+    expect(synced).toBe(0);
+    await j.close();
+    expect(j.getStats().syncs).toBe(1);
+  });
+
   it('cuts off a torn last record (a crash mid-write) with a log line and keeps the rest', async () => {
     const { dir, logs, make } = fresh();
     const a = make();

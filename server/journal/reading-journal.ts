@@ -6,12 +6,15 @@ import { decodeJournal, encodeRecord, type JournalRecord } from './journal-recor
 
 /** Readings reach the disk (written and fdatasync'd) at least this often: half the 100 ms promise. */
 export const JOURNAL_SYNC_INTERVAL_MS = 50;
+/** fdatasync calls in flight at once (the rest of the thread pool stays free for writes). */
+export const JOURNAL_SYNC_CONCURRENCY = 2;
 /** Default bound on the journal's bytes (pending and on disk): hours of a busy lab's outage. */
 export const JOURNAL_MAX_BYTES = 256 * 1024 * 1024;
 /** A segment file is closed after this many readings, so archived ones can be deleted in pieces. */
 export const JOURNAL_SEGMENT_READINGS = 5000;
 const SEGMENT_SUFFIX = '.jnl';
 const RUN_PREFIX = 'run-';
+const RUN_FOLDER = /^run-(\d{1,15})$/;
 const INDEX_DIGITS = 12;
 const MS_PER_S = 1000;
 
@@ -24,8 +27,9 @@ export interface ReadingJournalOptions {
   log?: (message: string) => void;
   /** Server clock in ms (default Date.now). */
   nowMs?: () => number;
-  /** Injected timer (tests fire the batch by hand). */
+  /** Injected timers (tests fire the batch by hand). */
   setInterval?: (fn: () => void, ms: number) => { unref?: () => void };
+  setImmediate?: (fn: () => void) => void;
   clearInterval?: (handle: unknown) => void;
 }
 
@@ -39,7 +43,9 @@ interface RunJournalState {
   dir: string;
   /** Closed segments, oldest first, and the open one (last) while it takes appends. */
   segments: Segment[];
-  active: { segment: Segment; handle: FileHandle; readings: number } | null;
+  active: { segment: Segment; handle: FileHandle; readings: number; unsynced: boolean } | null;
+  /** A segment file was created since the folder was last synced. */
+  dirUnsynced: boolean;
   pending: string[];
   pendingBytes: number;
   pendingLastIndex: number;
@@ -61,6 +67,9 @@ export interface JournalStats {
   bytes: number;
   dropped: number;
   syncs: number;
+  /** How long the last write of pending lines took (after it, safe from a process crash). */
+  lastWriteMs: number;
+  /** How long the last batch took until every file was fdatasync'd (safe from a power cut). */
   lastSyncMs: number;
   maxSyncMs: number;
 }
@@ -77,9 +86,14 @@ export interface JournalStats {
  */
 export class ReadingJournal {
   private readonly runs = new Map<number, RunJournalState>();
-  private readonly stats: JournalStats = { bytes: 0, dropped: 0, syncs: 0, lastSyncMs: 0, maxSyncMs: 0 };
+  private readonly stats: JournalStats = { bytes: 0, dropped: 0, syncs: 0, lastWriteMs: 0, lastSyncMs: 0, maxSyncMs: 0 };
   private timer: { unref?: () => void } | null = null;
-  private flushing: Promise<void> | null = null;
+  /** Writes and file changes (open, close, delete), one at a time, so two never race on one file. */
+  private queue: Promise<void> = Promise.resolve();
+  /** Batches of fdatasync, one at a time; they run beside later writes, never beside a close. */
+  private syncs: Promise<void> = Promise.resolve();
+  private syncQueued: Promise<void> | null = null;
+  private writeScheduled = false;
   private full = false;
   private readonly now: () => number;
   private readonly log: (message: string) => void;
@@ -115,6 +129,27 @@ export class ReadingJournal {
     run.pendingLastIndex = index;
     run.lastIndex = index;
     this.stats.bytes += line.length;
+    this.scheduleWrite();
+  }
+
+  /**
+   * Once started, what arrived in one turn of the event loop is written right after it:
+   * a crash of the process then loses only the readings of that turn. The fdatasync that
+   * also survives a power cut follows on the batch timer.
+   */
+  private scheduleWrite(): void {
+    if (this.writeScheduled || !this.timer) return;
+    this.writeScheduled = true;
+    (this.opts.setImmediate ?? setImmediate)(() => {
+      this.writeScheduled = false;
+      void this.enqueue(() => this.writeAll());
+    });
+  }
+
+  private enqueue(step: () => Promise<void>): Promise<void> {
+    const next = this.queue.then(step).catch((err: unknown) => this.log(`journal: ${String(err)}`));
+    this.queue = next;
+    return next;
   }
 
   /** The database holds the run's readings below `count`; `ended` once its final batch is in. */
@@ -125,10 +160,21 @@ export class ReadingJournal {
     run.ended ||= ended;
   }
 
+  /** Resolves once the disk work queued so far (writes, syncs) is done. */
+  settled(): Promise<void> {
+    return this.queue;
+  }
+
   /** Writes and syncs everything taken so far, and deletes what the database already holds. */
   flush(): Promise<void> {
-    this.flushing ??= this.flushNow().finally(() => (this.flushing = null));
-    return this.flushing;
+    // A sync waiting in the queue will also take what arrives until it starts: join it.
+    this.syncQueued ??= this.syncs = this.syncs
+      .then(() => {
+        this.syncQueued = null;
+        return this.syncAll();
+      })
+      .catch((err: unknown) => this.log(`journal: ${String(err)}`));
+    return this.syncQueued;
   }
 
   /** Reads every run's journal left by an earlier process; call once, before the first append. */
@@ -136,8 +182,9 @@ export class ReadingJournal {
     await mkdir(this.opts.dir, { recursive: true });
     const found: RecoveredRun[] = [];
     for (const name of (await readdir(this.opts.dir)).sort()) {
-      const runId = Number(name.slice(RUN_PREFIX.length));
-      if (!name.startsWith(RUN_PREFIX) || !Number.isSafeInteger(runId)) continue;
+      const match = RUN_FOLDER.exec(name);
+      const runId = Number(match?.[1]);
+      if (!match || !Number.isSafeInteger(runId)) continue;
       try {
         found.push({ runId, records: await this.recoverRun(runId) });
       } catch (err) {
@@ -178,7 +225,7 @@ export class ReadingJournal {
   private runOf(runId: number): RunJournalState {
     let run = this.runs.get(runId);
     if (!run) {
-      run = { dir: this.runDir(runId), segments: [], active: null, pending: [], pendingBytes: 0, pendingLastIndex: -1, lastIndex: -1, archivedCount: 0, ended: false };
+      run = { dir: this.runDir(runId), segments: [], active: null, pending: [], pendingBytes: 0, pendingLastIndex: -1, lastIndex: -1, archivedCount: 0, ended: false, dirUnsynced: false };
       this.runs.set(runId, run);
     }
     return run;
@@ -204,26 +251,57 @@ export class ReadingJournal {
     return records;
   }
 
-  private async flushNow(): Promise<void> {
+  /** Writes every run's pending lines (from then on a crash of the process cannot lose them). */
+  private async writeAll(): Promise<void> {
     const started = this.now();
-    let synced = false;
-    for (const [runId, run] of this.runs) {
-      try {
-        if (run.pending.length > 0) synced = (await this.writePending(run)) || synced;
-        await this.dropArchived(runId, run);
-      } catch (err) {
-        this.log(`journal: run ${runId} could not be written (${String(err)}); will retry`);
-      }
-    }
-    if (!synced) return;
+    let wrote = false;
+    await Promise.all(
+      [...this.runs].map(async ([runId, run]) => {
+        if (run.pending.length > 0 && (await this.guard(runId, () => this.writePending(run)))) wrote = true;
+      }),
+    );
+    if (wrote) this.stats.lastWriteMs = this.now() - started;
+  }
+
+  /**
+   * One batch: what is pending is written, every file written since the last batch is
+   * fdatasync'd side by side (safe from a power cut too; new writes go on meanwhile), then
+   * full segments are closed and archived ones deleted.
+   */
+  private async syncAll(): Promise<void> {
+    const started = this.now();
+    await this.enqueue(() => this.writeAll());
+    const dirty = [...this.runs].filter(([, run]) => run.active?.unsynced);
+    // A few at a time: fdatasync holds a libuv worker thread (4 by default) until the disk
+    // answers, and the writes that keep readings safe from a crash need one free meanwhile.
+    const waiting = [...dirty];
+    const worker = async () => {
+      for (let next = waiting.shift(); next; next = waiting.shift()) await this.guard(next[0], () => this.syncActive(next[1]));
+    };
+    await Promise.all(Array.from({ length: JOURNAL_SYNC_CONCURRENCY }, worker));
+    await this.enqueue(async () => {
+      for (const [runId, run] of [...this.runs]) await this.guard(runId, () => this.tidy(runId, run));
+    });
+    if (dirty.length === 0) return;
     const took = this.now() - started;
     this.stats.syncs++;
     this.stats.lastSyncMs = took;
     this.stats.maxSyncMs = Math.max(this.stats.maxSyncMs, took);
   }
 
-  /** Appends a run's pending lines to its open segment (opening one as needed) and syncs it. */
-  private async writePending(run: RunJournalState): Promise<boolean> {
+  /** Runs one step for one run; a failure is logged (the lines stay pending or the file stays) and never spreads. */
+  private async guard(runId: number, step: () => Promise<unknown>): Promise<boolean> {
+    try {
+      await step();
+      return true;
+    } catch (err) {
+      this.log(`journal: run ${runId} could not be written (${String(err)}); will retry`);
+      return false;
+    }
+  }
+
+  /** Appends a run's pending lines to its open segment, opening one as needed (no sync yet). */
+  private async writePending(run: RunJournalState): Promise<void> {
     const lines = run.pending;
     const bytes = run.pendingBytes;
     const lastIndex = run.pendingLastIndex;
@@ -232,37 +310,57 @@ export class ReadingJournal {
       const first = JSON.parse(lines[0]!.slice(lines[0]!.indexOf(' ') + 1)) as { i: number };
       const path = join(run.dir, String(first.i).padStart(INDEX_DIGITS, '0') + SEGMENT_SUFFIX);
       const handle = await open(path, 'a');
-      await syncDir(run.dir);
+      run.dirUnsynced = true; // the new name is made durable with the next sync, off the write path
       const segment = { path, lastIndex: -1, bytes: 0 };
       run.segments.push(segment);
-      run.active = { segment, handle, readings: 0 };
+      run.active = { segment, handle, readings: 0, unsynced: false };
     }
     // Taken only once the file is open: a failure above leaves the lines pending for the next try.
     run.pending = [];
     run.pendingBytes = 0;
     const active = run.active;
     await active.handle.write(lines.join(''));
-    await active.handle.datasync();
     active.segment.bytes += bytes;
     active.segment.lastIndex = lastIndex;
     active.readings += lines.length;
-    if (active.readings >= (this.opts.segmentReadings ?? JOURNAL_SEGMENT_READINGS)) {
+    active.unsynced = true;
+  }
+
+  /** Syncs a run's open segment (no close here: a write may be queued on it). */
+  private async syncActive(run: RunJournalState): Promise<void> {
+    const active = run.active;
+    if (!active) return;
+    active.unsynced = false;
+    try {
+      if (run.dirUnsynced) {
+        run.dirUnsynced = false;
+        await syncDir(run.dir);
+      }
+      await active.handle.datasync();
+    } catch (err) {
+      active.unsynced = true;
+      run.dirUnsynced = true;
+      throw err;
+    }
+  }
+
+  /** Closes a full, synced segment (the next reading opens a new one), then drops what the archive holds. */
+  private async tidy(runId: number, run: RunJournalState): Promise<void> {
+    const active = run.active;
+    if (active && !active.unsynced && active.readings >= (this.opts.segmentReadings ?? JOURNAL_SEGMENT_READINGS)) {
       run.active = null;
       await active.handle.close();
     }
-    return true;
+    await this.dropArchived(runId, run);
   }
 
   /** Deletes segments the database holds in full; the whole folder once the run has ended. */
   private async dropArchived(runId: number, run: RunJournalState): Promise<void> {
     const allArchived = run.pending.length === 0 && run.lastIndex < run.archivedCount;
     if (run.ended && allArchived) return this.discard(runId);
-    for (let first = run.segments[0]; first && first.lastIndex < run.archivedCount; first = run.segments[0]) {
-      if (run.active?.segment === first) {
-        const { handle } = run.active;
-        run.active = null;
-        await handle.close();
-      }
+    // The open segment stays (reopening files each time the archive catches up would cost a
+    // directory sync each); it goes once full and closed, or with the run's folder.
+    for (let first = run.segments[0]; first && first !== run.active?.segment && first.lastIndex < run.archivedCount; first = run.segments[0]) {
       run.segments.shift();
       this.stats.bytes -= first.bytes;
       await unlink(first.path).catch(() => undefined);

@@ -101,9 +101,10 @@ export function liveAttachment(options: LiveOptions = {}) {
       for (const off of unsubscribe) off();
       recorder.detach();
       hub.close();
-      delete ctx.services.runRecorder;
       await writer.shutdown(SHUTDOWN_FLUSH_MS);
       await journal.close();
+      // Only now: until the archive holds everything, run requests still see the live totals, not the lagging row.
+      delete ctx.services.runRecorder;
     };
   };
 }

@@ -2,7 +2,7 @@ import type { StartRunRequestSchema, StoredRunEvent } from '../../shared/schemas
 import type { BenchStatus } from '../../shared/schemas/bench.js';
 import { FrameSchema, type Frame } from '../../shared/schemas/frame.js';
 import type { Reading } from '../../shared/schemas/reading.js';
-import type { Run } from '../../shared/schemas/run.js';
+import { LIVE_RUN_STATES, type Run } from '../../shared/schemas/run.js';
 import type { z } from 'zod';
 import type { ArchiveWriter } from '../archive/archive-writer.js';
 import { HttpError, notFound } from '../http/http-error.js';
@@ -177,9 +177,23 @@ export class RunRecorder {
     if (!session) {
       const run = await this.deps.repo.get(runId);
       if (!run) throw notFound(`Run ${runId}`);
+      if (run.origin === 'live' && LIVE_RUN_STATES.includes(run.state)) return this.endStranded(run, abort ? 'aborted' : 'finished');
       throw new HttpError(409, `Run ${runId} is ${run.state}, not live`);
     }
     return this.endSession(session, abort ? 'aborted' : 'finished');
+  }
+
+  /**
+   * Ends a run the database still calls live but no session records here (its stored state
+   * could not be resumed): as it stands, so a person can always close it.
+   */
+  private endStranded(run: Run, state: 'finished' | 'aborted'): Run {
+    const endedAt = new Date();
+    this.deps.writer.enqueue({ runId: run.id, block: null, events: [], patch: { state, endedAt, pipelineState: null } });
+    this.log(`run ${run.id} was ${run.state} without a live session; ended as ${state}`);
+    const ended: Run = { ...run, state, endedAt: endedAt.toISOString() };
+    this.runChanges.emit(ended);
+    return ended;
   }
 
   /** Adds an annotation at a run time (default: the latest reading) and tells every viewer. */

@@ -3,6 +3,7 @@ import { QueryTypes } from 'sequelize';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { attachBenchManager } from '../../server/benches/attach-bench-manager.js';
 import { liveAttachment } from '../../server/live/attach-live.js';
+import { RunsRepo } from '../../server/runs/runs-repo.js';
 import { openPtyPair, type PtyPair } from '../../simulator/transport/socat.js';
 import { createTestContext, signInAs, type SignedInAgent, type TestContext } from './helpers/index.js';
 import { eventually, tempSpillDir } from './runs-kit.js';
@@ -148,5 +149,23 @@ describe('a meter value far outside sense', () => {
     await viewer.get(`/api/runs/${finished.id}`).expect(200);
     expect((await tech.post(`/api/runs/${run.id}/stop`).expect(200)).body.run.state).toBe('finished');
     await eventually(async () => expect((await viewer.get(`/api/runs/${run.id}`).expect(200)).body.run.state).toBe('finished'));
+  }, 30_000);
+
+  it('ends a run stuck "recording" without a live session (its stored state could not be resumed)', async () => {
+    const battery = (await tech.post('/api/batteries').send({ label: '12.8 V 30 Ah', brand: 'Voltara', chemistry: 'lfp', cellsInSeries: 4, ratedAh: 30 }).expect(201)).body.battery;
+    const repo = new RunsRepo(t.ctx.sequelize);
+    const config = { kind: 'capacity-discharge' as const, endVolts: null, acceptancePercent: 100, alarms: { onCutoff: true }, stopWhen: 'manual' as const, targetAh: null, targetWh: null, afterRecoverySeconds: 0 };
+    const stuck = await repo.create({ name: 'Stuck', tags: [], origin: 'live', benchId: null, batteryId: battery.id, state: 'recording', config, createdById: null, startedAt: new Date() });
+    const aborted = await repo.create({ name: 'Stuck too', tags: [], origin: 'live', benchId: null, batteryId: battery.id, state: 'cutoff', config, createdById: null, startedAt: new Date() });
+    await t.ctx.sequelize.query('UPDATE runs SET pipelineState = ? WHERE id IN (?, ?)', { replacements: ['{"version":1,"pipeline":null}', stuck.id, aborted.id], type: QueryTypes.UPDATE });
+    expect((await tech.post(`/api/runs/${stuck.id}/stop`).expect(200)).body.run.state).toBe('finished');
+    expect((await tech.post(`/api/runs/${aborted.id}/abort`).expect(200)).body.run.state).toBe('aborted');
+    await eventually(async () => {
+      const r = (await viewer.get(`/api/runs/${stuck.id}`).expect(200)).body.run;
+      expect([r.state, r.endedAt !== null]).toEqual(['finished', true]);
+      expect((await viewer.get(`/api/runs/${aborted.id}`).expect(200)).body.run.state).toBe('aborted');
+    });
+    // Ended runs are no longer live: a second stop is refused as before.
+    await tech.post(`/api/runs/${stuck.id}/stop`).expect(409);
   }, 30_000);
 });

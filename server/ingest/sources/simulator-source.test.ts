@@ -30,6 +30,22 @@ describe('SimulatorSource', () => {
     expect(source.getStatus().state).toBe('idle');
   });
 
+  it('counts frames outside the bench\'s physical bounds as bad, with the reason, and never hands them on', async () => {
+    const clock = new ManualClock();
+    const frames: Frame[] = [];
+    // The scenario's 12.8 V pack under a 600 W load draws about 47 A: a 40 A bound refuses every frame.
+    const config = SimulatorSourceConfigSchema.parse({ kind: 'simulator', scenario: SCENARIO, speed: 10, seed: 7, limits: { maxAbsAmps: 40 } });
+    const source = new SimulatorSource(config, { frame: (f) => frames.push(f), status: () => undefined }, clock);
+    source.start();
+    clock.advance(2000);
+    const status = source.getStatus();
+    expect(status.framesRejected).toBeGreaterThanOrEqual(20);
+    expect(status.framesOk).toBe(frames.length);
+    expect(frames.every((f) => Math.abs(f.amps) <= 40)).toBe(true);
+    expect(status.lastRejection).toMatch(/^amps \d+(\.\d+)? beyond ±40 A$/);
+    await source.stop();
+  });
+
   it('turns an unknown scenario into an error status instead of throwing', () => {
     const statuses: BenchStatus[] = [];
     const config = SimulatorSourceConfigSchema.parse({ kind: 'simulator', scenario: 'no-such-thing' });
