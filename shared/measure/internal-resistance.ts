@@ -15,6 +15,7 @@ export interface LoadStep {
   ohms: number;
 }
 
+/** How load steps are told apart from noise (defaults suit a logging meter). */
 export interface LoadStepOptions {
   /** Smallest change of mean current that can count as a step, A (the noise may ask for more). */
   minStepAmps?: number;
@@ -60,6 +61,7 @@ export const LoadStepStateSchema = z.object({
   ohms: z.array(z.number()),
   steps: z.number().int().nonnegative(),
 });
+/** The step finder's state, as checked by LoadStepStateSchema. */
 export type LoadStepState = z.infer<typeof LoadStepStateSchema>;
 
 /** A fresh step finder. */
