@@ -52,7 +52,7 @@ export function createImportHandler(ctx: AppContext, repo: RunsRepo, getBattery:
         const tags = split.data;
         const result = await importRun(ctx.sequelize, repo, {
           filePath: file.path, name: fields.name, tags, battery, endVolts: fields.endVolts,
-          currentSign: fields.currentSign, columns, userId: req.user!.id, timeZone: (await getLabSettings(ctx.models)).timeZone,
+          currentSign: fields.currentSign, columns, userId: req.user!.id, maxGapSeconds: fields.maxGapSeconds, timeZone: (await getLabSettings(ctx.models)).timeZone,
         });
         if (file) await unlink(file.path).catch(() => undefined);
         res.status(201).json(result);

@@ -25,6 +25,8 @@ export interface ImportRequest {
   userId: number;
   /** The lab's zone, for timestamps written without one. */
   timeZone?: string;
+  /** Gap limit typed on the import form, s (absent: from the file's cadence). */
+  maxGapSeconds?: number;
 }
 
 /** Pass 1: check every row and learn the sign of the current, holding nothing but counts. */
@@ -75,7 +77,7 @@ export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: Impor
     targetAh: null,
     targetWh: null,
     afterRecoverySeconds: 0,
-    maxGapSeconds: null,
+    maxGapSeconds: req.maxGapSeconds ?? null,
   };
   const run = await repo.create({
     name: req.name, tags: req.tags, origin: 'import', benchId: null, batteryId: req.battery?.id ?? null,

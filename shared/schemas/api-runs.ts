@@ -147,6 +147,8 @@ export const ImportFieldsSchema = z.object({
   tags: z.string().max(1000).optional(),
   /** JSON text of ImportColumnMap. */
   columns: z.string().max(2000).optional(),
+  /** Gap limit, s: a step between rows longer than this is a gap. Absent: from the file's own cadence. */
+  maxGapSeconds: z.coerce.number().finite().positive().max(MAX_GAP_LIMIT_SECONDS).optional(),
 });
 
 /** The short summary the import answers with. */

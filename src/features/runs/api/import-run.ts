@@ -7,6 +7,8 @@ export interface ImportRunInput {
   name: string;
   batteryId?: number;
   endVolts?: number;
+  /** Gap limit, s (absent: judged from the file's own cadence). */
+  maxGapSeconds?: number;
   currentSign: 'discharge-positive' | 'discharge-negative' | 'auto';
   tags?: string;
   /** Header names in the file, for columns Kneepoint does not recognise by itself. */
@@ -21,6 +23,7 @@ export function importRun(input: ImportRunInput) {
   form.set('currentSign', input.currentSign);
   if (input.batteryId !== undefined) form.set('batteryId', String(input.batteryId));
   if (input.endVolts !== undefined) form.set('endVolts', String(input.endVolts));
+  if (input.maxGapSeconds !== undefined) form.set('maxGapSeconds', String(input.maxGapSeconds));
   if (input.tags) form.set('tags', input.tags);
   if (input.columns && Object.keys(input.columns).length > 0) form.set('columns', JSON.stringify(input.columns));
   return api('/api/runs/import', { method: 'POST', body: form, schema: ImportResponseSchema });

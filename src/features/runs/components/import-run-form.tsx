@@ -2,6 +2,7 @@ import { useState, type FormEvent } from 'react';
 import { useNavigate } from 'react-router-dom';
 import { Button } from '../../../components/ui/button';
 import { SelectField, TextField } from '../../../components/ui/field';
+import { MAX_GAP_LIMIT_SECONDS } from '../../../../shared/schemas/api-runs';
 import { useLabSettings } from '../../../lib/lab-settings';
 import { formatCharge, formatDuration, formatEnergy } from '../../../lib/units';
 import { useBatteryChoices } from '../api/get-batteries';
@@ -37,6 +38,7 @@ export function ImportRunForm({ onDone }: { onDone: () => void }) {
   const [name, setName] = useState('');
   const [batteryId, setBatteryId] = useState('');
   const [endVolts, setEndVolts] = useState('');
+  const [maxGap, setMaxGap] = useState('');
   const [currentSign, setCurrentSign] = useState<ImportRunInput['currentSign']>('auto');
   const [error, setError] = useState<string | null>(null);
   const [columns, setColumns] = useState<Record<ColumnKey, string>>({ time: '', volts: '', amps: '', temp: '' });
@@ -46,9 +48,10 @@ export function ImportRunForm({ onDone }: { onDone: () => void }) {
     if (!file) return setError('Choose a CSV file.');
     if (!name.trim()) return setError('Give the run a name.');
     if (endVolts && !(Number(endVolts) > 0)) return setError('The end voltage must be a number above 0 V.');
+    if (maxGap && !(Number(maxGap) > 0 && Number(maxGap) <= MAX_GAP_LIMIT_SECONDS)) return setError(`The gap limit must be between 0 and ${MAX_GAP_LIMIT_SECONDS} s, or empty.`);
     setError(null);
     importRun.mutate(
-      { file, name: name.trim(), currentSign, batteryId: batteryId ? Number(batteryId) : undefined, endVolts: endVolts ? Number(endVolts) : undefined, columns: columnMap(columns) },
+      { file, name: name.trim(), currentSign, batteryId: batteryId ? Number(batteryId) : undefined, endVolts: endVolts ? Number(endVolts) : undefined, maxGapSeconds: maxGap ? Number(maxGap) : undefined, columns: columnMap(columns) },
       { onSuccess: (r) => navigate(`/runs/${r.run.id}`) },
     );
   };
@@ -78,6 +81,13 @@ export function ImportRunForm({ onDone }: { onDone: () => void }) {
         options={[{ value: '', label: 'Not linked to a pack' }, ...(batteries.data ?? []).map((b) => ({ value: String(b.id), label: `${b.label} · ${b.brand}` }))]}
       />
       <TextField label="End voltage of the pack (V, optional)" inputMode="decimal" value={endVolts} onChange={(e) => setEndVolts(e.target.value)} />
+      <TextField
+        label="Gap limit (s, optional)"
+        inputMode="decimal"
+        value={maxGap}
+        onChange={(e) => setMaxGap(e.target.value)}
+        hint="A step between rows longer than this is a marked gap, not integrated. Empty: judged from the log's own pace."
+      />
       <SelectField label="Current sign in the file" value={currentSign} onChange={(e) => setCurrentSign(e.target.value as ImportRunInput['currentSign'])} options={SIGN_OPTIONS} />
       <details open={columnTrouble || undefined} className="rounded-lg border border-line p-3 md:col-span-2">
         <summary className="cursor-pointer text-sm font-medium">Columns named differently?</summary>
