@@ -22,6 +22,7 @@ export const RoundTripStateSchema = z.object({
   peakChargeAmps: z.number(),
   lastChargeAmps: z.number(),
 });
+/** The round-trip tracker's state, as checked by RoundTripStateSchema. */
 export type RoundTripState = z.infer<typeof RoundTripStateSchema>;
 
 /** A charge whose last current is at most this share of its peak has tapered (CV finish). */

@@ -76,6 +76,8 @@ export function createRunPipeline(config: MeasureConfigInput, snapshot?: unknown
   let cfg = MeasureConfigSchema.parse(config);
   let settings = resolveDetectorSettings(cfg);
   let gapLimit = resolveGapLimit(cfg);
+  // Built once per config, not per frame (the pipeline's per-frame work allocates nothing it can avoid).
+  let stepOptions = { collapseVolts: settings.collapseVolts };
   let originT: number | null = cfg.originT ?? null;
   let integ = createIntegratorState();
   let det = createDetectorState(settings);
@@ -87,6 +89,7 @@ export function createRunPipeline(config: MeasureConfigInput, snapshot?: unknown
     cfg = snap.config;
     settings = resolveDetectorSettings(cfg);
     gapLimit = resolveGapLimit(cfg);
+    stepOptions = { collapseVolts: settings.collapseVolts };
     originT = snap.originT;
     integ = snap.integrator;
     det = snap.detector as unknown as DetectorState;
@@ -112,7 +115,7 @@ export function createRunPipeline(config: MeasureConfigInput, snapshot?: unknown
     };
     updateRunStats(stats, elapsedSeconds, frame.volts, frame.amps, frame.temps, settings.loadOnAmps, outcome === 'gap');
     trackRoundTrip(stats.roundTrip, reading, settings.loadOnAmps, settings.zeroAmps);
-    trackLoadSteps(stats.loadSteps, { t: elapsedSeconds, volts: frame.volts, amps: frame.amps }, outcome === 'gap', { collapseVolts: settings.collapseVolts });
+    trackLoadSteps(stats.loadSteps, reading, outcome === 'gap', stepOptions);
     scratch.length = 0;
     if (outcome === 'gap' && prevT !== null) scratch.push({ type: 'gap', t: prevT - originT, endT: elapsedSeconds, gapSeconds: frame.t - prevT });
     detectStep(det, settings, reading, scratch);

@@ -8,8 +8,9 @@
 export const STANDARD_RATE_C = 0.2;
 /** A mean rate further than this share from the standard's is flagged (our tolerance, not the standard's). */
 export const RATE_TOLERANCE_SHARE = 0.1;
-/** The standard's test temperature and its tolerance, °C. */
+/** The standard's test temperature, °C. */
 export const STANDARD_TEMP_CELSIUS = 20;
+/** …and its tolerance either side, °C. */
 export const STANDARD_TEMP_TOLERANCE_CELSIUS = 5;
 
 /** Whether a run's rate and temperature lie outside the standard's (null when not known). */

@@ -89,6 +89,22 @@ describe('POST /api/runs/import', () => {
     expect(res.body.summary.percentOfRated).toBeUndefined();
   });
 
+  it('takes a gap limit typed on the import: a log every 60 s integrates, a real hole is still a gap', async () => {
+    // 10 A at 12.8 V, one row a minute for 5 h 14 min (315 rows), then a 30-minute hole and 10 more rows.
+    const rows = Array.from({ length: 315 }, (_, i) => `${i * 60},12.8,10`);
+    for (let i = 0; i < 10; i++) rows.push(`${314 * 60 + 1800 + i * 60},12.8,10`);
+    const res = await tech
+      .post('/api/runs/import')
+      .field('name', 'minute log')
+      .field('maxGapSeconds', '180')
+      .attach('file', Buffer.from('t_s,volts_v,amps_a\n' + rows.join('\n') + '\n'), 'minutes.csv')
+      .expect(201);
+    // Analytic: (314 + 9) intervals × 60 s at 10 A × 12.8 V = 689.066… Wh; the 1,800 s hole is not integrated.
+    expect(res.body.fullSummary).toMatchObject({ gaps: 1, maxGapSeconds: 180, gapLimitBasis: 'explicit' });
+    expect(res.body.fullSummary.dischargeWh).toBeCloseTo((323 * 60 * 10 * 12.8) / 3600, 9);
+    await tech.post('/api/runs/import').field('name', 'x').field('maxGapSeconds', '-5').attach('file', NASA_CSV).expect(400);
+  });
+
   it('refuses a viewer', async () => {
     await viewer.post('/api/runs/import').field('name', 'x').attach('file', NASA_CSV).expect(403);
   });

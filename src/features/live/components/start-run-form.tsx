@@ -123,7 +123,7 @@ export function StartRunForm({ benchId, onStarted, packCelsius = null, tempChann
         {kind !== 'protection-check' && (
           <label className="flex min-h-11 items-center gap-3 md:col-span-2">
             <input type="checkbox" className="h-5 w-5" {...register('protectionEndsTest')} />
-            A protection trip ends the test (capacity to the first trip). Unticked: a trip that reconnects is listed and the test runs on to the end voltage.
+            A protection trip ends the test (capacity to the first trip). Unticked: a trip after which the discharge comes back is listed, and the test runs on to the end voltage.
           </label>
         )}
         {kind === 'protection-check' && (

@@ -42,6 +42,27 @@ describe('runs page', () => {
     expect(headers.get('Content-Type')).toBeNull();
   });
 
+  it('sends a typed gap limit, and sends none when the field is left empty', async () => {
+    const { calls } = stubApi(demoUser('technician'), (url, init) => {
+      if (url.startsWith('/api/runs?')) return emptyRuns;
+      if (url === '/api/batteries') return { status: 200, body: { batteries: [] } };
+      if (url === '/api/runs/import' && init?.method === 'POST') return { status: 400, body: { error: { message: 'stop here' } } };
+      return undefined;
+    });
+    renderAt('/runs');
+    await userEvent.click(await screen.findByRole('button', { name: 'Import a CSV log' }));
+    await userEvent.upload(screen.getByLabelText(/CSV file/), new File(['t_s,volts,amps\n0,12.8,10\n60,12.8,10\n'], 'minutes.csv', { type: 'text/csv' }));
+    await userEvent.type(screen.getByLabelText('Run name'), 'Minute log');
+    const posts = () => calls.filter((c) => c.url === '/api/runs/import').map((c) => c.init!.body as FormData);
+    await userEvent.click(screen.getByRole('button', { name: 'Import' }));
+    await screen.findByRole('alert');
+    expect(posts()[0]!.get('maxGapSeconds')).toBeNull();
+    await userEvent.type(screen.getByLabelText('Gap limit (s, optional)'), '180');
+    await userEvent.click(screen.getByRole('button', { name: 'Import' }));
+    await waitFor(() => expect(posts()).toHaveLength(2));
+    expect(posts()[1]!.get('maxGapSeconds')).toBe('180');
+  });
+
   it('asks for a file before sending anything', async () => {
     const { calls } = stubApi(demoUser('technician'), (url) => (url.startsWith('/api/runs?') ? emptyRuns : url === '/api/batteries' ? { status: 200, body: { batteries: [] } } : undefined));
     renderAt('/runs');
