@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { PROTECTIONS, ProtectionSpecSchema } from './protection-check.js';
 
 /** Cell chemistries Kneepoint knows end voltages for (trade abbreviations). */
 export const CHEMISTRIES = ['lfp', 'nmc', 'nca', 'lco', 'lmo', 'lto', 'lead-acid', 'nimh'] as const;
@@ -29,6 +30,12 @@ const BatteryFieldsSchema = z.object({
   serialNumber: optionalText(120),
   sender: optionalText(200),
   notes: optionalText(4000),
+  /** What the pack's maker states for each protection (threshold in °C, pack V or A; delay; release); one entry per protection. */
+  protectionSpecs: z
+    .array(ProtectionSpecSchema)
+    .max(PROTECTIONS.length)
+    .refine((specs) => new Set(specs.map((s) => s.protection)).size === specs.length, { message: 'One entry per protection' })
+    .optional(),
 });
 
 /** Fields a technician sends to create a battery pack record (a single cell group by default). */
@@ -55,6 +62,7 @@ export const BatterySchema = BatteryInputSchema.extend({
   serialNumber: z.string().nullable(),
   sender: z.string().nullable(),
   notes: z.string().nullable(),
+  protectionSpecs: z.array(ProtectionSpecSchema),
   createdAt: z.string(),
   updatedAt: z.string(),
 });

@@ -9,7 +9,7 @@ const now = '2026-12-01T20:00:00Z';
 const pack: Battery = {
   id: 4, label: 'NG-0142', brand: 'Hollis Power', model: 'Keep 12-35', chemistry: 'lead-acid', cellsInSeries: 6, cellsInParallel: 1,
   ratedAh: 35, ratedWh: 420, bmsRatedAmps: null, massKg: 10.8, price: null, priceCurrency: null, serialNumber: 'HP-K12-1180',
-  sender: null, notes: null, createdAt: now, updatedAt: now,
+  sender: null, notes: null, protectionSpecs: [], createdAt: now, updatedAt: now,
 };
 
 describe('battery packs page', () => {

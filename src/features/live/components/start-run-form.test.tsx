@@ -9,7 +9,7 @@ const now = '2026-12-01T20:00:00Z';
 const pack: Battery = {
   id: 3, label: 'Kestrel 12 V camper', brand: 'Kestrel Energy', model: 'Nomad 12-50', chemistry: 'lfp', cellsInSeries: 4, cellsInParallel: 1,
   ratedAh: 50, ratedWh: 640, bmsRatedAmps: 50, massKg: 6.2, price: null, priceCurrency: null, serialNumber: null,
-  sender: null, notes: null, createdAt: now, updatedAt: now,
+  sender: null, notes: null, protectionSpecs: [], createdAt: now, updatedAt: now,
 };
 
 describe('start form: protection check', () => {
