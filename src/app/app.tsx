@@ -1,13 +1,16 @@
 import { createBrowserRouter, RouterProvider } from 'react-router-dom';
+import { createQueryClient } from '../lib/query-client';
 import { AppProvider } from './provider';
-import { routes } from './routes';
+import { createRoutes } from './routes';
 
-const router = createBrowserRouter(routes);
+// One query client for the app and its routes' prefetches.
+const queryClient = createQueryClient();
+const router = createBrowserRouter(createRoutes(queryClient));
 
 /** The whole client: providers around the router. */
 export function App() {
   return (
-    <AppProvider>
+    <AppProvider queryClient={queryClient}>
       <RouterProvider router={router} />
     </AppProvider>
   );

@@ -2,8 +2,10 @@ import { queryOptions, useQuery } from '@tanstack/react-query';
 import { z } from 'zod';
 import { LabSettingsSchema, type LabSettings } from '../../shared/schemas/lab-settings';
 import { api } from './api-client';
+import { queryKeys } from './queries/query-keys';
 
-export const LAB_SETTINGS_QUERY_KEY = ['settings'] as const;
+/** Query key of the lab's settings. */
+export const LAB_SETTINGS_QUERY_KEY = queryKeys.settings;
 
 /** GET /api/settings (every signed-in role reads it: units and time zone apply to all screens). */
 export const labSettingsQueryOptions = () =>

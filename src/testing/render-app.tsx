@@ -7,7 +7,7 @@ import type { ServerMessage, Topic } from '../../shared/schemas/ws';
 import { LiveSocketContext } from '../lib/use-live';
 import { createQueryClient } from '../lib/query-client';
 import { AppProvider } from '../app/provider';
-import { routes } from '../app/routes';
+import { createRoutes } from '../app/routes';
 
 /** A demo user of the fictional Northgate Cell Lab, in the role a test needs. */
 export function demoUser(role: PublicUser['role']): PublicUser {
@@ -61,7 +61,7 @@ export function renderAt(path: string, socket: FakeSocket = fakeLiveSocket(() =>
   // The app's own client (with its 401 handling), minus retries so failures show at once.
   const queryClient = createQueryClient();
   queryClient.setDefaultOptions({ ...queryClient.getDefaultOptions(), queries: { ...queryClient.getDefaultOptions().queries, retry: false } });
-  const router = createMemoryRouter(routes, { initialEntries: [path] });
+  const router = createMemoryRouter(createRoutes(queryClient), { initialEntries: [path] });
   const view = render(
     (
       <LiveSocketContext.Provider value={socket}>

@@ -22,6 +22,14 @@ vi.mock('uplot', () => {
       this.data = data;
       this.setDataCalls++;
     }
+    scaleCalls: { key: string; limits: unknown }[] = [];
+    redrawCalls = 0;
+    setScale(key: string, limits: unknown) {
+      this.scaleCalls.push({ key, limits });
+    }
+    redraw() {
+      this.redrawCalls++;
+    }
     setSize() {}
     setSelect() {}
     destroy() {}

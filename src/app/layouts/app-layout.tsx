@@ -1,11 +1,11 @@
-import { NavLink, Outlet, useNavigate } from 'react-router-dom';
+import { NavLink, useNavigate } from 'react-router-dom';
 import { useMe } from '../../features/auth/api/get-me';
 import { useLogout } from '../../features/auth/api/logout';
 import { Logo } from '../../components/ui/logo';
 import { ThemeToggle } from '../../components/ui/theme-toggle';
 import { ShortcutHelp } from '../../components/ui/shortcut-help';
 import { navItemsFor } from '../nav-items';
-import { RouteErrorBoundary } from './route-error-boundary';
+import { PageBoundary } from './page-boundary';
 
 const ROLE_LABEL = { admin: 'Lab manager', technician: 'Technician', viewer: 'Viewer' } as const;
 
@@ -68,9 +68,7 @@ export function AppLayout() {
       </aside>
       <ShortcutHelp />
       <main className="min-w-0 flex-1 p-4 md:p-8 print:p-0">
-        <RouteErrorBoundary>
-          <Outlet />
-        </RouteErrorBoundary>
+        <PageBoundary />
       </main>
     </div>
   );

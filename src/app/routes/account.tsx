@@ -3,7 +3,7 @@ import { ChangePasswordForm } from '../../features/auth/components/change-passwo
 import { Card, PageHeader } from '../../components/ui/card';
 
 /** The signed-in user's own page: who they are and a password change. */
-export function AccountRoute() {
+export function Component() {
   const me = useMe();
   return (
     <>

@@ -38,3 +38,21 @@ describe('HistoryChart', () => {
     expect(instances[instances.length - 1].data[5]).toEqual([23.4, 23.5]);
   });
 });
+
+describe('HistoryChart zoom', () => {
+  it('keeps one uPlot instance and zooms with setData and setScale', () => {
+    const whole: SamplesResponse = {
+      runId: 1, from: 0, to: 100, reduced: true, bucketSeconds: 50, readingsInWindow: 100,
+      t: [0, 50], volts: col([13.2, 13.0]), amps: col([45, 45]), watts: col([594, 585]), temps: {},
+    };
+    const zoomed: SamplesResponse = { ...whole, from: 10, to: 20, reduced: false, bucketSeconds: null, t: [10, 20] };
+    const before = instances.length;
+    const view = render(<HistoryChart samples={whole} onZoom={() => {}} />);
+    view.rerender(<HistoryChart samples={zoomed} onZoom={() => {}} />);
+    expect(instances.length).toBe(before + 1);
+    const plot = instances[instances.length - 1] as unknown as { data: unknown[][]; setDataCalls: number; scaleCalls: { key: string; limits: unknown }[] };
+    expect(plot.setDataCalls).toBe(1);
+    expect(plot.data[0]).toEqual([10, 20]);
+    expect(plot.scaleCalls).toEqual([{ key: 'x', limits: { min: 10, max: 20 } }]);
+  });
+});

@@ -3,7 +3,7 @@ import uPlot from 'uplot';
 import 'uplot/dist/uPlot.min.css';
 import type { SamplesResponse } from '../../../shared/schemas/api-runs';
 import { pickTempChannel } from '../../lib/live-view';
-import { SIGNAL_COLORS } from '../../lib/palette';
+import { resolveColor, SIGNAL_COLORS } from '../../lib/palette';
 import { formatAmps, formatElapsedClock, formatTemperature, formatVolts } from '../../lib/units';
 import { useTheme } from '../../lib/use-theme';
 import { signalAxes, signalScales } from './chart-theme';
@@ -18,6 +18,7 @@ export interface ChartMarker {
 
 const BAND_ALPHA_HEX = '33';
 const MARKER_WIDTH_PX = 2;
+const NO_MARKERS: readonly ChartMarker[] = [];
 
 /** The chart's columns; the temperature is the same channel the live screens show (the cell when there is one). */
 function toData(s: SamplesResponse): uPlot.AlignedData {
@@ -26,7 +27,7 @@ function toData(s: SamplesResponse): uPlot.AlignedData {
   return [s.t, s.volts.max, s.volts.min, s.amps.max, s.amps.min, temp];
 }
 
-function buildOptions(width: number, heightPx: number, temperatureUnit: 'C' | 'F', markers: readonly ChartMarker[], onZoom: (from: number, to: number) => void): uPlot.Options {
+function buildOptions(width: number, heightPx: number, temperatureUnit: 'C' | 'F', markers: () => readonly ChartMarker[], onZoom: (from: number, to: number) => void): uPlot.Options {
   return {
     width,
     height: heightPx,
@@ -35,16 +36,16 @@ function buildOptions(width: number, heightPx: number, temperatureUnit: 'C' | 'F
     cursor: { drag: { x: true, y: false, setScale: false } },
     series: [
       { label: 'Run time', value: (_u, v) => formatElapsedClock(v) },
-      { label: 'Volts max', scale: 'V', stroke: SIGNAL_COLORS.volts, width: 2, value: (_u, v) => formatVolts(v) },
-      { label: 'Volts min', scale: 'V', stroke: SIGNAL_COLORS.volts, width: 1, value: (_u, v) => formatVolts(v) },
-      { label: 'Amps max', scale: 'A', stroke: SIGNAL_COLORS.amps, width: 2, value: (_u, v) => formatAmps(v) },
-      { label: 'Amps min', scale: 'A', stroke: SIGNAL_COLORS.amps, width: 1, value: (_u, v) => formatAmps(v) },
-      { label: 'Temperature', scale: 'C', stroke: SIGNAL_COLORS.temp, width: 1, dash: [6, 4], points: { show: false }, value: (_u, v) => formatTemperature(v, temperatureUnit) },
+      { label: 'Volts max', scale: 'V', stroke: resolveColor(SIGNAL_COLORS.volts), width: 2, value: (_u, v) => formatVolts(v) },
+      { label: 'Volts min', scale: 'V', stroke: resolveColor(SIGNAL_COLORS.volts), width: 1, value: (_u, v) => formatVolts(v) },
+      { label: 'Amps max', scale: 'A', stroke: resolveColor(SIGNAL_COLORS.amps), width: 2, value: (_u, v) => formatAmps(v) },
+      { label: 'Amps min', scale: 'A', stroke: resolveColor(SIGNAL_COLORS.amps), width: 1, value: (_u, v) => formatAmps(v) },
+      { label: 'Temperature', scale: 'C', stroke: resolveColor(SIGNAL_COLORS.temp), width: 1, dash: [6, 4], points: { show: false }, value: (_u, v) => formatTemperature(v, temperatureUnit) },
     ],
     // Min/max bands: a spike or a cutoff inside a bucket is never averaged away.
     bands: [
-      { series: [1, 2], fill: SIGNAL_COLORS.volts + BAND_ALPHA_HEX },
-      { series: [3, 4], fill: SIGNAL_COLORS.amps + BAND_ALPHA_HEX },
+      { series: [1, 2], fill: resolveColor(SIGNAL_COLORS.volts) + BAND_ALPHA_HEX },
+      { series: [3, 4], fill: resolveColor(SIGNAL_COLORS.amps) + BAND_ALPHA_HEX },
     ],
     axes: signalAxes(width, temperatureUnit),
     hooks: {
@@ -62,10 +63,10 @@ function buildOptions(width: number, heightPx: number, temperatureUnit: 'C' | 'F
           const { ctx, bbox } = u;
           ctx.save();
           ctx.lineWidth = MARKER_WIDTH_PX * devicePixelRatio;
-          for (const m of markers) {
+          for (const m of markers()) {
             const x = Math.round(u.valToPos(m.t, 'x', true));
             if (x < bbox.left || x > bbox.left + bbox.width) continue;
-            ctx.strokeStyle = m.color;
+            ctx.strokeStyle = resolveColor(m.color);
             ctx.beginPath();
             ctx.moveTo(x, bbox.top);
             ctx.lineTo(x, bbox.top + bbox.height);
@@ -87,7 +88,7 @@ interface Props {
 }
 
 /** A run's history from min/max buckets; drag across it to zoom (the page fetches again). */
-export function HistoryChart({ samples, markers = [], onZoom, heightPx = 360, temperatureUnit = 'C' }: Props) {
+export function HistoryChart({ samples, markers = NO_MARKERS, onZoom, heightPx = 360, temperatureUnit = 'C' }: Props) {
   const containerRef = useRef<HTMLDivElement>(null);
   const plotRef = useRef<uPlot | null>(null);
   const zoomRef = useRef(onZoom);
@@ -96,16 +97,21 @@ export function HistoryChart({ samples, markers = [], onZoom, heightPx = 360, te
   // Printing redraws the chart in the report's colours (the canvas does not follow CSS).
   const printing = usePrinting();
 
+  const markersRef = useRef(markers);
+  const samplesRef = useRef(samples);
+
   useEffect(() => {
     zoomRef.current = onZoom;
   });
 
+  // One uPlot for the chart's life; only what its options hold (height, colours, unit, print)
+  // builds it again. A zoom or new markers reuse it (below).
   useEffect(() => {
     const el = containerRef.current;
     if (!el) return;
     const plot = new uPlot(
-      buildOptions(el.clientWidth || width, heightPx, temperatureUnit, markers, (from, to) => zoomRef.current(from, to)),
-      toData(samples),
+      buildOptions(el.clientWidth || width, heightPx, temperatureUnit, () => markersRef.current, (from, to) => zoomRef.current(from, to)),
+      toData(samplesRef.current),
       el,
     );
     plotRef.current = plot;
@@ -114,7 +120,23 @@ export function HistoryChart({ samples, markers = [], onZoom, heightPx = 360, te
       plotRef.current = null;
     };
     // eslint-disable-next-line react-hooks/exhaustive-deps
-  }, [samples, markers, heightPx, theme, temperatureUnit, printing]);
+  }, [heightPx, theme, temperatureUnit, printing]);
+
+  // A zoomed window arrives as new samples: swap the data in and set the x scale to the window.
+  useEffect(() => {
+    if (samplesRef.current === samples) return;
+    samplesRef.current = samples;
+    const plot = plotRef.current;
+    if (!plot) return;
+    plot.setData(toData(samples), false);
+    plot.setScale('x', { min: samples.from, max: samples.to });
+  }, [samples]);
+
+  useEffect(() => {
+    if (markersRef.current === markers) return;
+    markersRef.current = markers;
+    plotRef.current?.redraw(false);
+  }, [markers]);
 
   useEffect(() => {
     plotRef.current?.setSize({ width, height: heightPx });

@@ -1,7 +1,7 @@
 import { MonoNumbers } from './mono-numbers';
 import type { RunEvent } from '../../../shared/schemas/run-event';
 import { PROTECTION_TRAITS, type Protection } from '../../../shared/schemas/protection-check';
-import { RUN_STATE_COLORS, SIGNAL_COLORS } from '../../lib/palette';
+import { NOTE_COLOR, RUN_STATE_COLORS } from '../../lib/palette';
 import { formatAmps, formatCharge, formatDuration, formatElapsedClock, formatEnergy, formatTemperature, formatVolts } from '../../lib/units';
 
 const MILESTONE_LABEL = {
@@ -74,7 +74,7 @@ export function describeEvent(e: RunEvent, { temperatureUnit = 'C', energyUnit =
 function eventColor(e: RunEvent): string {
   if (e.type === 'cutoff' || e.type === 'protection-trip' || e.type === 'protection-check-trip' || (e.type === 'alarm' && e.level === 'critical')) return RUN_STATE_COLORS.cutoff;
   if (e.type === 'recovery' || e.type === 'protection-reset' || e.type === 'protection-check-release') return RUN_STATE_COLORS.recovered;
-  if (e.type === 'annotation') return SIGNAL_COLORS.amps;
+  if (e.type === 'annotation') return NOTE_COLOR;
   if (e.type === 'gap' || e.type === 'source-lost' || e.type === 'alarm') return RUN_STATE_COLORS.recovered;
   return RUN_STATE_COLORS.finished;
 }

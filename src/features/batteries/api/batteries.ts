@@ -1,16 +1,13 @@
-import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { z } from 'zod';
 import { BatterySchema, type BatteryInput, type BatteryPatch } from '../../../../shared/schemas/battery';
 import { api } from '../../../lib/api-client';
+import { batteriesQueryOptions } from '../../../lib/queries/batteries';
+import { queryKeys } from '../../../lib/queries/query-keys';
 
-const BATTERIES_KEY = ['batteries'] as const;
+const BATTERIES_KEY = queryKeys.batteries.all;
 
-/** GET /api/batteries */
-export const batteriesQueryOptions = () =>
-  queryOptions({
-    queryKey: BATTERIES_KEY,
-    queryFn: () => api('/api/batteries', { schema: z.object({ batteries: z.array(BatterySchema) }) }).then((b) => b.batteries),
-  });
+export { batteriesQueryOptions };
 
 /** Every registered pack. */
 export function useBatteries() {

@@ -1,13 +1,7 @@
-import { queryOptions, useQuery } from '@tanstack/react-query';
-import { BenchListResponseSchema } from '../../../../shared/schemas/bench';
-import { api } from '../../../lib/api-client';
+import { useQuery } from '@tanstack/react-query';
+import { benchesQueryOptions } from '../../../lib/queries/benches';
 
-/** GET /api/benches: every bench with its source status. */
-export const benchesQueryOptions = () =>
-  queryOptions({
-    queryKey: ['benches'],
-    queryFn: () => api('/api/benches', { schema: BenchListResponseSchema }).then((b) => b.benches),
-  });
+export { benchesQueryOptions };
 
 /** The lab's benches. */
 export function useBenches() {

@@ -6,16 +6,14 @@ import {
   type UpdateBenchRequest,
 } from '../../../../shared/schemas/bench';
 import { api } from '../../../lib/api-client';
+import { benchQueryOptions } from '../../../lib/queries/benches';
+import { queryKeys } from '../../../lib/queries/query-keys';
 
-const BENCHES_KEY = ['benches'] as const;
+const BENCHES_KEY = queryKeys.benches.all;
 
 /** GET /api/benches/:id for the edit form. */
 export function useBenchForEdit(benchId: number | null) {
-  return useQuery({
-    queryKey: [...BENCHES_KEY, benchId],
-    queryFn: () => api(`/api/benches/${benchId}`, { schema: BenchResponseSchema }).then((b) => b.bench),
-    enabled: benchId !== null,
-  });
+  return useQuery(benchQueryOptions(benchId));
 }
 
 /** POST /api/benches or PATCH /api/benches/:id (admin). */
@@ -53,7 +51,7 @@ export function useRestartBench() {
 /** GET /api/benches/ports (admin): serial ports the server can see. */
 export function useSerialPorts(enabled: boolean) {
   return useQuery({
-    queryKey: [...BENCHES_KEY, 'ports'],
+    queryKey: queryKeys.benches.serialPorts(),
     queryFn: () => api('/api/benches/ports', { schema: SerialPortListResponseSchema }),
     enabled,
   });

@@ -1,15 +1,9 @@
-import { queryOptions, useQuery } from '@tanstack/react-query';
-import { BenchResponseSchema } from '../../../../shared/schemas/bench';
-import { api } from '../../../lib/api-client';
+import { useQuery } from '@tanstack/react-query';
+import { benchQueryOptions } from '../../../lib/queries/benches';
 
-/** GET /api/benches/:id: the bench and its source status. */
-export const benchQueryOptions = (benchId: number) =>
-  queryOptions({
-    queryKey: ['benches', benchId],
-    queryFn: () => api(`/api/benches/${benchId}`, { schema: BenchResponseSchema }).then((b) => b.bench),
-  });
+export { benchQueryOptions };
 
-/** One bench. */
+/** One bench and its source status. */
 export function useBench(benchId: number) {
   return useQuery(benchQueryOptions(benchId));
 }

@@ -1,6 +1,7 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { RunResponseSchema, type StartRunRequest } from '../../../../shared/schemas/api-runs';
 import { api } from '../../../lib/api-client';
+import { queryKeys } from '../../../lib/queries/query-keys';
 
 /** POST /api/runs: arm a run on a bench (technician). */
 export function startRun(body: StartRunRequest) {
@@ -10,5 +11,5 @@ export function startRun(body: StartRunRequest) {
 /** Mutation for the start-run form. */
 export function useStartRun() {
   const queryClient = useQueryClient();
-  return useMutation({ mutationFn: startRun, onSuccess: () => queryClient.invalidateQueries({ queryKey: ['runs'] }) });
+  return useMutation({ mutationFn: startRun, onSuccess: () => queryClient.invalidateQueries({ queryKey: queryKeys.runs.all }) });
 }

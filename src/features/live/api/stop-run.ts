@@ -1,6 +1,7 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { RunResponseSchema } from '../../../../shared/schemas/api-runs';
 import { api } from '../../../lib/api-client';
+import { queryKeys } from '../../../lib/queries/query-keys';
 
 /** POST /api/runs/:id/stop: finish the run, or abort it. */
 export function stopRun({ runId, abort }: { runId: number; abort: boolean }) {
@@ -10,5 +11,5 @@ export function stopRun({ runId, abort }: { runId: number; abort: boolean }) {
 /** Mutation for the stop and abort buttons. */
 export function useStopRun() {
   const queryClient = useQueryClient();
-  return useMutation({ mutationFn: stopRun, onSuccess: () => queryClient.invalidateQueries({ queryKey: ['runs'] }) });
+  return useMutation({ mutationFn: stopRun, onSuccess: () => queryClient.invalidateQueries({ queryKey: queryKeys.runs.all }) });
 }

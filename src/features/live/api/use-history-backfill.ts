@@ -1,6 +1,5 @@
 import { useEffect } from 'react';
-import { SamplesResponseSchema } from '../../../../shared/schemas/api-runs';
-import { api } from '../../../lib/api-client';
+import { fetchRunSamples } from '../../../lib/queries/runs';
 import type { LiveStore } from '../../../lib/live-store';
 
 /** Buckets of history fetched for the live chart (two rows each: min and max). */
@@ -15,9 +14,7 @@ export function useHistoryBackfill(store: LiveStore, runId: number): void {
     let cancelled = false;
     const controller = new AbortController();
     const stop = store.onSnapshot((firstT) => {
-      const params = new URLSearchParams({ maxPoints: String(BACKFILL_MAX_POINTS) });
-      if (firstT !== null) params.set('to', String(firstT));
-      api(`/api/runs/${runId}/samples?${params}`, { schema: SamplesResponseSchema, signal: controller.signal })
+      fetchRunSamples(runId, { from: null, to: firstT }, BACKFILL_MAX_POINTS, controller.signal)
         .then((history) => {
           if (!cancelled) store.backfill(history);
         })

@@ -1,13 +1,10 @@
-import { queryOptions, useQuery } from '@tanstack/react-query';
-import { RunEventsResponseSchema, RunResponseSchema } from '../../../../shared/schemas/api-runs';
+import { useQuery } from '@tanstack/react-query';
+import { RunEventsResponseSchema } from '../../../../shared/schemas/api-runs';
 import { api } from '../../../lib/api-client';
+import { queryKeys } from '../../../lib/queries/query-keys';
+import { runQueryOptions } from '../../../lib/queries/runs';
 
-/** GET /api/runs/:id */
-export const runQueryOptions = (runId: number) =>
-  queryOptions({
-    queryKey: ['runs', runId],
-    queryFn: () => api(`/api/runs/${runId}`, { schema: RunResponseSchema }).then((b) => b.run),
-  });
+export { runQueryOptions };
 
 /** One run with its summary. */
 export function useRun(runId: number) {
@@ -15,9 +12,12 @@ export function useRun(runId: number) {
 }
 
 /** GET /api/runs/:id/events: the stored timeline. */
+export const runEventsQueryOptions = (runId: number) => ({
+  queryKey: queryKeys.runs.events(runId),
+  queryFn: () => api(`/api/runs/${runId}/events`, { schema: RunEventsResponseSchema }).then((b) => b.events),
+});
+
+/** The run's stored timeline. */
 export function useRunEvents(runId: number) {
-  return useQuery({
-    queryKey: ['runs', runId, 'events'],
-    queryFn: () => api(`/api/runs/${runId}/events`, { schema: RunEventsResponseSchema }).then((b) => b.events),
-  });
+  return useQuery(runEventsQueryOptions(runId));
 }

@@ -2,6 +2,7 @@ import { keepPreviousData, queryOptions, useQuery } from '@tanstack/react-query'
 import { ListRunsResponseSchema } from '../../../../shared/schemas/api-runs';
 import type { RunState } from '../../../../shared/schemas/run';
 import { api } from '../../../lib/api-client';
+import { queryKeys } from '../../../lib/queries/query-keys';
 
 export interface RunsFilter {
   q?: string;
@@ -21,7 +22,7 @@ function toSearch(filter: RunsFilter): string {
 /** GET /api/runs with search and filters done on the server. */
 export const runsQueryOptions = (filter: RunsFilter) =>
   queryOptions({
-    queryKey: ['runs', 'list', filter],
+    queryKey: queryKeys.runs.list(filter),
     queryFn: () => api(`/api/runs?${toSearch(filter)}`, { schema: ListRunsResponseSchema }),
     placeholderData: keepPreviousData,
   });

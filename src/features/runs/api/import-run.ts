@@ -1,6 +1,7 @@
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { ImportResponseSchema } from '../../../../shared/schemas/api-runs';
 import { api } from '../../../lib/api-client';
+import { queryKeys } from '../../../lib/queries/query-keys';
 
 export interface ImportRunInput {
   file: File;
@@ -29,5 +30,5 @@ export function importRun(input: ImportRunInput) {
 /** Mutation for the import form. */
 export function useImportRun() {
   const queryClient = useQueryClient();
-  return useMutation({ mutationFn: importRun, onSuccess: () => queryClient.invalidateQueries({ queryKey: ['runs'] }) });
+  return useMutation({ mutationFn: importRun, onSuccess: () => queryClient.invalidateQueries({ queryKey: queryKeys.runs.all }) });
 }

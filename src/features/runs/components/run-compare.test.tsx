@@ -1,4 +1,4 @@
-import { screen, within } from '@testing-library/react';
+import { screen, waitFor, within } from '@testing-library/react';
 import userEvent from '@testing-library/user-event';
 import { describe, expect, it } from 'vitest';
 import type { Run } from '../../../../shared/schemas/run';
@@ -36,7 +36,8 @@ describe('comparing runs', () => {
     expect(screen.queryByRole('link', { name: /Compare \d runs/ })).toBeNull();
     await userEvent.click(screen.getByRole('checkbox', { name: 'Compare Hollis pack' }));
     await userEvent.click(screen.getByRole('link', { name: 'Compare 2 runs' }));
-    expect(router.state.location.search).toBe('?ids=3,8');
+    // The compare page is its own chunk: the navigation completes once it has loaded.
+    await waitFor(() => expect(router.state.location.search).toBe('?ids=3,8'));
     // Wait for the compare page itself: the runs list (also a table) may still be on screen.
     await screen.findByTestId('compare-chart');
     const table = screen.getByRole('table');

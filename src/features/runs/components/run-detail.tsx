@@ -9,7 +9,7 @@ import { RunEventsList } from '../../../components/ui/run-events-list';
 import { RunStateBadge } from '../../../components/ui/state-badge';
 import { Loading, QueryError } from '../../../components/ui/status';
 import { formatLabTime, useLabSettings } from '../../../lib/lab-settings';
-import { RUN_STATE_COLORS, SIGNAL_COLORS } from '../../../lib/palette';
+import { NOTE_COLOR, RUN_STATE_COLORS } from '../../../lib/palette';
 import { formatElapsedClock } from '../../../lib/units';
 import { useRun, useRunEvents } from '../api/get-run';
 import { useRunSamples, type SampleWindow } from '../api/get-run-samples';
@@ -25,7 +25,7 @@ const FULL_WINDOW: SampleWindow = { from: null, to: null };
 function markerFor(e: RunEvent): ChartMarker | null {
   if (e.type === 'cutoff') return { t: e.t, color: RUN_STATE_COLORS.cutoff };
   if (e.type === 'recovery') return { t: e.t, color: RUN_STATE_COLORS.recovered };
-  if (e.type === 'annotation') return { t: e.t, color: SIGNAL_COLORS.amps };
+  if (e.type === 'annotation') return { t: e.t, color: NOTE_COLOR };
   return null;
 }
 

@@ -2,8 +2,9 @@ import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { z } from 'zod';
 import { PublicUserSchema, type CreateUserRequest, type UpdateUserRequest } from '../../../../shared/schemas/user';
 import { api } from '../../../lib/api-client';
+import { queryKeys } from '../../../lib/queries/query-keys';
 
-const USERS_KEY = ['users'] as const;
+const USERS_KEY = queryKeys.users.all;
 
 /** GET /api/users (admin). */
 export function useUsers() {

@@ -1,0 +1,22 @@
+import type { QueryClient } from '@tanstack/react-query';
+import type { Params } from 'react-router-dom';
+import { useMe } from '../../features/auth/api/get-me';
+import { BenchLivePage } from '../../features/live/components/bench-live-page';
+import { benchQueryOptions } from '../../lib/queries/benches';
+import { hasRole } from '../../lib/roles';
+import { idParam, useIdParam } from '../route-kit/use-id-param';
+import { NotFound } from './not-found';
+
+/** One bench, live. */
+export function Component() {
+  const me = useMe();
+  const benchId = useIdParam('benchId');
+  if (Number.isNaN(benchId)) return <NotFound />;
+  return <BenchLivePage key={benchId} benchId={benchId} canAct={hasRole(me.data?.role, 'technician')} canSetUp={hasRole(me.data?.role, 'admin')} />;
+}
+
+/** The bench and its source status. */
+export function prefetch(queryClient: QueryClient, params: Params): void {
+  const benchId = idParam(params, 'benchId');
+  if (!Number.isNaN(benchId)) void queryClient.prefetchQuery(benchQueryOptions(benchId));
+}

@@ -1,0 +1,34 @@
+import { ME_QUERY_KEY } from '../session';
+
+/** The filters a runs-list query is keyed by (the runs feature defines their meaning). */
+export type RunsListKey = object;
+
+/**
+ * Every query key the client uses, from one factory: a feature that reads or invalidates
+ * another feature's data (the packs, a bench, a run) names the same key, never a copy of it.
+ * Keys nest so that invalidating `all` refreshes every query below it.
+ */
+export const queryKeys = {
+  me: ME_QUERY_KEY,
+  settings: ['settings'] as const,
+  benches: {
+    all: ['benches'] as const,
+    list: () => ['benches'] as const,
+    detail: (benchId: number | null) => ['benches', benchId] as const,
+    serialPorts: () => ['benches', 'ports'] as const,
+  },
+  batteries: {
+    all: ['batteries'] as const,
+    list: () => ['batteries'] as const,
+    detail: (batteryId: number | null) => ['batteries', batteryId] as const,
+  },
+  runs: {
+    all: ['runs'] as const,
+    lists: () => ['runs', 'list'] as const,
+    list: (filter: RunsListKey) => ['runs', 'list', filter] as const,
+    detail: (runId: number) => ['runs', runId] as const,
+    events: (runId: number) => ['runs', runId, 'events'] as const,
+    samples: (runId: number, from: number | null, to: number | null, maxPoints: number) => ['runs', runId, 'samples', from, to, maxPoints] as const,
+  },
+  users: { all: ['users'] as const },
+} as const;
