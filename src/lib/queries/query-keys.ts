@@ -21,6 +21,7 @@ export const queryKeys = {
     all: ['batteries'] as const,
     list: () => ['batteries'] as const,
     detail: (batteryId: number | null) => ['batteries', batteryId] as const,
+    protections: (batteryId: number) => ['batteries', batteryId, 'protections'] as const,
   },
   runs: {
     all: ['runs'] as const,

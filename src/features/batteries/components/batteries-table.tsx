@@ -9,7 +9,7 @@ const CELL = 'px-3 py-3 max-md:block max-md:px-0 max-md:py-0.5';
 const WIDE_ONLY = 'px-3 py-3 max-md:hidden';
 
 /** The registered packs, one row each, every figure with its unit (a card each on a phone). */
-export function BatteriesTable({ batteries, onEdit }: { batteries: readonly Battery[]; onEdit?: (battery: Battery) => void }) {
+export function BatteriesTable({ batteries, onEdit, onProtections }: { batteries: readonly Battery[]; onEdit?: (battery: Battery) => void; onProtections?: (battery: Battery) => void }) {
   const { energyUnit } = useLabSettings();
   if (batteries.length === 0) return <p className="p-6 text-center text-ink-muted">No packs registered yet.</p>;
   return (
@@ -50,6 +50,11 @@ export function BatteriesTable({ batteries, onEdit }: { batteries: readonly Batt
                   <Link to={`/runs?batteryId=${b.id}`} className="inline-flex min-h-11 items-center rounded-lg border border-line px-3 font-semibold" aria-label={`Runs of ${b.label}`}>
                     Runs
                   </Link>
+                  {onProtections && (
+                    <button type="button" onClick={() => onProtections(b)} className="min-h-11 rounded-lg border border-line px-3 font-semibold" aria-label={`Protection record of ${b.label}`}>
+                      Protections
+                    </button>
+                  )}
                   {onEdit && (
                     <button type="button" onClick={() => onEdit(b)} className="min-h-11 rounded-lg border border-line px-3 font-semibold" aria-label={`Edit ${b.label}`}>
                       Edit
