@@ -45,11 +45,16 @@ describe('battery packs page', () => {
     expect((rated as HTMLInputElement).value).toBe('35');
     await userEvent.clear(rated);
     await userEvent.type(rated, '36');
+    // The maker's stated cold-charge inhibit goes into the pack's record.
+    await userEvent.click(screen.getByText(/Stated protections/));
+    await userEvent.type(screen.getByLabelText('Cold-charge inhibit: threshold (°C)'), '0');
+    await userEvent.type(screen.getByLabelText('Cold-charge inhibit: delay (s)'), '5');
     await userEvent.click(screen.getByRole('button', { name: 'Save changes' }));
     await waitFor(() => expect(calls.some((c) => c.url === '/api/batteries/4' && c.init?.method === 'PATCH')).toBe(true));
     const body = JSON.parse(String(calls.find((c) => c.init?.method === 'PATCH')?.init?.body));
     expect(body.ratedAh).toBe(36);
     expect(body.label).toBe('NG-0142');
+    expect(body.protectionSpecs).toEqual([{ protection: 'cold-charge', thresholdValue: 0, delaySeconds: 5, releaseValue: null, thresholdTolerance: null, delayToleranceSeconds: null }]);
   });
 
   it('gives the rated energy in kWh when the lab has chosen kWh', async () => {
