@@ -64,4 +64,19 @@ describe('a protection-check run page', () => {
     expect(await screen.findByText('Protections: 1 pass, 1 fail')).toBeTruthy();
     expect(screen.queryByText('No capacity verdict')).toBeNull();
   });
+
+  it('a charge run\'s page shows the energy and charge put in, as the live view did', async () => {
+    const charge: Run = { ...run, id: 6, kind: 'charge', summary: { ...summary, verdict: 'unrated', protections: undefined } };
+    stubApi(demoUser('viewer'), (url) => {
+      if (url === '/api/runs/6') return { status: 200, body: { run: charge } };
+      if (url.startsWith('/api/runs/6/events')) return { status: 200, body: { events: [] } };
+      if (url.startsWith('/api/runs/6/samples')) return { status: 200, body: { ...samples, runId: 6 } };
+      return undefined;
+    });
+    renderAt('/runs/6');
+    expect(await screen.findByText('Energy in')).toBeTruthy();
+    expect(screen.getByText('178.9 Wh')).toBeTruthy();
+    expect(screen.getByText('6.78 Ah')).toBeTruthy();
+    expect(screen.getByText(/chamber -10\.0 °C to 80\.2 °C/)).toBeTruthy();
+  });
 });

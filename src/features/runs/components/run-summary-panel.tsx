@@ -27,6 +27,9 @@ export function RunSummaryPanel({ summary, temperatureUnit, energyUnit }: { summ
       <dl className="grid grid-cols-2 gap-3 md:grid-cols-4">
         <Figure label="Energy out" value={formatEnergy(summary.dischargeWh, energyUnit)} />
         <Figure label="Charge out" value={formatCharge(summary.dischargeAh)} />
+        {/* What a charge showed live as "Charged in" is on the report too (whole-run totals). */}
+        {summary.chargeAh > 0 && <Figure label="Energy in" value={formatEnergy(summary.chargeWh, energyUnit)} />}
+        {summary.chargeAh > 0 && <Figure label="Charge in" value={formatCharge(summary.chargeAh)} />}
         <Figure label="Duration" value={formatDuration(summary.durationSeconds)} />
         <Figure label="Mean power" value={formatWatts(summary.meanWatts)} />
         <Figure label="Mean volts" value={formatVolts(summary.meanVolts)} />
