@@ -1,6 +1,7 @@
 import type { MeasureConfigInput } from '../../shared/schemas/measure-config.js';
 import { ChemistrySchema } from '../../shared/schemas/chemistry.js';
 import type { RunConfig } from './runs-repo.js';
+import type { ProtectionSpec } from '../../shared/schemas/protection-check.js';
 
 /** What the recorder and importer need to know of a battery. */
 export interface BatteryFacts {
@@ -13,6 +14,8 @@ export interface BatteryFacts {
   ratedWh: number | null;
   price: number | null;
   massKg: number | null;
+  /** What the pack's maker states for its protections (empty when nothing is stated). */
+  protectionSpecs: ProtectionSpec[];
 }
 
 /** What a run needs to know of where its readings come from (a bench's source, or an imported file). */
@@ -45,5 +48,6 @@ export function measureConfigFor(config: RunConfig, battery: BatteryFacts | null
   if (config.maxGapSeconds != null) out.maxGapSeconds = config.maxGapSeconds;
   if (source?.cadenceSeconds != null) out.cadenceSeconds = source.cadenceSeconds;
   if (source?.loadOnAmps != null) out.loadOnAmps = source.loadOnAmps;
+  if (config.protectionChecks?.length) out.protectionChecks = config.protectionChecks;
   return out;
 }

@@ -31,7 +31,7 @@ describe('RunSession', () => {
 
   it('corrects a cold lead-acid run up by the electrolyte temperature typed on the run', () => {
     const run = baseRun({ endVolts: null, electrolyteTempCelsius: 10 });
-    const battery = { id: 1, label: 'LA', brand: 'Northgate Cell Lab', chemistry: 'lead-acid', cellsInSeries: 6, ratedAh: 100, ratedWh: null, price: null, massKg: null };
+    const battery = { id: 1, label: 'LA', brand: 'Northgate Cell Lab', chemistry: 'lead-acid', cellsInSeries: 6, ratedAh: 100, ratedWh: null, price: null, massKg: null, protectionSpecs: [] };
     const s = new RunSession(run, battery, measureConfigFor(run, battery));
     for (let i = 0; i <= 3600; i++) s.push({ t: i, volts: 12.2, amps: 25, clock: 'device' });
     s.end('finished');

@@ -119,3 +119,22 @@ export function delayToleranceOf(spec: Pick<ProtectionSpec, 'delaySeconds' | 'de
   if (spec.delayToleranceSeconds !== null) return spec.delayToleranceSeconds;
   return DEFAULT_TOLERANCE.delaySeconds + (spec.delaySeconds ?? 0) * DEFAULT_TOLERANCE.delayRelative;
 }
+
+/** One row of a pack's protection record: a protection checked on one run. */
+export const ProtectionRecordRowSchema = ProtectionResultSchema.extend({
+  runId: z.number().int(),
+  runName: z.string(),
+  runState: z.string(),
+  startedAt: z.string().nullable(),
+  endedAt: z.string().nullable(),
+});
+export type ProtectionRecordRow = z.infer<typeof ProtectionRecordRowSchema>;
+
+/** GET /api/batteries/:id/protections: every protection checked across the pack's runs, latest run first. */
+export const ProtectionRecordResponseSchema = z.object({
+  batteryId: z.number().int(),
+  /** The pack's stated protections (its record), for comparison. */
+  specs: z.array(ProtectionSpecSchema),
+  rows: z.array(ProtectionRecordRowSchema),
+});
+export type ProtectionRecordResponse = z.infer<typeof ProtectionRecordResponseSchema>;

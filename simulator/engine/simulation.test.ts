@@ -4,6 +4,8 @@ import { loadScenario } from '../scenario/registry.js';
 import type { Scenario } from '../scenario/schema.js';
 import { createSimulation, type Simulation } from './simulation.js';
 
+/** Hours of a 16-cell pack at 0.25 s steps: seconds of work on a loaded two-core machine. */
+const SLOW_SCENARIO_TIMEOUT_MS = 60_000;
 const IDEAL_METER = { voltsNoise: 0, ampsNoise: 0, tempNoise: 0, dropProbability: 0, corruptProbability: 0, unplugs: [] };
 
 function runToEnd(sim: Simulation) {
@@ -26,6 +28,7 @@ describe('energy balance against the measurement core', () => {
       expect(Math.abs(totals.dischargeWh - model.dischargedWh)).toBeLessThanOrEqual(0.001 * modelWh);
       expect(Math.abs(totals.chargeWh - model.chargedWh)).toBeLessThanOrEqual(0.001 * modelWh);
     },
+    SLOW_SCENARIO_TIMEOUT_MS,
   );
 
   it('a noisy meter with quantisation still integrates to the model energy within 0.1 %', () => {
@@ -73,7 +76,7 @@ describe('scenarios behave as their titles promise', () => {
     const release = sim.bench.events.find((e) => e.kind === 'bms-release' && e.protection === 'cold-charge')!;
     const charging = samples.find((s) => s.t > release.t + 5)!.frame;
     expect(charging.amps).toBeLessThan(-5);
-  });
+  }, SLOW_SCENARIO_TIMEOUT_MS);
 
   it('the recovery scenario reconnects after its configured recovery time', () => {
     const scenario = loadScenario('lfp-12v-100ah-cp-cutoff');

@@ -13,7 +13,7 @@ const pack: Battery = {
   id: 4, label: 'NG-0142', brand: 'Harlow Storage', model: 'Wall 5', chemistry: 'lfp', cellsInSeries: 16, cellsInParallel: 1,
   ratedAh: 100, ratedWh: 5120, bmsRatedAmps: 100, massKg: 44, price: 1480, priceCurrency: 'EUR', serialNumber: 'HS-W5-0142',
   sender: 'Brookside Installers', notes: 'Arrived with a dented corner', receivedOn: '2026-11-28', owner: 'Canal Street Solar',
-  lengthMm: 480, widthMm: 410, heightMm: 190, terminalType: 'M8 studs', statedCycleLife: 6000, warrantyMonths: 120,
+  lengthMm: 480, widthMm: 410, heightMm: 190, terminalType: 'M8 studs', statedCycleLife: 6000, warrantyMonths: 120, protectionSpecs: [],
   createdAt: now, updatedAt: now,
 };
 const runs = [

@@ -105,7 +105,7 @@ describe('runs page', () => {
       id: 4, label: 'NG-0142', brand: 'Hollis Power', model: null, chemistry: 'lead-acid', cellsInSeries: 6, cellsInParallel: 1,
       ratedAh: 35, ratedWh: null, bmsRatedAmps: null, massKg: null, price: null, priceCurrency: null, serialNumber: null,
       sender: null, notes: null, receivedOn: null, owner: null, lengthMm: null, widthMm: null, heightMm: null, terminalType: null,
-      statedCycleLife: null, warrantyMonths: null, createdAt: now, updatedAt: now,
+      statedCycleLife: null, warrantyMonths: null, protectionSpecs: [], createdAt: now, updatedAt: now,
     };
     const { calls } = stubApi(demoUser('technician'), (url, init) => {
       if (url.startsWith('/api/runs?')) return emptyRuns;

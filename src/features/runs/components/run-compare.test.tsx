@@ -53,7 +53,7 @@ describe('pack filter', () => {
     stubApi(demoUser('viewer'), (url) => {
       if (url.startsWith('/api/runs?')) return { status: 200, body: { runs: [], total: 0 } };
       if (url === '/api/batteries/4') {
-        return { status: 200, body: { battery: { id: 4, label: 'Kestrel 12 V camper', brand: 'Kestrel Energy', model: null, chemistry: 'lfp', cellsInSeries: 4, cellsInParallel: 1, ratedAh: 50, ratedWh: 640, bmsRatedAmps: 50, massKg: 6.2, price: null, priceCurrency: null, serialNumber: null, sender: null, notes: '', receivedOn: null, owner: null, lengthMm: null, widthMm: null, heightMm: null, terminalType: null, statedCycleLife: null, warrantyMonths: null, createdAt: now, updatedAt: now } } };
+        return { status: 200, body: { battery: { id: 4, label: 'Kestrel 12 V camper', brand: 'Kestrel Energy', model: null, chemistry: 'lfp', cellsInSeries: 4, cellsInParallel: 1, ratedAh: 50, ratedWh: 640, bmsRatedAmps: 50, massKg: 6.2, price: null, priceCurrency: null, serialNumber: null, sender: null, notes: '', receivedOn: null, owner: null, lengthMm: null, widthMm: null, heightMm: null, terminalType: null, statedCycleLife: null, warrantyMonths: null, protectionSpecs: [], createdAt: now, updatedAt: now } } };
       }
       return undefined;
     });

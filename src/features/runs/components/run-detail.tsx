@@ -1,5 +1,5 @@
 import { useMemo, useState } from 'react';
-import { Link } from 'react-router-dom';
+import { Link, useSearchParams } from 'react-router-dom';
 import { LIVE_RUN_STATES } from '../../../../shared/schemas/run';
 import type { RunEvent } from '../../../../shared/schemas/run-event';
 import { HistoryChart, type ChartMarker } from '../../../components/charts/history-chart';
@@ -21,10 +21,23 @@ import { RunSetupPanel } from './run-setup-panel';
 import { RunSummaryPanel } from './run-summary-panel';
 import { RunNotes, type NoteViewer } from './run-notes';
 import { useLiveNotes } from '../api/use-live-notes';
+import { ProtectionCheckPanel, TempChannels } from './protection-check-panel';
 
 /** About one bucket per horizontal pixel of a wide chart. */
 const CHART_MAX_POINTS = 1000;
 const FULL_WINDOW: SampleWindow = { from: null, to: null };
+
+/** The chart's window lives in the address (`?from=&to=`, run seconds), so a link can open the run zoomed to a stretch. */
+function windowFrom(params: URLSearchParams): SampleWindow {
+  const read = (key: string) => {
+    const raw = params.get(key);
+    const n = raw === null || raw.trim() === '' ? NaN : Number(raw);
+    return Number.isFinite(n) ? n : null;
+  };
+  const from = read('from');
+  const to = read('to');
+  return from !== null && to !== null && to <= from ? FULL_WINDOW : { from, to };
+}
 
 function markerFor(e: RunEvent): ChartMarker | null {
   if (e.type === 'cutoff') return { t: e.t, color: RUN_STATE_COLORS.cutoff };
@@ -40,7 +53,17 @@ export function RunDetail({ runId, canEdit = false, viewer = null }: { runId: nu
   useLiveNotes(runId);
   const settings = useLabSettings();
   const pack = useRunBattery(run.data?.batteryId ?? null);
-  const [sampleWindow, setWindow] = useState<SampleWindow>(FULL_WINDOW);
+  const [params, setParams] = useSearchParams();
+  const sampleWindow = useMemo(() => windowFrom(params), [params]);
+  const setWindow = (w: SampleWindow) => {
+    const next = new URLSearchParams(params);
+    for (const key of ['from', 'to'] as const) {
+      const v = w[key];
+      if (v === null) next.delete(key);
+      else next.set(key, String(Math.round(v * 10) / 10));
+    }
+    setParams(next, { replace: true });
+  };
   const samples = useRunSamples(runId, sampleWindow, CHART_MAX_POINTS);
   const [editing, setEditing] = useState(false);
   // Stable between renders so the chart is not rebuilt for nothing.
@@ -106,8 +129,12 @@ export function RunDetail({ runId, canEdit = false, viewer = null }: { runId: nu
         <Card className="p-6">
           <RunSetupPanel run={r} />
         </Card>
-        {r.summary ? (
+        {r.summary && r.kind === 'protection-check' ? (
           <Card className="p-6">
+            <ProtectionCheckPanel runId={runId} summary={r.summary} temperatureUnit={settings.temperatureUnit} energyUnit={settings.energyUnit} />
+          </Card>
+        ) : r.summary ? (
+          <Card className="flex flex-col gap-3 p-6">
             <RunSummaryPanel
               summary={r.summary}
               temperatureUnit={settings.temperatureUnit}
@@ -115,6 +142,7 @@ export function RunDetail({ runId, canEdit = false, viewer = null }: { runId: nu
               // The price is the pack's, in the pack's currency when it names one, else the lab's.
               currency={pack.data?.priceCurrency ?? settings.currency}
             />
+            <TempChannels summary={r.summary} temperatureUnit={settings.temperatureUnit} />
           </Card>
         ) : (
           <Card className="text-ink-muted">No summary yet: the run is still recording.</Card>

@@ -11,7 +11,7 @@ import { formatCharge, formatDuration, formatEnergy } from '../../../lib/units';
 import { useRunBattery } from '../api/get-run-context';
 import { useRuns } from '../api/get-runs';
 import { MAX_COMPARED_RUNS } from './run-compare';
-import { VerdictBadge } from './verdict-badge';
+import { ProtectionsBadge, VerdictBadge } from './verdict-badge';
 import { formatPercentOfRated } from './summary-wording';
 
 const PAGE_SIZE = 25;
@@ -93,7 +93,16 @@ export function RunsTable() {
       col.accessor((r) => r.summary?.capacityWh ?? null, { id: 'wh', header: 'Capacity (Wh)', cell: (c) => <span className="num whitespace-nowrap">{formatEnergy(c.getValue(), settings.energyUnit)}</span> }),
       col.accessor((r) => r.summary?.capacityAh ?? null, { id: 'ah', header: 'Capacity (Ah)', cell: (c) => <span className="num whitespace-nowrap">{formatCharge(c.getValue())}</span> }),
       col.accessor((r) => r.summary?.percentRatedAh ?? null, { id: 'pct', header: 'Of rated', cell: (c) => <span className="num whitespace-nowrap">{formatPercentOfRated(c.getValue())}</span> }),
-      col.accessor((r) => r.summary?.verdict ?? null, { id: 'verdict', header: 'Verdict', cell: (c) => (c.getValue() ? <VerdictBadge verdict={c.getValue()!} /> : '—') }),
+      col.accessor((r) => r.summary?.verdict ?? null, {
+        id: 'verdict',
+        header: 'Verdict',
+        // A protection check has no capacity verdict: its protections' outcomes stand in its place.
+        cell: (c) => {
+          const protections = c.row.original.summary?.protections;
+          if (c.row.original.kind === 'protection-check' && protections && protections.length > 0) return <ProtectionsBadge results={protections} />;
+          return c.getValue() ? <VerdictBadge verdict={c.getValue()!} /> : '—';
+        },
+      }),
       col.accessor('tags', { header: 'Tags', cell: (c) => c.getValue().join(', ') }),
     ],
     [settings.timeZone, settings.energyUnit, selected],
