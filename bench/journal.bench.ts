@@ -59,7 +59,7 @@ async function setUp(name: string, withJournal: boolean, timer?: (fn: () => void
   });
   await writer.start();
   const repo = new RunsRepo(db.sequelize);
-  const facts = { id: battery.id, label: 'Bench pack', brand: 'Kestrel Energy', chemistry: 'lfp', cellsInSeries: 4, ratedAh: 100, ratedWh: null, price: null, massKg: null };
+  const facts = { id: battery.id, label: 'Bench pack', brand: 'Kestrel Energy', chemistry: 'lfp', cellsInSeries: 4, ratedAh: 100, ratedWh: null, price: null, massKg: null, protectionSpecs: [] };
   const recorder = new RunRecorder({ repo, writer, getBattery: async () => facts, log: quiet });
   if (journal) recorder.readings.add((runId, reading, index) => journal.append(runId, index, reading));
   const feed = new BenchFeed();
@@ -67,7 +67,7 @@ async function setUp(name: string, withJournal: boolean, timer?: (fn: () => void
   journal?.start();
   for (let b = 1; b <= RUNS; b++) {
     await benchModel(db.sequelize).create({ id: b, name: `Bench ${b}`, source: JSON.stringify({ kind: 'none' }), enabled: true, notes: '' });
-    await recorder.start({ benchId: b, batteryId: battery.id, name: `Run ${b}`, tags: [], kind: 'capacity-discharge', endVolts: null, acceptancePercent: 100, alarms: { onCutoff: false }, stopWhen: 'manual', tempProtections: [], targetAh: null, targetWh: null, afterRecoverySeconds: 0 }, null);
+    await recorder.start({ benchId: b, batteryId: battery.id, name: `Run ${b}`, tags: [], kind: 'capacity-discharge', endVolts: null, acceptancePercent: 100, alarms: { onCutoff: false }, stopWhen: 'manual', tempProtections: [], protectionChecks: [], targetAh: null, targetWh: null, afterRecoverySeconds: 0 }, null);
   }
   return {
     feed, journal, writer,
