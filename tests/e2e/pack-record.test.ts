@@ -1,0 +1,99 @@
+import sharp from 'sharp';
+import type { Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { DEMO_ACCOUNTS } from '../../server/db/seed-demo.js';
+import type { TestContext } from '../integration/helpers/index.js';
+import type { TestBrowser } from './helpers/browser.js';
+import { SCREENSHOT_DIR, startE2eApp, type E2eApp } from './helpers/e2e-app.js';
+import { signInThroughForm } from './helpers/sign-in.js';
+
+let t: TestContext;
+let browser: TestBrowser;
+let app: E2eApp;
+
+beforeAll(async () => {
+  app = await startE2eApp();
+  ({ t, browser } = app);
+});
+afterAll(async () => {
+  await app?.close();
+});
+
+/** A phone held upright (CSS px), the narrowest screen the pages must fit without sideways scrolling. */
+const PHONE_WIDTH_PX = 390;
+const PHONE_HEIGHT_PX = 844;
+const PACK_LABEL = 'NG-0321';
+
+/** A small JPEG photo of one colour, as a camera would send it (with EXIF). */
+const photo = (colour: string) =>
+  sharp({ create: { width: 1200, height: 900, channels: 3, background: colour } }).jpeg().withExif({ IFD0: { Make: 'Testmaker' } }).toBuffer();
+
+/** Drops `bytes` as a file onto the element, the way a person drags a photo from the desktop. */
+async function dropFile(page: Page, testId: string, index: number, name: string, bytes: Buffer) {
+  const transfer = await page.evaluateHandle(
+    ({ name: fileName, data }) => {
+      const dt = new DataTransfer();
+      dt.items.add(new File([Uint8Array.from(atob(data), (c) => c.charCodeAt(0))], fileName, { type: 'image/jpeg' }));
+      return dt;
+    },
+    { name, data: bytes.toString('base64') },
+  );
+  await page.getByTestId(testId).nth(index).dispatchEvent('drop', { dataTransfer: transfer });
+}
+
+describe('a pack registered, inspected and photographed', () => {
+  it('shows the two teardown photos on the pack page, and the page fits a phone', async () => {
+    const technician = DEMO_ACCOUNTS.find((a) => a.role === 'technician')!;
+    const page = await browser.context.newPage();
+    await signInThroughForm(page, t.url, technician.email, t.ctx.config.demoPassword);
+
+    await page.goto(`${t.url}/batteries`);
+    await page.getByRole('button', { name: 'Register a pack' }).click();
+    const form = page.getByRole('form', { name: 'Register a pack' });
+    await form.getByLabel('Label').fill(PACK_LABEL);
+    await form.getByLabel('Brand').fill('Harlow Storage');
+    await form.getByLabel('Cells in series').fill('8');
+    await form.getByLabel('Rated capacity (Ah)').fill('50');
+    await form.getByLabel('Received on').fill('2026-11-30');
+    await form.getByLabel('Owner or client').fill('Canal Street Solar');
+    await form.getByLabel('Length (mm)').fill('330');
+    await form.getByLabel('Warranty (months)').fill('24');
+    await form.getByRole('button', { name: 'Register pack' }).click();
+
+    await page.getByRole('link', { name: `Open ${PACK_LABEL}` }).click();
+    await page.getByRole('heading', { name: PACK_LABEL }).waitFor();
+    expect(await page.getByRole('region', { name: 'Specifications' }).getByText('2 years').isVisible()).toBe(true);
+
+    const welds = page.getByRole('listitem', { name: 'Interconnects and welds' });
+    await welds.getByRole('group', { name: 'Rating of Interconnects and welds' }).getByRole('button', { name: 'Concern' }).click();
+    await welds.getByRole('button', { name: 'Concern', pressed: true }).waitFor();
+    await welds.getByLabel('Note on interconnects and welds').fill('Two welds on the negative busbar cracked');
+    await welds.getByRole('button', { name: 'Save note' }).click();
+    await page.waitForResponse((r) => r.url().includes('/inspection/') && r.request().method() === 'PUT');
+
+    // One photo dragged onto the item, one picked with the file chooser.
+    await dropFile(page, 'photo-drop', 1, 'busbar-weld.jpg', await photo('#7a5a3a'));
+    await welds.getByRole('img', { name: 'busbar-weld.jpg' }).waitFor();
+    await welds.getByLabel('Add photos: interconnects and welds').setInputFiles({ name: 'weld-close-up.jpg', mimeType: 'image/jpeg', buffer: await photo('#3a5a7a') });
+    await welds.getByRole('img', { name: 'weld-close-up.jpg' }).waitFor();
+
+    // A fresh load of the pack page finds both, served as real images.
+    await page.reload();
+    const reloaded = page.getByRole('listitem', { name: 'Interconnects and welds' });
+    await reloaded.getByRole('img', { name: 'weld-close-up.jpg' }).waitFor();
+    for (const name of ['busbar-weld.jpg', 'weld-close-up.jpg']) {
+      const img = reloaded.getByRole('img', { name });
+      await img.scrollIntoViewIfNeeded(); // thumbnails load lazily, when they come into view
+      await expect.poll(() => img.evaluate((el: HTMLImageElement) => el.complete && el.naturalWidth)).toBe(320);
+    }
+    expect(await reloaded.getByLabel('Note on interconnects and welds').inputValue()).toBe('Two welds on the negative busbar cracked');
+    expect(await reloaded.getByRole('button', { name: 'Concern', pressed: true }).isVisible()).toBe(true);
+
+    await page.setViewportSize({ width: PHONE_WIDTH_PX, height: PHONE_HEIGHT_PX });
+    await page.getByRole('heading', { name: PACK_LABEL }).waitFor();
+    const overflowPx = await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
+    await page.screenshot({ path: `${SCREENSHOT_DIR}/pack-page-phone.png`, fullPage: true });
+    expect(overflowPx).toBe(0);
+    await page.close();
+  });
+});
