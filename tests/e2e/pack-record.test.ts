@@ -30,14 +30,13 @@ const photo = (colour: string) =>
 
 /** Drops `bytes` as a file onto the element, the way a person drags a photo from the desktop. */
 async function dropFile(page: Page, testId: string, index: number, name: string, bytes: Buffer) {
-  const transfer = await page.evaluateHandle(
-    ({ name: fileName, data }) => {
-      const dt = new DataTransfer();
-      dt.items.add(new File([Uint8Array.from(atob(data), (c) => c.charCodeAt(0))], fileName, { type: 'image/jpeg' }));
-      return dt;
-    },
-    { name, data: bytes.toString('base64') },
-  );
+  // Browser-side code as text: the test config has no DOM types (the other e2e files do the same).
+  const transfer = await page.evaluateHandle(`(() => {
+    const dt = new DataTransfer();
+    const bytes = Uint8Array.from(atob(${JSON.stringify(bytes.toString('base64'))}), (c) => c.charCodeAt(0));
+    dt.items.add(new File([bytes], ${JSON.stringify(name)}, { type: 'image/jpeg' }));
+    return dt;
+  })()`);
   await page.getByTestId(testId).nth(index).dispatchEvent('drop', { dataTransfer: transfer });
 }
 
@@ -68,8 +67,9 @@ describe('a pack registered, inspected and photographed', () => {
     await welds.getByRole('group', { name: 'Rating of Interconnects and welds' }).getByRole('button', { name: 'Concern' }).click();
     await welds.getByRole('button', { name: 'Concern', pressed: true }).waitFor();
     await welds.getByLabel('Note on interconnects and welds').fill('Two welds on the negative busbar cracked');
+    const saved = page.waitForResponse((r) => r.url().includes('/inspection/') && r.request().method() === 'PUT');
     await welds.getByRole('button', { name: 'Save note' }).click();
-    await page.waitForResponse((r) => r.url().includes('/inspection/') && r.request().method() === 'PUT');
+    expect((await saved).status()).toBe(200);
 
     // One photo dragged onto the item, one picked with the file chooser.
     await dropFile(page, 'photo-drop', 1, 'busbar-weld.jpg', await photo('#7a5a3a'));
@@ -84,14 +84,18 @@ describe('a pack registered, inspected and photographed', () => {
     for (const name of ['busbar-weld.jpg', 'weld-close-up.jpg']) {
       const img = reloaded.getByRole('img', { name });
       await img.scrollIntoViewIfNeeded(); // thumbnails load lazily, when they come into view
-      await expect.poll(() => img.evaluate((el: HTMLImageElement) => el.complete && el.naturalWidth)).toBe(320);
+      const loadedWidthPx = () => img.evaluate((el) => {
+        const image = el as unknown as { complete: boolean; naturalWidth: number };
+        return image.complete ? image.naturalWidth : -1;
+      });
+      await expect.poll(loadedWidthPx).toBe(320); // THUMB_EDGE_PX: the 1200 px wide photo's thumbnail
     }
     expect(await reloaded.getByLabel('Note on interconnects and welds').inputValue()).toBe('Two welds on the negative busbar cracked');
     expect(await reloaded.getByRole('button', { name: 'Concern', pressed: true }).isVisible()).toBe(true);
 
     await page.setViewportSize({ width: PHONE_WIDTH_PX, height: PHONE_HEIGHT_PX });
     await page.getByRole('heading', { name: PACK_LABEL }).waitFor();
-    const overflowPx = await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
+    const overflowPx = await page.evaluate(`document.documentElement.scrollWidth - document.documentElement.clientWidth`);
     await page.screenshot({ path: `${SCREENSHOT_DIR}/pack-page-phone.png`, fullPage: true });
     expect(overflowPx).toBe(0);
     await page.close();
