@@ -1,10 +1,11 @@
 import type { Config } from 'tailwindcss';
-import { BENCH_STATUS_COLORS, NEUTRALS, RUN_STATE_COLORS, SIGNAL_COLORS } from './src/lib/palette';
+import { BENCH_STATUS_COLORS, NEUTRALS, ON_TONE_COLOR, RUN_STATE_COLORS, SIGNAL_COLORS, TONE_COLORS } from './src/lib/palette';
 
 /**
  * Kneepoint's own palette. Semantic colours (surface, ink, line, accent) point at CSS
  * variables set in src/styles.css for the dark "bench" theme and the light "report" theme;
- * run-state, bench-status and signal colours come from src/lib/palette.ts, defined once.
+ * run-state, bench-status, tone and signal colours come from src/lib/palette.ts, defined once
+ * for both looks (CSS variables installed by main.tsx).
  */
 export default {
   content: ['./index.html', './src/**/*.{ts,tsx}'],
@@ -25,6 +26,8 @@ export default {
         signal: SIGNAL_COLORS,
         state: RUN_STATE_COLORS,
         status: BENCH_STATUS_COLORS,
+        tone: TONE_COLORS,
+        'on-tone': ON_TONE_COLOR,
       },
       fontFamily: {
         mono: ['"JetBrains Mono"', 'ui-monospace', 'monospace'],

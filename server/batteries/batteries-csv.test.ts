@@ -9,7 +9,7 @@ const pack: Battery = {
   id: 7, label: 'NG-0150', brand: 'Fenwick, "Cells"', model: null, chemistry: 'lfp', cellsInSeries: 8, cellsInParallel: 1,
   ratedAh: 100, ratedWh: 2560, bmsRatedAmps: 100, massKg: 21.5, price: 640, priceCurrency: 'EUR', serialNumber: 'FW-8-0150',
   sender: '=HYPERLINK("x")', notes: 'two lines\nof notes', receivedOn: '2026-11-20', owner: 'Harbour Solar', lengthMm: 330,
-  widthMm: 172, heightMm: 215, terminalType: 'M8 studs', statedCycleLife: 6000, warrantyMonths: 60, createdAt: now, updatedAt: now,
+  widthMm: 172, heightMm: 215, terminalType: 'M8 studs', statedCycleLife: 6000, warrantyMonths: 60, protectionSpecs: [], createdAt: now, updatedAt: now,
 };
 
 describe('batteriesCsv', () => {

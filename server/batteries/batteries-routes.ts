@@ -7,6 +7,8 @@ import { parseBody, parseIdParam } from '../http/validate.js';
 import { BATTERY_OPTIONAL_DEFAULTS, toApiBattery } from '../db/models/battery.js';
 import { linkRunToBattery, RunLinkError } from '../runs/run-battery-link.js';
 import { batteriesCsv } from './batteries-csv.js';
+import { protectionRecord } from './protection-record.js';
+import type { Run } from '../../shared/schemas/run.js';
 
 /** /api/batteries: everyone signed in reads; technicians and admins write. */
 export function createBatteriesRouter(ctx: AppContext): Router {
@@ -28,6 +30,12 @@ export function createBatteriesRouter(ctx: AppContext): Router {
 
   router.get('/:id', requireRole('viewer'), async (req, res) => {
     res.json({ battery: toApiBattery(await findOr404(parseIdParam(req.params.id))) });
+  });
+
+  router.get('/:id/protections', requireRole('viewer'), async (req, res) => {
+    const battery = await findOr404(parseIdParam(req.params.id));
+    const live = (run: Run) => ctx.services.runRecorder?.withLive(run) ?? run;
+    res.json({ batteryId: battery.id, specs: toApiBattery(battery).protectionSpecs, rows: await protectionRecord(ctx.sequelize, battery.id, live) });
   });
 
   router.post('/', requireRole('technician'), async (req, res) => {

@@ -14,8 +14,8 @@ export const DEMO_BENCHES: CreateBenchRequest[] = [
   },
   {
     name: 'Bench B: cold chamber',
-    source: { kind: 'simulator', scenario: 'lfp-24v-50ah-cold-heater', speed: 20, seed: 12 },
-    notes: 'Simulated Kestrel Energy 25.6 V 50 Ah pack with a heater pad, charged in the cold chamber. Never charge lithium below 0 °C without a heater.',
+    source: { kind: 'simulator', scenario: 'lfp-48v-30ah-pwm-heater', speed: 20, seed: 12 },
+    notes: 'Simulated Corvane Power 51.2 V 30 Ah pack with a PWM heater film, charged in the cold chamber. Never charge lithium below 0 °C without a heater.',
   },
 ];
 

@@ -31,6 +31,18 @@ export const DEMO_BATTERIES: BatteryInput[] = [
   { label: 'Hollis standby 12 V', brand: 'Hollis Power', model: 'Keep 12-35', chemistry: 'lead-acid', cellsInSeries: 6, cellsInParallel: 1,
     ratedAh: 35, ratedWh: 420, bmsRatedAmps: null, massKg: 10.8, price: 95, priceCurrency: 'EUR', serialNumber: 'HP-K12-1180',
     sender: 'Northgate facilities', notes: 'Sealed lead-acid: ventilate while charging (hydrogen).' },
+  { label: 'Corvane heated 48 V', brand: 'Corvane Power', model: 'Frostline 48-30H', chemistry: 'lfp', cellsInSeries: 16, cellsInParallel: 1,
+    ratedAh: 30, ratedWh: 1536, bmsRatedAmps: 60, massKg: 14.5, price: 749, priceCurrency: 'EUR', serialNumber: 'CP-F48-0319',
+    sender: 'Fjellvik Cabins', notes: 'Heater film pulsed by the BMS. Never charge below 0 °C without the heater working.',
+    // The maker's stated protections (invented for the demo); the simulated Bench B pack behaves this way.
+    protectionSpecs: [
+      { protection: 'cold-charge', thresholdValue: 0, delaySeconds: 5, releaseValue: 3, thresholdTolerance: null, delayToleranceSeconds: null },
+      { protection: 'heater-on', thresholdValue: 2, delaySeconds: null, releaseValue: null, thresholdTolerance: null, delayToleranceSeconds: null },
+      { protection: 'heater-off', thresholdValue: 7, delaySeconds: null, releaseValue: null, thresholdTolerance: null, delayToleranceSeconds: null },
+      { protection: 'over-temp-discharge', thresholdValue: 60, delaySeconds: 10, releaseValue: 50, thresholdTolerance: null, delayToleranceSeconds: null },
+      { protection: 'low-voltage', thresholdValue: 40, delaySeconds: 2, releaseValue: 40.8, thresholdTolerance: null, delayToleranceSeconds: null },
+      { protection: 'over-current', thresholdValue: 60, delaySeconds: 1, releaseValue: null, thresholdTolerance: null, delayToleranceSeconds: null },
+    ] },
 ];
 
 /** Result of seeding: whether anything was written. */
@@ -39,7 +51,7 @@ export interface SeedResult {
 }
 
 /**
- * Seeds the demo lab (settings, three accounts, four packs) when the database has no users yet,
+ * Seeds the demo lab (settings, three accounts, five packs) when the database has no users yet,
  * or regardless with `force` (tests that already created their own users).
  */
 export async function seedDemo(models: CoreModels, demoPassword: string, options: { force?: boolean } = {}): Promise<SeedResult> {

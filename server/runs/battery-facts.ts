@@ -9,6 +9,7 @@ export function batteryLookup(ctx: AppContext): (id: number) => Promise<BatteryF
     return {
       id: row.id, label: row.label, brand: row.brand, chemistry: row.chemistry, cellsInSeries: row.cellsInSeries,
       ratedAh: row.ratedAh, ratedWh: row.ratedWh ?? null, price: row.price ?? null, massKg: row.massKg ?? null,
+      protectionSpecs: row.protectionSpecs ?? [],
     };
   };
 }

@@ -1,6 +1,7 @@
 import type { MeasureConfigInput } from '../../shared/schemas/measure-config.js';
 import { ChemistrySchema } from '../../shared/schemas/chemistry.js';
 import type { RunConfig } from './runs-repo.js';
+import type { ProtectionSpec } from '../../shared/schemas/protection-check.js';
 
 /** What the recorder and importer need to know of a battery. */
 export interface BatteryFacts {
@@ -13,6 +14,8 @@ export interface BatteryFacts {
   ratedWh: number | null;
   price: number | null;
   massKg: number | null;
+  /** What the pack's maker states for its protections (empty when nothing is stated). */
+  protectionSpecs: ProtectionSpec[];
 }
 
 /** Builds the measurement core's config from a run's settings and its battery. */
@@ -33,5 +36,6 @@ export function measureConfigFor(config: RunConfig, battery: BatteryFacts | null
   }
   if (config.alarms.nearEndMarginVolts !== undefined) out.warnMarginVolts = config.alarms.nearEndMarginVolts;
   if (config.tempProtections?.length) out.tempProtections = config.tempProtections;
+  if (config.protectionChecks?.length) out.protectionChecks = config.protectionChecks;
   return out;
 }

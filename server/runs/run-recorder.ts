@@ -8,6 +8,7 @@ import type { ArchiveWriter } from '../archive/archive-writer.js';
 import { HttpError, notFound } from '../http/http-error.js';
 import { ListenerSet } from '../ingest/listener-set.js';
 import { measureConfigFor, type BatteryFacts } from './measure-config.js';
+import { MissingProtectionThresholdError, resolveProtectionChecks } from './resolve-protection-checks.js';
 import { RunSession, type RunSessionSnapshot, type SequencedEvent } from './run-session.js';
 import type { RunsRepo } from './runs-repo.js';
 
@@ -110,7 +111,8 @@ export class RunRecorder {
     if (this.deps.benchExists && !(await this.deps.benchExists(req.benchId))) throw new HttpError(400, `Bench ${req.benchId} does not exist`, { benchId: ['no such bench'] });
     const battery = await this.deps.getBattery(req.batteryId);
     if (!battery) throw new HttpError(400, `Battery ${req.batteryId} does not exist`, { batteryId: ['no such battery'] });
-    const { benchId, batteryId, name, tags, ...config } = req;
+    const { benchId, batteryId, name, tags, protectionChecks: requested, ...rest } = req;
+    const config = { ...rest, protectionChecks: this.protectionChecksFor(req, requested, battery) };
     const run = await this.deps.repo.create({
       name, tags, origin: 'live', benchId, batteryId, state: 'armed', config, createdById: userId, startedAt: new Date(),
     });
@@ -120,6 +122,23 @@ export class RunRecorder {
     this.deps.writer.enqueue(session.takeBatch());
     this.runChanges.emit(run);
     return run;
+  }
+
+  /** The protections a protection-check run times (400 when one has no threshold, or there is nothing to check). */
+  private protectionChecksFor(req: StartRequest, requested: StartRequest['protectionChecks'], battery: BatteryFacts) {
+    if (req.kind !== 'protection-check') return [];
+    let checks;
+    try {
+      checks = resolveProtectionChecks(requested, battery.protectionSpecs);
+    } catch (err) {
+      if (err instanceof MissingProtectionThresholdError) throw new HttpError(400, err.message, { protectionChecks: [err.message] });
+      throw err;
+    }
+    if (checks.length === 0 && req.tempProtections.length === 0) {
+      const message = "Nothing to check: list the protections to time, or state them in the pack's record";
+      throw new HttpError(400, message, { protectionChecks: [message] });
+    }
+    return checks;
   }
 
   /** Stops a live run: finished, or aborted when `abort`. */

@@ -1,5 +1,6 @@
 import { createRunPipeline, type RunPipeline, type RunPipelineSnapshot } from '../../shared/measure/run-pipeline.js';
 import { summarizeRun } from '../../shared/measure/summarize-run.js';
+import { withRunDetails } from '../../shared/measure/protection-summary.js';
 import type { Frame } from '../../shared/schemas/frame.js';
 import type { MeasureConfigInput } from '../../shared/schemas/measure-config.js';
 import type { Reading } from '../../shared/schemas/reading.js';
@@ -162,13 +163,15 @@ export class RunSession {
 
   /** The run's figures now (final once the run has ended). */
   summary(): RunSummary {
-    return summarizeRun({
-      snapshot: this.pipeline.snapshot(),
+    const snapshot = this.pipeline.snapshot();
+    const summary = summarizeRun({
+      snapshot,
       events: this.events,
       acceptancePercent: this.run.acceptancePercent,
       price: this.battery?.price ?? null,
       massKg: this.battery?.massKg ?? null,
     });
+    return withRunDetails(summary, snapshot, this.events, this.run.kind);
   }
 
   /** True when there is anything to archive. */

@@ -4,6 +4,7 @@ import type { ListRunsQuery, StoredRunEvent } from '../../shared/schemas/api-run
 import { RunEventSchema, type RunEvent } from '../../shared/schemas/run-event.js';
 import { RunSummarySchema } from '../../shared/schemas/run-summary.js';
 import { TempProtectionSchema } from '../../shared/schemas/measure-config.js';
+import { ProtectionExpectationSchema } from '../../shared/schemas/protection-check.js';
 import { EndVoltsSchema, RunAlarmsSchema, RunKindSchema, StopWhenSchema, LIVE_RUN_STATES, type Run, type RunState } from '../../shared/schemas/run.js';
 import { utcDateTime } from '../db/utc-datetime.js';
 
@@ -15,6 +16,7 @@ export const RunConfigSchema = z.object({
   alarms: RunAlarmsSchema,
   stopWhen: StopWhenSchema,
   tempProtections: z.array(TempProtectionSchema).optional(),
+  protectionChecks: z.array(ProtectionExpectationSchema).optional(),
   targetAh: z.number().nullable(),
   targetWh: z.number().nullable(),
   afterRecoverySeconds: z.number(),

@@ -2,26 +2,44 @@ import type { Reading } from '../schemas/reading.js';
 import type { RunEvent } from '../schemas/run-event.js';
 import { HEATER_AMPS_CHANNEL } from '../schemas/frame.js';
 import type { DetectorSettings } from './detector-settings.js';
-import { advanceStreak, createStreak, resetStreak, type Streak } from './streak.js';
 
-/** Serialisable heater state; ampSeconds/onSeconds give the time-weighted mean current while on. */
+const PERCENT = 100;
+const STATE_VERSION = 2;
+
+/**
+ * Serialisable heater state. A heater driven by pulse-width modulation (say 2 s on, 1 s off)
+ * reads "off" in its off slots: a low stretch no longer than `heaterPwmOffSeconds` is a slot,
+ * not the heater switching off. Integrals run over every reading while on (slots included),
+ * so the mean is the element's true average; the peak is the largest reading.
+ */
 export interface HeaterState {
+  v: typeof STATE_VERSION;
   on: boolean;
   onT: number;
-  onStreak: Streak;
-  offStreak: Streak;
-  /** Temperature at the start of the off streak (null when none). */
-  offTemp: number | null;
   onTemp: number | null;
+  onAmps: number;
+  /** High readings towards switching on (a PWM slot does not reset them). */
+  highCount: number;
+  /** Start of the present stretch of low readings (null while the current is up). */
+  lowSinceT: number | null;
+  lowCount: number;
+  offTemp: number | null;
   ampSeconds: number;
-  onSeconds: number;
+  seconds: number;
+  highSeconds: number;
+  peakAmps: number;
+  /** The integrals at the start of the present low stretch (what the heater-off event reports). */
+  atLow: { ampSeconds: number; seconds: number; highSeconds: number };
   lastT: number | null;
   lastAmps: number;
 }
 
 /** A fresh heater state (heater off). */
 export function createHeaterState(): HeaterState {
-  return { on: false, onT: 0, onStreak: createStreak(), offStreak: createStreak(), offTemp: null, onTemp: null, ampSeconds: 0, onSeconds: 0, lastT: null, lastAmps: 0 };
+  return {
+    v: STATE_VERSION, on: false, onT: 0, onTemp: null, onAmps: 0, highCount: 0, lowSinceT: null, lowCount: 0, offTemp: null,
+    ampSeconds: 0, seconds: 0, highSeconds: 0, peakAmps: 0, atLow: { ampSeconds: 0, seconds: 0, highSeconds: 0 }, lastT: null, lastAmps: 0,
+  };
 }
 
 function temperatureOf(r: Reading, channel: string | null): number | null {
@@ -31,18 +49,29 @@ function temperatureOf(r: Reading, channel: string | null): number | null {
   return null;
 }
 
-function accumulate(s: HeaterState, t: number, amps: number, heating: boolean): void {
-  // Trapezoid over consecutive heating readings only, so a dropout does not drag the mean down.
-  if (heating && s.lastT !== null) {
-    s.ampSeconds += ((s.lastAmps + amps) / 2) * (t - s.lastT);
-    s.onSeconds += t - s.lastT;
+function accumulate(s: HeaterState, t: number, amps: number, onAmps: number): void {
+  if (s.lastT !== null) {
+    const dt = t - s.lastT;
+    s.ampSeconds += ((s.lastAmps + amps) / 2) * dt;
+    s.seconds += dt;
+    if (s.lastAmps >= onAmps) s.highSeconds += dt;
   }
-  s.lastT = heating ? t : null;
+  s.peakAmps = Math.max(s.peakAmps, amps);
+  s.lastT = t;
   s.lastAmps = amps;
 }
 
-/** Advances heater on/off detection by one reading (aux.heaterAmps), with hysteresis and confirmation. */
+function startCandidate(s: HeaterState, t: number, amps: number, temp: number | null): void {
+  Object.assign(s, { onT: t, onTemp: temp, onAmps: amps, ampSeconds: 0, seconds: 0, highSeconds: 0, peakAmps: 0, lastT: null, lowSinceT: null, lowCount: 0 });
+}
+
+/**
+ * Advances heater on/off detection by one reading (aux.heaterAmps): on after `confirmReadings`
+ * high readings (PWM slots in between allowed), off after a low stretch longer than a PWM slot
+ * and at least `confirmReadings` readings long; both stamped at the stretch's first reading.
+ */
 export function detectHeater(s: HeaterState, r: Reading, k: DetectorSettings, out: RunEvent[]): void {
+  if (s.v !== STATE_VERSION) Object.assign(s, createHeaterState(), { on: s.on, onT: s.onT ?? 0 }); // a state from before PWM support
   const amps = r.aux?.[HEATER_AMPS_CHANNEL];
   if (amps === undefined) return;
   const t = r.elapsedSeconds;
@@ -50,27 +79,44 @@ export function detectHeater(s: HeaterState, r: Reading, k: DetectorSettings, ou
   const high = amps >= k.heaterOnAmps;
   const low = amps < k.heaterOffAmps;
   if (!s.on) {
-    if (s.onStreak.count === 0 && high) {
-      s.ampSeconds = 0;
-      s.onSeconds = 0;
-      s.lastT = null;
-      s.onTemp = temp;
+    if (high) {
+      if (s.highCount === 0) startCandidate(s, t, amps, temp);
+      s.highCount++;
+      s.lowSinceT = null;
+    } else if (s.highCount > 0 && low) {
+      s.lowSinceT ??= t;
+      if (t - s.lowSinceT > k.heaterPwmOffSeconds) s.highCount = 0; // a real pause, not a PWM slot
     }
-    if (advanceStreak(s.onStreak, high, low, t, amps, k.confirmReadings)) {
+    if (s.highCount > 0) accumulate(s, t, amps, k.heaterOnAmps);
+    if (s.highCount >= k.confirmReadings) {
       s.on = true;
-      s.onT = s.onStreak.startT;
-      resetStreak(s.onStreak);
-      out.push({ type: 'heater-on', t: s.onT, tempCelsius: s.onTemp, heaterAmps: s.onStreak.startValue });
+      s.highCount = 0;
+      out.push({ type: 'heater-on', t: s.onT, tempCelsius: s.onTemp, heaterAmps: s.onAmps });
     }
-    if (s.onStreak.count > 0 || s.on) accumulate(s, t, amps, !low);
     return;
   }
-  if (s.offStreak.count === 0 && low) s.offTemp = temp;
-  accumulate(s, t, amps, !low);
-  if (advanceStreak(s.offStreak, low, high, t, amps, k.confirmReadings)) {
+  accumulate(s, t, amps, k.heaterOnAmps);
+  if (!low) {
+    s.lowSinceT = null;
+    return;
+  }
+  if (s.lowSinceT === null) {
+    s.lowSinceT = t;
+    s.lowCount = 0;
+    s.offTemp = temp;
+    s.atLow = { ampSeconds: s.ampSeconds, seconds: s.seconds, highSeconds: s.highSeconds };
+  }
+  s.lowCount++;
+  if (s.lowCount >= k.confirmReadings && t - s.lowSinceT > k.heaterPwmOffSeconds) {
+    const { ampSeconds, seconds, highSeconds } = s.atLow;
+    out.push({
+      type: 'heater-off', t: s.lowSinceT, tempCelsius: s.offTemp,
+      meanHeaterAmps: seconds > 0 ? ampSeconds / seconds : s.onAmps,
+      onSeconds: Math.max(0, s.lowSinceT - s.onT),
+      peakHeaterAmps: s.peakAmps,
+      dutyPercent: seconds > 0 ? (highSeconds / seconds) * PERCENT : PERCENT,
+    });
     s.on = false;
-    resetStreak(s.offStreak);
-    const mean = s.onSeconds > 0 ? s.ampSeconds / s.onSeconds : s.lastAmps;
-    out.push({ type: 'heater-off', t: s.offStreak.startT, tempCelsius: s.offTemp, meanHeaterAmps: mean, onSeconds: Math.max(0, s.offStreak.startT - s.onT) });
+    s.lowSinceT = null;
   }
 }

@@ -77,4 +77,26 @@ describe('heater on/off', () => {
     expect(events.filter((e) => e.type === 'heater-on')).toHaveLength(1);
     expect(events.filter((e) => e.type === 'heater-off')).toHaveLength(1);
   });
+  it('a PWM heater (2 s on, 1 s off, sampled at 1 Hz) is one on-period, with its mean and peak current', () => {
+    // Heaters driven by pulse-width modulation read 0 A in their off slots (issue 11, item 15).
+    // 6 A in the on slots at a 2/3 duty: the element's mean is 6 × 2/3 = 4 A (arithmetic).
+    const frames = trace(0, 700, (t) => {
+      const heating = t >= 100 && t < 601;
+      const slotOn = (t - 100) % 3 < 2;
+      return { volts: 53, amps: -3, temps: { cell: heating ? -2 + (t - 100) / 100 : 3 }, aux: { heaterAmps: heating && slotOn ? 6 : 0 } };
+    });
+    const events = createRunPipeline({}).pushMany(frames).events;
+    const on = events.filter((e) => e.type === 'heater-on');
+    const off = events.filter((e) => e.type === 'heater-off');
+    expect(on).toHaveLength(1);
+    expect(off).toHaveLength(1);
+    expect(on[0]!.t).toBe(100);
+    expect(on[0]!.tempCelsius).toBe(-2);
+    // The last on slot is t = 598-599; t = 600 is an off slot and nothing follows: off at 600.
+    expect(off[0]!.t).toBe(600);
+    expect(off[0]!.peakHeaterAmps).toBe(6);
+    // Trapezoids between 1 Hz samples of a 2-on/1-off square wave: the ramps count half, still 2/3 on average.
+    expect(off[0]!.meanHeaterAmps).toBeCloseTo(4, 1);
+    expect(off[0]!.dutyPercent!).toBeCloseTo(66.7, 0);
+  });
 });

@@ -1,4 +1,5 @@
 import type { MeasureConfig, TempProtection } from '../schemas/measure-config.js';
+import type { ProtectionExpectation } from '../schemas/protection-check.js';
 
 /** Share of the end voltage used as the default hysteresis band. */
 const DEFAULT_HYSTERESIS_SHARE = 0.01;
@@ -23,9 +24,11 @@ export interface DetectorSettings {
   ratedAh: number | null;
   ratedWh: number | null;
   tempProtections: TempProtection[];
+  protectionChecks: ProtectionExpectation[];
   tempHysteresisCelsius: number;
   heaterOnAmps: number;
   heaterOffAmps: number;
+  heaterPwmOffSeconds: number;
   heaterTempChannel: string | null;
 }
 
@@ -53,9 +56,11 @@ export function resolveDetectorSettings(config: MeasureConfig): DetectorSettings
     ratedAh: config.ratedAh ?? null,
     ratedWh: config.ratedWh ?? null,
     tempProtections: config.tempProtections,
+    protectionChecks: config.protectionChecks,
     tempHysteresisCelsius: config.tempHysteresisCelsius,
     heaterOnAmps: config.heaterOnAmps,
     heaterOffAmps: Math.min(config.heaterOffAmps, config.heaterOnAmps),
+    heaterPwmOffSeconds: config.heaterPwmOffSeconds,
     heaterTempChannel: config.heaterTempChannel ?? null,
   };
 }

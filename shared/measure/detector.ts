@@ -6,6 +6,7 @@ import { createCutoffState, detectCutoff, type CutoffState } from './detect-cuto
 import { createMilestoneState, detectMilestones, type MilestoneState } from './detect-milestones.js';
 import { createTempProtectionState, detectTempProtection, type TempProtectionState } from './detect-temp-protection.js';
 import { createHeaterState, detectHeater, type HeaterState } from './detect-heater.js';
+import { createProtectionCheckState, detectProtectionCheck, type ProtectionCheckState } from './detect-protection-check.js';
 
 export { resolveDetectorSettings, resolveEndVolts, type DetectorSettings } from './detector-settings.js';
 export { LOAD_ON_CHANNEL } from './detect-cutoff.js';
@@ -18,6 +19,8 @@ export interface DetectorState {
   /** One entry per configured temperature protection, in config order. */
   tempProtections: TempProtectionState[];
   heater: HeaterState;
+  /** One entry per protection check, in config order. */
+  protectionChecks: ProtectionCheckState[];
 }
 
 /** Shape check for a restored detector state (the parts are checked by use; this catches a wrong or truncated blob). */
@@ -27,6 +30,7 @@ export const DetectorStateSchema = z.object({
   milestones: z.object({ fired: z.array(z.string()), warned: z.boolean() }).loose(),
   tempProtections: z.array(z.object({ phase: z.enum(['watch', 'armed', 'tripped']) }).loose()),
   heater: z.object({ on: z.boolean() }).loose(),
+  protectionChecks: z.array(z.object({ phase: z.enum(['start', 'watch', 'armed', 'tripped']) }).loose()).default([]),
 });
 
 /** A fresh detector state for the given settings. */
@@ -37,6 +41,7 @@ export function createDetectorState(k: DetectorSettings): DetectorState {
     milestones: createMilestoneState(),
     tempProtections: k.tempProtections.map(() => createTempProtectionState()),
     heater: createHeaterState(),
+    protectionChecks: k.protectionChecks.map(() => createProtectionCheckState()),
   };
 }
 
@@ -50,4 +55,5 @@ export function detectStep(s: DetectorState, k: DetectorSettings, r: Reading, ou
   detectMilestones(s.milestones, r, k, out);
   for (let i = 0; i < k.tempProtections.length; i++) detectTempProtection(s.tempProtections[i]!, k.tempProtections[i]!, r, k, out);
   detectHeater(s.heater, r, k, out);
+  for (let i = 0; i < k.protectionChecks.length; i++) detectProtectionCheck(s.protectionChecks[i]!, i, k.protectionChecks[i]!, r, k, out);
 }

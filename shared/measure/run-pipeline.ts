@@ -84,6 +84,7 @@ export function createRunPipeline(config: MeasureConfigInput, snapshot?: unknown
     det = snap.detector as unknown as DetectorState;
     stats = snap.stats;
     if (det.tempProtections.length !== settings.tempProtections.length) throw new Error('snapshot: temperature protections do not match its config');
+    if (det.protectionChecks.length !== settings.protectionChecks.length) throw new Error('snapshot: protection checks do not match its config');
   }
   if (snapshot !== undefined) restore(snapshot);
 

@@ -20,6 +20,10 @@ export const RunStatsSchema = z.object({
   lastLoadT: nullableNumber,
   lastLoadVolts: z.number(),
   lastLoadAmps: z.number(),
+  /** Extremes of each temperature channel, by the bench's channel name (absent in older snapshots). */
+  tempChannels: z.record(z.string(), z.object({ min: z.number(), max: z.number() })).default({}),
+  minAmps: nullableNumber.default(null),
+  maxAmps: nullableNumber.default(null),
 });
 export type RunStats = z.infer<typeof RunStatsSchema>;
 
@@ -28,6 +32,7 @@ export function createRunStats(): RunStats {
   return {
     minVolts: null, maxVolts: null, minTempCelsius: null, maxTempCelsius: null, lastElapsedSeconds: null,
     loadSeconds: 0, loadVoltSeconds: 0, loadAmpSeconds: 0, loadWattSeconds: 0, lastLoadT: null, lastLoadVolts: 0, lastLoadAmps: 0,
+    tempChannels: {}, minAmps: null, maxAmps: null,
   };
 }
 
@@ -35,11 +40,20 @@ export function createRunStats(): RunStats {
 export function updateRunStats(s: RunStats, elapsedSeconds: number, volts: number, amps: number, temps: Record<string, number> | undefined, loadOnAmps: number, gap: boolean): void {
   if (s.minVolts === null || volts < s.minVolts) s.minVolts = volts;
   if (s.maxVolts === null || volts > s.maxVolts) s.maxVolts = volts;
+  s.tempChannels ??= {};
+  if (s.minAmps === undefined || s.minAmps === null || amps < s.minAmps) s.minAmps = amps;
+  if (s.maxAmps === undefined || s.maxAmps === null || amps > s.maxAmps) s.maxAmps = amps;
   if (temps) {
     for (const key in temps) {
       const c = temps[key]!;
       if (s.minTempCelsius === null || c < s.minTempCelsius) s.minTempCelsius = c;
       if (s.maxTempCelsius === null || c > s.maxTempCelsius) s.maxTempCelsius = c;
+      const channel = s.tempChannels[key];
+      if (!channel) s.tempChannels[key] = { min: c, max: c };
+      else {
+        if (c < channel.min) channel.min = c;
+        if (c > channel.max) channel.max = c;
+      }
     }
   }
   s.lastElapsedSeconds = elapsedSeconds;

@@ -9,6 +9,7 @@ import {
 } from './run.js';
 import { RunEventSchema } from './run-event.js';
 import { TempProtectionSchema } from './measure-config.js';
+import { PROTECTIONS, ProtectionRequestSchema } from './protection-check.js';
 import { RunSummarySchema } from './run-summary.js';
 
 const id = z.coerce.number().int().positive();
@@ -29,6 +30,11 @@ export const StartRunRequestSchema = z
     alarms: RunAlarmsSchema.default({ onCutoff: true }),
     stopWhen: StopWhenSchema.default('after-recovery'),
     tempProtections: z.array(TempProtectionSchema).max(8).default([]),
+    /**
+     * Protection check: the protections to time. A threshold left out comes from the pack's record;
+     * none listed on a protection check = every protection the pack's record states.
+     */
+    protectionChecks: z.array(ProtectionRequestSchema).max(PROTECTIONS.length).default([]),
     targetAh: z.number().finite().positive().nullable().default(null),
     targetWh: z.number().finite().positive().nullable().default(null),
     afterRecoverySeconds: z.number().finite().nonnegative().max(86_400).default(0),
@@ -40,6 +46,10 @@ export const StartRunRequestSchema = z
   .refine((r) => r.stopWhen !== 'target-wh' || r.targetWh !== null, {
     message: 'targetWh is required when stopWhen is target-wh',
     path: ['targetWh'],
+  })
+  .refine((r) => r.protectionChecks.length === 0 || r.kind === 'protection-check', {
+    message: 'Protections are checked on a protection-check run: set kind to protection-check',
+    path: ['protectionChecks'],
   });
 export type StartRunRequest = z.input<typeof StartRunRequestSchema>;
 

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { PROTECTIONS, ProtectionSpecSchema } from './protection-check.js';
 
 /** Cell chemistries Kneepoint knows end voltages for (trade abbreviations). */
 export const CHEMISTRIES = ['lfp', 'nmc', 'nca', 'lco', 'lmo', 'lto', 'lead-acid', 'nimh'] as const;
@@ -47,6 +48,12 @@ const BatteryFieldsSchema = z.object({
   terminalType: optionalText(120),
   statedCycleLife: z.number().int().positive().max(MAX_CYCLE_LIFE).nullable().optional(),
   warrantyMonths: z.number().int().nonnegative().max(MAX_WARRANTY_MONTHS).nullable().optional(),
+  /** What the pack's maker states for each protection (threshold in °C, pack V or A; delay; release); one entry per protection. */
+  protectionSpecs: z
+    .array(ProtectionSpecSchema)
+    .max(PROTECTIONS.length)
+    .refine((specs) => new Set(specs.map((s) => s.protection)).size === specs.length, { message: 'One entry per protection' })
+    .optional(),
 });
 
 /** Fields a technician sends to create a battery pack record (a single cell group by default). */
@@ -81,6 +88,7 @@ export const BatterySchema = BatteryInputSchema.extend({
   terminalType: z.string().nullable(),
   statedCycleLife: z.number().nullable(),
   warrantyMonths: z.number().nullable(),
+  protectionSpecs: z.array(ProtectionSpecSchema),
   createdAt: z.string(),
   updatedAt: z.string(),
 });

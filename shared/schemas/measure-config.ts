@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { ChemistrySchema } from './chemistry.js';
+import { ProtectionExpectationSchema } from './protection-check.js';
 
 const pos = z.number().finite().positive();
 const nonNeg = z.number().finite().nonnegative();
@@ -48,11 +49,15 @@ export const MeasureConfigSchema = z.object({
   /** Recovery threshold after a protection cutoff; default the end voltage. */
   recoveryVolts: pos.optional(),
   tempProtections: z.array(TempProtectionSchema).default([]),
+  /** Protections a protection check times against their expected threshold and delay. */
+  protectionChecks: z.array(ProtectionExpectationSchema).default([]),
   /** Hysteresis on temperature limits: back inside only this far past the limit, °C. */
   tempHysteresisCelsius: nonNeg.default(1),
   /** Heater current above this turns the heater "on"; below heaterOffAmps "off". */
   heaterOnAmps: pos.default(0.5),
   heaterOffAmps: nonNeg.default(0.2),
+  /** A heater reading low for no longer than this is in a PWM off slot, not switched off, s. */
+  heaterPwmOffSeconds: nonNeg.default(5),
   /** Temperature channel reported with heater events; default the first channel present. */
   heaterTempChannel: z.string().min(1).optional(),
 });

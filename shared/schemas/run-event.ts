@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { ProtectionSchema } from './protection-check.js';
 
 /** Every event carries `t`: seconds since the run started (same clock as Reading.elapsedSeconds). */
 const base = { t: z.number().finite() };
@@ -108,9 +109,41 @@ export const HeaterOffEventSchema = z.object({
   ...base,
   type: z.literal('heater-off'),
   tempCelsius: finite.nullable(),
-  /** Time-weighted mean heater current while on. */
+  /** Time-weighted mean heater current while on (PWM off slots included: the element's true average). */
   meanHeaterAmps: finite,
   onSeconds: nonNeg,
+  /** Largest heater current while on (the element's current in a PWM on slot). */
+  peakHeaterAmps: finite.optional(),
+  /** Share of the on time with the current above the on threshold, % (100 for a heater not pulsed). */
+  dutyPercent: finite.optional(),
+});
+
+/** A checked protection acted: its current stopped (or the heater switched) with the signal past the threshold. */
+export const ProtectionCheckTripEventSchema = z.object({
+  ...base,
+  type: z.literal('protection-check-trip'),
+  protection: ProtectionSchema,
+  /** Index of the check in the run's list. */
+  check: z.number().int().nonnegative(),
+  /** First reading past the threshold (null when the pack was past it from the start). */
+  crossedT: finite.nullable(),
+  /** The signal at the last reading before the current stopped. */
+  value: finite,
+  delaySeconds: nonNeg.nullable(),
+  beyondAtStart: z.boolean(),
+});
+
+/** Current flows again after a checked protection acted (charging resumes after warming, reconnect after a cutoff). */
+export const ProtectionCheckReleaseEventSchema = z.object({
+  ...base,
+  type: z.literal('protection-check-release'),
+  protection: ProtectionSchema,
+  check: z.number().int().nonnegative(),
+  /** t of the trip it ends. */
+  tripT: finite,
+  /** The signal at the first reading with current flowing again. */
+  value: finite,
+  resumeSeconds: nonNeg,
 });
 
 export const MilestoneKindSchema = z.enum(['half-rated-ah', 'rated-ah', 'half-rated-wh', 'rated-wh', 'near-end-voltage']);
@@ -144,6 +177,8 @@ export const RunEventSchema = z.discriminatedUnion('type', [
   ProtectionResetEventSchema,
   HeaterOnEventSchema,
   HeaterOffEventSchema,
+  ProtectionCheckTripEventSchema,
+  ProtectionCheckReleaseEventSchema,
   MilestoneEventSchema,
   RunMarkEventSchema,
 ]);
@@ -161,6 +196,8 @@ export type ProtectionTripEvent = z.infer<typeof ProtectionTripEventSchema>;
 export type ProtectionResetEvent = z.infer<typeof ProtectionResetEventSchema>;
 export type HeaterOnEvent = z.infer<typeof HeaterOnEventSchema>;
 export type HeaterOffEvent = z.infer<typeof HeaterOffEventSchema>;
+export type ProtectionCheckTripEvent = z.infer<typeof ProtectionCheckTripEventSchema>;
+export type ProtectionCheckReleaseEvent = z.infer<typeof ProtectionCheckReleaseEventSchema>;
 export type MilestoneEvent = z.infer<typeof MilestoneEventSchema>;
 export type MilestoneKind = z.infer<typeof MilestoneKindSchema>;
 export type ProtectionKind = z.infer<typeof ProtectionKindSchema>;

@@ -2,12 +2,16 @@ import { z } from 'zod';
 import { RunTotalsSchema } from './reading.js';
 import { ChemistrySchema } from './chemistry.js';
 import { CutoffCauseSchema } from './run-event.js';
+import { ProtectionResultSchema } from './protection-check.js';
 
 const finite = z.number().finite();
 const nonNeg = z.number().finite().nonnegative();
 
-/** Pass/fail against the acceptance %, or `unrated` when no rating was given. */
-export const VerdictSchema = z.enum(['pass', 'fail', 'unrated']);
+/**
+ * Pass/fail against the acceptance %, `unrated` when no rating was given, `not-applicable` on a
+ * run that is not a capacity test (a protection check is judged by its per-protection table).
+ */
+export const VerdictSchema = z.enum(['pass', 'fail', 'unrated', 'not-applicable']);
 export type Verdict = z.infer<typeof VerdictSchema>;
 
 /**
@@ -51,6 +55,10 @@ export const RunSummarySchema = z
     internalResistanceOhms: finite.nullable(),
     /** Lead-acid only: capacity corrected to 25 °C (IEEE 450 method). */
     correctedAh25C: finite.nullable(),
+    /** Lowest and highest reading of each temperature channel, by the bench's channel name. */
+    tempChannels: z.record(z.string(), z.object({ minCelsius: finite, maxCelsius: finite })).optional(),
+    /** Protection checks only: one row per protection checked (see ProtectionResult). */
+    protections: z.array(ProtectionResultSchema).optional(),
   })
   .extend(RunTotalsSchema.shape);
 

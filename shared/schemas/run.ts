@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { RunSummarySchema } from './run-summary.js';
 import { TempProtectionSchema } from './measure-config.js';
+import { ProtectionExpectationSchema } from './protection-check.js';
 
 /** What a run is for; decides which detectors matter and how the verdict is read. */
 export const RunKindSchema = z.enum(['capacity-discharge', 'charge', 'protection-check', 'custom']);
@@ -62,6 +63,8 @@ export const RunSchema = z.object({
   stopWhen: StopWhenSchema,
   /** Temperature protections to time (protection checks): limit crossed → current ≈ 0 A. Absent = none. */
   tempProtections: z.array(TempProtectionSchema).optional(),
+  /** Protection checks: each protection's expected threshold and delay, resolved when the run started (typed on the run, else the pack's record). */
+  protectionChecks: z.array(ProtectionExpectationSchema).optional(),
   /** Ah delivered at which a `target-ah` run stops. */
   targetAh: z.number().finite().positive().nullable(),
   /** Wh delivered at which a `target-wh` run stops. */

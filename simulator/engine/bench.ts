@@ -68,7 +68,7 @@ export function createBench(scenario: Scenario, prng: Prng): Bench {
       return { cellAmps, heaterAmps: 0, amps: cellAmps, volts };
     }
     // The pad hangs on the charger side of the charge switch, so it runs even when charging is blocked.
-    const heaterAmps = heater ? heater.amps(sourceVolts) : 0;
+    const heaterAmps = heater ? heater.amps(sourceVolts, t) : 0;
     const cellAmps = bms?.chargeOpen ? 0 : chargeAmps(step.charger, sourceVolts, ohms, heaterAmps);
     return { cellAmps, heaterAmps, amps: cellAmps - heaterAmps, volts: sourceVolts - cellAmps * ohms };
   };
@@ -108,7 +108,7 @@ export function createBench(scenario: Scenario, prng: Prng): Bench {
     events.push(...changes);
     if (heater) {
       const charging = currentStep()?.kind === 'charge';
-      const change = charging ? heater.update(tempC) : heater.on ? heater.update(Infinity) : undefined;
+      const change = charging ? heater.update(tempC, t) : heater.on ? heater.update(Infinity, t) : undefined;
       if (change) events.push({ t, kind: change === 'on' ? 'heater-on' : 'heater-off', tempC });
     }
     const reason = currentStep() ? stopReason(p, changes, chargeWasOpen) : undefined;

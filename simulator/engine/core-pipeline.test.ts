@@ -24,11 +24,11 @@ describe('simulated runs through the measurement core', () => {
   });
 
   it('the core sees each heater cycle the model ran', () => {
-    const sim = createSimulation(loadScenario('lfp-24v-50ah-cold-heater'), { seed: 12 });
-    const { events } = createRunPipeline({ chemistry: 'lfp', cellsInSeries: 8, ratedAh: 50 }).pushMany(sim.frames());
+    const sim = createSimulation(loadScenario('lfp-48v-30ah-pwm-heater'), { seed: 12 });
+    const { events } = createRunPipeline({ chemistry: 'lfp', cellsInSeries: 16, ratedAh: 30 }).pushMany(sim.frames());
     const modelOns = sim.bench.events.filter((e) => e.kind === 'heater-on');
     const coreOns = events.filter((e) => e.type === 'heater-on');
     expect(coreOns.length).toBe(modelOns.length);
     coreOns.forEach((on, i) => expect(Math.abs(on.t - modelOns[i].t)).toBeLessThanOrEqual(5));
-  });
+  }, 30_000); // hours of simulated charge at 1 Hz
 });

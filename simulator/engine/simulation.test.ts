@@ -13,7 +13,7 @@ function runToEnd(sim: Simulation) {
 }
 
 describe('energy balance against the measurement core', () => {
-  it.each(['lfp-12v-100ah-cp-cutoff', 'lead-acid-12v-reserve', 'lfp-24v-50ah-cold-heater'])(
+  it.each(['lfp-12v-100ah-cp-cutoff', 'lead-acid-12v-reserve', 'lfp-48v-30ah-pwm-heater'])(
     '%s: model energy equals the integrated frames within 0.1 %%',
     (name) => {
       const sim = createSimulation(loadScenario(name), { seed: 3, meter: IDEAL_METER });
@@ -54,8 +54,8 @@ describe('scenarios behave as their titles promise', () => {
     expect(weakTrip!.t).toBeGreaterThan(0.7 * healthyTrip!.t);
   });
 
-  it('the cold scenario turns the heater on below 0 °C, off near 5 °C, and blocks charging while cold', () => {
-    const scenario = loadScenario('lfp-24v-50ah-cold-heater');
+  it('the cold scenario turns the heater on below its on threshold, off near its off threshold, and blocks charging while cold', () => {
+    const scenario = loadScenario('lfp-48v-30ah-pwm-heater');
     const sim = createSimulation(scenario, { seed: 2 });
     const samples = runToEnd(sim);
     const heater = scenario.pack.heater!;

@@ -9,6 +9,15 @@ const LOW_SOC_KNEE = 0.12;
 const LOW_SOC_GAIN: Readonly<Record<Chemistry, number>> = { lfp: 2, nmc: 2, 'lead-acid': 6 };
 /** Volts per unit of SoC below empty: an over-discharged cell collapses steeply. */
 const OVER_DISCHARGE_SLOPE_VOLTS = 20;
+/**
+ * Near full, charging meets a steep polarisation (the end-of-charge voltage rise): above
+ * this state of charge the RC pair's resistance grows, so a CC-CV charge tapers at the
+ * charger's voltage while the rested voltage stays on the rested table. It relaxes with
+ * the RC time constant once the charger stops.
+ */
+const HIGH_SOC_KNEE = 0.9;
+/** How many times the RC resistance multiplies at 100 % on charge (chosen so a 3.6 V a cell LFP charge tapers near full). */
+const HIGH_SOC_CHARGE_GAIN: Readonly<Record<Chemistry, number>> = { lfp: 80, nmc: 0, 'lead-acid': 0 };
 /** Cold electrolyte is limited: resistance growth is capped so the exponential stays sane. */
 const MAX_COLD_FACTOR = 20;
 
@@ -31,8 +40,8 @@ export interface Cell {
   ocv(tempC: number): number;
   /** Ohmic resistance at a temperature and the present state of charge. */
   ohms(tempC: number): number;
-  /** RC pair resistance at a temperature. */
-  rcOhms(tempC: number): number;
+  /** RC pair resistance at a temperature, carrying amps (charging near full adds the end-of-charge rise). */
+  rcOhms(tempC: number, amps?: number): number;
   /** Advances the cell by dtS seconds carrying amps (positive = discharge). */
   step(amps: number, dtS: number, tempC: number): void;
 }
@@ -61,13 +70,15 @@ export function createCell(params: CellParams): Cell {
       const lowSocFactor = 1 + LOW_SOC_GAIN[params.chemistry] * depth * depth;
       return params.ohmicOhms * temperatureFactor(tempC) * lowSocFactor;
     },
-    rcOhms(tempC) {
-      return params.ohmicOhms * chem.rcResistanceRatio * temperatureFactor(tempC);
+    rcOhms(tempC, amps = 0) {
+      const depth = amps < 0 ? Math.max(0, (cell.soc - HIGH_SOC_KNEE) / (1 - HIGH_SOC_KNEE)) : 0;
+      const endOfCharge = 1 + HIGH_SOC_CHARGE_GAIN[params.chemistry] * depth * depth;
+      return params.ohmicOhms * chem.rcResistanceRatio * temperatureFactor(tempC) * endOfCharge;
     },
     step(amps, dtS, tempC) {
       // Exact solution of the RC pair for a current held constant over the step.
       const decay = Math.exp(-dtS / chem.rcTauSeconds);
-      cell.rcVolts = cell.rcVolts * decay + amps * cell.rcOhms(tempC) * (1 - decay);
+      cell.rcVolts = cell.rcVolts * decay + amps * cell.rcOhms(tempC, amps) * (1 - decay);
       // Peukert: discharging faster than the rated rate uses up more charge than it delivers.
       const peukert =
         amps > 0 ? Math.pow(amps / referenceAmps, chem.peukertExponent - 1) : 1;

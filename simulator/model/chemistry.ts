@@ -29,16 +29,18 @@ export interface ChemistryProfile {
 
 /*
  * Lithium iron phosphate: the shape (steep below 10 %, a long plateau at 3.25-3.35 V,
- * a steep rise in the last few percent) is that of the rested OCV curves in LFP cell
+ * a rise in the last few percent) is that of the rested OCV curves in LFP cell
  * datasheets and in the battery-modelling literature; the points are from memory, not
- * digitised from one publication. Nominal 3.2 V, 3.65 V charge limit and 2.5 V end voltage
- * are the usual LFP cell datasheet values (from memory).
+ * digitised from one publication. The table is a RESTED voltage: a full cell settles to
+ * about 3.35-3.45 V after an hour or more off the charger (from memory), so it ends at
+ * 3.42 V, not at the 3.6-3.65 V a charger holds. Nominal 3.2 V, 3.65 V charge limit and
+ * 2.5 V end voltage are the usual LFP cell datasheet values (from memory).
  */
 const LFP: ChemistryProfile = {
   ocvTable: [
     [0, 2.5], [0.02, 2.85], [0.05, 3.05], [0.1, 3.18], [0.2, 3.24], [0.3, 3.27],
     [0.4, 3.285], [0.5, 3.295], [0.6, 3.305], [0.7, 3.32], [0.8, 3.33], [0.9, 3.34],
-    [0.95, 3.36], [0.98, 3.42], [0.995, 3.52], [1, 3.6],
+    [0.95, 3.35], [0.98, 3.37], [0.995, 3.4], [1, 3.42],
   ],
   maxChargeCellVolts: 3.65,
   endCellVolts: 2.5,

@@ -1,32 +1,45 @@
-/** Heater pad settings: a thermostat with hysteresis, powered from the charger. */
+/** Heater settings: a thermostat with hysteresis, powered from the charger. */
 export interface HeaterParams {
   watts: number;
-  /** Pack volts at which the pad draws its rated watts (it is a plain resistor). */
+  /** Pack volts at which the element draws its rated watts (it is a plain resistor). */
   ratedVolts: number;
   onBelowC: number;
   offAboveC: number;
+  /** Pulse-width modulation while on (absent: powered all the time it is on). */
+  pwm?: { onS: number; offS: number };
 }
 
 /** Thermostat state: switches on below one threshold and off above another. */
 export interface HeaterController {
   readonly on: boolean;
-  /** Updates the thermostat; returns 'on' or 'off' when it switches, else undefined. */
-  update(tempC: number): 'on' | 'off' | undefined;
-  /** Current the pad draws at a supply voltage (0 when off). */
-  amps(supplyVolts: number): number;
+  /** Updates the thermostat at simulated time tS; returns 'on' or 'off' when it switches, else undefined. */
+  update(tempC: number, tS?: number): 'on' | 'off' | undefined;
+  /** Current the element draws at a supply voltage at simulated time tS (0 when off or in a PWM off slot). */
+  amps(supplyVolts: number, tS?: number): number;
 }
+
+/** Float steps (0.25 s ...) add up: a tolerance keeps a slot boundary where it belongs. */
+const PWM_EPSILON_S = 1e-9;
 
 /** Creates the heater thermostat; it starts off. */
 export function createHeater(params: HeaterParams): HeaterController {
-  const padOhms = (params.ratedVolts * params.ratedVolts) / params.watts;
+  const elementOhms = (params.ratedVolts * params.ratedVolts) / params.watts;
   let on = false;
+  let onAtS = 0;
+  const powered = (tS: number): boolean => {
+    if (!params.pwm) return true;
+    const period = params.pwm.onS + params.pwm.offS;
+    const phase = (tS - onAtS + PWM_EPSILON_S) % period;
+    return phase < params.pwm.onS;
+  };
   return {
     get on() {
       return on;
     },
-    update(tempC) {
+    update(tempC, tS = 0) {
       if (!on && tempC < params.onBelowC) {
         on = true;
+        onAtS = tS;
         return 'on';
       }
       if (on && tempC > params.offAboveC) {
@@ -35,6 +48,6 @@ export function createHeater(params: HeaterParams): HeaterController {
       }
       return undefined;
     },
-    amps: (supplyVolts) => (on ? Math.max(0, supplyVolts) / padOhms : 0),
+    amps: (supplyVolts, tS = 0) => (on && powered(tS) ? Math.max(0, supplyVolts) / elementOhms : 0),
   };
 }

@@ -51,6 +51,17 @@ describe('open-circuit voltage curves against published cell values', () => {
     expect(capacityToEnd('lfp', 2.5)).toBeLessThan(1.03);
   });
 
+  it('LFP: a full cell rests at about 3.35-3.45 V, so a full 4-cell pack starts a 0.4 C discharge well below 14 V', () => {
+    // Rested LFP after charge: about 3.35-3.45 V a cell (from memory); 3.6 V is a charging voltage.
+    expect(ocvAt('lfp', 1)).toBeGreaterThanOrEqual(3.35);
+    expect(ocvAt('lfp', 1)).toBeLessThanOrEqual(3.45);
+    const ratedAh = 100;
+    const cell = createCell({ chemistry: 'lfp', ratedAh, capacityAh: ratedAh, ohmicOhms: CHEMISTRIES.lfp.ohmAhProduct / ratedAh, initialSoc: 1 });
+    const startPackVolts = 4 * (cell.ocv(ROOM_C) - 0.4 * ratedAh * cell.ohms(ROOM_C));
+    expect(startPackVolts).toBeLessThan(13.8);
+    expect(startPackVolts).toBeGreaterThan(13.2);
+  });
+
   it('NMC: nominal 3.6-3.7 V, 4.2 V charge limit, about rated capacity to 3.0 V', () => {
     // NMC cell datasheets: nominal 3.6-3.7 V, charge 4.2 V, cutoff 2.5-3.0 V (from memory).
     const nominal = meanOcvCellVolts('nmc');

@@ -34,7 +34,7 @@ export function createPack(chemistry: Chemistry, ratedAh: number, specs: readonl
       let heatWatts = 0;
       for (const cell of cells) {
         // Joule heat in the ohmic part plus the RC pair's resistor, taken before the update.
-        heatWatts += amps * amps * cell.ohms(tempC) + (cell.rcVolts * cell.rcVolts) / cell.rcOhms(tempC);
+        heatWatts += amps * amps * cell.ohms(tempC) + (cell.rcVolts * cell.rcVolts) / cell.rcOhms(tempC, amps);
         cell.step(amps, dtS, tempC);
       }
       return heatWatts;

@@ -13,8 +13,11 @@ export const CellOverrideSchema = z.object({
   socOffset: z.number().finite().min(-1).max(1).optional(),
 });
 
+/** A heater driven by pulse-width modulation while on: `onS` seconds powered, `offS` seconds not, repeated. */
+export const HeaterPwmSchema = z.object({ onS: positive, offS: positive });
+
 export const HeaterSchema = z
-  .object({ watts: positive, ratedVolts: positive, onBelowC: celsius, offAboveC: celsius })
+  .object({ watts: positive, ratedVolts: positive, onBelowC: celsius, offAboveC: celsius, pwm: HeaterPwmSchema.optional() })
   .refine((h) => h.offAboveC > h.onBelowC, { message: 'offAboveC must be above onBelowC (hysteresis)' });
 
 export const PackSchema = z.object({

@@ -14,7 +14,7 @@ const ModbusRTU = createRequire(import.meta.url)('modbus-serial') as typeof Modb
 const FRAMES = 120;
 const PROBE_AFTER_MS = 300;
 const TIMEOUT_MS = 30_000;
-const scenario = loadScenario('lfp-24v-50ah-cold-heater');
+const scenario = loadScenario('lfp-48v-30ah-pwm-heater');
 let meter: PtyMeter | undefined;
 const ports: SerialPort[] = [];
 const link = (name: string) => `/tmp/kneepoint-sim-test-${process.pid}-${name}`;

@@ -55,7 +55,7 @@ async function newRun(name: string, benchId: number) {
   await benchModel(server.ctx.sequelize).findOrCreate({ where: { id: benchId }, defaults: { id: benchId, name: `Outage bench ${benchId}`, source: JSON.stringify({ kind: 'none' }), enabled: true, notes: '' } });
   const battery = await server.ctx.models.Battery.create({ ...BATTERY_OPTIONAL_DEFAULTS, label: name, brand: 'Kestrel Energy', chemistry: 'lfp', cellsInSeries: 4, cellsInParallel: 1, ratedAh: 20, createdById: null });
   return server.ctx.services.runRecorder!.start(
-    { benchId, batteryId: battery.id, name, tags: [], kind: 'capacity-discharge', endVolts: null, acceptancePercent: 100, alarms: { onCutoff: true }, stopWhen: 'manual', tempProtections: [], targetAh: null, targetWh: null, afterRecoverySeconds: 0 },
+    { benchId, batteryId: battery.id, name, tags: [], kind: 'capacity-discharge', endVolts: null, acceptancePercent: 100, alarms: { onCutoff: true }, stopWhen: 'manual', tempProtections: [], protectionChecks: [], targetAh: null, targetWh: null, afterRecoverySeconds: 0 },
     null,
   );
 }

@@ -24,6 +24,14 @@ describe('batteries', () => {
     const response = await viewer.get('/api/batteries').expect(200);
     const labels = response.body.batteries.map((battery: { label: string }) => battery.label);
     expect(labels).toEqual(expect.arrayContaining(DEMO_BATTERIES.map((battery) => battery.label)));
+    // The heated demo pack keeps its stated protections; the others state none.
+    const heated = response.body.batteries.find((battery: { label: string }) => battery.label === 'Corvane heated 48 V');
+    expect(heated.protectionSpecs.map((s: { protection: string }) => s.protection)).toEqual(['cold-charge', 'heater-on', 'heater-off', 'over-temp-discharge', 'low-voltage', 'over-current']);
+    const plain = response.body.batteries.find((battery: { label: string }) => battery.label === 'Hollis standby 12 V');
+    expect(plain.protectionSpecs).toEqual([]);
+    const record = await viewer.get(`/api/batteries/${heated.id}/protections`).expect(200);
+    expect(record.body).toMatchObject({ batteryId: heated.id, rows: [] });
+    expect(record.body.specs).toHaveLength(6);
   });
 
   it('lets a technician create, read, change and delete a pack', async () => {

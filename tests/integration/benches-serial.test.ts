@@ -154,7 +154,7 @@ describe('simulator bench through a pseudo-terminal', () => {
   for (const format of ['csv', 'modbus'] as const) {
     it(`${format}: a simulator source with a format streams the scenario over the real serial path`, async () => {
       const frames: Frame[] = [];
-      const config = SimulatorSourceConfigSchema.parse({ kind: 'simulator', scenario: 'lfp-24v-50ah-cold-heater', speed: 50, seed: 2, format });
+      const config = SimulatorSourceConfigSchema.parse({ kind: 'simulator', scenario: 'lfp-48v-30ah-pwm-heater', speed: 50, seed: 2, format });
       const source = createSource(config, { frame: (f) => frames.push(f), status: () => undefined });
       cleanup.push(() => source.stop());
       source.start();

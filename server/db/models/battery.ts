@@ -1,5 +1,6 @@
 import { DataTypes, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Model, type ModelStatic, type Sequelize } from 'sequelize';
 import type { Battery, Chemistry } from '../../../shared/schemas/battery.js';
+import { ProtectionSpecSchema, type ProtectionSpec } from '../../../shared/schemas/protection-check.js';
 
 /** A row of `batteries`: one pack or cell under test. */
 export interface BatteryRow extends Model<InferAttributes<BatteryRow>, InferCreationAttributes<BatteryRow>> {
@@ -27,6 +28,8 @@ export interface BatteryRow extends Model<InferAttributes<BatteryRow>, InferCrea
   terminalType: string | null;
   statedCycleLife: number | null;
   warrantyMonths: number | null;
+  /** JSON array of ProtectionSpec (migration 0700); null = none stated. */
+  protectionSpecs: ProtectionSpec[] | null;
   createdById: number | null;
   createdAt: CreationOptional<Date>;
   updatedAt: CreationOptional<Date>;
@@ -38,8 +41,23 @@ export const BATTERY_OPTIONAL_DEFAULTS = {
   model: null, ratedWh: null, bmsRatedAmps: null, massKg: null, price: null,
   priceCurrency: null, serialNumber: null, sender: null, notes: null,
   receivedOn: null, owner: null, lengthMm: null, widthMm: null, heightMm: null,
-  terminalType: null, statedCycleLife: null, warrantyMonths: null,
+  terminalType: null, statedCycleLife: null, warrantyMonths: null, protectionSpecs: null,
 };
+
+/** Reads the stored protection specs, dropping anything that no longer parses (a bad row never breaks the pack's page). */
+export function parseProtectionSpecs(raw: unknown): ProtectionSpec[] {
+  if (raw === null || raw === undefined) return [];
+  let value: unknown = raw;
+  if (typeof raw === 'string') {
+    try {
+      value = JSON.parse(raw);
+    } catch {
+      return [];
+    }
+  }
+  const parsed = ProtectionSpecSchema.array().safeParse(value);
+  return parsed.success ? parsed.data : [];
+}
 
 const nullable = (type: DataTypes.DataType) => ({ type, allowNull: true, defaultValue: null });
 
@@ -72,6 +90,17 @@ export function defineBattery(sequelize: Sequelize): BatteryModel {
       terminalType: nullable(DataTypes.STRING(120)),
       statedCycleLife: nullable(DataTypes.INTEGER),
       warrantyMonths: nullable(DataTypes.INTEGER),
+      protectionSpecs: {
+        type: DataTypes.TEXT,
+        allowNull: true,
+        defaultValue: null,
+        get(this: BatteryRow) {
+          return parseProtectionSpecs(this.getDataValue('protectionSpecs'));
+        },
+        set(this: BatteryRow, value: ProtectionSpec[] | null) {
+          this.setDataValue('protectionSpecs', (value && value.length > 0 ? JSON.stringify(value) : null) as unknown as ProtectionSpec[]);
+        },
+      },
       createdById: nullable(DataTypes.INTEGER),
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
@@ -83,5 +112,5 @@ export function defineBattery(sequelize: Sequelize): BatteryModel {
 /** The battery as the API returns it. */
 export function toApiBattery(row: BatteryRow): Battery {
   const { createdById: _createdBy, createdAt, updatedAt, ...fields } = row.get({ plain: true });
-  return { ...fields, createdAt: new Date(createdAt).toISOString(), updatedAt: new Date(updatedAt).toISOString() };
+  return { ...fields, protectionSpecs: parseProtectionSpecs(fields.protectionSpecs), createdAt: new Date(createdAt).toISOString(), updatedAt: new Date(updatedAt).toISOString() };
 }

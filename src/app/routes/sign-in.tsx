@@ -18,7 +18,7 @@ export function SignInRoute() {
   if (me.data) return <Navigate to={next} replace />;
 
   return (
-    <div className="flex min-h-screen items-center justify-center p-4">
+    <main className="flex min-h-screen items-center justify-center p-4">
       <div className="w-full max-w-md">
         <div className="mb-8 flex items-center justify-between">
           <div className="flex items-center gap-3">
@@ -35,6 +35,6 @@ export function SignInRoute() {
           <SignInForm onSignedIn={() => navigate(next, { replace: true })} />
         </div>
       </div>
-    </div>
+    </main>
   );
 }

@@ -59,7 +59,7 @@ export function CutoffAlarm({ store, label, sound, size = 'normal', units = {} }
 
   if (!alarm) return null;
   return (
-    <div role="alert" className={`alarm-pulse flex flex-wrap items-center justify-between gap-3 rounded-2xl bg-state-cutoff text-white shadow-lg ${size === 'compact' ? 'p-3' : 'p-5'}`}>
+    <div role="alert" className={`alarm-pulse flex flex-wrap items-center justify-between gap-3 rounded-2xl bg-state-cutoff text-on-tone shadow-lg ${size === 'compact' ? 'p-3' : 'p-5'}`}>
       <div>
         <p className={`${HEADLINE[size]} font-black tracking-tight`}>{alarm.event.type === 'cutoff' ? 'CUTOFF' : 'ALARM'} · {label}</p>
         <p className={`mt-1 font-medium ${DETAIL[size]}`}><MonoNumbers text={detail} />

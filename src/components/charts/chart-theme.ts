@@ -1,5 +1,5 @@
 import type uPlot from 'uplot';
-import { SIGNAL_COLORS } from '../../lib/palette';
+import { resolveColor, SIGNAL_COLORS } from '../../lib/palette';
 import { formatElapsedClock, formatTemperature } from '../../lib/units';
 
 /** Chart colours that follow the theme, read from the CSS variables in styles.css. */
@@ -67,25 +67,29 @@ export function signalScales(): uPlot.Scales {
 
 /**
  * The axes the live and history charts share: run time, volts on the left, amps and the
- * temperature on the right, each in its signal's colour and unit.
+ * temperature on the right, each in its signal's colour and unit. A chart that draws watts
+ * asks for their axis too (left, beside volts); on a phone it steps aside like the temperature.
  */
-export function signalAxes(widthPx: number, temperatureUnit: 'C' | 'F'): uPlot.Axis[] {
+export function signalAxes(widthPx: number, temperatureUnit: 'C' | 'F', { watts = false }: { watts?: boolean } = {}): uPlot.Axis[] {
   const { axis, grid } = chartTheme();
   const axisBase = { stroke: axis, font: AXIS_FONT, grid: { stroke: grid }, ticks: { stroke: grid } };
   const { sizePx, showTemperature } = yAxisLayout(widthPx);
   return [
     { ...axisBase, incrs: RUN_TIME_INCREMENTS_S, space: RUN_TIME_LABEL_SPACE_PX, values: (_u, ticks) => ticks.map((t) => formatElapsedClock(t)) },
-    { ...axisBase, scale: 'V', stroke: SIGNAL_COLORS.volts, values: (_u, ticks) => ticks.map((t) => `${t} V`), size: sizePx },
-    { ...axisBase, scale: 'A', side: 1, grid: { show: false }, stroke: SIGNAL_COLORS.amps, values: (_u, ticks) => ticks.map((t) => `${t} A`), size: sizePx },
+    { ...axisBase, scale: 'V', stroke: resolveColor(SIGNAL_COLORS.volts), values: (_u, ticks) => ticks.map((t) => `${t} V`), size: sizePx },
+    { ...axisBase, scale: 'A', side: 1, grid: { show: false }, stroke: resolveColor(SIGNAL_COLORS.amps), values: (_u, ticks) => ticks.map((t) => `${t} A`), size: sizePx },
     {
       ...axisBase,
       scale: 'C',
       show: showTemperature,
       side: 1,
       grid: { show: false },
-      stroke: SIGNAL_COLORS.temp,
+      stroke: resolveColor(SIGNAL_COLORS.temp),
       values: (_u, ticks) => ticks.map((t) => formatTemperature(t, temperatureUnit, 0)),
       size: sizePx,
     },
+    ...(watts
+      ? [{ ...axisBase, scale: 'W', show: showTemperature, grid: { show: false }, stroke: resolveColor(SIGNAL_COLORS.watts), values: (_u: uPlot, ticks: number[]) => ticks.map((t) => `${t} W`), size: sizePx }]
+      : []),
   ];
 }

@@ -1,7 +1,7 @@
 import { useEffect, useRef } from 'react';
 import uPlot from 'uplot';
 import 'uplot/dist/uPlot.min.css';
-import { COMPARE_COLORS } from '../../lib/palette';
+import { COMPARE_COLORS, resolveColor } from '../../lib/palette';
 import { formatElapsedClock, formatVolts } from '../../lib/units';
 import { useTheme } from '../../lib/use-theme';
 import { usePrinting } from './use-printing';
@@ -39,7 +39,7 @@ export function CompareChart({ series, heightPx = 380 }: { series: readonly Comp
           ...series.map((s, i) => ({
             label: s.label,
             scale: 'V',
-            stroke: COMPARE_COLORS[i % COMPARE_COLORS.length],
+            stroke: resolveColor(COMPARE_COLORS[i % COMPARE_COLORS.length]),
             width: 2,
             spanGaps: false,
             points: { show: false },

@@ -3,7 +3,7 @@ import uPlot from 'uplot';
 import 'uplot/dist/uPlot.min.css';
 import type { SamplesResponse } from '../../../shared/schemas/api-runs';
 import { pickTempChannel } from '../../lib/live-view';
-import { SIGNAL_COLORS } from '../../lib/palette';
+import { resolveColor, SIGNAL_COLORS } from '../../lib/palette';
 import { formatAmps, formatElapsedClock, formatTemperature, formatVolts } from '../../lib/units';
 import { useTheme } from '../../lib/use-theme';
 import { signalAxes, signalScales } from './chart-theme';
@@ -36,16 +36,16 @@ function buildOptions(width: number, heightPx: number, temperatureUnit: 'C' | 'F
     cursor: { drag: { x: true, y: false, setScale: false } },
     series: [
       { label: 'Run time', value: (_u, v) => formatElapsedClock(v) },
-      { label: 'Volts max', scale: 'V', stroke: SIGNAL_COLORS.volts, width: 2, value: (_u, v) => formatVolts(v) },
-      { label: 'Volts min', scale: 'V', stroke: SIGNAL_COLORS.volts, width: 1, value: (_u, v) => formatVolts(v) },
-      { label: 'Amps max', scale: 'A', stroke: SIGNAL_COLORS.amps, width: 2, value: (_u, v) => formatAmps(v) },
-      { label: 'Amps min', scale: 'A', stroke: SIGNAL_COLORS.amps, width: 1, value: (_u, v) => formatAmps(v) },
-      { label: 'Temperature', scale: 'C', stroke: SIGNAL_COLORS.temp, width: 1, dash: [6, 4], points: { show: false }, value: (_u, v) => formatTemperature(v, temperatureUnit) },
+      { label: 'Volts max', scale: 'V', stroke: resolveColor(SIGNAL_COLORS.volts), width: 2, value: (_u, v) => formatVolts(v) },
+      { label: 'Volts min', scale: 'V', stroke: resolveColor(SIGNAL_COLORS.volts), width: 1, value: (_u, v) => formatVolts(v) },
+      { label: 'Amps max', scale: 'A', stroke: resolveColor(SIGNAL_COLORS.amps), width: 2, value: (_u, v) => formatAmps(v) },
+      { label: 'Amps min', scale: 'A', stroke: resolveColor(SIGNAL_COLORS.amps), width: 1, value: (_u, v) => formatAmps(v) },
+      { label: 'Temperature', scale: 'C', stroke: resolveColor(SIGNAL_COLORS.temp), width: 1, dash: [6, 4], points: { show: false }, value: (_u, v) => formatTemperature(v, temperatureUnit) },
     ],
     // Min/max bands: a spike or a cutoff inside a bucket is never averaged away.
     bands: [
-      { series: [1, 2], fill: SIGNAL_COLORS.volts + BAND_ALPHA_HEX },
-      { series: [3, 4], fill: SIGNAL_COLORS.amps + BAND_ALPHA_HEX },
+      { series: [1, 2], fill: resolveColor(SIGNAL_COLORS.volts) + BAND_ALPHA_HEX },
+      { series: [3, 4], fill: resolveColor(SIGNAL_COLORS.amps) + BAND_ALPHA_HEX },
     ],
     axes: signalAxes(width, temperatureUnit),
     hooks: {
@@ -66,7 +66,7 @@ function buildOptions(width: number, heightPx: number, temperatureUnit: 'C' | 'F
           for (const m of markers()) {
             const x = Math.round(u.valToPos(m.t, 'x', true));
             if (x < bbox.left || x > bbox.left + bbox.width) continue;
-            ctx.strokeStyle = m.color;
+            ctx.strokeStyle = resolveColor(m.color);
             ctx.beginPath();
             ctx.moveTo(x, bbox.top);
             ctx.lineTo(x, bbox.top + bbox.height);

@@ -35,3 +35,14 @@ describe('LiveChart', () => {
     expect(plot.setDataCalls).toBe(1);
   });
 });
+
+describe('LiveChart axes', () => {
+  it('gives the watts line an axis of its own, in watts', () => {
+    const store = new LiveStore(() => undefined);
+    render(<LiveChart store={store} />);
+    const opts = (instances[instances.length - 1] as unknown as { opts: { series: { scale?: string }[]; axes: { scale?: string; values?: (u: unknown, t: number[]) => string[] }[] } }).opts;
+    expect(opts.series.some((s) => s.scale === 'W')).toBe(true);
+    const watts = opts.axes.find((a) => a.scale === 'W');
+    expect(watts?.values?.(null, [100, 200])).toEqual(['100 W', '200 W']);
+  });
+});

@@ -1,7 +1,7 @@
 import { useEffect, useRef } from 'react';
 import uPlot from 'uplot';
 import 'uplot/dist/uPlot.min.css';
-import { SIGNAL_COLORS } from '../../lib/palette';
+import { resolveColor, SIGNAL_COLORS } from '../../lib/palette';
 import { formatAmps, formatElapsedClock, formatTemperature, formatVolts, formatWatts } from '../../lib/units';
 import type { LiveStore } from '../../lib/live-store';
 import { useTheme } from '../../lib/use-theme';
@@ -18,12 +18,12 @@ function buildOptions(width: number, heightPx: number, temperatureUnit: 'C' | 'F
     scales: signalScales(),
     series: [
       { label: 'Run time', value: (_u, v) => formatElapsedClock(v) },
-      { label: 'Volts', scale: 'V', stroke: SIGNAL_COLORS.volts, width: LINE_WIDTH_PX, points: { show: false }, value: (_u, v) => formatVolts(v) },
-      { label: 'Amps', scale: 'A', stroke: SIGNAL_COLORS.amps, width: LINE_WIDTH_PX, points: { show: false }, value: (_u, v) => formatAmps(v) },
-      { label: 'Watts', scale: 'W', stroke: SIGNAL_COLORS.watts, width: 1, points: { show: false }, value: (_u, v) => formatWatts(v) },
-      { label: 'Temperature', scale: 'C', stroke: SIGNAL_COLORS.temp, width: 1, dash: [6, 4], points: { show: false }, value: (_u, v) => formatTemperature(v, temperatureUnit) },
+      { label: 'Volts', scale: 'V', stroke: resolveColor(SIGNAL_COLORS.volts), width: LINE_WIDTH_PX, points: { show: false }, value: (_u, v) => formatVolts(v) },
+      { label: 'Amps', scale: 'A', stroke: resolveColor(SIGNAL_COLORS.amps), width: LINE_WIDTH_PX, points: { show: false }, value: (_u, v) => formatAmps(v) },
+      { label: 'Watts', scale: 'W', stroke: resolveColor(SIGNAL_COLORS.watts), width: 1, points: { show: false }, value: (_u, v) => formatWatts(v) },
+      { label: 'Temperature', scale: 'C', stroke: resolveColor(SIGNAL_COLORS.temp), width: 1, dash: [6, 4], points: { show: false }, value: (_u, v) => formatTemperature(v, temperatureUnit) },
     ],
-    axes: signalAxes(width, temperatureUnit),
+    axes: signalAxes(width, temperatureUnit, { watts: true }),
   };
 }
 

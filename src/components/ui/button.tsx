@@ -6,7 +6,7 @@ type Size = 'md' | 'lg';
 const VARIANTS: Record<Variant, string> = {
   primary: 'bg-accent text-accent-ink hover:brightness-110',
   secondary: 'border border-line bg-surface-raised text-ink hover:border-accent',
-  danger: 'bg-state-cutoff text-white hover:brightness-110',
+  danger: 'bg-state-cutoff text-on-tone hover:brightness-110',
   ghost: 'text-ink-muted hover:text-ink hover:bg-surface-raised',
 };
 

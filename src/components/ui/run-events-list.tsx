@@ -1,6 +1,7 @@
 import { MonoNumbers } from './mono-numbers';
 import type { RunEvent } from '../../../shared/schemas/run-event';
-import { RUN_STATE_COLORS, SIGNAL_COLORS } from '../../lib/palette';
+import { PROTECTION_TRAITS, type Protection } from '../../../shared/schemas/protection-check';
+import { NOTE_COLOR, RUN_STATE_COLORS } from '../../lib/palette';
 import { formatAmps, formatCharge, formatDuration, formatElapsedClock, formatEnergy, formatTemperature, formatVolts } from '../../lib/units';
 
 const MILESTONE_LABEL = {
@@ -15,6 +16,13 @@ const MILESTONE_LABEL = {
 export interface EventUnits {
   temperatureUnit?: 'C' | 'F';
   energyUnit?: 'Wh' | 'kWh';
+}
+
+/** A protection's signal value in its unit (temperatures in the lab's unit). */
+export function formatProtectionValue(protection: Protection, value: number | null, temperatureUnit: 'C' | 'F' = 'C'): string {
+  const unit = PROTECTION_TRAITS[protection].unit;
+  if (unit === '°C') return formatTemperature(value, temperatureUnit);
+  return unit === 'V' ? formatVolts(value) : formatAmps(value);
 }
 
 /** One line of words for an event, with every number in its unit (the lab's units). */
@@ -41,7 +49,15 @@ export function describeEvent(e: RunEvent, { temperatureUnit = 'C', energyUnit =
     case 'heater-on':
       return `Heater on, ${formatAmps(e.heaterAmps)}${e.tempCelsius != null ? ` at ${formatTemperature(e.tempCelsius, temperatureUnit)}` : ''}`;
     case 'heater-off':
-      return `Heater off after ${formatDuration(e.onSeconds)}, mean ${formatAmps(e.meanHeaterAmps)}`;
+      return `Heater off after ${formatDuration(e.onSeconds)}, mean ${formatAmps(e.meanHeaterAmps)}${e.peakHeaterAmps != null ? `, peak ${formatAmps(e.peakHeaterAmps)}` : ''}${e.tempCelsius != null ? ` at ${formatTemperature(e.tempCelsius, temperatureUnit)}` : ''}`;
+    case 'protection-check-trip': {
+      const what = PROTECTION_TRAITS[e.protection].label;
+      const at = formatProtectionValue(e.protection, e.value, temperatureUnit);
+      if (e.beyondAtStart && e.crossedT === null) return `${what}: acted from the start (already past its threshold, ${at})`;
+      return `${what} acted at ${at}${e.delaySeconds != null ? ` after ${formatDuration(e.delaySeconds)}` : ''}`;
+    }
+    case 'protection-check-release':
+      return `${PROTECTION_TRAITS[e.protection].label} released: current flows again at ${formatProtectionValue(e.protection, e.value, temperatureUnit)}, ${formatDuration(e.resumeSeconds)} after it acted`;
     case 'milestone':
       return `${MILESTONE_LABEL[e.milestone]}: ${formatVolts(e.volts)}, ${formatEnergy(e.dischargeWh, energyUnit)}, ${formatCharge(e.dischargeAh)}`;
     case 'run-start':
@@ -56,9 +72,9 @@ export function describeEvent(e: RunEvent, { temperatureUnit = 'C', energyUnit =
 }
 
 function eventColor(e: RunEvent): string {
-  if (e.type === 'cutoff' || e.type === 'protection-trip' || (e.type === 'alarm' && e.level === 'critical')) return RUN_STATE_COLORS.cutoff;
-  if (e.type === 'recovery' || e.type === 'protection-reset') return RUN_STATE_COLORS.recovered;
-  if (e.type === 'annotation') return SIGNAL_COLORS.amps;
+  if (e.type === 'cutoff' || e.type === 'protection-trip' || e.type === 'protection-check-trip' || (e.type === 'alarm' && e.level === 'critical')) return RUN_STATE_COLORS.cutoff;
+  if (e.type === 'recovery' || e.type === 'protection-reset' || e.type === 'protection-check-release') return RUN_STATE_COLORS.recovered;
+  if (e.type === 'annotation') return NOTE_COLOR;
   if (e.type === 'gap' || e.type === 'source-lost' || e.type === 'alarm') return RUN_STATE_COLORS.recovered;
   return RUN_STATE_COLORS.finished;
 }

@@ -10,7 +10,7 @@ const pack: Battery = {
   id: 4, label: 'NG-0142', brand: 'Hollis Power', model: 'Keep 12-35', chemistry: 'lead-acid', cellsInSeries: 6, cellsInParallel: 1,
   ratedAh: 35, ratedWh: 420, bmsRatedAmps: null, massKg: 10.8, price: null, priceCurrency: null, serialNumber: 'HP-K12-1180',
   sender: null, notes: null, receivedOn: null, owner: null, lengthMm: null, widthMm: null, heightMm: null,
-  terminalType: null, statedCycleLife: null, warrantyMonths: null, createdAt: now, updatedAt: now,
+  terminalType: null, statedCycleLife: null, warrantyMonths: null, protectionSpecs: [], createdAt: now, updatedAt: now,
 };
 
 describe('battery packs page', () => {

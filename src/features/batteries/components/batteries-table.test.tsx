@@ -11,7 +11,7 @@ const packs: Battery[] = Array.from({ length: 25 }, (_, i) => ({
   chemistry: 'lfp', cellsInSeries: 4, cellsInParallel: 1, ratedAh: 10 + i, ratedWh: null, bmsRatedAmps: null, massKg: null,
   price: null, priceCurrency: null, serialNumber: `SN-${i}`, sender: null, notes: null, receivedOn: null,
   owner: i === 7 ? 'Brookside Installers' : null, lengthMm: null, widthMm: null, heightMm: null, terminalType: null,
-  statedCycleLife: null, warrantyMonths: null, createdAt: now, updatedAt: now,
+  statedCycleLife: null, warrantyMonths: null, protectionSpecs: [], createdAt: now, updatedAt: now,
 }));
 
 const labels = () => screen.getAllByRole('link', { name: /^Open / }).map((a) => a.textContent);

@@ -21,6 +21,11 @@ import { CHEMISTRY_LABEL } from '../../../lib/chemistry-label';
 export const REGISTER_PAGE_SIZE = 20;
 const col = createColumnHelper<Battery>();
 const SORT_MARK = { asc: ' ▲', desc: ' ▼' } as const;
+/** On a phone a row becomes a card: these cells stack, the rest step aside (the pack's page has them). */
+const CELL = 'px-3 py-3 align-middle max-md:block max-md:px-0 max-md:py-0.5';
+const WIDE_ONLY = 'px-3 py-3 align-middle max-md:hidden';
+/** Columns shown on a phone's card; every other column is for wider screens. */
+const PHONE_COLUMNS = new Set(['label', 'brand', 'chemistry', 'ratedAh', 'actions']);
 
 /** The register: every pack, sortable by any column, filtered by any text, a page at a time. */
 export function BatteriesTable({ batteries, onEdit }: { batteries: readonly Battery[]; onEdit?: (battery: Battery) => void }) {
@@ -32,7 +37,7 @@ export function BatteriesTable({ batteries, onEdit }: { batteries: readonly Batt
       col.accessor('label', {
         header: 'Label',
         cell: (c) => (
-          <Link to={`/batteries/${c.row.original.id}`} className="font-semibold text-accent hover:underline" aria-label={`Open ${c.getValue()}`}>
+          <Link to={`/batteries/${c.row.original.id}`} className="inline-flex min-h-11 items-center font-semibold text-accent hover:underline" aria-label={`Open ${c.getValue()}`}>
             {c.getValue()}
           </Link>
         ),
@@ -95,6 +100,7 @@ export function BatteriesTable({ batteries, onEdit }: { batteries: readonly Batt
 
   return (
     <div className="flex flex-col gap-4">
+      {/* The phone's cards have no column headers: sorting there is by the label, the filter finds the rest. */}
       <div className="flex flex-wrap items-end gap-3">
         <div className="min-w-0 flex-1">
           <TextField label="Filter packs" type="search" placeholder="Label, brand, serial, client…" value={filter} onChange={(e) => { setFilter(e.target.value); table.setPageIndex(0); }} />
@@ -103,9 +109,9 @@ export function BatteriesTable({ batteries, onEdit }: { batteries: readonly Batt
           Export CSV
         </a>
       </div>
-      <div className="overflow-x-auto rounded-xl border border-line">
-        <table className="w-full text-left text-sm">
-          <thead className="bg-surface-sunken text-ink-muted">
+      <div className="overflow-x-auto rounded-xl border border-line max-md:overflow-visible max-md:border-0">
+        <table className="w-full text-left text-sm max-md:block">
+          <thead className="bg-surface-sunken text-ink-muted max-md:sr-only">
             {table.getHeaderGroups().map((hg) => (
               <tr key={hg.id}>
                 {hg.headers.map((h) => (
@@ -123,11 +129,11 @@ export function BatteriesTable({ batteries, onEdit }: { batteries: readonly Batt
               </tr>
             ))}
           </thead>
-          <tbody>
+          <tbody className="max-md:flex max-md:flex-col max-md:gap-3">
             {table.getRowModel().rows.map((row) => (
-              <tr key={row.id} className="border-t border-line bg-surface-raised">
+              <tr key={row.id} className="border-t border-line bg-surface-raised max-md:block max-md:rounded-xl max-md:border max-md:p-4">
                 {row.getVisibleCells().map((cell) => (
-                  <td key={cell.id} className="px-3 py-3 align-middle">
+                  <td key={cell.id} className={PHONE_COLUMNS.has(cell.column.id) ? CELL : WIDE_ONLY}>
                     {flexRender(cell.column.columnDef.cell, cell.getContext())}
                   </td>
                 ))}

@@ -14,7 +14,7 @@ const pack: Battery = {
   ratedAh: 100, ratedWh: 5120, bmsRatedAmps: 100, massKg: 44, price: 1480, priceCurrency: 'EUR', serialNumber: 'HS-W5-0142',
   sender: 'Brookside Installers', notes: 'Arrived with a dented corner', receivedOn: '2026-11-28', owner: 'Canal Street Solar',
   lengthMm: 480, widthMm: 410, heightMm: 190, terminalType: 'M8 studs', statedCycleLife: 6000, warrantyMonths: 120,
-  createdAt: now, updatedAt: now,
+  protectionSpecs: [], createdAt: now, updatedAt: now,
 };
 const runs = [
   finishedRun(12, '2026-11-30T08:00:00Z', { ...summaryDelivering(96, 4915), verdict: 'fail', percentRatedAh: 96 }, { batteryId: 4, name: 'Second capacity test' }),

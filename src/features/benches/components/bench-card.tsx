@@ -20,13 +20,18 @@ export function BenchCard({ bench, temperatureUnit, energyUnit }: { bench: Bench
 
   return (
     <div
-      className={`flex flex-col gap-4 rounded-2xl border-2 border-l-8 bg-surface-raised p-5 transition hover:border-accent ${alarm ? 'border-state-cutoff' : 'border-line'}`}
+      className={`relative flex flex-col gap-4 rounded-2xl border-2 border-l-8 bg-surface-raised p-5 transition hover:border-accent ${alarm ? 'border-state-cutoff' : 'border-line'}`}
       // The left edge wears the run's state colour, the same one as the badge and the legend.
       style={{ borderLeftColor: run ? RUN_STATE_COLORS[run.state] : undefined }}
     >
-      <Link to={`/benches/${bench.id}`} className="flex flex-col gap-4" aria-label={`Bench ${bench.name}`}>
+      <div className="flex flex-col gap-4">
         <div className="flex flex-wrap items-center justify-between gap-2">
-          <h2 className="text-xl font-bold">{bench.name}</h2>
+          <h2 className="text-xl font-bold">
+            {/* The whole card opens the bench (the link's area stretches over it); its name is the bench's. */}
+            <Link to={`/benches/${bench.id}`} className="after:absolute after:inset-0 after:rounded-2xl after:content-['']">
+              {bench.name}
+            </Link>
+          </h2>
           <BenchStatusBadge state={status.state} />
         </div>
         <div className="grid grid-cols-2 gap-4">
@@ -41,11 +46,11 @@ export function BenchCard({ bench, temperatureUnit, energyUnit }: { bench: Bench
             size="md"
           />
         </div>
-      </Link>
-      <div className="border-t border-line pt-3">
+      </div>
+      <div className="relative z-10 border-t border-line pt-3">
         {run ? <BenchRunLine run={run} benchName={bench.name} energyUnit={energyUnit} /> : <span className="text-sm text-ink-faint">No run on this bench</span>}
       </div>
-      {status.message && <p className="text-sm text-ink-muted">{status.message}</p>}
+      {status.message && <p className="relative z-10 text-sm text-ink-muted">{status.message}</p>}
     </div>
   );
 }

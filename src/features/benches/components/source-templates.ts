@@ -3,7 +3,7 @@ import type { SerialFormat } from '../../../../shared/schemas/bench';
 /** Simulator scenarios shipped with Kneepoint, offered as suggestions (the server checks the name). */
 export const SCENARIO_SUGGESTIONS = [
   'lfp-12v-100ah-cp-cutoff',
-  'lfp-24v-50ah-cold-heater',
+  'lfp-48v-30ah-pwm-heater',
   'lfp-12v-hot-cutoff',
   'lfp-12v-weak-cell',
   'lead-acid-12v-reserve',

@@ -80,7 +80,7 @@ export function RoomView({ benchId }: { benchId: number }) {
   const goFullScreen = () => void document.documentElement.requestFullscreen?.().catch(() => undefined);
 
   return (
-    <div className="flex min-h-screen flex-col gap-8 bg-surface p-6 md:p-10">
+    <main className="flex min-h-screen flex-col gap-8 bg-surface p-6 md:p-10">
       <header className="flex flex-wrap items-center justify-between gap-4">
         <h1 className="text-[clamp(2rem,4vw,4.5rem)] font-black leading-none tracking-tight">{name}</h1>
         <div className="flex gap-2">
@@ -100,6 +100,6 @@ export function RoomView({ benchId }: { benchId: number }) {
           <RoomNumbers store={benchStore} totals={false} />
         </>
       )}
-    </div>
+    </main>
   );
 }

@@ -10,7 +10,7 @@ const pack: Battery = {
   id: 3, label: 'Kestrel 12 V camper', brand: 'Kestrel Energy', model: 'Nomad 12-50', chemistry: 'lfp', cellsInSeries: 4, cellsInParallel: 1,
   ratedAh: 50, ratedWh: 640, bmsRatedAmps: 50, massKg: 6.2, price: null, priceCurrency: null, serialNumber: null,
   sender: null, notes: null, receivedOn: null, owner: null, lengthMm: null, widthMm: null, heightMm: null,
-  terminalType: null, statedCycleLife: null, warrantyMonths: null, createdAt: now, updatedAt: now,
+  terminalType: null, statedCycleLife: null, warrantyMonths: null, protectionSpecs: [], createdAt: now, updatedAt: now,
 };
 
 describe('start form: protection check', () => {

@@ -128,7 +128,7 @@ export function StartRunForm({ benchId, onStarted, packCelsius = null, tempChann
             <p
               key={c.text}
               role={c.severe ? 'alert' : undefined}
-              className={`rounded-lg p-3 text-sm md:col-span-2 ${c.severe ? 'bg-state-cutoff font-bold text-white' : 'border border-caution/50 bg-caution-surface text-ink'}`}
+              className={`rounded-lg p-3 text-sm md:col-span-2 ${c.severe ? 'bg-state-cutoff font-bold text-on-tone' : 'border border-caution/50 bg-caution-surface text-ink'}`}
             >
               {c.text}
             </p>

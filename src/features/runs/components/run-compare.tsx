@@ -14,6 +14,8 @@ import { VerdictBadge } from './verdict-badge';
 
 /** Buckets per run: a compare chart needs the shape, not every reading. */
 const COMPARE_MAX_POINTS = 800;
+/** Columns a phone keeps in the comparison table (the rest read under the run's name). */
+const PHONE_COLUMNS = new Set(['Run', 'Of rated', 'Verdict']);
 /** Most runs one chart stays readable with. */
 export const MAX_COMPARED_RUNS = 4;
 
@@ -57,7 +59,7 @@ export function RunCompare({ runIds }: { runIds: readonly number[] }) {
             <thead className="bg-surface-sunken text-ink-muted">
               <tr>
                 {['Run', 'State', 'Energy', 'Charge', 'Of rated', 'Duration', 'Cutoff', 'Verdict'].map((h) => (
-                  <th key={h} className="px-3 py-3 font-semibold">
+                  <th key={h} className={`px-3 py-3 font-semibold ${PHONE_COLUMNS.has(h) ? '' : 'hidden md:table-cell'}`}>
                     {h}
                   </th>
                 ))}
@@ -68,18 +70,22 @@ export function RunCompare({ runIds }: { runIds: readonly number[] }) {
                 <tr key={r!.id} className="border-t border-line bg-surface-raised">
                   <td className="px-3 py-3">
                     <span className="mr-2 inline-block h-3 w-3 rounded-full" style={{ backgroundColor: COMPARE_COLORS[i % COMPARE_COLORS.length] }} aria-hidden="true" />
-                    <Link to={`/runs/${r!.id}`} className="font-semibold text-accent hover:underline">
+                    <Link to={`/runs/${r!.id}`} className="inline-flex min-h-11 items-center font-semibold text-accent hover:underline">
                       {r!.name}
                     </Link>
+                    {/* On a phone the figure columns step aside and read under the name. */}
+                    <span className="num mt-1 block text-ink-muted md:hidden">
+                      {formatCharge(r!.summary?.dischargeAh)} · {formatEnergy(r!.summary?.dischargeWh, settings.energyUnit)} · {formatDuration(r!.summary?.durationSeconds)}
+                    </span>
                   </td>
-                  <td className="px-3 py-3">
+                  <td className="hidden px-3 py-3 md:table-cell">
                     <RunStateBadge state={r!.state} />
                   </td>
-                  <td className="num whitespace-nowrap px-3 py-3">{formatEnergy(r!.summary?.dischargeWh, settings.energyUnit)}</td>
-                  <td className="num whitespace-nowrap px-3 py-3">{formatCharge(r!.summary?.dischargeAh)}</td>
+                  <td className="num hidden whitespace-nowrap px-3 py-3 md:table-cell">{formatEnergy(r!.summary?.dischargeWh, settings.energyUnit)}</td>
+                  <td className="num hidden whitespace-nowrap px-3 py-3 md:table-cell">{formatCharge(r!.summary?.dischargeAh)}</td>
                   <td className="num whitespace-nowrap px-3 py-3">{formatPercent(r!.summary?.percentRatedAh)}</td>
-                  <td className="num whitespace-nowrap px-3 py-3">{formatDuration(r!.summary?.durationSeconds)}</td>
-                  <td className="num whitespace-nowrap px-3 py-3">{formatVolts(r!.summary?.cutoffVolts)}</td>
+                  <td className="num hidden whitespace-nowrap px-3 py-3 md:table-cell">{formatDuration(r!.summary?.durationSeconds)}</td>
+                  <td className="num hidden whitespace-nowrap px-3 py-3 md:table-cell">{formatVolts(r!.summary?.cutoffVolts)}</td>
                   <td className="px-3 py-3">{r!.summary ? <VerdictBadge verdict={r!.summary.verdict} /> : '—'}</td>
                 </tr>
               ))}

@@ -1,5 +1,5 @@
 import { useMemo, useState } from 'react';
-import { Link } from 'react-router-dom';
+import { Link, useSearchParams } from 'react-router-dom';
 import { LIVE_RUN_STATES } from '../../../../shared/schemas/run';
 import type { RunEvent } from '../../../../shared/schemas/run-event';
 import { HistoryChart, type ChartMarker } from '../../../components/charts/history-chart';
@@ -9,7 +9,7 @@ import { RunEventsList } from '../../../components/ui/run-events-list';
 import { RunStateBadge } from '../../../components/ui/state-badge';
 import { Loading, QueryError } from '../../../components/ui/status';
 import { formatLabTime, useLabSettings } from '../../../lib/lab-settings';
-import { RUN_STATE_COLORS, SIGNAL_COLORS } from '../../../lib/palette';
+import { NOTE_COLOR, RUN_STATE_COLORS } from '../../../lib/palette';
 import { formatElapsedClock } from '../../../lib/units';
 import { useRun, useRunEvents } from '../api/get-run';
 import { useRunSamples, type SampleWindow } from '../api/get-run-samples';
@@ -17,15 +17,28 @@ import { RunLabelEditor } from './run-label-editor';
 import { RunNoteForm } from './run-note-form';
 import { RunSetupPanel } from './run-setup-panel';
 import { RunSummaryPanel } from './run-summary-panel';
+import { ProtectionCheckPanel, TempChannels } from './protection-check-panel';
 
 /** About one bucket per horizontal pixel of a wide chart. */
 const CHART_MAX_POINTS = 1000;
 const FULL_WINDOW: SampleWindow = { from: null, to: null };
 
+/** The chart's window lives in the address (`?from=&to=`, run seconds), so a link can open the run zoomed to a stretch. */
+function windowFrom(params: URLSearchParams): SampleWindow {
+  const read = (key: string) => {
+    const raw = params.get(key);
+    const n = raw === null || raw.trim() === '' ? NaN : Number(raw);
+    return Number.isFinite(n) ? n : null;
+  };
+  const from = read('from');
+  const to = read('to');
+  return from !== null && to !== null && to <= from ? FULL_WINDOW : { from, to };
+}
+
 function markerFor(e: RunEvent): ChartMarker | null {
   if (e.type === 'cutoff') return { t: e.t, color: RUN_STATE_COLORS.cutoff };
   if (e.type === 'recovery') return { t: e.t, color: RUN_STATE_COLORS.recovered };
-  if (e.type === 'annotation') return { t: e.t, color: SIGNAL_COLORS.amps };
+  if (e.type === 'annotation') return { t: e.t, color: NOTE_COLOR };
   return null;
 }
 
@@ -34,7 +47,17 @@ export function RunDetail({ runId, canEdit = false }: { runId: number; canEdit?:
   const run = useRun(runId);
   const events = useRunEvents(runId);
   const settings = useLabSettings();
-  const [sampleWindow, setWindow] = useState<SampleWindow>(FULL_WINDOW);
+  const [params, setParams] = useSearchParams();
+  const sampleWindow = useMemo(() => windowFrom(params), [params]);
+  const setWindow = (w: SampleWindow) => {
+    const next = new URLSearchParams(params);
+    for (const key of ['from', 'to'] as const) {
+      const v = w[key];
+      if (v === null) next.delete(key);
+      else next.set(key, String(Math.round(v * 10) / 10));
+    }
+    setParams(next, { replace: true });
+  };
   const samples = useRunSamples(runId, sampleWindow, CHART_MAX_POINTS);
   const [editing, setEditing] = useState(false);
   // Stable between renders so the chart is not rebuilt for nothing.
@@ -99,9 +122,14 @@ export function RunDetail({ runId, canEdit = false }: { runId: number; canEdit?:
         <Card className="p-6">
           <RunSetupPanel run={r} />
         </Card>
-        {r.summary ? (
+        {r.summary && r.kind === 'protection-check' ? (
           <Card className="p-6">
+            <ProtectionCheckPanel runId={runId} summary={r.summary} temperatureUnit={settings.temperatureUnit} energyUnit={settings.energyUnit} />
+          </Card>
+        ) : r.summary ? (
+          <Card className="flex flex-col gap-3 p-6">
             <RunSummaryPanel summary={r.summary} temperatureUnit={settings.temperatureUnit} energyUnit={settings.energyUnit} />
+            <TempChannels summary={r.summary} temperatureUnit={settings.temperatureUnit} />
           </Card>
         ) : (
           <Card className="text-ink-muted">No summary yet: the run is still recording.</Card>

@@ -32,7 +32,7 @@ export function RunSetupPanel({ run }: { run: Run }) {
   return (
     <div className="grid gap-6 md:grid-cols-2">
       <section aria-label="Battery pack">
-        <h3 className="mb-2 font-semibold">Pack</h3>
+        <h2 className="mb-2 font-semibold">Pack</h2>
         {run.batteryId === null ? (
           <p className="text-sm text-ink-muted">Not linked to a registered pack.</p>
         ) : b ? (
@@ -50,7 +50,7 @@ export function RunSetupPanel({ run }: { run: Run }) {
         )}
       </section>
       <section aria-label="Test setup">
-        <h3 className="mb-2 font-semibold">Test</h3>
+        <h2 className="mb-2 font-semibold">Test</h2>
         <dl>
           <Row label="Kind" value={KIND[run.kind]} />
           <Row label="Bench" value={run.origin === 'import' ? 'Imported log' : (bench.data?.name ?? (run.benchId === null ? '—' : `Bench ${run.benchId}`))} />

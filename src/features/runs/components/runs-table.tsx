@@ -18,6 +18,11 @@ const KIND_LABEL = { 'capacity-discharge': 'Capacity', charge: 'Charge', 'protec
 
 const col = createColumnHelper<Run>();
 
+/** Columns a phone shows (the rest read in the run's own page): tick, name with its state, verdict. */
+const PHONE_COLUMNS = new Set(['compare', 'name', 'verdict']);
+/** Classes for a cell or header of `columnId`: phone-hidden columns appear from the md breakpoint. */
+const columnClass = (columnId: string) => (PHONE_COLUMNS.has(columnId) ? '' : 'hidden md:table-cell');
+
 /** The run archive: search by name, filter by state and tag, newest first. */
 export function RunsTable() {
   const settings = useLabSettings();
@@ -51,21 +56,30 @@ export function RunsTable() {
         id: 'compare',
         header: 'Compare',
         cell: (c) => (
-          <input
-            type="checkbox"
-            aria-label={`Compare ${c.row.original.name}`}
-            checked={selected.includes(c.row.original.id)}
-            onChange={() => toggle(c.row.original.id)}
-            className="h-6 w-6"
-          />
+          // The label around the box gives a 44 px touch target (WCAG 2.2 SC 2.5.5) for a small box.
+          <label className="-m-2 inline-flex h-11 w-11 cursor-pointer items-center justify-center">
+            <input
+              type="checkbox"
+              aria-label={`Compare ${c.row.original.name}`}
+              checked={selected.includes(c.row.original.id)}
+              onChange={() => toggle(c.row.original.id)}
+              className="h-6 w-6"
+            />
+          </label>
         ),
       }),
       col.accessor('name', {
         header: 'Run',
         cell: (c) => (
-          <Link to={`/runs/${c.row.original.id}`} className="font-semibold text-accent hover:underline">
-            {c.getValue()}
-          </Link>
+          <>
+            <Link to={`/runs/${c.row.original.id}`} className="inline-flex min-h-11 items-center font-semibold text-accent hover:underline">
+              {c.getValue()}
+            </Link>
+            {/* On a phone the State column steps aside; the state rides under the name. */}
+            <span className="mt-1 block md:hidden">
+              <RunStateBadge state={c.row.original.state} />
+            </span>
+          </>
         ),
       }),
       col.accessor('state', { header: 'State', cell: (c) => <RunStateBadge state={c.getValue()} /> }),
@@ -127,7 +141,7 @@ export function RunsTable() {
                 {table.getHeaderGroups().map((hg) => (
                   <tr key={hg.id}>
                     {hg.headers.map((h) => (
-                      <th key={h.id} className="px-3 py-3 font-semibold">
+                      <th key={h.id} className={`px-3 py-3 font-semibold ${columnClass(h.column.id)}`}>
                         {flexRender(h.column.columnDef.header, h.getContext())}
                       </th>
                     ))}
@@ -138,7 +152,7 @@ export function RunsTable() {
                 {table.getRowModel().rows.map((row) => (
                   <tr key={row.id} className="border-t border-line bg-surface-raised">
                     {row.getVisibleCells().map((cell) => (
-                      <td key={cell.id} className="px-3 py-3 align-middle">
+                      <td key={cell.id} className={`px-3 py-3 align-middle ${columnClass(cell.column.id)}`}>
                         {flexRender(cell.column.columnDef.cell, cell.getContext())}
                       </td>
                     ))}

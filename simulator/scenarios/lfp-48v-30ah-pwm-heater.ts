@@ -1,0 +1,31 @@
+import type { ScenarioInput } from '../scenario/schema.js';
+import { lfpBms, lfpThermal } from './lfp-defaults.js';
+
+/**
+ * Our own heated-pack design (fictional brand, invented figures): a 16-cell 51.2 V 30 Ah LFP
+ * pack whose heater film is driven by pulse-width modulation, 2 s on and 1 s off, from the
+ * charger. The BMS blocks charging below 0 °C and releases at 3 °C; the heater switches on
+ * below 2 °C and off above 7 °C.
+ */
+export const lfp48v30ahPwmHeater: ScenarioInput = {
+  name: 'lfp-48v-30ah-pwm-heater',
+  title: 'Corvane Power 51.2 V 30 Ah LFP with a PWM heater film: charging at −15 °C',
+  description:
+    'A 16-cell LFP pack at −6 °C in a −15 °C chamber on a 6 A / 57.6 V charger. The BMS blocks ' +
+    'charging below 0 °C; the 120 W film, pulsed 2 s on / 1 s off from the charger, runs below 2 °C and stops above 7 °C.',
+  pack: {
+    label: 'Corvane Power 51.2 V 30 Ah heated',
+    chemistry: 'lfp',
+    cellsInSeries: 16,
+    ratedAh: 30,
+    capacityTolerancePct: 1,
+    initialSoc: 0.25,
+    initialTempC: -6,
+    thermal: lfpThermal(16, 30),
+    heater: { watts: 120, ratedVolts: 51.2, onBelowC: 2, offAboveC: 7, pwm: { onS: 2, offS: 1 } },
+  },
+  bms: lfpBms({ overCurrentAmps: 60 }),
+  ambient: [{ atS: 0, tempC: -15 }],
+  program: [{ kind: 'charge', charger: { cvVolts: 57.6, ccAmps: 6, termAmps: 0.6 }, maxS: 4 * 3600, stopWhen: 'charged' }],
+  meter: { samplePeriodS: 1, voltsNoise: 0.005, ampsNoise: 0.01, tempNoise: 0.05 },
+};
