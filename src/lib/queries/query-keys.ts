@@ -22,6 +22,7 @@ export const queryKeys = {
     list: () => ['batteries'] as const,
     detail: (batteryId: number | null) => ['batteries', batteryId] as const,
     inspection: (batteryId: number) => ['batteries', batteryId, 'inspection'] as const,
+    protections: (batteryId: number) => ['batteries', batteryId, 'protections'] as const,
   },
   inspectionItems: ['inspection-items'] as const,
   runs: {

@@ -7,6 +7,7 @@ import {
   type InspectionEntryInput,
   type InspectionRating,
 } from '../../../../shared/schemas/inspection';
+import { ProtectionRecordResponseSchema } from '../../../../shared/schemas/protection-check';
 import { api } from '../../../lib/api-client';
 import { queryKeys } from '../../../lib/queries/query-keys';
 
@@ -27,6 +28,13 @@ export const inspectionQueryOptions = (batteryId: number) =>
   queryOptions({
     queryKey: queryKeys.batteries.inspection(batteryId),
     queryFn: () => api(`/api/batteries/${batteryId}/inspection`, { schema: InspectionResponseSchema }),
+  });
+
+/** GET /api/batteries/:id/protections: every protection checked on the pack, latest run first. */
+export const protectionRecordQueryOptions = (batteryId: number) =>
+  queryOptions({
+    queryKey: queryKeys.batteries.protections(batteryId),
+    queryFn: () => api(`/api/batteries/${batteryId}/protections`, { schema: ProtectionRecordResponseSchema }),
   });
 
 /** GET /api/inspection-items: the lab's checklist, retired items included. */

@@ -31,11 +31,24 @@ const inspection: InspectionResponse = {
   otherPhotos: [],
 };
 
+// One invented cold-charge check of the fictional pack (figures for the demo only).
+const protections = {
+  batteryId: 4,
+  specs: [{ protection: 'cold-charge', thresholdValue: 0, delaySeconds: 5, releaseValue: 3, thresholdTolerance: null, delayToleranceSeconds: null }],
+  rows: [{
+    protection: 'cold-charge', unit: '°C', channel: 'cell', expectedValue: 0, expectedDelaySeconds: 5, expectedReleaseValue: 3,
+    thresholdTolerance: 2, delayToleranceSeconds: 1.5, measuredValue: -0.6, measuredDelaySeconds: 6, releaseValue: 3.2, resumeSeconds: 600,
+    beyondAtStart: false, meanHeaterAmps: null, peakHeaterAmps: null, trips: 1, outcome: 'pass', notes: [], window: null,
+    runId: 13, runName: 'Cold-charge check', runState: 'finished', startedAt: now, endedAt: now,
+  }],
+};
+
 function stubPack(role: 'viewer' | 'technician') {
   return stubApi(demoUser(role), (url, init) => {
     if (url === '/api/batteries/4') return { status: 200, body: { battery: pack } };
     if (url.startsWith('/api/runs?batteryId=4')) return { status: 200, body: { runs, total: 2 } };
     if (url === '/api/batteries/4/inspection') return { status: 200, body: inspection };
+    if (url === '/api/batteries/4/protections') return { status: 200, body: protections };
     if (url === '/api/batteries/4/inspection/2' && init?.method === 'PUT') return { status: 200, body: { entry: {} } };
     return undefined;
   });
@@ -63,7 +76,11 @@ describe('the pack page', () => {
     expect(plot.data[1]).toEqual([101, 96]);
     expect(plot.data[2]![1]).toBeCloseTo((4915 / 5120) * 100, 9);
 
-    expect(within(screen.getByRole('region', { name: 'Protection record' })).getByText('The protection record is not available yet')).toBeTruthy();
+    const record = screen.getByRole('region', { name: 'Protection record' });
+    const checked = await within(record).findByRole('table', { name: 'Protections checked on this pack' });
+    expect(within(checked).getByRole('link', { name: 'Cold-charge check' }).getAttribute('href')).toBe('/runs/13');
+    expect(within(checked).getByText('Pass')).toBeTruthy();
+    expect(within(record).getByText(/Cold-charge inhibit: 0\.0 °C after/)).toBeTruthy();
     const teardown = screen.getByRole('region', { name: 'Teardown inspection' });
     expect(await within(teardown).findByText('16 prismatic cells')).toBeTruthy();
     expect(within(teardown).getByRole('img', { name: 'cells.jpg' }).getAttribute('src')).toBe('/api/photos/9/thumb');
