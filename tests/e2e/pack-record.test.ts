@@ -108,6 +108,14 @@ describe('a pack registered, inspected and photographed', () => {
     await page.screenshot({ path: `${SCREENSHOT_DIR}/pack-page-phone.png`, fullPage: true });
     const wide = (await overflowPx(page)) > 0 ? await widestElements(page) : [];
     expect({ findings, wide, small: await smallTouchTargets(page, TOUCH_TARGET_PX) }).toEqual({ findings: [], wide: [], small: [] });
+
+    // The register's filter, pages and export fit the phone too (its rows become cards).
+    await page.goto(`${t.url}/batteries`);
+    await settle(page);
+    await page.getByRole('link', { name: `Open ${PACK_LABEL}` }).waitFor();
+    await page.screenshot({ path: `${SCREENSHOT_DIR}/pack-register-phone.png`, fullPage: true });
+    const registerWide = (await overflowPx(page)) > 0 ? await widestElements(page) : [];
+    expect({ registerWide, small: await smallTouchTargets(page, TOUCH_TARGET_PX) }).toEqual({ registerWide: [], small: [] });
     await page.close();
   });
 });

@@ -111,7 +111,7 @@ export function BatteriesTable({ batteries, onEdit }: { batteries: readonly Batt
       </div>
       <div className="overflow-x-auto rounded-xl border border-line max-md:overflow-visible max-md:border-0">
         <table className="w-full text-left text-sm max-md:block">
-          <thead className="bg-surface-sunken text-ink-muted max-md:sr-only">
+          <thead className="bg-surface-sunken text-ink-muted max-md:hidden">
             {table.getHeaderGroups().map((hg) => (
               <tr key={hg.id}>
                 {hg.headers.map((h) => (
