@@ -23,6 +23,15 @@ export const packRunsQueryOptions = (batteryId: number) => {
   });
 };
 
+/** GET /api/runs?limit=: the latest runs of every pack, to pick one to file under a pack. */
+export const recentRunsQueryOptions = () => {
+  const filter = { limit: PACK_RUNS_LIMIT };
+  return queryOptions({
+    queryKey: queryKeys.runs.list(filter),
+    queryFn: () => api(`/api/runs?limit=${PACK_RUNS_LIMIT}`, { schema: ListRunsResponseSchema }),
+  });
+};
+
 /** GET /api/batteries/:id/inspection: the checklist as rated for this pack, with photos. */
 export const inspectionQueryOptions = (batteryId: number) =>
   queryOptions({
@@ -47,6 +56,11 @@ export const inspectionItemsQueryOptions = () =>
 /** Every run of the pack. */
 export function usePackRuns(batteryId: number) {
   return useQuery(packRunsQueryOptions(batteryId));
+}
+
+/** The latest runs of every pack (technicians pick one to link). */
+export function useRecentRuns(enabled: boolean) {
+  return useQuery({ ...recentRunsQueryOptions(), enabled });
 }
 
 /** The pack's teardown inspection. */

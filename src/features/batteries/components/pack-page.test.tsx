@@ -31,6 +31,8 @@ const inspection: InspectionResponse = {
   otherPhotos: [],
 };
 
+const unfiled = finishedRun(20, '2026-11-20T08:00:00Z', summaryDelivering(90, 4600), { batteryId: null, name: 'Imported log' });
+
 // One invented cold-charge check of the fictional pack (figures for the demo only).
 const protections = {
   batteryId: 4,
@@ -50,6 +52,8 @@ function stubPack(role: 'viewer' | 'technician') {
     if (url === '/api/batteries/4/inspection') return { status: 200, body: inspection };
     if (url === '/api/batteries/4/protections') return { status: 200, body: protections };
     if (url === '/api/batteries/4/inspection/2' && init?.method === 'PUT') return { status: 200, body: { entry: {} } };
+    if (url === '/api/runs?limit=500') return { status: 200, body: { runs: [...runs, unfiled], total: 3 } };
+    if (url === '/api/batteries/4/runs/20' && init?.method === 'PUT') return { status: 200, body: { run: { ...unfiled, batteryId: 4 } } };
     return undefined;
   });
 }
@@ -98,5 +102,12 @@ describe('the pack page', () => {
     const body = JSON.parse(String(calls.find((c) => c.init?.method === 'PUT')!.init!.body));
     expect(body).toEqual({ rating: 'concern', note: null });
     expect(screen.getAllByText(/drop JPEG, PNG or WebP/).length).toBe(3); // two items and the attachments
+
+    // File an imported run under the pack: only runs not already on it are offered.
+    const pick = screen.getByLabelText('Run recorded without this pack');
+    await waitFor(() => expect(within(pick).getAllByRole('option').map((o) => o.textContent)).toEqual(['Choose a run…', '#20 Imported log (no pack)']));
+    await userEvent.selectOptions(pick, '20');
+    await userEvent.click(screen.getByRole('button', { name: 'Link run to this pack' }));
+    await waitFor(() => expect(calls.some((c) => c.url === '/api/batteries/4/runs/20' && c.init?.method === 'PUT')).toBe(true));
   });
 });
