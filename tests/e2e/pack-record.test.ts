@@ -102,7 +102,12 @@ describe('a pack registered, inspected and photographed', () => {
 
     // The whole page reads well (axe-core, WCAG 2.2 AA), and on a phone nothing is wider than
     // the screen and every control is a gloved finger's size.
-    const findings = (await axeViolations(page)).map((v) => `${v.rule} ${v.targets.join(' ')} ${v.summary}`);
+    const findings: string[] = [];
+    for (const scheme of ['light', 'dark'] as const) {
+      await page.emulateMedia({ colorScheme: scheme });
+      await settle(page);
+      for (const v of await axeViolations(page)) findings.push(`${scheme} ${v.rule} ${v.targets.join(' ')} ${v.summary}`);
+    }
     await page.setViewportSize({ width: PHONE_WIDTH_PX, height: PHONE_HEIGHT_PX });
     await settle(page);
     await page.screenshot({ path: `${SCREENSHOT_DIR}/pack-page-phone.png`, fullPage: true });
