@@ -13,11 +13,13 @@ export interface TempProtectionState {
   phase: 'watch' | 'armed' | 'tripped';
   crossedT: number;
   zero: Streak;
+  /** False until the first reading with the channel (absent in older snapshots: already running). */
+  started?: boolean;
 }
 
 /** A fresh state for one protection. */
 export function createTempProtectionState(): TempProtectionState {
-  return { phase: 'watch', crossedT: 0, zero: createStreak() };
+  return { phase: 'watch', crossedT: 0, zero: createStreak(), started: false };
 }
 
 function isFlowing(p: TempProtection, amps: number, zeroAmps: number): boolean {
@@ -35,6 +37,17 @@ export function detectTempProtection(s: TempProtectionState, p: TempProtection, 
   const inside = p.direction === 'below' ? temp > p.limitCelsius + k.tempHysteresisCelsius : temp < p.limitCelsius - k.tempHysteresisCelsius;
   const flowing = isFlowing(p, r.amps, k.zeroAmps);
   const zero = Math.abs(r.amps) <= k.zeroAmps;
+  if (s.started === false) {
+    s.started = true;
+    // Already past the limit at the first reading with no current: the protection is holding
+    // from the start. Recorded (delay unknown, reported as 0 with beyondAtStart) so the reset
+    // when current flows again (charging resumes after warming) is an event too.
+    if (beyond && !flowing) {
+      out.push({ type: 'protection-trip', t, kind: p.kind, channel: p.channel, limitCelsius: p.limitCelsius, crossedT: t, tempCelsius: temp, delaySeconds: 0, beyondAtStart: true });
+      s.phase = 'tripped';
+      return;
+    }
+  }
   if (s.phase === 'watch') {
     if (beyond && flowing) {
       s.phase = 'armed';

@@ -48,6 +48,18 @@ describe('temperature protection trip delay', () => {
   });
 });
 
+describe('temperature protection already holding at the start', () => {
+  it('a pack below 0 °C at the first reading is recorded, and charging resuming after warming is a reset', () => {
+    // Issue 11 item 7: cold-charge box ticked, pack at −4 °C from the start: nothing was recorded.
+    const frames = trace(0, 600, (t) => ({ volts: 13.2, amps: t < 350 ? 0 : -10, temps: { cell: -4 + t / 50 } }));
+    const p = createRunPipeline({ tempProtections: [{ kind: 'low-temp-charge', channel: 'cell', limitCelsius: 0, direction: 'below', current: 'charge' }] });
+    const ev = p.pushMany(frames).events.filter((e) => e.type === 'protection-trip' || e.type === 'protection-reset');
+    expect(ev.map((e) => e.type)).toEqual(['protection-trip', 'protection-reset']);
+    expect(ev[0]).toMatchObject({ t: 0, tempCelsius: -4, beyondAtStart: true });
+    expect(ev[1]).toMatchObject({ t: 350, tempCelsius: 3 });
+  });
+});
+
 describe('heater on/off', () => {
   it('reports on at ~0 °C (32 °F), off at ~5 °C (41 °F), and the mean heater current', () => {
     const n = noise(8);

@@ -118,4 +118,17 @@ describe('protection checks', () => {
     expect(summary.tempChannels).toEqual({ cell: { minCelsius: 62, maxCelsius: 72 }, chamber: { minCelsius: 70.2, maxCelsius: 80.2 } });
     expect(summary.verdict).not.toBe('not-applicable');
   });
+
+  it('a restart mid-check (snapshot and restore) gives the same trip and release as an uninterrupted run', () => {
+    const frames = trace(0, 900, (t) => ({ volts: 13.3, amps: t < 205 || t >= 750 ? -10 : 0, temps: { cell: t <= 400 ? 4 - t / 50 : -4 + (t - 400) / 50 } }));
+    const checks = [expect1({ protection: 'cold-charge', thresholdValue: 0, delaySeconds: 5, channel: 'cell' })];
+    const whole = createRunPipeline({ protectionChecks: checks }).pushMany(frames).events.filter((e) => e.type.startsWith('protection-check'));
+    const first = createRunPipeline({ protectionChecks: checks });
+    const before = first.pushMany(frames.slice(0, 203)).events;
+    // JSON round trip, as the recorder stores it with each archive batch.
+    const resumed = createRunPipeline({ protectionChecks: checks }, JSON.parse(JSON.stringify(first.snapshot())));
+    const after = resumed.pushMany(frames.slice(203)).events;
+    expect([...before, ...after].filter((e) => e.type.startsWith('protection-check'))).toEqual(whole);
+    expect(whole.map((e) => e.type)).toEqual(['protection-check-trip', 'protection-check-release']);
+  });
 });

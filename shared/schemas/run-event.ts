@@ -87,6 +87,8 @@ export const ProtectionTripEventSchema = z.object({
   tempCelsius: finite,
   /** t − crossedT: the protection's delay, within one sample period. */
   delaySeconds: nonNeg,
+  /** Past the limit from the first reading, with no current: the delay is not known (0 here). */
+  beyondAtStart: z.boolean().optional(),
 });
 
 export const ProtectionResetEventSchema = z.object({

@@ -5,9 +5,10 @@ import { describe, expect, it } from 'vitest';
 import { listScenarios, loadScenario } from './registry.js';
 
 describe('scenario registry', () => {
-  it('lists six built-in scenarios, each of which validates', () => {
+  it('lists eleven built-in scenarios (five of them protection checks), each of which validates', () => {
     const names = listScenarios().map((s) => s.name);
-    expect(names).toHaveLength(6);
+    expect(names).toHaveLength(11);
+    expect(names.filter((n) => n.startsWith('check-'))).toHaveLength(5);
     expect(new Set(names).size).toBe(names.length);
     for (const name of names) expect(loadScenario(name).name).toBe(name);
   });

@@ -5,6 +5,7 @@ import { lfp12vHotCutoff } from './lfp-12v-hot-cutoff.js';
 import { lfp12vWeakCell } from './lfp-12v-weak-cell.js';
 import { lfp48v30ahPwmHeater } from './lfp-48v-30ah-pwm-heater.js';
 import { noisyMeterUnplug } from './noisy-meter-unplug.js';
+import { PROTECTION_CHECK_SCENARIOS } from './protection-checks.js';
 
 /** Every built-in scenario (fictional packs and brands), validated when loaded. */
 export const BUILT_IN_SCENARIOS: readonly ScenarioInput[] = [
@@ -14,4 +15,5 @@ export const BUILT_IN_SCENARIOS: readonly ScenarioInput[] = [
   leadAcid12vReserve,
   lfp12vWeakCell,
   noisyMeterUnplug,
+  ...PROTECTION_CHECK_SCENARIOS,
 ];

@@ -43,6 +43,7 @@ export function describeEvent(e: RunEvent, { temperatureUnit = 'C', energyUnit =
     case 'source-restored':
       return `Meter back${e.downSeconds != null ? ` after ${formatDuration(e.downSeconds)}` : ''}`;
     case 'protection-trip':
+      if (e.beyondAtStart) return `Temperature protection (${e.kind}) on ${e.channel} holding from the start at ${formatTemperature(e.tempCelsius, temperatureUnit)}, limit ${formatTemperature(e.limitCelsius, temperatureUnit)}`;
       return `Temperature protection (${e.kind}) on ${e.channel} at ${formatTemperature(e.tempCelsius, temperatureUnit)}, limit ${formatTemperature(e.limitCelsius, temperatureUnit)}, delay ${formatDuration(e.delaySeconds)}`;
     case 'protection-reset':
       return `Protection (${e.kind}) reset on ${e.channel} at ${formatTemperature(e.tempCelsius, temperatureUnit)}`;

@@ -1,6 +1,7 @@
 import { queryOptions } from '@tanstack/react-query';
 import { z } from 'zod';
 import { BatterySchema } from '../../../shared/schemas/battery';
+import { ProtectionRecordResponseSchema } from '../../../shared/schemas/protection-check';
 import { api } from '../api-client';
 import { queryKeys } from './query-keys';
 
@@ -20,4 +21,11 @@ export const batteryQueryOptions = (batteryId: number | null) =>
     queryKey: queryKeys.batteries.detail(batteryId),
     queryFn: () => api(`/api/batteries/${batteryId}`, { schema: BatteryOneSchema }).then((b) => b.battery),
     enabled: batteryId !== null,
+  });
+
+/** GET /api/batteries/:id/protections: the pack's protection record, latest run first (packs page, pack page, reports). */
+export const protectionRecordQueryOptions = (batteryId: number) =>
+  queryOptions({
+    queryKey: queryKeys.batteries.protections(batteryId),
+    queryFn: () => api(`/api/batteries/${batteryId}/protections`, { schema: ProtectionRecordResponseSchema }),
   });

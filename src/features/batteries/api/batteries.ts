@@ -2,7 +2,7 @@ import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { z } from 'zod';
 import { BatterySchema, type BatteryInput, type BatteryPatch } from '../../../../shared/schemas/battery';
 import { api } from '../../../lib/api-client';
-import { batteriesQueryOptions } from '../../../lib/queries/batteries';
+import { batteriesQueryOptions, protectionRecordQueryOptions } from '../../../lib/queries/batteries';
 import { queryKeys } from '../../../lib/queries/query-keys';
 
 const BATTERIES_KEY = queryKeys.batteries.all;
@@ -12,6 +12,11 @@ export { batteriesQueryOptions };
 /** Every registered pack. */
 export function useBatteries() {
   return useQuery(batteriesQueryOptions());
+}
+
+/** One pack's protection record (every protection checked across its runs, latest first). */
+export function useProtectionRecord(batteryId: number) {
+  return useQuery(protectionRecordQueryOptions(batteryId));
 }
 
 /** POST /api/batteries (technician): register a pack. */

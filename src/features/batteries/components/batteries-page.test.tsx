@@ -1,4 +1,4 @@
-import { screen, waitFor } from '@testing-library/react';
+import { screen, waitFor, within } from '@testing-library/react';
 import userEvent from '@testing-library/user-event';
 import { describe, expect, it } from 'vitest';
 import type { Battery } from '../../../../shared/schemas/battery';
@@ -46,11 +46,16 @@ describe('battery packs page', () => {
     expect((rated as HTMLInputElement).value).toBe('35');
     await userEvent.clear(rated);
     await userEvent.type(rated, '36');
+    // The maker's stated cold-charge inhibit goes into the pack's record.
+    await userEvent.click(screen.getByText(/Stated protections/));
+    await userEvent.type(screen.getByLabelText('Cold-charge inhibit: threshold (°C)'), '0');
+    await userEvent.type(screen.getByLabelText('Cold-charge inhibit: delay (s)'), '5');
     await userEvent.click(screen.getByRole('button', { name: 'Save changes' }));
     await waitFor(() => expect(calls.some((c) => c.url === '/api/batteries/4' && c.init?.method === 'PATCH')).toBe(true));
     const body = JSON.parse(String(calls.find((c) => c.init?.method === 'PATCH')?.init?.body));
     expect(body.ratedAh).toBe(36);
     expect(body.label).toBe('NG-0142');
+    expect(body.protectionSpecs).toEqual([{ protection: 'cold-charge', thresholdValue: 0, delaySeconds: 5, releaseValue: null, thresholdTolerance: null, delayToleranceSeconds: null }]);
   });
 
   it('gives the rated energy in kWh when the lab has chosen kWh', async () => {
@@ -62,5 +67,28 @@ describe('battery packs page', () => {
     renderAt('/batteries');
     // 420 Wh = 0.420 kWh (SI prefix kilo = 1000).
     expect(await screen.findByText('35.00 Ah · 0.420 kWh')).toBeTruthy();
+  });
+
+  it("shows a pack's protection record, latest first, each row linked to the stretch of its run", async () => {
+    const result = {
+      unit: '°C', channel: 'cell', expectedDelaySeconds: 5, expectedReleaseValue: 3, thresholdTolerance: 2, delayToleranceSeconds: 1.5,
+      measuredDelaySeconds: 5, releaseValue: 3, resumeSeconds: 545, beyondAtStart: false, meanHeaterAmps: null, peakHeaterAmps: null, trips: 1, notes: [],
+    };
+    const rows = [
+      { ...result, protection: 'cold-charge', expectedValue: 0, measuredValue: -0.1, outcome: 'pass', window: { fromSeconds: 170, toSeconds: 780 }, runId: 9, runName: 'Winter recheck', runState: 'finished', startedAt: now, endedAt: now },
+      { ...result, protection: 'cold-charge', expectedValue: 0, measuredValue: -3.2, outcome: 'fail', window: null, runId: 2, runName: 'Intake check', runState: 'finished', startedAt: now, endedAt: now },
+    ];
+    const { calls } = stubApi(demoUser('viewer'), (url) => {
+      if (url === '/api/batteries') return { status: 200, body: { batteries: [pack] } };
+      if (url === '/api/batteries/4/protections') return { status: 200, body: { batteryId: 4, specs: [], rows } };
+      return undefined;
+    });
+    renderAt('/batteries');
+    await userEvent.click(await screen.findByRole('button', { name: 'Protection record of NG-0142' }));
+    const table = await screen.findByRole('table', { name: 'Protection record' });
+    const lines = within(table).getAllByRole('row').slice(1);
+    expect(lines.map((l) => l.textContent)).toEqual([expect.stringMatching(/Winter recheck.*Cold-charge inhibit.*-0\.1 °C.*Pass/), expect.stringMatching(/Intake check.*-3\.2 °C.*Fail/)]);
+    expect(within(lines[0]!).getByRole('link', { name: 'Winter recheck' }).getAttribute('href')).toBe('/runs/9?from=170&to=780');
+    expect(calls.some((c) => c.url === '/api/batteries/4/protections')).toBe(true);
   });
 });

@@ -28,7 +28,7 @@ const WIDE_ONLY = 'px-3 py-3 align-middle max-md:hidden';
 const PHONE_COLUMNS = new Set(['label', 'brand', 'chemistry', 'ratedAh', 'actions']);
 
 /** The register: every pack, sortable by any column, filtered by any text, a page at a time. */
-export function BatteriesTable({ batteries, onEdit }: { batteries: readonly Battery[]; onEdit?: (battery: Battery) => void }) {
+export function BatteriesTable({ batteries, onEdit, onProtections }: { batteries: readonly Battery[]; onEdit?: (battery: Battery) => void; onProtections?: (battery: Battery) => void }) {
   const { energyUnit } = useLabSettings();
   const [sorting, setSorting] = useState<SortingState>([{ id: 'label', desc: false }]);
   const [filter, setFilter] = useState('');
@@ -69,6 +69,11 @@ export function BatteriesTable({ batteries, onEdit }: { batteries: readonly Batt
               <Link to={`/runs?batteryId=${b.id}`} className="inline-flex min-h-11 items-center rounded-lg border border-line px-3 font-semibold" aria-label={`Runs of ${b.label}`}>
                 Runs
               </Link>
+              {onProtections && (
+                <button type="button" onClick={() => onProtections(b)} className="min-h-11 rounded-lg border border-line px-3 font-semibold" aria-label={`Protection record of ${b.label}`}>
+                  Protections
+                </button>
+              )}
               {onEdit && (
                 <button type="button" onClick={() => onEdit(b)} className="min-h-11 rounded-lg border border-line px-3 font-semibold" aria-label={`Edit ${b.label}`}>
                   Edit
@@ -79,7 +84,7 @@ export function BatteriesTable({ batteries, onEdit }: { batteries: readonly Batt
         },
       }),
     ],
-    [energyUnit, onEdit],
+    [energyUnit, onEdit, onProtections],
   );
   const table = useReactTable({
     data: batteries as Battery[],

@@ -5,6 +5,10 @@ import { SelectField, TextField } from '../../../components/ui/field';
 import { ApiError } from '../../../lib/api-client';
 import { useCreateBattery, useUpdateBattery } from '../api/batteries';
 import { CHEMISTRY_LABEL } from '../../../lib/chemistry-label';
+import { useState } from 'react';
+import { PROTECTIONS, PROTECTION_TRAITS, type Protection } from '../../../../shared/schemas/protection-check';
+import { useLabSettings } from '../../../lib/lab-settings';
+import { rowsFromSpecs, specsFromRows, type SpecRows } from './protection-spec-rows';
 
 interface Values {
   label: string;
@@ -30,6 +34,7 @@ interface Values {
   price: string;
   priceCurrency: string;
   notes: string;
+  specs: SpecRows;
 }
 
 const optionalNumber = (v: string) => (v.trim() === '' ? null : Number(v));
@@ -40,7 +45,7 @@ const orNull = (v: string) => v.trim() || null;
 
 const text = (v: string | number | null | undefined) => (v === null || v === undefined ? '' : String(v));
 
-function initialValues(b?: Battery): Values {
+function initialValues(unit: 'C' | 'F', b?: Battery): Values {
   return {
     label: text(b?.label), brand: text(b?.brand), model: text(b?.model), chemistry: b?.chemistry ?? 'lfp',
     cellsInSeries: text(b?.cellsInSeries), cellsInParallel: text(b?.cellsInParallel ?? 1), ratedAh: text(b?.ratedAh),
@@ -49,6 +54,7 @@ function initialValues(b?: Battery): Values {
     lengthMm: text(b?.lengthMm), widthMm: text(b?.widthMm), heightMm: text(b?.heightMm), terminalType: text(b?.terminalType),
     statedCycleLife: text(b?.statedCycleLife), warrantyMonths: text(b?.warrantyMonths), price: text(b?.price),
     priceCurrency: text(b?.priceCurrency), notes: text(b?.notes),
+    specs: rowsFromSpecs(b?.protectionSpecs ?? [], unit),
   };
 }
 
@@ -57,10 +63,15 @@ export function BatteryForm({ battery, onDone }: { battery?: Battery; onDone: ()
   const createMutation = useCreateBattery();
   const updateMutation = useUpdateBattery();
   const create = battery ? updateMutation : createMutation;
-  const { register, handleSubmit, formState: { errors } } = useForm<Values>({ defaultValues: initialValues(battery) });
+  const { temperatureUnit: unit } = useLabSettings();
+  const { register, handleSubmit, formState: { errors } } = useForm<Values>({ defaultValues: initialValues(unit, battery) });
+  const [specErrors, setSpecErrors] = useState<Partial<Record<Protection, string>>>({});
   const server = create.error instanceof ApiError ? create.error.fields : {};
 
   const onSubmit = handleSubmit((v) => {
+    const stated = specsFromRows(v.specs, unit, battery?.protectionSpecs ?? []);
+    setSpecErrors(stated.errors);
+    if (Object.keys(stated.errors).length > 0) return;
     const body: BatteryInput = {
       label: v.label.trim(),
       brand: v.brand.trim(),
@@ -85,6 +96,7 @@ export function BatteryForm({ battery, onDone }: { battery?: Battery; onDone: ()
       price: optionalNumber(v.price),
       priceCurrency: orNull(v.priceCurrency.toUpperCase()),
       notes: orNull(v.notes),
+      protectionSpecs: stated.specs,
     };
     if (battery) updateMutation.mutate({ id: battery.id, patch: body }, { onSuccess: onDone });
     else createMutation.mutate(body, { onSuccess: onDone });
@@ -121,6 +133,27 @@ export function BatteryForm({ battery, onDone }: { battery?: Battery; onDone: ()
         <textarea id="battery-notes" rows={3} className="w-full rounded-lg border border-line bg-surface-sunken px-3 py-2 text-base text-ink focus:border-accent focus:outline-none" {...register('notes')} />
         {server.notes && <p role="alert" className="text-sm font-medium text-state-cutoff">{server.notes}</p>}
       </div>
+      <details className="rounded-lg border border-line p-4 md:col-span-3" open={Object.keys(specErrors).length > 0 || undefined}>
+        <summary className="cursor-pointer text-sm font-semibold">Stated protections (from the maker; protection checks are judged against them)</summary>
+        <div className="mt-3 flex flex-col gap-3">
+          {PROTECTIONS.map((p) => {
+            const t = PROTECTION_TRAITS[p];
+            const u = t.unit === '°C' ? `°${unit}` : t.unit === 'V' ? 'V, whole pack' : t.unit;
+            return (
+              <div key={p} className="grid gap-3 md:grid-cols-3">
+                <TextField label={`${t.label}: threshold (${u})`} inputMode="decimal" error={specErrors[p]} {...register(`specs.${p}.threshold`)} />
+                <TextField label={`${t.label}: delay (s)`} inputMode="decimal" {...register(`specs.${p}.delay`)} />
+                <TextField label={`${t.label}: release (${u})`} inputMode="decimal" {...register(`specs.${p}.release`)} />
+              </div>
+            );
+          })}
+          {server.protectionSpecs && (
+            <p role="alert" className="text-sm font-medium text-state-cutoff">
+              {server.protectionSpecs}
+            </p>
+          )}
+        </div>
+      </details>
       {create.isError && (
         <p role="alert" className="text-sm font-medium text-state-cutoff md:col-span-3">
           {create.error instanceof Error ? create.error.message : 'The pack was not saved.'}

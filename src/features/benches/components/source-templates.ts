@@ -8,6 +8,11 @@ export const SCENARIO_SUGGESTIONS = [
   'lfp-12v-weak-cell',
   'lead-acid-12v-reserve',
   'noisy-meter-unplug',
+  'check-cold-charge',
+  'check-hot-discharge',
+  'check-hot-charge',
+  'check-electrical-discharge',
+  'check-high-voltage',
 ] as const;
 
 /** A starting point for each serial format; the admin edits it as JSON. */

@@ -26,4 +26,9 @@ describe('contextual cautions', () => {
     expect(cold[0].text).toContain('below 32 °F');
     expect(contextualCautions('lfp', 'charge', 18, 'F')[0].text).toContain('above 32 °F');
   });
+
+  it('tells the technician to stay with a protection check and be ready to cut power by hand', () => {
+    expect(contextualCautions('lfp', 'protection-check', 20).map((c) => c.text).join(' ')).toMatch(/past its limits.*cut the charger and load by hand/);
+    expect(contextualCautions('lfp', 'capacity-discharge', 20).map((c) => c.text).join(' ')).not.toMatch(/past its limits/);
+  });
 });

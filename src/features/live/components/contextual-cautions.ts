@@ -25,6 +25,12 @@ export function contextualCautions(
   } else if (lithium && charging) {
     out.push({ text: `Check the pack is above ${freezing} before charging: charging lithium cells below freezing damages them.`, severe: false });
   }
+  if (kind === 'protection-check') {
+    out.push({
+      text: "A protection check drives the pack past its limits (heat, over-current, over- and under-voltage) on purpose: stay with it, keep a way to cut the charger and load by hand, and follow the maker's instructions and local codes. If the protection does not act, stop the test yourself.",
+      severe: false,
+    });
+  }
   if (chemistry === 'lead-acid') {
     out.push({ text: 'Lead-acid gives off hydrogen on charge and at the end of a discharge: ventilate and keep sparks away.', severe: false });
   }

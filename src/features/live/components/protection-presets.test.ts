@@ -1,28 +1,63 @@
 import { describe, expect, it } from 'vitest';
-import { tempProtectionsFrom } from './protection-presets';
+import type { ProtectionSpec } from '../../../../shared/schemas/protection-check';
+import { emptyChoices, protectionRequestsFrom } from './protection-presets';
 
-describe('tempProtectionsFrom', () => {
-  it('turns the ticked checks into protections on the channel, limits in °C', () => {
-    const out = tempProtectionsFrom({ coldCharge: true, coldLimit: '0', hot: true, hotLimit: '60' }, 'C', 'cell');
-    expect(out).toEqual([
-      { kind: 'low-temp-charge', channel: 'cell', limitCelsius: 0, direction: 'below', current: 'charge' },
-      { kind: 'high-temp', channel: 'cell', limitCelsius: 60, direction: 'above', current: 'any' },
-    ]);
+const spec = (over: Partial<ProtectionSpec> & Pick<ProtectionSpec, 'protection' | 'thresholdValue'>): ProtectionSpec => ({
+  delaySeconds: null, releaseValue: null, thresholdTolerance: null, delayToleranceSeconds: null, ...over,
+});
+
+describe('protectionRequestsFrom', () => {
+  it('turns ticked rows into protections: temperatures on the channel in °C, volts and amps as typed', () => {
+    const c = emptyChoices();
+    c['cold-charge'] = { on: true, threshold: '0', delay: '5' };
+    c['low-voltage'] = { on: true, threshold: '40', delay: '2' };
+    expect(protectionRequestsFrom(c, 'C', 'cell', [])).toEqual({
+      ok: true,
+      checks: [
+        { protection: 'cold-charge', thresholdValue: 0, delaySeconds: 5, channel: 'cell' },
+        { protection: 'low-voltage', thresholdValue: 40, delaySeconds: 2, channel: null },
+      ],
+    });
   });
 
-  it('reads limits typed in °F in a °F lab', () => {
-    // 32 °F = 0 °C and 140 °F = 60 °C (°C = (°F − 32) × 5/9, the Fahrenheit definition).
-    const out = tempProtectionsFrom({ coldCharge: true, coldLimit: '32', hot: true, hotLimit: '140' }, 'F', 'cell');
-    expect(out[0].limitCelsius).toBeCloseTo(0, 9);
-    expect(out[1].limitCelsius).toBeCloseTo(60, 9);
+  it('reads temperatures typed in °F in a °F lab', () => {
+    const c = emptyChoices();
+    c['over-temp-charge'] = { on: true, threshold: '140', delay: '' };
+    // 140 °F = 60 °C (°C = (°F − 32) × 5/9, the Fahrenheit definition).
+    const out = protectionRequestsFrom(c, 'F', 'cell', []);
+    expect(out.ok && out.checks[0]!.thresholdValue).toBeCloseTo(60, 9);
   });
 
-  it('gives none when nothing is ticked', () => {
-    expect(tempProtectionsFrom({ coldCharge: false, coldLimit: '0', hot: false, hotLimit: '60' }, 'C', 'cell')).toEqual([]);
+  it('refuses a hot limit typed without ticking its box, instead of ignoring it', () => {
+    // Issue 11 item 7: a typed hot limit with its box unticked was silently dropped.
+    const c = emptyChoices();
+    c['cold-charge'] = { on: true, threshold: '', delay: '' };
+    c['over-temp-discharge'] = { on: false, threshold: '60', delay: '' };
+    const out = protectionRequestsFrom(c, 'C', 'cell', []);
+    expect(out.ok).toBe(false);
+    expect(!out.ok && out.errors['over-temp-discharge']).toMatch(/Tick the box/);
   });
 
-  it('takes the common default for a limit left empty, whatever the lab unit', () => {
-    const out = tempProtectionsFrom({ coldCharge: true, coldLimit: '', hot: true, hotLimit: ' ' }, 'F', 'cell');
-    expect(out.map((p) => p.limitCelsius)).toEqual([0, 60]);
+  it('leaves an empty threshold to the pack\'s record, else to common practice, else refuses', () => {
+    const c = emptyChoices();
+    c['cold-charge'] = { on: true, threshold: '', delay: '' };
+    c['heater-off'] = { on: true, threshold: '', delay: '' };
+    c['over-current'] = { on: true, threshold: '', delay: '' };
+    // Common practice (no source): charge refused near 0 °C, heaters off near 5 °C.
+    const withRecord = protectionRequestsFrom(c, 'C', 'cell', [spec({ protection: 'over-current', thresholdValue: 60 })]);
+    expect(withRecord).toEqual({
+      ok: true,
+      checks: [
+        { protection: 'cold-charge', thresholdValue: 0, channel: 'cell' },
+        { protection: 'heater-off', thresholdValue: 5, channel: 'cell' },
+        { protection: 'over-current', channel: null },
+      ],
+    });
+    const without = protectionRequestsFrom(c, 'C', 'cell', []);
+    expect(!without.ok && without.errors['over-current']).toMatch(/record states none/);
+  });
+
+  it('asks for at least one protection', () => {
+    expect(protectionRequestsFrom(emptyChoices(), 'C', 'cell', []).ok).toBe(false);
   });
 });

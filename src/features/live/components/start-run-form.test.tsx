@@ -14,7 +14,7 @@ const pack: Battery = {
 };
 
 describe('start form: protection check', () => {
-  it('sends the cold-charge limit typed in °F as a protection in °C', async () => {
+  it('sends protections typed in °F in °C, and refuses a limit typed without its box ticked', async () => {
     const { calls } = stubApi(demoUser('technician'), (url, init) => {
       if (url === '/api/benches/2') return { status: 200, body: { bench: { id: 2, name: 'Bench B', source: { kind: 'none' }, enabled: true, notes: '', createdAt: now, updatedAt: now, status: { state: 'idle', framesOk: 0, framesRejected: 0 } } } };
       if (url.startsWith('/api/runs?benchId=2')) return { status: 200, body: { runs: [], total: 0 } };
@@ -27,16 +27,27 @@ describe('start form: protection check', () => {
     await userEvent.selectOptions(await screen.findByLabelText('Battery pack'), '3');
     await userEvent.type(screen.getByLabelText('Run name'), 'Kestrel cold charge inhibit');
     await userEvent.selectOptions(screen.getByLabelText('Kind of test'), 'protection-check');
-    // The lab works in °F: the default cold limit (0 °C) is offered as 32 °F, and typed limits are °F.
-    const cold = screen.getByLabelText('Cold limit (°F)') as HTMLInputElement;
+    // The lab works in °F: the common cold limit (0 °C) is offered as 32 °F, and typed limits are °F.
+    const cold = screen.getByLabelText('Cold-charge inhibit: threshold (°F)') as HTMLInputElement;
     expect(cold.placeholder).toMatch(/^32 /);
+    await userEvent.click(screen.getByRole('checkbox', { name: 'Cold-charge inhibit' }));
     await userEvent.type(cold, '41');
+    await userEvent.type(screen.getByLabelText('Cold-charge inhibit: delay (s)'), '5');
+    // A hot limit typed without ticking its box is refused, not silently ignored (issue 11 item 7).
+    await userEvent.type(screen.getByLabelText('Over-temperature, discharging: threshold (°F)'), '140');
+    await userEvent.click(screen.getByRole('button', { name: 'Arm the run' }));
+    expect(await screen.findByText(/Tick the box to check this protection/)).toBeTruthy();
+    expect(calls.some((c) => c.url === '/api/runs' && c.init?.method === 'POST')).toBe(false);
+    await userEvent.click(screen.getByRole('checkbox', { name: 'Over-temperature, discharging' }));
     await userEvent.click(screen.getByRole('button', { name: 'Arm the run' }));
     await waitFor(() => expect(calls.some((c) => c.url === '/api/runs' && c.init?.method === 'POST')).toBe(true));
     const body = JSON.parse(String(calls.find((c) => c.url === '/api/runs' && c.init?.method === 'POST')!.init!.body));
-    // 41 °F = 5 °C (°C = (°F − 32) × 5/9).
-    expect(body.tempProtections).toHaveLength(1);
-    expect(body.tempProtections[0]).toMatchObject({ kind: 'low-temp-charge', channel: 'cell', direction: 'below', current: 'charge' });
-    expect(body.tempProtections[0].limitCelsius).toBeCloseTo(5, 9);
+    expect(body.kind).toBe('protection-check');
+    expect(body.protectionChecks).toHaveLength(2);
+    // 41 °F = 5 °C and 140 °F = 60 °C (°C = (°F − 32) × 5/9).
+    expect(body.protectionChecks[0]).toMatchObject({ protection: 'cold-charge', channel: 'cell', delaySeconds: 5 });
+    expect(body.protectionChecks[0].thresholdValue).toBeCloseTo(5, 9);
+    expect(body.protectionChecks[1]).toMatchObject({ protection: 'over-temp-discharge', channel: 'cell' });
+    expect(body.protectionChecks[1].thresholdValue).toBeCloseTo(60, 9);
   });
 });

@@ -11,8 +11,10 @@ import { useLabSettings } from '../../../lib/lab-settings';
 import { useBatteryOptions } from '../api/get-battery-options';
 import { useStartRun } from '../api/start-run';
 import { contextualCautions } from './contextual-cautions';
-import { celsiusToFahrenheit } from '../../../lib/units';
-import { COLD_CHARGE_LIMIT_CELSIUS, HOT_LIMIT_CELSIUS, tempProtectionsFrom } from './protection-presets';
+import { useState } from 'react';
+import type { Protection } from '../../../../shared/schemas/protection-check';
+import { emptyChoices, protectionRequestsFrom, type ProtectionChoices } from './protection-presets';
+import { ProtectionChecksFieldset } from './protection-checks-fieldset';
 
 interface Values {
   batteryId: string;
@@ -22,10 +24,7 @@ interface Values {
   acceptancePercent: string;
   stopWhen: StopWhen;
   target: string;
-  coldCharge: boolean;
-  coldLimit: string;
-  hot: boolean;
-  hotLimit: string;
+  checks: ProtectionChoices;
 }
 
 /** Channel the protections watch when the bench has not said which it has. */
@@ -51,9 +50,9 @@ export function StartRunForm({ benchId, onStarted, packCelsius = null, tempChann
   const settings = useLabSettings();
   const start = useStartRun();
   const unit = settings.temperatureUnit;
-  const inLabUnit = (celsius: number) => String(unit === 'F' ? celsiusToFahrenheit(celsius) : celsius);
+  const [checkErrors, setCheckErrors] = useState<Partial<Record<Protection, string>>>({});
   const { register, handleSubmit, watch, formState: { errors } } = useForm<Values>({
-    defaultValues: { batteryId: '', name: '', kind: 'capacity-discharge', endVoltsPerCell: '', acceptancePercent: String(settings.acceptancePercent), stopWhen: 'after-recovery', target: '', coldCharge: true, coldLimit: '', hot: false, hotLimit: '' },
+    defaultValues: { batteryId: '', name: '', kind: 'capacity-discharge', endVoltsPerCell: '', acceptancePercent: String(settings.acceptancePercent), stopWhen: 'after-recovery', target: '', checks: emptyChoices() },
   });
   const stopWhen = watch('stopWhen');
   const kind = watch('kind');
@@ -65,6 +64,13 @@ export function StartRunForm({ benchId, onStarted, packCelsius = null, tempChann
   const options = [{ value: '', label: 'Choose a registered pack' }, ...(batteries.data ?? []).map((b) => ({ value: String(b.id), label: `${b.label} · ${b.brand} · ${b.cellsInSeries}S ${b.ratedAh} Ah` }))];
 
   const onSubmit = handleSubmit((v) => {
+    let protectionChecks: StartRunRequest['protectionChecks'] = [];
+    if (v.kind === 'protection-check') {
+      const chosen = protectionRequestsFrom(v.checks, unit, tempChannel ?? DEFAULT_TEMP_CHANNEL, battery?.protectionSpecs ?? []);
+      setCheckErrors(chosen.ok ? {} : chosen.errors);
+      if (!chosen.ok) return;
+      protectionChecks = chosen.checks;
+    }
     const perCell = v.endVoltsPerCell ? Number(v.endVoltsPerCell) : defaultEnd;
     const target = v.target ? Number(v.target) : null;
     const body: StartRunRequest = {
@@ -77,7 +83,7 @@ export function StartRunForm({ benchId, onStarted, packCelsius = null, tempChann
       stopWhen: v.stopWhen,
       targetAh: v.stopWhen === 'target-ah' ? target : null,
       targetWh: v.stopWhen === 'target-wh' ? target : null,
-      tempProtections: v.kind === 'protection-check' ? tempProtectionsFrom(v, unit, tempChannel ?? DEFAULT_TEMP_CHANNEL) : [],
+      protectionChecks,
     };
     start.mutate(body, { onSuccess: (run) => onStarted(run.id) });
   });
@@ -109,19 +115,14 @@ export function StartRunForm({ benchId, onStarted, packCelsius = null, tempChann
           />
         )}
         {kind === 'protection-check' && (
-          <fieldset className="grid gap-3 rounded-lg border border-line p-4 md:col-span-2 md:grid-cols-2">
-            <legend className="px-1 text-sm font-semibold">Temperature protections to time (on the {tempChannel ?? DEFAULT_TEMP_CHANNEL} sensor)</legend>
-            <label className="flex min-h-11 items-center gap-3">
-              <input type="checkbox" className="h-5 w-5" {...register('coldCharge')} />
-              Cold-charge inhibit: charging should cut out below the cold limit
-            </label>
-            <TextField label={`Cold limit (°${unit})`} inputMode="decimal" placeholder={`${inLabUnit(COLD_CHARGE_LIMIT_CELSIUS)} (common practice)`} error={errors.coldLimit?.message} {...register('coldLimit', { validate: (v) => Number.isFinite(Number(v)) || 'A temperature.' })} />
-            <label className="flex min-h-11 items-center gap-3">
-              <input type="checkbox" className="h-5 w-5" {...register('hot')} />
-              High-temperature cutoff: current should cut out above the hot limit
-            </label>
-            <TextField label={`Hot limit (°${unit})`} inputMode="decimal" placeholder={`${inLabUnit(HOT_LIMIT_CELSIUS)} (check the datasheet)`} error={errors.hotLimit?.message} {...register('hotLimit', { validate: (v) => Number.isFinite(Number(v)) || 'A temperature.' })} />
-          </fieldset>
+          <ProtectionChecksFieldset
+            // The fieldset registers only the `checks.*` fields of this form.
+            register={register as unknown as Parameters<typeof ProtectionChecksFieldset>[0]['register']}
+            errors={checkErrors}
+            unit={unit}
+            channel={tempChannel ?? DEFAULT_TEMP_CHANNEL}
+            specs={battery?.protectionSpecs ?? []}
+          />
         )}
         {battery &&
           contextualCautions(battery.chemistry, kind, packCelsius, settings.temperatureUnit).map((c) => (

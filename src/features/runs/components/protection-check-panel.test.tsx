@@ -57,4 +57,11 @@ describe('a protection-check run page', () => {
     await waitFor(() => expect(router.state.location.search).toBe('?from=2000&to=2100'));
     await waitFor(() => expect(calls.some((c) => c.url.startsWith('/api/runs/4/samples') && c.url.includes('from=2000') && c.url.includes('to=2100'))).toBe(true));
   });
+
+  it('stands in for the verdict in the runs list: how many protections passed and failed, no capacity figure', async () => {
+    stubApi(demoUser('viewer'), (url) => (url.startsWith('/api/runs?') ? { status: 200, body: { runs: [run], total: 1 } } : undefined));
+    renderAt('/runs');
+    expect(await screen.findByText('Protections: 1 pass, 1 fail')).toBeTruthy();
+    expect(screen.queryByText('No capacity verdict')).toBeNull();
+  });
 });

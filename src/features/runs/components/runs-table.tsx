@@ -10,7 +10,7 @@ import { formatLabTime, useLabSettings } from '../../../lib/lab-settings';
 import { formatCharge, formatDuration, formatEnergy, formatPercent } from '../../../lib/units';
 import { useRuns } from '../api/get-runs';
 import { MAX_COMPARED_RUNS } from './run-compare';
-import { VerdictBadge } from './verdict-badge';
+import { ProtectionsBadge, VerdictBadge } from './verdict-badge';
 
 const PAGE_SIZE = 25;
 const SEARCH_DEBOUNCE_MS = 300;
@@ -89,7 +89,16 @@ export function RunsTable() {
       col.accessor((r) => r.summary?.dischargeWh ?? null, { id: 'wh', header: 'Energy', cell: (c) => <span className="num whitespace-nowrap">{formatEnergy(c.getValue(), settings.energyUnit)}</span> }),
       col.accessor((r) => r.summary?.dischargeAh ?? null, { id: 'ah', header: 'Charge', cell: (c) => <span className="num whitespace-nowrap">{formatCharge(c.getValue())}</span> }),
       col.accessor((r) => r.summary?.percentRatedAh ?? null, { id: 'pct', header: 'Of rated', cell: (c) => <span className="num whitespace-nowrap">{formatPercent(c.getValue())}</span> }),
-      col.accessor((r) => r.summary?.verdict ?? null, { id: 'verdict', header: 'Verdict', cell: (c) => (c.getValue() ? <VerdictBadge verdict={c.getValue()!} /> : '—') }),
+      col.accessor((r) => r.summary?.verdict ?? null, {
+        id: 'verdict',
+        header: 'Verdict',
+        // A protection check has no capacity verdict: its protections' outcomes stand in its place.
+        cell: (c) => {
+          const protections = c.row.original.summary?.protections;
+          if (c.row.original.kind === 'protection-check' && protections && protections.length > 0) return <ProtectionsBadge results={protections} />;
+          return c.getValue() ? <VerdictBadge verdict={c.getValue()!} /> : '—';
+        },
+      }),
       col.accessor('tags', { header: 'Tags', cell: (c) => c.getValue().join(', ') }),
     ],
     [settings.timeZone, settings.energyUnit, selected],

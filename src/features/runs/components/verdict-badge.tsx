@@ -17,3 +17,15 @@ export function VerdictBadge({ verdict, large }: { verdict: Verdict; large?: boo
     </span>
   );
 }
+
+/** A protection check's result in one badge: how many protections passed, failed or were not reached. */
+export function ProtectionsBadge({ results }: { results: readonly { outcome: 'pass' | 'fail' | 'not-reached' }[] }) {
+  const count = (o: string) => results.filter((r) => r.outcome === o).length;
+  const failed = count('fail');
+  const parts = [`${count('pass')} pass`, failed > 0 ? `${failed} fail` : null, count('not-reached') > 0 ? `${count('not-reached')} not reached` : null].filter(Boolean);
+  return (
+    <span className="inline-block rounded-md px-2 py-0.5 text-sm font-bold text-on-tone" style={{ backgroundColor: failed > 0 ? TONE_COLORS.fault : TONE_COLORS.good }}>
+      Protections: {parts.join(', ')}
+    </span>
+  );
+}
