@@ -70,7 +70,7 @@ export function BatteriesTable({ batteries, onEdit, onProtections }: { batteries
                 Runs
               </Link>
               {onProtections && (
-                <button type="button" onClick={() => onProtections(b)} className="min-h-11 rounded-lg border border-line px-3 font-semibold" aria-label={`Protection record of ${b.label}`}>
+                <button type="button" onClick={() => onProtections(b)} className="min-h-11 rounded-lg border border-line px-3 font-semibold" aria-label={`Protections of ${b.label}`}>
                   Protections
                 </button>
               )}
