@@ -105,7 +105,10 @@ describe('a pack registered, inspected and photographed', () => {
     const findings: string[] = [];
     for (const scheme of ['light', 'dark'] as const) {
       await page.emulateMedia({ colorScheme: scheme });
+      // A fresh load in the new look: switching live animates the colours, and axe would measure mid-fade.
+      await page.reload();
       await settle(page);
+      await page.getByRole('listitem', { name: 'Interconnects and welds' }).getByRole('img', { name: 'weld-close-up.jpg' }).waitFor();
       for (const v of await axeViolations(page)) findings.push(`${scheme} ${v.rule} ${v.targets.join(' ')} ${v.summary}`);
     }
     await page.setViewportSize({ width: PHONE_WIDTH_PX, height: PHONE_HEIGHT_PX });
