@@ -1,3 +1,4 @@
+import { basename } from 'node:path';
 import { Router, type RequestHandler } from 'express';
 import multer from 'multer';
 import { PhotoUploadFieldsSchema } from '../../shared/schemas/inspection.js';
@@ -86,7 +87,10 @@ export function createPhotosRouter(ctx: AppContext): Router {
     res.setHeader('Cache-Control', PHOTO_CACHE_CONTROL);
     res.type(PHOTO_CONTENT_TYPE[variantFormat(variant, photo.format)]);
     await new Promise<void>((resolve, reject) => {
-      res.sendFile(files.pathOf(photo.storageKey, variant, photo.format), (error) => (error ? reject(error) : resolve()));
+      // Relative to the photo folder as root: the data folder itself may sit under a dot folder
+      // (.data), which send refuses as a "dotfile" when it is part of the served path.
+      const name = basename(files.pathOf(photo.storageKey, variant, photo.format));
+      res.sendFile(name, { root: files.dir }, (error) => (error ? reject(error) : resolve()));
     }).catch((error: unknown) => {
       throw (error as { code?: string }).code === 'ENOENT' ? new HttpError(410, `The file of photo ${photo.id} is missing from the data folder`) : error;
     });

@@ -1,6 +1,6 @@
 import { mkdtempSync, readdirSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
-import { join } from 'node:path';
+import { dirname, join } from 'node:path';
 import { crc32, deflateSync } from 'node:zlib';
 import exifr from 'exifr';
 import sharp from 'sharp';
@@ -19,7 +19,8 @@ let batteryId: number;
 let firstItemId: number;
 
 beforeAll(async () => {
-  dataDir = mkdtempSync(join(tmpdir(), 'kneepoint-photos-'));
+  // Under a dot folder, as the default data folder (.data) is: serving must still work there.
+  dataDir = join(mkdtempSync(join(tmpdir(), 'kneepoint-photos-')), '.data');
   t = await createTestContext({ config: { dataDir } });
   [tech, admin, viewer] = await Promise.all([signInAs(t, 'technician'), signInAs(t, 'admin'), signInAs(t, 'viewer')]);
   // Invented demo figures (a fictional 8s LFP pack).
@@ -29,7 +30,7 @@ beforeAll(async () => {
 });
 afterAll(async () => {
   await t?.close();
-  rmSync(dataDir, { recursive: true, force: true });
+  rmSync(dirname(dataDir), { recursive: true, force: true });
 });
 
 const photoDir = () => join(dataDir, 'photos');

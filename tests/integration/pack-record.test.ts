@@ -56,6 +56,12 @@ describe('linking a run to a pack afterwards', () => {
     const listed = (await viewer.get(`/api/runs?batteryId=${battery.id}`).expect(200)).body.runs.map((r: { id: number }) => r.id);
     expect(listed).toEqual([runId]);
     await tech.put(`/api/batteries/${battery.id}/runs/999999`).expect(404);
+    // A run still recording keeps its pack: the recorder judges it against that pack's rating.
+    const other = (await tech.post('/api/batteries').send({ ...pack, label: 'NG-0192' }).expect(201)).body.battery;
+    await t.ctx.sequelize.query("UPDATE runs SET state = 'recording' WHERE id = ?", { replacements: [runId] });
+    await tech.put(`/api/batteries/${other.id}/runs/${runId}`).expect(409);
+    expect((await viewer.get(`/api/runs/${runId}`).expect(200)).body.run.batteryId).toBe(battery.id);
+    await t.ctx.sequelize.query("UPDATE runs SET state = 'finished' WHERE id = ?", { replacements: [runId] });
     await tech.put(`/api/batteries/999999/runs/${runId}`).expect(404);
   });
 });

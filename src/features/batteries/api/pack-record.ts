@@ -7,6 +7,7 @@ import {
   type InspectionEntryInput,
   type InspectionRating,
 } from '../../../../shared/schemas/inspection';
+import { ProtectionRecordResponseSchema } from '../../../../shared/schemas/protection-check';
 import { api } from '../../../lib/api-client';
 import { queryKeys } from '../../../lib/queries/query-keys';
 
@@ -22,11 +23,27 @@ export const packRunsQueryOptions = (batteryId: number) => {
   });
 };
 
+/** GET /api/runs?limit=: the latest runs of every pack, to pick one to file under a pack. */
+export const recentRunsQueryOptions = () => {
+  const filter = { limit: PACK_RUNS_LIMIT };
+  return queryOptions({
+    queryKey: queryKeys.runs.list(filter),
+    queryFn: () => api(`/api/runs?limit=${PACK_RUNS_LIMIT}`, { schema: ListRunsResponseSchema }),
+  });
+};
+
 /** GET /api/batteries/:id/inspection: the checklist as rated for this pack, with photos. */
 export const inspectionQueryOptions = (batteryId: number) =>
   queryOptions({
     queryKey: queryKeys.batteries.inspection(batteryId),
     queryFn: () => api(`/api/batteries/${batteryId}/inspection`, { schema: InspectionResponseSchema }),
+  });
+
+/** GET /api/batteries/:id/protections: every protection checked on the pack, latest run first. */
+export const protectionRecordQueryOptions = (batteryId: number) =>
+  queryOptions({
+    queryKey: queryKeys.batteries.protections(batteryId),
+    queryFn: () => api(`/api/batteries/${batteryId}/protections`, { schema: ProtectionRecordResponseSchema }),
   });
 
 /** GET /api/inspection-items: the lab's checklist, retired items included. */
@@ -39,6 +56,11 @@ export const inspectionItemsQueryOptions = () =>
 /** Every run of the pack. */
 export function usePackRuns(batteryId: number) {
   return useQuery(packRunsQueryOptions(batteryId));
+}
+
+/** The latest runs of every pack (technicians pick one to link). */
+export function useRecentRuns(enabled: boolean) {
+  return useQuery({ ...recentRunsQueryOptions(), enabled });
 }
 
 /** The pack's teardown inspection. */

@@ -84,7 +84,7 @@ describe('battery packs page', () => {
       return undefined;
     });
     renderAt('/batteries');
-    await userEvent.click(await screen.findByRole('button', { name: 'Protection record of NG-0142' }));
+    await userEvent.click(await screen.findByRole('button', { name: 'Protections of NG-0142' }));
     const table = await screen.findByRole('table', { name: 'Protection record' });
     const lines = within(table).getAllByRole('row').slice(1);
     expect(lines.map((l) => l.textContent)).toEqual([expect.stringMatching(/Winter recheck.*Cold-charge inhibit.*-0\.1 °C.*Pass/), expect.stringMatching(/Intake check.*-3\.2 °C.*Fail/)]);

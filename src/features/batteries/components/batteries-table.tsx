@@ -17,15 +17,15 @@ import { useLabSettings } from '../../../lib/lab-settings';
 import { formatCharge, formatEnergy, formatNumber } from '../../../lib/units';
 import { CHEMISTRY_LABEL } from '../../../lib/chemistry-label';
 
-/** On a phone a row becomes a card: these columns stack, the rest step aside (the pack's page has them). */
-const PHONE_COLUMNS = new Set(['label', 'brand', 'chemistry', 'ratedAh', 'actions']);
-const CELL = 'px-3 py-3 align-middle max-md:block max-md:px-0 max-md:py-0.5';
-const WIDE_ONLY = 'px-3 py-3 align-middle max-md:hidden';
-
 /** Packs shown per page of the register. */
 export const REGISTER_PAGE_SIZE = 20;
 const col = createColumnHelper<Battery>();
 const SORT_MARK = { asc: ' ▲', desc: ' ▼' } as const;
+/** On a phone a row becomes a card: these cells stack, the rest step aside (the pack's page has them). */
+const CELL = 'px-3 py-3 align-middle max-md:block max-md:px-0 max-md:py-0.5';
+const WIDE_ONLY = 'px-3 py-3 align-middle max-md:hidden';
+/** Columns shown on a phone's card; every other column is for wider screens. */
+const PHONE_COLUMNS = new Set(['label', 'brand', 'chemistry', 'ratedAh', 'actions']);
 
 /** The register: every pack, sortable by any column, filtered by any text, a page at a time. */
 export function BatteriesTable({ batteries, onEdit, onProtections }: { batteries: readonly Battery[]; onEdit?: (battery: Battery) => void; onProtections?: (battery: Battery) => void }) {
@@ -37,7 +37,7 @@ export function BatteriesTable({ batteries, onEdit, onProtections }: { batteries
       col.accessor('label', {
         header: 'Label',
         cell: (c) => (
-          <Link to={`/batteries/${c.row.original.id}`} className="font-semibold text-accent hover:underline" aria-label={`Open ${c.getValue()}`}>
+          <Link to={`/batteries/${c.row.original.id}`} className="inline-flex min-h-11 items-center font-semibold text-accent hover:underline" aria-label={`Open ${c.getValue()}`}>
             {c.getValue()}
           </Link>
         ),
@@ -70,7 +70,7 @@ export function BatteriesTable({ batteries, onEdit, onProtections }: { batteries
                 Runs
               </Link>
               {onProtections && (
-                <button type="button" onClick={() => onProtections(b)} className="min-h-11 rounded-lg border border-line px-3 font-semibold" aria-label={`Protection record of ${b.label}`}>
+                <button type="button" onClick={() => onProtections(b)} className="min-h-11 rounded-lg border border-line px-3 font-semibold" aria-label={`Protections of ${b.label}`}>
                   Protections
                 </button>
               )}
@@ -105,6 +105,7 @@ export function BatteriesTable({ batteries, onEdit, onProtections }: { batteries
 
   return (
     <div className="flex flex-col gap-4">
+      {/* The phone's cards have no column headers: sorting there is by the label, the filter finds the rest. */}
       <div className="flex flex-wrap items-end gap-3">
         <div className="min-w-0 flex-1">
           <TextField label="Filter packs" type="search" placeholder="Label, brand, serial, client…" value={filter} onChange={(e) => { setFilter(e.target.value); table.setPageIndex(0); }} />
@@ -115,7 +116,7 @@ export function BatteriesTable({ batteries, onEdit, onProtections }: { batteries
       </div>
       <div className="overflow-x-auto rounded-xl border border-line max-md:overflow-visible max-md:border-0">
         <table className="w-full text-left text-sm max-md:block">
-          <thead className="bg-surface-sunken text-ink-muted max-md:sr-only">
+          <thead className="bg-surface-sunken text-ink-muted max-md:hidden">
             {table.getHeaderGroups().map((hg) => (
               <tr key={hg.id}>
                 {hg.headers.map((h) => (

@@ -5,7 +5,7 @@ import type { CapacityPoint } from '../../../../shared/measure/capacity-trend';
 import { AXIS_FONT, chartTheme } from '../../../components/charts/chart-theme';
 import { useChartWidth } from '../../../components/charts/use-chart-size';
 import { usePrinting } from '../../../components/charts/use-printing';
-import { SIGNAL_COLORS } from '../../../lib/palette';
+import { resolveColor, SIGNAL_COLORS } from '../../../lib/palette';
 import { formatPercent } from '../../../lib/units';
 import { useTheme } from '../../../lib/use-theme';
 
@@ -35,10 +35,14 @@ export function CapacityTrendChart({ points }: { points: readonly CapacityPoint[
     const x = points.map((_p, i) => i + 1);
     const data: uPlot.AlignedData = [x, points.map((p) => p.percentRatedAh), points.map((p) => p.percentRatedWh)];
     const top = Math.max(MIN_TOP_PERCENT, ...points.flatMap((p) => [p.percentRatedAh ?? 0, p.percentRatedWh ?? 0]).map((v) => v + TOP_HEADROOM_PERCENT));
-    const series = (label: string, stroke: string): uPlot.Series => ({
-      label, scale: '%', stroke, width: 2, spanGaps: true, points: { show: true, size: POINT_SIZE_PX, fill: stroke },
-      value: (_u, v) => formatPercent(v),
-    });
+    // Canvas cannot read CSS variables: the palette's colours are resolved for the current look.
+    const series = (label: string, color: string): uPlot.Series => {
+      const stroke = resolveColor(color);
+      return {
+        label, scale: '%', stroke, width: 2, spanGaps: true, points: { show: true, size: POINT_SIZE_PX, fill: stroke },
+        value: (_u, v) => formatPercent(v),
+      };
+    };
     const plot = new uPlot(
       {
         width: el.clientWidth || width,

@@ -8,9 +8,9 @@ import { PhotoStrip } from './photo-strip';
 /** Words and colours of the three ratings (our own: calm for good, loud only for a concern). */
 export const RATING_LABEL: Record<InspectionRating, string> = { good: 'Good', acceptable: 'Acceptable', concern: 'Concern' };
 const RATING_STYLE: Record<InspectionRating, string> = {
-  good: 'border-state-recording text-state-recording',
-  acceptable: 'border-caution text-caution',
-  concern: 'border-state-cutoff bg-state-cutoff text-white',
+  good: 'border-tone-good text-tone-good',
+  acceptable: 'border-tone-caution text-tone-caution',
+  concern: 'border-tone-fault bg-tone-fault text-on-tone',
 };
 
 interface Props {

@@ -6,7 +6,7 @@ import type { Photo } from '../../../../shared/schemas/inspection';
 import { Button } from '../../../components/ui/button';
 import { Card, PageHeader } from '../../../components/ui/card';
 import { SafetyCautions } from '../../../components/ui/safety-cautions';
-import { Loading, NotAvailable, QueryError } from '../../../components/ui/status';
+import { Loading, QueryError } from '../../../components/ui/status';
 import { useLabSettings } from '../../../lib/lab-settings';
 import { batteryQueryOptions } from '../../../lib/queries/batteries';
 import { formatCharge, formatEnergy, formatPercent } from '../../../lib/units';
@@ -19,6 +19,7 @@ import { PackRuns } from './pack-runs';
 import { PackSpecs } from './pack-specs';
 import { PhotoDrop } from './photo-drop';
 import { PhotoStrip } from './photo-strip';
+import { ProtectionRecord } from './protection-record';
 
 /** Who is looking: what they may change. */
 export interface PackViewer {
@@ -109,7 +110,7 @@ export function PackPage({ batteryId, viewer }: { batteryId: number; viewer: Pac
       </Section>
 
       <Section title="Protection record">
-        <NotAvailable what="The protection record" detail="The pack's protection checks (temperature and current trips, their delays) are being added to the server; they will show here once it lands." />
+        <ProtectionRecord batteryId={b.id} />
       </Section>
 
       <Section

@@ -1,21 +1,24 @@
 import { useState } from 'react';
 import { Link } from 'react-router-dom';
-import type { Run } from '../../../../shared/schemas/run';
+import { LIVE_RUN_STATES, type Run } from '../../../../shared/schemas/run';
 import { Button } from '../../../components/ui/button';
-import { TextField } from '../../../components/ui/field';
+import { SelectField } from '../../../components/ui/field';
 import { RunStateBadge } from '../../../components/ui/state-badge';
 import { formatLabTime, useLabSettings } from '../../../lib/lab-settings';
 import { formatCharge, formatEnergy, formatPercent } from '../../../lib/units';
-import { useLinkRun } from '../api/pack-record';
+import { useLinkRun, useRecentRuns } from '../api/pack-record';
 
 /** "pass" → "Pass"; any verdict the server adds later still reads. */
 const verdictText = (verdict: string | undefined) => (verdict ? verdict.charAt(0).toUpperCase() + verdict.slice(1) : '—');
 
-/** Every run of the pack, newest first, with its verdict; technicians file an ended run here by its number. */
+/** Every run of the pack, newest first, with its verdict; technicians file an ended run of another (or no) pack here. */
 export function PackRuns({ batteryId, runs, canWrite }: { batteryId: number; runs: readonly Run[]; canWrite: boolean }) {
   const settings = useLabSettings();
   const link = useLinkRun(batteryId);
   const [runId, setRunId] = useState('');
+  const recent = useRecentRuns(canWrite);
+  // Live runs keep their pack (the server refuses them too); runs already here need no link.
+  const linkable = (recent.data?.runs ?? []).filter((r) => r.batteryId !== batteryId && !LIVE_RUN_STATES.includes(r.state));
   return (
     <div className="flex flex-col gap-4">
       {runs.length === 0 ? (
@@ -63,8 +66,16 @@ export function PackRuns({ batteryId, runs, canWrite }: { batteryId: number; run
             if (/^\d+$/.test(runId)) link.mutate(Number(runId), { onSuccess: () => setRunId('') });
           }}
         >
-          <div className="w-48">
-            <TextField label="Link run number" inputMode="numeric" placeholder="e.g. 42" value={runId} onChange={(e) => setRunId(e.target.value.trim())} />
+          <div className="min-w-0 flex-1">
+            <SelectField
+              label="Run recorded without this pack"
+              value={runId}
+              onChange={(e) => setRunId(e.target.value)}
+              options={[
+                { value: '', label: linkable.length === 0 ? 'No other ended runs' : 'Choose a run…' },
+                ...linkable.map((r) => ({ value: String(r.id), label: `#${r.id} ${r.name}${r.batteryId === null ? ' (no pack)' : ` (pack #${r.batteryId})`}` })),
+              ]}
+            />
           </div>
           <Button type="submit" variant="secondary" disabled={link.isPending || !/^\d+$/.test(runId)}>
             Link run to this pack

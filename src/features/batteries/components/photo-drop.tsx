@@ -58,22 +58,23 @@ export function PhotoDrop({ batteryId, itemId, label }: { batteryId: number; ite
         data-testid="photo-drop"
         className={`flex min-h-14 flex-wrap items-center gap-3 rounded-lg border-2 border-dashed px-3 py-2 text-sm ${over ? 'border-accent bg-surface-sunken' : 'border-line'}`}
       >
-        <label htmlFor={inputId} className="inline-flex min-h-11 cursor-pointer items-center rounded-lg border border-line bg-surface-raised px-3 font-semibold">
+        {/* The input covers its label (transparent), so the whole button is the touch target. */}
+        <label htmlFor={inputId} className="relative inline-flex min-h-11 cursor-pointer items-center rounded-lg border border-line bg-surface-raised px-3 font-semibold focus-within:ring-2 focus-within:ring-accent">
           {label}
+          <input
+            id={inputId}
+            type="file"
+            accept={ACCEPT}
+            multiple
+            className="absolute inset-0 h-full w-full cursor-pointer opacity-0"
+            onChange={(e) => {
+              const files = Array.from(e.target.files ?? []);
+              e.target.value = '';
+              void send(files);
+            }}
+          />
         </label>
         <span className="text-ink-muted">or drop JPEG, PNG or WebP photos here (20 MB each at most)</span>
-        <input
-          id={inputId}
-          type="file"
-          accept={ACCEPT}
-          multiple
-          className="sr-only"
-          onChange={(e) => {
-            const files = Array.from(e.target.files ?? []);
-            e.target.value = '';
-            void send(files);
-          }}
-        />
       </div>
       {uploads.map((u) => (
         <div key={u.key} className="flex flex-col gap-1 text-sm">
