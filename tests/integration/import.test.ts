@@ -96,6 +96,8 @@ describe('POST /api/runs/import', () => {
     const res = await tech
       .post('/api/runs/import')
       .field('name', 'minute log')
+      // A flat voltage cannot tell the sign by itself (the importer asks): say it.
+      .field('currentSign', 'discharge-positive')
       .field('maxGapSeconds', '180')
       .attach('file', Buffer.from('t_s,volts_v,amps_a\n' + rows.join('\n') + '\n'), 'minutes.csv')
       .expect(201);

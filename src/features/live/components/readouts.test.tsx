@@ -65,6 +65,8 @@ describe('readouts on a charge run', () => {
     expect(screen.getByTestId('big-energy-in').textContent).toBe('26.3');
     expect(screen.getByTestId('big-charge-in').textContent).toBe('1.00');
     expect(screen.getByText('Amps (charging)')).toBeTruthy();
+    // The running totals say they are the whole run's, not the capacity the verdict uses.
+    expect(screen.getByText(/Totals of the whole run/)).toBeTruthy();
   });
 
   it('shows no totals and no run time on a bench with no run', () => {

@@ -62,6 +62,13 @@ export function Readouts({ view, temperatureUnit, energyUnit, size = 'lg', stale
           </div>
         </div>
       )}
+      {totals && (
+        // The running totals are the whole run's (every discharge), not the capacity to the end
+        // voltage that the verdict uses: said once, under the numbers.
+        <p className="text-sm text-ink-muted">
+          {chargeRun ? 'Totals of the whole run.' : 'Totals of the whole run; the verdict uses the capacity to the end voltage.'}
+        </p>
+      )}
       {totals && (other.wh ?? 0) >= SHOW_OTHER_WAY_FROM_WH && (
         <p className="text-sm text-ink-muted">
           {other.label}: <span className="num">{formatEnergy(other.wh, energyUnit)}</span>, <span className="num">{formatCharge(other.ah)}</span>

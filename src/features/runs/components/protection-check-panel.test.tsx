@@ -74,7 +74,7 @@ describe('a protection-check run page', () => {
       return undefined;
     });
     renderAt('/runs/6');
-    expect(await screen.findByText('Energy in')).toBeTruthy();
+    expect(await screen.findByText('In, whole run')).toBeTruthy();
     expect(screen.getByText('178.9 Wh')).toBeTruthy();
     expect(screen.getByText('6.78 Ah')).toBeTruthy();
     expect(screen.getByText(/chamber -10\.0 °C to 80\.2 °C/)).toBeTruthy();
