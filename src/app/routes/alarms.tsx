@@ -1,5 +1,6 @@
 import type { QueryClient } from '@tanstack/react-query';
 import { PageHeader } from '../../components/ui/card';
+import { AlarmAdmin } from '../../features/alarms/components/alarm-admin';
 import { OutboxList } from '../../features/alarms/components/outbox-list';
 import { SubscriptionsForm } from '../../features/alarms/components/subscriptions-form';
 import { useMe } from '../../features/auth/api/get-me';
@@ -12,6 +13,7 @@ export function Component() {
     <div className="flex flex-col gap-6">
       <PageHeader title="Alarms" subtitle="Which alarms reach you, on which bench, and how." />
       <SubscriptionsForm />
+      {me.data?.role === 'admin' && <AlarmAdmin />}
       {me.data?.role === 'admin' && <OutboxList />}
     </div>
   );
