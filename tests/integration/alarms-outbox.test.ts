@@ -38,4 +38,25 @@ describe('the local fake SMTP server and the outbox', () => {
     expect(messages[0].html).toContain('Open the run');
     await tech.get('/api/alarms/outbox').expect(403);
   });
+
+  it('raises source-lost after the lab\'s silence limit without data, and clears it when data comes again', async () => {
+    const ids = await batteryAndBench(admin);
+    await admin.put('/api/alarms/settings').send({ escalateAfterMinutes: 10, sourceLostSeconds: 5, nearEndMinutes: 15 }).expect(200);
+    await tech.put('/api/alarms/subscriptions').send({ subscriptions: [{ benchId: ids.benchId, kind: 'source-lost', channel: 'in-app' }] }).expect(200);
+    const run = (await tech.post('/api/runs').send({ ...ids, name: 'Silent meter', stopWhen: 'manual' }).expect(201)).body.run;
+    feed.emit(ids.benchId, { t: 0, volts: 13, amps: 2, clock: 'device' });
+    const silentAtMs = Date.now();
+    const lost = await eventually(async () => {
+      const alarms = (await tech.get(`/api/alarms?runId=${run.id}`).expect(200)).body.alarms;
+      expect(alarms.map((a: { kind: string }) => a.kind)).toContain('source-lost');
+      return alarms.find((a: { kind: string }) => a.kind === 'source-lost');
+    }, 15_000, 250);
+    // Not before the limit (5 s), and within the watchdog's one-second tick after it.
+    expect(Date.parse(lost.raisedAt) - silentAtMs).toBeGreaterThanOrEqual(5000 - 50);
+    expect(lost).toMatchObject({ state: 'unacknowledged', priority: 'warning' });
+    expect((await tech.get('/api/alarms/inbox').expect(200)).body.alarms.map((a: { id: number }) => a.id)).toContain(lost.id);
+    feed.emit(ids.benchId, { t: 6, volts: 13, amps: 2, clock: 'device' });
+    await eventually(async () => expect((await tech.get(`/api/alarms/${lost.id}`).expect(200)).body.alarm.state).toBe('cleared-unacknowledged'));
+    await tech.post(`/api/runs/${run.id}/stop`).send({}).expect(200);
+  });
 });
