@@ -3,7 +3,8 @@ import { concretePath, createTestContext, listApiRoutes, signInAs, type SignedIn
 
 const MUTATING = new Set(['POST', 'PUT', 'PATCH', 'DELETE']);
 /** Routes every signed-in user may call to manage their own session and password. */
-const SELF_SERVICE = new Set(['POST /api/auth/login', 'POST /api/auth/logout', 'POST /api/auth/password']);
+// Routes every signed-in user may call on their own account (alarm subscriptions: the session's user only, tests/integration/alarms.test.ts).
+const SELF_SERVICE = new Set(['POST /api/auth/login', 'POST /api/auth/logout', 'POST /api/auth/password', 'PUT /api/alarms/subscriptions']);
 
 let t: TestContext;
 let viewer: SignedInAgent;
