@@ -16,6 +16,7 @@ import { guardQueries } from './db/query-guard.js';
 import { attachBenchManager } from './benches/attach-bench-manager.js';
 import { attachLive } from './live/attach-live.js';
 import { backupAttachment } from './backup/attach-backups.js';
+import { attachAlarms } from './alarms/attach-alarms.js';
 
 /** Undoes an attachment (close sockets, stop timers); awaited on server close. */
 export type Detach = () => Promise<void> | void;
@@ -28,7 +29,7 @@ export type Attachment = (httpServer: Server, ctx: AppContext) => Promise<Detach
  *   attachBenchManager,   (ingest, from ./benches/...)
  *   attachLiveHub,        (live, from ./live/...)
  */
-export const ATTACHMENTS: Attachment[] = [attachBenchManager, attachLive, backupAttachment()];
+export const ATTACHMENTS: Attachment[] = [attachBenchManager, attachLive, attachAlarms, backupAttachment()];
 
 /** How to start; everything is optional (defaults: environment config, provisioned MariaDB). */
 export interface StartServerOptions {

@@ -31,10 +31,27 @@ export interface AppConfig {
   backup: { dir: string | null; everyMs: number; keep: number };
   /** Express's `trust proxy`: whose forwarded address and scheme to believe (default nobody). */
   trustProxy: TrustProxySetting;
+  /** Alarm delivery (mail and retries); optional so that configs built by hand take the defaults. */
+  alarms?: AlarmDeliveryConfig;
   /** Public host names (or name:port) accepted in the Host header besides the loopback ones. */
   allowedHosts: string[];
 }
 
+/** How alarms are delivered: SMTP (or the local fake), links, and the retry back-off. */
+export interface AlarmDeliveryConfig {
+  /** null: the local fake SMTP server (never in production). */
+  smtpUrl: string | null;
+  smtpRequireTls: boolean;
+  mailFrom: string;
+  /** null: http://host:port of this server. */
+  publicUrl: string | null;
+  fakeSmtpPort: number;
+  retryFirstMs: number;
+  retryMaxMs: number;
+  maxAttempts: number;
+}
+
+const MS_PER_S = 1000;
 const MS_PER_HOUR = 3_600_000;
 const MS_PER_MINUTE = 60_000;
 
@@ -87,6 +104,16 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, cwd = process.c
       dir: parsed.KNEEPOINT_BACKUP_DIR ? resolve(cwd, parsed.KNEEPOINT_BACKUP_DIR) : null,
       everyMs: parsed.KNEEPOINT_BACKUP_EVERY_HOURS * MS_PER_HOUR,
       keep: parsed.KNEEPOINT_BACKUP_KEEP,
+    },
+    alarms: {
+      smtpUrl: parsed.KNEEPOINT_SMTP_URL ?? null,
+      smtpRequireTls: parsed.KNEEPOINT_SMTP_REQUIRE_TLS,
+      mailFrom: parsed.KNEEPOINT_MAIL_FROM,
+      publicUrl: parsed.KNEEPOINT_PUBLIC_URL?.replace(/\/+$/, '') ?? null,
+      fakeSmtpPort: parsed.KNEEPOINT_FAKE_SMTP_PORT,
+      retryFirstMs: parsed.KNEEPOINT_DELIVERY_RETRY_FIRST_SECONDS * MS_PER_S,
+      retryMaxMs: parsed.KNEEPOINT_DELIVERY_RETRY_MAX_SECONDS * MS_PER_S,
+      maxAttempts: parsed.KNEEPOINT_DELIVERY_MAX_ATTEMPTS,
     },
     trustProxy: parsed.KNEEPOINT_TRUST_PROXY,
     allowedHosts: parsed.KNEEPOINT_ALLOWED_HOSTS,

@@ -3,6 +3,7 @@ import type { BenchStatus } from '../../shared/schemas/bench.js';
 import { FrameSchema, type Frame } from '../../shared/schemas/frame.js';
 import type { Reading } from '../../shared/schemas/reading.js';
 import type { Run } from '../../shared/schemas/run.js';
+import type { RunEvent } from '../../shared/schemas/run-event.js';
 import type { z } from 'zod';
 import type { ArchiveWriter } from '../archive/archive-writer.js';
 import { HttpError, notFound } from '../http/http-error.js';
@@ -192,6 +193,14 @@ export class RunRecorder {
     session?.events.push(note.event);
     this.events.emit(runId, note);
     return note;
+  }
+
+  /** Adds an event another area records (an alarm's acknowledgement) to a run's timeline and tells every viewer. */
+  async addStoredEvent(runId: number, event: RunEvent, userId: number | null): Promise<StoredRunEvent> {
+    const stored = await this.deps.repo.insertEvent(runId, event, userId);
+    this.sessions.get(runId)?.events.push(stored.event);
+    this.events.emit(runId, stored);
+    return stored;
   }
 
   /** Tells viewers about a new name or tags (and keeps a live session's copy current). */

@@ -48,6 +48,18 @@ export const AlarmEventSchema = z.object({
   message: z.string().max(500),
 });
 
+/** Someone acknowledged an alarm of the run (ISA-18.2 practice: who and when is kept). */
+export const AlarmAckEventSchema = z.object({
+  ...base,
+  type: z.literal('alarm-ack'),
+  alarmId: z.number().int().positive(),
+  /** The alarm's kind, e.g. `cutoff`. */
+  code: z.string().min(1).max(64),
+  by: z.string().max(200),
+  /** When it was acknowledged (ISO 8601, server clock). */
+  at: z.string().max(40),
+});
+
 export const AnnotationEventSchema = z.object({
   ...base,
   type: z.literal('annotation'),
@@ -173,6 +185,7 @@ export const RunEventSchema = z.discriminatedUnion('type', [
   CutoffEventSchema,
   RecoveryEventSchema,
   AlarmEventSchema,
+  AlarmAckEventSchema,
   AnnotationEventSchema,
   GapEventSchema,
   SourceLostEventSchema,
@@ -192,6 +205,7 @@ export type RunEventType = RunEvent['type'];
 export type CutoffEvent = z.infer<typeof CutoffEventSchema>;
 export type RecoveryEvent = z.infer<typeof RecoveryEventSchema>;
 export type AlarmEvent = z.infer<typeof AlarmEventSchema>;
+export type AlarmAckEvent = z.infer<typeof AlarmAckEventSchema>;
 export type AnnotationEvent = z.infer<typeof AnnotationEventSchema>;
 export type GapEvent = z.infer<typeof GapEventSchema>;
 export type SourceLostEvent = z.infer<typeof SourceLostEventSchema>;

@@ -35,6 +35,8 @@ export function describeEvent(e: RunEvent, { temperatureUnit = 'C', energyUnit =
       return `Pack reconnected after ${formatDuration(e.recoverySeconds)}, ${formatVolts(e.volts)}`;
     case 'alarm':
       return `${e.level === 'critical' ? 'Alarm' : e.level === 'warning' ? 'Warning' : 'Note'}: ${e.message}`;
+    case 'alarm-ack':
+      return `Alarm (${e.code}) acknowledged by ${e.by} at ${e.at.slice(11, 19)} UTC`;
     case 'annotation':
       return e.author ? `${e.author}: ${e.text}` : e.text;
     case 'gap':

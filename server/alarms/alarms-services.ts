@@ -1,0 +1,26 @@
+import type { AppContext } from '../app-context.js';
+import { HttpError } from '../http/http-error.js';
+import type { AlarmChannels } from './alarm-channel.js';
+import type { AlarmService } from './alarm-service.js';
+import type { DeliveryWorker } from './delivery-worker.js';
+import type { FakeSmtpServer } from './fake-smtp.js';
+
+declare module '../app-context.js' {
+  interface AppServices {
+    /** Raises, acknowledges and escalates alarms; set by attachAlarms. */
+    alarms: AlarmService;
+    /** The channels alarms are delivered by: a Web Push channel registers itself here. */
+    alarmChannels: AlarmChannels;
+    /** Hands queued notices to their channels. */
+    alarmDelivery: DeliveryWorker;
+    /** The local fake SMTP server (demo, development, tests), when it runs. */
+    fakeSmtp: FakeSmtpServer;
+  }
+}
+
+/** The alarm service, or 503 when the server runs without the alarms attachment. */
+export function alarmsOf(ctx: AppContext): AlarmService {
+  const service = ctx.services.alarms;
+  if (!service) throw new HttpError(503, 'Alarms are not running on this server');
+  return service;
+}

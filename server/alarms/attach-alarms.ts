@@ -1,0 +1,87 @@
+import type { Server } from 'node:http';
+import type { AddressInfo } from 'node:net';
+import type { AppContext } from '../app-context.js';
+import type { AlarmDeliveryConfig } from '../config/config.js';
+import { getLabSettings } from '../settings/settings-service.js';
+import { AlarmChannels, inAppChannel } from './alarm-channel.js';
+import { AlarmRepo } from './alarm-repo.js';
+import { AlarmService } from './alarm-service.js';
+import './alarms-services.js';
+import { DeliveryQueue } from './delivery-queue.js';
+import { DeliveryWorker } from './delivery-worker.js';
+import { createSmtpTransport, emailChannel } from './email-channel.js';
+import { FakeSmtpServer } from './fake-smtp.js';
+
+/** Alarm delivery when the config names none (a config built by hand, as tests do). */
+export const DEFAULT_ALARM_DELIVERY: AlarmDeliveryConfig = {
+  smtpUrl: null, smtpRequireTls: false, mailFrom: 'kneepoint@localhost', publicUrl: null,
+  fakeSmtpPort: 0, retryFirstMs: 5000, retryMaxMs: 300_000, maxAttempts: 60,
+};
+
+function serverUrl(httpServer: Server, host: string): string {
+  const address = httpServer.address() as AddressInfo | null;
+  const h = host.includes(':') ? `[${host}]` : host;
+  return `http://${h}:${address?.port ?? 0}`;
+}
+
+/**
+ * Server attachment for alarms: the delivery queue and its worker, the channels (in-app,
+ * e-mail over SMTP or, outside production without KNEEPOINT_SMTP_URL, the local fake SMTP
+ * server whose mail lands in the outbox), and the alarm service as a sink of the run
+ * recorder. Runs after the live attachment, whose recorder it listens to.
+ */
+export async function attachAlarms(httpServer: Server, ctx: AppContext): Promise<() => Promise<void>> {
+  const cfg = ctx.config.alarms ?? DEFAULT_ALARM_DELIVERY;
+  const log = (m: string, e?: unknown) => (e ? ctx.log.error(m, e) : ctx.log.warn(m));
+  const repo = new AlarmRepo(ctx.sequelize);
+  const queue = new DeliveryQueue(ctx.sequelize, { firstMs: cfg.retryFirstMs, maxMs: cfg.retryMaxMs, maxAttempts: cfg.maxAttempts });
+  const channels = new AlarmChannels();
+  channels.register(inAppChannel);
+  let smtpUrl = cfg.smtpUrl;
+  let fake: FakeSmtpServer | undefined;
+  if (!smtpUrl && ctx.config.mode !== 'production') {
+    fake = new FakeSmtpServer({ port: cfg.fakeSmtpPort, onMail: (m) => repo.addOutbox(m), log });
+    await fake.start();
+    smtpUrl = fake.url;
+    ctx.services.fakeSmtp = fake;
+    ctx.log.info(`Alarm mail goes to the local fake SMTP server at ${fake.url} (read it under Alarms, Outbox)`);
+  }
+  if (smtpUrl) channels.register(emailChannel(createSmtpTransport({ url: smtpUrl, requireTls: cfg.smtpRequireTls, from: cfg.mailFrom }), cfg.mailFrom));
+  else ctx.log.warn('Alarms: KNEEPOINT_SMTP_URL is not set, so no alarm e-mail goes out');
+
+  const worker = new DeliveryWorker({
+    queue, repo, channels, log,
+    labSettings: () => getLabSettings(ctx.models),
+    publicUrl: () => cfg.publicUrl ?? serverUrl(httpServer, ctx.config.host),
+  });
+  const service = new AlarmService({
+    repo, queue, channels, log, kick: () => worker.kick(),
+    recordRunEvent: async (runId, event, userId) => {
+      const recorder = ctx.services.runRecorder;
+      if (recorder) await recorder.addStoredEvent(runId, event, userId);
+      else log(`alarm acknowledged on run ${runId}, but live recording is not running here to note it`);
+    },
+  });
+  const offs: (() => void)[] = [];
+  const recorder = ctx.services.runRecorder;
+  if (recorder) {
+    offs.push(recorder.readings.add((runId, reading) => service.onReading(runId, reading)));
+    offs.push(recorder.events.add((runId, e) => service.onRunEvent(runId, e.event)));
+    offs.push(recorder.runChanges.add((run) => service.onRunChange(run)));
+  } else ctx.log.warn('Alarms: no run recorder, so no alarm is raised');
+  ctx.services.alarms = service;
+  ctx.services.alarmChannels = channels;
+  ctx.services.alarmDelivery = worker;
+  service.start();
+  worker.start();
+  return async () => {
+    for (const off of offs) off();
+    await service.stop();
+    await worker.stop();
+    await fake?.stop();
+    delete ctx.services.alarms;
+    delete ctx.services.alarmChannels;
+    delete ctx.services.alarmDelivery;
+    delete ctx.services.fakeSmtp;
+  };
+}
