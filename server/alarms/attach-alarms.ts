@@ -14,7 +14,7 @@ import { FakeSmtpServer } from './fake-smtp.js';
 
 /** Alarm delivery when the config names none (a config built by hand, as tests do). */
 export const DEFAULT_ALARM_DELIVERY: AlarmDeliveryConfig = {
-  smtpUrl: null, smtpRequireTls: false, mailFrom: 'kneepoint@localhost', publicUrl: null,
+  smtpUrl: null, smtpRequireTls: false, mailFrom: 'alarms@kneepoint.invalid', publicUrl: null,
   fakeSmtpPort: 0, retryFirstMs: 5000, retryMaxMs: 300_000, maxAttempts: 60,
 };
 

@@ -73,7 +73,7 @@ export const EnvSchema = z.object({
   /** Refuse to send alarm mail over a connection that did not upgrade to TLS. */
   KNEEPOINT_SMTP_REQUIRE_TLS: flag(false),
   /** The From address of alarm mail. */
-  KNEEPOINT_MAIL_FROM: z.email('must be an e-mail address').default('kneepoint@localhost'),
+  KNEEPOINT_MAIL_FROM: z.email('must be an e-mail address').default('alarms@kneepoint.invalid'),
   /** The address people reach the app at, for links in alarm mail (default http://KNEEPOINT_HOST:KNEEPOINT_PORT). */
   KNEEPOINT_PUBLIC_URL: z.url({ protocol: /^https?$/, error: 'must be an http:// or https:// URL' }).optional(),
   /** Loopback port of the fake SMTP server (demo, development, test); 0 = any free port. */

@@ -62,6 +62,8 @@ export function createRoutes(queryClient: QueryClient): RouteObject[] {
             { path: '/batteries/:batteryId', ...at(() => import('./routes/battery')) },
             { path: '/users', ...at(() => import('./routes/users')) },
             { path: '/settings', ...at(() => import('./routes/settings')) },
+            { path: '/alarms', ...at(() => import('./routes/alarms')) },
+            { path: '/alarms/:alarmId', ...at(() => import('./routes/alarm')) },
             { path: '/account', ...at(() => import('./routes/account')) },
             { path: '*', ...at(() => import('./routes/not-found')) },
           ],

@@ -1,4 +1,4 @@
-import { act, render, screen } from '@testing-library/react';
+import { act, render, screen, waitFor } from '@testing-library/react';
 import userEvent from '@testing-library/user-event';
 import { beforeEach, describe, expect, it, vi } from 'vitest';
 import type { Run } from '../../../shared/schemas/run';
@@ -58,13 +58,53 @@ describe('cutoff alarm', () => {
     expect(document.title).toBe('⚠ CUTOFF · Bench 2');
   });
 
-  it('goes quiet once acknowledged with the A key and restores the title', async () => {
+  it('goes quiet once silenced with the S key and restores the title, without telling the server', async () => {
+    const fetchMock = vi.fn();
+    vi.stubGlobal('fetch', fetchMock);
     const { store, sound } = setup();
     act(() => store.handle(cutoff));
-    await userEvent.keyboard('a');
+    await userEvent.keyboard('s');
     expect(screen.queryByRole('alert')).toBeNull();
     expect(sound.stop).toHaveBeenCalled();
     expect(document.title).toBe('Kneepoint');
+    // Silencing is not acknowledging: nothing went to the server.
+    expect(fetchMock).not.toHaveBeenCalled();
+    vi.unstubAllGlobals();
+  });
+
+  it('acknowledges the run\'s open alarms on the server with the A key, then goes quiet', async () => {
+    const posted: string[] = [];
+    const alarm = (state: string) => ({
+      id: 7, runId: 12, benchId: 2, kind: 'protection-trip', priority: 'critical', state, message: 'Pack protection opened', t: 18_000,
+      values: { volts: 20.01, amps: 19.8, dischargeWh: 2480.5, dischargeAh: 98.4, tempCelsius: null, runSeconds: 18_000 }, shelved: false,
+      raisedAt: '2026-12-01T20:00:00.000Z', acknowledgedAt: null, acknowledgedBy: null, clearedAt: null, escalationStep: 0,
+    });
+    vi.stubGlobal('fetch', vi.fn(async (url: string, init?: { method?: string }) => {
+      const json = (body: unknown) => new Response(JSON.stringify(body), { status: 200, headers: { 'content-type': 'application/json' } });
+      if (url === '/api/auth/csrf') return json({ csrfToken: 'token' });
+      if (url === '/api/alarms?runId=12') return json({ alarms: [alarm('unacknowledged')] });
+      if (init?.method === 'POST') {
+        posted.push(url);
+        return json({ alarm: { ...alarm('cleared'), acknowledgedAt: '2026-12-01T20:01:00.000Z', acknowledgedBy: { id: 1, name: 'Rhea Okafor' }, clearedAt: '2026-12-01T20:01:00.000Z' } });
+      }
+      return new Response('{}', { status: 404 });
+    }));
+    const { store, sound } = setup();
+    act(() => store.handle(cutoff));
+    await userEvent.keyboard('a');
+    await waitFor(() => expect(screen.queryByRole('alert')).toBeNull());
+    expect(posted).toEqual(['/api/alarms/7/acknowledge']);
+    expect(sound.stop).toHaveBeenCalled();
+    vi.unstubAllGlobals();
+  });
+
+  it('keeps sounding and says why when the server refuses the acknowledgement', async () => {
+    vi.stubGlobal('fetch', vi.fn(async () => new Response(JSON.stringify({ error: { message: 'This needs the technician role or higher' } }), { status: 403, headers: { 'content-type': 'application/json' } })));
+    const { store } = setup();
+    act(() => store.handle(cutoff));
+    await userEvent.click(screen.getByRole('button', { name: 'Acknowledge (A)' }));
+    await waitFor(() => expect(screen.getByRole('alert').textContent).toContain('Not acknowledged'));
+    vi.unstubAllGlobals();
   });
 
   it('keeps saying CUTOFF when the server follows the cutoff with a critical alarm', () => {

@@ -7,6 +7,7 @@ import { useShortcut } from '../../lib/use-shortcut';
 import { describeEvent, type EventUnits } from '../ui/run-events-list';
 import { MonoNumbers } from '../ui/mono-numbers';
 import { useCutoffAlarm } from './use-cutoff-alarm';
+import { useServerAcknowledge } from './use-server-acknowledge';
 
 const TITLE_FLASH_MS = 1_000;
 
@@ -38,15 +39,19 @@ function useFlashingTitle(text: string | null): void {
 
 /**
  * The loud part of the product: a red banner, a repeating tone and a flashing tab title
- * when a run cuts off, until someone acknowledges it (button or the A key).
+ * when a run cuts off. Silence (S) quiets this browser only; Acknowledge (A) tells the
+ * server a person has taken the alarm (recorded with who and when; escalation stops) and
+ * then quiets it here too.
  */
 export function CutoffAlarm({ store, label, sound, size = 'normal', units = {} }: { store: LiveStore; label: string; sound?: Pick<AlarmSound, 'start' | 'stop'>; size?: AlarmSize; units?: EventUnits }) {
   const view = useLiveView(store);
-  const { alarm, acknowledge } = useCutoffAlarm(store, view);
+  const { alarm, acknowledge: silence } = useCutoffAlarm(store, view);
+  const server = useServerAcknowledge(view.run?.id ?? null, silence);
   const player = sound ?? sharedAlarmSound;
   const title = alarm ? `⚠ ${alarm.event.type === 'cutoff' ? 'CUTOFF' : 'ALARM'} · ${label}` : null;
   useFlashingTitle(title);
-  useShortcut('a', acknowledge, alarm !== null);
+  useShortcut('s', silence, alarm !== null);
+  useShortcut('a', server.acknowledge, alarm !== null);
 
   const alarmKey = alarm ? alarm.keys.join('|') : null;
   const detail = alarm ? describeEvent(alarm.event, units) : '';
@@ -65,13 +70,24 @@ export function CutoffAlarm({ store, label, sound, size = 'normal', units = {} }
         <p className={`mt-1 font-medium ${DETAIL[size]}`}><MonoNumbers text={detail} />
         </p>
       </div>
-      <button
-        type="button"
-        onClick={acknowledge}
-        className={`rounded-xl bg-white font-bold text-state-cutoff hover:bg-white/90 ${size === 'compact' ? 'min-h-11 px-4' : 'min-h-14 px-6 text-lg'}`}
-      >
-        Acknowledge (A)
-      </button>
+      <div className="flex flex-wrap items-center gap-2">
+        {server.error && <p className="w-full font-semibold">Not acknowledged: {server.error}</p>}
+        <button
+          type="button"
+          onClick={silence}
+          className={`rounded-xl border-2 border-white font-bold hover:bg-white/10 ${size === 'compact' ? 'min-h-11 px-4' : 'min-h-14 px-6 text-lg'}`}
+        >
+          Silence (S)
+        </button>
+        <button
+          type="button"
+          onClick={server.acknowledge}
+          disabled={server.busy}
+          className={`rounded-xl bg-white font-bold text-state-cutoff hover:bg-white/90 ${size === 'compact' ? 'min-h-11 px-4' : 'min-h-14 px-6 text-lg'}`}
+        >
+          Acknowledge (A)
+        </button>
+      </div>
     </div>
   );
 }

@@ -4,7 +4,8 @@ import { useShortcut } from '../../lib/use-shortcut';
 const SHORTCUTS = [
   ['N', 'Write a note on the run (bench page)'],
   ['F', 'Full-screen room view of the bench, and back'],
-  ['A', 'Acknowledge a sounding alarm'],
+  ['S', 'Silence a sounding alarm in this browser (it stays unacknowledged)'],
+  ['A', 'Acknowledge a sounding alarm for everyone (recorded with your name)'],
   ['Esc', 'Leave the room view'],
   ['?', 'Show or hide this list'],
 ] as const;

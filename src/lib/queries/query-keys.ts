@@ -11,6 +11,15 @@ export type RunsListKey = object;
 export const queryKeys = {
   me: ME_QUERY_KEY,
   settings: ['settings'] as const,
+  alarms: {
+    all: ['alarms'] as const,
+    ofRun: (runId: number) => ['alarms', 'run', runId] as const,
+    detail: (alarmId: number) => ['alarms', alarmId] as const,
+    inbox: () => ['alarms', 'inbox'] as const,
+    subscriptions: () => ['alarms', 'subscriptions'] as const,
+    channels: () => ['alarms', 'channels'] as const,
+    outbox: () => ['alarms', 'outbox'] as const,
+  },
   benches: {
     all: ['benches'] as const,
     list: () => ['benches'] as const,

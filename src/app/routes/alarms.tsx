@@ -1,0 +1,24 @@
+import type { QueryClient } from '@tanstack/react-query';
+import { PageHeader } from '../../components/ui/card';
+import { OutboxList } from '../../features/alarms/components/outbox-list';
+import { SubscriptionsForm } from '../../features/alarms/components/subscriptions-form';
+import { useMe } from '../../features/auth/api/get-me';
+import { channelsQueryOptions, subscriptionsQueryOptions } from '../../lib/queries/alarms';
+
+/** My alarm subscriptions; for an admin also the outbox of the local mail server. */
+export function Component() {
+  const me = useMe();
+  return (
+    <div className="flex flex-col gap-6">
+      <PageHeader title="Alarms" subtitle="Which alarms reach you, on which bench, and how." />
+      <SubscriptionsForm />
+      {me.data?.role === 'admin' && <OutboxList />}
+    </div>
+  );
+}
+
+/** The subscriptions and channels. */
+export function prefetch(queryClient: QueryClient): void {
+  void queryClient.prefetchQuery(subscriptionsQueryOptions());
+  void queryClient.prefetchQuery(channelsQueryOptions());
+}
