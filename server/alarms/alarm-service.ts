@@ -1,4 +1,4 @@
-import type { Alarm, AlarmKind, AlarmValues } from '../../shared/schemas/alarm.js';
+import { AlarmSettingsSchema, type Alarm, type AlarmKind, type AlarmSettings, type AlarmValues } from '../../shared/schemas/alarm.js';
 import type { Reading } from '../../shared/schemas/reading.js';
 import type { Run } from '../../shared/schemas/run.js';
 import type { RunEvent } from '../../shared/schemas/run-event.js';
@@ -52,10 +52,22 @@ export class AlarmService {
   private readonly chains = new Map<number, Promise<void>>();
   private readonly live = new Map<number, LiveRun>();
   private readonly ended = new Set<number>();
+  /** Runs whose estimate already raised near-end (one raise per run from the estimate). */
+  private readonly nearEndSent = new Set<number>();
   private timer: NodeJS.Timeout | null = null;
   private ticking = false;
+  /** The lab's alarm settings as of the last tick: the reading path never waits for the database. */
+  private settings: AlarmSettings = AlarmSettingsSchema.parse({});
+  private minutesToEnd: ((runId: number) => number | null) | undefined;
 
-  constructor(private readonly deps: AlarmServiceDeps) {}
+  constructor(private readonly deps: AlarmServiceDeps) {
+    this.minutesToEnd = deps.minutesToEnd;
+  }
+
+  /** Plugs in the estimate of minutes to the end voltage that raises `near-end` (e.g. from the live run's power and rated energy left). */
+  setEndEstimator(estimate: (runId: number) => number | null): void {
+    this.minutesToEnd = estimate;
+  }
 
   private now(): Date {
     return new Date((this.deps.nowMs ?? Date.now)());
@@ -80,10 +92,11 @@ export class AlarmService {
     const before = this.live.get(runId);
     this.live.set(runId, { reading, atMs: this.now().getTime(), silent: false });
     if (before?.silent) this.serial(runId, async () => void (await this.clear(runId, 'source-lost')));
-    const minutes = this.deps.minutesToEnd?.(runId);
-    if (minutes !== null && minutes !== undefined) this.serial(runId, async () => {
-      if (minutes < (await this.deps.repo.settings()).nearEndMinutes) await this.raise(runId, 'near-end', `About ${Math.max(0, Math.round(minutes))} min to the end voltage`, reading.elapsedSeconds, null);
-    });
+    const minutes = this.minutesToEnd?.(runId);
+    if (minutes !== null && minutes !== undefined && Number.isFinite(minutes) && minutes < this.settings.nearEndMinutes && !this.nearEndSent.has(runId)) {
+      this.nearEndSent.add(runId);
+      this.serial(runId, () => this.raise(runId, 'near-end', `About ${Math.max(0, Math.round(minutes))} min to the end voltage`, reading.elapsedSeconds, null));
+    }
   }
 
   /** Sink: one event of a run. */
@@ -103,11 +116,13 @@ export class AlarmService {
       await this.clear(run.id, ...CLEARED_AT_RUN_END);
       await this.raise(run.id, 'run-finished', run.state === 'aborted' ? 'Run stopped before its end (aborted)' : 'Run finished', t, null);
       this.live.delete(run.id);
+      this.nearEndSent.delete(run.id);
     });
   }
 
   /** Starts the timer for escalations and the silence watchdog. */
   start(): void {
+    void this.tick();
     this.timer = setInterval(() => void this.tick(), ALARM_TICK_MS);
     this.timer.unref();
   }
@@ -125,6 +140,7 @@ export class AlarmService {
     this.ticking = true;
     try {
       const settings = await this.deps.repo.settings();
+      this.settings = settings;
       const nowMs = this.now().getTime();
       for (const [runId, live] of this.live) {
         if (live.silent || this.ended.has(runId) || nowMs - live.atMs < settings.sourceLostSeconds * MS_PER_S) continue;

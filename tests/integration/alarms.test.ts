@@ -63,15 +63,16 @@ describe('subscriptions', () => {
       subscriptions: [
         { benchId: ids.benchId, kind: 'cutoff', channel: 'email' },
         { benchId: null, kind: 'run-finished', channel: 'email' },
+        { benchId: null, kind: 'near-end', channel: 'email' },
       ],
     }).expect(200);
     expect((await viewer.get('/api/alarms/subscriptions').expect(200)).body.subscriptions).toEqual([{ benchId: null, kind: 'run-finished', channel: 'in-app' }]);
-    expect((await tech.get('/api/alarms/subscriptions').expect(200)).body.subscriptions).toHaveLength(2);
+    expect((await tech.get('/api/alarms/subscriptions').expect(200)).body.subscriptions).toHaveLength(3);
     // Naming someone else is not a way in: the schema is strict and the user is the session's.
     const other = await viewer.put('/api/alarms/subscriptions').send({ userId: await userId(tech), subscriptions: [] }).expect(400);
     expect(other.body.error.message).toMatch(/invalid/i);
     await viewer.put('/api/alarms/subscriptions').send({ subscriptions: [{ benchId: ids.benchId, kind: 'cutoff', channel: 'email', userId: 1 }] }).expect(400);
-    expect((await tech.get('/api/alarms/subscriptions').expect(200)).body.subscriptions).toHaveLength(2);
+    expect((await tech.get('/api/alarms/subscriptions').expect(200)).body.subscriptions).toHaveLength(3);
     await viewer.put('/api/alarms/subscriptions').send({ subscriptions: [{ benchId: 999_999, kind: 'cutoff', channel: 'email' }] }).expect(400);
     await viewer.put('/api/alarms/subscriptions').send({ subscriptions: [{ benchId: null, kind: 'meltdown', channel: 'email' }] }).expect(400);
   });
@@ -121,8 +122,12 @@ describe('a run to cutoff', () => {
     cutoffAlarmId = cutoff.id;
     // The first on-call person (the admin) is told at once, in the app and by mail.
     await eventually(async () => expect(mailsTo(TEST_USERS.admin.email, (m) => m.subject.includes('cutoff'))).toHaveLength(1));
-    // The near-end milestone was shelved on this bench: recorded, nobody told.
+    // The near-end milestone was shelved on this bench: recorded, nobody told (the technician subscribed to it).
     await t.ctx.services.alarms!.settle();
+    const nearEnd = alarms.find((a: { kind: string }) => a.kind === 'near-end');
+    expect(nearEnd).toMatchObject({ shelved: true, priority: 'warning' });
+    expect(smtp.received.filter((m) => m.subject.includes('near-end'))).toHaveLength(0);
+    expect((await admin.get(`/api/alarms/deliveries?alarmId=${nearEnd.id}`).expect(200)).body.deliveries).toEqual([]);
   });
 
   it('latches: the pack coming back above the end voltage does not clear the cutoff alarm', async () => {

@@ -9,8 +9,8 @@ const MUTATING = new Set(['POST', 'PUT', 'PATCH', 'DELETE']);
 function PUSH_SELF_SERVICE(): string[] {
   return ['POST /api/push/subscriptions', 'DELETE /api/push/subscriptions', 'POST /api/push/acknowledge'];
 }
-/** Routes every signed-in user may call to manage their own session and password. */
-const SELF_SERVICE = new Set(['POST /api/auth/login', 'POST /api/auth/logout', 'POST /api/auth/password', ...PUSH_SELF_SERVICE()]);
+// Routes every signed-in user may call on their own account (alarm subscriptions: the session's user only, tests/integration/alarms.test.ts).
+const SELF_SERVICE = new Set(['POST /api/auth/login', 'POST /api/auth/logout', 'POST /api/auth/password', 'PUT /api/alarms/subscriptions', ...PUSH_SELF_SERVICE()]);
 
 let t: TestContext;
 let viewer: SignedInAgent;

@@ -1,5 +1,6 @@
 import type { QueryClient } from '@tanstack/react-query';
 import { Card, PageHeader } from '../../components/ui/card';
+import { AlarmAdmin } from '../../features/alarms/components/alarm-admin';
 import { OutboxList } from '../../features/alarms/components/outbox-list';
 import { PushBrowserToggle } from '../../features/alarms/components/push-browser-toggle';
 import { SubscriptionsForm } from '../../features/alarms/components/subscriptions-form';
@@ -18,6 +19,7 @@ export function Component() {
         <PushBrowserToggle />
       </Card>
       <SubscriptionsForm />
+      {me.data?.role === 'admin' && <AlarmAdmin />}
       {me.data?.role === 'admin' && <OutboxList />}
     </div>
   );

@@ -107,6 +107,15 @@ describe('cutoff alarm', () => {
     vi.unstubAllGlobals();
   });
 
+  it('goes quiet on every screen when someone acknowledges on the server (the alarm-ack event arrives live)', () => {
+    const { store, sound } = setup();
+    act(() => store.handle(cutoff));
+    expect(screen.getByRole('alert')).toBeTruthy();
+    act(() => store.handle({ type: 'event', seq: 5, topic, eventId: 42, event: { type: 'alarm-ack', t: 18_030, alarmId: 7, code: 'protection-trip', by: 'Rhea Okafor', at: '2026-12-01T20:01:00.000Z' } }));
+    expect(screen.queryByRole('alert')).toBeNull();
+    expect(sound.stop).toHaveBeenCalled();
+  });
+
   it('keeps saying CUTOFF when the server follows the cutoff with a critical alarm', () => {
     const { store } = setup();
     act(() => store.handle(cutoff));

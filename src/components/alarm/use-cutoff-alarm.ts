@@ -13,6 +13,16 @@ export function isAlarmEvent(e: RunEvent): boolean {
 
 const keyOf = (runId: number, e: RunEvent) => `${runId}:${e.type}:${e.t}`;
 
+/** Alarm kinds whose acknowledgement (by anyone, anywhere) quiets the banner. */
+const BANNER_KINDS = new Set(['cutoff', 'protection-trip', 'over-temperature']);
+
+/** Run time of the latest server acknowledgement of a banner alarm, or -Infinity. */
+export function lastAcknowledgedT(events: readonly RunEvent[]): number {
+  let latest = -Infinity;
+  for (const e of events) if (e.type === 'alarm-ack' && BANNER_KINDS.has(e.code)) latest = Math.max(latest, e.t);
+  return latest;
+}
+
 export interface ActiveAlarm {
   /** Keys of every unacknowledged alarm event; one acknowledgement silences them all. */
   keys: string[];
@@ -23,7 +33,8 @@ export interface ActiveAlarm {
 /**
  * Decides whether a run's alarm is sounding: alarm events nobody has acknowledged in this
  * browser, on a run that is still live or whose alarm arrived while this page was open.
- * Acknowledging silences it here only; the events stay on the timeline.
+ * Silencing quiets it here only; an acknowledgement recorded on the server (an `alarm-ack`
+ * event, from any screen, e-mail link or push action) quiets it on every screen.
  */
 export function useCutoffAlarm(store: LiveStore, view: LiveView): { alarm: ActiveAlarm | null; acknowledge: () => void } {
   const [arrivedLive, setArrivedLive] = useState<ReadonlySet<string>>(new Set());
@@ -39,11 +50,13 @@ export function useCutoffAlarm(store: LiveStore, view: LiveView): { alarm: Activ
   );
 
   const runLive = view.run ? LIVE_RUN_STATES.includes(view.run.state) : false;
+  // Someone acknowledged on the server (here or on another screen): what came before is taken care of.
+  const ackedUpToT = lastAcknowledgedT(view.events);
   const pending =
     runId === null
       ? []
       : view.events.filter((e) => {
-          if (!isAlarmEvent(e)) return false;
+          if (!isAlarmEvent(e) || e.t <= ackedUpToT) return false;
           const key = keyOf(runId, e);
           const isAcked = acked.has(key) || safeSession.get(ACK_KEY_PREFIX + key) === '1';
           return !isAcked && (runLive || arrivedLive.has(key));
