@@ -44,6 +44,16 @@ export const PUSH_SUPPORT_MESSAGE: Record<Exclude<PushSupport, 'ready'>, string>
 };
 
 const KeySchema = z.object({ publicKey: z.string() });
+/** How long the browser's push service may take to hand out a subscription before we say it did not answer. */
+export const SUBSCRIBE_TIMEOUT_MS = 20_000;
+
+/** Rejects with `message` when `work` has not settled within `ms`. */
+function within<T>(work: Promise<T>, ms: number, message: string): Promise<T> {
+  return new Promise<T>((resolve, reject) => {
+    const timer = setTimeout(() => reject(new Error(message)), ms);
+    work.then((v) => (clearTimeout(timer), resolve(v)), (e: unknown) => (clearTimeout(timer), reject(e instanceof Error ? e : new Error(String(e)))));
+  });
+}
 
 function keyBytes(base64url: string): Uint8Array<ArrayBuffer> {
   const b64 = base64url.replace(/-/g, '+').replace(/_/g, '/');
@@ -65,14 +75,19 @@ export async function currentPushSubscription(b: PushBrowser): Promise<PushSubsc
  * and stores the subscription on the server for the signed-in user. Resolves to the state:
  * 'ready' when subscribed, else why not.
  */
-export async function subscribeThisBrowser(b: PushBrowser): Promise<PushSupport> {
+export async function subscribeThisBrowser(b: PushBrowser, timeoutMs = SUBSCRIBE_TIMEOUT_MS): Promise<PushSupport> {
   const support = pushSupport(b);
   if (support !== 'ready') return support;
   if ((await b.requestPermission()) !== 'granted') return 'denied';
   const reg = await b.serviceWorker!.register(ALARM_SW_URL, { scope: '/' });
   await b.serviceWorker!.ready;
   const { publicKey } = await api('/api/push/key', { schema: KeySchema });
-  const sub = await reg.pushManager.subscribe({ userVisibleOnly: true, applicationServerKey: keyBytes(publicKey) });
+  // A browser whose push service cannot be reached (no network to it, or none built in) may never answer.
+  const sub = await within(
+    reg.pushManager.subscribe({ userVisibleOnly: true, applicationServerKey: keyBytes(publicKey) }),
+    timeoutMs,
+    'This browser\'s push service did not answer, so push cannot reach it. E-mail still does.',
+  );
   await api('/api/push/subscriptions', { method: 'POST', body: sub.toJSON() });
   return 'ready';
 }

@@ -41,3 +41,15 @@ describe('PushBrowserToggle', () => {
     expect(await screen.findByText(/blocked for this site/)).toBeTruthy();
   });
 });
+
+describe('subscribeThisBrowser', () => {
+  it('gives up with a plain message when the browser\'s push service never answers', async () => {
+    const { subscribeThisBrowser } = await import('../api/push-browser');
+    const { stubApi, demoUser } = await import('../../../testing/render-app');
+    // The VAPID key as the server hands it: a 65-byte P-256 point, base64url.
+    stubApi(demoUser('technician'), (url) => (url === '/api/push/key' ? { status: 200, body: { publicKey: Buffer.alloc(65, 4).toString('base64url') } } : undefined));
+    const reg = { pushManager: { subscribe: () => new Promise(() => {}) } };
+    const b = browser({ serviceWorker: { getRegistration: () => Promise.resolve(undefined), register: () => Promise.resolve(reg), ready: Promise.resolve(reg) } as unknown as ServiceWorkerContainer });
+    await expect(subscribeThisBrowser(b, 50)).rejects.toThrow(/push service did not answer/);
+  });
+});
