@@ -15,7 +15,11 @@ export default defineConfig({
     emptyOutDir: true,
     sourcemap: true,
     rollupOptions: {
+      // The alarm service worker is an entry of its own at a fixed name on the site's root
+      // (a worker's scope is its directory, and browsers keep registrations by URL).
+      input: { main: 'index.html', 'alarm-sw': 'src/sw/alarm-sw.ts' },
       output: {
+        entryFileNames: (chunk) => (chunk.name === 'alarm-sw' ? 'alarm-sw.js' : 'assets/[name]-[hash].js'),
         // Libraries change less often than the app: separate chunks cache better.
         manualChunks(id: string) {
           if (!id.includes('node_modules')) return undefined;

@@ -16,6 +16,7 @@ import { createRunsRouter } from './runs/runs-routes.js';
 import { createInspectionRouter } from './inspection/inspection-routes.js';
 import { createPhotosRouter } from './photos/photos-routes.js';
 import { createAlarmsRouter } from './alarms/alarms-routes.js';
+import { createPushRouter, pushAcknowledgeRoute } from './push/push-routes.js';
 
 /**
  * The Express app (no listen). Order matters: security headers, the health endpoint, a 503
@@ -34,6 +35,8 @@ export function createApp(ctx: AppContext): Express {
   app.get('/api/health', healthRoute(ctx));
   app.use('/api', databaseGate(ctx));
   app.use('/api', express.json({ limit: ctx.config.bodyLimit }));
+  // The push notification's Acknowledge action: authorised by its signed token, not a session, so before CSRF.
+  app.post('/api/push/acknowledge', pushAcknowledgeRoute(ctx));
   app.use('/api', ctx.sessionMiddleware, ctx.passport.initialize(), ctx.passport.session(), csrfProtection);
 
   app.use('/api/auth', createAuthRouter(ctx));
@@ -49,6 +52,7 @@ export function createApp(ctx: AppContext): Express {
   app.use('/api', createInspectionRouter(ctx));
   app.use('/api', createPhotosRouter(ctx));
   app.use('/api/alarms', createAlarmsRouter(ctx));
+  app.use('/api/push', createPushRouter(ctx));
   // ── end of router mounts ──
 
   app.use('/api', apiNotFound);

@@ -2,6 +2,9 @@ import { existsSync } from 'node:fs';
 import { join } from 'node:path';
 import express, { type Express, type RequestHandler } from 'express';
 
+/** The alarm service worker's file at the site's root (vite.config.ts names it). */
+const SERVICE_WORKER_FILE = '/alarm-sw.js';
+
 const NOT_BUILT_PAGE =
   '<!doctype html><meta charset="utf-8"><title>Kneepoint</title>' +
   '<p>The client is not built yet: run <code>npm run build:client</code> (npm start does it for you).</p>';
@@ -20,7 +23,15 @@ export function serveClient(app: Express, clientDir: string, guardSourceMaps: Re
     next();
   });
   app.use((req, res, next) => (req.path.endsWith('.map') ? maps(req, res, next) : next()));
-  if (built) app.use(express.static(clientDir, { index: false, maxAge: '1h' }));
+  if (built) {
+    app.use(express.static(clientDir, {
+      index: false, maxAge: '1h',
+      // The alarm service worker is looked up by its fixed URL: revalidate it, so a new build reaches browsers at once.
+      setHeaders: (res, path) => {
+        if (path.endsWith(SERVICE_WORKER_FILE)) res.setHeader('Cache-Control', 'no-cache');
+      },
+    }));
+  }
   app.use((req, res, next) => {
     const wantsPage = (req.method === 'GET' || req.method === 'HEAD') && !req.path.startsWith('/api/') && !req.path.startsWith('/ws');
     if (!wantsPage || !req.accepts('html')) return next();

@@ -3,6 +3,7 @@ export * from './run-pipeline.js';
 export * from './integrator.js';
 export * from './compensated-sum.js';
 export * from './trapezoid.js';
+export * from './time-to-end.js';
 export * from './capacity-to-end-voltage.js';
 export * from './detector.js';
 export * from './parse-csv-line.js';

@@ -2,9 +2,15 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { concretePath, createTestContext, listApiRoutes, signInAs, type SignedInAgent, type TestContext } from './helpers/index.js';
 
 const MUTATING = new Set(['POST', 'PUT', 'PATCH', 'DELETE']);
-/** Routes every signed-in user may call to manage their own session and password. */
+/**
+ * Web Push: every user registers and removes their OWN browsers; the notification's Acknowledge
+ * is authorised by its signed token, not the session (tests/integration/push-alarms.test.ts).
+ */
+function PUSH_SELF_SERVICE(): string[] {
+  return ['POST /api/push/subscriptions', 'DELETE /api/push/subscriptions', 'POST /api/push/acknowledge'];
+}
 // Routes every signed-in user may call on their own account (alarm subscriptions: the session's user only, tests/integration/alarms.test.ts).
-const SELF_SERVICE = new Set(['POST /api/auth/login', 'POST /api/auth/logout', 'POST /api/auth/password', 'PUT /api/alarms/subscriptions']);
+const SELF_SERVICE = new Set(['POST /api/auth/login', 'POST /api/auth/logout', 'POST /api/auth/password', 'PUT /api/alarms/subscriptions', ...PUSH_SELF_SERVICE()]);
 
 let t: TestContext;
 let viewer: SignedInAgent;

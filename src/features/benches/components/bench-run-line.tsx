@@ -1,6 +1,8 @@
 import type { Run } from '../../../../shared/schemas/run';
 import { CutoffAlarm } from '../../../components/alarm/cutoff-alarm';
 import { RunStateBadge } from '../../../components/ui/state-badge';
+import { EndEstimateLine } from '../../../components/ui/end-estimate';
+import { useEndEstimate } from '../../../lib/use-end-estimate';
 import { formatCharge, formatElapsedClock, formatEnergy } from '../../../lib/units';
 import { useLiveStore, useLiveView } from '../../../lib/use-live';
 
@@ -9,6 +11,7 @@ export function BenchRunLine({ run, benchName, energyUnit }: { run: Run; benchNa
   const store = useLiveStore({ kind: 'run', id: run.id });
   const view = useLiveView(store);
   const state = view.run?.state ?? run.state;
+  const estimate = useEndEstimate(view);
   // A charge run counts what goes in; every other run what comes out.
   const charge = run.kind === 'charge';
   const wh = charge ? view.chargeWh : view.dischargeWh;
@@ -25,6 +28,7 @@ export function BenchRunLine({ run, benchName, energyUnit }: { run: Run; benchNa
         {formatEnergy(wh, energyUnit)} · {formatCharge(ah)} ·{' '}
         <span className="text-ink-muted">{view.t === null ? '—' : formatElapsedClock(view.t)} h:m:s</span>
       </p>
+      <EndEstimateLine estimate={estimate} />
     </div>
   );
 }

@@ -15,6 +15,8 @@ import { useHistoryBackfill } from '../api/use-history-backfill';
 import { AnnotationBox } from './annotation-box';
 import { CutoffAlarm } from '../../../components/alarm/cutoff-alarm';
 import { Readouts } from './readouts';
+import { EndEstimateLine } from '../../../components/ui/end-estimate';
+import { useEndEstimate } from '../../../lib/use-end-estimate';
 
 interface Props {
   runId: number;
@@ -40,6 +42,7 @@ export function LiveRunPanel({ runId, label, roomViewPath, canAct, onClose, sour
   const navigate = useNavigate();
   useShortcut('f', () => navigate(roomViewPath));
   const run = view.run;
+  const estimate = useEndEstimate(view);
   const live = run ? LIVE_RUN_STATES.includes(run.state) : false;
 
   const stopRun = (abort: boolean) => {
@@ -102,6 +105,7 @@ export function LiveRunPanel({ runId, label, roomViewPath, canAct, onClose, sour
           stale={live && (!!sourceProblem || age.stale)}
           ageSeconds={age.ageSeconds}
         />
+        <EndEstimateLine estimate={estimate} className="mt-4" />
       </Card>
       <Card>
         <LiveChart store={store} temperatureUnit={settings.temperatureUnit} />

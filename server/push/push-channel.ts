@@ -1,0 +1,79 @@
+import type { Agent } from 'node:https';
+import webpush, { WebPushError } from 'web-push';
+import type { AlarmChannel } from '../alarms/alarm-channel.js';
+import { ACK_TOKEN_LIFETIME_MS, makeAckToken } from './ack-token.js';
+import { buildPushPayload } from './push-payload.js';
+import type { PushSubscriptionRepo, StoredPushSubscription } from './push-subscription-repo.js';
+import type { VapidKeys } from './vapid-keys.js';
+
+/** How long the push service keeps an undelivered message for an offline browser (seconds). */
+const PUSH_TTL_SECONDS = 6 * 60 * 60;
+/** How long one POST to a push service may take before it counts as failed (the queue retries). */
+const PUSH_TIMEOUT_MS = 10_000;
+/** Push-service answers meaning the subscription is gone for good (RFC 8030 §7.3). */
+const GONE_STATUSES = new Set([404, 410]);
+
+/** What the push channel needs. */
+export interface PushChannelDeps {
+  repo: Pick<PushSubscriptionRepo, 'ofUser' | 'remove'>;
+  vapid: VapidKeys;
+  /** VAPID subject: a mailto: or https: contact for the push service's operator. */
+  subject: string;
+  /** Secret the acknowledge tokens are signed with. */
+  ackSecret: string;
+  nowMs?: () => number;
+  log: (message: string) => void;
+  /** HTTPS agent for the push services (tests trust their local push service's certificate with it). */
+  agent?: Agent;
+}
+
+/**
+ * The Web Push channel: encrypts the alarm (aes128gcm, RFC 8291) for every browser the person
+ * registered and POSTs it to each push service with VAPID (RFC 8292). A 404/410 removes that
+ * subscription; any other failure throws so the queue retries, and browsers that already got
+ * this delivery are skipped on the retry (the Topic header also lets the push service replace
+ * a copy still waiting).
+ */
+export function pushChannel(deps: PushChannelDeps): AlarmChannel {
+  const now = deps.nowMs ?? Date.now;
+  /** deliveryId → subscription ids that already have it (kept until the delivery succeeds). */
+  const sentTo = new Map<number, Set<number>>();
+  return {
+    name: 'push',
+    deliver: async (d) => {
+      const subs = await deps.repo.ofUser(d.user.id);
+      const done = sentTo.get(d.deliveryId) ?? new Set<number>();
+      const token = makeAckToken(deps.ackSecret, { alarmId: d.alarm.id, userId: d.user.id, expiresAtMs: now() + ACK_TOKEN_LIFETIME_MS });
+      const payload = JSON.stringify(buildPushPayload(d, token));
+      const failures: string[] = [];
+      for (const sub of subs.filter((s) => !done.has(s.id))) {
+        const error = await sendOne(sub, payload, d.alarm.priority === 'critical', `a${d.alarm.id}s${d.step}`);
+        if (error === null) done.add(sub.id);
+        else if (error === 'gone') {
+          await deps.repo.remove(sub.id);
+          deps.log(`push: the push service no longer knows subscription ${sub.id} of user ${sub.userId}; removed`);
+        } else failures.push(error);
+      }
+      if (failures.length > 0) {
+        sentTo.set(d.deliveryId, done);
+        throw new Error(`push: ${failures.length} of ${subs.length} browsers not reached: ${failures[0]}`);
+      }
+      sentTo.delete(d.deliveryId);
+    },
+  };
+
+  async function sendOne(sub: StoredPushSubscription, payload: string, urgent: boolean, topic: string): Promise<string | 'gone' | null> {
+    try {
+      await webpush.sendNotification({ endpoint: sub.endpoint, keys: sub.keys }, payload, {
+        vapidDetails: { subject: deps.subject, publicKey: deps.vapid.publicKey, privateKey: deps.vapid.privateKey },
+        TTL: PUSH_TTL_SECONDS, contentEncoding: 'aes128gcm', urgency: urgent ? 'high' : 'normal', topic, timeout: PUSH_TIMEOUT_MS,
+        ...(deps.agent ? { agent: deps.agent } : {}),
+      });
+      return null;
+    } catch (err) {
+      if (err instanceof WebPushError && GONE_STATUSES.has(err.statusCode)) return 'gone';
+      if (err instanceof WebPushError) return `status ${err.statusCode} ${err.body.slice(0, 200)}`;
+      return err instanceof Error ? err.message : String(err);
+    }
+  }
+}
