@@ -15,6 +15,7 @@ import { createBenchesRouter } from './benches/benches-routes.js';
 import { createRunsRouter } from './runs/runs-routes.js';
 import { createInspectionRouter } from './inspection/inspection-routes.js';
 import { createPhotosRouter } from './photos/photos-routes.js';
+import { createSignoffRouter } from './signoff/signoff-routes.js';
 
 /**
  * The Express app (no listen). Order matters: security headers, the health endpoint, a 503
@@ -47,6 +48,7 @@ export function createApp(ctx: AppContext): Express {
   app.use('/api/runs', createRunsRouter(ctx));
   app.use('/api', createInspectionRouter(ctx));
   app.use('/api', createPhotosRouter(ctx));
+  app.use('/api', createSignoffRouter(ctx));
   // ── end of router mounts ──
 
   app.use('/api', apiNotFound);
