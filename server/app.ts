@@ -16,6 +16,8 @@ import { createRunsRouter } from './runs/runs-routes.js';
 import { createInspectionRouter } from './inspection/inspection-routes.js';
 import { createPhotosRouter } from './photos/photos-routes.js';
 import { createSignoffRouter } from './signoff/signoff-routes.js';
+import { createShareLinksRouter } from './share/share-links-routes.js';
+import { createSharedRouter } from './share/shared-routes.js';
 
 /**
  * The Express app (no listen). Order matters: security headers, the health endpoint, a 503
@@ -33,6 +35,9 @@ export function createApp(ctx: AppContext): Express {
   // Health first: it needs no session, so it answers even while the database is away.
   app.get('/api/health', healthRoute(ctx));
   app.use('/api', databaseGate(ctx));
+  // Shared reports: public and read-only, before the session so no cookie counts; nothing under
+  // /api/shared falls through to the signed-in API.
+  app.use('/api/shared', createSharedRouter(ctx));
   app.use('/api', express.json({ limit: ctx.config.bodyLimit }));
   app.use('/api', ctx.sessionMiddleware, ctx.passport.initialize(), ctx.passport.session(), csrfProtection);
 
@@ -49,6 +54,7 @@ export function createApp(ctx: AppContext): Express {
   app.use('/api', createInspectionRouter(ctx));
   app.use('/api', createPhotosRouter(ctx));
   app.use('/api', createSignoffRouter(ctx));
+  app.use('/api/share-links', createShareLinksRouter(ctx));
   // ── end of router mounts ──
 
   app.use('/api', apiNotFound);
