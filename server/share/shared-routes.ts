@@ -60,7 +60,8 @@ export function createSharedRouter(ctx: AppContext): Router {
     if (!photo || photo.batteryId !== link.targetId) throw gone();
     res.type('image/jpeg');
     await new Promise<void>((resolve, reject) => {
-      res.sendFile(files.pathOf(photo.storageKey, 'thumb', photo.format), (error) => (error ? reject(error) : resolve()));
+      // The data folder is often a dot folder (`.data`): send refuses such paths unless told; the name itself is a checked hex key.
+      res.sendFile(files.pathOf(photo.storageKey, 'thumb', photo.format), { dotfiles: 'allow' }, (error) => (error ? reject(error) : resolve()));
     }).catch(() => {
       throw new HttpError(410, 'The picture is missing');
     });

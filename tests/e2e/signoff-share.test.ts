@@ -1,5 +1,6 @@
 import { fileURLToPath } from 'node:url';
 import type { Page } from 'playwright-core';
+import sharp from 'sharp';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { DEMO_ACCOUNTS } from '../../server/db/seed-demo.js';
 import { signInAs, type TestContext } from '../integration/helpers/index.js';
@@ -91,6 +92,44 @@ describe('sign off a run and open its share link in a fresh browser with no sess
       expect(findings).toEqual([]);
       // The fresh browser still holds no session: it saw the report without one.
       expect((await fresh.context.cookies()).filter((c) => c.name === 'kneepoint.sid')).toEqual([]);
+    } finally {
+      await fresh.close();
+    }
+  });
+
+  it('opens a shared pack report (specs, capacity history, inspection thumbnails) with no session, readable in both looks and on a phone', { timeout: 120_000 }, async () => {
+    const tech = await signInAs(t, 'technician', { email: account('technician').email, password: t.ctx.config.demoPassword });
+    const pack = await tech.post('/api/batteries').send({ label: 'Pack NG-7', brand: 'Corvane', chemistry: 'lfp', cellsInSeries: 4, ratedAh: 2, price: 120, priceCurrency: 'EUR' }).expect(201);
+    const packId = pack.body.battery.id as number;
+    await tech.put(`/api/batteries/${packId}/runs/${runId}`).expect(200);
+    const picture = await sharp({ create: { width: 320, height: 240, channels: 3, background: '#5a6470' } }).jpeg().toBuffer();
+    await tech.post(`/api/batteries/${packId}/photos`).attach('file', picture, 'welds.jpg').expect(201);
+    const { token } = (await tech.post('/api/share-links').send({ kind: 'battery', targetId: packId }).expect(201)).body as { token: string };
+    const fresh = await launchBrowser();
+    try {
+      const findings: string[] = [];
+      for (const scheme of ['light', 'dark'] as const) {
+        const page = await fresh.context.newPage();
+        await page.setViewportSize(PHONE);
+        await page.emulateMedia({ colorScheme: scheme });
+        await page.goto(`${t.url}/s/${token}`);
+        await page.getByRole('heading', { name: /Pack NG-7/ }).waitFor();
+        await settle(page);
+        expect(await page.getByRole('cell', { name: RUN_NAME }).isVisible()).toBe(true);
+        // The thumbnail loads through the token; the price was not chosen, so it is not shown.
+        const img = page.getByRole('img', { name: /Inspection photo/ }).first();
+        await img.waitFor();
+        // Thumbnails load lazily: bring it into view as a reader scrolling down would.
+        await img.scrollIntoViewIfNeeded();
+        await expect.poll(() => img.evaluate((el) => (el as unknown as { naturalWidth: number }).naturalWidth)).toBeGreaterThan(0);
+        expect(await page.getByText('Price').count()).toBe(0);
+        for (const v of await axeViolations(page)) findings.push(`${scheme} ${v.rule} ${v.targets.join(' ')} ${v.summary}`);
+        const overflow = await overflowPx(page);
+        if (overflow > 0) findings.push(`${scheme} overflows 390 px by ${overflow}: ${(await widestElements(page)).join(', ')}`);
+        await page.screenshot({ path: `${SCREENSHOT_DIR}/shared-pack-${scheme}.png`, fullPage: true });
+        await page.close();
+      }
+      expect(findings).toEqual([]);
     } finally {
       await fresh.close();
     }

@@ -21,7 +21,8 @@ let viewer: SignedInAgent;
 let admin: SignedInAgent;
 
 beforeAll(async () => {
-  dataDir = mkdtempSync(join(tmpdir(), 'kneepoint-share-'));
+  // A dot folder, as the default data folder (.data) is: photos must still be served from it.
+  dataDir = mkdtempSync(join(tmpdir(), '.kneepoint-share-'));
   t = await createTestContext({ config: { dataDir }, log: { info: capture, warn: capture, error: capture } });
   tech = await signInAs(t, 'technician');
   viewer = await signInAs(t, 'viewer');

@@ -89,7 +89,8 @@ function PackReport({ token, report }: { token: string; report: SharedPackReport
         {report.runs.length === 0 ? (
           <p className="text-sm text-ink-muted">No finished runs.</p>
         ) : (
-          <div className="overflow-x-auto">
+          // Focusable, so a keyboard can scroll the table sideways on a phone.
+          <div className="overflow-x-auto" tabIndex={0} role="region" aria-label="Capacity history and protection record table">
             <table className="w-full text-left text-sm">
               <thead>
                 <tr>

@@ -3,6 +3,7 @@ import { afterEach, describe, expect, it, vi } from 'vitest';
 import type { SignoffHistoryResponse } from '../../../../shared/schemas/signoff';
 import { AppProvider } from '../../../app/provider';
 import { createQueryClient } from '../../../lib/query-client';
+import { queryKeys } from '../../../lib/queries/query-keys';
 import type { Role } from '../../../lib/roles';
 import { stubApi } from '../../../testing/render-app';
 import { SignoffPanel } from './signoff-panel';
@@ -12,13 +13,12 @@ const entry = (id: number, action: 'ready' | 'signed', state: 'current' | 'super
   id, runId: 3, action, comment, contentHash: HASH, byId: 1, byName: action === 'signed' ? 'Ada Marsh' : 'Ben Okafor', byRole: action === 'signed' ? 'admin' : 'technician', at: '2026-11-30T09:00:00.000Z', state,
 });
 
-function renderPanel(role: Role, history: SignoffHistoryResponse) {
+function renderPanel(role: Role, history: SignoffHistoryResponse, client = createQueryClient()) {
   const { calls } = stubApi(null, (url, init) => {
     if (url === '/api/runs/3/signoffs' && (init?.method ?? 'GET') === 'GET') return { status: 200, body: history };
     if (url.startsWith('/api/runs/3/signoffs') && init?.method === 'POST') return { status: 201, body: history };
     return undefined;
   });
-  const client = createQueryClient();
   render(
     <AppProvider queryClient={client}>
       <SignoffPanel runId={3} role={role} formatTime={(iso) => iso} />
@@ -43,6 +43,19 @@ describe('sign-off panel', () => {
     expect(screen.queryByRole('button', { name: 'Sign off' })).toBeNull();
     fireEvent.click(screen.getByRole('button', { name: 'Mark ready for review' }));
     await waitFor(() => expect(calls.some((c) => c.url === '/api/runs/3/signoffs/ready' && c.init?.method === 'POST')).toBe(true));
+  });
+
+  it('asks again when the page learns the run or its notes changed (a change can supersede the sign-off)', async () => {
+    const client = createQueryClient();
+    const calls = renderPanel('viewer', { status: 'signed', currentHash: HASH, entries: [entry(2, 'signed', 'current', 'ok')] }, client);
+    await screen.findByText('Signed off.');
+    const asked = () => calls.filter((c) => c.url === '/api/runs/3/signoffs').length;
+    expect(asked()).toBe(1);
+    client.setQueryData(queryKeys.runs.events(3), []);
+    await waitFor(() => expect(asked()).toBe(2));
+    client.setQueryData(queryKeys.runs.events(4), []);
+    client.setQueryData(queryKeys.runs.detail(3), { id: 3 });
+    await waitFor(() => expect(asked()).toBe(3));
   });
 
   it('lets an admin sign a ready run with a comment and the hash of what they looked at', async () => {
