@@ -4,6 +4,7 @@ import type { AppConfig } from './config/config.js';
 import { defineCoreModels, type CoreModels } from './db/models/index.js';
 import { createPassport, type PassportInstance } from './auth/passport-setup.js';
 import { createSession, type SessionParts } from './auth/session.js';
+import { redactingLogger } from './http/redact-tokens.js';
 
 /**
  * Services other areas hang on the context (bench manager, live hub, ...). Add yours from your
@@ -45,8 +46,10 @@ export const consoleLogger: Logger = {
   error: (message, error) => console.error(message, error ?? ''),
 };
 
-/** Builds the context: models, passport and sessions on an already migrated database. */
-export function createAppContext(config: AppConfig, sequelize: Sequelize, log: Logger = consoleLogger): AppContext {
+/** Builds the context: models, passport and sessions on an already migrated database; its logger redacts share tokens. */
+export function createAppContext(config: AppConfig, sequelize: Sequelize, rawLog: Logger = consoleLogger): AppContext {
+  // Every line any part of the server logs goes through here: no share token may reach the log.
+  const log = redactingLogger(rawLog);
   const models = defineCoreModels(sequelize);
   const session = createSession(config, sequelize);
   const cleanups: Array<() => Promise<void> | void> = [() => session.store.stopExpiringSessions()];

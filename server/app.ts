@@ -17,6 +17,9 @@ import { createInspectionRouter } from './inspection/inspection-routes.js';
 import { createPhotosRouter } from './photos/photos-routes.js';
 import { createAlarmsRouter } from './alarms/alarms-routes.js';
 import { createPushRouter, pushAcknowledgeRoute } from './push/push-routes.js';
+import { createSignoffRouter } from './signoff/signoff-routes.js';
+import { createShareLinksRouter } from './share/share-links-routes.js';
+import { createSharedRouter } from './share/shared-routes.js';
 
 /**
  * The Express app (no listen). Order matters: security headers, the health endpoint, a 503
@@ -34,6 +37,9 @@ export function createApp(ctx: AppContext): Express {
   // Health first: it needs no session, so it answers even while the database is away.
   app.get('/api/health', healthRoute(ctx));
   app.use('/api', databaseGate(ctx));
+  // Shared reports: public and read-only, before the session so no cookie counts; nothing under
+  // /api/shared falls through to the signed-in API.
+  app.use('/api/shared', createSharedRouter(ctx));
   app.use('/api', express.json({ limit: ctx.config.bodyLimit }));
   // The push notification's Acknowledge action: authorised by its signed token, not a session, so before CSRF.
   app.post('/api/push/acknowledge', pushAcknowledgeRoute(ctx));
@@ -53,6 +59,8 @@ export function createApp(ctx: AppContext): Express {
   app.use('/api', createPhotosRouter(ctx));
   app.use('/api/alarms', createAlarmsRouter(ctx));
   app.use('/api/push', createPushRouter(ctx));
+  app.use('/api', createSignoffRouter(ctx));
+  app.use('/api/share-links', createShareLinksRouter(ctx));
   // ── end of router mounts ──
 
   app.use('/api', apiNotFound);

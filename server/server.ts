@@ -8,6 +8,7 @@ import { createSequelize } from './db/sequelize.js';
 import { migrate } from './db/migrate.js';
 import { seedDemo } from './db/seed-demo.js';
 import { consoleLogger, createAppContext, type AppContext, type Logger } from './app-context.js';
+import { redactingLogger } from './http/redact-tokens.js';
 import { createApp } from './app.js';
 import { DatabaseHealth } from './db/database-health.js';
 import { createPingProbe } from './db/database-probe.js';
@@ -88,7 +89,7 @@ function listen(httpServer: Server, port: number, host: string): Promise<number>
 
 /** Provisions (unless given a database), migrates, optionally seeds, listens on loopback, runs attachments. */
 export async function startServer(options: StartServerOptions = {}): Promise<RunningServer> {
-  const log = options.log ?? consoleLogger;
+  const log = redactingLogger(options.log ?? consoleLogger);
   const config = options.config ?? loadConfig();
   const host = options.host ?? config.host;
   const wantedPort = options.port ?? config.port;

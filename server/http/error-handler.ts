@@ -56,7 +56,7 @@ function databaseError(error: unknown): { status: number; message: string } | un
  * status, the database away (refused, broken or timed-out connection) → 503, anything else → 500 with a generic message (the details go to the server log only).
  */
 export function createErrorHandler(log: (message: string, error: unknown) => void): ErrorRequestHandler {
-  return (error, _req, res, next) => {
+  return (error, req, res, next) => {
     if (res.headersSent) return next(error);
     const send = (status: number, body: ErrorBody['error']) => res.status(status).json({ error: body } satisfies ErrorBody);
     if (error instanceof ZodError) return send(400, { message: 'Invalid request: check the listed fields', fields: zodFields(error) });
@@ -70,7 +70,8 @@ export function createErrorHandler(log: (message: string, error: unknown) => voi
     if (known) return send(known.status, { message: known.message });
     const status = (error as { status?: number })?.status;
     if (typeof status === 'number' && status >= 400 && status < 500) return send(status, { message: 'Bad request' });
-    log('Unhandled error', error);
+    // The path says which route failed; the context's logger takes share tokens out of it.
+    log(`Unhandled error on ${req.method} ${req.originalUrl}`, error);
     return send(500, { message: 'Internal server error' });
   };
 }

@@ -39,6 +39,8 @@ export function createRoutes(queryClient: QueryClient): RouteObject[] {
   const at = (load: () => Promise<RouteModule>) => page(queryClient, load);
   return [
     { path: '/sign-in', element: <SignInRoute />, errorElement: <RouteErrorPage /> },
+    // A shared report: no account, no navigation, nothing of the lab but what was shared.
+    { path: '/s/:token', ...at(() => import('./routes/shared')) },
     {
       element: <RequireAuth />,
       errorElement: <RouteErrorPage />,

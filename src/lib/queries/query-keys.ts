@@ -42,6 +42,9 @@ export const queryKeys = {
     events: (runId: number) => ['runs', runId, 'events'] as const,
     noteHistory: (runId: number) => ['runs', runId, 'note-history'] as const,
     samples: (runId: number, from: number | null, to: number | null, maxPoints: number) => ['runs', runId, 'samples', from, to, maxPoints] as const,
+    signoffs: (runId: number) => ['runs', runId, 'signoffs'] as const,
   },
+  shareLinks: (kind: 'run' | 'battery', targetId: number) => ['share-links', kind, targetId] as const,
+  shared: (token: string) => ['shared', token] as const,
   users: { all: ['users'] as const },
 } as const;

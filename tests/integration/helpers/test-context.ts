@@ -2,7 +2,7 @@ import { rm } from 'node:fs/promises';
 import type { Express } from 'express';
 import type { Server } from 'node:http';
 import type { AppConfig } from '../../../server/config/config.js';
-import type { AppContext } from '../../../server/app-context.js';
+import type { AppContext, Logger } from '../../../server/app-context.js';
 import { startServer, type Attachment, type RunningServer } from '../../../server/server.js';
 import { seedDemo } from '../../../server/db/seed-demo.js';
 import { hashPassword } from '../../../server/auth/password.js';
@@ -28,6 +28,8 @@ export interface TestContextOptions {
   config?: Partial<AppConfig>;
   /** Post-listen attachments to run (default none; pass e.g. [attachLiveHub] or ATTACHMENTS). */
   attachments?: Attachment[];
+  /** Receives the server's log instead of the quiet default (tests that read the log). */
+  log?: Logger;
 }
 
 /** What a test gets: a listening server on its own fresh, migrated database. */
@@ -62,7 +64,7 @@ export async function createTestContext(options: TestContextOptions = {}): Promi
       database,
       port: 0,
       attachments: options.attachments ?? [],
-      log: { info: () => {}, warn: (m) => console.warn(m), error: (m, e) => console.error(m, e) },
+      log: options.log ?? { info: () => {}, warn: (m) => console.warn(m), error: (m, e) => console.error(m, e) },
     });
   } catch (error) {
     await dropTestDatabase(database.database);

@@ -1,0 +1,122 @@
+import { z } from 'zod';
+import { StoredRunEventSchema } from './api-runs.js';
+import { BatterySchema } from './battery.js';
+import { InspectionItemSchema, InspectionRatingSchema } from './inspection.js';
+import { ProtectionResultSchema } from './protection-check.js';
+import { RunSchema } from './run.js';
+import { ProtectionTripSchema, RunSummarySchema, VerdictSchema } from './run-summary.js';
+import { SignoffBlockSchema } from './signoff.js';
+
+/** A link lives 30 days unless its maker chooses otherwise. */
+export const SHARE_DEFAULT_DAYS = 30;
+/** The longest a link may live. */
+export const SHARE_MAX_DAYS = 365;
+
+/** What a link shows: one run's report or one pack's report. */
+export const ShareTargetKindSchema = z.enum(['run', 'battery']);
+export type ShareTargetKind = z.infer<typeof ShareTargetKindSchema>;
+
+/** POST /api/share-links (technician or admin). */
+export const CreateShareLinkRequestSchema = z.strictObject({
+  kind: ShareTargetKindSchema,
+  targetId: z.number().int().positive(),
+  expiresInDays: z.number().int().min(1).max(SHARE_MAX_DAYS).default(SHARE_DEFAULT_DAYS),
+  /** Show the pack's price and the cost per kWh; off unless chosen. */
+  includePrices: z.boolean().default(false),
+  /** Who the link is for, as a reminder in the list (never shown on the shared page). */
+  recipient: z.string().trim().max(200).optional(),
+});
+export type CreateShareLinkRequest = z.input<typeof CreateShareLinkRequestSchema>;
+
+/** A link as its makers see it (never the token, which only the creating answer carries). */
+export const ShareLinkSchema = z.object({
+  id: z.number().int(),
+  kind: ShareTargetKindSchema,
+  targetId: z.number().int(),
+  includePrices: z.boolean(),
+  recipient: z.string().nullable(),
+  createdByName: z.string(),
+  createdAt: z.string(),
+  expiresAt: z.string(),
+  revokedAt: z.string().nullable(),
+  revokedByName: z.string().nullable(),
+  /** `active`, or why it no longer opens. */
+  state: z.enum(['active', 'expired', 'revoked']),
+  openings: z.number().int(),
+});
+export type ShareLink = z.infer<typeof ShareLinkSchema>;
+
+/** The answer to POST /api/share-links: the token, once; the server keeps only its hash. */
+export const CreateShareLinkResponseSchema = z.object({ link: ShareLinkSchema, token: z.string(), path: z.string() });
+export const ShareLinksResponseSchema = z.object({ links: z.array(ShareLinkSchema) });
+
+/** One logged opening of a link. */
+export const ShareOpeningSchema = z.object({ openedAt: z.string(), addressHash: z.string(), userAgent: z.string() });
+export const ShareOpeningsResponseSchema = z.object({ openings: z.array(ShareOpeningSchema) });
+
+/** The lab as a shared page names it, with the units it reports in. */
+export const SharedLabSchema = z.object({
+  name: z.string(),
+  timeZone: z.string(),
+  temperatureUnit: z.enum(['C', 'F']),
+  energyUnit: z.enum(['Wh', 'kWh']),
+});
+
+/** A pack as a shared page shows it: no price unless chosen, no internal notes or people. */
+export const SharedBatterySchema = BatterySchema.omit({ notes: true, sender: true, owner: true, createdAt: true, updatedAt: true });
+export type SharedBattery = z.infer<typeof SharedBatterySchema>;
+
+/** A run as a shared page shows it: no bench, no creator. */
+export const SharedRunSchema = RunSchema.omit({ benchId: true, createdBy: true, readingsCount: true, alarms: true, summary: true });
+
+/** GET /api/shared/:token for a run. */
+export const SharedRunReportSchema = z.object({
+  kind: z.literal('run'),
+  lab: SharedLabSchema,
+  expiresAt: z.string(),
+  includePrices: z.boolean(),
+  run: SharedRunSchema,
+  summary: RunSummarySchema.nullable(),
+  battery: SharedBatterySchema.nullable(),
+  events: z.array(StoredRunEventSchema),
+  signoff: SignoffBlockSchema,
+});
+export type SharedRunReport = z.infer<typeof SharedRunReportSchema>;
+
+/** One run in a shared pack's capacity history and protection record (named, not linked). */
+export const SharedPackRunSchema = z.object({
+  name: z.string(),
+  kind: z.string(),
+  startedAt: z.string().nullable(),
+  capacityAh: z.number().nullable(),
+  capacityWh: z.number().nullable(),
+  percentRatedAh: z.number().nullable(),
+  verdict: VerdictSchema.nullable(),
+  protectionTrips: z.array(ProtectionTripSchema),
+  protections: z.array(ProtectionResultSchema),
+});
+
+/** One checklist line of a shared pack's inspection; photos by id, fetched through the token. */
+export const SharedInspectionEntrySchema = z.object({
+  item: InspectionItemSchema.pick({ id: true, title: true }),
+  rating: InspectionRatingSchema.nullable(),
+  note: z.string().nullable(),
+  photoIds: z.array(z.number().int()),
+});
+
+/** GET /api/shared/:token for a pack. */
+export const SharedPackReportSchema = z.object({
+  kind: z.literal('battery'),
+  lab: SharedLabSchema,
+  expiresAt: z.string(),
+  includePrices: z.boolean(),
+  battery: SharedBatterySchema,
+  runs: z.array(SharedPackRunSchema),
+  inspection: z.array(SharedInspectionEntrySchema),
+  otherPhotoIds: z.array(z.number().int()),
+});
+export type SharedPackReport = z.infer<typeof SharedPackReportSchema>;
+
+/** Either shared report. */
+export const SharedReportSchema = z.discriminatedUnion('kind', [SharedRunReportSchema, SharedPackReportSchema]);
+export type SharedReport = z.infer<typeof SharedReportSchema>;
