@@ -97,7 +97,7 @@ export async function run(): Promise<Record<string, string | number>> {
     for (let b = 1; b <= BENCHES; b++) {
       await benchModel(server.ctx.sequelize).create({ id: b, name: `Alarm bench ${b}`, source: JSON.stringify({ kind: 'none' }), enabled: true, notes: '' });
       await recorder.start(
-        { benchId: b, batteryId: battery.id, name: `Alarm run ${b}`, tags: [], kind: 'capacity-discharge', endVolts: { mode: 'absolute', volts: END_VOLTS }, acceptancePercent: 100, alarms: { onCutoff: true }, stopWhen: 'manual', tempProtections: [], targetAh: null, targetWh: null, afterRecoverySeconds: 0 },
+        { benchId: b, batteryId: battery.id, name: `Alarm run ${b}`, tags: [], kind: 'capacity-discharge', endVolts: { mode: 'absolute', volts: END_VOLTS }, acceptancePercent: 100, alarms: { onCutoff: true }, stopWhen: 'manual', tempProtections: [], protectionChecks: [], targetAh: null, targetWh: null, afterRecoverySeconds: 0 },
         null,
       );
     }
