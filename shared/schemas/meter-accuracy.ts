@@ -21,6 +21,16 @@ export const MeterAccuracySchema = z.object({
 });
 export type MeterAccuracy = z.infer<typeof MeterAccuracySchema>;
 
+/** Reads a stored meter accuracy; a missing or no longer valid one is "not stated". */
+export function readMeterAccuracy(text: string | null | undefined): MeterAccuracy | null {
+  if (!text) return null;
+  try {
+    return MeterAccuracySchema.safeParse(JSON.parse(text)).data ?? null;
+  } catch {
+    return null;
+  }
+}
+
 /** The method the uncertainty figures are computed by, named in the summary and reports. */
 export const UNCERTAINTY_METHOD = 'JCGM 100:2008 (GUM) law of propagation, Type B rectangular, gain and offset each fully correlated, k = 2';
 
