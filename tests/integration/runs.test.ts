@@ -212,6 +212,36 @@ describe('what a run takes from its bench', () => {
     // Stopped by hand before the end voltage: incomplete, not a fail.
     expect(done.summary).toMatchObject({ capacityEndedBy: 'stopped-before-end-voltage', verdict: 'incomplete' });
   });
+
+  it('the bench meter\'s stated accuracy is kept with the run and a margin inside the uncertainty is borderline', async () => {
+    const admin = await signInAs(t, 'admin');
+    const battery = (await admin.post('/api/batteries').send({ label: 'Pack U-1', brand: 'Voltara', chemistry: 'lfp', cellsInSeries: 4, ratedAh: 10 }).expect(201)).body.battery;
+    const source = { kind: 'serial', path: '/tmp/kneepoint-w2-absent-port', format: { kind: 'scpi', pollMs: 60_000 } };
+    const meterAccuracy = { voltsGainPercent: 0.1, voltsOffsetVolts: 0.01, ampsGainPercent: 0.2, ampsOffsetAmps: 0.2 };
+    await admin.post('/api/benches').send({ name: 'Bench bad accuracy', source, meterAccuracy: { ...meterAccuracy, ampsGainPercent: -1 } }).expect(400);
+    const bench = (await admin.post('/api/benches').send({ name: 'Bench stated accuracy', source, meterAccuracy }).expect(201)).body.bench;
+    expect(bench.meterAccuracy).toEqual(meterAccuracy);
+    const run = (await tech.post('/api/runs').send({ benchId: bench.id, batteryId: battery.id, name: 'Accuracy', endVolts: { mode: 'absolute', volts: 12 }, stopWhen: 'manual' }).expect(201)).body.run;
+    // A later change to the bench does not move this run's uncertainty.
+    await admin.patch(`/api/benches/${bench.id}`).send({ meterAccuracy: null }).expect(200);
+    // 10 A at 13 V for 1 h, then 11.5 V: the 12 V crossing interpolates to 3640 s, 10 × 3640 / 3600 = 10.111 Ah (101.1 %).
+    for (let s = 0; s <= 3600; s += 60) feed.emit(bench.id, { t: s, volts: 13, amps: 10, clock: 'device' });
+    for (let s = 3660; s <= 3900; s += 60) feed.emit(bench.id, { t: s, volts: 11.5, amps: 10, clock: 'device' });
+    await tech.post(`/api/runs/${run.id}/stop`).send({}).expect(200);
+    const done = await eventually(async () => {
+      const r = (await viewer.get(`/api/runs/${run.id}`)).body.run;
+      expect(r.state).toBe('finished');
+      expect(r.summary?.capacityEndedBy).toBe('end-voltage');
+      return r;
+    });
+    expect(done.meterAccuracy).toEqual(meterAccuracy);
+    expect(done.summary.capacityAh).toBeCloseTo(10 * 3640 / 3600, 6);
+    // By hand (JCGM 100 4.3.7, 5.1.2): the offset term alone is 0.2 A × ≥ 1.01 h / √3 ≥ 0.117 Ah, so U = 2u ≥ 0.23 Ah,
+    // more than the 0.111 Ah margin over the 10 Ah threshold: borderline, not pass.
+    expect(done.summary.uncertainty.expandedAh).toBeGreaterThan(0.23);
+    expect(done.summary.uncertainty.method).toMatch(/JCGM 100/);
+    expect(done.summary.verdict).toBe('borderline');
+  });
 });
 
 describe('deleting a bench', () => {
