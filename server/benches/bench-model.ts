@@ -1,5 +1,6 @@
 import { DataTypes, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Model, type ModelStatic, type Sequelize } from 'sequelize';
 import { BenchSourceConfigSchema, type Bench, type BenchSourceConfig } from '../../shared/schemas/bench.js';
+import { readMeterAccuracy } from '../../shared/schemas/meter-accuracy.js';
 
 /** A row of `benches`; `source` holds the JSON text of a BenchSourceConfig. */
 export interface BenchRow extends Model<InferAttributes<BenchRow>, InferCreationAttributes<BenchRow>> {
@@ -10,6 +11,8 @@ export interface BenchRow extends Model<InferAttributes<BenchRow>, InferCreation
   notes: string;
   /** Load threshold, A (migration 0600); null = the core's default. */
   loadOnAmps: CreationOptional<number | null>;
+  /** JSON of the meter's stated accuracy (migration 1250); null = not stated. */
+  meterAccuracy: CreationOptional<string | null>;
   createdAt: CreationOptional<Date>;
   updatedAt: CreationOptional<Date>;
 }
@@ -29,6 +32,7 @@ export function benchModel(sequelize: Sequelize): BenchModel {
       enabled: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: true },
       notes: { type: DataTypes.TEXT, allowNull: false },
       loadOnAmps: { type: DataTypes.DOUBLE, allowNull: true, defaultValue: null },
+      meterAccuracy: { type: DataTypes.TEXT, allowNull: true, defaultValue: null },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },
@@ -59,6 +63,7 @@ export function toApiBench(row: BenchRow): Bench {
     enabled: row.enabled,
     notes: row.notes,
     loadOnAmps: row.loadOnAmps ?? null,
+    meterAccuracy: readMeterAccuracy(row.meterAccuracy),
     createdAt: row.createdAt.toISOString(),
     updatedAt: row.updatedAt.toISOString(),
   };

@@ -29,14 +29,15 @@ export function createBenchService(sequelize: Sequelize, manager: () => BenchMan
     find: (id: number) => Bench.findByPk(id),
     /** Stores a new bench and starts its source. */
     async create(input: z.infer<typeof CreateBenchRequestSchema>): Promise<BenchRow> {
-      const row = await Bench.create({ ...input, source: JSON.stringify(input.source) });
+      const row = await Bench.create({ ...input, source: JSON.stringify(input.source), meterAccuracy: input.meterAccuracy ? JSON.stringify(input.meterAccuracy) : null });
       await manager()?.apply(toManaged(row));
       return row;
     },
     /** Changes a bench; the manager restarts its source only if the source or enabled flag changed. */
     async update(row: BenchRow, change: z.infer<typeof UpdateBenchRequestSchema>): Promise<BenchRow> {
-      const { source, ...rest } = change;
-      await row.update({ ...rest, ...(source && { source: JSON.stringify(source) }) });
+      const { source, meterAccuracy, ...rest } = change;
+      const accuracy = meterAccuracy === undefined ? {} : { meterAccuracy: meterAccuracy ? JSON.stringify(meterAccuracy) : null };
+      await row.update({ ...rest, ...accuracy, ...(source && { source: JSON.stringify(source) }) });
       await manager()?.apply(toManaged(row));
       return row;
     },

@@ -11,6 +11,8 @@ export const DEMO_BENCHES: CreateBenchRequest[] = [
     name: 'Bench A: 12 V LFP capacity',
     source: { kind: 'simulator', scenario: 'lfp-12v-100ah-cp-cutoff', speed: 20, seed: 11 },
     notes: 'Simulated Voltara 12.8 V 100 Ah pack on a 600 W constant-power load, to BMS cutoff and reconnect.',
+    // A demo meter's data-sheet accuracy (invented, for the demo only).
+    meterAccuracy: { voltsGainPercent: 0.1, voltsOffsetVolts: 0.01, ampsGainPercent: 0.2, ampsOffsetAmps: 0.02 },
   },
   {
     name: 'Bench B: cold chamber',
@@ -23,7 +25,7 @@ export const DEMO_BENCHES: CreateBenchRequest[] = [
 export async function seedDemoBenches(sequelize: Sequelize): Promise<number> {
   const Bench = benchModel(sequelize);
   if ((await Bench.count()) > 0) return 0;
-  const rows = DEMO_BENCHES.map((input) => CreateBenchRequestSchema.parse(input)).map((b) => ({ ...b, source: JSON.stringify(b.source) }));
+  const rows = DEMO_BENCHES.map((input) => CreateBenchRequestSchema.parse(input)).map((b) => ({ ...b, source: JSON.stringify(b.source), meterAccuracy: b.meterAccuracy ? JSON.stringify(b.meterAccuracy) : null }));
   await Bench.bulkCreate(rows);
   return rows.length;
 }

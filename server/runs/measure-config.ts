@@ -1,5 +1,6 @@
 import type { MeasureConfigInput } from '../../shared/schemas/measure-config.js';
 import { ChemistrySchema } from '../../shared/schemas/chemistry.js';
+import type { MeterAccuracy } from '../../shared/schemas/meter-accuracy.js';
 import type { RunConfig } from './runs-repo.js';
 import type { ProtectionSpec } from '../../shared/schemas/protection-check.js';
 
@@ -24,6 +25,8 @@ export interface SourceFacts {
   cadenceSeconds: number | null;
   /** The bench's load threshold, A; null = the core's default. */
   loadOnAmps?: number | null;
+  /** The bench meter's stated accuracy; null or absent = not stated. */
+  meterAccuracy?: MeterAccuracy | null;
 }
 
 /** Builds the measurement core's config from a run's settings, its battery and its source. */

@@ -156,13 +156,15 @@ export class RunRecorder {
     const battery = await this.deps.getBattery(req.batteryId);
     if (!battery) throw new HttpError(400, `Battery ${req.batteryId} does not exist`, { batteryId: ['no such battery'] });
     const { benchId, batteryId, name, tags, protectionChecks: requested, ...rest } = req;
-    const config = { ...rest, protectionChecks: this.protectionChecksFor(req, requested, battery) };
+    const source = await this.sourceFacts(benchId);
+    // The meter's accuracy is kept with the run: a later change to the bench does not move this run's uncertainty.
+    const config = { ...rest, protectionChecks: this.protectionChecksFor(req, requested, battery), meterAccuracy: source?.meterAccuracy ?? null };
     // Before the run exists, so it records the fresh pack from its first reading.
     await this.deps.prepareBench?.(benchId);
     const run = await this.deps.repo.create({
       name, tags, origin: 'live', benchId, batteryId, state: 'armed', config, createdById: userId, startedAt: new Date(),
     });
-    const session = new RunSession(run, battery, measureConfigFor(config, battery, await this.sourceFacts(benchId)));
+    const session = new RunSession(run, battery, measureConfigFor(config, battery, source));
     this.register(session);
     this.emitEvent(run.id, session.addEvent({ type: 'run-start', t: 0 }));
     this.deps.writer.enqueue(session.takeBatch());

@@ -208,6 +208,7 @@ export class RunSession {
         price: this.battery?.price ?? null,
         massKg: this.battery?.massKg ?? null,
         leadAcidTempCelsius: this.run.electrolyteTempCelsius ?? null,
+        meterAccuracy: this.run.meterAccuracy ?? null,
       });
       this.lastGoodSummary = withRunDetails(summary, snapshot, this.events, this.run.kind);
     } catch {

@@ -8,6 +8,7 @@ import { ProtectionExpectationSchema } from '../../shared/schemas/protection-che
 import { EndVoltsSchema, RunAlarmsSchema, RunKindSchema, StopWhenSchema, LIVE_RUN_STATES, type Run, type RunState } from '../../shared/schemas/run.js';
 import { BenchSourceConfigSchema, sourceCadenceSeconds } from '../../shared/schemas/bench.js';
 import { utcDateTime } from '../db/utc-datetime.js';
+import { MeterAccuracySchema, readMeterAccuracy } from '../../shared/schemas/meter-accuracy.js';
 import type { SourceFacts } from './measure-config.js';
 
 /** Settings of a run kept together in the `config` column (JSON). */
@@ -27,6 +28,8 @@ export const RunConfigSchema = z.object({
   maxGapSeconds: z.number().nullable().optional(),
   /** Lead-acid: initial electrolyte temperature, °C, for the correction to 25 °C (absent on older runs). */
   electrolyteTempCelsius: z.number().nullable().optional(),
+  /** The bench meter's stated accuracy when the run started (absent on older runs and imports: no uncertainty). */
+  meterAccuracy: MeterAccuracySchema.nullable().optional(),
 });
 export type RunConfig = z.infer<typeof RunConfigSchema>;
 
@@ -198,7 +201,7 @@ export class RunsRepo {
 
   /** What a run needs of a bench (its source's poll period, its load threshold), or null when there is no such bench. */
   async benchSourceFacts(id: number): Promise<SourceFacts | null> {
-    const rows = await this.sequelize.query<{ source: string; loadOnAmps: number | null }>('SELECT source, loadOnAmps FROM benches WHERE id = ?', { replacements: [id], type: QueryTypes.SELECT });
+    const rows = await this.sequelize.query<{ source: string; loadOnAmps: number | null; meterAccuracy: string | null }>('SELECT source, loadOnAmps, meterAccuracy FROM benches WHERE id = ?', { replacements: [id], type: QueryTypes.SELECT });
     if (rows.length === 0) return null;
     let raw: unknown = null;
     try {
@@ -208,7 +211,7 @@ export class RunsRepo {
     }
     const source = BenchSourceConfigSchema.safeParse(raw);
     const loadOnAmps = rows[0]!.loadOnAmps === null ? null : Number(rows[0]!.loadOnAmps);
-    return { cadenceSeconds: source.success ? sourceCadenceSeconds(source.data) : null, loadOnAmps };
+    return { cadenceSeconds: source.success ? sourceCadenceSeconds(source.data) : null, loadOnAmps, meterAccuracy: readMeterAccuracy(rows[0]!.meterAccuracy) };
   }
 
   /** Every event of a run in time order. */

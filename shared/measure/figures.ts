@@ -52,3 +52,25 @@ export function whPerKg(deliveredWh: number | null | undefined, massKg: number |
   if (deliveredWh == null || massKg == null || !(massKg > 0)) return null;
   return deliveredWh / massKg;
 }
+
+/** A percentage of rated and its expanded uncertainty, in percentage points. */
+export interface PercentWithUncertainty {
+  percent: number | null;
+  expandedPercent: number | null;
+}
+
+/**
+ * The verdict read with the capacity's expanded uncertainty U: fail when any known
+ * percentage lies below the acceptance by more than U; borderline when any margin
+ * (percentage − acceptance) lies within ±U; otherwise as verdictFor. Without a U it is verdictFor.
+ */
+export function verdictWithUncertainty(items: readonly PercentWithUncertainty[], acceptancePercent = DEFAULT_ACCEPTANCE_PERCENT): Verdict {
+  const plain = verdictFor(items.map((i) => i.percent), acceptancePercent);
+  if (plain === 'unrated') return plain;
+  const judged = items.filter((i): i is { percent: number; expandedPercent: number } => i.percent !== null && i.expandedPercent !== null);
+  if (judged.length === 0) return plain;
+  const margins = judged.map((i) => ({ margin: i.percent - acceptancePercent, u: i.expandedPercent }));
+  if (margins.some((m) => m.margin < -m.u)) return 'fail';
+  if (margins.some((m) => Math.abs(m.margin) <= m.u)) return 'borderline';
+  return plain;
+}

@@ -23,6 +23,22 @@ describe('summarizeRun on the NASA B0005 discharge', () => {
     expect(cutoff.dischargeAh).toBeLessThan(1.8564874208181574);
   });
 
+  it('with a meter accuracy, a margin inside the expanded uncertainty is borderline', () => {
+    // Amps ±(0.2 % + 0.02 A), volts ±(0.1 % + 0.01 V) (a data sheet's form; values ours).
+    // By hand (JCGM 100 4.3.7, 5.1.2, k = 2): Ah 1.8498, load ≈ 3,340 s = 0.928 h (2 A to 2.7 V):
+    // u_gain = 0.002 × 1.8498 / √3 = 0.00214 Ah, u_off = 0.02 × 0.928 / √3 = 0.01071 Ah,
+    // u = √(0.00214² + 0.01071²) = 0.01092 Ah, U = 0.0218 Ah = 1.09 % of the 2 Ah rating.
+    const meterAccuracy = { voltsGainPercent: 0.1, voltsOffsetVolts: 0.01, ampsGainPercent: 0.2, ampsOffsetAmps: 0.02 };
+    const at = (acceptancePercent: number) => summarizeRun({ snapshot: p.snapshot(), events, acceptancePercent, meterAccuracy });
+    expect(at(92).uncertainty!.expandedAh).toBeCloseTo(0.0218, 3);
+    expect(at(92).verdict).toBe('borderline'); // 92.49 − 92 = 0.49 % < 1.09 %
+    expect(at(93).verdict).toBe('borderline'); // 92.49 − 93 = −0.51 %, inside −1.09 %
+    expect(at(90).verdict).toBe('pass'); // 2.49 % > 1.09 %
+    expect(at(95).verdict).toBe('fail'); // −2.51 % beyond −1.09 %
+    expect(summarizeRun({ snapshot: p.snapshot(), events, acceptancePercent: 92 }).verdict).toBe('pass');
+    expect(summarizeRun({ snapshot: p.snapshot(), events }).uncertainty).toBeNull();
+  });
+
   it('reports % of rated and fails the 100 % acceptance, passes a 90 % one', () => {
     const s = summarizeRun({ snapshot: p.snapshot(), events, readings });
     RunSummarySchema.parse(s);

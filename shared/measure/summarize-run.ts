@@ -4,7 +4,9 @@ import { meansUnderLoad } from './run-stats.js';
 import { sumValue } from './compensated-sum.js';
 import { integratorTotals, rejectedCounts } from './integrator-state.js';
 import type { RunPipelineSnapshot } from './run-pipeline.js';
-import { DEFAULT_ACCEPTANCE_PERCENT, costPerKWh, cRate, percentOfRated, verdictFor, whPerKg } from './figures.js';
+import { DEFAULT_ACCEPTANCE_PERCENT, costPerKWh, cRate, percentOfRated, verdictWithUncertainty, whPerKg } from './figures.js';
+import { capacityUncertainty } from './uncertainty.js';
+import type { MeterAccuracy } from '../schemas/meter-accuracy.js';
 import { nominalVolts } from './nominal.js';
 import { internalResistanceFromSteps, medianStepOhms, type VoltAmpSample } from './internal-resistance.js';
 import { correctedAhAt25C, inCapacityFactorRange } from './lead-acid-correction.js';
@@ -42,6 +44,8 @@ export interface SummarizeRunInput {
   ended?: boolean;
   /** A protection trip ends the test even when the pack reconnects (default false: the test runs on). */
   protectionEndsTest?: boolean;
+  /** The bench meter's stated accuracy: gives the capacity's uncertainty and a `borderline` verdict inside it. */
+  meterAccuracy?: MeterAccuracy | null;
 }
 
 /**
@@ -70,13 +74,18 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
   const percentRatedAh = known(percentOfRated(deliveredAh, cfg.ratedAh));
   const percentRatedWh = known(percentOfRated(deliveredWh, cfg.ratedWh));
   const basis = input.verdictBasis ?? 'ah';
-  const percents = basis === 'both' ? [percentRatedAh, percentRatedWh] : basis === 'wh' ? [percentRatedWh] : [percentRatedAh ?? percentRatedWh];
+  const uncertainty = input.meterAccuracy && deliveredAh !== null
+    ? capacityUncertainty(input.meterAccuracy, { ah: deliveredAh, wh: deliveredWh, loadSeconds: snapshot.stats.loadSeconds, voltSeconds: snapshot.stats.loadVoltSeconds })
+    : null;
+  const ahItem = { percent: percentRatedAh, expandedPercent: known(percentOfRated(uncertainty?.expandedAh, cfg.ratedAh)) };
+  const whItem = { percent: percentRatedWh, expandedPercent: known(percentOfRated(uncertainty?.expandedWh, cfg.ratedWh)) };
+  const items = basis === 'both' ? [ahItem, whItem] : basis === 'wh' ? [whItem] : [percentRatedAh !== null ? ahItem : whItem];
   const acceptancePercent = input.acceptancePercent ?? DEFAULT_ACCEPTANCE_PERCENT;
   const rate = known(cRate(meanAmps, cfg.ratedAh));
   const testMinTempCelsius = snapshot.stats.loadMinTempCelsius ?? null;
   const testMaxTempCelsius = snapshot.stats.loadMaxTempCelsius ?? null;
   const roundTrip = roundTripResult(snapshot.stats.roundTrip);
-  const verdict = COMPLETE_ENDS.has(capacity.endedBy) ? verdictFor(percents, acceptancePercent) : 'incomplete';
+  const verdict = COMPLETE_ENDS.has(capacity.endedBy) ? verdictWithUncertainty(items, acceptancePercent) : 'incomplete';
   const fromReadings = input.readings ? internalResistanceFromSteps(input.readings, { collapseVolts: settings.collapseVolts }) : null;
   const irOhms = known(fromReadings ? fromReadings.medianOhms : medianStepOhms(snapshot.stats.loadSteps));
   const loadStepCount = fromReadings ? fromReadings.steps.length : snapshot.stats.loadSteps.steps;
@@ -115,6 +124,7 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
     percentRatedWh,
     acceptancePercent,
     verdict,
+    uncertainty,
     cutoffCause: cutoff?.cause ?? null,
     cutoffVolts: cutoff?.volts ?? null,
     recoverySeconds: recovery?.recoverySeconds ?? null,

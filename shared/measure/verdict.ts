@@ -6,3 +6,4 @@ export * from './internal-resistance.js';
 export * from './incremental-capacity.js';
 export * from './lead-acid-correction.js';
 export * from './summarize-run.js';
+export * from './uncertainty.js';

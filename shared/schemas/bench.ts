@@ -1,5 +1,6 @@
 import { z } from 'zod';
 import { labelText, noteText } from './text.js';
+import { MeterAccuracySchema } from './meter-accuracy.js';
 
 /**
  * Benches and their sources: the one source of truth for the server's bench manager,
@@ -215,6 +216,8 @@ export const BenchSchema = z.object({
   enabled: z.boolean(),
   notes: z.string(),
   loadOnAmps: LoadOnAmpsSchema.default(null),
+  /** The meter's stated accuracy from its data sheet (null: not stated, no uncertainty is given). */
+  meterAccuracy: MeterAccuracySchema.nullable().default(null),
   createdAt: z.string(),
   updatedAt: z.string(),
 });
@@ -228,6 +231,7 @@ export const CreateBenchRequestSchema = z.object({
   enabled: z.boolean().default(true),
   notes: noteText(NOTES_MAX_CHARS).default(''),
   loadOnAmps: LoadOnAmpsSchema.default(null),
+  meterAccuracy: MeterAccuracySchema.nullable().default(null),
 });
 
 export const UpdateBenchRequestSchema = z
@@ -237,6 +241,7 @@ export const UpdateBenchRequestSchema = z
     enabled: z.boolean(),
     notes: noteText(NOTES_MAX_CHARS),
     loadOnAmps: LoadOnAmpsSchema,
+    meterAccuracy: MeterAccuracySchema.nullable(),
   })
   .partial();
 

@@ -3,6 +3,7 @@ import { RunTotalsSchema } from './reading.js';
 import { ChemistrySchema } from './chemistry.js';
 import { CutoffCauseSchema, ProtectionSignalSchema } from './run-event.js';
 import { ProtectionResultSchema } from './protection-check.js';
+import { CapacityUncertaintySchema } from './meter-accuracy.js';
 
 const finite = z.number().finite();
 const nonNeg = z.number().finite().nonnegative();
@@ -13,9 +14,11 @@ export const GapLimitBasisSchema = z.enum(['explicit', 'cadence', 'default']);
 /**
  * Pass/fail against the acceptance %; `unrated` when no rating was given; `incomplete` when
  * the run did not measure a capacity (see `capacityEndedBy`); `not-applicable` on a run that
- * is not a capacity test (a protection check is judged by its per-protection table).
+ * is not a capacity test (a protection check is judged by its per-protection table);
+ * `borderline` when the margin between the capacity and the acceptance threshold lies
+ * inside the capacity's expanded uncertainty (k = 2) from the bench meter's accuracy.
  */
-export const VerdictSchema = z.enum(['pass', 'fail', 'unrated', 'incomplete', 'not-applicable']);
+export const VerdictSchema = z.enum(['pass', 'fail', 'borderline', 'unrated', 'incomplete', 'not-applicable']);
 
 /**
  * What ended the measured capacity: the end voltage, the pack's protection (a trip that did
@@ -87,6 +90,8 @@ export const RunSummarySchema = z
     percentRatedWh: finite.nullable(),
     acceptancePercent: finite,
     verdict: VerdictSchema,
+    /** Uncertainty of capacityAh/Wh from the bench meter's stated accuracy (null: no accuracy stated or no capacity). */
+    uncertainty: CapacityUncertaintySchema.nullable().default(null),
     /** Cause and voltage of the cutoff that ended the capacity (null when none did). */
     cutoffCause: CutoffCauseSchema.nullable(),
     cutoffVolts: finite.nullable(),

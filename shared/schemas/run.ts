@@ -2,6 +2,7 @@ import { z } from 'zod';
 import { RunSummarySchema } from './run-summary.js';
 import { TempProtectionSchema } from './measure-config.js';
 import { ProtectionExpectationSchema } from './protection-check.js';
+import { MeterAccuracySchema } from './meter-accuracy.js';
 
 /** What a run is for; decides which detectors matter and how the verdict is read. */
 export const RunKindSchema = z.enum(['capacity-discharge', 'charge', 'protection-check', 'custom']);
@@ -80,6 +81,8 @@ export const RunSchema = z.object({
   maxGapSeconds: z.number().finite().positive().nullable().optional(),
   /** Lead-acid: initial electrolyte temperature, °C, for the correction to 25 °C (absent: none given). */
   electrolyteTempCelsius: z.number().finite().nullable().optional(),
+  /** The bench meter's stated accuracy when the run started, kept with the run (absent: none stated). */
+  meterAccuracy: MeterAccuracySchema.nullable().optional(),
   readingsCount: z.number().int().nonnegative(),
   summary: RunSummarySchema.nullable(),
   startedAt: z.string().nullable(),

@@ -1,3 +1,4 @@
+import { formatCharge, formatEnergy, formatPercent, formatTemperature } from '../../shared/units/format.js';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { liveAttachment } from '../../server/live/attach-live.js';
 import { ListRunsResponseSchema, RunEventsResponseSchema, RunResponseSchema, SamplesResponseSchema } from '../../shared/schemas/api-runs.js';
@@ -211,6 +212,86 @@ describe('what a run takes from its bench', () => {
     expect(done.summary.meanAmps).toBeCloseTo(0.15, 12); // under load: above the bench's threshold
     // Stopped by hand before the end voltage: incomplete, not a fail.
     expect(done.summary).toMatchObject({ capacityEndedBy: 'stopped-before-end-voltage', verdict: 'incomplete' });
+  });
+
+  it('the bench meter\'s stated accuracy is kept with the run and a margin inside the uncertainty is borderline', async () => {
+    const admin = await signInAs(t, 'admin');
+    const battery = (await admin.post('/api/batteries').send({ label: 'Pack U-1', brand: 'Voltara', chemistry: 'lfp', cellsInSeries: 4, ratedAh: 10 }).expect(201)).body.battery;
+    const source = { kind: 'serial', path: '/tmp/kneepoint-w2-absent-port', format: { kind: 'scpi', pollMs: 60_000 } };
+    const meterAccuracy = { voltsGainPercent: 0.1, voltsOffsetVolts: 0.01, ampsGainPercent: 0.2, ampsOffsetAmps: 0.2 };
+    await admin.post('/api/benches').send({ name: 'Bench bad accuracy', source, meterAccuracy: { ...meterAccuracy, ampsGainPercent: -1 } }).expect(400);
+    const bench = (await admin.post('/api/benches').send({ name: 'Bench stated accuracy', source, meterAccuracy }).expect(201)).body.bench;
+    expect(bench.meterAccuracy).toEqual(meterAccuracy);
+    const run = (await tech.post('/api/runs').send({ benchId: bench.id, batteryId: battery.id, name: 'Accuracy', endVolts: { mode: 'absolute', volts: 12 }, stopWhen: 'manual' }).expect(201)).body.run;
+    // A later change to the bench does not move this run's uncertainty.
+    await admin.patch(`/api/benches/${bench.id}`).send({ meterAccuracy: null }).expect(200);
+    // 10 A at 13 V for 1 h, then 11.5 V: the 12 V crossing interpolates to 3640 s, 10 × 3640 / 3600 = 10.111 Ah (101.1 %).
+    for (let s = 0; s <= 3600; s += 60) feed.emit(bench.id, { t: s, volts: 13, amps: 10, clock: 'device' });
+    for (let s = 3660; s <= 3900; s += 60) feed.emit(bench.id, { t: s, volts: 11.5, amps: 10, clock: 'device' });
+    await tech.post(`/api/runs/${run.id}/stop`).send({}).expect(200);
+    const done = await eventually(async () => {
+      const r = (await viewer.get(`/api/runs/${run.id}`)).body.run;
+      expect(r.state).toBe('finished');
+      expect(r.summary?.capacityEndedBy).toBe('end-voltage');
+      return r;
+    });
+    expect(done.meterAccuracy).toEqual(meterAccuracy);
+    expect(done.summary.capacityAh).toBeCloseTo(10 * 3640 / 3600, 6);
+    // By hand (JCGM 100 4.3.7, 5.1.2): the offset term alone is 0.2 A × ≥ 1.01 h / √3 ≥ 0.117 Ah, so U = 2u ≥ 0.23 Ah,
+    // more than the 0.111 Ah margin over the 10 Ah threshold: borderline, not pass.
+    expect(done.summary.uncertainty.expandedAh).toBeGreaterThan(0.23);
+    expect(done.summary.uncertainty.method).toMatch(/JCGM 100/);
+    expect(done.summary.verdict).toBe('borderline');
+  });
+
+  it('the run report PDF holds the summary figures as the API gives them, in the lab\'s units (a °F lab sees °F)', async () => {
+    const admin = await signInAs(t, 'admin');
+    const battery = (await admin.post('/api/batteries').send({ label: 'Pack R-1', brand: 'Voltara', chemistry: 'lfp', cellsInSeries: 4, ratedAh: 10 }).expect(201)).body.battery;
+    const source = { kind: 'serial', path: '/tmp/kneepoint-w2-report-port', format: { kind: 'scpi', pollMs: 60_000 } };
+    const bench = (await admin.post('/api/benches').send({ name: 'Bench report', source }).expect(201)).body.bench;
+    const run = (await tech.post('/api/runs').send({ benchId: bench.id, batteryId: battery.id, name: 'Report run', endVolts: { mode: 'absolute', volts: 12 }, stopWhen: 'manual' }).expect(201)).body.run;
+    for (let s = 0; s <= 3600; s += 60) feed.emit(bench.id, { t: s, volts: 13, amps: 10, temps: { cell: 25 }, clock: 'device' });
+    for (let s = 3660; s <= 3900; s += 60) feed.emit(bench.id, { t: s, volts: 11.5, amps: 10, temps: { cell: 30 }, clock: 'device' });
+    await tech.post(`/api/runs/${run.id}/stop`).send({}).expect(200);
+    const done = await eventually(async () => {
+      const r = (await viewer.get(`/api/runs/${run.id}`)).body.run;
+      expect(r.state).toBe('finished');
+      return r;
+    });
+    const pdfText = async () => {
+      const res = await viewer.get(`/api/runs/${run.id}/report.pdf`).buffer(true).parse((r, cb) => {
+        const parts: Buffer[] = [];
+        r.on('data', (c: Buffer) => parts.push(c));
+        r.on('end', () => cb(null, Buffer.concat(parts)));
+      }).expect(200);
+      expect(res.headers['content-type']).toBe('application/pdf');
+      const { getDocument } = await import('pdfjs-dist/legacy/build/pdf.mjs');
+      const pdf = await getDocument({ data: new Uint8Array(res.body as Buffer), verbosity: 0 }).promise;
+      const texts: string[] = [];
+      for (let i = 1; i <= pdf.numPages; i++) {
+        const content = await (await pdf.getPage(i)).getTextContent();
+        texts.push(content.items.map((it) => ('str' in it ? it.str : '')).join(''));
+      }
+      return texts.join('\n');
+    };
+    const celsius = await pdfText();
+    // The figures exactly as the client formats the API's numbers (shared/units/format.ts).
+    expect(celsius).toContain(`Capacity: ${formatCharge(done.summary.capacityAh)}`);
+    expect(celsius).toContain(`Capacity energy: ${formatEnergy(done.summary.capacityWh, 'Wh')}`);
+    expect(celsius).toContain(`Of rated Ah: ${formatPercent(done.summary.percentRatedAh)}`);
+    expect(celsius).toContain(formatTemperature(done.summary.maxTempCelsius, 'C'));
+    expect(celsius).toMatch(/page 1 of \d/);
+    expect(celsius).toContain('Not signed off');
+    await admin.patch('/api/settings').send({ temperatureUnit: 'F', energyUnit: 'kWh' }).expect(200);
+    try {
+      const fahrenheit = await pdfText();
+      expect(fahrenheit).toContain(formatTemperature(done.summary.maxTempCelsius, 'F')); // 30 °C = 86.0 °F
+      expect(fahrenheit).toContain('86.0 °F');
+      expect(fahrenheit).not.toContain('°C to');
+      expect(fahrenheit).toContain(`Capacity energy: ${formatEnergy(done.summary.capacityWh, 'kWh')}`);
+    } finally {
+      await admin.patch('/api/settings').send({ temperatureUnit: 'C', energyUnit: 'Wh' }).expect(200);
+    }
   });
 });
 

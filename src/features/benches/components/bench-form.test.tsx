@@ -46,6 +46,7 @@ describe('bench form (admin)', () => {
       notes: '',
       enabled: true,
       loadOnAmps: null,
+      meterAccuracy: null,
       source: {
         kind: 'simulator', scenario: 'lfp-12v-weak-cell', speed: 10, seed: 1, staleAfterS: 10,
         limits: { maxAbsVolts: 2000, maxAbsAmps: 5000, minTempCelsius: -100, maxTempCelsius: 300 },
@@ -93,6 +94,25 @@ describe('bench form (admin)', () => {
     const posts = calls.filter((c) => c.url === '/api/benches' && c.init?.method === 'POST');
     expect(posts).toHaveLength(1);
     expect(JSON.parse(String(posts[0]!.init!.body)).loadOnAmps).toBe(0.1);
+  });
+
+  it('sends the meter accuracy typed from a data sheet, and refuses a partial one', async () => {
+    const { calls } = stubApi(demoUser('admin'), (url, init) =>
+      url === '/api/benches' && init?.method === 'POST' ? { status: 201, body: { bench: savedBench } } : undefined,
+    );
+    const { router } = renderAt('/benches/new');
+    await userEvent.type(await screen.findByLabelText('Name'), 'Bench C');
+    await userEvent.type(screen.getByLabelText('Volts gain (% of reading)'), '0.1');
+    await userEvent.click(screen.getByRole('button', { name: 'Add bench' }));
+    expect((await screen.findByRole('alert')).textContent).toMatch(/Meter accuracy/);
+    await userEvent.type(screen.getByLabelText('Volts offset (V)'), '0.01');
+    await userEvent.type(screen.getByLabelText('Amps gain (% of reading)'), '0.2');
+    await userEvent.type(screen.getByLabelText('Amps offset (A)'), '0.02');
+    await userEvent.click(screen.getByRole('button', { name: 'Add bench' }));
+    await waitFor(() => expect(router.state.location.pathname).toBe('/benches/5'));
+    const posts = calls.filter((c) => c.url === '/api/benches' && c.init?.method === 'POST');
+    expect(posts).toHaveLength(1);
+    expect(JSON.parse(String(posts[0]!.init!.body)).meterAccuracy).toEqual({ voltsGainPercent: 0.1, voltsOffsetVolts: 0.01, ampsGainPercent: 0.2, ampsOffsetAmps: 0.02 });
   });
 
   it('says so when the admin reopens a bench\'s source', async () => {

@@ -6,6 +6,7 @@ import { ApiError } from '../../../lib/api-client';
 import { useSaveBench, useSerialPorts } from '../api/manage-bench';
 import { FrameLimitsFields, initialLimitFields, limitsFromFields, type LimitFields } from './frame-limits-fields';
 import { FORMAT_TEMPLATES, SCENARIO_SUGGESTIONS } from './source-templates';
+import { MeterAccuracyFields, accuracyFromFields, initialAccuracyFields } from './meter-accuracy-fields';
 
 type SourceKind = 'simulator' | 'serial' | 'none';
 const BAUD_RATES = ['9600', '19200', '38400', '57600', '115200', '230400'] as const;
@@ -56,6 +57,7 @@ export function BenchForm({ bench, onSaved }: { bench?: BenchWithStatus; onSaved
   });
   const [format, setFormat] = useState(() => initialFormat(bench));
   const [limits, setLimits] = useState(() => initialLimitFields(src));
+  const [accuracy, setAccuracy] = useState(() => initialAccuracyFields(bench?.meterAccuracy));
   const [enabled, setEnabled] = useState(bench?.enabled ?? true);
   const [localError, setLocalError] = useState<string | null>(null);
   const ports = useSerialPorts(kind === 'serial');
@@ -68,9 +70,11 @@ export function BenchForm({ bench, onSaved }: { bench?: BenchWithStatus; onSaved
     if (built.error) return setLocalError(built.error);
     const threshold = LoadOnAmpsSchema.safeParse(fields.loadOnAmps.trim() ? Number(fields.loadOnAmps) : null);
     if (!threshold.success) return setLocalError(`Load threshold: a current above 0 and at most ${MAX_LOAD_ON_AMPS} A, or empty for the default.`);
+    const meter = accuracyFromFields(accuracy);
+    if (meter.error) return setLocalError(meter.error);
     setLocalError(null);
     save.mutate(
-      { name: fields.name.trim(), notes: fields.notes, enabled, source: built.source as never, loadOnAmps: threshold.data },
+      { name: fields.name.trim(), notes: fields.notes, enabled, source: built.source as never, loadOnAmps: threshold.data, meterAccuracy: meter.accuracy },
       { onSuccess: (saved) => onSaved(saved.id) },
     );
   };
@@ -160,6 +164,7 @@ export function BenchForm({ bench, onSaved }: { bench?: BenchWithStatus; onSaved
         hint="Discharge current at or above this counts as the load being on: the test starts, and means are taken under load. Set it below your smallest test current and above the meter's zero noise."
       />
       {kind !== 'none' && <FrameLimitsFields value={limits} onChange={setLimits} />}
+      <MeterAccuracyFields value={accuracy} onChange={setAccuracy} />
       <TextField label="Notes" value={fields.notes} onChange={set('notes')} />
       <label className="flex min-h-11 items-center gap-3 text-ink">
         <input type="checkbox" checked={enabled} onChange={(e) => setEnabled(e.target.checked)} className="h-5 w-5" />

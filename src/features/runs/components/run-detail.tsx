@@ -116,6 +116,9 @@ export function RunDetail({ runId, canEdit = false, viewer = null }: { runId: nu
             <a href={`/api/runs/${runId}/export.json`} className="inline-flex min-h-11 items-center rounded-lg border border-line px-4 text-sm font-semibold" download>
               Export JSON
             </a>
+            <a href={`/api/runs/${runId}/report.pdf`} className="inline-flex min-h-11 items-center rounded-lg border border-line px-4 text-sm font-semibold" download>
+              Report PDF
+            </a>
           </div>
         }
       />

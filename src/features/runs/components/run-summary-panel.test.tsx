@@ -25,6 +25,19 @@ function runOn(crossAh: number, endAh: number, tempC = 23): Frame[] {
 const tile = (label: string) => screen.getByText(label).closest('div')!;
 const show = (s: RunSummary) => render(<RunSummaryPanel summary={s} temperatureUnit="C" energyUnit="Wh" currency="EUR" />);
 
+describe('run summary panel: uncertainty', () => {
+  it('shows the expanded uncertainty and a borderline verdict when the margin lies inside it', () => {
+    // 10 A crossing 20 V at 50.1 Ah: 100.2 % of 50 Ah. Meter ±(0.2 % + 0.2 A): offset term alone
+    // 0.2 A × 5.01 h / √3 = 0.578 Ah (JCGM 100 4.3.7), so U > 1.1 Ah > the 0.1 Ah margin.
+    const p = createRunPipeline(PACK);
+    const { events } = p.pushMany(runOn(50.1, 50.2));
+    const meterAccuracy = { voltsGainPercent: 0.1, voltsOffsetVolts: 0.01, ampsGainPercent: 0.2, ampsOffsetAmps: 0.2 };
+    show(summarizeRun({ snapshot: p.snapshot(), events, meterAccuracy }));
+    expect(screen.getByText('Borderline')).toBeTruthy();
+    expect(screen.getByLabelText('Uncertainty').textContent).toMatch(/JCGM 100/);
+  });
+});
+
 describe('run summary panel: every number says what it is', () => {
   it('capacity to the end voltage and whole-run totals are separate tiles; the verdict line names its basis', () => {
     // The figures: 36.04 Ah at the end voltage (72.0 % of 50 Ah shown, rounded down), 41.94 Ah out in the whole run.

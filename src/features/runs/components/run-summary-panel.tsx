@@ -15,7 +15,8 @@ function Figure({ label, value, note }: { label: string; value: string; note?: s
 }
 
 /** The verdict with what it was judged on: the capacity and its basis, or why there is none; the test rate and temperature beside it. */
-function VerdictLine({ summary: s, temperatureUnit }: { summary: RunSummary; temperatureUnit: 'C' | 'F' }) {
+function VerdictLine({ summary: s, temperatureUnit, energyUnit }: { summary: RunSummary; temperatureUnit: 'C' | 'F'; energyUnit: 'Wh' | 'kWh' }) {
+  const u = s.uncertainty;
   const basis = s.capacityEndedBy ? CAPACITY_LABEL[s.capacityEndedBy] : undefined;
   const reason = s.capacityEndedBy ? INCOMPLETE_REASON[s.capacityEndedBy] : undefined;
   return (
@@ -32,6 +33,18 @@ function VerdictLine({ summary: s, temperatureUnit }: { summary: RunSummary; tem
           </p>
         )}
       </div>
+      {u && (
+        <p className="text-sm text-ink-muted" aria-label="Uncertainty">
+          Capacity ± <span className="num text-ink">{formatCharge(u.expandedAh)}</span>
+          {u.expandedWh !== null && (
+            <>
+              {' '}/ ± <span className="num text-ink">{formatEnergy(u.expandedWh, energyUnit)}</span>
+            </>
+          )}{' '}
+          (expanded, k = {u.coverageFactor}, ≈ 95 %) from the meter&apos;s stated accuracy, by JCGM 100 (GUM).
+          {s.verdict === 'borderline' && ' The margin to the acceptance lies inside it: borderline, neither a clear pass nor a clear fail.'}
+        </p>
+      )}
       <p className="text-sm text-ink-muted" aria-label="Test conditions">
         Tested at <span className={s.rateOutsideStandard ? 'font-semibold text-caution' : 'text-ink'}>{rateText(s)}</span> ·{' '}
         <span className={s.tempOutsideStandard ? 'font-semibold text-caution' : 'text-ink'}>{temperatureText(s, temperatureUnit)}</span>
@@ -48,7 +61,7 @@ export function RunSummaryPanel({ summary, temperatureUnit, energyUnit, currency
     summary.roundTripStatus === 'incomplete' ? 'incomplete' : summary.roundTripEfficiency !== null ? formatPercent(summary.roundTripEfficiency * 100) : null;
   return (
     <div className="flex flex-col gap-4">
-      <VerdictLine summary={summary} temperatureUnit={temperatureUnit} />
+      <VerdictLine summary={summary} temperatureUnit={temperatureUnit} energyUnit={energyUnit} />
       <dl className="grid grid-cols-2 gap-3 md:grid-cols-4">
         <Figure
           label={capacityLabel}

@@ -4,12 +4,13 @@ import { TONE_COLORS } from '../../../lib/palette';
 const VERDICT = {
   pass: { label: 'Pass', color: TONE_COLORS.good },
   fail: { label: 'Fail', color: TONE_COLORS.fault },
+  borderline: { label: 'Borderline', color: TONE_COLORS.caution },
   unrated: { label: 'Unrated', color: TONE_COLORS.over },
   incomplete: { label: 'Incomplete', color: TONE_COLORS.caution },
   'not-applicable': { label: 'No capacity verdict', color: TONE_COLORS.over },
 } as const;
 
-/** Pass / fail / unrated / incomplete in the palette's tones (good, fault, over, caution), text in the theme's on-tone colour. */
+/** Pass / fail / borderline / unrated / incomplete in the palette's tones (good, fault, caution, over, caution), text in the theme's on-tone colour. */
 export function VerdictBadge({ verdict, large }: { verdict: Verdict; large?: boolean }) {
   const v = VERDICT[verdict];
   return (

@@ -1,0 +1,148 @@
+import PDFDocument from 'pdfkit';
+import type { Run } from '../../shared/schemas/run.js';
+import type { SamplesResponse, StoredRunEvent } from '../../shared/schemas/api-runs.js';
+import type { LabSettings } from '../../shared/schemas/lab-settings.js';
+import { formatCharge, formatDuration, formatElapsedClock, formatEnergy, formatPercent, formatTemperature, formatVolts, formatAmps } from '../../shared/units/format.js';
+
+/** Page layout, PDF points (72 per inch); A4. */
+const MARGIN_PT = 50;
+const CHART_HEIGHT_PT = 180;
+const FOOTER_OFFSET_PT = 30;
+const BODY_FONT_PT = 10;
+const TITLE_FONT_PT = 16;
+const HEADING_FONT_PT = 12;
+const CHART_LINE_PT = 0.6;
+
+/** The usual cautions printed on every run report (common practice; defer to local codes and the makers). */
+export const SAFETY_NOTE =
+  'Safety: lithium packs can burn and lead-acid batteries give off hydrogen. Never leave a load or charger unattended, never charge lithium below 0 °C without a heater, ' +
+  'guard against short circuits, and follow local codes, the makers\u2019 instructions and licensed practice.';
+
+/** What a run report shows. */
+export interface RunReportInput {
+  run: Run;
+  samples: SamplesResponse;
+  events: readonly StoredRunEvent[];
+  settings: LabSettings;
+  /** When the report is made (printed in the lab's time zone). */
+  madeAt: Date;
+}
+
+/** The summary figures as the report prints them, in the lab's units (the same formatting as the API's consumers). */
+export function runReportFigures(run: Run, settings: LabSettings): Array<[string, string]> {
+  const s = run.summary;
+  if (!s) return [];
+  const t = settings.temperatureUnit;
+  return [
+    ['Capacity', formatCharge(s.capacityAh)],
+    ['Capacity energy', formatEnergy(s.capacityWh, settings.energyUnit)],
+    ['Of rated Ah', formatPercent(s.percentRatedAh)],
+    ['Of rated Wh', formatPercent(s.percentRatedWh)],
+    ['Acceptance', formatPercent(s.acceptancePercent, 0)],
+    ['Duration', formatDuration(s.durationSeconds)],
+    ['Mean volts under load', formatVolts(s.meanVolts)],
+    ['Mean amps under load', formatAmps(s.meanAmps)],
+    ['Whole-run discharge', `${formatCharge(s.dischargeAh)} / ${formatEnergy(s.dischargeWh, settings.energyUnit)}`],
+    ['Temperature range', `${formatTemperature(s.minTempCelsius, t)} to ${formatTemperature(s.maxTempCelsius, t)}`],
+  ];
+}
+
+/** The verdict line with its uncertainty (JCGM 100, k = 2) when the bench stated its meter's accuracy. */
+export function verdictText(run: Run, settings: LabSettings): string {
+  const s = run.summary;
+  if (!s) return 'Verdict: none yet (no figures).';
+  const u = s.uncertainty;
+  const base = `Verdict: ${s.verdict}`;
+  if (!u) return `${base}. No meter accuracy stated: no uncertainty given.`;
+  const wh = u.expandedWh === null ? '' : ` / ± ${formatEnergy(u.expandedWh, settings.energyUnit)}`;
+  return `${base}. Capacity ± ${formatCharge(u.expandedAh)}${wh} (expanded, k = ${u.coverageFactor}, about 95 %), method: ${u.method}.`;
+}
+
+/** A date and time in the lab's time zone, e.g. "2026-12-02 08:15 (Europe/Berlin)". */
+export function labTime(at: Date, timeZone: string): string {
+  const parts = new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', hourCycle: 'h23' }).format(at);
+  return `${parts.replace(',', '')} (${timeZone})`;
+}
+
+/** Volts against run time as vector lines from the min/max buckets (a bucket draws its min–max span). */
+function drawVoltsChart(doc: PDFKit.PDFDocument, samples: SamplesResponse): void {
+  const x0 = MARGIN_PT;
+  const y0 = doc.y;
+  const width = doc.page.width - 2 * MARGIN_PT;
+  doc.rect(x0, y0, width, CHART_HEIGHT_PT).lineWidth(CHART_LINE_PT).stroke();
+  const vals = [...samples.volts.min, ...samples.volts.max].filter((v): v is number => v !== null);
+  if (vals.length > 0 && samples.t.length > 0) {
+    const [vMin, vMax] = [Math.min(...vals), Math.max(...vals)];
+    const span = vMax - vMin || 1;
+    const tMin = samples.from;
+    const tSpan = samples.to - samples.from || 1;
+    const px = (t: number) => x0 + ((t - tMin) / tSpan) * width;
+    const py = (v: number) => y0 + CHART_HEIGHT_PT - ((v - vMin) / span) * CHART_HEIGHT_PT;
+    let pen = false;
+    samples.t.forEach((t, i) => {
+      const lo = samples.volts.min[i];
+      const hi = samples.volts.max[i];
+      if (lo == null || hi == null) return void (pen = false);
+      if (pen) doc.lineTo(px(t), py(lo));
+      else doc.moveTo(px(t), py(lo));
+      doc.lineTo(px(t), py(hi));
+      pen = true;
+    });
+    doc.lineWidth(CHART_LINE_PT).stroke();
+    doc.fontSize(BODY_FONT_PT - 2).text(`${formatVolts(vMax)} top, ${formatVolts(vMin)} bottom; ${formatElapsedClock(samples.from)} to ${formatElapsedClock(samples.to)}`, x0, y0 + CHART_HEIGHT_PT + 4);
+  }
+  doc.x = MARGIN_PT;
+  doc.y = y0 + CHART_HEIGHT_PT + 20;
+}
+
+function eventLine(e: StoredRunEvent): string {
+  const ev = e.event;
+  const detail = ev.type === 'annotation' ? `note: ${ev.text}` : ev.type;
+  return `${formatElapsedClock(ev.t)}  ${detail}`;
+}
+
+/** The run report as a PDF: header, verdict with uncertainty, figures, chart, protections, events and notes, sign-off, safety note, page numbers. */
+export async function renderRunReportPdf(input: RunReportInput): Promise<Buffer> {
+  const { run, settings } = input;
+  const doc = new PDFDocument({ size: 'A4', margin: MARGIN_PT, bufferPages: true, info: { Title: `Run report: ${run.name}`, Producer: 'Kneepoint' } });
+  const chunks: Buffer[] = [];
+  doc.on('data', (c: Buffer) => chunks.push(c));
+  const ended = new Promise<void>((resolve, reject) => {
+    doc.on('end', () => resolve());
+    doc.on('error', reject);
+  });
+  doc.fontSize(BODY_FONT_PT).text(settings.labName);
+  doc.text(`Made ${labTime(input.madeAt, settings.timeZone)}`);
+  doc.moveDown().fontSize(TITLE_FONT_PT).text(`Run report: ${run.name}`);
+  doc.fontSize(BODY_FONT_PT).text(`Run ${run.id} · ${run.kind} · started ${run.startedAt ? labTime(new Date(run.startedAt), settings.timeZone) : '—'}`);
+  doc.moveDown().fontSize(HEADING_FONT_PT).text(verdictText(run, settings));
+  doc.moveDown().fontSize(HEADING_FONT_PT).text('Figures');
+  doc.fontSize(BODY_FONT_PT);
+  for (const [label, value] of runReportFigures(run, settings)) doc.text(`${label}: ${value}`);
+  doc.moveDown().fontSize(HEADING_FONT_PT).text('Volts over the run');
+  drawVoltsChart(doc, input.samples);
+  const protections = run.summary?.protections ?? [];
+  if (protections.length > 0) {
+    doc.fontSize(HEADING_FONT_PT).text('Protection results');
+    doc.fontSize(BODY_FONT_PT);
+    for (const p of protections) doc.text(`${p.protection}: ${p.outcome}`);
+    doc.moveDown();
+  }
+  doc.fontSize(HEADING_FONT_PT).text('Events and notes');
+  doc.fontSize(BODY_FONT_PT);
+  if (input.events.length === 0) doc.text('None.');
+  for (const e of input.events) doc.text(eventLine(e));
+  doc.moveDown().fontSize(HEADING_FONT_PT).text('Sign-off');
+  doc.fontSize(BODY_FONT_PT).text('Not signed off.');
+  doc.moveDown().fontSize(BODY_FONT_PT).text(SAFETY_NOTE);
+  const range = doc.bufferedPageRange();
+  for (let i = range.start; i < range.start + range.count; i++) {
+    doc.switchToPage(i);
+    // The footer sits in the bottom margin: without this pdfkit would start a new page for it.
+    doc.page.margins.bottom = 0;
+    doc.fontSize(BODY_FONT_PT - 2).text(`${settings.labName} · page ${i + 1} of ${range.count}`, MARGIN_PT, doc.page.height - FOOTER_OFFSET_PT, { lineBreak: false });
+  }
+  doc.end();
+  await ended;
+  return Buffer.concat(chunks);
+}
