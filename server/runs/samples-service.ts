@@ -47,5 +47,11 @@ async function dischargeSamples(sequelize: Sequelize, runId: number, q: SamplesQ
   const parts = extent ? await readChunks(sequelize, runId, extent.from, extent.to, CHART_COLUMNS) : [];
   if (q.from !== undefined && q.to !== undefined && q.to < q.from) throw new HttpError(400, '`to` must not be before `from`', { to: ['must be >= from'] });
   if (q.from !== undefined && q.to !== undefined && !Number.isFinite(q.to - q.from)) throw new HttpError(400, 'The window from `from` to `to` is too wide', { to: ['to - from must be a finite number'] });
-  return { runId, x, ...reduceOverDischarge(parts, x, { from: q.from, to: q.to }, q.maxPoints, maxGapSeconds) };
+  try {
+    return { runId, x, ...reduceOverDischarge(parts, x, { from: q.from, to: q.to }, q.maxPoints, maxGapSeconds) };
+  } catch (e) {
+    // Only `from` given and beyond the delivered total: the default `to` lies before it.
+    if (e instanceof RangeError) throw new HttpError(400, '`to` must not be before `from`', { to: ['must be >= from'] });
+    throw e;
+  }
 }
