@@ -1,7 +1,7 @@
 import { useQueries, useQuery } from '@tanstack/react-query';
 import { useSearchParams } from 'react-router-dom';
 import type { Run } from '../../../../shared/schemas/run';
-import { Card } from '../../../components/ui/card';
+import { Card, PageHeader } from '../../../components/ui/card';
 import { Loading, QueryError } from '../../../components/ui/status';
 import { batteriesQueryOptions } from '../../../lib/queries/batteries';
 import { runsQueryOptions } from '../api/get-runs';
@@ -59,6 +59,7 @@ export function PackCompare() {
 
   return (
     <div className="flex flex-col gap-4">
+      {runIds.length === 0 && <PageHeader title="Compare packs" subtitle="Each pack by its latest finished capacity run, or one you choose." />}
       <Card>
         <fieldset>
           <legend className="mb-2 font-semibold">Packs from the register (up to {MAX_COMPARED_RUNS})</legend>
