@@ -168,7 +168,7 @@ export function RunCompare({ runIds, title = 'Compare runs' }: { runIds: readonl
                         className={`px-3 py-1 font-semibold ${PHONE_COLUMNS.has(h.column.id) ? '' : 'hidden md:table-cell'}`}
                       >
                         {h.column.getCanSort() ? (
-                          <button type="button" onClick={h.column.getToggleSortingHandler()} className="inline-flex min-h-11 items-center gap-1 whitespace-nowrap text-left hover:text-ink">
+                          <button type="button" onClick={h.column.getToggleSortingHandler()} className="inline-flex min-h-11 min-w-11 items-center gap-1 whitespace-nowrap text-left hover:text-ink">
                             {flexRender(h.column.columnDef.header, h.getContext())}
                             <span aria-hidden="true">{sorted === 'asc' ? '▲' : sorted === 'desc' ? '▼' : ''}</span>
                           </button>
