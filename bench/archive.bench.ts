@@ -102,7 +102,7 @@ export async function run(): Promise<Record<string, string | number>> {
     const times: number[] = [];
     for (let i = 0; i < SAMPLE_ROUNDS; i++) {
       const s0 = performance.now();
-      const res = await runSamples(db.sequelize, runId, { maxPoints: 1000 });
+      const res = await runSamples(db.sequelize, runId, { maxPoints: 1000, x: 't' });
       times.push(performance.now() - s0);
       if (res.t.length !== 1000) throw new Error('samples: wrong bucket count');
     }

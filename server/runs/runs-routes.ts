@@ -113,7 +113,7 @@ export function createRunsRouter(ctx: AppContext): Router {
 
   router.get('/:id/samples', requireRole('viewer'), async (req, res) => {
     const run = await runOr404(req.params.id);
-    res.json(await runSamples(ctx.sequelize, run.id, SamplesQuerySchema.parse(req.query)));
+    res.json(await runSamples(ctx.sequelize, run.id, SamplesQuerySchema.parse(req.query), run.summary?.maxGapSeconds ?? run.maxGapSeconds ?? undefined));
   });
 
   /** Points the report's chart is drawn from (min/max buckets of the samples service). */

@@ -3,6 +3,7 @@ import type { SamplesQuery, SamplesResponse } from '../../shared/schemas/api-run
 import { chunkExtent, readChunks, readStats } from '../archive/chunk-store.js';
 import { STATS_GROUP_READINGS } from '../archive/chunk-stats.js';
 import { reduceSamples, reduceStats } from '../archive/sample-reducer.js';
+import { reduceOverDischarge } from '../archive/axis-reducer.js';
 import { HttpError } from '../http/http-error.js';
 
 /** Channels the chart needs; totals and aux columns stay compressed. */
@@ -12,23 +13,45 @@ const GROUPS_PER_BUCKET = 4;
 
 /**
  * History of a run for a chart: readings between `from` and `to` (run seconds; default
- * the whole run) as min/max buckets, or every reading when few enough.
+ * the whole run) as min/max buckets, or every reading when few enough. With `x` = `ah` or
+ * `wh` the axis is the delivered discharge so far (see dischargeSamples).
  */
-export async function runSamples(sequelize: Sequelize, runId: number, q: SamplesQuery): Promise<SamplesResponse> {
+export async function runSamples(sequelize: Sequelize, runId: number, q: SamplesQuery, maxGapSeconds?: number): Promise<SamplesResponse> {
+  if (q.x !== 't') return dischargeSamples(sequelize, runId, q, q.x, maxGapSeconds);
+  const x = 't' as const;
   const extent = await chunkExtent(sequelize, runId);
   const from = q.from ?? extent?.from ?? 0;
   const to = q.to ?? extent?.to ?? 0;
   if (to < from) throw new HttpError(400, '`to` must not be before `from`', { to: ['must be >= from'] });
   // Two finite ends can still be an infinite span (-1e308 to 1e308): every bucket time would be NaN.
   if (!Number.isFinite(to - from)) throw new HttpError(400, 'The window from `from` to `to` is too wide', { to: ['to - from must be a finite number of seconds'] });
-  if (!extent) return { runId, from, to, ...reduceSamples([], from, to, q.maxPoints) };
+  if (!extent) return { runId, x, from, to, ...reduceSamples([], from, to, q.maxPoints) };
   // Estimate the readings in the window from the run's mean rate; the groups are exact enough
   // once each bucket would hold several of them.
   const span = extent.to - extent.from;
   const estimate = span > 0 ? (extent.count * Math.max(0, Math.min(to, extent.to) - Math.max(from, extent.from))) / span : extent.count;
   if (estimate >= q.maxPoints * STATS_GROUP_READINGS * GROUPS_PER_BUCKET) {
-    return { runId, from, to, ...reduceStats(await readStats(sequelize, runId, from, to), from, to, q.maxPoints) };
+    return { runId, x, from, to, ...reduceStats(await readStats(sequelize, runId, from, to), from, to, q.maxPoints) };
   }
   const parts = await readChunks(sequelize, runId, from, to, CHART_COLUMNS);
-  return { runId, from, to, ...reduceSamples(parts, from, to, q.maxPoints) };
+  return { runId, x, from, to, ...reduceSamples(parts, from, to, q.maxPoints) };
+}
+
+/**
+ * The whole run on the delivered Ah or Wh axis: every reading is read (the cumulative figure
+ * needs the run from its start), integrated by the core's step with the run's gap limit,
+ * then bucketed over [from, to] in Ah or Wh (default 0 to the delivered total).
+ */
+async function dischargeSamples(sequelize: Sequelize, runId: number, q: SamplesQuery, x: 'ah' | 'wh', maxGapSeconds?: number): Promise<SamplesResponse> {
+  const extent = await chunkExtent(sequelize, runId);
+  const parts = extent ? await readChunks(sequelize, runId, extent.from, extent.to, CHART_COLUMNS) : [];
+  if (q.from !== undefined && q.to !== undefined && q.to < q.from) throw new HttpError(400, '`to` must not be before `from`', { to: ['must be >= from'] });
+  if (q.from !== undefined && q.to !== undefined && !Number.isFinite(q.to - q.from)) throw new HttpError(400, 'The window from `from` to `to` is too wide', { to: ['to - from must be a finite number'] });
+  try {
+    return { runId, x, ...reduceOverDischarge(parts, x, { from: q.from, to: q.to }, q.maxPoints, maxGapSeconds) };
+  } catch (e) {
+    // Only `from` given and beyond the delivered total: the default `to` lies before it.
+    if (e instanceof RangeError) throw new HttpError(400, '`to` must not be before `from`', { to: ['must be >= from'] });
+    throw e;
+  }
 }

@@ -9,3 +9,4 @@ export * from './detector.js';
 export * from './parse-csv-line.js';
 export * from './run-stats.js';
 export * from './verdict.js';
+export * from './cumulative-discharge.js';

@@ -96,6 +96,8 @@ export const SamplesQuerySchema = z.object({
   from: z.coerce.number().finite().optional(),
   to: z.coerce.number().finite().optional(),
   maxPoints: z.coerce.number().int().min(10).max(20_000).default(1000),
+  /** x axis: run seconds (`t`), delivered Ah (`ah`) or delivered Wh (`wh`); `from`/`to` are in its unit. */
+  x: z.enum(['t', 'ah', 'wh']).default('t'),
 });
 export type SamplesQuery = z.infer<typeof SamplesQuerySchema>;
 
@@ -109,6 +111,8 @@ export const MinMaxColumnSchema = z.object({ min: column, max: column });
  */
 export const SamplesResponseSchema = z.object({
   runId: z.number().int(),
+  /** The x axis of `t`, `from`, `to` and `bucketSeconds`: run seconds, delivered Ah or delivered Wh. */
+  x: z.enum(['t', 'ah', 'wh']),
   from: z.number(),
   to: z.number(),
   /** false = every reading in the window, true = min/max buckets of `bucketSeconds`. */

@@ -43,6 +43,7 @@ beforeAll(async () => {
     '/runs',
     `/runs/${runIds[0]}`,
     `/runs/compare?ids=${runIds.join(',')}`,
+    '/runs/compare?packs=',
     '/batteries',
     '/users',
     '/settings',

@@ -14,7 +14,7 @@ afterEach(() => vi.restoreAllMocks());
 describe('HistoryChart', () => {
   it('draws the cell temperature, as the live screens do, when the run also logged ambient', () => {
     // Ambient sorts before cell: the chart must not fall back to alphabetical order.
-    const samples: SamplesResponse = {
+    const samples: SamplesResponse = { x: 't',
       runId: 1, from: 0, to: 2, reduced: false, bucketSeconds: null, readingsInWindow: 3,
       t: [0, 1, 2], volts: col([13.2, 13.1, 13]), amps: col([45, 45, 46]), watts: col([594, 590, 598]),
       temps: { ambient: col([23, 23, 23]), cell: col([23.4, 25.1, 28.6]) },
@@ -26,7 +26,7 @@ describe('HistoryChart', () => {
 
   it('leaves a phone-wide chart room to draw: narrower axes, temperature axis hidden (its line stays)', () => {
     vi.spyOn(HTMLElement.prototype, 'clientWidth', 'get').mockReturnValue(358);
-    const samples: SamplesResponse = {
+    const samples: SamplesResponse = { x: 't',
       runId: 1, from: 0, to: 1, reduced: false, bucketSeconds: null, readingsInWindow: 2,
       t: [0, 1], volts: col([13.2, 13.1]), amps: col([45, 45]), watts: col([594, 590]), temps: { cell: col([23.4, 23.5]) },
     };
@@ -41,7 +41,7 @@ describe('HistoryChart', () => {
 
 describe('HistoryChart zoom', () => {
   it('keeps one uPlot instance and zooms with setData and setScale', () => {
-    const whole: SamplesResponse = {
+    const whole: SamplesResponse = { x: 't',
       runId: 1, from: 0, to: 100, reduced: true, bucketSeconds: 50, readingsInWindow: 100,
       t: [0, 50], volts: col([13.2, 13.0]), amps: col([45, 45]), watts: col([594, 585]), temps: {},
     };

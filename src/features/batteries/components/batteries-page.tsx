@@ -1,4 +1,5 @@
 import { useState } from 'react';
+import { Link } from 'react-router-dom';
 import type { Battery } from '../../../../shared/schemas/battery';
 import { Button } from '../../../components/ui/button';
 import { Card, PageHeader } from '../../../components/ui/card';
@@ -36,7 +37,14 @@ export function BatteriesPage({ canWrite }: { canWrite: boolean }) {
       <PageHeader
         title="Battery packs"
         subtitle="Every pack received by the lab, with its ratings."
-        actions={canWrite && !adding ? <Button onClick={() => setAdding(true)}>Register a pack</Button> : undefined}
+        actions={
+          <div className="flex flex-wrap gap-2">
+            <Link to="/runs/compare?packs=" className="inline-flex min-h-11 items-center rounded-lg border border-line px-4 font-semibold text-accent hover:underline">
+              Compare packs
+            </Link>
+            {canWrite && !adding && <Button onClick={() => setAdding(true)}>Register a pack</Button>}
+          </div>
+        }
       />
       {adding && (
         <Card className="mb-6 flex flex-col gap-4 p-6">
