@@ -57,7 +57,7 @@ export async function run(): Promise<Record<string, string | number>> {
       const t0 = performance.now();
       const run = (await repo.get(created.id))!;
       const [samples, stored, settings] = await Promise.all([
-        runSamples(db.sequelize, run.id, { maxPoints: REPORT_CHART_BUCKETS }),
+        runSamples(db.sequelize, run.id, { maxPoints: REPORT_CHART_BUCKETS, x: 't' }),
         repo.events(run.id),
         getLabSettings(models),
       ]);
