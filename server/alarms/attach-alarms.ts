@@ -11,6 +11,7 @@ import { DeliveryQueue } from './delivery-queue.js';
 import { DeliveryWorker } from './delivery-worker.js';
 import { createSmtpTransport, emailChannel } from './email-channel.js';
 import { FakeSmtpServer } from './fake-smtp.js';
+import { RunEndEstimates } from './run-end-estimates.js';
 
 /** Alarm delivery when the config names none (a config built by hand, as tests do). */
 export const DEFAULT_ALARM_DELIVERY: AlarmDeliveryConfig = {
@@ -65,6 +66,17 @@ export async function attachAlarms(httpServer: Server, ctx: AppContext): Promise
   const offs: (() => void)[] = [];
   const recorder = ctx.services.runRecorder;
   if (recorder) {
+    // The near-end alarm fires on the time to the end voltage the live page shows: the
+    // estimate is fed first, then the alarm service reads it for the same reading.
+    const estimates = new RunEndEstimates((runId) => {
+      const session = recorder.session(runId);
+      return session ? { kind: session.run.kind, config: session.pipeline.config } : null;
+    });
+    service.setEndEstimator((runId) => estimates.minutesToEnd(runId));
+    offs.push(recorder.readings.add((runId, reading) => estimates.onReading(runId, reading)));
+    offs.push(recorder.runChanges.add((run) => {
+      if (run.state === 'finished' || run.state === 'aborted') estimates.forget(run.id);
+    }));
     offs.push(recorder.readings.add((runId, reading) => service.onReading(runId, reading)));
     offs.push(recorder.events.add((runId, e) => service.onRunEvent(runId, e.event)));
     offs.push(recorder.runChanges.add((run) => service.onRunChange(run)));

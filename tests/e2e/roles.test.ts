@@ -103,7 +103,8 @@ describe('each demo role signs in and sees what it may do', () => {
     await form.getByLabel('Cells in series').fill('8');
     await form.getByLabel('Rated capacity (Ah)').fill('100');
     await form.getByRole('button', { name: 'Register pack' }).click();
-    await page.getByRole('cell', { name: 'NG-0150', exact: true }).waitFor();
+    // The register names each pack by a link to its page.
+    await page.getByRole('link', { name: 'Open NG-0150', exact: true }).waitFor();
     await page.goto(`${t.url}/users`);
     await page.getByText('Not available for your role').waitFor();
     await page.close();

@@ -37,7 +37,7 @@ export function BatteriesTable({ batteries, onEdit, onProtections }: { batteries
       col.accessor('label', {
         header: 'Label',
         cell: (c) => (
-          <Link to={`/batteries/${c.row.original.id}`} className="inline-flex min-h-11 items-center font-semibold text-accent hover:underline">
+          <Link to={`/batteries/${c.row.original.id}`} className="inline-flex min-h-11 items-center font-semibold text-accent hover:underline" aria-label={`Open ${c.getValue()}`}>
             {c.getValue()}
           </Link>
         ),
