@@ -83,9 +83,12 @@ describe('alarms that reach people away from the bench', () => {
       await signInThroughForm(adminPage, t.url, admin.email, t.ctx.config.demoPassword);
       await adminPage.goto(`${t.url}/alarms`);
       const outbox = adminPage.getByRole('heading', { name: /Outbox/ }).locator('..');
+      // Each try reloads the page and waits for the outbox to load before counting (a count taken
+      // straight after the reload sees the page before its data and would never find the mail).
       await expect.poll(async () => {
         await adminPage.reload();
-        return outbox.getByText(/CRITICAL (cutoff|protection-trip)/).count();
+        await outbox.waitFor();
+        return outbox.getByText(/CRITICAL (cutoff|protection-trip)/).first().waitFor({ timeout: 3000 }).then(() => 1, () => 0);
       }, { timeout: MAIL_WAIT_MS }).toBeGreaterThan(0);
       console.log(`[figure] alarm mail in the outbox ${Date.now() - cutoffSeenMs} ms after the banner showed the cutoff`);
       expect(await outbox.textContent()).toContain(tech.email);

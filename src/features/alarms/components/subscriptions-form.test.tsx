@@ -16,7 +16,7 @@ describe('alarms page', () => {
     expect((await screen.findByRole('note')).textContent).toMatch(/unattended test needs someone told at once.*local codes/);
     await userEvent.click(screen.getByRole('button', { name: 'Add' }));
     await userEvent.click(screen.getByRole('button', { name: 'Save my alarms' }));
-    await waitFor(() => expect(screen.getByRole('status').textContent).toBe('Saved.'));
+    await waitFor(() => expect(screen.getByText('Saved.').getAttribute('role')).toBe('status'));
     const put = calls.find((c) => c.init?.method === 'PUT')!;
     expect(JSON.parse(String(put.init!.body))).toEqual({ subscriptions: [{ benchId: null, kind: 'cutoff', channel: 'email' }] });
     // Push is listed but cannot be chosen where the server has no push channel.
