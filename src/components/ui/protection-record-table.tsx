@@ -1,15 +1,9 @@
 import { Link } from 'react-router-dom';
 import { PROTECTION_TRAITS, type ProtectionRecordRow } from '../../../shared/schemas/protection-check';
 import { formatLabTime, useLabSettings } from '../../lib/lab-settings';
-import { TONE_COLORS } from '../../lib/palette';
 import { formatDuration } from '../../lib/units';
 import { formatProtectionValue } from './run-events-list';
-
-const OUTCOME = {
-  pass: { label: 'Pass', color: TONE_COLORS.good },
-  fail: { label: 'Fail', color: TONE_COLORS.fault },
-  'not-reached': { label: 'Not reached', color: TONE_COLORS.over },
-} as const;
+import { ProtectionOutcomeBadge } from './protection-outcome-badge';
 
 /** A pack's protection record: every protection checked across its runs, latest first, each linked to the stretch that shows it. */
 export function ProtectionRecordTable({ rows }: { rows: readonly ProtectionRecordRow[] }) {
@@ -50,9 +44,7 @@ export function ProtectionRecordTable({ rows }: { rows: readonly ProtectionRecor
                 </td>
                 <td className="num p-2">{r.releaseValue === null ? '—' : `${value(r.releaseValue)}, ${formatDuration(r.resumeSeconds)}`}</td>
                 <td className="p-2">
-                  <span className="inline-block rounded-md px-2 py-0.5 font-bold text-on-tone" style={{ backgroundColor: OUTCOME[r.outcome].color }}>
-                    {OUTCOME[r.outcome].label}
-                  </span>
+                  <ProtectionOutcomeBadge outcome={r.outcome} />
                 </td>
               </tr>
             );

@@ -4,15 +4,9 @@ import { PROTECTION_TRAITS, type ProtectionRecordRow } from '../../../../shared/
 import { formatProtectionValue } from '../../../components/ui/run-events-list';
 import { Loading, QueryError } from '../../../components/ui/status';
 import { formatLabTime, useLabSettings } from '../../../lib/lab-settings';
-import { TONE_COLORS } from '../../../lib/palette';
 import { formatDuration } from '../../../lib/units';
 import { protectionRecordQueryOptions } from '../api/pack-record';
-
-const OUTCOME = {
-  pass: { label: 'Pass', color: TONE_COLORS.good },
-  fail: { label: 'Fail', color: TONE_COLORS.fault },
-  'not-reached': { label: 'Not reached', color: TONE_COLORS.over },
-} as const;
+import { ProtectionOutcomeBadge } from '../../../components/ui/protection-outcome-badge';
 
 /** The pack's protection record: what its maker states, and each check run against it. */
 export function ProtectionRecord({ batteryId }: { batteryId: number }) {
@@ -57,7 +51,6 @@ export function ProtectionRecord({ batteryId }: { batteryId: number }) {
             </thead>
             <tbody>
               {rows.map((row) => {
-                const outcome = OUTCOME[row.outcome];
                 return (
                   <tr key={`${row.runId}-${row.protection}`} className="border-t border-line align-top">
                     <th scope="row" className="p-2 font-semibold">
@@ -65,9 +58,7 @@ export function ProtectionRecord({ batteryId }: { batteryId: number }) {
                       {row.channel && <span className="block text-xs font-normal text-ink-muted">on {row.channel}</span>}
                     </th>
                     <td className="p-2">
-                      <span className="inline-block rounded-md px-2 py-0.5 font-bold text-on-tone" style={{ backgroundColor: outcome.color }}>
-                        {outcome.label}
-                      </span>
+                      <ProtectionOutcomeBadge outcome={row.outcome} />
                     </td>
                     <td className="num p-2">
                       {value(row, row.expectedValue)}

@@ -2,17 +2,11 @@ import { Link } from 'react-router-dom';
 import type { RunSummary } from '../../../../shared/schemas/run-summary';
 import { PROTECTION_TRAITS, type ProtectionResult } from '../../../../shared/schemas/protection-check';
 import { formatProtectionValue } from '../../../components/ui/run-events-list';
-import { TONE_COLORS } from '../../../lib/palette';
 import { formatCharge, formatDuration, formatEnergy, formatNumber, formatTemperature } from '../../../lib/units';
+import { ProtectionOutcomeBadge } from '../../../components/ui/protection-outcome-badge';
 
 /** A °C difference in the lab's unit (a span, so no 32° offset). */
 const FAHRENHEIT_PER_CELSIUS = 1.8;
-
-const OUTCOME = {
-  pass: { label: 'Pass', color: TONE_COLORS.good },
-  fail: { label: 'Fail', color: TONE_COLORS.fault },
-  'not-reached': { label: 'Not reached', color: TONE_COLORS.over },
-} as const;
 
 function tolerance(row: ProtectionResult, temperatureUnit: 'C' | 'F'): string {
   if (row.unit !== '°C') return `± ${formatNumber(row.thresholdTolerance, 2)} ${row.unit}`;
@@ -77,7 +71,6 @@ export function ProtectionCheckPanel({ runId, summary, temperatureUnit, energyUn
             <tbody>
               {rows.map((row) => {
                 const href = windowHref(runId, row.window);
-                const outcome = OUTCOME[row.outcome];
                 return (
                   <tr key={row.protection} className="border-t border-line align-top">
                     <th scope="row" className="p-2 font-semibold">
@@ -101,9 +94,7 @@ export function ProtectionCheckPanel({ runId, summary, temperatureUnit, energyUn
                       {row.releaseValue === null ? '—' : `${value(row, row.releaseValue)}, ${formatDuration(row.resumeSeconds)}`}
                     </td>
                     <td className="p-2">
-                      <span className="inline-block rounded-md px-2 py-0.5 font-bold text-on-tone" style={{ backgroundColor: outcome.color }}>
-                        {outcome.label}
-                      </span>
+                      <ProtectionOutcomeBadge outcome={row.outcome} />
                       {row.notes.map((note) => (
                         <span key={note} className="mt-1 block text-xs text-ink-muted">
                           {note}
