@@ -95,8 +95,16 @@ describe('database watch', () => {
     db.answers = false;
     await watch.tick();
     await watch.tick();
-    expect(health.status()).toMatchObject({ state: 'stalled', lastProblem: expect.stringMatching(/no answer within 1000 ms, \d+ times in a row/) });
+    // Running again after SIGCONT but still late: the same stall, its cause kept.
+    expect(health.status()).toMatchObject({ state: 'stalled', lastProblem: expect.stringMatching(/was stopped \(SIGSTOP\), runs again and gave no answer within 1000 ms, \d+ times in a row/) });
     expect(db.starts).toBe(0);
+    db.answers = true;
+    await watch.tick();
+    expect(health.status()).toMatchObject({ state: 'up', lastProblem: expect.stringMatching(/SIGSTOP/) });
+    // A later silence without a stop is reported as silence only.
+    db.answers = false;
+    for (let i = 0; i < 30; i++) await watch.tick();
+    expect(health.status()).toMatchObject({ state: 'stalled', lastProblem: expect.stringMatching(/^the server \(pid \d+\) gave no answer within 1000 ms/) });
     db.answers = true;
     await watch.tick();
     expect(health.status()).toMatchObject({ state: 'up', restarts: 0 });

@@ -58,6 +58,7 @@ export function watchDatabase(opts: WatchOptions): DatabaseWatch {
   let outageStartMs: number | undefined;
   let latePings = 0;
   let stopped = false;
+  let stoppedPid: number | undefined;
   let timer: NodeJS.Timeout | undefined;
   let running: Promise<void> = Promise.resolve();
 
@@ -93,6 +94,7 @@ export function watchDatabase(opts: WatchOptions): DatabaseWatch {
         opts.log(`[mariadb] answering again after ${outageStartMs === undefined ? '?' : ((now() - outageStartMs) / 1000).toFixed(1)} s`);
       }
       outageStartMs = undefined;
+      stoppedPid = undefined;
       latePings = 0;
       health.set('up');
       if (lastRestartMs !== undefined && now() - lastRestartMs >= STABLE_AFTER_RESTART_MS) attempt = 0;
@@ -107,7 +109,13 @@ export function watchDatabase(opts: WatchOptions): DatabaseWatch {
       if (health.available()) opts.log('[mariadb] the database does not answer');
       return health.set('unreachable', `no answer within ${timeoutMs} ms, ${latePings} times in a row`);
     }
-    const why = proc!.stopped ? `the server process (pid ${proc!.pid}) is stopped (SIGSTOP)` : `the server (pid ${proc!.pid}) gave no answer within ${timeoutMs} ms, ${latePings} times in a row`;
+    // A process seen stopped in this outage stays part of the reason: right after SIGCONT it runs
+    // again but its answers are still late, which is the same stall, not a new cause.
+    if (proc!.stopped) stoppedPid = proc!.pid;
+    const late = `gave no answer within ${timeoutMs} ms, ${latePings} times in a row`;
+    const why = proc!.stopped ? `the server process (pid ${proc!.pid}) is stopped (SIGSTOP)`
+      : stoppedPid !== undefined ? `the server process (pid ${stoppedPid}) was stopped (SIGSTOP), runs again and ${late}`
+      : `the server (pid ${proc!.pid}) ${late}`;
     if (health.available()) opts.log(`[mariadb] stalled: ${why}`);
     health.set('stalled', why);
   };
