@@ -11,7 +11,7 @@ import { createRunPipeline } from '../shared/measure/run-pipeline.js';
 import type { Reading } from '../shared/schemas/reading.js';
 import { COMPACT_READINGS, readChunks, writeBatch } from '../server/archive/chunk-store.js';
 import { encodeChunk } from '../server/archive/chunk-encode.js';
-import { readingsToColumns } from '../server/archive/reading-columns.js';
+import { readingsToColumns } from '../server/readings/reading-columns.js';
 import { exportMeta } from '../server/runs/export-meta.js';
 import { streamCsvExport } from '../server/runs/export-stream.js';
 import { RunsRepo } from '../server/runs/runs-repo.js';

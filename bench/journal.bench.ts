@@ -14,6 +14,7 @@ import { join } from 'node:path';
 import { monitorEventLoopDelay, performance } from 'node:perf_hooks';
 import type { Frame } from '../shared/schemas/frame.js';
 import { createArchiveWriter } from '../server/archive/archive-service.js';
+import { archiveSink } from '../server/archive/run-archive.js';
 import { benchModel } from '../server/benches/bench-model.js';
 import { BATTERY_OPTIONAL_DEFAULTS } from '../server/db/models/battery.js';
 import { defineCoreModels } from '../server/db/models/index.js';
@@ -60,7 +61,7 @@ async function setUp(name: string, withJournal: boolean, timer?: (fn: () => void
   await writer.start();
   const repo = new RunsRepo(db.sequelize);
   const facts = { id: battery.id, label: 'Bench pack', brand: 'Kestrel Energy', chemistry: 'lfp', cellsInSeries: 4, ratedAh: 100, ratedWh: null, price: null, massKg: null, protectionSpecs: [] };
-  const recorder = new RunRecorder({ repo, writer, getBattery: async () => facts, log: quiet });
+  const recorder = new RunRecorder({ repo, archive: archiveSink(writer), getBattery: async () => facts, log: quiet });
   if (journal) recorder.readings.add((runId, reading, index) => journal.append(runId, index, reading));
   const feed = new BenchFeed();
   recorder.attach(feed);

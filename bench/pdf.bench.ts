@@ -11,7 +11,7 @@ import type { Reading } from '../shared/schemas/reading.js';
 import type { RunEvent } from '../shared/schemas/run-event.js';
 import { COMPACT_READINGS, writeBatch } from '../server/archive/chunk-store.js';
 import { encodeChunk } from '../server/archive/chunk-encode.js';
-import { readingsToColumns } from '../server/archive/reading-columns.js';
+import { readingsToColumns } from '../server/readings/reading-columns.js';
 import { RunsRepo } from '../server/runs/runs-repo.js';
 import { runSamples } from '../server/runs/samples-service.js';
 import { renderRunReportPdf } from '../server/reports/run-report-pdf.js';

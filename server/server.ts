@@ -15,7 +15,7 @@ import { createPingProbe } from './db/database-probe.js';
 import { watchDatabase, type DatabaseWatch } from './db/database-watch.js';
 import { guardQueries } from './db/query-guard.js';
 import { attachBenchManager } from './benches/attach-bench-manager.js';
-import { attachLive } from './live/attach-live.js';
+import { attachRecording } from './compose/recording-root.js';
 import { backupAttachment } from './backup/attach-backups.js';
 import { attachAlarms } from './alarms/attach-alarms.js';
 import { attachPush } from './push/attach-push.js';
@@ -29,9 +29,9 @@ export type Attachment = (httpServer: Server, ctx: AppContext) => Promise<Detach
  * ── ATTACHMENTS: other areas add one line each here (they run in this order before listen,
  * and are detached in reverse order on close), e.g. ──
  *   attachBenchManager,   (ingest, from ./benches/...)
- *   attachLiveHub,        (live, from ./live/...)
+ *   attachRecording,      (the composition root of recording, from ./compose/...)
  */
-export const ATTACHMENTS: Attachment[] = [attachBenchManager, attachLive, attachAlarms, attachPush, backupAttachment()];
+export const ATTACHMENTS: Attachment[] = [attachBenchManager, attachRecording, attachAlarms, attachPush, backupAttachment()];
 
 /** How to start; everything is optional (defaults: environment config, provisioned MariaDB). */
 export interface StartServerOptions {

@@ -1,18 +1,8 @@
 import type { RunEvent } from '../../shared/schemas/run-event.js';
-import type { RunState } from '../../shared/schemas/run.js';
-import type { RunSummary } from '../../shared/schemas/run-summary.js';
+import type { RunPatch } from '../runs/run-batch.js';
 import type { EncodedChunk } from './chunk-encode.js';
 
-/** Fields of a run row the recorder updates together with each batch of readings. */
-export interface RunPatch {
-  state?: RunState;
-  summary?: RunSummary | null;
-  /** Serialised pipeline state after the last reading of the batch (JSON text). */
-  pipelineState?: string | null;
-  readingsCount?: number;
-  startedAt?: Date;
-  endedAt?: Date;
-}
+export type { RunPatch };
 
 /**
  * One unit of archive work, written in one transaction: readings (as an encoded column

@@ -1,5 +1,4 @@
-import type { Columns } from './column-block.js';
-import { concatColumns } from './reading-columns.js';
+import { concatColumns, type Columns } from './column-block.js';
 import { cumulativeDischarge } from '../../shared/measure/cumulative-discharge.js';
 import { reduceSamples, type ReducedSamples } from './sample-reducer.js';
 

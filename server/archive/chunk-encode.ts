@@ -1,6 +1,5 @@
-import { encodeBlock, type BlockLayout, type Columns } from './column-block.js';
+import { columnLength, encodeBlock, type BlockLayout, type Columns } from './column-block.js';
 import { computeStats } from './chunk-stats.js';
-import { columnLength } from './reading-columns.js';
 
 /** One chunk ready for the database: its readings block and its min/max groups. */
 export interface EncodedChunk {

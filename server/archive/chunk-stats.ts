@@ -1,5 +1,5 @@
 import type { Columns } from './column-block.js';
-import { TEMP_PREFIX } from './reading-columns.js';
+import { TEMP_PREFIX } from '../readings/reading-columns.js';
 
 /** Readings per pre-computed min/max group (6.4 s at 10 Hz). */
 export const STATS_GROUP_READINGS = 64;

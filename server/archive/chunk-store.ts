@@ -2,8 +2,7 @@ import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
 import type { ArchiveBatch } from './archive-batch.js';
 import { encodeChunk } from './chunk-encode.js';
 import { computeStats } from './chunk-stats.js';
-import { decodeBlock, type BlockLayout, type Columns } from './column-block.js';
-import { concatColumns } from './reading-columns.js';
+import { concatColumns, decodeBlock, type BlockLayout, type Columns } from './column-block.js';
 import { utcDateTime } from '../db/utc-datetime.js';
 
 /** Small chunks are merged once this many readings sit in them (about 7 minutes at 10 Hz). */

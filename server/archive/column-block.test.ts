@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { decodeBlock, encodeBlock } from './column-block.js';
-import { readingsToColumns, readingAt, concatColumns } from './reading-columns.js';
+import { concatColumns, decodeBlock, encodeBlock } from './column-block.js';
+import { readingsToColumns, readingAt } from '../readings/reading-columns.js';
 import type { Reading } from '../../shared/schemas/reading.js';
 
 const reading = (i: number, temps?: Record<string, number>): Reading => ({

@@ -1,4 +1,5 @@
 import { constants as zlibConstants, gzipSync, gunzipSync } from 'node:zlib';
+import type { Columns } from '../readings/reading-columns.js';
 
 /**
  * A chunk of readings stored as one gzip'd Float64 array per channel, concatenated.
@@ -18,7 +19,7 @@ export interface BlockLayout {
   count: number;
   columns: ColumnLayoutEntry[];
 }
-export type Columns = Record<string, Float64Array>;
+export type { Columns };
 
 /** gzip level 1: a few percent larger than the default level and several times faster to write. */
 const GZIP_LEVEL = 1;
@@ -75,4 +76,25 @@ export function decodeBlock(layout: BlockLayout, data: Buffer, wanted?: readonly
     out[entry.name] = view;
   }
   return out;
+}
+
+/** Concatenates column sets in order; a column absent from one part is NaN there. */
+export function concatColumns(parts: readonly Columns[]): Columns {
+  const total = parts.reduce((sum, p) => sum + columnLength(p), 0);
+  const names = new Set<string>();
+  for (const p of parts) for (const k of Object.keys(p)) names.add(k);
+  const out: Columns = {};
+  for (const name of names) out[name] = new Float64Array(total).fill(Number.NaN);
+  let at = 0;
+  for (const p of parts) {
+    for (const [name, col] of Object.entries(p)) out[name]!.set(col, at);
+    at += columnLength(p);
+  }
+  return out;
+}
+
+/** Number of rows in a column set. */
+export function columnLength(cols: Columns): number {
+  const first = Object.values(cols)[0];
+  return first ? first.length : 0;
 }

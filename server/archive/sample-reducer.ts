@@ -1,5 +1,5 @@
 import type { Columns } from './column-block.js';
-import { TEMP_PREFIX } from './reading-columns.js';
+import { TEMP_PREFIX } from '../readings/reading-columns.js';
 
 /** One channel reduced: min and max per bucket (null for an empty bucket: a gap, never a line). */
 export interface MinMax {

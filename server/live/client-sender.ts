@@ -2,7 +2,7 @@ import type { Topic } from '../../shared/schemas/ws.js';
 import { topicKey } from '../../shared/schemas/ws.js';
 import type { SessionUser } from '../auth/session-user.js';
 import { checkBudget, keepEveryFor, nextThinning, thinIndices, type BudgetState } from './backpressure-policy.js';
-import { toReadingColumns, type LiveSample } from './reading-columns.js';
+import { toReadingColumns, type LiveSample } from '../readings/reading-columns.js';
 
 /** The part of a `ws` WebSocket the sender uses (tests pass a fake). */
 export interface SocketLike {

@@ -4,7 +4,7 @@ import type { AnnotationEvent, RunEvent } from '../../shared/schemas/run-event.j
 import type { Run } from '../../shared/schemas/run.js';
 import { topicKey, type Topic } from '../../shared/schemas/ws.js';
 import type { ClientSender } from './client-sender.js';
-import { toReadingColumns, type LiveSample } from './reading-columns.js';
+import { toReadingColumns, type LiveSample } from '../readings/reading-columns.js';
 
 /** Batches of one topic go out at most this often. */
 export const MIN_BATCH_INTERVAL_MS = 100;

@@ -6,9 +6,7 @@ import type { ImportResponse } from '../../shared/schemas/api-runs.js';
 import type { Frame } from '../../shared/schemas/frame.js';
 import type { Reading } from '../../shared/schemas/reading.js';
 import type { CutoffEvent, RecoveryEvent, RunEvent } from '../../shared/schemas/run-event.js';
-import { COMPACT_READINGS, writeBatch } from '../archive/chunk-store.js';
-import { encodeChunk } from '../archive/chunk-encode.js';
-import { readingsToColumns } from '../archive/reading-columns.js';
+import { ARCHIVE_BLOCK_READINGS, writeRunBatch } from '../archive/run-archive.js';
 import { HttpError } from '../http/http-error.js';
 import { csvRecords, sniffDelimiter } from './import-csv.js';
 import { createRowParser, type ColumnOverrides } from './import-headers.js';
@@ -88,9 +86,9 @@ export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: Impor
     let seq = 0;
     const flush = async () => {
       if (!pending.length) return;
-      const block = encodeChunk(seq - pending.length, readingsToColumns(pending));
+      const readings = pending;
       pending = [];
-      await writeBatch(sequelize, { runId: run.id, block, events: [], patch: { readingsCount: seq } });
+      await writeRunBatch(sequelize, { runId: run.id, firstSeq: seq - readings.length, readings, events: [], patch: { readingsCount: seq } });
     };
     const parse = createRowParser(plan);
     let header = true;
@@ -106,15 +104,15 @@ export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: Impor
       pending.push(out.reading);
       seq++;
       for (const e of out.events) events.push(e);
-      if (pending.length >= COMPACT_READINGS) await flush();
+      if (pending.length >= ARCHIVE_BLOCK_READINGS) await flush();
     }
     await flush();
     const summary = summarizeRun({
       snapshot: pipeline.snapshot(), events, acceptancePercent: req.acceptancePercent,
       price: req.battery?.price ?? null, massKg: req.battery?.massKg ?? null, leadAcidTempCelsius: electrolyte ?? null,
     });
-    await writeBatch(sequelize, {
-      runId: run.id, block: null, events: events.map((event, eventSeq) => ({ eventSeq, event })),
+    await writeRunBatch(sequelize, {
+      runId: run.id, firstSeq: seq, readings: [], events: events.map((event, eventSeq) => ({ eventSeq, event })),
       patch: { state: 'finished', summary, readingsCount: seq, endedAt: new Date() },
     });
     const cutoff = summary.capacityEndSeconds !== null ? events.find((e): e is CutoffEvent => e.type === 'cutoff' && e.t === summary.capacityEndSeconds) ?? null : null;

@@ -1,9 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import type { Frame } from '../../shared/schemas/frame.js';
 import type { Run } from '../../shared/schemas/run.js';
-import type { ArchiveBatch } from '../archive/archive-batch.js';
-import type { ArchiveWriter } from '../archive/archive-writer.js';
 import { measureConfigFor } from './measure-config.js';
+import type { RunBatch } from './run-batch.js';
 import { RunRecorder, type KeptReading } from './run-recorder.js';
 import { RunSession } from './run-session.js';
 import type { RunsRepo } from './runs-repo.js';
@@ -17,14 +16,14 @@ const frame = (i: number): Frame => ({ t: 100 + i * 0.5, volts: 12.9 - i * 0.001
 const kept = (from: number, to: number): KeptReading[] => Array.from({ length: to - from }, (_, k) => ({ index: from + k, frame: frame(from + k), arrivalS: 1_700_000_000 + from + k }));
 
 /** A recorder resumed from the archived state after `archived` readings, as at a start after a crash. */
-async function resumedAt(archived: number): Promise<{ recorder: RunRecorder; batches: ArchiveBatch[] }> {
+async function resumedAt(archived: number): Promise<{ recorder: RunRecorder; batches: RunBatch[] }> {
   const before = new RunSession(run, null, measureConfigFor(run, null));
   for (let i = 0; i < archived; i++) before.push(frame(i));
   const stored = before.takeBatch().patch.pipelineState!;
-  const batches: ArchiveBatch[] = [];
+  const batches: RunBatch[] = [];
   const repo = { listLive: async () => [run], getPipelineState: async () => stored, events: async () => [] } as unknown as RunsRepo;
-  const writer = { enqueue: (b: ArchiveBatch) => void batches.push(b) } as unknown as ArchiveWriter;
-  const recorder = new RunRecorder({ repo, writer, getBattery: async () => null, log: () => undefined });
+  const archive = { enqueue: (b: RunBatch) => void batches.push(b) };
+  const recorder = new RunRecorder({ repo, archive, getBattery: async () => null, log: () => undefined });
   await recorder.resume();
   return { recorder, batches };
 }

@@ -5,11 +5,11 @@ import type { Reading } from '../../shared/schemas/reading.js';
 import { LIVE_RUN_STATES, type Run } from '../../shared/schemas/run.js';
 import type { RunEvent } from '../../shared/schemas/run-event.js';
 import type { z } from 'zod';
-import type { ArchiveWriter } from '../archive/archive-writer.js';
 import { HttpError, notFound } from '../http/http-error.js';
 import { ListenerSet } from '../ingest/listener-set.js';
 import { measureConfigFor, type BatteryFacts, type SourceFacts } from './measure-config.js';
 import { MissingProtectionThresholdError, resolveProtectionChecks } from './resolve-protection-checks.js';
+import type { RunBatchSink } from './run-batch.js';
 import { RunSession, type RunSessionSnapshot, type SequencedEvent } from './run-session.js';
 import type { NoteChangeRecord } from './notes-repo.js';
 import type { RunsRepo } from './runs-repo.js';
@@ -30,7 +30,8 @@ const SOURCE_DOWN_STATES = new Set(['stale', 'error', 'reconnecting', 'idle']);
 
 export interface RunRecorderDeps {
   repo: RunsRepo;
-  writer: ArchiveWriter;
+  /** Where the runs' batches go (the archive); it encodes and stores them. */
+  archive: RunBatchSink;
   getBattery: (id: number) => Promise<BatteryFacts | null>;
   /** Checks a bench id before a run starts on it (default: any id is taken). */
   benchExists?: (id: number) => Promise<boolean>;
@@ -167,7 +168,7 @@ export class RunRecorder {
     const session = new RunSession(run, battery, measureConfigFor(config, battery, source));
     this.register(session);
     this.emitEvent(run.id, session.addEvent({ type: 'run-start', t: 0 }));
-    this.deps.writer.enqueue(session.takeBatch());
+    this.deps.archive.enqueue(session.takeBatch());
     this.runChanges.emit(run);
     return run;
   }
@@ -211,7 +212,7 @@ export class RunRecorder {
    */
   private endStranded(run: Run, state: 'finished' | 'aborted'): Run {
     const endedAt = new Date();
-    this.deps.writer.enqueue({ runId: run.id, block: null, events: [], patch: { state, endedAt, pipelineState: null } });
+    this.deps.archive.enqueue({ runId: run.id, firstSeq: run.readingsCount, readings: [], events: [], patch: { state, endedAt, pipelineState: null } });
     this.log(`run ${run.id} was ${run.state} without a live session; ended as ${state}`);
     const ended: Run = { ...run, state, endedAt: endedAt.toISOString() };
     this.runChanges.emit(ended);
@@ -287,7 +288,7 @@ export class RunRecorder {
 
   /** Hands everything pending to the archive (timer, shutdown, tests). */
   flushAll(): void {
-    for (const session of this.sessions.values()) if (session.hasPending()) this.deps.writer.enqueue(session.takeBatch());
+    for (const session of this.sessions.values()) if (session.hasPending()) this.deps.archive.enqueue(session.takeBatch());
   }
 
   /**
@@ -299,7 +300,7 @@ export class RunRecorder {
     const next = () => {
       const session = queue.shift();
       if (!session) return;
-      if (this.sessions.has(session.run.id) && session.hasPending()) this.deps.writer.enqueue(session.takeBatch());
+      if (this.sessions.has(session.run.id) && session.hasPending()) this.deps.archive.enqueue(session.takeBatch());
       setImmediate(next);
     };
     next();
@@ -335,8 +336,8 @@ export class RunRecorder {
     for (const e of out.events) this.emitEvent(session.run.id, e);
     if (out.stateChanged) this.runChanges.emit(this.liveView(session));
     if (session.shouldFinish()) void this.endSession(session, 'finished').catch((err) => this.log(`run ${session.run.id} did not end cleanly`, err));
-    else if (session.hasPending() && out.stateChanged) this.deps.writer.enqueue(session.takeBatch());
-    else if (session.readingsCount % FLUSH_READINGS === 0) this.deps.writer.enqueue(session.takeBatch());
+    else if (session.hasPending() && out.stateChanged) this.deps.archive.enqueue(session.takeBatch());
+    else if (session.readingsCount % FLUSH_READINGS === 0) this.deps.archive.enqueue(session.takeBatch());
   }
 
   private onStatus(benchId: number, status: BenchStatus): void {
@@ -358,7 +359,7 @@ export class RunRecorder {
     session.end(state);
     const summary = session.summary();
     const batch = session.takeBatch();
-    this.deps.writer.enqueue(batch);
+    this.deps.archive.enqueue(batch);
     const run: Run = { ...session.run, state, summary, readingsCount: session.readingsCount, endedAt: (batch.patch.endedAt ?? new Date()).toISOString() };
     this.runChanges.emit(run);
     return run;

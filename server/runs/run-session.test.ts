@@ -61,7 +61,7 @@ describe('RunSession', () => {
     const a = s.takeBatch();
     for (let i = 5; i < 8; i++) s.push({ t: i, volts: 12, amps: 1, clock: 'device' });
     const b = s.takeBatch();
-    expect([a.block!.firstSeq, a.block!.count, b.block!.firstSeq, b.block!.count]).toEqual([0, 5, 5, 3]);
+    expect([a.firstSeq, a.readings.length, b.firstSeq, b.readings.length]).toEqual([0, 5, 5, 3]);
     expect(a.patch.state).toBe('recording');
     expect(b.patch.state).toBeUndefined();
     const resumed = new RunSession(baseRun({ state: 'recording' }), null, measureConfigFor(baseRun(), null), JSON.parse(b.patch.pipelineState!));

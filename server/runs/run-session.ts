@@ -7,10 +7,8 @@ import type { Reading } from '../../shared/schemas/reading.js';
 import type { CutoffEvent, RunEvent } from '../../shared/schemas/run-event.js';
 import type { RunSummary } from '../../shared/schemas/run-summary.js';
 import type { Run, RunState } from '../../shared/schemas/run.js';
-import type { ArchiveBatch } from '../archive/archive-batch.js';
-import { encodeChunk } from '../archive/chunk-encode.js';
-import { readingsToColumns } from '../archive/reading-columns.js';
 import type { BatteryFacts } from './measure-config.js';
+import type { RunBatch } from './run-batch.js';
 import { emptyClockState, SourceClockGuard, type ClockGuardState } from './source-clock-guard.js';
 
 /** Everything needed to pick a run up again after a restart; stored with each batch. */
@@ -222,19 +220,15 @@ export class RunSession {
     return this.pending.length > 0 || this.pendingEvents.length > 0 || this.stateDirty;
   }
 
-  /** Hands over what is pending as one archive batch, with the state to resume from. */
-  takeBatch(): ArchiveBatch {
+  /** Hands over what is pending as one batch for the archive, with the state to resume from. */
+  takeBatch(): RunBatch {
     const readings = this.pending;
     const firstSeq = this.snap.nextSeq - readings.length;
     this.pending = [];
     const events = this.pendingEvents;
     this.pendingEvents = [];
     const final = this.snap.state === 'finished' || this.snap.state === 'aborted';
-    const block =
-      readings.length > 0
-        ? encodeChunk(firstSeq, readingsToColumns(readings))
-        : null;
-    const patch: ArchiveBatch['patch'] = {
+    const patch: RunBatch['patch'] = {
       readingsCount: this.snap.nextSeq,
       pipelineState: final ? null : JSON.stringify(this.snapshot()),
     };
@@ -248,7 +242,7 @@ export class RunSession {
       if (final) patch.endedAt = new Date();
     }
     this.stateDirty = false;
-    return { runId: this.run.id, block, events, patch };
+    return { runId: this.run.id, firstSeq, readings, events, patch };
   }
 
   /** The resumable state (JSON-safe). */

@@ -4,7 +4,7 @@ import type { RunRecorder } from './run-recorder.js';
 
 declare module '../app-context.js' {
   interface AppServices {
-    /** Records live runs; set by attachLive once the server listens. */
+    /** Records live runs; set by the composition root (attachRecording) once the server listens. */
     runRecorder: RunRecorder;
   }
 }
