@@ -2,7 +2,7 @@ import { AlarmSettingsSchema, type Alarm, type AlarmKind, type AlarmSettings, ty
 import type { Reading } from '../../shared/schemas/reading.js';
 import type { Run } from '../../shared/schemas/run.js';
 import type { RunEvent } from '../../shared/schemas/run-event.js';
-import { notFound } from '../http/http-error.js';
+import { notFound } from '../domain/domain-errors.js';
 import { ListenerSet } from '../ingest/listener-set.js';
 import type { AlarmChannels } from './alarm-channel.js';
 import type { AlarmRepo } from './alarm-repo.js';

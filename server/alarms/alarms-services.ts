@@ -1,5 +1,5 @@
 import type { AppContext } from '../app-context.js';
-import { HttpError } from '../http/http-error.js';
+import { UnavailableError } from '../domain/domain-errors.js';
 import type { AlarmChannels } from './alarm-channel.js';
 import type { AlarmService } from './alarm-service.js';
 import type { DeliveryWorker } from './delivery-worker.js';
@@ -18,9 +18,9 @@ declare module '../app-context.js' {
   }
 }
 
-/** The alarm service, or 503 when the server runs without the alarms attachment. */
+/** The alarm service, or an UnavailableError when the server runs without the alarms attachment. */
 export function alarmsOf(ctx: AppContext): AlarmService {
   const service = ctx.services.alarms;
-  if (!service) throw new HttpError(503, 'Alarms are not running on this server');
+  if (!service) throw new UnavailableError('Alarms are not running on this server');
   return service;
 }

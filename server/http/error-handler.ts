@@ -1,6 +1,8 @@
 import type { ErrorRequestHandler, RequestHandler } from 'express';
 import { ZodError } from 'zod';
 import { HttpError } from './http-error.js';
+import { domainErrorStatus } from './domain-error-status.js';
+import { DomainError } from '../domain/domain-errors.js';
 import { isConnectionFailure } from '../db/connection-errors.js';
 
 /** The JSON shape of every error answer: `{ error: { message, fields? } }`. */
@@ -53,7 +55,9 @@ function databaseError(error: unknown): { status: number; message: string } | un
 
 /**
  * The one error handler: zod → 400 with field names, body-parser → 400/413, HttpError → its
- * status, the database away (refused, broken or timed-out connection) → 503, anything else → 500 with a generic message (the details go to the server log only).
+ * status, a domain error → the status of its kind (domain-error-status.ts), the database away
+ * (refused, broken or timed-out connection) → 503, anything else → 500 with a generic message
+ * (the details go to the server log only).
  */
 export function createErrorHandler(log: (message: string, error: unknown) => void): ErrorRequestHandler {
   return (error, req, res, next) => {
@@ -61,6 +65,11 @@ export function createErrorHandler(log: (message: string, error: unknown) => voi
     const send = (status: number, body: ErrorBody['error']) => res.status(status).json({ error: body } satisfies ErrorBody);
     if (error instanceof ZodError) return send(400, { message: 'Invalid request: check the listed fields', fields: zodFields(error) });
     if (error instanceof HttpError) return send(error.status, { message: error.message, ...(error.fields && { fields: error.fields }) });
+    const domainStatus = domainErrorStatus(error);
+    if (domainStatus !== undefined) {
+      const { message, fields } = error as DomainError;
+      return send(domainStatus, { message, ...(fields && { fields }) });
+    }
     if (isConnectionFailure(error)) {
       res.set('Retry-After', String(DATABASE_RETRY_AFTER_S));
       const message = (error as Error).name === 'DatabaseUnavailableError' ? (error as Error).message : DATABASE_AWAY_MESSAGE;

@@ -1,5 +1,5 @@
 import type { AppContext } from '../app-context.js';
-import { HttpError } from '../http/http-error.js';
+import { UnavailableError } from '../domain/domain-errors.js';
 import type { VapidKeys } from './vapid-keys.js';
 
 /** What the push routes need from the running push attachment. */
@@ -15,9 +15,9 @@ declare module '../app-context.js' {
   }
 }
 
-/** The push runtime, or 503 when this server runs without Web Push. */
+/** The push runtime, or an UnavailableError when this server runs without Web Push. */
 export function pushOf(ctx: AppContext): PushRuntime {
   const push = ctx.services.push;
-  if (!push) throw new HttpError(503, 'Web Push is not running on this server');
+  if (!push) throw new UnavailableError('Web Push is not running on this server');
   return push;
 }

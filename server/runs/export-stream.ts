@@ -1,8 +1,7 @@
 import { once } from 'node:events';
 import type { Writable } from 'node:stream';
 import type { Sequelize } from 'sequelize';
-import { forEachChunk } from '../archive/chunk-store.js';
-import type { Columns } from '../archive/column-block.js';
+import { forEachChunk, type Columns } from '../archive/archive-reader.js';
 import { EXPORT_DECIMALS, formatExportNumber } from '../../shared/units/export-number.js';
 import { exportColumnName, exportDecimals, type ExportMeta } from './export-meta.js';
 

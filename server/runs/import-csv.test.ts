@@ -22,16 +22,16 @@ async function readAll(text: string | Buffer, delimiter: ',' | ';' = ',') {
 
 describe('csv errors become 400s naming the line', () => {
   it('a stray quote inside a field (1,1"3,5)', async () => {
-    await expect(readAll('t,v,a\n0,13,5\n1,1"3,5\n')).rejects.toMatchObject({ status: 400, message: expect.stringMatching(/^line 3: a quote inside an unquoted field/) });
+    await expect(readAll('t,v,a\n0,13,5\n1,1"3,5\n')).rejects.toMatchObject({ name: 'InvalidInputError', message: expect.stringMatching(/^line 3: a quote inside an unquoted field/) });
   });
   it('text after a closing quote, and a quote never closed', async () => {
-    await expect(readAll('t,v,a\n1,"13"x,5\n')).rejects.toMatchObject({ status: 400, message: expect.stringMatching(/^line 2: text after a closing quote/) });
-    await expect(readAll('t,v,a\n1,"13,5\n')).rejects.toMatchObject({ status: 400, message: expect.stringMatching(/^line 2: a quote that is never closed/) });
+    await expect(readAll('t,v,a\n1,"13"x,5\n')).rejects.toMatchObject({ name: 'InvalidInputError', message: expect.stringMatching(/^line 2: text after a closing quote/) });
+    await expect(readAll('t,v,a\n1,"13,5\n')).rejects.toMatchObject({ name: 'InvalidInputError', message: expect.stringMatching(/^line 2: a quote that is never closed/) });
   });
   it('a binary file is refused before parsing (a NUL byte), naming its line', async () => {
     const path = join(dir, 'bin.xlsx');
     await writeFile(path, Buffer.concat([Buffer.from('PK\u0003\u0004\nab\n'), Buffer.from([0, 1, 2, 0x22, 0xff])]));
-    await expect(sniffDelimiter(path)).rejects.toMatchObject({ status: 400, message: 'line 3: binary data (a NUL byte); this is not a CSV text log' });
+    await expect(sniffDelimiter(path)).rejects.toMatchObject({ name: 'InvalidInputError', message: 'line 3: binary data (a NUL byte); this is not a CSV text log' });
   });
 });
 

@@ -1,7 +1,7 @@
 import { createReadStream } from 'node:fs';
 import { open } from 'node:fs/promises';
 import { CsvError, parse } from 'csv-parse';
-import { HttpError } from '../http/http-error.js';
+import { InvalidInputError } from '../domain/domain-errors.js';
 
 /**
  * Longest line a log may have. Real loggers write lines of a few hundred bytes; without a
@@ -28,7 +28,7 @@ function meaningfulLines(text: string): { text: string; line: number }[] {
  * header and every sampled row into the same number of fields: a semicolon file with decimal
  * commas, or with commas inside its headers ("Time, s;Voltage, V"), also has commas on each
  * line, while a comma file rarely has a semicolon on every line. Otherwise comma.
- * Refuses a binary file (a NUL byte) with a 400 naming its line.
+ * Refuses a binary file (a NUL byte) with an InvalidInputError naming its line.
  */
 export function pickDelimiter(head: string): Delimiter {
   const lines = meaningfulLines(head).slice(0, SNIFF_LINES);
@@ -52,7 +52,7 @@ export async function sniffDelimiter(filePath: string): Promise<Delimiter> {
     const nulAt = head.indexOf(NUL);
     if (nulAt >= 0) {
       const line = head.subarray(0, nulAt).toString('latin1').split('\n').length;
-      throw new HttpError(400, `line ${line}: binary data (a NUL byte); this is not a CSV text log`);
+      throw new InvalidInputError(`line ${line}: binary data (a NUL byte); this is not a CSV text log`);
     }
     return pickDelimiter(head.toString('utf8'));
   } finally {
@@ -70,13 +70,13 @@ const CSV_PROBLEMS: Record<string, string> = {
   CSV_NON_TRIMABLE_CHAR_AFTER_CLOSING_QUOTE: 'text after a closing quote',
 };
 
-/** Turns any csv-parse error into a 400 that names the line; other errors pass through. */
+/** Turns any csv-parse error into an InvalidInputError that names the line; other errors pass through. */
 export function csvErrorToHttp(err: unknown): unknown {
   if (!(err instanceof CsvError)) return err;
   const line = (err as CsvError & { lines?: number }).lines ?? '?';
-  if (err.code === 'CSV_MAX_RECORD_SIZE') return new HttpError(400, `line ${line}: longer than ${MAX_CSV_LINE_BYTES} bytes; is this a CSV log?`);
+  if (err.code === 'CSV_MAX_RECORD_SIZE') return new InvalidInputError(`line ${line}: longer than ${MAX_CSV_LINE_BYTES} bytes; is this a CSV log?`);
   const problem = CSV_PROBLEMS[err.code] ?? 'not readable as CSV';
-  return new HttpError(400, `line ${line}: ${problem} (${err.message.slice(0, 160)})`);
+  return new InvalidInputError(`line ${line}: ${problem} (${err.message.slice(0, 160)})`);
 }
 
 /** Bytes read from disk at a time: large reads keep the parser busy rather than the event loop. */

@@ -1,4 +1,4 @@
-import { HttpError } from '../http/http-error.js';
+import { InvalidInputError } from '../domain/domain-errors.js';
 import { checkTimeValue, createTimeReader, inferTimeFormat, parseDecimal, type TimeFormat, type TimeFormatSource } from './import-time.js';
 
 /** Channels an imported log can carry. */
@@ -99,7 +99,7 @@ function matches(kind: ImportChannel | 'date', header: string): boolean {
 function find(headers: readonly string[], kind: ImportChannel, override?: string): Found | null {
   if (override !== undefined) {
     const index = headers.findIndex((h) => h.trim() === override.trim());
-    if (index < 0) throw new HttpError(400, `line 1: no column named "${override}" for ${kind}`, { columns: [`no column "${override}"`] });
+    if (index < 0) throw new InvalidInputError(`line 1: no column named "${override}" for ${kind}`, { columns: [`no column "${override}"`] });
     return { index, unit: splitHeader(headers[index]!).unit, column: headers[index]! };
   }
   let index = headers.findIndex((h) => matches(kind, h));
@@ -130,19 +130,19 @@ function planTemp(temp: Found, overrides: ColumnOverrides): ColumnPlan['temp'] |
     const unit = TEMP_UNIT[temp.unit];
     if (!unit) return `temperature unit "${temp.unit}"`;
     if (overrides.tempUnit && overrides.tempUnit !== unit) {
-      throw new HttpError(400, `line 1: column "${temp.column}" is in ${DEGREES[unit]} but ${DEGREES[overrides.tempUnit]} was chosen; clear the choice or fix the header`, { tempUnit: ['contradicts the header'] });
+      throw new InvalidInputError(`line 1: column "${temp.column}" is in ${DEGREES[unit]} but ${DEGREES[overrides.tempUnit]} was chosen; clear the choice or fix the header`, { tempUnit: ['contradicts the header'] });
     }
     return { ...base, unit, source: 'header' };
   }
   if (overrides.tempUnit) return { ...base, unit: overrides.tempUnit, source: 'chosen' };
   if (overrides.labTempUnit) return { ...base, unit: overrides.labTempUnit, source: 'lab' };
-  throw new HttpError(400, `line 1: temperature column "${temp.column}" names no unit; choose °C, °F or K`, { tempUnit: ['choose the unit'] });
+  throw new InvalidInputError(`line 1: temperature column "${temp.column}" names no unit; choose °C, °F or K`, { tempUnit: ['choose the unit'] });
 }
 
 /**
  * Recognises the time, volts, amps and (optional) temperature columns of a header row,
  * with or without units in the names, or takes them from `overrides`. `firstRow` lets the
- * time format be recognised when the header names none. Throws a 400 naming line 1 otherwise.
+ * time format be recognised when the header names none. Throws an InvalidInputError naming line 1 otherwise.
  */
 export function planColumns(headers: readonly string[], firstRow: readonly string[] | null, overrides: ColumnOverrides = {}): ColumnPlan {
   const time = find(headers, 'time', overrides.time);
@@ -150,7 +150,7 @@ export function planColumns(headers: readonly string[], firstRow: readonly strin
   const amps = find(headers, 'amps', overrides.amps);
   const temp = find(headers, 'temp', overrides.temp);
   const missing = [!time && 'time', !volts && 'volts', !amps && 'amps'].filter(Boolean);
-  if (missing.length) throw new HttpError(400, `line 1: no ${missing.join(', ')} column recognised in header "${headers.join(',').slice(0, 200)}"; name them or send a column mapping`, { columns: ['map the columns'] });
+  if (missing.length) throw new InvalidInputError(`line 1: no ${missing.join(', ')} column recognised in header "${headers.join(',').slice(0, 200)}"; name them or send a column mapping`, { columns: ['map the columns'] });
   const timePlan = planTime(time!, firstRow?.[time!.index]?.trim() ?? null, overrides);
   const tempPlan = temp ? planTemp(temp, overrides) : null;
   const vScale = volts!.unit === null ? 1 : VOLT_SCALE[volts!.unit];
@@ -161,7 +161,7 @@ export function planColumns(headers: readonly string[], firstRow: readonly strin
     aScale === undefined && `amps unit "${amps!.unit}"`,
     typeof tempPlan === 'string' && tempPlan,
   ].filter(Boolean);
-  if (bad.length) throw new HttpError(400, `line 1: unknown ${bad.join(', ')}`);
+  if (bad.length) throw new InvalidInputError(`line 1: unknown ${bad.join(', ')}`);
   return {
     time: timePlan as ColumnPlan['time'],
     volts: { index: volts!.index, scale: vScale! },
@@ -183,7 +183,7 @@ export interface ParsedRow {
 
 /**
  * A parser of one log's data rows by the plan (one per pass: clock times keep a day count).
- * Throws a 400 naming the line and the bad field.
+ * Throws an InvalidInputError naming the line and the bad field.
  */
 export function createRowParser(plan: ColumnPlan): (fields: readonly string[], line: number) => ParsedRow {
   const decimalComma = plan.decimalComma ?? false;
@@ -191,7 +191,7 @@ export function createRowParser(plan: ColumnPlan): (fields: readonly string[], l
   const num = (fields: readonly string[], index: number, what: string, line: number): number => {
     const raw = fields[index]?.trim() ?? '';
     const v = parseDecimal(raw, decimalComma);
-    if (!Number.isFinite(v)) throw new HttpError(400, `line ${line}: ${what} "${raw.slice(0, 40)}" is not a number`);
+    if (!Number.isFinite(v)) throw new InvalidInputError(`line ${line}: ${what} "${raw.slice(0, 40)}" is not a number`);
     return v;
   };
   return (fields, line) => {
@@ -199,7 +199,7 @@ export function createRowParser(plan: ColumnPlan): (fields: readonly string[], l
     const t = readTime(timeText);
     if (!Number.isFinite(t)) {
       const comma = !decimalComma && /^\d+,\d+$/.test(timeText) ? '; a decimal comma needs a semicolon- or tab-separated file' : '';
-      throw new HttpError(400, `line ${line}: time "${timeText.slice(0, 40)}" is not ${plan.time.format === 'iso' ? 'an ISO 8601 date-time' : `in the format ${plan.time.format}`}${comma}`, { timeFormat: ['does not match the file'] });
+      throw new InvalidInputError(`line ${line}: time "${timeText.slice(0, 40)}" is not ${plan.time.format === 'iso' ? 'an ISO 8601 date-time' : `in the format ${plan.time.format}`}${comma}`, { timeFormat: ['does not match the file'] });
     }
     checkTimeValue(t, timeText, plan.time.format, line);
     const tempText = plan.temp ? (fields[plan.temp.index]?.trim() ?? '') : '';

@@ -7,7 +7,7 @@ import type { Frame } from '../../shared/schemas/frame.js';
 import type { Reading } from '../../shared/schemas/reading.js';
 import type { CutoffEvent, RecoveryEvent, RunEvent } from '../../shared/schemas/run-event.js';
 import { ARCHIVE_BLOCK_READINGS, writeRunBatch } from '../archive/run-archive.js';
-import { HttpError } from '../http/http-error.js';
+import { InvalidInputError } from '../domain/domain-errors.js';
 import { csvRecords, sniffDelimiter } from './import-csv.js';
 import { createRowParser, type ColumnOverrides } from './import-headers.js';
 import { importNotices } from './import-notices.js';
@@ -53,7 +53,7 @@ export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: Impor
   const electrolyte = req.electrolyteTempCelsius;
   if (electrolyte !== undefined && !inCapacityFactorRange(electrolyte)) {
     const { min, max } = CAPACITY_FACTOR_CELSIUS_RANGE;
-    throw new HttpError(400, `Electrolyte temperature ${electrolyte} °C is outside the correction table (${min.toFixed(1)} to ${max.toFixed(1)} °C)`, { electrolyteTempCelsius: ['outside the table'] });
+    throw new InvalidInputError(`Electrolyte temperature ${electrolyte} °C is outside the correction table (${min.toFixed(1)} to ${max.toFixed(1)} °C)`, { electrolyteTempCelsius: ['outside the table'] });
   }
   const delimiter = await sniffDelimiter(req.filePath);
   const survey = await surveyFile(req.filePath, delimiter, req.columns, req.timeZone ?? 'UTC');

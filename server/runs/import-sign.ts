@@ -1,4 +1,4 @@
-import { HttpError } from '../http/http-error.js';
+import { InvalidInputError } from '../domain/domain-errors.js';
 
 const SECONDS_PER_HOUR = 3600;
 /** A direction carrying less than this share of the other's Ah is noise around zero, not a charge or discharge. */
@@ -50,14 +50,14 @@ export interface SignDecision {
 }
 
 const fmtV = (v: number) => `${v.toFixed(3)} V`;
-const ask = (why: string) => new HttpError(400, `The current's sign cannot be told from this file (${why}); choose which sign is discharge`, { currentSign: ['choose the sign'] });
+const ask = (why: string) => new InvalidInputError(`The current's sign cannot be told from this file (${why}); choose which sign is discharge`, { currentSign: ['choose the sign'] });
 
 /**
  * Decides which sign of the file's current is discharge, by energy rather than by row counts:
  * with current both ways, the direction whose Wh per Ah (mean voltage) is lower is discharge
  * (a pack sits below its rest voltage while discharging and above it while charging, common
  * practice), however long each lasted; with current one way only, falling voltage means
- * discharge and rising voltage charge. Throws a 400 asking for the sign when neither tells.
+ * discharge and rising voltage charge. Throws an InvalidInputError asking for the sign when neither tells.
  */
 export function decideCurrentSign(tally: SignTally): SignDecision {
   const { positive: p, negative: n } = tally;

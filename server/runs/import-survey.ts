@@ -1,4 +1,4 @@
-import { HttpError } from '../http/http-error.js';
+import { InvalidInputError } from '../domain/domain-errors.js';
 import { csvRecords, type Delimiter } from './import-csv.js';
 import { createRowParser, planColumns, type ColumnOverrides, type ColumnPlan } from './import-headers.js';
 import { createSignTally, tallyReading, type SignTally } from './import-sign.js';
@@ -47,7 +47,7 @@ export function medianOfCounts(counts: ReadonlyMap<number, number>): number | nu
 
 /**
  * Pass 1: check every row, count duplicate times, learn the cadence and the energy each way
- * of the current. Refuses (400, naming the line) a row out of time order or a time column
+ * of the current. Refuses (an InvalidInputError naming the line) a row out of time order or a time column
  * whose steps cannot be the unit claimed.
  */
 export async function surveyFile(filePath: string, delimiter: Delimiter, overrides: ColumnOverrides, timeZone: string): Promise<Survey> {
@@ -69,10 +69,10 @@ export async function surveyFile(filePath: string, delimiter: Delimiter, overrid
     }
     plan ??= makePlan(fields);
     parse ??= createRowParser(plan);
-    if (fields.length !== headers.length) throw new HttpError(400, `line ${line}: ${fields.length} fields, the header has ${headers.length}`);
+    if (fields.length !== headers.length) throw new InvalidInputError(`line ${line}: ${fields.length} fields, the header has ${headers.length}`);
     const row = parse(fields, line);
     // Out-of-order rows would be dropped by the integrator: refuse the file rather than lose them quietly.
-    if (row.t < lastT) throw new HttpError(400, `line ${line}: time goes back (${row.t} s after ${lastT} s); rows must be in time order`);
+    if (row.t < lastT) throw new InvalidInputError(`line ${line}: time goes back (${row.t} s after ${lastT} s); rows must be in time order`);
     if (row.t === lastT) {
       duplicates.count++;
       if (duplicates.lines.length < MAX_NAMED_DUPLICATES) duplicates.lines.push(line);
@@ -86,10 +86,10 @@ export async function surveyFile(filePath: string, delimiter: Delimiter, overrid
     lastT = row.t;
     rows++;
   }
-  if (!headers) throw new HttpError(400, 'line 1: the file is empty; expected a header row');
+  if (!headers) throw new InvalidInputError('line 1: the file is empty; expected a header row');
   // A header alone (or a file that is no CSV) is reported by what is wrong with its header first.
   plan ??= makePlan(null);
-  if (rows < 2) throw new HttpError(400, `line ${rows + 2}: at least two readings are needed after the header`);
+  if (rows < 2) throw new InvalidInputError(`line ${rows + 2}: at least two readings are needed after the header`);
   const medianStepS = medianOfCounts(steps);
   if (plan.temp && firstTempC !== null) checkAssumedTempUnit(plan.temp, firstTempC);
   checkTimeSteps({ format: plan.time.format, source: plan.time.source, column: plan.time.column, medianStepS, spanS: lastT - firstT });

@@ -1,4 +1,4 @@
-import { HttpError } from '../http/http-error.js';
+import { InvalidInputError } from '../domain/domain-errors.js';
 import type { ColumnPlan } from './import-headers.js';
 
 /**
@@ -19,7 +19,7 @@ const FAHRENHEIT = (celsius: number) => (celsius * 9) / 5 + 32;
 export function checkAssumedTempUnit(temp: NonNullable<ColumnPlan['temp']>, firstCelsius: number): void {
   if (temp.source !== 'lab') return;
   const ask = (shown: string, other: string) =>
-    new HttpError(400, `Temperature column "${temp.column}" names no unit and starts at ${shown} in the lab's unit, which fits ${other} better; choose the temperature unit`, { tempUnit: ['choose the unit'] });
+    new InvalidInputError(`Temperature column "${temp.column}" names no unit and starts at ${shown} in the lab's unit, which fits ${other} better; choose the temperature unit`, { tempUnit: ['choose the unit'] });
   if (temp.unit === 'C' && firstCelsius >= MAX_ASSUMED_START_CELSIUS) throw ask(`${firstCelsius.toFixed(1)} °C`, '°F');
   if (temp.unit === 'F' && FAHRENHEIT(firstCelsius) < MIN_ASSUMED_START_FAHRENHEIT) throw ask(`${FAHRENHEIT(firstCelsius).toFixed(1)} °F`, '°C');
 }

@@ -1,4 +1,4 @@
-import { HttpError } from '../http/http-error.js';
+import { InvalidInputError } from '../domain/domain-errors.js';
 import { calendarWallMs, fractionToMs, parseTimestampMs, wallMsToUtcMs } from './zoned-time.js';
 
 /**
@@ -106,7 +106,7 @@ export function isAbsoluteTime(format: TimeFormat, firstSeconds: number): boolea
   return format === 'iso' || format === 'dmy' || format === 'mdy' || format === 'serial-days' || (firstSeconds >= MIN_EPOCH_S && firstSeconds < MAX_EPOCH_SECONDS);
 }
 
-const askFormat = (message: string) => new HttpError(400, message, { timeFormat: ['choose the time format'] });
+const askFormat = (message: string) => new InvalidInputError(message, { timeFormat: ['choose the time format'] });
 
 /**
  * The format of a time column the file does not label, from its first value: clock times,

@@ -1,6 +1,6 @@
 import type { AnnotationEvent } from '../../shared/schemas/run-event.js';
 import type { Role } from '../../shared/schemas/user.js';
-import { HttpError, notFound } from '../http/http-error.js';
+import { ConflictError, ForbiddenError, notFound } from '../domain/domain-errors.js';
 import type { NoteChangeRecord, NotesRepo } from './notes-repo.js';
 
 /** Who asks for a change. */
@@ -27,8 +27,8 @@ export async function changeNote(
 ): Promise<NoteChangeRecord> {
   const stored = await repo.find(runId, eventId);
   if (!stored) throw notFound(`Event ${eventId} of run ${runId}`);
-  if (stored.event.type !== 'annotation') throw new HttpError(409, 'Only notes can be changed; the detector’s events are the record');
-  if (editor.role !== 'admin' && stored.createdById !== editor.id) throw new HttpError(403, 'Only the note’s author or a lab manager may change it');
+  if (stored.event.type !== 'annotation') throw new ConflictError('Only notes can be changed; the detector’s events are the record');
+  if (editor.role !== 'admin' && stored.createdById !== editor.id) throw new ForbiddenError('Only the note’s author or a lab manager may change it');
   const previous: AnnotationEvent = stored.event;
   const next: AnnotationEvent | null = text === null ? null : { ...previous, text };
   const change: NoteChangeRecord = { runId, eventId, previous, next, changedById: editor.id, changedByName: editor.name };

@@ -5,7 +5,7 @@ import type { Reading } from '../../shared/schemas/reading.js';
 import { LIVE_RUN_STATES, type Run } from '../../shared/schemas/run.js';
 import type { RunEvent } from '../../shared/schemas/run-event.js';
 import type { z } from 'zod';
-import { HttpError, notFound } from '../http/http-error.js';
+import { ConflictError, InvalidInputError, notFound } from '../domain/domain-errors.js';
 import { ListenerSet } from '../ingest/listener-set.js';
 import { measureConfigFor, type BatteryFacts, type SourceFacts } from './measure-config.js';
 import { MissingProtectionThresholdError, resolveProtectionChecks } from './resolve-protection-checks.js';
@@ -139,11 +139,11 @@ export class RunRecorder {
     return replayed;
   }
 
-  /** Starts a run on a bench (409 when the bench already records one). */
+  /** Starts a run on a bench (a ConflictError when the bench already records one). */
   async start(req: StartRequest, userId: number | null): Promise<Run> {
-    if (this.byBench.has(req.benchId)) throw new HttpError(409, `Bench ${req.benchId} is already recording run ${this.byBench.get(req.benchId)}`);
+    if (this.byBench.has(req.benchId)) throw new ConflictError(`Bench ${req.benchId} is already recording run ${this.byBench.get(req.benchId)}`);
     // A double-clicked Start sends two requests: the second must not slip in while the first awaits the database.
-    if (this.starting.has(req.benchId)) throw new HttpError(409, `A run is already starting on bench ${req.benchId}`);
+    if (this.starting.has(req.benchId)) throw new ConflictError(`A run is already starting on bench ${req.benchId}`);
     this.starting.add(req.benchId);
     try {
       return await this.create(req, userId);
@@ -153,9 +153,9 @@ export class RunRecorder {
   }
 
   private async create(req: StartRequest, userId: number | null): Promise<Run> {
-    if (this.deps.benchExists && !(await this.deps.benchExists(req.benchId))) throw new HttpError(400, `Bench ${req.benchId} does not exist`, { benchId: ['no such bench'] });
+    if (this.deps.benchExists && !(await this.deps.benchExists(req.benchId))) throw new InvalidInputError(`Bench ${req.benchId} does not exist`, { benchId: ['no such bench'] });
     const battery = await this.deps.getBattery(req.batteryId);
-    if (!battery) throw new HttpError(400, `Battery ${req.batteryId} does not exist`, { batteryId: ['no such battery'] });
+    if (!battery) throw new InvalidInputError(`Battery ${req.batteryId} does not exist`, { batteryId: ['no such battery'] });
     const { benchId, batteryId, name, tags, protectionChecks: requested, ...rest } = req;
     const source = await this.sourceFacts(benchId);
     // The meter's accuracy is kept with the run: a later change to the bench does not move this run's uncertainty.
@@ -177,19 +177,19 @@ export class RunRecorder {
     return this.deps.benchSourceFacts ? this.deps.benchSourceFacts(benchId) : null;
   }
 
-  /** The protections a protection-check run times (400 when one has no threshold, or there is nothing to check). */
+  /** The protections a protection-check run times (an InvalidInputError when one has no threshold, or there is nothing to check). */
   private protectionChecksFor(req: StartRequest, requested: StartRequest['protectionChecks'], battery: BatteryFacts) {
     if (req.kind !== 'protection-check') return [];
     let checks;
     try {
       checks = resolveProtectionChecks(requested, battery.protectionSpecs);
     } catch (err) {
-      if (err instanceof MissingProtectionThresholdError) throw new HttpError(400, err.message, { protectionChecks: [err.message] });
+      if (err instanceof MissingProtectionThresholdError) throw new InvalidInputError(err.message, { protectionChecks: [err.message] });
       throw err;
     }
     if (checks.length === 0 && req.tempProtections.length === 0) {
       const message = "Nothing to check: list the protections to time, or state them in the pack's record";
-      throw new HttpError(400, message, { protectionChecks: [message] });
+      throw new InvalidInputError(message, { protectionChecks: [message] });
     }
     return checks;
   }
@@ -201,7 +201,7 @@ export class RunRecorder {
       const run = await this.deps.repo.get(runId);
       if (!run) throw notFound(`Run ${runId}`);
       if (run.origin === 'live' && LIVE_RUN_STATES.includes(run.state)) return this.endStranded(run, abort ? 'aborted' : 'finished');
-      throw new HttpError(409, `Run ${runId} is ${run.state}, not live`);
+      throw new ConflictError(`Run ${runId} is ${run.state}, not live`);
     }
     return this.endSession(session, abort ? 'aborted' : 'finished');
   }
@@ -228,7 +228,7 @@ export class RunRecorder {
     const lengthS = session ? (session.lastElapsed ?? 0) + NOTE_AHEAD_OF_LIVE_S : (stored?.summary?.durationSeconds ?? null);
     if (t !== undefined && lengthS !== null && t > lengthS) {
       const what = session ? 'the latest reading' : 'the end of the run';
-      throw new HttpError(400, `The note's time (${t} s) is after ${what} (${lengthS.toFixed(1)} s)`, { t: [`at most ${lengthS.toFixed(1)} s`] });
+      throw new InvalidInputError(`The note's time (${t} s) is after ${what} (${lengthS.toFixed(1)} s)`, { t: [`at most ${lengthS.toFixed(1)} s`] });
     }
     const at = t ?? session?.lastElapsed ?? 0;
     const note = await this.deps.repo.insertEvent(runId, { type: 'annotation', t: at, text, author: author.name }, author.id);

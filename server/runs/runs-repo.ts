@@ -143,6 +143,15 @@ export class RunsRepo {
     return rows.map(rowToRun);
   }
 
+  /** The newest run the database calls live on a bench (armed to recovered), if any. */
+  async liveRunIdOnBench(benchId: number): Promise<number | undefined> {
+    const rows = await this.sequelize.query<{ id: number }>('SELECT id FROM runs WHERE benchId = ? AND state IN (?) ORDER BY id DESC LIMIT 1', {
+      replacements: [benchId, LIVE_RUN_STATES],
+      type: QueryTypes.SELECT,
+    });
+    return rows[0]?.id;
+  }
+
   /** Search and filter, newest first. `q` matches the name; `tag` one tag exactly. */
   async list(q: ListRunsQuery): Promise<{ runs: Run[]; total: number }> {
     const where: string[] = [];

@@ -1,5 +1,5 @@
 import type { AppContext } from '../app-context.js';
-import { HttpError } from '../http/http-error.js';
+import { UnavailableError } from '../domain/domain-errors.js';
 import type { RunRecorder } from './run-recorder.js';
 
 declare module '../app-context.js' {
@@ -9,9 +9,9 @@ declare module '../app-context.js' {
   }
 }
 
-/** The run recorder, or 503 when the server runs without the live attachment. */
+/** The run recorder, or an UnavailableError when the server runs without live recording. */
 export function recorderOf(ctx: AppContext): RunRecorder {
   const recorder = ctx.services.runRecorder;
-  if (!recorder) throw new HttpError(503, 'Live recording is not running on this server');
+  if (!recorder) throw new UnavailableError('Live recording is not running on this server');
   return recorder;
 }

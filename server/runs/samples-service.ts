@@ -1,10 +1,7 @@
 import type { Sequelize } from 'sequelize';
 import type { SamplesQuery, SamplesResponse } from '../../shared/schemas/api-runs.js';
-import { chunkExtent, readChunks, readStats } from '../archive/chunk-store.js';
-import { STATS_GROUP_READINGS } from '../archive/chunk-stats.js';
-import { reduceSamples, reduceStats } from '../archive/sample-reducer.js';
-import { reduceOverDischarge } from '../archive/axis-reducer.js';
-import { HttpError } from '../http/http-error.js';
+import { chunkExtent, readChunks, readStats, reduceOverDischarge, reduceSamples, reduceStats, STATS_GROUP_READINGS } from '../archive/archive-reader.js';
+import { InvalidInputError } from '../domain/domain-errors.js';
 
 /** Channels the chart needs; totals and aux columns stay compressed. */
 const CHART_COLUMNS = ['elapsed', 'volts', 'amps', 'temp:*'] as const;
@@ -22,9 +19,9 @@ export async function runSamples(sequelize: Sequelize, runId: number, q: Samples
   const extent = await chunkExtent(sequelize, runId);
   const from = q.from ?? extent?.from ?? 0;
   const to = q.to ?? extent?.to ?? 0;
-  if (to < from) throw new HttpError(400, '`to` must not be before `from`', { to: ['must be >= from'] });
+  if (to < from) throw new InvalidInputError('`to` must not be before `from`', { to: ['must be >= from'] });
   // Two finite ends can still be an infinite span (-1e308 to 1e308): every bucket time would be NaN.
-  if (!Number.isFinite(to - from)) throw new HttpError(400, 'The window from `from` to `to` is too wide', { to: ['to - from must be a finite number of seconds'] });
+  if (!Number.isFinite(to - from)) throw new InvalidInputError('The window from `from` to `to` is too wide', { to: ['to - from must be a finite number of seconds'] });
   if (!extent) return { runId, x, from, to, ...reduceSamples([], from, to, q.maxPoints) };
   // Estimate the readings in the window from the run's mean rate; the groups are exact enough
   // once each bucket would hold several of them.
@@ -45,13 +42,13 @@ export async function runSamples(sequelize: Sequelize, runId: number, q: Samples
 async function dischargeSamples(sequelize: Sequelize, runId: number, q: SamplesQuery, x: 'ah' | 'wh', maxGapSeconds?: number): Promise<SamplesResponse> {
   const extent = await chunkExtent(sequelize, runId);
   const parts = extent ? await readChunks(sequelize, runId, extent.from, extent.to, CHART_COLUMNS) : [];
-  if (q.from !== undefined && q.to !== undefined && q.to < q.from) throw new HttpError(400, '`to` must not be before `from`', { to: ['must be >= from'] });
-  if (q.from !== undefined && q.to !== undefined && !Number.isFinite(q.to - q.from)) throw new HttpError(400, 'The window from `from` to `to` is too wide', { to: ['to - from must be a finite number'] });
+  if (q.from !== undefined && q.to !== undefined && q.to < q.from) throw new InvalidInputError('`to` must not be before `from`', { to: ['must be >= from'] });
+  if (q.from !== undefined && q.to !== undefined && !Number.isFinite(q.to - q.from)) throw new InvalidInputError('The window from `from` to `to` is too wide', { to: ['to - from must be a finite number'] });
   try {
     return { runId, x, ...reduceOverDischarge(parts, x, { from: q.from, to: q.to }, q.maxPoints, maxGapSeconds) };
   } catch (e) {
     // Only `from` given and beyond the delivered total: the default `to` lies before it.
-    if (e instanceof RangeError) throw new HttpError(400, '`to` must not be before `from`', { to: ['must be >= from'] });
+    if (e instanceof RangeError) throw new InvalidInputError('`to` must not be before `from`', { to: ['must be >= from'] });
     throw e;
   }
 }

@@ -2,7 +2,7 @@ import type { CoreModels } from '../db/models/index.js';
 import { toPublicUser } from '../db/models/user.js';
 import type { CreateUserRequest, PublicUser, UpdateUserRequest } from '../../shared/schemas/user.js';
 import { hashPassword } from '../auth/password.js';
-import { HttpError, notFound } from '../http/http-error.js';
+import { ConflictError, notFound } from '../domain/domain-errors.js';
 
 /** All users, by e-mail. */
 export async function listUsers(models: CoreModels): Promise<PublicUser[]> {
@@ -10,10 +10,10 @@ export async function listUsers(models: CoreModels): Promise<PublicUser[]> {
   return rows.map(toPublicUser);
 }
 
-/** Creates a user; a taken e-mail is a 409. */
+/** Creates a user; a taken e-mail is a ConflictError. */
 export async function createUser(models: CoreModels, input: CreateUserRequest): Promise<PublicUser> {
   if (await models.User.findOne({ where: { email: input.email } })) {
-    throw new HttpError(409, 'A user with this e-mail already exists', { email: ['already in use'] });
+    throw new ConflictError('A user with this e-mail already exists', { email: ['already in use'] });
   }
   const row = await models.User.create({
     email: input.email,
@@ -32,7 +32,7 @@ export async function updateUser(models: CoreModels, actorId: number, id: number
   const row = await models.User.findByPk(id);
   if (!row) throw notFound('User');
   if (id === actorId && ((change.role && change.role !== 'admin') || change.disabled)) {
-    throw new HttpError(409, 'You cannot demote or disable your own account; ask another admin');
+    throw new ConflictError('You cannot demote or disable your own account; ask another admin');
   }
   await row.update(change);
   return toPublicUser(row);
