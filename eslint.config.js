@@ -1,7 +1,52 @@
+import { readdirSync } from 'node:fs';
+import { join } from 'node:path';
 import js from '@eslint/js';
 import tseslint from 'typescript-eslint';
 import reactHooks from 'eslint-plugin-react-hooks';
+import importPlugin from 'eslint-plugin-import';
 import globals from 'globals';
+
+const FEATURES_DIR = './src/features';
+/** Every feature folder; each is its own zone (bulletproof-react's restricted paths). */
+const features = readdirSync(join(import.meta.dirname, FEATURES_DIR), { withFileTypes: true })
+  .filter((entry) => entry.isDirectory())
+  .map((entry) => entry.name);
+
+/**
+ * Import zones: which folders may import which. The architecture in DEVELOPERS.md says why;
+ * tests/lint/import-zones.test.ts proves a forbidden import fails the lint.
+ */
+export const IMPORT_ZONES = [
+  { target: './shared', from: ['./server', './src', './simulator'], message: 'shared/ is imported by every side and imports none of them.' },
+  { target: './src', from: ['./server', './simulator'], message: 'The client reaches the server over HTTP and WebSocket only.' },
+  { target: './server', from: ['./src'], message: 'The server never imports the client.' },
+  { target: './simulator', from: ['./server', './src'], message: 'The simulator imports shared/ only.' },
+  ...features.map((feature) => ({
+    target: `${FEATURES_DIR}/${feature}`,
+    from: FEATURES_DIR,
+    except: [`./${feature}`],
+    message: 'Features do not import each other: move what two features need to src/components or src/lib.',
+  })),
+  {
+    // Domain code (everything but the HTTP layer, sign-in, the composition root and the route
+    // files, which are HTTP adapters) throws domain errors and knows no HTTP.
+    target: './server/!(http|auth|compose)/**/!(*-routes|*-route).ts',
+    from: ['./server/http', './node_modules/express', './node_modules/@types/express', './node_modules/multer'],
+    message: 'Domain code knows no HTTP: throw an error from server/domain/domain-errors.ts; server/http maps it to a status.',
+  },
+  {
+    target: './server/runs',
+    from: './server/archive',
+    except: ['./run-archive.ts', './archive-reader.ts'],
+    message: "runs/ hands readings to the archive's sink and reads through archive-reader.ts; the archive encodes its own blocks.",
+  },
+  { target: './server/runs', from: './server/live', message: 'The recorder does not publish into live/: the composition root wires the hub as a sink.' },
+  {
+    target: './server/live',
+    from: ['./server/runs', './server/archive', './server/journal'],
+    message: 'The live hub is a sink: it knows readings, not the recorder, the archive or the journal (server/compose wires them).',
+  },
+];
 
 export default tseslint.config(
   { ignores: ['dist/**', 'node_modules/**', '.data/**', 'coverage/**'] },
@@ -20,19 +65,18 @@ export default tseslint.config(
     rules: {
       'react-hooks/rules-of-hooks': 'error',
       'react-hooks/exhaustive-deps': 'warn',
-      // Imports run one way: the client never reaches into the server or the simulator.
-      'no-restricted-imports': ['error', { patterns: ['**/server/**', '**/simulator/**'] }],
     },
   },
   {
-    files: ['shared/**/*.ts'],
+    files: ['shared/**/*.ts', 'server/**/*.ts', 'src/**/*.{ts,tsx}', 'simulator/**/*.ts'],
+    plugins: { import: importPlugin },
+    settings: {
+      'import/parsers': { '@typescript-eslint/parser': ['.ts', '.tsx'] },
+      'import/resolver': { typescript: { project: ['./tsconfig.json', './tsconfig.node.json'], noWarnOnMultipleProjects: true } },
+    },
     rules: {
-      // shared/ is pure and imported by every side; it imports none of them.
-      'no-restricted-imports': ['error', { patterns: ['**/server/**', '**/src/**', '**/simulator/**'] }],
+      'import/no-restricted-paths': ['error', { zones: IMPORT_ZONES }],
+      'import/no-cycle': ['error', { ignoreExternal: true }],
     },
-  },
-  {
-    files: ['server/**/*.ts'],
-    rules: { 'no-restricted-imports': ['error', { patterns: ['**/src/**'] }] },
   },
 );

@@ -45,7 +45,7 @@ export default defineConfig({
         test: {
           name: 'unit',
           environment: 'node',
-          include: ['shared/**/*.test.ts', 'simulator/**/*.test.ts', 'server/**/*.test.ts'],
+          include: ['shared/**/*.test.ts', 'simulator/**/*.test.ts', 'server/**/*.test.ts', 'tests/lint/**/*.test.ts'],
         },
       },
       {

@@ -1,0 +1,59 @@
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { join, relative } from 'node:path';
+import { ESLint } from 'eslint';
+import { afterAll, describe, expect, it } from 'vitest';
+
+const ROOT = join(import.meta.dirname, '..', '..');
+const ZONES = 'import/no-restricted-paths';
+/** Linting starts the TypeScript resolver once per instance: a few seconds on a busy machine. */
+const LINT_TIMEOUT_MS = 60_000;
+
+// Fixture strings are linted as if they sat at the given path; they are not on disk, and the
+// cycle rule needs every module on disk, so it is off for these (the cycle case writes files).
+const eslint = new ESLint({ cwd: ROOT, overrideConfig: { rules: { 'import/no-cycle': 'off' } } });
+
+async function ruleIds(filePath: string, code: string): Promise<string[]> {
+  const [result] = await eslint.lintText(code, { filePath: join(ROOT, filePath) });
+  return result!.messages.map((m) => m.ruleId ?? `fatal: ${m.message}`);
+}
+
+const use = (spec: string, from: string) => `import ${spec} from '${from}';\nexport const used = [${spec.replace(/[{}]|type /g, '')}];\n`;
+
+describe('ESLint import zones (the lint fails on a forbidden import)', () => {
+  it.each([
+    ['shared/ importing the server', 'shared/measure/zone-fixture.ts', use('{ startServer }', '../../server/server.js')],
+    ['shared/ importing the client', 'shared/measure/zone-fixture.ts', use('{ ApiError }', '../../src/lib/api-client.js')],
+    ['the client importing the server', 'src/lib/zone-fixture.ts', use('{ RunsRepo }', '../../server/runs/runs-repo')],
+    ['one feature importing another', 'src/features/runs/zone-fixture.ts', use('{ ALARM_SW_URL }', '../alarms/api/push-browser')],
+    ['domain code importing server/http', 'server/runs/zone-fixture.ts', use('{ HttpError }', '../http/http-error.js')],
+    ['domain code importing express', 'server/benches/zone-fixture.ts', use('express', 'express')],
+    ["runs/ importing the archive's encoding", 'server/runs/zone-fixture.ts', use('{ encodeChunk }', '../archive/chunk-encode.js')],
+    ['the recorder publishing into live/', 'server/runs/zone-fixture.ts', use('{ LiveHub }', '../live/live-hub.js')],
+    ['the live hub knowing the recorder', 'server/live/zone-fixture.ts', use('{ RunRecorder }', '../runs/run-recorder.js')],
+  ])('refuses %s', async (_what, filePath, code) => {
+    expect(await ruleIds(filePath, code)).toContain(ZONES);
+  }, LINT_TIMEOUT_MS);
+
+  it.each([
+    ['a route file using server/http', 'server/runs/zone-fixture-routes.ts', use('{ HttpError }', '../http/http-error.js')],
+    ["runs/ using the archive's sink and reader", 'server/runs/zone-fixture.ts', `${use('{ writeRunBatch }', '../archive/run-archive.js')}import { readChunks } from '../archive/archive-reader.js';\nexport const r = readChunks;\n`],
+    ['domain code throwing domain errors', 'server/benches/zone-fixture.ts', use('{ ConflictError }', '../domain/domain-errors.js')],
+    ['a feature using src/lib', 'src/features/runs/zone-fixture.ts', use('{ queryKeys }', '../../lib/queries/query-keys')],
+    ['the server using shared/', 'server/runs/zone-fixture.ts', use('{ FrameSchema }', '../../shared/schemas/frame.js')],
+  ])('allows %s', async (_what, filePath, code) => {
+    expect(await ruleIds(filePath, code)).toEqual([]);
+  }, LINT_TIMEOUT_MS);
+});
+
+describe('ESLint refuses import cycles', () => {
+  const dir = mkdtempSync(join(ROOT, 'server', 'lint-cycle-fixture-'));
+  afterAll(() => rmSync(dir, { recursive: true, force: true }));
+
+  it('reports two modules that import each other', async () => {
+    writeFileSync(join(dir, 'a.ts'), "import { b } from './b.js';\n/** Fixture. */\nexport const a = () => b();\n");
+    writeFileSync(join(dir, 'b.ts'), "import { a } from './a.js';\n/** Fixture. */\nexport const b = (): unknown => a;\n");
+    const withCycles = new ESLint({ cwd: ROOT });
+    const [result] = await withCycles.lintFiles([relative(ROOT, join(dir, 'a.ts'))]);
+    expect(result!.messages.map((m) => m.ruleId)).toContain('import/no-cycle');
+  }, LINT_TIMEOUT_MS);
+});
