@@ -46,6 +46,12 @@ export const IMPORT_ZONES = [
     from: ['./server/runs', './server/archive', './server/journal'],
     message: 'The live hub is a sink: it knows readings, not the recorder, the archive or the journal (server/compose wires them).',
   },
+  {
+    // Only server.ts (and the old live/attach-live.ts alias) take the composition root; the areas it wires never do.
+    target: ['./server/!(compose|live)/**/*.ts', './server/live/!(attach-live).ts'],
+    from: './server/compose',
+    message: 'The composition root wires the areas; they do not import it back.',
+  },
 ];
 
 export default tseslint.config(

@@ -1,8 +1,5 @@
-import type { RunEvent } from '../../shared/schemas/run-event.js';
-import type { RunPatch } from '../runs/run-batch.js';
+import type { RunBatch } from '../runs/run-batch.js';
 import type { EncodedChunk } from './chunk-encode.js';
-
-export type { RunPatch };
 
 /**
  * One unit of archive work, written in one transaction: readings (as an encoded column
@@ -12,8 +9,8 @@ export type { RunPatch };
 export interface ArchiveBatch {
   runId: number;
   block: EncodedChunk | null;
-  events: { eventSeq: number; event: RunEvent }[];
-  patch: RunPatch;
+  events: RunBatch['events'];
+  patch: RunBatch['patch'];
 }
 
 /** Rough size of a batch in memory, for the writer's memory bound. */

@@ -30,6 +30,8 @@ describe('ESLint import zones (the lint fails on a forbidden import)', () => {
     ["runs/ importing the archive's encoding", 'server/runs/zone-fixture.ts', use('{ encodeChunk }', '../archive/chunk-encode.js')],
     ['the recorder publishing into live/', 'server/runs/zone-fixture.ts', use('{ LiveHub }', '../live/live-hub.js')],
     ['the live hub knowing the recorder', 'server/live/zone-fixture.ts', use('{ RunRecorder }', '../runs/run-recorder.js')],
+    ['an area importing the composition root', 'server/runs/zone-fixture.ts', use('{ attachRecording }', '../compose/recording-root.js')],
+    ['the live hub importing the composition root', 'server/live/zone-fixture.ts', use('{ attachRecording }', '../compose/recording-root.js')],
   ])('refuses %s', async (_what, filePath, code) => {
     expect(await ruleIds(filePath, code)).toContain(ZONES);
   }, LINT_TIMEOUT_MS);
