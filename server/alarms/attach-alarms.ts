@@ -25,13 +25,28 @@ function serverUrl(httpServer: Server, host: string): string {
   return `http://${h}:${address?.port ?? 0}`;
 }
 
+/** Options for the alarms attachment. */
+export interface AlarmsAttachmentOptions {
+  /** The clock of the alarm service and the delivery worker (tests move it on to make escalations due). */
+  nowMs?: () => number;
+}
+
+/** The alarms attachment with options (tests pass a clock); the server runs `attachAlarms`. */
+export function alarmsAttachment(options: AlarmsAttachmentOptions = {}) {
+  return (httpServer: Server, ctx: AppContext) => attachAlarmsWith(options, httpServer, ctx);
+}
+
+/** The alarms attachment as the server runs it (the system clock). */
+export const attachAlarms = alarmsAttachment();
+
 /**
  * Server attachment for alarms: the delivery queue and its worker, the channels (in-app,
  * e-mail over SMTP or, outside production without KNEEPOINT_SMTP_URL, the local fake SMTP
  * server whose mail lands in the outbox), and the alarm service as a sink of the run
  * recorder. Runs after the live attachment, whose recorder it listens to.
  */
-export async function attachAlarms(httpServer: Server, ctx: AppContext): Promise<() => Promise<void>> {
+async function attachAlarmsWith(options: AlarmsAttachmentOptions, httpServer: Server, ctx: AppContext): Promise<() => Promise<void>> {
+  const { nowMs } = options;
   const cfg = ctx.config.alarms ?? DEFAULT_ALARM_DELIVERY;
   const log = (m: string, e?: unknown) => (e ? ctx.log.error(m, e) : ctx.log.warn(m));
   const repo = new AlarmRepo(ctx.sequelize);
@@ -51,12 +66,12 @@ export async function attachAlarms(httpServer: Server, ctx: AppContext): Promise
   else ctx.log.warn('Alarms: KNEEPOINT_SMTP_URL is not set, so no alarm e-mail goes out');
 
   const worker = new DeliveryWorker({
-    queue, repo, channels, log,
+    queue, repo, channels, log, nowMs,
     labSettings: () => getLabSettings(ctx.models),
     publicUrl: () => cfg.publicUrl ?? serverUrl(httpServer, ctx.config.host),
   });
   const service = new AlarmService({
-    repo, queue, channels, log, kick: () => worker.kick(),
+    repo, queue, channels, log, nowMs, kick: () => worker.kick(),
     recordRunEvent: async (runId, event, userId) => {
       const recorder = ctx.services.runRecorder;
       if (recorder) await recorder.addStoredEvent(runId, event, userId);
