@@ -1,6 +1,9 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { SamplesResponseSchema } from '../../../../shared/schemas/api-runs';
-import { CreateShareLinkResponseSchema, ShareLinksResponseSchema, SharedReportSchema, type CreateShareLinkRequest, type ShareTargetKind } from '../../../../shared/schemas/share';
+import {
+  CreateShareLinkResponseSchema, EmailShareLinkResponseSchema, ShareLinksResponseSchema, SharedReportSchema,
+  type CreateShareLinkRequest, type EmailShareLinkRequest, type ShareTargetKind,
+} from '../../../../shared/schemas/share';
 import { z } from 'zod';
 import { api } from '../../../lib/api-client';
 import { queryKeys } from '../../../lib/queries/query-keys';
@@ -20,6 +23,14 @@ export function useCreateShareLink(kind: ShareTargetKind, targetId: number) {
     mutationFn: (body: Omit<CreateShareLinkRequest, 'kind' | 'targetId'>) =>
       api('/api/share-links', { method: 'POST', body: { ...body, kind, targetId }, schema: CreateShareLinkResponseSchema }),
     onSuccess: () => queryClient.invalidateQueries({ queryKey: queryKeys.shareLinks(kind, targetId) }),
+  });
+}
+
+/** POST /api/share-links/:id/email: queues the link in an e-mail to a client (the token proves the link was just made). */
+export function useEmailShareLink() {
+  return useMutation({
+    mutationFn: ({ linkId, ...body }: EmailShareLinkRequest & { linkId: number }) =>
+      api(`/api/share-links/${linkId}/email`, { method: 'POST', body, schema: EmailShareLinkResponseSchema }),
   });
 }
 
