@@ -111,6 +111,7 @@ describe('Web Push alarms', () => {
     const acked = (await anonymous.post('/api/push/acknowledge').send({ alarmId: payload.alarmId, token: payload.ackToken }).expect(200)).body.alarm;
     expect(acked.acknowledgedBy.name).toBe('Test Technician');
     const events = (await tech.get(`/api/runs/${run.id}/events`).expect(200)).body.events as { event: { type: string; by?: string; alarmId?: number } }[];
-    expect(events.map((e) => e.event)).toContainEqual(expect.objectContaining({ type: 'alarm-ack', alarmId: payload.alarmId, by: 'Test Technician' }));
+    // Who and when: the run event carries the acknowledging person and the alarm's own acknowledgement time.
+    expect(events.map((e) => e.event)).toContainEqual(expect.objectContaining({ type: 'alarm-ack', alarmId: payload.alarmId, by: 'Test Technician', at: acked.acknowledgedAt }));
   });
 });
