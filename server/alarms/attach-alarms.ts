@@ -79,9 +79,9 @@ async function attachAlarmsWith(options: AlarmsAttachmentOptions, httpServer: Se
     ctx.services.outboundMail = {
       queue: mailQueue, from: cfg.mailFrom, publicUrl,
       seal: (secret) => sealSecret(secretKey, secret),
-      send: async (mail) => {
-        const id = await mailQueue.enqueue(mail, new Date((nowMs ?? Date.now)()));
-        worker.kick();
+      send: async (mail, limit) => {
+        const id = await mailQueue.enqueue(mail, new Date((nowMs ?? Date.now)()), limit);
+        if (id !== null) worker.kick();
         return id;
       },
     };

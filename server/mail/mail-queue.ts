@@ -73,24 +73,29 @@ export class MailQueue {
     return (result as { affectedRows?: number }).affectedRows ?? 0;
   }
 
-  /** Adds a message due now; returns its row id. */
-  async enqueue(mail: NewMail, at: Date): Promise<number> {
-    const [id] = await this.sequelize.query(
-      `INSERT INTO mail_queue (purpose, refId, requestedById, toAddress, replyTo, subject, textBody, htmlBody, messageId, sealedSecret, status, attempts, nextAttemptAt, createdAt)
-       VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, 'pending', 0, ?, ?)`,
-      {
-        replacements: [mail.purpose, mail.refId, mail.requestedById, mail.to, mail.replyTo, mail.subject, mail.text, mail.html,
-          `<mail-${randomUUID()}@kneepoint.invalid>`, mail.sealedSecret, utcDateTime(at), utcDateTime(at)],
-        type: QueryTypes.INSERT,
-      });
-    return Number(id);
-  }
-
-  /** How many messages this person queued since `since` (the rate limit counts them). */
-  async countSince(requestedById: number, since: Date): Promise<number> {
-    const [row] = await this.sequelize.query<{ n: number | string }>('SELECT COUNT(*) AS n FROM mail_queue WHERE requestedById = ? AND createdAt > ?',
-      { replacements: [requestedById, utcDateTime(since)], type: QueryTypes.SELECT });
-    return Number(row?.n ?? 0);
+  /**
+   * Adds a message due at `at` unless its requester already queued `limit.count` since
+   * `limit.since`; returns the row id, or null when over the limit. The requester's user row
+   * is locked for the count and the insert, so parallel requests cannot all slip under it.
+   */
+  async enqueue(mail: NewMail, at: Date, limit?: { count: number; since: Date }): Promise<number | null> {
+    return this.sequelize.transaction(async (transaction) => {
+      if (limit && mail.requestedById !== null) {
+        await this.sequelize.query('SELECT id FROM users WHERE id = ? FOR UPDATE', { replacements: [mail.requestedById], type: QueryTypes.SELECT, transaction });
+        const [row] = await this.sequelize.query<{ n: number | string }>('SELECT COUNT(*) AS n FROM mail_queue WHERE requestedById = ? AND createdAt > ?',
+          { replacements: [mail.requestedById, utcDateTime(limit.since)], type: QueryTypes.SELECT, transaction });
+        if (Number(row?.n ?? 0) >= limit.count) return null;
+      }
+      const [id] = await this.sequelize.query(
+        `INSERT INTO mail_queue (purpose, refId, requestedById, toAddress, replyTo, subject, textBody, htmlBody, messageId, sealedSecret, status, attempts, nextAttemptAt, createdAt)
+         VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, 'pending', 0, ?, ?)`,
+        {
+          replacements: [mail.purpose, mail.refId, mail.requestedById, mail.to, mail.replyTo, mail.subject, mail.text, mail.html,
+            `<mail-${randomUUID()}@kneepoint.invalid>`, mail.sealedSecret, utcDateTime(at), utcDateTime(at)],
+          type: QueryTypes.INSERT, transaction,
+        });
+      return Number(id);
+    });
   }
 
   /** Claims up to `limit` due rows for `leaseMs` (see DeliveryQueue.claimDue for the in-doubt note). */

@@ -5,8 +5,8 @@ import type { MailQueue, NewMail } from './mail-queue.js';
 /** Outbound mail as routes use it: queue a message, seal its secret, build links. */
 export interface OutboundMail {
   queue: MailQueue;
-  /** Queues a message and has the worker send it soon; returns its row id. */
-  send(mail: NewMail): Promise<number>;
+  /** Queues a message and has the worker send it soon; returns its row id, or null when the requester is over `limit`. */
+  send(mail: NewMail, limit?: { count: number; since: Date }): Promise<number | null>;
   /** Seals a secret (a share token) for the queue row. */
   seal(secret: string): string;
   /** Base of links in mail, e.g. https://lab.example (no trailing slash). */

@@ -83,15 +83,14 @@ export function createShareLinksRouter(ctx: AppContext): Router {
     if (!active || active.id !== link.id)
       throw new HttpError(400, 'This link cannot be e-mailed: it is revoked or expired, or the token is not this link\'s', { token: ['not the token of an active link'] });
     const mail = outboundMailOf(ctx);
-    const sentLastHour = await mail.queue.countSince(req.user!.id, new Date(Date.now() - HOUR_MS));
-    if (sentLastHour >= SHARE_MAILS_PER_HOUR) throw new HttpError(429, `At most ${SHARE_MAILS_PER_HOUR} share e-mails an hour per person: try again later`);
     const lab = await getLabSettings(ctx.models);
     const what = link.kind === 'run' ? `run ${(await runs.get(link.targetId))?.name ?? link.targetId}` : await packName(link.targetId);
     const content = buildShareMail({ labName: lab.labName, senderName: req.user!.name, what, message: body.message, publicUrl: mail.publicUrl(), expires: labTime(link.expiresAt, lab.timeZone) });
     const mailId = await mail.send({
       purpose: 'share-link', refId: link.id, requestedById: req.user!.id, to: body.to, replyTo: replyToOf(req.user!.email),
       ...content, sealedSecret: mail.seal(body.token),
-    });
+    }, { count: SHARE_MAILS_PER_HOUR, since: new Date(Date.now() - HOUR_MS) });
+    if (mailId === null) throw new HttpError(429, `At most ${SHARE_MAILS_PER_HOUR} share e-mails an hour per person: try again later`);
     res.status(202).json({ queued: true, mailId });
   });
 

@@ -103,8 +103,10 @@ describe('e-mailing a share link to a client', () => {
     for (let i = 2; i < SHARE_MAILS_PER_HOUR; i++) await tech.post(`/api/share-links/${link.id}/email`).send({ token: link.token, to: CLIENT }).expect(202);
     const limited = await tech.post(`/api/share-links/${link.id}/email`).send({ token: link.token, to: CLIENT }).expect(429);
     expect(limited.body.error.message).toMatch(/an hour/);
-    // Another person's allowance is their own.
-    await admin.post(`/api/share-links/${link.id}/email`).send({ token: link.token, to: CLIENT }).expect(202);
+    // Another person's allowance is their own, and a burst of parallel requests cannot slip past it.
+    const burst = await Promise.all(Array.from({ length: SHARE_MAILS_PER_HOUR + 5 }, () => admin.post(`/api/share-links/${link.id}/email`).send({ token: link.token, to: CLIENT })));
+    expect(burst.filter((r) => r.status === 202)).toHaveLength(SHARE_MAILS_PER_HOUR);
+    expect(burst.filter((r) => r.status === 429)).toHaveLength(5);
   });
 
   it('a revoked link can no longer be e-mailed', async () => {
