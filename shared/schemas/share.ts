@@ -60,6 +60,19 @@ export type EmailShareLinkRequest = z.input<typeof EmailShareLinkRequestSchema>;
 /** The answer: the mail is queued (it goes out within seconds, retried while SMTP is away). */
 export const EmailShareLinkResponseSchema = z.object({ queued: z.literal(true), mailId: z.number().int() });
 
+/** One e-mail of a link, as GET /api/share-links/:id/mails lists it (never the body). */
+export const ShareLinkMailSchema = z.object({
+  id: z.number().int(),
+  toAddress: z.string(),
+  status: z.enum(['pending', 'sent', 'failed']),
+  attempts: z.number().int(),
+  lastError: z.string().nullable(),
+  createdAt: z.string(),
+  sentAt: z.string().nullable(),
+});
+export type ShareLinkMail = z.infer<typeof ShareLinkMailSchema>;
+export const ShareLinkMailsResponseSchema = z.object({ mails: z.array(ShareLinkMailSchema) });
+
 /** A link as its makers see it (never the token, which only the creating answer carries). */
 export const ShareLinkSchema = z.object({
   id: z.number().int(),

@@ -38,6 +38,8 @@ describe('a share link sent by e-mail', () => {
     await form.getByLabel('Message (optional)').fill('Hello,\nthe capacity report for your pack is ready.');
     await form.getByRole('button', { name: 'Send by e-mail' }).click();
     await form.getByText(`Queued: the e-mail to ${CLIENT} goes out within seconds.`).waitFor();
+    // The link's entry follows the queue until the mail went out.
+    await page.getByRole('list', { name: 'E-mails of this link' }).getByText(new RegExp(`E-mailed to ${CLIENT.replace('.', '\\.')} .*: sent$`)).waitFor({ timeout: 20_000 });
     await page.screenshot({ path: `${SCREENSHOT_DIR}/share-by-email.png`, fullPage: true });
     await page.close();
 

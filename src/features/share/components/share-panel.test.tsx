@@ -16,11 +16,21 @@ afterEach(() => vi.unstubAllGlobals());
 describe('share panel: send the link by e-mail', () => {
   it('sends the new link\'s token, the address and the note; shows the server\'s address error beside the field', async () => {
     let refuse = true;
+    let made = false;
+    let sent = false;
     const { calls } = stubApi(demoUser('technician'), (url, init) => {
-      if (url === '/api/share-links' && init?.method === 'POST') return { status: 201, body: { link: LINK, token: TOKEN, path: `/s/${TOKEN}` } };
-      if (url.startsWith('/api/share-links?')) return { status: 200, body: { links: [] } };
+      if (url === '/api/share-links' && init?.method === 'POST') {
+        made = true;
+        return { status: 201, body: { link: LINK, token: TOKEN, path: `/s/${TOKEN}` } };
+      }
+      if (url.startsWith('/api/share-links?')) return { status: 200, body: { links: made ? [LINK] : [] } };
+      if (url === '/api/share-links/4/mails') {
+        const mails = sent ? [{ id: 1, toAddress: 'buyer@client-firm.test', status: 'sent', attempts: 1, lastError: null, createdAt: 'T1', sentAt: 'T2' }] : [];
+        return { status: 200, body: { mails } };
+      }
       if (url === '/api/share-links/4/email') {
         if (refuse) return { status: 400, body: { error: { message: 'Invalid request: check the listed fields', fields: { to: ['an e-mail address such as client@example.com'] } } } };
+        sent = true;
         return { status: 202, body: { queued: true, mailId: 1 } };
       }
       return undefined;
@@ -43,7 +53,10 @@ describe('share panel: send the link by e-mail', () => {
     refuse = false;
     await userEvent.click(screen.getByRole('button', { name: 'Send by e-mail' }));
     await waitFor(() => expect(screen.getByText(/Queued: the e-mail to buyer@client-firm.test goes out within seconds/)).toBeTruthy());
-    const sent = calls.filter((c) => c.url === '/api/share-links/4/email').at(-1)!;
-    expect(JSON.parse(String(sent.init!.body))).toEqual({ token: TOKEN, to: 'buyer@client-firm.test', message: 'Hello,\nthe report is ready.' });
+    const request = calls.filter((c) => c.url === '/api/share-links/4/email').at(-1)!;
+    expect(JSON.parse(String(request.init!.body))).toEqual({ token: TOKEN, to: 'buyer@client-firm.test', message: 'Hello,\nthe report is ready.' });
+    // The link's list says to whom it was e-mailed and that it went out.
+    const mails = await screen.findByRole('list', { name: 'E-mails of this link' });
+    expect(mails.textContent).toBe('E-mailed to buyer@client-firm.test T1: sent');
   });
 });

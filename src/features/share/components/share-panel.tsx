@@ -5,7 +5,25 @@ import { Card } from '../../../components/ui/card';
 import { TextField } from '../../../components/ui/field';
 import { Loading, QueryError } from '../../../components/ui/status';
 import { ApiError } from '../../../lib/api-client';
-import { useCreateShareLink, useEmailShareLink, useRevokeShareLink, useShareLinks } from '../api/share-links';
+import { useCreateShareLink, useEmailShareLink, useRevokeShareLink, useShareLinkMails, useShareLinks } from '../api/share-links';
+
+const MAIL_STATE: Record<'pending' | 'sent' | 'failed', string> = { pending: 'waiting to go out', sent: 'sent', failed: 'could not be sent' };
+
+/** The e-mails of one link: to whom and whether each went out (nothing when there are none). */
+function LinkMails({ linkId, formatTime }: { linkId: number; formatTime: (iso: string) => string }) {
+  const mails = useShareLinkMails(linkId);
+  if (!mails.data || mails.data.length === 0) return null;
+  return (
+    <ul className="w-full text-ink-muted" aria-label="E-mails of this link">
+      {mails.data.map((m) => (
+        <li key={m.id}>
+          E-mailed to {m.toAddress} {formatTime(m.createdAt)}: {MAIL_STATE[m.status]}
+          {m.status !== 'sent' && m.lastError ? ` (${m.lastError})` : ''}
+        </li>
+      ))}
+    </ul>
+  );
+}
 
 /** The link just made: its address and the token that lets it be e-mailed (shown once). */
 interface MadeLink {
@@ -123,6 +141,7 @@ export function SharePanel({ kind, targetId, formatTime }: { kind: ShareTargetKi
                   Revoke
                 </Button>
               )}
+              <LinkMails linkId={link.id} formatTime={formatTime} />
             </li>
           ))}
         </ul>
