@@ -12,6 +12,10 @@ import { DeliveryWorker } from './delivery-worker.js';
 import { createSmtpTransport, emailChannel } from './email-channel.js';
 import { FakeSmtpServer } from './fake-smtp.js';
 import { RunEndEstimates } from './run-end-estimates.js';
+import { MailQueue } from '../mail/mail-queue.js';
+import '../mail/mail-services.js';
+import { MailWorker } from '../mail/mail-worker.js';
+import { sealingKey, sealSecret } from '../mail/sealed-secret.js';
 
 /** Alarm delivery when the config names none (a config built by hand, as tests do). */
 export const DEFAULT_ALARM_DELIVERY: AlarmDeliveryConfig = {
@@ -25,13 +29,28 @@ function serverUrl(httpServer: Server, host: string): string {
   return `http://${h}:${address?.port ?? 0}`;
 }
 
+/** Options for the alarms attachment. */
+export interface AlarmsAttachmentOptions {
+  /** The clock of the alarm service and the delivery worker (tests move it on to make escalations due). */
+  nowMs?: () => number;
+}
+
+/** The alarms attachment with options (tests pass a clock); the server runs `attachAlarms`. */
+export function alarmsAttachment(options: AlarmsAttachmentOptions = {}) {
+  return (httpServer: Server, ctx: AppContext) => attachAlarmsWith(options, httpServer, ctx);
+}
+
+/** The alarms attachment as the server runs it (the system clock). */
+export const attachAlarms = alarmsAttachment();
+
 /**
  * Server attachment for alarms: the delivery queue and its worker, the channels (in-app,
  * e-mail over SMTP or, outside production without KNEEPOINT_SMTP_URL, the local fake SMTP
  * server whose mail lands in the outbox), and the alarm service as a sink of the run
  * recorder. Runs after the live attachment, whose recorder it listens to.
  */
-export async function attachAlarms(httpServer: Server, ctx: AppContext): Promise<() => Promise<void>> {
+async function attachAlarmsWith(options: AlarmsAttachmentOptions, httpServer: Server, ctx: AppContext): Promise<() => Promise<void>> {
+  const { nowMs } = options;
   const cfg = ctx.config.alarms ?? DEFAULT_ALARM_DELIVERY;
   const log = (m: string, e?: unknown) => (e ? ctx.log.error(m, e) : ctx.log.warn(m));
   const repo = new AlarmRepo(ctx.sequelize);
@@ -47,16 +66,34 @@ export async function attachAlarms(httpServer: Server, ctx: AppContext): Promise
     ctx.services.fakeSmtp = fake;
     ctx.log.info(`Alarm mail goes to the local fake SMTP server at ${fake.url} (read it under Alarms, Outbox)`);
   }
-  if (smtpUrl) channels.register(emailChannel(createSmtpTransport({ url: smtpUrl, requireTls: cfg.smtpRequireTls, from: cfg.mailFrom }), cfg.mailFrom));
-  else ctx.log.warn('Alarms: KNEEPOINT_SMTP_URL is not set, so no alarm e-mail goes out');
+  const publicUrl = () => cfg.publicUrl ?? serverUrl(httpServer, ctx.config.host);
+  let mailWorker: MailWorker | undefined;
+  if (smtpUrl) {
+    const transport = createSmtpTransport({ url: smtpUrl, requireTls: cfg.smtpRequireTls, from: cfg.mailFrom });
+    channels.register(emailChannel(transport, cfg.mailFrom));
+    // Outbound mail that is not an alarm (share links) takes the same transport and retry policy.
+    const mailQueue = new MailQueue(ctx.sequelize, { firstMs: cfg.retryFirstMs, maxMs: cfg.retryMaxMs, maxAttempts: cfg.maxAttempts });
+    const secretKey = sealingKey(ctx.config.sessionSecret);
+    const worker = new MailWorker({ queue: mailQueue, transport, from: cfg.mailFrom, secretKey, nowMs, log });
+    mailWorker = worker;
+    ctx.services.outboundMail = {
+      queue: mailQueue, from: cfg.mailFrom, publicUrl,
+      seal: (secret) => sealSecret(secretKey, secret),
+      send: async (mail, limit) => {
+        const id = await mailQueue.enqueue(mail, new Date((nowMs ?? Date.now)()), limit);
+        if (id !== null) worker.kick();
+        return id;
+      },
+    };
+  } else ctx.log.warn('Alarms: KNEEPOINT_SMTP_URL is not set, so no alarm e-mail (and no share link by e-mail) goes out');
 
   const worker = new DeliveryWorker({
-    queue, repo, channels, log,
+    queue, repo, channels, log, nowMs,
     labSettings: () => getLabSettings(ctx.models),
-    publicUrl: () => cfg.publicUrl ?? serverUrl(httpServer, ctx.config.host),
+    publicUrl,
   });
   const service = new AlarmService({
-    repo, queue, channels, log, kick: () => worker.kick(),
+    repo, queue, channels, log, nowMs, kick: () => worker.kick(),
     recordRunEvent: async (runId, event, userId) => {
       const recorder = ctx.services.runRecorder;
       if (recorder) await recorder.addStoredEvent(runId, event, userId);
@@ -86,10 +123,13 @@ export async function attachAlarms(httpServer: Server, ctx: AppContext): Promise
   ctx.services.alarmDelivery = worker;
   service.start();
   worker.start();
+  mailWorker?.start();
   return async () => {
     for (const off of offs) off();
     await service.stop();
     await worker.stop();
+    await mailWorker?.stop();
+    delete ctx.services.outboundMail;
     await fake?.stop();
     delete ctx.services.alarms;
     delete ctx.services.alarmChannels;

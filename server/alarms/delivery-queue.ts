@@ -8,6 +8,8 @@ import { retryDelayMs } from './alarm-rules.js';
 export type DeliveryStatus = 'pending' | 'sent' | 'failed' | 'cancelled';
 /** Longest error text kept on a row. */
 const MAX_ERROR_CHARS = 1000;
+/** Noted on a row taken again after its claim ran out with no result (see claimDue). */
+export const IN_DOUBT_ERROR = 'the previous attempt ended without a result (server stopped while sending?): sent again';
 
 /** One row to add: this alarm, to this person, by this channel, at this escalation step. */
 export interface DeliveryKey {
@@ -20,6 +22,7 @@ export interface DeliveryKey {
 /** A claimed row, with the token that proves this worker holds it. */
 export interface ClaimedDelivery extends DeliveryKey {
   id: number;
+  /** Attempts started, this one included. */
   attempts: number;
   claimToken: string;
 }
@@ -45,7 +48,9 @@ export interface RetryPolicy {
  * The durable delivery queue (table alarm_deliveries). Rows are unique per alarm, person,
  * channel and step, so raising or escalating twice adds nothing. A worker claims due rows
  * with one UPDATE that stamps its token and a lease: two workers, or a restarted server,
- * never take the same row while the lease runs.
+ * never take the same row while the lease runs. Delivery is at least once: a holder that
+ * dies after handing a message over but before marking it sent leaves the row to be sent
+ * again when the lease ends (channels make such a repeat recognisable; docs/api.md, Delivery).
  */
 export class DeliveryQueue {
   constructor(private readonly sequelize: Sequelize, private readonly policy: RetryPolicy) {}
@@ -70,11 +75,18 @@ export class DeliveryQueue {
     if (channels.length === 0) return [];
     const token = randomUUID();
     const at = utcDateTime(now);
+    // The attempt is counted when it is claimed, so a server that dies mid-send has used one.
+    // A claim token still set when the lease ran out means its holder never reported back
+    // (it stopped between handing the message over and marking it): the outcome is unknown,
+    // the row goes out again and says so. MariaDB applies SET left to right, so lastError
+    // reads the old token.
     const claimed = await this.exec(
-      `UPDATE alarm_deliveries SET claimToken = ?, claimedUntil = ?
+      `UPDATE alarm_deliveries SET attempts = attempts + 1,
+         lastError = CASE WHEN claimToken IS NOT NULL THEN ? ELSE lastError END,
+         claimToken = ?, claimedUntil = ?
        WHERE status = 'pending' AND channel IN (?) AND nextAttemptAt <= ? AND (claimedUntil IS NULL OR claimedUntil <= ?)
        ORDER BY id LIMIT ${Math.max(1, Math.floor(limit))}`,
-      [token, utcDateTime(new Date(now.getTime() + leaseMs)), channels, at, at]);
+      [IN_DOUBT_ERROR, token, utcDateTime(new Date(now.getTime() + leaseMs)), channels, at, at]);
     if (claimed === 0) return [];
     return this.sequelize.query<ClaimedDelivery>(
       `SELECT id, alarmId, userId, channel, step, attempts, claimToken FROM alarm_deliveries WHERE claimToken = ? AND status = 'pending' ORDER BY id`,
@@ -83,18 +95,19 @@ export class DeliveryQueue {
 
   /** The row went out. */
   async markSent(row: ClaimedDelivery, now: Date): Promise<void> {
-    await this.exec(`UPDATE alarm_deliveries SET status = 'sent', sentAt = ?, attempts = attempts + 1, lastError = NULL, claimToken = NULL, claimedUntil = NULL WHERE id = ? AND claimToken = ?`,
-      [utcDateTime(now), row.id, row.claimToken]);
+    // An in-doubt note stays on the sent row: the admin's log then shows it may have gone twice.
+    await this.exec(`UPDATE alarm_deliveries SET status = 'sent', sentAt = ?, lastError = CASE WHEN lastError = ? THEN lastError ELSE NULL END, claimToken = NULL, claimedUntil = NULL WHERE id = ? AND claimToken = ?`,
+      [utcDateTime(now), IN_DOUBT_ERROR, row.id, row.claimToken]);
   }
 
   /** The attempt failed: retry later with back-off, or give up (`permanent`, or out of attempts). */
   async markFailed(row: ClaimedDelivery, error: string, now: Date, permanent = false): Promise<DeliveryStatus> {
-    const attempts = row.attempts + 1;
+    const { attempts } = row;
     const status: DeliveryStatus = permanent || attempts >= this.policy.maxAttempts ? 'failed' : 'pending';
     const next = new Date(now.getTime() + retryDelayMs(attempts, this.policy.firstMs, this.policy.maxMs));
     // A row cancelled while this attempt ran stays cancelled.
-    await this.exec(`UPDATE alarm_deliveries SET status = CASE WHEN status = 'cancelled' THEN status ELSE ? END, attempts = ?, lastError = ?, nextAttemptAt = ?, claimToken = NULL, claimedUntil = NULL WHERE id = ? AND claimToken = ?`,
-      [status, attempts, error.slice(0, MAX_ERROR_CHARS), utcDateTime(next), row.id, row.claimToken]);
+    await this.exec(`UPDATE alarm_deliveries SET status = CASE WHEN status = 'cancelled' THEN status ELSE ? END, lastError = ?, nextAttemptAt = ?, claimToken = NULL, claimedUntil = NULL WHERE id = ? AND claimToken = ?`,
+      [status, error.slice(0, MAX_ERROR_CHARS), utcDateTime(next), row.id, row.claimToken]);
     return status;
   }
 

@@ -5,6 +5,7 @@ import type { AppContext } from '../app-context.js';
 import { DEFAULT_ALARM_DELIVERY } from '../alarms/attach-alarms.js';
 import { pushChannel } from './push-channel.js';
 import './push-services.js';
+import { PushSendLog } from './push-send-log.js';
 import { PushSubscriptionRepo } from './push-subscription-repo.js';
 import { loadOrCreateVapidKeys } from './vapid-keys.js';
 
@@ -37,7 +38,7 @@ function attachPushWith(options: PushAttachmentOptions, ctx: AppContext): Promis
   const ackSecret = createHash('sha256').update(`kneepoint push acknowledge\0${vapid.privateKey}`).digest('base64url');
   const cfg = ctx.config.alarms ?? DEFAULT_ALARM_DELIVERY;
   const off = channels.register(pushChannel({
-    repo: new PushSubscriptionRepo(ctx.sequelize), vapid, ackSecret,
+    repo: new PushSubscriptionRepo(ctx.sequelize), sends: new PushSendLog(ctx.sequelize), vapid, ackSecret,
     subject: `mailto:${cfg.mailFrom}`,
     log: (m) => ctx.log.warn(m), agent: options.agent,
   }));

@@ -14,7 +14,7 @@ export function buildPushPayload(d: AlarmDelivery, ackToken: string): PushPayloa
   const again = d.step > 0 ? ` (reminder ${d.step}, not yet acknowledged)` : '';
   const body = [`${a.message}${again}`, `${bench}, ${pack}`, values.map(([k, v]) => `${k} ${v}`).join(' · ')].join('\n').slice(0, MAX_BODY_CHARS);
   return {
-    alarmId: a.id, kind: a.kind, priority: a.priority,
+    alarmId: a.id, step: d.step, kind: a.kind, priority: a.priority,
     title: `${a.priority.toUpperCase()} ${a.kind}: ${bench}`,
     body, bench, pack, run: `${d.run.name} (#${d.run.id})`, values,
     runUrl: d.runUrl, ackUrl: d.ackUrl, ackApiUrl: pushAckApiUrl(d.runUrl), ackToken,

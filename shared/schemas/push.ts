@@ -39,6 +39,8 @@ export const PushAcknowledgeSchema = z.object({ alarmId: z.number().int().positi
  */
 export const PushPayloadSchema = z.object({
   alarmId: z.number().int(),
+  /** 0 = the first notice, 1, 2, … = reminders (the service worker alerts again only for a new step). */
+  step: z.number().int().nonnegative(),
   kind: z.string(),
   priority: z.string(),
   title: z.string(),

@@ -28,6 +28,51 @@ export const CreateShareLinkRequestSchema = z.strictObject({
 });
 export type CreateShareLinkRequest = z.input<typeof CreateShareLinkRequestSchema>;
 
+/** Longest note a technician adds to a share link e-mail. */
+export const SHARE_MAIL_MESSAGE_MAX_CHARS = 2000;
+
+/**
+ * An address a mail may go to: a plain e-mail address (RFC 5321's 254-character limit), no
+ * display name, and none of the characters that could end a header or add a recipient
+ * (CR, LF and other controls, `<`, `>`, `"`, `,`, `;`, `\`).
+ */
+export const MailAddressSchema = z
+  .email('an e-mail address such as client@example.com')
+  .max(254)
+  // eslint-disable-next-line no-control-regex -- control characters are exactly what is refused
+  .refine((a) => !/[\u0000-\u001f\u007f<>",;\\]/.test(a), 'an e-mail address only: no names, lists or line breaks');
+
+/** POST /api/share-links/:id/email (technician or admin): the link's token proves it was just made. */
+export const EmailShareLinkRequestSchema = z.strictObject({
+  /** The token the creating answer gave (the server keeps only its hash, so it cannot write the link without it). */
+  token: z.string().max(100),
+  to: MailAddressSchema,
+  /** A short note to the client, put in the body only (never a header); line breaks kept. */
+  message: z
+    .string()
+    .max(SHARE_MAIL_MESSAGE_MAX_CHARS)
+    // eslint-disable-next-line no-control-regex -- control characters other than line breaks and tabs are refused
+    .refine((m) => !/[\u0000-\u0008\u000b\u000c\u000e-\u001f\u007f]/.test(m), 'plain text only')
+    .optional(),
+});
+export type EmailShareLinkRequest = z.input<typeof EmailShareLinkRequestSchema>;
+
+/** The answer: the mail is queued (it goes out within seconds, retried while SMTP is away). */
+export const EmailShareLinkResponseSchema = z.object({ queued: z.literal(true), mailId: z.number().int() });
+
+/** One e-mail of a link, as GET /api/share-links/:id/mails lists it (never the body). */
+export const ShareLinkMailSchema = z.object({
+  id: z.number().int(),
+  toAddress: z.string(),
+  status: z.enum(['pending', 'sent', 'failed']),
+  attempts: z.number().int(),
+  lastError: z.string().nullable(),
+  createdAt: z.string(),
+  sentAt: z.string().nullable(),
+});
+export type ShareLinkMail = z.infer<typeof ShareLinkMailSchema>;
+export const ShareLinkMailsResponseSchema = z.object({ mails: z.array(ShareLinkMailSchema) });
+
 /** A link as its makers see it (never the token, which only the creating answer carries). */
 export const ShareLinkSchema = z.object({
   id: z.number().int(),

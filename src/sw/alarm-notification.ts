@@ -3,9 +3,19 @@ import type { PushPayload } from '../../shared/schemas/push';
 /** What a notification carries to its click handler. */
 export interface AlarmNotificationData {
   alarmId: number;
+  /** The escalation step of the push shown (0 = the first notice). */
+  step: number;
   runUrl: string;
   ackApiUrl: string;
   ackToken: string;
+  /** Set on the notice that replaced it after Acknowledge worked. */
+  acknowledged?: true;
+}
+
+/** What a notification already on screen for the same alarm says (read from its data). */
+export interface ShownAlarmNotice {
+  step: number;
+  acknowledged: boolean;
 }
 
 /** A notification to show: its title and options (the Notification API's own shape). */
@@ -14,6 +24,8 @@ export interface AlarmNotification {
   options: {
     body: string;
     tag: string;
+    /** Alert again although it replaces a notification with the same tag. */
+    renotify: boolean;
     requireInteraction: boolean;
     data: AlarmNotificationData | null;
     actions: { action: string; title: string }[];
@@ -36,27 +48,53 @@ export function parseAlarmPush(text: string): PushPayload | null {
     return null;
   }
   const p = json as Partial<PushPayload> | null;
-  if (!p || typeof p.alarmId !== 'number' || ![p.title, p.body, p.runUrl, p.ackApiUrl, p.ackToken, p.priority].every(str)) return null;
+  if (!p || typeof p.alarmId !== 'number' || typeof p.step !== 'number' || ![p.title, p.body, p.runUrl, p.ackApiUrl, p.ackToken, p.priority].every(str)) return null;
   return p as PushPayload;
+}
+
+/** The tag of an alarm's notifications: one on screen per alarm, a later one replaces it. */
+export const alarmTag = (alarmId: number) => `alarm-${alarmId}`;
+
+/** What the notifications on screen for an alarm say, from their data (anything else is ignored). */
+export function shownNotices(notifications: readonly { data?: unknown }[]): ShownAlarmNotice[] {
+  return notifications.flatMap((n) => {
+    const d = n.data as Partial<AlarmNotificationData> | null | undefined;
+    return d && typeof d.step === 'number' ? [{ step: d.step, acknowledged: d.acknowledged === true }] : [];
+  });
+}
+
+/** The quiet notice that replaces an alarm's notification once Acknowledge worked. */
+function acknowledgedNotice(data: AlarmNotificationData): AlarmNotification {
+  return {
+    title: 'Alarm acknowledged',
+    options: { body: 'Recorded on the run with your name.', tag: alarmTag(data.alarmId), renotify: false, requireInteraction: false, data: { ...data, acknowledged: true }, actions: [] },
+  };
 }
 
 /**
  * The notification for an alarm push: one per alarm (a reminder replaces the first notice),
  * staying on screen until handled when critical, with Acknowledge and Open actions. A push
  * that cannot be read still shows a notice, since the browser requires one for every push.
+ * The server sends at least once, so the same step can arrive twice: given what is already
+ * on screen for the alarm, a repeat replaces it without alerting again, a reminder (a later
+ * step) alerts, and an alarm acknowledged here keeps its "acknowledged" notice.
  */
-export function alarmNotification(text: string): AlarmNotification {
+export function alarmNotification(text: string, shown: readonly ShownAlarmNotice[] = []): AlarmNotification {
   const p = parseAlarmPush(text);
   if (!p) {
-    return { title: 'Kneepoint alarm', options: { body: 'An alarm was raised: open Kneepoint to see it.', tag: 'alarm-unknown', requireInteraction: true, data: null, actions: [] } };
+    return { title: 'Kneepoint alarm', options: { body: 'An alarm was raised: open Kneepoint to see it.', tag: 'alarm-unknown', renotify: false, requireInteraction: true, data: null, actions: [] } };
   }
+  const data: AlarmNotificationData = { alarmId: p.alarmId, step: p.step, runUrl: p.runUrl, ackApiUrl: p.ackApiUrl, ackToken: p.ackToken };
+  if (shown.some((n) => n.acknowledged)) return acknowledgedNotice(data);
+  const highestShown = Math.max(-1, ...shown.map((n) => n.step));
   return {
     title: p.title,
     options: {
       body: p.body,
-      tag: `alarm-${p.alarmId}`,
+      tag: alarmTag(p.alarmId),
+      renotify: shown.length > 0 && p.step > highestShown,
       requireInteraction: p.priority === 'critical',
-      data: { alarmId: p.alarmId, runUrl: p.runUrl, ackApiUrl: p.ackApiUrl, ackToken: p.ackToken },
+      data,
       actions: [{ action: ACK_ACTION, title: 'Acknowledge' }, { action: OPEN_ACTION, title: 'Open the run' }],
     },
   };
@@ -79,7 +117,7 @@ export async function onAlarmNotificationClick(action: string, data: AlarmNotifi
     await deps.openWindow('/');
     return;
   }
-  if (action !== ACK_ACTION) {
+  if (action !== ACK_ACTION || data.acknowledged) {
     await deps.openWindow(data.runUrl);
     return;
   }
@@ -90,7 +128,7 @@ export async function onAlarmNotificationClick(action: string, data: AlarmNotifi
       body: JSON.stringify({ alarmId: data.alarmId, token: data.ackToken }), credentials: 'omit',
     });
     if (res.ok) {
-      await deps.notify({ title: 'Alarm acknowledged', options: { body: 'Recorded on the run with your name.', tag: `alarm-${data.alarmId}`, requireInteraction: false, data: null, actions: [] } });
+      await deps.notify(acknowledgedNotice(data));
       return;
     }
     status = res.status;
@@ -99,7 +137,7 @@ export async function onAlarmNotificationClick(action: string, data: AlarmNotifi
   }
   await deps.notify({
     title: 'Not acknowledged',
-    options: { body: status ? `The server refused (${status}): acknowledge on the run page.` : 'Kneepoint could not be reached: acknowledge on the run page.', tag: `alarm-${data.alarmId}`, requireInteraction: true, data, actions: [] },
+    options: { body: status ? `The server refused (${status}): acknowledge on the run page.` : 'Kneepoint could not be reached: acknowledge on the run page.', tag: alarmTag(data.alarmId), renotify: false, requireInteraction: true, data, actions: [] },
   });
   await deps.openWindow(data.runUrl);
 }

@@ -3,7 +3,9 @@
  * even with no Kneepoint tab open, and handles its Acknowledge and Open actions.
  * The DOM typings do not describe a worker's global, so the few parts used are typed here.
  */
-import { alarmNotification, onAlarmNotificationClick, type AlarmNotification, type AlarmNotificationData } from './alarm-notification';
+import {
+  alarmNotification, alarmTag, onAlarmNotificationClick, parseAlarmPush, shownNotices, type AlarmNotification, type AlarmNotificationData,
+} from './alarm-notification';
 
 interface ExtendableEvent { waitUntil(p: Promise<unknown>): void }
 interface PushEventLike extends ExtendableEvent { data: { text(): string } | null }
@@ -13,7 +15,10 @@ interface WorkerGlobal {
   addEventListener(type: 'notificationclick', fn: (e: NotificationClickLike) => void): void;
   addEventListener(type: 'install' | 'activate', fn: (e: ExtendableEvent) => void): void;
   skipWaiting(): Promise<void>;
-  registration: { showNotification(title: string, options: AlarmNotification['options']): Promise<void> };
+  registration: {
+    showNotification(title: string, options: AlarmNotification['options']): Promise<void>;
+    getNotifications(filter: { tag: string }): Promise<{ data?: unknown }[]>;
+  };
   clients: { claim(): Promise<void>; openWindow(url: string): Promise<unknown> };
 }
 
@@ -22,7 +27,14 @@ const show = (n: AlarmNotification) => sw.registration.showNotification(n.title,
 
 sw.addEventListener('install', (e) => e.waitUntil(sw.skipWaiting()));
 sw.addEventListener('activate', (e) => e.waitUntil(sw.clients.claim()));
-sw.addEventListener('push', (e) => e.waitUntil(show(alarmNotification(e.data?.text() ?? ''))));
+/** Shows a push, knowing what is already on screen for its alarm (so a repeat does not alert twice). */
+async function onPush(text: string): Promise<void> {
+  const p = parseAlarmPush(text);
+  const shown = p ? shownNotices(await sw.registration.getNotifications({ tag: alarmTag(p.alarmId) })) : [];
+  await show(alarmNotification(text, shown));
+}
+
+sw.addEventListener('push', (e) => e.waitUntil(onPush(e.data?.text() ?? '')));
 sw.addEventListener('notificationclick', (e) => {
   e.notification.close();
   e.waitUntil(onAlarmNotificationClick(e.action, e.notification.data, {

@@ -27,7 +27,7 @@ afterAll(async () => {
 });
 
 describe('alarms that reach people away from the bench', () => {
-  it('a technician subscribes (in the app and by e-mail), a run cuts off, the mail is in the outbox, the banner acknowledges, the run says who', { timeout: 150_000 }, async () => {
+  it('a technician subscribes (in the app and by e-mail), a run cuts off, the mail is in the outbox, its link acknowledges after sign-in, the run says who', { timeout: 150_000 }, async () => {
     const page = await browser.context.newPage();
     const tech = account('technician');
     const admin = account('admin');
@@ -93,12 +93,29 @@ describe('alarms that reach people away from the bench', () => {
       console.log(`[figure] alarm mail in the outbox ${Date.now() - cutoffSeenMs} ms after the banner showed the cutoff`);
       expect(await outbox.textContent()).toContain(tech.email);
       await adminPage.screenshot({ path: `${SCREENSHOT_DIR}/alarms-outbox.png`, fullPage: true });
+
+      // The technician, on another device with no session, follows the mail's Acknowledge link:
+      // sign-in first, then the alarm's page, where Acknowledge records them.
+      const messages = (await adminPage.evaluate(`fetch('/api/alarms/outbox').then((r) => r.json())`)) as { messages: { to: string[]; subject: string; text: string }[] };
+      const mail = messages.messages.find((m) => m.to.includes(tech.email) && /CRITICAL (cutoff|protection-trip)/.test(m.subject))!;
+      const ackUrl = /Acknowledge \(sign in first\): (\S+)/.exec(mail.text)![1]!;
+      expect(ackUrl).toMatch(new RegExp(`^${t.url}/alarms/\\d+$`));
+      await second.context.clearCookies();
+      const phone = await second.context.newPage();
+      await phone.goto(ackUrl);
+      await phone.waitForURL(/\/sign-in\?next=/);
+      await phone.getByLabel('E-mail').fill(tech.email);
+      await phone.getByLabel('Password').fill(t.ctx.config.demoPassword);
+      await phone.getByRole('button', { name: 'Sign in' }).click();
+      await phone.waitForURL(ackUrl);
+      await phone.getByRole('button', { name: 'Acknowledge' }).click();
+      await phone.getByText(`acknowledged by ${tech.name}`, { exact: false }).waitFor({ timeout: 10_000 });
+      await phone.screenshot({ path: `${SCREENSHOT_DIR}/alarm-acknowledged-from-mail.png`, fullPage: true });
     } finally {
       await second.close();
     }
 
-    // The technician acknowledges from the banner still showing on the bench page.
-    await page.getByRole('button', { name: 'Acknowledge (A)' }).click();
+    // Recorded on the run with who, shown live on the technician's bench page.
     await page.getByRole('list', { name: 'Run events' }).getByText(new RegExp(`acknowledged by ${tech.name}`)).waitFor({ timeout: 10_000 });
     await page.screenshot({ path: `${SCREENSHOT_DIR}/alarm-acknowledged.png`, fullPage: true });
     await page.close();

@@ -1,70 +1,20 @@
-import { createECDH, randomBytes } from 'node:crypto';
 import { statSync } from 'node:fs';
-import { execFileSync } from 'node:child_process';
-import { mkdtempSync, readFileSync } from 'node:fs';
-import type { IncomingHttpHeaders } from 'node:http';
-import { Agent, createServer, type Server } from 'node:https';
-import { tmpdir } from 'node:os';
-import type { AddressInfo } from 'node:net';
+import { Agent } from 'node:https';
 import { join } from 'node:path';
-// @ts-expect-error -- http_ece ships no types; decrypt(buffer, params) is its documented API.
-import ece from 'http_ece';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { OutboxMessage } from '../../shared/schemas/alarm.js';
-import { PushPayloadSchema, type PushPayload } from '../../shared/schemas/push.js';
 import { attachAlarms, DEFAULT_ALARM_DELIVERY } from '../../server/alarms/attach-alarms.js';
 import { liveAttachment } from '../../server/live/attach-live.js';
 import { pushAttachment } from '../../server/push/attach-push.js';
 import { VAPID_FILE } from '../../server/push/vapid-keys.js';
 import { createTestContext, signInAs, type SignedInAgent, type TestContext } from './helpers/index.js';
+import { browserKeys, decrypt, FakePushService, loopbackCertificate } from './push-kit.js';
 import { batteryAndBench, eventually, ManualFeed, tempSpillDir } from './runs-kit.js';
 
-/** A self-signed certificate for 127.0.0.1 (web-push speaks only https), made with the openssl command. */
-function loopbackCertificate(): { key: Buffer; cert: Buffer } {
-  const dir = mkdtempSync(join(tmpdir(), 'kp-push-tls-'));
-  execFileSync('openssl', ['req', '-x509', '-newkey', 'ec', '-pkeyopt', 'ec_paramgen_curve:prime256v1', '-nodes', '-days', '1',
-    '-subj', '/CN=127.0.0.1', '-addext', 'subjectAltName=IP:127.0.0.1', '-keyout', join(dir, 'key.pem'), '-out', join(dir, 'cert.pem')], { stdio: 'ignore' });
-  return { key: readFileSync(join(dir, 'key.pem')), cert: readFileSync(join(dir, 'cert.pem')) };
-}
 const tls = loopbackCertificate();
 
-/** A push service on loopback (https): answers 201 to every POST (RFC 8030 §5), 410 under /gone/. */
-class FakePushService {
-  readonly received: { path: string; headers: IncomingHttpHeaders; body: Buffer; atMs: number }[] = [];
-  private server: Server = createServer(tls, (req, res) => {
-    const chunks: Buffer[] = [];
-    req.on('data', (c: Buffer) => chunks.push(c));
-    req.on('end', () => {
-      this.received.push({ path: req.url ?? '', headers: req.headers, body: Buffer.concat(chunks), atMs: Date.now() });
-      res.writeHead(req.url?.startsWith('/gone/') ? 410 : 201).end();
-    });
-  });
-  url = '';
-  async start(): Promise<void> {
-    await new Promise<void>((r) => this.server.listen(0, '127.0.0.1', r));
-    this.url = `https://127.0.0.1:${(this.server.address() as AddressInfo).port}`;
-  }
-  stop(): Promise<void> {
-    return new Promise((r) => this.server.close(() => r()));
-  }
-}
-
-/** A browser's side of a subscription: its P-256 key pair and auth secret (RFC 8291 §3). */
-function browserKeys() {
-  const ecdh = createECDH('prime256v1');
-  ecdh.generateKeys();
-  const auth = randomBytes(16);
-  return { ecdh, auth, json: { p256dh: ecdh.getPublicKey().toString('base64url'), auth: auth.toString('base64url') } };
-}
-
-/** Decrypts an aes128gcm push body (RFC 8188) the way a browser would, with http_ece. */
-function decrypt(body: Buffer, keys: ReturnType<typeof browserKeys>): PushPayload {
-  const plain = ece.decrypt(body, { version: 'aes128gcm', privateKey: keys.ecdh, authSecret: keys.auth }) as Buffer;
-  return PushPayloadSchema.parse(JSON.parse(plain.toString('utf8')));
-}
-
 const feed = new ManualFeed();
-const push = new FakePushService();
+const push = new FakePushService(tls);
 let t: TestContext;
 let tech: SignedInAgent;
 let admin: SignedInAgent;
@@ -161,6 +111,7 @@ describe('Web Push alarms', () => {
     const acked = (await anonymous.post('/api/push/acknowledge').send({ alarmId: payload.alarmId, token: payload.ackToken }).expect(200)).body.alarm;
     expect(acked.acknowledgedBy.name).toBe('Test Technician');
     const events = (await tech.get(`/api/runs/${run.id}/events`).expect(200)).body.events as { event: { type: string; by?: string; alarmId?: number } }[];
-    expect(events.map((e) => e.event)).toContainEqual(expect.objectContaining({ type: 'alarm-ack', alarmId: payload.alarmId, by: 'Test Technician' }));
+    // Who and when: the run event carries the acknowledging person and the alarm's own acknowledgement time.
+    expect(events.map((e) => e.event)).toContainEqual(expect.objectContaining({ type: 'alarm-ack', alarmId: payload.alarmId, by: 'Test Technician', at: acked.acknowledgedAt }));
   });
 });

@@ -45,6 +45,7 @@ export const queryKeys = {
     signoffs: (runId: number) => ['runs', runId, 'signoffs'] as const,
   },
   shareLinks: (kind: 'run' | 'battery', targetId: number) => ['share-links', kind, targetId] as const,
+  shareLinkMails: (linkId: number) => ['share-links', 'mails', linkId] as const,
   shared: (token: string) => ['shared', token] as const,
   users: { all: ['users'] as const },
 } as const;

@@ -1,6 +1,9 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { SamplesResponseSchema } from '../../../../shared/schemas/api-runs';
-import { CreateShareLinkResponseSchema, ShareLinksResponseSchema, SharedReportSchema, type CreateShareLinkRequest, type ShareTargetKind } from '../../../../shared/schemas/share';
+import {
+  CreateShareLinkResponseSchema, EmailShareLinkResponseSchema, ShareLinkMailsResponseSchema, ShareLinksResponseSchema, SharedReportSchema,
+  type CreateShareLinkRequest, type EmailShareLinkRequest, type ShareTargetKind,
+} from '../../../../shared/schemas/share';
 import { z } from 'zod';
 import { api } from '../../../lib/api-client';
 import { queryKeys } from '../../../lib/queries/query-keys';
@@ -20,6 +23,28 @@ export function useCreateShareLink(kind: ShareTargetKind, targetId: number) {
     mutationFn: (body: Omit<CreateShareLinkRequest, 'kind' | 'targetId'>) =>
       api('/api/share-links', { method: 'POST', body: { ...body, kind, targetId }, schema: CreateShareLinkResponseSchema }),
     onSuccess: () => queryClient.invalidateQueries({ queryKey: queryKeys.shareLinks(kind, targetId) }),
+  });
+}
+
+/** POST /api/share-links/:id/email: queues the link in an e-mail to a client (the token proves the link was just made). */
+export function useEmailShareLink() {
+  const queryClient = useQueryClient();
+  return useMutation({
+    mutationFn: ({ linkId, ...body }: EmailShareLinkRequest & { linkId: number }) =>
+      api(`/api/share-links/${linkId}/email`, { method: 'POST', body, schema: EmailShareLinkResponseSchema }),
+    onSuccess: (_answer, { linkId }) => queryClient.invalidateQueries({ queryKey: queryKeys.shareLinkMails(linkId) }),
+  });
+}
+
+/** How long the list of a link's e-mails waits before asking again while one is still pending. */
+const PENDING_MAIL_REFRESH_MS = 3000;
+
+/** GET /api/share-links/:id/mails: the link's e-mails and whether each went out (asked again while one is pending). */
+export function useShareLinkMails(linkId: number) {
+  return useQuery({
+    queryKey: queryKeys.shareLinkMails(linkId),
+    queryFn: () => api(`/api/share-links/${linkId}/mails`, { schema: ShareLinkMailsResponseSchema }).then((b) => b.mails),
+    refetchInterval: (query) => (query.state.data?.some((m) => m.status === 'pending') ? PENDING_MAIL_REFRESH_MS : false),
   });
 }
 
