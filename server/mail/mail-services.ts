@@ -1,5 +1,5 @@
 import type { AppContext } from '../app-context.js';
-import { HttpError } from '../http/http-error.js';
+import { UnavailableError } from '../domain/domain-errors.js';
 import type { MailQueue, NewMail } from './mail-queue.js';
 
 /** Outbound mail as routes use it: queue a message, seal its secret, build links. */
@@ -25,6 +25,6 @@ declare module '../app-context.js' {
 /** The outbound mail service, or 503 when this server has no SMTP set up. */
 export function outboundMailOf(ctx: AppContext): OutboundMail {
   const mail = ctx.services.outboundMail;
-  if (!mail) throw new HttpError(503, 'E-mail is not set up on this server (KNEEPOINT_SMTP_URL)');
+  if (!mail) throw new UnavailableError('E-mail is not set up on this server (KNEEPOINT_SMTP_URL)');
   return mail;
 }
