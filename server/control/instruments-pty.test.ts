@@ -3,7 +3,7 @@ import { promisify } from 'node:util';
 import { afterEach, describe, expect, it } from 'vitest';
 import { SerialSourceConfigSchema } from '../../shared/schemas/bench.js';
 import type { Frame } from '../../shared/schemas/frame.js';
-import { SIM_LOAD_SCPI, SIM_SUPPLY_SCPI } from '../../shared/schemas/instrument-presets.js';
+import { SIM_INSTRUMENT_REGISTERS, SIM_LOAD_SCPI, SIM_SUPPLY_SCPI } from '../../shared/schemas/instrument-presets.js';
 import { SIM_LOAD_SPEC, startSimulatedBench, type SimulatedBench } from '../../simulator/index.js';
 import { benchControlLfp12v } from '../../simulator/scenarios/bench-control-lfp-12v.js';
 import { SerialSource } from '../ingest/sources/serial-source.js';
@@ -33,8 +33,9 @@ async function until(check: () => boolean, what: string, timeoutMs = TIMEOUT_MS 
   }
 }
 
-async function start(): Promise<SimulatedBench> {
+async function start(protocol: 'scpi' | 'modbus' = 'scpi'): Promise<SimulatedBench> {
   bench = await startSimulatedBench({
+    protocol,
     scenario: benchControlLfp12v,
     format: 'scpi',
     linkPath: link('meter'),
@@ -144,5 +145,41 @@ describe('SCPI driver and the simulated load and supply over socat pseudo-termin
     const answer = JSON.parse(stdout) as Record<string, string>;
     expect(answer).toEqual({ idn: SIM_LOAD_SPEC.idn, state: '1', amps: '7.5000', err: '0,"No error"' });
     expect(sim.load.values.cc).toBe(7.5);
+  });
+});
+
+describe('Modbus RTU driver and the simulated load over a socat pseudo-terminal', { timeout: TIMEOUT_MS }, () => {
+  it('CC 10 A through the register map discharges the pack; the meter reads it', async () => {
+    const sim = await start('modbus');
+    const load = await openInstrument({ protocol: 'modbus', id: 'load', role: 'load', port: { path: link('load') }, registers: SIM_INSTRUMENT_REGISTERS });
+    closers.push(() => load.close());
+    const frames = watchMeter();
+    expect(await load.identify()).toBe(SIM_LOAD_SPEC.idn);
+    await load.reset();
+    await load.set({ mode: 'cc', value: 10 });
+    await load.setOutput(true);
+    await until(() => frames.filter((f) => f.amps === 10).length >= 5, 'meter frames at 10 A');
+    expect(await load.read()).toMatchObject({ amps: 10, outputOn: true });
+    expect(await load.armWatchdog(1)).toBe(true);
+    await load.close();
+    await until(() => !sim.load.outputOn, 'the watchdog to switch the load off', 3000);
+    expect(sim.load.totals.ah).toBeGreaterThan(0);
+  });
+
+  it('an independent Modbus master (mbpoll) reads and writes the same registers', async () => {
+    const sim = await start('modbus');
+    // Debian's mbpoll: RTU at 115200 8N1, unit 1, holding registers (-t 4), 0-based addresses (-0), once (-1).
+    const mbpoll = (...args: string[]) =>
+      run('mbpoll', ['-m', 'rtu', '-a', '1', '-b', '115200', '-P', 'none', '-t', '4', '-0', '-1', '-o', '2', link('load'), ...args].filter(Boolean), { timeout: TIMEOUT_MS / 3 });
+    // Mode register 0 = 0 (CC), set current at 2–3 (u32 mA) = 4000, output at 12 = 1.
+    await mbpoll('-r', '0', '--', '0');
+    await mbpoll('-r', '2', '--', '0', '4000');
+    await mbpoll('-r', '12', '--', '1');
+    expect([sim.load.mode, sim.load.values.cc, sim.load.outputOn]).toEqual(['cc', 4, true]);
+    await until(() => sim.load.amps === 4, 'the load to sink 4 A');
+    const { stdout } = await mbpoll('-r', '18', '-c', '2');
+    const words = [...stdout.matchAll(/\[(\d+)\]:\s+(-?\d+)/g)].map((m) => [Number(m[1]), Number(m[2])]);
+    // Amps at 18–19: i32 mA, high word first: 4000 mA = words 0, 4000.
+    expect(words).toEqual([[18, 0], [19, 4000]]);
   });
 });

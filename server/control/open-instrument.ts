@@ -2,6 +2,7 @@ import { InstrumentDriverSchema, type InstrumentDriverInput } from '../../shared
 import { systemClock, type Clock } from '../ingest/clock.js';
 import { openRealPort, type PortFactory, type SerialPortLike } from '../ingest/sources/serial-port-factory.js';
 import { InstrumentFault, type InstrumentControl } from './instrument-control.js';
+import { ModbusInstrument } from './modbus-instrument.js';
 import { ScpiInstrument } from './scpi-instrument.js';
 
 /** What opening an instrument needs from outside; tests pass a manual clock and the mock binding. */
@@ -26,5 +27,7 @@ export async function openInstrument(input: InstrumentDriverInput, deps: Instrum
   // A port error after opening reaches the driver's pending exchange; this keeps it from being unhandled.
   port.on('error', () => undefined);
   if (config.protocol === 'scpi') return new ScpiInstrument(config, port, clock);
-  throw new InstrumentFault(config.id, `protocol ${config.protocol} not supported yet`);
+  const instrument = new ModbusInstrument(config, port, clock);
+  await instrument.start();
+  return instrument;
 }

@@ -43,5 +43,5 @@ export const SIM_INSTRUMENT_REGISTERS: z.input<typeof InstrumentRegisterMapSchem
   reset: { address: 15, value: 1 },
   volts: { address: 16, type: 'i32', scale: MILLI },
   amps: { address: 18, type: 'i32', scale: MILLI },
-  identity: { address: 32, count: 16 },
+  identity: { address: 32, count: 24 },
 };

@@ -1,13 +1,14 @@
 import { systemClock, type Clock } from '../engine/clock.js';
 import { startPtyMeter, type PtyMeter, type PtyMeterOptions } from '../transport/pty-meter.js';
 import { instrumentsDrive } from './drive.js';
+import { createModbusControl } from './modbus-control.js';
 import { SIM_LOAD_SPEC, SIM_SUPPLY_SPEC } from './instrument-specs.js';
 import { openPtyInstrumentPort, type InstrumentResponder, type PtyInstrumentPort } from './pty-instrument.js';
 import { createScpiControl } from './scpi-control.js';
 import { SimInstrument, type SimInstrumentSpec } from './sim-instrument.js';
 
 /** How the simulated instruments speak on their ports. */
-export type InstrumentProtocol = 'scpi';
+export type InstrumentProtocol = 'scpi' | 'modbus';
 
 /** A meter plus an electronic load and a supply on their own pseudo-terminals, all on one simulated pack. */
 export interface SimulatedBenchOptions extends Omit<PtyMeterOptions, 'drive'> {
@@ -15,6 +16,7 @@ export interface SimulatedBenchOptions extends Omit<PtyMeterOptions, 'drive'> {
   loadLinkPath?: string;
   /** Where the server opens the supply; omitted = no supply. */
   supplyLinkPath?: string;
+  /** SCPI (default) or Modbus RTU (unit 1, the register map of shared/schemas/instrument-presets.ts). */
   protocol?: InstrumentProtocol;
   loadSpec?: Partial<SimInstrumentSpec>;
   supplySpec?: Partial<SimInstrumentSpec>;
@@ -30,7 +32,11 @@ export interface SimulatedBench {
   stop(): Promise<void>;
 }
 
-function responder(instrument: SimInstrument, _protocol: InstrumentProtocol): InstrumentResponder {
+function responder(instrument: SimInstrument, protocol: InstrumentProtocol): InstrumentResponder {
+  if (protocol === 'modbus') {
+    const control = createModbusControl(instrument);
+    return (bytes) => control.receive(bytes);
+  }
   const control = createScpiControl(instrument);
   return (bytes) => control.receive(bytes.toString('latin1'));
 }
