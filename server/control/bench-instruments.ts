@@ -7,4 +7,8 @@ import type { BenchInstruments } from './step-actions.js';
  */
 export interface BenchInstrumentsProvider {
   forBench(benchId: number): Promise<BenchInstruments | null>;
+  /** Closes what is open for a bench (its settings changed). */
+  forget?(benchId: number): Promise<void>;
+  /** Closes everything (server close). */
+  close?(): Promise<void>;
 }

@@ -8,7 +8,7 @@ import type { AppContext } from '../app-context.js';
 import type { BenchInstrumentsProvider } from '../control/bench-instruments.js';
 import { ProgrammeExecutor } from '../control/programme-executor.js';
 import { DEFAULT_OVER_TEMP_CELSIUS, METER_SILENT_MS, type SafetyLimits } from '../control/safety-net.js';
-import { rolesNeeded } from '../control/step-actions.js';
+import { reasonOf, rolesNeeded } from '../control/step-actions.js';
 import { systemClock, type Clock } from '../ingest/clock.js';
 import { HttpError, notFound } from '../http/http-error.js';
 import { RunsRepo } from '../runs/runs-repo.js';
@@ -30,6 +30,7 @@ export const COMMAND_LOG_FLUSH_MS = 1000;
 
 /** One programme running on one run. */
 interface Active {
+  benchId: number;
   executor: ProgrammeExecutor;
   commands: CommandLogRow[];
   stop(): void;
@@ -82,7 +83,7 @@ export class ProgrammeRunner {
     const problems = programmeProblems(checked.steps, pack);
     if (problems.length > 0) throw new HttpError(400, `Unsafe for this run's pack: ${problems.map((p) => p.message).join('; ')}`, Object.fromEntries(problems.map((p) => [p.path, [p.message]])));
     const plan = planSteps(checked.steps);
-    const instruments = await this.ctx.services.benchInstruments?.forBench(run.benchId!);
+    const instruments = await this.instrumentsOf(run.benchId);
     const missing = [...rolesNeeded(plan.map((p) => p.step))].filter((role) => !instruments?.[role]);
     if (!instruments || missing.length > 0) throw new HttpError(409, `Bench ${run.benchId} has no controllable ${missing.join(' or ') || 'instrument'} for this programme`);
     const limits: SafetyLimits = {
@@ -91,10 +92,10 @@ export class ProgrammeRunner {
     };
     const { id: _id, createdAt: _c, updatedAt: _u, description, ...body } = checked;
     await this.runProgrammes.create(runId, programmeId, { ...body, ...(description ? { description } : {}) }, limits.floorVolts, user.name);
-    this.launch(runId, plan, instruments, limits, user.id);
+    this.launch(runId, run.benchId, plan, instruments, limits, user.id);
   }
 
-  private launch(runId: number, plan: ReturnType<typeof planSteps>, instruments: NonNullable<Awaited<ReturnType<BenchInstrumentsProvider['forBench']>>>, limits: SafetyLimits, userId: number): void {
+  private launch(runId: number, benchId: number, plan: ReturnType<typeof planSteps>, instruments: NonNullable<Awaited<ReturnType<BenchInstrumentsProvider['forBench']>>>, limits: SafetyLimits, userId: number): void {
     const recorder = recorderOf(this.ctx);
     const log = (m: string, e?: unknown) => this.ctx.log.warn(`run ${runId} programme: ${m}${e ? ` (${String(e)})` : ''}`);
     const commands: CommandLogRow[] = [];
@@ -114,7 +115,7 @@ export class ProgrammeRunner {
       offRuns();
       clearInterval(flushTimer);
     };
-    this.active.set(runId, { executor, commands, stop });
+    this.active.set(runId, { benchId, executor, commands, stop });
     void executor.done.then(async (state) => {
       stop();
       this.active.delete(runId);
@@ -123,6 +124,19 @@ export class ProgrammeRunner {
       if (recorder.session(runId)) await recorder.stop(runId, state !== 'finished');
     }).catch((e) => log('did not end cleanly', e));
     void executor.start();
+  }
+
+  private async instrumentsOf(benchId: number) {
+    try {
+      return await this.ctx.services.benchInstruments?.forBench(benchId);
+    } catch (error) {
+      throw new HttpError(409, `The instruments of bench ${benchId} cannot be opened: ${reasonOf(error)}`);
+    }
+  }
+
+  /** True while a programme runs on a run of this bench (its instruments must not change under it). */
+  busyOnBench(benchId: number): boolean {
+    return [...this.active.values()].some((a) => a.benchId === benchId);
   }
 
   /** A technician's pause, resume, skip or abort on a run's programme (409 when none runs). */

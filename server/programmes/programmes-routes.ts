@@ -7,6 +7,8 @@ import type { AppContext } from '../app-context.js';
 import { requireRole } from '../auth/guards.js';
 import { HttpError, notFound } from '../http/http-error.js';
 import { parseBody, parseIdParam } from '../http/validate.js';
+import { BenchInstrumentsSchema } from '../../shared/schemas/bench-instruments.js';
+import { BenchInstrumentsRepo } from './bench-instruments-repo.js';
 import { ProgrammesRepo } from './programmes-repo.js';
 import type { ProgrammeRunner } from './programme-runner.js';
 
@@ -31,6 +33,7 @@ function runnerOf(ctx: AppContext): ProgrammeRunner {
 }
 
 /**
+ * A bench's controllable instruments under /api/benches/:id/instruments (admins set them),
  * /api/programmes (everyone signed in reads; technicians save, change and remove) and a run's
  * programme under /api/runs/:id (technicians start, pause, resume, skip and abort it; everyone
  * signed in reads its progress and its command log).
@@ -38,6 +41,27 @@ function runnerOf(ctx: AppContext): ProgrammeRunner {
 export function createProgrammesRouter(ctx: AppContext): Router {
   const router = Router();
   const repo = new ProgrammesRepo(ctx.sequelize);
+  const benchInstruments = new BenchInstrumentsRepo(ctx.sequelize);
+  const benchOr404 = async (raw: string | string[] | undefined) => {
+    const id = parseIdParam(raw);
+    const [found] = await ctx.sequelize.query('SELECT id FROM benches WHERE id = ?', { replacements: [id] });
+    if ((found as unknown[]).length === 0) throw notFound(`Bench ${id}`);
+    return id;
+  };
+
+  router.get('/benches/:id/instruments', requireRole('viewer'), async (req, res) => {
+    res.json({ instruments: await benchInstruments.get(await benchOr404(req.params.id)) });
+  });
+
+  // Setting up a bench is an admin's job, as for its meter.
+  router.put('/benches/:id/instruments', requireRole('admin'), async (req, res) => {
+    const benchId = await benchOr404(req.params.id);
+    const config = parseBody(BenchInstrumentsSchema, req.body);
+    if (ctx.services.programmeRunner?.busyOnBench(benchId)) throw new HttpError(409, `A programme is running on bench ${benchId}: its instruments cannot change now`);
+    await benchInstruments.put(benchId, config);
+    await ctx.services.benchInstruments?.forget?.(benchId);
+    res.json({ instruments: await benchInstruments.get(benchId) });
+  });
 
   router.get('/programmes', requireRole('viewer'), async (_req, res) => {
     res.json({ programmes: await repo.list() });
