@@ -5,6 +5,7 @@ import { FakeBench, type FakePackSpec } from '../../server/control/testing/fake-
 import { FakeInstrument } from '../../server/control/testing/fake-instrument.js';
 import { RunProgrammeSchema } from '../../shared/schemas/programme-run.js';
 import type { ProgrammeInput } from '../../shared/schemas/programme.js';
+import { formatCharge, formatEnergy } from '../../shared/units/format.js';
 import { createTestContext, signInAs, type SignedInAgent, type TestContext } from './helpers/index.js';
 import { batteryAndBench, eventually, ManualFeed, tempSpillDir } from './runs-kit.js';
 
@@ -57,6 +58,23 @@ async function feedBench(bench: FakeBench, until: () => boolean, maxFrames = 500
     feed.emit(ids.benchId, { t: 1000 + r.elapsedSeconds, volts: r.volts, amps: r.amps, temps: r.temps, clock: 'device' });
     await new Promise((resolve) => setTimeout(resolve, FRAME_EVERY_MS));
   }
+}
+
+/** The text of a PDF the API serves (pdfjs-dist, as the runs test reads the report). */
+async function pdfText(path: string): Promise<string> {
+  const res = await viewer.get(path).buffer(true).parse((r, cb) => {
+    const parts: Buffer[] = [];
+    r.on('data', (c: Buffer) => parts.push(c));
+    r.on('end', () => cb(null, Buffer.concat(parts)));
+  }).expect(200);
+  const { getDocument } = await import('pdfjs-dist/legacy/build/pdf.mjs');
+  const pdf = await getDocument({ data: new Uint8Array(res.body as Buffer), verbosity: 0 }).promise;
+  const texts: string[] = [];
+  for (let i = 1; i <= pdf.numPages; i++) {
+    const content = await (await pdf.getPage(i)).getTextContent();
+    texts.push(content.items.map((it) => ('str' in it ? it.str : '')).join(''));
+  }
+  return texts.join('\n');
 }
 
 async function startRun(name: string): Promise<number> {
@@ -129,6 +147,11 @@ describe('test programmes: saved, reused, refused when unsafe', () => {
       return body.commands as Array<{ instrumentId: string; sent: string }>;
     });
     expect(log.some((c) => c.instrumentId === 'load-1' && c.sent === 'set cc 1')).toBe(true);
+    // The report carries each step's figures, in the words and units the run page uses.
+    const text = await pdfText(`/api/runs/${runId}/report.pdf`);
+    expect(text).toContain('Test programme');
+    expect(text).toContain(`3 discharge: done, ${discharge.reason}`);
+    expect(text).toContain(`out ${formatCharge(discharge.dischargeAh)}, ${formatEnergy(discharge.dischargeWh)}`);
   });
 
   it('meter silent: the load is off within 2 s, and the run says why', async () => {
