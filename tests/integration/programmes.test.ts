@@ -111,6 +111,17 @@ describe('test programmes: saved, reused, refused when unsafe', () => {
     await tech.post(`/api/runs/${runId}/abort`).send({}).expect(200);
   });
 
+  it("only an admin sets a bench's instruments; a driver with the wrong role or no port is refused", async () => {
+    const admin = await signInAs(t, 'admin');
+    const load = { protocol: 'scpi', id: 'l', role: 'load', port: { path: '/tmp/kp-nothing-here' }, commands: { mode: {}, setValue: {}, outputOn: 'INP ON', outputOff: 'INP OFF', readOutput: 'INP?' } };
+    await tech.put(`/api/benches/${ids.benchId}/instruments`).send({ load }).expect(403);
+    const wrong = await admin.put(`/api/benches/${ids.benchId}/instruments`).send({ supply: load }).expect(400);
+    expect(JSON.stringify(wrong.body.error)).toMatch(/role supply/);
+    await admin.put(`/api/benches/${ids.benchId}/instruments`).send({ load: { ...load, port: {} } }).expect(400);
+    await admin.put('/api/benches/999999/instruments').send({}).expect(404);
+    expect((await viewer.get(`/api/benches/${ids.benchId}/instruments`).expect(200)).body.instruments).toEqual({ load: null, supply: null });
+  });
+
   it('will not start before the cautions are acknowledged', async () => {
     const runId = await startRun('cautions check');
     const res = await tech.post(`/api/runs/${runId}/programme`).send({ programmeId }).expect(400);
