@@ -165,6 +165,32 @@ describe('test programmes: saved, reused, refused when unsafe', () => {
     expect(text).toContain(`out ${formatCharge(discharge.dischargeAh)}, ${formatEnergy(discharge.dischargeWh)}`);
   });
 
+  it('a technician pauses and resumes at the API; stopping the run by hand aborts the programme, outputs off', async () => {
+    const runId = await startRun('paused then stopped');
+    const bench = new FakeBench({ ...PACK, startSoc: 0.8 }, load, supply);
+    const discharge = await tech.post('/api/programmes').send({ ...PROGRAMME, name: 'discharge to pause', steps: [PROGRAMME.steps[2]] }).expect(201);
+    await tech.post(`/api/runs/${runId}/programme`).send({ programmeId: discharge.body.programme.id, acknowledgeCautions: true }).expect(201);
+    let stop = false;
+    const feeding = feedBench(bench, () => stop);
+    await eventually(async () => expect(load.outputOn).toBe(true), 5000, 20);
+    const paused = await tech.post(`/api/runs/${runId}/programme/control`).send({ action: 'pause' }).expect(200);
+    expect(paused.body.programme.state).toBe('paused');
+    await eventually(async () => expect(load.outputOn).toBe(false), 2000, 20);
+    await tech.post(`/api/runs/${runId}/programme/control`).send({ action: 'resume' }).expect(200);
+    await eventually(async () => expect(load.outputOn).toBe(true), 2000, 20);
+    await tech.post(`/api/runs/${runId}/stop`).send({}).expect(200);
+    await eventually(async () => expect(load.outputOn).toBe(false), 2000, 20);
+    stop = true;
+    await feeding;
+    const { programme } = (await viewer.get(`/api/runs/${runId}/programme`).expect(200)).body;
+    expect(programme).toMatchObject({ state: 'aborted', failReason: 'aborted by a technician' });
+    await tech.post(`/api/runs/${runId}/programme/control`).send({ action: 'skip' }).expect(409);
+    await eventually(async () => {
+      const events = (await viewer.get(`/api/runs/${runId}/events`).expect(200)).body.events as Array<{ event: { type: string; phase?: string } }>;
+      expect(events.filter((e) => e.event.type === 'programme-step').map((e) => e.event.phase)).toEqual(['start', 'pause', 'resume', 'abort']);
+    });
+  });
+
   it('meter silent: the load is off within 2 s, and the run says why', async () => {
     const runId = await startRun('silent meter');
     const bench = new FakeBench({ ...PACK, startSoc: 0.8 }, load, supply);
