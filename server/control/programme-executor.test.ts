@@ -230,8 +230,18 @@ describe('programme executor: a technician pauses, skips and aborts', () => {
     await r.run(10);
     r.executor.control('abort');
     expect(await r.executor.done).toBe('aborted');
-    await settle();
+    // Done means the off commands have been answered: nothing closes the ports before them.
     expect(r.load.outputOn).toBe(false);
     expect(r.events.at(-1)).toMatchObject({ phase: 'abort', reason: 'aborted by a technician' });
+  });
+
+  it('done waits until a slow instrument has switched off (the ports may be closed right after)', async () => {
+    const r = rig([DISCHARGE]);
+    await r.executor.start();
+    await r.run(10);
+    r.load.slow = true;
+    r.executor.control('abort');
+    await r.executor.done;
+    expect(r.load.outputOn).toBe(false);
   });
 });

@@ -251,13 +251,16 @@ export class ProgrammeExecutor {
     this.emit(state === 'aborted' ? 'abort' : 'fail', reason);
     this.failReason = reason;
     this.index = null;
-    this.finish(state);
-    void allOutputsOff(this.deps.instruments, this.on).then((failures) => {
-      for (const failure of failures) this.deps.log?.(`programme ${state}: ${failure}`);
-    });
+    this.finish(state, false);
+    // `done` waits for the off commands, so whoever closes the ports next cannot cut them off.
+    void allOutputsOff(this.deps.instruments, this.on)
+      .then((failures) => {
+        for (const failure of failures) this.deps.log?.(`programme ${state}: ${failure}`);
+      })
+      .finally(() => this.resolveDone(state));
   }
 
-  private finish(state: 'finished' | 'failed' | 'aborted'): void {
+  private finish(state: 'finished' | 'failed' | 'aborted', resolve = true): void {
     if (this.state === state) return;
     this.state = state;
     this.stepStartedAtMs = null;
@@ -266,7 +269,7 @@ export class ProgrammeExecutor {
     this.timer = null;
     for (const off of this.unsubscribe.splice(0)) off();
     this.deps.onChange();
-    this.resolveDone(state);
+    if (resolve) this.resolveDone(state);
   }
 
   private emit(phase: ProgrammeStepEvent['phase'], reason?: string): void {

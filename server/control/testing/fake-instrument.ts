@@ -21,6 +21,8 @@ export class FakeInstrument implements InstrumentControl {
   /** Every call, in order, as text (`set cc 10`, `output on`, ...). */
   readonly calls: string[] = [];
   watchdogSeconds: number | null = null;
+  /** Answers (and acts) a turn of the event loop later, like an instrument on a serial line. */
+  slow = false;
   /** What `read()` reports for volts and amps (the test bench sets these). */
   terminals = { volts: 0, amps: 0 };
   private readonly listeners = new ListenerSet<[CommandLogEntry]>(() => undefined);
@@ -50,14 +52,19 @@ export class FakeInstrument implements InstrumentControl {
       return Promise.reject(new InstrumentFault(this.id, problem));
     }
     this.lastHeardMs = atMs;
+    if (this.slow) return new Promise((resolve) => setImmediate(() => resolve(this.answered(sent, answer, reply, query, atMs))));
+    return Promise.resolve().then(() => this.answered(sent, answer, reply, query, atMs));
+  }
+
+  private answered<T>(sent: string, answer: () => T, reply: string, query: boolean, atMs: number): T {
     const value = answer();
     if (this.behaviour === 'garbage' && query) {
       const problem = `garbage reply to ${sent}`;
       this.listeners.emit({ atMs, instrumentId: this.id, sent, reply: GARBAGE, problem });
-      return Promise.reject(new InstrumentFault(this.id, problem));
+      throw new InstrumentFault(this.id, problem);
     }
     this.listeners.emit({ atMs, instrumentId: this.id, sent, reply: query ? reply : null, problem: null });
-    return Promise.resolve(value);
+    return value;
   }
 
   /** The instrument's own watchdog: output off when no command reached it for its timeout. */
