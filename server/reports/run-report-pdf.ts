@@ -2,6 +2,8 @@ import PDFDocument from 'pdfkit';
 import type { Run } from '../../shared/schemas/run.js';
 import type { SamplesResponse, StoredRunEvent } from '../../shared/schemas/api-runs.js';
 import type { LabSettings } from '../../shared/schemas/lab-settings.js';
+import type { RunProgramme } from '../../shared/schemas/programme-run.js';
+import { programmeReportLines } from './programme-lines.js';
 import { formatCharge, formatDuration, formatElapsedClock, formatEnergy, formatPercent, formatTemperature, formatVolts, formatAmps } from '../../shared/units/format.js';
 
 /** Page layout, PDF points (72 per inch); A4. */
@@ -26,6 +28,8 @@ export interface RunReportInput {
   settings: LabSettings;
   /** When the report is made (printed in the lab's time zone). */
   madeAt: Date;
+  /** The test programme the run followed, with each step's figures (absent when none). */
+  programme?: RunProgramme | null;
 }
 
 /** The summary figures as the report prints them, in the lab's units (the same formatting as the API's consumers). */
@@ -119,6 +123,11 @@ export async function renderRunReportPdf(input: RunReportInput): Promise<Buffer>
   doc.moveDown().fontSize(HEADING_FONT_PT).text('Figures');
   doc.fontSize(BODY_FONT_PT);
   for (const [label, value] of runReportFigures(run, settings)) doc.text(`${label}: ${value}`);
+  if (input.programme) {
+    doc.moveDown().fontSize(HEADING_FONT_PT).text('Test programme');
+    doc.fontSize(BODY_FONT_PT);
+    for (const line of programmeReportLines(input.programme)) doc.text(line);
+  }
   doc.moveDown().fontSize(HEADING_FONT_PT).text('Volts over the run');
   drawVoltsChart(doc, input.samples);
   const protections = run.summary?.protections ?? [];

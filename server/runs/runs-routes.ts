@@ -120,12 +120,13 @@ export function createRunsRouter(ctx: AppContext): Router {
   const REPORT_CHART_BUCKETS = 600;
   router.get('/:id/report.pdf', requireRole('viewer'), async (req, res) => {
     const run = live(await runOr404(req.params.id));
-    const [samples, events, settings] = await Promise.all([
+    const [samples, events, settings, programme] = await Promise.all([
       runSamples(ctx.sequelize, run.id, SamplesQuerySchema.parse({ maxPoints: REPORT_CHART_BUCKETS })),
       repo.events(run.id),
       getLabSettings(ctx.models),
+      ctx.services.programmeRunner?.get(run.id) ?? null,
     ]);
-    const pdf = await renderRunReportPdf({ run, samples, events, settings, madeAt: new Date() });
+    const pdf = await renderRunReportPdf({ run, samples, events, settings, madeAt: new Date(), programme });
     res.setHeader('Content-Type', 'application/pdf');
     res.setHeader('Content-Disposition', `attachment; filename="run-${run.id}-report.pdf"`);
     res.end(pdf);

@@ -182,6 +182,20 @@ export const RunMarkEventSchema = z.object({
   note: z.string().max(500).optional(),
 });
 
+/** What happened to a test programme's step: it began, ended, was skipped, paused, resumed, failed safe or was aborted. */
+export const ProgrammeStepPhaseSchema = z.enum(['start', 'end', 'skip', 'pause', 'resume', 'fail', 'abort']);
+
+/** A test programme's step changed (the run follows a programme); `reason` says why it ended, failed or was aborted. */
+export const ProgrammeStepEventSchema = z.object({
+  ...base,
+  type: z.literal('programme-step'),
+  phase: ProgrammeStepPhaseSchema,
+  /** Index in the unrolled step list, from 0. */
+  index: z.number().int().nonnegative(),
+  label: z.string().max(200),
+  reason: z.string().max(500).optional(),
+});
+
 /** One event on a run's timeline. Discriminated on `type`. */
 export const RunEventSchema = z.discriminatedUnion('type', [
   CutoffEventSchema,
@@ -200,6 +214,7 @@ export const RunEventSchema = z.discriminatedUnion('type', [
   ProtectionCheckReleaseEventSchema,
   MilestoneEventSchema,
   RunMarkEventSchema,
+  ProgrammeStepEventSchema,
 ]);
 
 export type RunEvent = z.infer<typeof RunEventSchema>;
@@ -219,5 +234,6 @@ export type HeaterOffEvent = z.infer<typeof HeaterOffEventSchema>;
 export type ProtectionCheckTripEvent = z.infer<typeof ProtectionCheckTripEventSchema>;
 export type ProtectionCheckReleaseEvent = z.infer<typeof ProtectionCheckReleaseEventSchema>;
 export type MilestoneEvent = z.infer<typeof MilestoneEventSchema>;
+export type ProgrammeStepEvent = z.infer<typeof ProgrammeStepEventSchema>;
 export type MilestoneKind = z.infer<typeof MilestoneKindSchema>;
 export type ProtectionKind = z.infer<typeof ProtectionKindSchema>;

@@ -19,8 +19,14 @@ interface Command {
 
 const num = (value: number | undefined): string => (value === undefined ? SCPI_NAN : String(value));
 
-/** Builds a regex accepting the short form, the long form and optional [:NODE]s of a SCPI header. */
-function header(spec: string): RegExp {
+/** What may follow a query header: a channel list `(@n)`, captured. */
+const CHANNEL_TAIL = '(?:\\s+\\(@(\\d+)\\))?';
+
+/**
+ * Builds a regex accepting the short form, the long form and optional [:NODE]s of a SCPI
+ * header, followed by `tail` (by default an optional channel list).
+ */
+export function header(spec: string, tail = CHANNEL_TAIL): RegExp {
   const query = spec.endsWith('?');
   const parts = (query ? spec.slice(0, -1) : spec).match(/\[:[^\]]+\]|:?[^:[]+/g) ?? [];
   const body = parts
@@ -33,7 +39,7 @@ function header(spec: string): RegExp {
       return part.startsWith('[') ? `(?:${pattern})?` : pattern;
     })
     .join('');
-  return new RegExp(`^${body}${query ? '\\?' : ''}(?:\\s+\\(@(\\d+)\\))?$`, 'i');
+  return new RegExp(`^${body}${query ? '\\?' : ''}${tail}$`, 'i');
 }
 
 function commands(idn: string): Command[] {

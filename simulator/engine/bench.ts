@@ -7,6 +7,7 @@ import type { Scenario } from '../scenario/schema.js';
 import { ambientAt } from './ambient.js';
 import { buildPack } from './build-pack.js';
 import type { SimEvent, SimTotals } from './events.js';
+import type { ExternalDrive } from './external-drive.js';
 import { chargeAmps, dischargeAmps } from './load.js';
 
 const SECONDS_PER_HOUR = 3600;
@@ -43,8 +44,11 @@ export interface Bench {
   advance(dtS: number): void;
 }
 
-/** Creates the bench model for a scenario; physics randomness comes from `prng`. */
-export function createBench(scenario: Scenario, prng: Prng): Bench {
+/**
+ * Creates the bench model for a scenario; physics randomness comes from `prng`. With a
+ * `drive`, instruments commanded from outside load or charge the pack during rest steps.
+ */
+export function createBench(scenario: Scenario, prng: Prng, drive?: ExternalDrive): Bench {
   const pack = buildPack(scenario.pack, prng);
   const bms = scenario.bms ? createBms(scenario.bms) : undefined;
   const heater = scenario.pack.heater ? createHeater(scenario.pack.heater) : undefined;
@@ -61,6 +65,8 @@ export function createBench(scenario: Scenario, prng: Prng): Bench {
     if (!step) return { cellAmps: 0, heaterAmps: 0, amps: 0, volts: pack.sourceVolts(tempC) };
     const sourceVolts = pack.sourceVolts(tempC);
     const ohms = pack.ohms(tempC);
+    const demand = step.kind === 'rest' ? drive?.demandAmps(sourceVolts, ohms) : undefined;
+    if (demand !== undefined) return drivenPoint(demand, sourceVolts, ohms);
     if (step.kind === 'discharge' || step.kind === 'rest') {
       const blocked = bms?.dischargeOpen ?? false;
       const cellAmps = step.kind === 'discharge' && !blocked ? dischargeAmps(step.load, sourceVolts, ohms) : 0;
@@ -71,6 +77,15 @@ export function createBench(scenario: Scenario, prng: Prng): Bench {
     const heaterAmps = heater ? heater.amps(sourceVolts, t) : 0;
     const cellAmps = bms?.chargeOpen ? 0 : chargeAmps(step.charger, sourceVolts, ohms, heaterAmps);
     return { cellAmps, heaterAmps, amps: cellAmps - heaterAmps, volts: sourceVolts - cellAmps * ohms };
+  };
+
+  /** The pack under the instruments: the BMS blocks the direction it has opened. */
+  const drivenPoint = (demand: number, sourceVolts: number, ohms: number): OperatingPoint => {
+    const dischargeOpen = bms?.dischargeOpen ?? false;
+    const blocked = demand > 0 ? dischargeOpen : demand < 0 ? (bms?.chargeOpen ?? false) : false;
+    const cellAmps = blocked ? 0 : demand;
+    const volts = dischargeOpen && cellAmps >= 0 && scenario.bms?.openTerminal === 'zero' ? 0 : sourceVolts - cellAmps * ohms;
+    return { cellAmps, heaterAmps: 0, amps: cellAmps, volts };
   };
 
   const stopReason = (p: OperatingPoint, trips: SimEvent[], chargeWasOpen: boolean): SimEvent['reason'] | undefined => {
@@ -100,6 +115,7 @@ export function createBench(scenario: Scenario, prng: Prng): Bench {
     if (p.amps > 0) totals.dischargedWh += (p.volts * p.amps * dtS) / SECONDS_PER_HOUR;
     else totals.chargedWh -= (p.volts * p.amps * dtS) / SECONDS_PER_HOUR;
     totals.heaterWh += (heaterWatts * dtS) / SECONDS_PER_HOUR;
+    if (currentStep()?.kind === 'rest') drive?.record(p.volts, p.amps, dtS, t + dtS);
     const heatWatts = pack.step(p.cellAmps, dtS, tempC) + heaterWatts;
     tempC = stepTemperature(tempC, ambientC, heatWatts, dtS, scenario.pack.thermal);
     t += dtS;

@@ -5,6 +5,7 @@ import { createPrng } from '../prng.js';
 import { MeterSchema, ScenarioSchema, type MeterConfig, type Scenario, type ScenarioInput } from '../scenario/schema.js';
 import { createBench, type Bench } from './bench.js';
 import { systemClock, type Clock } from './clock.js';
+import type { ExternalDrive } from './external-drive.js';
 import { playSamples, type Player } from './play.js';
 
 export const DEFAULT_SEED = 1;
@@ -19,6 +20,8 @@ export interface SimulationOptions {
   clock?: Clock;
   /** Overrides of the scenario's meter settings (an ideal meter for checks, say). */
   meter?: Partial<z.input<typeof MeterSchema>>;
+  /** Instruments commanded from outside (load, supply) that drive the pack during rest steps. */
+  drive?: ExternalDrive;
 }
 
 /** One sample of the meter: what it measured, whether it reached the wire, and the truth behind it. */
@@ -52,7 +55,7 @@ export function createSimulation(input: Scenario | ScenarioInput, options: Simul
   const scenario = ScenarioSchema.parse(input);
   const meter = MeterSchema.parse({ ...scenario.meter, ...options.meter });
   const seed = options.seed ?? DEFAULT_SEED;
-  const bench = createBench(scenario, createPrng(seed, 'physics'));
+  const bench = createBench(scenario, createPrng(seed, 'physics'), options.drive);
   const meterPrng = createPrng(seed, 'meter');
   const hasHeater = scenario.pack.heater !== undefined;
   const substeps = Math.max(1, Math.ceil(meter.samplePeriodS / scenario.maxPhysicsStepS - STEP_COUNT_EPSILON));

@@ -5,9 +5,9 @@ import { describe, expect, it } from 'vitest';
 import { listScenarios, loadScenario } from './registry.js';
 
 describe('scenario registry', () => {
-  it('lists eleven built-in scenarios (five of them protection checks), each of which validates', () => {
+  it('lists twelve built-in scenarios (five of them protection checks, one a controlled bench), each of which validates', () => {
     const names = listScenarios().map((s) => s.name);
-    expect(names).toHaveLength(11);
+    expect(names).toHaveLength(12);
     expect(names.filter((n) => n.startsWith('check-'))).toHaveLength(5);
     expect(new Set(names).size).toBe(names.length);
     for (const name of names) expect(loadScenario(name).name).toBe(name);

@@ -1,4 +1,5 @@
 import type { ScenarioInput } from '../scenario/schema.js';
+import { benchControlLfp12v } from './bench-control-lfp-12v.js';
 import { leadAcid12vReserve } from './lead-acid-12v-reserve.js';
 import { lfp12v100ahCpCutoff } from './lfp-12v-100ah-cp-cutoff.js';
 import { lfp12vHotCutoff } from './lfp-12v-hot-cutoff.js';
@@ -16,4 +17,5 @@ export const BUILT_IN_SCENARIOS: readonly ScenarioInput[] = [
   lfp12vWeakCell,
   noisyMeterUnplug,
   ...PROTECTION_CHECK_SCENARIOS,
+  benchControlLfp12v,
 ];

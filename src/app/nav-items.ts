@@ -10,6 +10,7 @@ export interface NavItem {
 export const NAV_ITEMS: readonly NavItem[] = [
   { to: '/', label: 'Benches', minRole: 'viewer' },
   { to: '/runs', label: 'Runs', minRole: 'viewer' },
+  { to: '/programmes', label: 'Programmes', minRole: 'viewer' },
   { to: '/batteries', label: 'Batteries', minRole: 'viewer' },
   { to: '/alarms', label: 'Alarms', minRole: 'viewer' },
   { to: '/users', label: 'Users', minRole: 'admin' },

@@ -58,6 +58,7 @@ export function createRoutes(queryClient: QueryClient): RouteObject[] {
             { path: '/benches/:benchId', ...at(() => import('./routes/bench')) },
             { path: '/benches/:benchId/setup', ...at(() => import('./routes/edit-bench')) },
             { path: '/runs', ...at(() => import('./routes/runs')) },
+            { path: '/programmes', ...at(() => import('./routes/programmes')) },
             { path: '/runs/compare', ...at(() => import('./routes/compare')) },
             { path: '/runs/:runId', ...at(() => import('./routes/run')) },
             { path: '/batteries', ...at(() => import('./routes/batteries')) },

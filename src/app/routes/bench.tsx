@@ -6,13 +6,23 @@ import { benchQueryOptions } from '../../lib/queries/benches';
 import { hasRole } from '../../lib/roles';
 import { idParam, useIdParam } from '../route-kit/use-id-param';
 import { NotFound } from './not-found';
+import { RunProgrammePanel } from '../../features/programmes/components/run-programme-panel';
 
 /** One bench, live. */
 export function Component() {
   const me = useMe();
   const benchId = useIdParam('benchId');
   if (Number.isNaN(benchId)) return <NotFound />;
-  return <BenchLivePage key={benchId} benchId={benchId} canAct={hasRole(me.data?.role, 'technician')} canSetUp={hasRole(me.data?.role, 'admin')} />;
+  const canAct = hasRole(me.data?.role, 'technician');
+  return (
+    <BenchLivePage
+      key={benchId}
+      benchId={benchId}
+      canAct={canAct}
+      canSetUp={hasRole(me.data?.role, 'admin')}
+      runExtras={(runId, live) => <RunProgrammePanel key={runId} runId={runId} canAct={canAct} live={live} />}
+    />
+  );
 }
 
 /** The bench and its source status. */

@@ -1,4 +1,5 @@
 import { BenchSetupPage } from '../../features/benches/components/bench-setup-page';
+import { BenchInstrumentsForm } from '../../features/programmes/components/bench-instruments-form';
 import { RequireRole } from '../require-auth';
 import { useIdParam } from '../route-kit/use-id-param';
 import { NotFound } from './not-found';
@@ -12,6 +13,7 @@ export function Component() {
   return (
     <RequireRole min="admin">
       <BenchSetupPage key={benchId} benchId={benchId} />
+      <BenchInstrumentsForm key={`instruments-${benchId}`} benchId={benchId} />
     </RequireRole>
   );
 }

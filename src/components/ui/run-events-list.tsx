@@ -12,6 +12,16 @@ const MILESTONE_LABEL = {
   'near-end-voltage': 'Nearing the end voltage',
 } as const;
 
+const PROGRAMME_PHASE_WORD = {
+  start: 'started',
+  end: 'ended',
+  skip: 'skipped',
+  pause: 'paused',
+  resume: 'resumed',
+  fail: 'failed safe, outputs off',
+  abort: 'aborted, outputs off',
+} as const;
+
 /** The lab's display units (from its settings); Wh and °C when not given. */
 export interface EventUnits {
   temperatureUnit?: 'C' | 'F';
@@ -72,10 +82,13 @@ export function describeEvent(e: RunEvent, { temperatureUnit = 'C', energyUnit =
       return `Load on${e.note ? `: ${e.note}` : ''}`;
     case 'load-off':
       return `Load off${e.note ? `: ${e.note}` : ''}`;
+    case 'programme-step':
+      return `Step ${e.label}: ${PROGRAMME_PHASE_WORD[e.phase]}${e.reason ? ` (${e.reason})` : ''}`;
   }
 }
 
 function eventColor(e: RunEvent): string {
+  if (e.type === 'programme-step' && (e.phase === 'fail' || e.phase === 'abort')) return RUN_STATE_COLORS.cutoff;
   if (e.type === 'cutoff' || e.type === 'protection-trip' || e.type === 'protection-check-trip' || (e.type === 'alarm' && e.level === 'critical')) return RUN_STATE_COLORS.cutoff;
   if (e.type === 'recovery' || e.type === 'protection-reset' || e.type === 'protection-check-release') return RUN_STATE_COLORS.recovered;
   if (e.type === 'annotation') return NOTE_COLOR;

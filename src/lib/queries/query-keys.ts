@@ -43,6 +43,12 @@ export const queryKeys = {
     noteHistory: (runId: number) => ['runs', runId, 'note-history'] as const,
     samples: (runId: number, from: number | null, to: number | null, maxPoints: number) => ['runs', runId, 'samples', from, to, maxPoints] as const,
     signoffs: (runId: number) => ['runs', runId, 'signoffs'] as const,
+    programme: (runId: number) => ['runs', runId, 'programme'] as const,
+    commandLog: (runId: number) => ['runs', runId, 'command-log'] as const,
+  },
+  programmes: {
+    all: ['programmes'] as const,
+    detail: (programmeId: number) => ['programmes', programmeId] as const,
   },
   shareLinks: (kind: 'run' | 'battery', targetId: number) => ['share-links', kind, targetId] as const,
   shareLinkMails: (linkId: number) => ['share-links', 'mails', linkId] as const,

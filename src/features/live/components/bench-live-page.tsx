@@ -1,4 +1,4 @@
-import { useState } from 'react';
+import { useState, type ReactNode } from 'react';
 import { Link } from 'react-router-dom';
 import { Card, PageHeader } from '../../../components/ui/card';
 import { BENCH_STATUS_LABEL, BenchStatusBadge, RunStateBadge } from '../../../components/ui/state-badge';
@@ -28,7 +28,18 @@ function LastReading({ ageSeconds }: { ageSeconds: number | null }) {
 }
 
 /** One bench: its live run when there is one, otherwise its raw readings and the start form. */
-export function BenchLivePage({ benchId, canAct, canSetUp = false }: { benchId: number; canAct: boolean; canSetUp?: boolean }) {
+export function BenchLivePage({
+  benchId,
+  canAct,
+  canSetUp = false,
+  runExtras,
+}: {
+  benchId: number;
+  canAct: boolean;
+  canSetUp?: boolean;
+  /** What the page shows under the run on screen (the route passes the run's programme panel). */
+  runExtras?: (runId: number, live: boolean) => ReactNode;
+}) {
   const bench = useBench(benchId);
   const store = useLiveStore({ kind: 'bench', id: benchId });
   const view = useLiveView(store);
@@ -76,14 +87,17 @@ export function BenchLivePage({ benchId, canAct, canSetUp = false }: { benchId: 
       />
       {status.lastRejection && <p className="mb-4 text-sm text-status-stale">Last rejected reading: {status.lastRejection}</p>}
       {shownRunId !== null ? (
-        <LiveRunPanel
-          runId={shownRunId}
-          label={bench.data.name}
-          roomViewPath={roomViewPath}
-          canAct={canAct}
-          onClose={liveRun ? undefined : () => setPinnedRunId(null)}
-          sourceProblem={sourceProblem}
-        />
+        <div className="flex flex-col gap-4">
+          <LiveRunPanel
+            runId={shownRunId}
+            label={bench.data.name}
+            roomViewPath={roomViewPath}
+            canAct={canAct}
+            onClose={liveRun ? undefined : () => setPinnedRunId(null)}
+            sourceProblem={sourceProblem}
+          />
+          {runExtras?.(shownRunId, liveRun !== null)}
+        </div>
       ) : (
         <div className="flex flex-col gap-4">
           {latest.data && (

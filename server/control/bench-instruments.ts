@@ -1,0 +1,14 @@
+import type { BenchInstruments } from './step-actions.js';
+
+/**
+ * Where a programme gets a bench's controllable instruments (the instrument drivers provide
+ * it); null when the bench has none. The provider owns the instruments (their ports stay open
+ * between programmes); a programme only sends commands.
+ */
+export interface BenchInstrumentsProvider {
+  forBench(benchId: number): Promise<BenchInstruments | null>;
+  /** Closes what is open for a bench (its settings changed). */
+  forget?(benchId: number): Promise<void>;
+  /** Closes everything (server close). */
+  close?(): Promise<void>;
+}
