@@ -10,7 +10,7 @@ import { ProgrammeExecutor } from '../control/programme-executor.js';
 import { DEFAULT_OVER_TEMP_CELSIUS, METER_SILENT_MS, type SafetyLimits } from '../control/safety-net.js';
 import { reasonOf, rolesNeeded } from '../control/step-actions.js';
 import { systemClock, type Clock } from '../ingest/clock.js';
-import { HttpError, notFound } from '../http/http-error.js';
+import { ConflictError, InvalidInputError, notFound } from '../domain/domain-errors.js';
 import { RunsRepo } from '../runs/runs-repo.js';
 import { recorderOf } from '../runs/runs-services.js';
 import { ProgrammesRepo } from './programmes-repo.js';
@@ -65,7 +65,7 @@ export class ProgrammeRunner {
 
   /** Starts programme `programmeId` on live run `runId` (400 unsafe for the run's pack, 409 not possible now). */
   async start(runId: number, programmeId: number, user: { id: number; name: string }): Promise<void> {
-    if (this.starting.has(runId)) throw new HttpError(409, `A programme is already starting on run ${runId}`);
+    if (this.starting.has(runId)) throw new ConflictError(`A programme is already starting on run ${runId}`);
     this.starting.add(runId);
     try {
       await this.setUp(runId, programmeId, user);
@@ -76,16 +76,16 @@ export class ProgrammeRunner {
 
   private async setUp(runId: number, programmeId: number, user: { id: number; name: string }): Promise<void> {
     const run = await this.liveRun(runId);
-    if (this.active.has(runId) || (await this.runProgrammes.get(runId, this.clock.nowMs()))) throw new HttpError(409, `Run ${runId} already follows a programme`);
+    if (this.active.has(runId) || (await this.runProgrammes.get(runId, this.clock.nowMs()))) throw new ConflictError(`Run ${runId} already follows a programme`);
     const checked = await this.programmes.get(programmeId);
     if (!checked) throw notFound(`Programme ${programmeId}`);
     const pack = await this.packLimits(run, checked);
     const problems = programmeProblems(checked.steps, pack);
-    if (problems.length > 0) throw new HttpError(400, `Unsafe for this run's pack: ${problems.map((p) => p.message).join('; ')}`, Object.fromEntries(problems.map((p) => [p.path, [p.message]])));
+    if (problems.length > 0) throw new InvalidInputError(`Unsafe for this run's pack: ${problems.map((p) => p.message).join('; ')}`, Object.fromEntries(problems.map((p) => [p.path, [p.message]])));
     const plan = planSteps(checked.steps);
     const instruments = await this.instrumentsOf(run.benchId);
     const missing = [...rolesNeeded(plan.map((p) => p.step))].filter((role) => !instruments?.[role]);
-    if (!instruments || missing.length > 0) throw new HttpError(409, `Bench ${run.benchId} has no controllable ${missing.join(' or ') || 'instrument'} for this programme`);
+    if (!instruments || missing.length > 0) throw new ConflictError(`Bench ${run.benchId} has no controllable ${missing.join(' or ') || 'instrument'} for this programme`);
     const limits: SafetyLimits = {
       floorVolts: safetyFloorVolts(pack), ceilingVolts: chargeCeilingVolts(pack), meterSilentMs: METER_SILENT_MS,
       overTempCelsius: Math.min(DEFAULT_OVER_TEMP_CELSIUS, run.alarms.highTempCelsius ?? Infinity),
@@ -130,7 +130,7 @@ export class ProgrammeRunner {
     try {
       return await this.ctx.services.benchInstruments?.forBench(benchId);
     } catch (error) {
-      throw new HttpError(409, `The instruments of bench ${benchId} cannot be opened: ${reasonOf(error)}`);
+      throw new ConflictError(`The instruments of bench ${benchId} cannot be opened: ${reasonOf(error)}`);
     }
   }
 
@@ -142,7 +142,7 @@ export class ProgrammeRunner {
   /** A technician's pause, resume, skip or abort on a run's programme (409 when none runs). */
   control(runId: number, action: ProgrammeControlAction): void {
     const active = this.active.get(runId);
-    if (!active) throw new HttpError(409, `Run ${runId} has no programme running`);
+    if (!active) throw new ConflictError(`Run ${runId} has no programme running`);
     active.executor.control(action);
   }
 
@@ -181,7 +181,7 @@ export class ProgrammeRunner {
     const run = await this.runs.get(runId);
     if (!run) throw notFound(`Run ${runId}`);
     if (run.origin !== 'live' || run.benchId === null || !LIVE_RUN_STATES.includes(run.state) || !recorderOf(this.ctx).session(runId))
-      throw new HttpError(409, `Run ${runId} is not recording live on a bench here`);
+      throw new ConflictError(`Run ${runId} is not recording live on a bench here`);
     return run as Run & { benchId: number };
   }
 
