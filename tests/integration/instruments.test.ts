@@ -108,6 +108,18 @@ describe('calibration on the bench', () => {
     }
     const used = (await viewer.get(`/api/runs/${run.id}/instruments`).expect(200)).body.instruments;
     expect(used).toEqual([expect.objectContaining({ instrumentId: instrument.id, serialNumber: 'OW-20931', calibration: 'overdue', calibrationDueOn: day(-35) })]);
+    // The report names the instrument and flags its overdue calibration.
+    const report = await viewer.get(`/api/runs/${run.id}/report.pdf`).buffer(true).parse((r, cb) => {
+      const parts: Buffer[] = [];
+      r.on('data', (c: Buffer) => parts.push(c));
+      r.on('end', () => cb(null, Buffer.concat(parts)));
+    }).expect(200);
+    const { getDocument } = await import('pdfjs-dist/legacy/build/pdf.mjs');
+    const pdf = await getDocument({ data: new Uint8Array(report.body as Buffer), verbosity: 0 }).promise;
+    const firstPage = (await (await pdf.getPage(1)).getTextContent()).items.map((it) => ('str' in it ? it.str : '')).join('');
+    // pdf.js drops the space where the line wraps: compare without spaces.
+    const squeeze = (text: string) => text.replace(/\s+/g, '');
+    expect(squeeze(firstPage)).toContain(squeeze(`meter Ostwind Labs DM-6 bench meter (serial OW-20931), CALIBRATION OVERDUE (was due ${day(-35)})`));
     // A later change to the record does not rewrite what the run used.
     await admin.put(`/api/instruments/${instrument.id}`).send(meter(bench.id, { calibrationDueOn: day(300) })).expect(200);
     expect((await viewer.get(`/api/runs/${run.id}/instruments`).expect(200)).body.instruments[0].calibration).toBe('overdue');
