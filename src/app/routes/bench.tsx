@@ -1,5 +1,6 @@
 import type { QueryClient } from '@tanstack/react-query';
 import type { Params } from 'react-router-dom';
+import { CalibrationFlag } from '../../components/calibration/calibration-flag';
 import { useMe } from '../../features/auth/api/get-me';
 import { BenchLivePage } from '../../features/live/components/bench-live-page';
 import { benchQueryOptions } from '../../lib/queries/benches';
@@ -12,7 +13,12 @@ export function Component() {
   const me = useMe();
   const benchId = useIdParam('benchId');
   if (Number.isNaN(benchId)) return <NotFound />;
-  return <BenchLivePage key={benchId} benchId={benchId} canAct={hasRole(me.data?.role, 'technician')} canSetUp={hasRole(me.data?.role, 'admin')} />;
+  return (
+    <>
+      <CalibrationFlag benchId={benchId} />
+      <BenchLivePage key={benchId} benchId={benchId} canAct={hasRole(me.data?.role, 'technician')} canSetUp={hasRole(me.data?.role, 'admin')} />
+    </>
+  );
 }
 
 /** The bench and its source status. */
