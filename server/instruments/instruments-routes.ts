@@ -1,5 +1,6 @@
 import { Router, type RequestHandler } from 'express';
 import multer from 'multer';
+import { QueryTypes } from 'sequelize';
 import { InstrumentInputSchema } from '../../shared/schemas/instrument.js';
 import type { AppContext } from '../app-context.js';
 import { requireRole } from '../auth/guards.js';
@@ -31,10 +32,10 @@ export function createInstrumentsRouter(ctx: AppContext): Router {
   const upload = multer({ storage: multer.memoryStorage(), limits: { fileSize: CERTIFICATE_MAX_BYTES, files: 1, fields: MAX_FIELDS } }).single('file');
   const receive: RequestHandler = (req, res, next) => upload(req, res, (error: unknown) => next(error ? uploadRefusal(error) : undefined));
   const reload = () => ctx.services.instruments?.reload() ?? Promise.resolve();
+  const exists = async (table: 'benches' | 'runs', id: number) =>
+    (await ctx.sequelize.query(`SELECT id FROM ${table} WHERE id = :id`, { type: QueryTypes.SELECT, replacements: { id } })).length > 0;
   const benchMustExist = async (benchId: number | null) => {
-    if (benchId === null) return;
-    const [row] = await ctx.sequelize.query('SELECT id FROM benches WHERE id = :benchId', { replacements: { benchId }, plain: false, raw: true });
-    if ((row as unknown[]).length === 0) throw new HttpError(400, `Bench ${benchId} does not exist`, { benchId: ['no such bench'] });
+    if (benchId !== null && !(await exists('benches', benchId))) throw new HttpError(400, `Bench ${benchId} does not exist`, { benchId: ['no such bench'] });
   };
   const instrumentOr404 = async (raw: string | string[] | undefined) => {
     const id = parseIdParam(raw);
@@ -103,7 +104,9 @@ export function createInstrumentsRouter(ctx: AppContext): Router {
   });
 
   router.get('/runs/:id/instruments', requireRole('viewer'), async (req, res) => {
-    res.json({ instruments: await repo.ofRun(parseIdParam(req.params.id)) });
+    const runId = parseIdParam(req.params.id);
+    if (!(await exists('runs', runId))) throw notFound(`Run ${runId}`);
+    res.json({ instruments: await repo.ofRun(runId) });
   });
 
   return router;

@@ -51,6 +51,7 @@ describe('instrument records', () => {
     expect(JSON.stringify(res.body)).toMatch(/make/);
     expect(JSON.stringify(res.body)).toMatch(/channels/);
     expect(JSON.stringify(res.body)).toMatch(/calibratedOn/);
+    await viewer.get('/api/runs/99999/instruments').expect(404);
     const noBench = await admin.post('/api/instruments').send(meter(99_999)).expect(400);
     expect(noBench.body.error.fields).toEqual({ benchId: ['no such bench'] });
   });
