@@ -67,4 +67,10 @@ describe('instruments page', () => {
     expect(await screen.findByText(/Calibration overdue:/)).toBeTruthy();
     expect(screen.getByText(/Ostwind Labs DM-6 \(serial OW-20931, due 2026-01-10\)/)).toBeTruthy();
   });
+
+  it('flags overdue instruments on the benches overview, naming the bench', async () => {
+    api('viewer');
+    renderAt('/');
+    expect(await screen.findByText(/Calibration overdue:.*Ostwind Labs DM-6 \(serial OW-20931, due 2026-01-10\) on Bench 4/)).toBeTruthy();
+  });
 });
