@@ -21,6 +21,7 @@ import { createSignoffRouter } from './signoff/signoff-routes.js';
 import { createShareLinksRouter } from './share/share-links-routes.js';
 import { createSharedRouter } from './share/shared-routes.js';
 import { createProgrammesRouter } from './programmes/programmes-routes.js';
+import { createInstrumentsRouter } from './instruments/instruments-routes.js';
 
 /**
  * The Express app (no listen). Order matters: security headers, the health endpoint, a 503
@@ -63,6 +64,7 @@ export function createApp(ctx: AppContext): Express {
   app.use('/api', createSignoffRouter(ctx));
   app.use('/api/share-links', createShareLinksRouter(ctx));
   app.use('/api', createProgrammesRouter(ctx));
+  app.use('/api', createInstrumentsRouter(ctx));
   // ── end of router mounts ──
 
   app.use('/api', apiNotFound);

@@ -20,6 +20,7 @@ import { backupAttachment } from './backup/attach-backups.js';
 import { attachAlarms } from './alarms/attach-alarms.js';
 import { attachPush } from './push/attach-push.js';
 import { attachProgrammes } from './programmes/attach-programmes.js';
+import { attachInstruments } from './instruments/attach-instruments.js';
 
 /** Undoes an attachment (close sockets, stop timers); awaited on server close. */
 export type Detach = () => Promise<void> | void;
@@ -32,7 +33,7 @@ export type Attachment = (httpServer: Server, ctx: AppContext) => Promise<Detach
  *   attachBenchManager,   (ingest, from ./benches/...)
  *   attachRecording,      (the composition root of recording, from ./compose/...)
  */
-export const ATTACHMENTS: Attachment[] = [attachBenchManager, attachRecording, attachProgrammes, attachAlarms, attachPush, backupAttachment()];
+export const ATTACHMENTS: Attachment[] = [attachBenchManager, attachRecording, attachInstruments, attachProgrammes, attachAlarms, attachPush, backupAttachment()];
 
 /** How to start; everything is optional (defaults: environment config, provisioned MariaDB). */
 export interface StartServerOptions {

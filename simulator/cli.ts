@@ -6,6 +6,7 @@ import { parseArgs } from 'node:util';
 import { z } from 'zod';
 import { csvOptionsFor, MeterFormatSchema } from './meter/device.js';
 import { listScenarios, loadScenario } from './scenario/registry.js';
+import { startSimulatedBench } from './instruments/simulated-bench.js';
 import { startPtyMeter } from './transport/pty-meter.js';
 import { startStreamMeter } from './transport/stdio-meter.js';
 
@@ -19,7 +20,10 @@ const USAGE = `Usage: npm run simulator -- [options]
   --sample-period S      seconds between meter samples (default: the scenario's)
   --ideal                a perfect meter: no noise, drops, garbling or unplugs
   --no-time              CSV without the time column
-  --unit-id N            Modbus unit address (default 1)`;
+  --unit-id N            Modbus unit address (default 1)
+  --load PATH            also an electronic load on a pseudo-terminal at PATH (needs --out PATH)
+  --supply PATH          also a supply / charger on a pseudo-terminal at PATH (needs --out PATH)
+  --instruments FORMAT   how the load and supply speak: scpi (default) or modbus`;
 
 const IDEAL_METER = { voltsNoise: 0, ampsNoise: 0, tempNoise: 0, dropProbability: 0, corruptProbability: 0, unplugs: [] };
 
@@ -38,6 +42,9 @@ const ArgsSchema = z.object({
   'sample-period': z.coerce.number().positive().finite().optional(),
   ideal: z.boolean().default(false),
   'unit-id': z.coerce.number().int().min(1).max(MAX_MODBUS_UNIT).default(1),
+  load: z.string().optional(),
+  supply: z.string().optional(),
+  instruments: z.enum(['scpi', 'modbus']).default('scpi'),
 });
 
 async function main(): Promise<void> {
@@ -47,6 +54,7 @@ async function main(): Promise<void> {
       format: { type: 'string' }, out: { type: 'string' }, speed: { type: 'string' },
       seed: { type: 'string' }, 'no-time': { type: 'boolean' }, 'unit-id': { type: 'string' },
       'sample-period': { type: 'string' }, ideal: { type: 'boolean' },
+      load: { type: 'string' }, supply: { type: 'string' }, instruments: { type: 'string' },
     },
   });
   const parsed = ArgsSchema.safeParse(values);
@@ -71,6 +79,17 @@ async function main(): Promise<void> {
     },
     modbus: { unitId: args['unit-id'] },
   };
+  const withInstruments = args.load !== undefined || args.supply !== undefined;
+  if (withInstruments && args.out === '-') throw new Error('--load and --supply need the meter on a pseudo-terminal too: give --out PATH');
+  if (withInstruments) {
+    const bench = await startSimulatedBench({ ...common, linkPath: args.out, loadLinkPath: args.load, supplyLinkPath: args.supply, protocol: args.instruments });
+    console.error(`Simulated ${args.format} meter on ${args.out}; ${args.instruments} load on ${args.load ?? '(none)'}, supply on ${args.supply ?? '(none)'} (scenario ${scenario.name}, ${args.speed}x)`);
+    process.once('SIGINT', () => void bench.stop());
+    process.once('SIGTERM', () => void bench.stop());
+    await bench.meter.finished;
+    await bench.stop();
+    return;
+  }
   if (args.out === '-') {
     const meter = startStreamMeter({ ...common, output: process.stdout, input: process.stdin });
     process.once('SIGINT', () => meter.stop());

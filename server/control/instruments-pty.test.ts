@@ -1,4 +1,4 @@
-import { execFile } from 'node:child_process';
+import { execFile, spawn } from 'node:child_process';
 import { promisify } from 'node:util';
 import { afterEach, describe, expect, it } from 'vitest';
 import { SerialSourceConfigSchema } from '../../shared/schemas/bench.js';
@@ -115,6 +115,30 @@ describe('SCPI driver and the simulated load and supply over socat pseudo-termin
     // The server stops talking (its process killed): the port closes and nothing more arrives.
     await load.close();
     await until(() => !sim.load.outputOn, 'the load to switch off', 3000);
+    expect(sim.load.events.at(-1)?.kind).toBe('watchdog-off');
+  });
+
+  it('server process killed: the load stays on while it talks, and its watchdog switches it off after the kill', async () => {
+    const sim = await start();
+    const WATCHDOG_S = 1;
+    const child = spawn(process.execPath, ['--import', 'tsx', 'server/control/testing/hold-load.ts', link('load'), String(WATCHDOG_S)], { stdio: ['ignore', 'pipe', 'inherit'] });
+    const exited = new Promise((done) => child.once('exit', done));
+    closers.push(async () => {
+      if (child.exitCode === null && child.signalCode === null) child.kill('SIGKILL');
+      await exited;
+    });
+    let out = '';
+    child.stdout.on('data', (c: Buffer) => (out += c.toString()));
+    await until(() => out.includes('armed'), 'the child to arm the watchdog', TIMEOUT_MS / 2);
+    expect(sim.load.outputOn).toBe(true);
+    // Alive and polling for three watchdog periods: the load stays on.
+    await new Promise((r) => setTimeout(r, 3 * WATCHDOG_S * 1000));
+    expect(sim.load.outputOn).toBe(true);
+    const killedAtMs = Date.now();
+    child.kill('SIGKILL');
+    await exited;
+    await until(() => !sim.load.outputOn, 'the watchdog to switch the load off', 3000);
+    expect(Date.now() - killedAtMs).toBeLessThan(2 * WATCHDOG_S * 1000);
     expect(sim.load.events.at(-1)?.kind).toBe('watchdog-off');
   });
 

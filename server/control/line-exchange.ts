@@ -9,13 +9,17 @@ export type ExchangeResult = { reply: string } | { problem: string };
  * One command at a time on a line-oriented port (SCPI over serial). A query waits for one
  * reply line up to the timeout; a command without reply is only written. Calls queue up, so
  * a programme step and the safety net never interleave their bytes. A reply that arrives
- * with nobody waiting (late, after a timeout) is dropped, so it cannot answer the next query.
+ * with nobody waiting (late, after a timeout) is dropped; after a timeout the next query also
+ * waits out one more timeout first, so a late reply cannot answer it. Commands without a reply
+ * (an output off) are never held back.
  */
 export class LineExchange {
   private readonly framer = new LineFramer();
   private waiter: { resolve: (r: ExchangeResult) => void; timer: TimerHandle } | undefined;
   private queue: Promise<unknown> = Promise.resolve();
   private closedReason: string | undefined;
+  /** Until when (clock ms) a late reply to a timed-out query may still arrive. */
+  private quietUntilMs = 0;
   /** Replies nobody waited for. */
   lateReplies = 0;
 
@@ -61,11 +65,16 @@ export class LineExchange {
     return undefined;
   }
 
-  private send(text: string, timeoutMs: number): Promise<ExchangeResult> {
+  private async send(text: string, timeoutMs: number): Promise<ExchangeResult> {
+    const waitMs = this.quietUntilMs - this.clock.nowMs();
+    if (waitMs > 0) await new Promise<void>((resolve) => this.clock.setTimeout(resolve, waitMs));
     const failed = this.write(text);
     if (failed) return Promise.resolve(failed);
     return new Promise((resolve) => {
-      const timer = this.clock.setTimeout(() => this.finish({ problem: `no reply within ${timeoutMs} ms` }), timeoutMs);
+      const timer = this.clock.setTimeout(() => {
+        this.quietUntilMs = this.clock.nowMs() + timeoutMs;
+        this.finish({ problem: `no reply within ${timeoutMs} ms` });
+      }, timeoutMs);
       this.waiter = { resolve, timer };
     });
   }

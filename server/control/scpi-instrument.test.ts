@@ -1,3 +1,4 @@
+import type { SerialPortMock } from 'serialport';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import type { InstrumentDriverInput } from '../../shared/schemas/instrument-driver.js';
 import { SIM_LOAD_SCPI } from '../../shared/schemas/instrument-presets.js';
@@ -27,7 +28,10 @@ function scripted() {
     replies: { '*IDN?': 'Ostwind Labs,EL-300,OW1234,2.1', 'MEAS:VOLT?': '13.2051', 'MEAS:CURR?': '10.0000', 'INP?': '1' } as Record<string, string>,
     silent: false,
     garbage: undefined as Buffer | undefined,
+    /** Bytes from the instrument that answer nothing just sent (a late reply). */
+    late: (text: string) => void made[0]?.port?.emitData(text),
   };
+  const made: SerialPortMock[] = [];
   const factory = respondingPortFactory((data) => {
     const line = data.toString().trim();
     script.written.push(line);
@@ -36,7 +40,7 @@ function scripted() {
     if (line === 'SYST:ERR?') return `${script.errorQueue.shift() ?? '0,"No error"'}\n`;
     const reply = script.replies[line];
     return reply === undefined ? undefined : `${reply}\r\n`;
-  });
+  }, made);
   return { script, factory };
 }
 
@@ -111,11 +115,34 @@ describe('SCPI instrument driver', () => {
     clock.advance(REPLY_TIMEOUT_MS);
     await expect(pending).rejects.toThrow(`load-1: *IDN?: no reply within ${REPLY_TIMEOUT_MS} ms`);
     expect(log.at(-1)).toMatchObject({ sent: '*IDN?', reply: null, problem: `no reply within ${REPLY_TIMEOUT_MS} ms` });
-    // A command with no reply is caught by its error-queue check.
+    // A command with no reply is caught by its error-queue check (asked once a late reply could no longer come).
     const setting = instrument.setOutput(false);
     await settle();
     clock.advance(REPLY_TIMEOUT_MS);
+    await settle();
+    clock.advance(REPLY_TIMEOUT_MS);
     await expect(setting).rejects.toThrow('SYST:ERR?: no reply');
+  });
+
+  it('a late reply to a timed-out query is not taken as the answer to the next one', async () => {
+    script.silent = true;
+    const pending = instrument.read();
+    await settle();
+    clock.advance(REPLY_TIMEOUT_MS);
+    await expect(pending).rejects.toThrow('no reply');
+    script.silent = false;
+    // The fail-safe command goes out at once; its error-queue check waits out the late reply.
+    const off = instrument.setOutput(false);
+    await settle();
+    expect(script.written.slice(-1)).toEqual(['INP OFF']);
+    // The instrument's late answer to MEAS:VOLT? arrives now.
+    script.late('13.2051\n');
+    await settle();
+    clock.advance(REPLY_TIMEOUT_MS);
+    await settle();
+    await off;
+    expect(script.written.slice(-2)).toEqual(['INP OFF', 'SYST:ERR?']);
+    expect(log.at(-1)).toMatchObject({ sent: 'SYST:ERR?', reply: '0,"No error"', problem: null });
   });
 
   it('refuses a set point above the limit or not positive before sending anything', async () => {

@@ -6,6 +6,7 @@ import { BATTERY_OPTIONAL_DEFAULTS } from './models/battery.js';
 import { hashPassword } from '../auth/password.js';
 import { saveLabSettings } from '../settings/settings-service.js';
 import { seedDemoBenches } from '../benches/seed-demo-benches.js';
+import { seedDemoInstruments } from '../instruments/seed-demo-instruments.js';
 
 /** The fictional lab's name. */
 export const DEMO_LAB_NAME = 'Northgate Cell Lab';
@@ -67,5 +68,6 @@ export async function seedDemo(models: CoreModels, demoPassword: string, options
   });
   await saveLabSettings(models, LabSettingsSchema.parse({ labName: DEMO_LAB_NAME }), null);
   await seedDemoBenches(models.User.sequelize!);
+  await seedDemoInstruments(models.User.sequelize!);
   return { seeded: true };
 }

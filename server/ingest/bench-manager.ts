@@ -14,6 +14,8 @@ export interface ManagedBench {
 
 /** A frame listener: every valid frame of every bench, in order per bench. */
 export type FrameListener = (benchId: number, frame: Frame) => void;
+/** A step applied to each frame of a bench before it is handed out; returns the frame to hand out. */
+export type FrameTransform = (benchId: number, frame: Frame) => Frame;
 /** A status listener: state or message changes of any bench. */
 export type StatusListener = (benchId: number, status: BenchStatus) => void;
 
@@ -47,6 +49,7 @@ export class BenchManager implements BenchFeed {
   private readonly pending = new Map<number, Promise<unknown>>();
   private readonly frameListeners: ListenerSet<[number, Frame]>;
   private readonly statusListeners: ListenerSet<[number, BenchStatus]>;
+  private transform: FrameTransform = (_benchId, frame) => frame;
 
   constructor(
     private readonly deps: SourceDeps = {},
@@ -54,6 +57,14 @@ export class BenchManager implements BenchFeed {
   ) {
     this.frameListeners = new ListenerSet((err) => this.log('bench frame listener failed', err));
     this.statusListeners = new ListenerSet((err) => this.log('bench status listener failed', err));
+  }
+
+  /**
+   * Sets the one step every frame passes where it is made, before any listener sees it (the
+   * meters' calibration); listeners then all get the same frame.
+   */
+  setFrameTransform(transform: FrameTransform): void {
+    this.transform = transform;
   }
 
   /** Subscribes to frames of all benches; returns the unsubscribe. */
@@ -157,7 +168,7 @@ export class BenchManager implements BenchFeed {
   private sinkFor(benchId: number) {
     return {
       frame: (frame: Frame) => {
-        if (this.entries.has(benchId)) this.frameListeners.emit(benchId, frame);
+        if (this.entries.has(benchId)) this.frameListeners.emit(benchId, this.transform(benchId, frame));
       },
       status: (status: BenchStatus) => this.statusListeners.emit(benchId, status),
     };

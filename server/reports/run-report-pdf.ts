@@ -4,6 +4,8 @@ import type { SamplesResponse, StoredRunEvent } from '../../shared/schemas/api-r
 import type { LabSettings } from '../../shared/schemas/lab-settings.js';
 import type { RunProgramme } from '../../shared/schemas/programme-run.js';
 import { programmeReportLines } from './programme-lines.js';
+import type { RunInstrument } from '../../shared/schemas/instrument.js';
+import { instrumentsLine } from './instruments-line.js';
 import { formatCharge, formatDuration, formatElapsedClock, formatEnergy, formatPercent, formatTemperature, formatVolts, formatAmps } from '../../shared/units/format.js';
 
 /** Page layout, PDF points (72 per inch); A4. */
@@ -30,6 +32,8 @@ export interface RunReportInput {
   madeAt: Date;
   /** The test programme the run followed, with each step's figures (absent when none). */
   programme?: RunProgramme | null;
+  /** The instruments the run used and their calibration state when it started (server/instruments). */
+  instruments?: readonly RunInstrument[];
 }
 
 /** The summary figures as the report prints them, in the lab's units (the same formatting as the API's consumers). */
@@ -119,6 +123,7 @@ export async function renderRunReportPdf(input: RunReportInput): Promise<Buffer>
   doc.text(`Made ${labTime(input.madeAt, settings.timeZone)}`);
   doc.moveDown().fontSize(TITLE_FONT_PT).text(`Run report: ${run.name}`);
   doc.fontSize(BODY_FONT_PT).text(`Run ${run.id} · ${run.kind} · started ${run.startedAt ? labTime(new Date(run.startedAt), settings.timeZone) : '—'}`);
+  if (input.instruments) doc.text(instrumentsLine(input.instruments));
   doc.moveDown().fontSize(HEADING_FONT_PT).text(verdictText(run, settings));
   doc.moveDown().fontSize(HEADING_FONT_PT).text('Figures');
   doc.fontSize(BODY_FONT_PT);

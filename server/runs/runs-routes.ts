@@ -15,6 +15,7 @@ import { notFound } from '../http/http-error.js';
 import { parseBody, parseIdParam } from '../http/validate.js';
 import { batteryLookup } from './battery-facts.js';
 import { exportMeta } from './export-meta.js';
+import { InstrumentsRepo } from '../instruments/instruments-repo.js';
 import { streamCsvExport, streamJsonExport } from './export-stream.js';
 import { createImportHandler } from './import-route.js';
 import { NotesRepo, type NoteChangeRecord } from './notes-repo.js';
@@ -120,13 +121,14 @@ export function createRunsRouter(ctx: AppContext): Router {
   const REPORT_CHART_BUCKETS = 600;
   router.get('/:id/report.pdf', requireRole('viewer'), async (req, res) => {
     const run = live(await runOr404(req.params.id));
-    const [samples, events, settings, programme] = await Promise.all([
+    const [samples, events, settings, programme, instruments] = await Promise.all([
       runSamples(ctx.sequelize, run.id, SamplesQuerySchema.parse({ maxPoints: REPORT_CHART_BUCKETS })),
       repo.events(run.id),
       getLabSettings(ctx.models),
       ctx.services.programmeRunner?.get(run.id) ?? null,
+      new InstrumentsRepo(ctx.sequelize).ofRun(run.id),
     ]);
-    const pdf = await renderRunReportPdf({ run, samples, events, settings, madeAt: new Date(), programme });
+    const pdf = await renderRunReportPdf({ run, samples, events, settings, madeAt: new Date(), programme, instruments });
     res.setHeader('Content-Type', 'application/pdf');
     res.setHeader('Content-Disposition', `attachment; filename="run-${run.id}-report.pdf"`);
     res.end(pdf);

@@ -13,6 +13,7 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { to: '/programmes', label: 'Programmes', minRole: 'viewer' },
   { to: '/batteries', label: 'Batteries', minRole: 'viewer' },
   { to: '/alarms', label: 'Alarms', minRole: 'viewer' },
+  { to: '/instruments', label: 'Instruments', minRole: 'viewer' },
   { to: '/users', label: 'Users', minRole: 'admin' },
   { to: '/settings', label: 'Lab settings', minRole: 'admin' },
   { to: '/account', label: 'My account', minRole: 'viewer' },

@@ -63,6 +63,7 @@ export function createRoutes(queryClient: QueryClient): RouteObject[] {
             { path: '/runs/:runId', ...at(() => import('./routes/run')) },
             { path: '/batteries', ...at(() => import('./routes/batteries')) },
             { path: '/batteries/:batteryId', ...at(() => import('./routes/battery')) },
+            { path: '/instruments', ...at(() => import('./routes/instruments')) },
             { path: '/users', ...at(() => import('./routes/users')) },
             { path: '/settings', ...at(() => import('./routes/settings')) },
             { path: '/alarms', ...at(() => import('./routes/alarms')) },

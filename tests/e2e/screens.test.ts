@@ -45,6 +45,7 @@ beforeAll(async () => {
     `/runs/compare?ids=${runIds.join(',')}`,
     '/runs/compare?packs=',
     '/batteries',
+    '/instruments',
     '/users',
     '/settings',
     '/account',

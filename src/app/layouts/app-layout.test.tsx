@@ -12,7 +12,7 @@ describe('navigation by role', () => {
   it('shows users and lab settings to an admin', async () => {
     stubApi(demoUser('admin'));
     renderAt('/account');
-    expect(await navLabels()).toEqual(['Benches', 'Runs', 'Programmes', 'Batteries', 'Alarms', 'Users', 'Lab settings', 'My account']);
+    expect(await navLabels()).toEqual(['Benches', 'Runs', 'Programmes', 'Batteries', 'Alarms', 'Instruments', 'Users', 'Lab settings', 'My account']);
   });
 
   it('hides users and lab settings from a technician', async () => {

@@ -1,5 +1,6 @@
 import type { QueryClient } from '@tanstack/react-query';
 import type { Params } from 'react-router-dom';
+import { CalibrationFlag } from '../../components/calibration/calibration-flag';
 import { useMe } from '../../features/auth/api/get-me';
 import { BenchLivePage } from '../../features/live/components/bench-live-page';
 import { benchQueryOptions } from '../../lib/queries/benches';
@@ -15,13 +16,16 @@ export function Component() {
   if (Number.isNaN(benchId)) return <NotFound />;
   const canAct = hasRole(me.data?.role, 'technician');
   return (
-    <BenchLivePage
-      key={benchId}
-      benchId={benchId}
-      canAct={canAct}
-      canSetUp={hasRole(me.data?.role, 'admin')}
-      runExtras={(runId, live) => <RunProgrammePanel key={runId} runId={runId} canAct={canAct} live={live} />}
-    />
+    <>
+      <CalibrationFlag benchId={benchId} />
+      <BenchLivePage
+        key={benchId}
+        benchId={benchId}
+        canAct={canAct}
+        canSetUp={hasRole(me.data?.role, 'admin')}
+        runExtras={(runId, live) => <RunProgrammePanel key={runId} runId={runId} canAct={canAct} live={live} />}
+      />
+    </>
   );
 }
 

@@ -34,6 +34,11 @@ export const queryKeys = {
     protections: (batteryId: number) => ['batteries', batteryId, 'protections'] as const,
   },
   inspectionItems: ['inspection-items'] as const,
+  instruments: {
+    all: ['instruments'] as const,
+    list: (benchId: number | null) => ['instruments', 'list', benchId] as const,
+    ofRun: (runId: number) => ['instruments', 'run', runId] as const,
+  },
   runs: {
     all: ['runs'] as const,
     lists: () => ['runs', 'list'] as const,
