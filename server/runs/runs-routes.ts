@@ -22,8 +22,7 @@ import { changeNote } from './run-notes.js';
 import { RunsRepo } from './runs-repo.js';
 import { recorderOf } from './runs-services.js';
 import { runSamples } from './samples-service.js';
-import { renderRunReportPdf } from '../reports/run-report-pdf.js';
-import { getLabSettings } from '../settings/settings-service.js';
+import { runReportPdf } from '../reports/run-report.js';
 
 /** /api/runs: everyone signed in reads; technicians start, stop, rename, annotate and import. */
 export function createRunsRouter(ctx: AppContext): Router {
@@ -116,16 +115,9 @@ export function createRunsRouter(ctx: AppContext): Router {
     res.json(await runSamples(ctx.sequelize, run.id, SamplesQuerySchema.parse(req.query), run.summary?.maxGapSeconds ?? run.maxGapSeconds ?? undefined));
   });
 
-  /** Points the report's chart is drawn from (min/max buckets of the samples service). */
-  const REPORT_CHART_BUCKETS = 600;
   router.get('/:id/report.pdf', requireRole('viewer'), async (req, res) => {
     const run = live(await runOr404(req.params.id));
-    const [samples, events, settings] = await Promise.all([
-      runSamples(ctx.sequelize, run.id, SamplesQuerySchema.parse({ maxPoints: REPORT_CHART_BUCKETS })),
-      repo.events(run.id),
-      getLabSettings(ctx.models),
-    ]);
-    const pdf = await renderRunReportPdf({ run, samples, events, settings, madeAt: new Date() });
+    const pdf = await runReportPdf(ctx, run, new Date());
     res.setHeader('Content-Type', 'application/pdf');
     res.setHeader('Content-Disposition', `attachment; filename="run-${run.id}-report.pdf"`);
     res.end(pdf);

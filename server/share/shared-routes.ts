@@ -5,6 +5,9 @@ import { HttpError } from '../http/http-error.js';
 import { parseIdParam } from '../http/validate.js';
 import { PhotoFiles } from '../photos/photo-files.js';
 import { PhotosRepo } from '../photos/photos-repo.js';
+import { packReportPdf } from '../reports/pack-report.js';
+import { runReportPdf } from '../reports/run-report.js';
+import { RunsRepo } from '../runs/runs-repo.js';
 import { runSamples } from '../runs/samples-service.js';
 import { ShareRepo, type ActiveLink } from './share-repo.js';
 import { addressHash, isShareToken, shareTokenHash } from './share-token.js';
@@ -26,6 +29,7 @@ export function createSharedRouter(ctx: AppContext): Router {
   const router = Router();
   const repo = new ShareRepo(ctx.sequelize);
   const photos = new PhotosRepo(ctx.sequelize);
+  const runs = new RunsRepo(ctx.sequelize);
   const files = new PhotoFiles(ctx.config.dataDir);
   const deps = { sequelize: ctx.sequelize, models: ctx.models };
   const linkOf = async (req: Request): Promise<ActiveLink> => {
@@ -52,6 +56,20 @@ export function createSharedRouter(ctx: AppContext): Router {
     const link = await linkOf(req);
     if (link.kind !== 'run') throw gone();
     res.json(await runSamples(ctx.sequelize, link.targetId, SamplesQuerySchema.parse(req.query)));
+  });
+
+  // The report as a PDF: the run's (with its sign-off block) or the pack's (its price only when the link says so).
+  router.get('/:token/report.pdf', async (req, res) => {
+    const link = await linkOf(req);
+    const madeAt = new Date();
+    const run = link.kind === 'run' ? await runs.get(link.targetId) : null;
+    const pdf = link.kind === 'run'
+      ? run && (await runReportPdf(deps, run, madeAt))
+      : await packReportPdf({ ...deps, dataDir: ctx.config.dataDir }, link.targetId, link.includePrices, madeAt);
+    if (!pdf) throw gone();
+    res.setHeader('Content-Type', 'application/pdf');
+    res.setHeader('Content-Disposition', `attachment; filename="${link.kind === 'run' ? 'run' : 'pack'}-${link.targetId}-report.pdf"`);
+    res.end(pdf);
   });
 
   router.get('/:token/photos/:photoId/thumb', async (req, res) => {
