@@ -63,6 +63,7 @@ describe('the pack page', () => {
     stubPack('viewer');
     renderAt('/batteries/4');
     expect(await screen.findByRole('heading', { name: 'NG-0142' })).toBeTruthy();
+    expect(screen.getByRole('link', { name: 'Report PDF' }).getAttribute('href')).toBe('/api/batteries/4/report.pdf');
     const specs = screen.getByRole('region', { name: 'Specifications' });
     expect(within(specs).getByText('480 × 410 × 190 mm')).toBeTruthy();
     expect(within(specs).getByText('10 years')).toBeTruthy();
