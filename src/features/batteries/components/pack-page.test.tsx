@@ -85,6 +85,8 @@ describe('the pack page', () => {
     const checked = await within(record).findByRole('table', { name: 'Protections checked on this pack' });
     expect(within(checked).getByRole('link', { name: 'Cold-charge check' }).getAttribute('href')).toBe('/runs/13');
     expect(within(checked).getByText('Pass')).toBeTruthy();
+    // The one record table: the pack page shows the release too, as the register's card does.
+    expect(within(checked).getAllByRole('columnheader').map((h) => h.textContent)).toEqual(['Run', 'Protection', 'Expected', 'Measured', 'Released at, after', 'Result']);
     expect(within(record).getByText(/Cold-charge inhibit: 0\.0 °C after/)).toBeTruthy();
     const teardown = screen.getByRole('region', { name: 'Teardown inspection' });
     expect(await within(teardown).findByText('16 prismatic cells')).toBeTruthy();
