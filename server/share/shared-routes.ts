@@ -1,5 +1,6 @@
 import { Router, type Request } from 'express';
 import { SamplesQuerySchema } from '../../shared/schemas/api-runs.js';
+import type { ShareOpeningWhat } from '../../shared/schemas/share.js';
 import type { AppContext } from '../app-context.js';
 import { HttpError } from '../http/http-error.js';
 import { parseIdParam } from '../http/validate.js';
@@ -38,6 +39,9 @@ export function createSharedRouter(ctx: AppContext): Router {
     return (await repo.active(shareTokenHash(token))) ?? Promise.reject(gone());
   };
 
+  const logOpening = (req: Request, link: ActiveLink, what: ShareOpeningWhat) =>
+    repo.logOpening(link.id, addressHash(req.ip ?? '', ctx.config.sessionSecret), String(req.get('user-agent') ?? '').slice(0, USER_AGENT_MAX_CHARS), what);
+
   router.use((_req, res, next) => {
     res.setHeader('Cache-Control', 'no-store');
     res.setHeader('X-Robots-Tag', 'noindex, nofollow');
@@ -48,7 +52,7 @@ export function createSharedRouter(ctx: AppContext): Router {
     const link = await linkOf(req);
     const report = link.kind === 'run' ? await sharedRunReport(deps, link) : await sharedPackReport(deps, link);
     if (!report) throw gone();
-    await repo.logOpening(link.id, addressHash(req.ip ?? '', ctx.config.sessionSecret), String(req.get('user-agent') ?? '').slice(0, USER_AGENT_MAX_CHARS));
+    await logOpening(req, link, 'page');
     res.json({ report });
   });
 
@@ -67,6 +71,7 @@ export function createSharedRouter(ctx: AppContext): Router {
       ? run && (await runReportPdf(deps, run, madeAt))
       : await packReportPdf({ ...deps, dataDir: ctx.config.dataDir }, link.targetId, link.includePrices, madeAt);
     if (!pdf) throw gone();
+    await logOpening(req, link, 'pdf');
     res.setHeader('Content-Type', 'application/pdf');
     res.setHeader('Content-Disposition', `attachment; filename="${link.kind === 'run' ? 'run' : 'pack'}-${link.targetId}-report.pdf"`);
     res.end(pdf);

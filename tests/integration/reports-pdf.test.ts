@@ -6,7 +6,7 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { ListRunsResponseSchema } from '../../shared/schemas/api-runs.js';
 import { ProtectionRecordResponseSchema } from '../../shared/schemas/protection-check.js';
-import { CreateShareLinkResponseSchema } from '../../shared/schemas/share.js';
+import { CreateShareLinkResponseSchema, ShareOpeningsResponseSchema } from '../../shared/schemas/share.js';
 import { SignoffHistoryResponseSchema } from '../../shared/schemas/signoff.js';
 import { formatCharge, formatEnergy, formatPercent, formatTemperature } from '../../shared/units/format.js';
 import { RunsRepo } from '../../server/runs/runs-repo.js';
@@ -215,6 +215,9 @@ describe('the pack report PDF', () => {
     expect(text).toContain('Pack report: Pack RP-2');
     expect(text).not.toContain('420.00');
     expect(await pdfImageCount(shared)).toBe(2);
+    // A PDF download is an opening too, logged as such.
+    const openings = ShareOpeningsResponseSchema.parse((await tech.get(`/api/share-links/${packLink.link.id}/openings`).expect(200)).body).openings;
+    expect(openings.map((o) => o.what)).toEqual(['pdf']);
     const priced = await share('battery', packId, { includePrices: true });
     expect(await pdfText(await pdfOf(stranger(), `/api/shared/${priced.token}/report.pdf`))).toContain('Price: 420.00 EUR');
 
