@@ -1,7 +1,7 @@
 import { capacityTrend } from '../../shared/measure/capacity-trend.js';
 import type { Battery } from '../../shared/schemas/battery.js';
 import type { LabSettings } from '../../shared/schemas/lab-settings.js';
-import { PROTECTION_TRAITS, type Protection, type ProtectionRecordRow, type ProtectionSpec } from '../../shared/schemas/protection-check.js';
+import { PROTECTION_TRAITS, type Protection, type ProtectionRecordRow, type ProtectionResult, type ProtectionSpec } from '../../shared/schemas/protection-check.js';
 import type { Run } from '../../shared/schemas/run.js';
 import { formatAmps, formatCharge, formatDuration, formatEnergy, formatNumber, formatPercent, formatTemperature, formatVolts, NO_VALUE } from '../../shared/units/format.js';
 import { labTime } from './pdf-layout.js';
@@ -63,6 +63,12 @@ export function protectionSpecLines(specs: readonly ProtectionSpec[], settings: 
     const release = s.releaseValue === null ? '' : `, released at ${protectionValue(s.protection, s.releaseValue, settings)}`;
     return `${PROTECTION_TRAITS[s.protection].label}: ${protectionValue(s.protection, s.thresholdValue, settings)}${delay}${release}`;
   });
+}
+
+/** One protection result in words: "Over-temperature, discharging: pass (expected 60.0 °C after 5 s, measured 61.2 °C after 5 s)". */
+export function protectionResultLine(r: ProtectionResult, settings: Pick<LabSettings, 'temperatureUnit'>): string {
+  const at = (value: number | null, delay: number | null) => `${protectionValue(r.protection, value, settings)}${delay === null ? '' : ` after ${formatDuration(delay)}`}`;
+  return `${PROTECTION_TRAITS[r.protection].label}: ${r.outcome} (expected ${at(r.expectedValue, r.expectedDelaySeconds)}, measured ${at(r.measuredValue, r.measuredDelaySeconds)})`;
 }
 
 /** Column headers of the protection record. */

@@ -3,6 +3,7 @@ import type { SamplesResponse, StoredRunEvent } from '../../shared/schemas/api-r
 import type { LabSettings } from '../../shared/schemas/lab-settings.js';
 import { formatCharge, formatDuration, formatElapsedClock, formatEnergy, formatPercent, formatTemperature, formatVolts, formatAmps } from '../../shared/units/format.js';
 import { BODY_FONT_PT, HEADING_FONT_PT, labTime, MARGIN_PT, SAFETY_NOTE, heading, startReport } from './pdf-layout.js';
+import { protectionResultLine } from './pack-report-rows.js';
 import { signoffLines, type ReportReview } from './signoff-lines.js';
 
 const CHART_HEIGHT_PT = 180;
@@ -112,7 +113,7 @@ export async function renderRunReportPdf(input: RunReportInput): Promise<Buffer>
   const protections = run.summary?.protections ?? [];
   if (protections.length > 0) {
     heading(doc, 'Protection results');
-    for (const p of protections) doc.text(`${p.protection}: ${p.outcome}`);
+    for (const p of protections) doc.text(protectionResultLine(p, settings));
   }
   heading(doc, 'Events and notes');
   if (input.events.length === 0) doc.text('None.');
