@@ -1,4 +1,5 @@
 import { readFile } from 'node:fs/promises';
+import sharp from 'sharp';
 import type { Battery } from '../../shared/schemas/battery.js';
 import type { InspectionRating } from '../../shared/schemas/inspection.js';
 import type { ProtectionRecordRow } from '../../shared/schemas/protection-check.js';
@@ -15,8 +16,20 @@ import type { ReportDeps } from './run-report.js';
 
 /** Most runs a pack report lists (a pack tested weekly for ten years stays under this). */
 const PACK_RUNS_MAX = 500;
+/** Longest side of an embedded photo, px: twice the report's 96 pt box, sharp enough on paper. */
+const REPORT_PHOTO_PX = 192;
+const REPORT_PHOTO_QUALITY = 75;
 
-/** A photo as the report embeds it: its thumbnail JPEG, or null when the file is missing. */
+/** The stored thumbnail made smaller for the report (a baseline JPEG pdfkit embeds as is); null when the file is missing or unreadable. */
+async function reportJpeg(path: string): Promise<Buffer | null> {
+  try {
+    return await sharp(await readFile(path)).resize(REPORT_PHOTO_PX, REPORT_PHOTO_PX, { fit: 'inside', withoutEnlargement: true }).jpeg({ quality: REPORT_PHOTO_QUALITY }).toBuffer();
+  } catch {
+    return null;
+  }
+}
+
+/** A photo as the report embeds it: a small JPEG made from its thumbnail, or null when the file is missing. */
 export interface ReportPhoto {
   fileName: string;
   jpeg: Buffer | null;
@@ -53,7 +66,7 @@ export interface PackReportDeps extends ReportDeps {
 
 /**
  * Everything a pack's report prints, read now: the pack, its runs, its protection record, its
- * teardown inspection with each photo's thumbnail (a JPEG that fits 320 px), and the lab's
+ * teardown inspection with each photo (its thumbnail made to fit REPORT_PHOTO_PX), and the lab's
  * settings; null when the pack does not exist.
  */
 export async function loadPackReport(deps: PackReportDeps, batteryId: number, includePrices: boolean, madeAt: Date): Promise<PackReportInput | null> {
@@ -73,8 +86,7 @@ export async function loadPackReport(deps: PackReportDeps, batteryId: number, in
   const embedded = new Map<number, ReportPhoto>();
   await Promise.all(
     photos.map(async (p: PhotoRecord) => {
-      const jpeg = await readFile(files.pathOf(p.storageKey, 'thumb', p.format)).catch(() => null);
-      embedded.set(p.id, { fileName: p.fileName, jpeg });
+      embedded.set(p.id, { fileName: p.fileName, jpeg: await reportJpeg(files.pathOf(p.storageKey, 'thumb', p.format)) });
     }),
   );
   const photosOf = (itemId: number | null) => photos.filter((p) => p.itemId === itemId).map((p) => embedded.get(p.id)!);

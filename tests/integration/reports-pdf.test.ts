@@ -1,4 +1,4 @@
-import { mkdtempSync, rmSync } from 'node:fs';
+import { mkdtempSync, rmSync, unlinkSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import sharp from 'sharp';
@@ -9,6 +9,8 @@ import { ProtectionRecordResponseSchema } from '../../shared/schemas/protection-
 import { CreateShareLinkResponseSchema, ShareOpeningsResponseSchema } from '../../shared/schemas/share.js';
 import { SignoffHistoryResponseSchema } from '../../shared/schemas/signoff.js';
 import { formatCharge, formatEnergy, formatPercent, formatTemperature } from '../../shared/units/format.js';
+import { PhotoFiles } from '../../server/photos/photo-files.js';
+import { PhotosRepo } from '../../server/photos/photos-repo.js';
 import { RunsRepo } from '../../server/runs/runs-repo.js';
 import { createTestContext, signInAs, TEST_USERS, type SignedInAgent, type TestContext } from './helpers/index.js';
 import { binaryBody, pdfImageCount, pdfText } from './helpers/pdf-text.js';
@@ -200,9 +202,17 @@ describe('the pack report PDF', () => {
     expect(await pdfText(await pdfOf(viewer, `/api/batteries/${packId}/report.pdf?prices=1`))).toContain('Price: 420.00 EUR');
   });
 
-  it('has no images when the pack has no photos, and follows the pack page\'s access rules', async () => {
+  it('has no images when the pack has no photos, names a photo whose file is gone, and follows the pack page\'s access rules', async () => {
     const bytes = await pdfOf(viewer, `/api/batteries/${otherPackId}/report.pdf`);
     expect(await pdfImageCount(bytes)).toBe(0);
+    // A photo whose thumbnail file was lost: the report still comes, naming it, with no broken image.
+    const picture = await sharp({ create: { width: 64, height: 48, channels: 3, background: '#406a50' } }).jpeg().toBuffer();
+    const photoId = (await tech.post(`/api/batteries/${otherPackId}/photos`).attach('file', picture, 'lost.jpg').expect(201)).body.photo.id as number;
+    const stored = (await new PhotosRepo(t.ctx.sequelize).get(photoId))!;
+    unlinkSync(new PhotoFiles(dataDir).pathOf(stored.storageKey, 'thumb', stored.format));
+    const lost = await pdfOf(viewer, `/api/batteries/${otherPackId}/report.pdf`);
+    expect(await pdfText(lost)).toContain('lost.jpg (file missing)');
+    expect(await pdfImageCount(lost)).toBe(0);
     await stranger().get(`/api/batteries/${packId}/report.pdf`).expect(401);
     await viewer.get('/api/batteries/999999/report.pdf').expect(404);
     await viewer.get('/api/batteries/abc/report.pdf').expect(400);
