@@ -114,6 +114,15 @@ describe('the run report PDF\'s sign-off block', () => {
       expect(resigned).toContain(`Frozen figures: SHA-256 ${second.contentHash}`);
       expect(resigned).toContain('Earlier sign-offs:');
       expect(resigned).toContain('no longer holds. Comment: Meets the rating within the meter uncertainty');
+
+      // The shared page's block and the shared PDF show the same: the signature that holds and the earlier one.
+      const link = await share('run', runId);
+      const { report } = (await stranger().get(`/api/shared/${link.token}`).expect(200)).body;
+      expect(report.signoff.signed.comment).toBe('Signed again after the note');
+      expect(report.signoff.earlier.map((e: { comment: string; state: string }) => [e.comment, e.state])).toEqual([['Meets the rating within the meter uncertainty', 'superseded']]);
+      const sharedPdf = await pdfText(await pdfOf(stranger(), `/api/shared/${link.token}/report.pdf`));
+      expect(sharedPdf).toContain('Comment: Signed again after the note');
+      expect(sharedPdf).toContain('no longer holds. Comment: Meets the rating within the meter uncertainty');
     } finally {
       await admin.patch('/api/settings').send({ timeZone: 'UTC' }).expect(200);
     }
