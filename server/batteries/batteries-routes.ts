@@ -8,6 +8,7 @@ import { BATTERY_OPTIONAL_DEFAULTS, toApiBattery } from '../db/models/battery.js
 import { linkRunToBattery, RunLinkError } from '../runs/run-battery-link.js';
 import { batteriesCsv } from './batteries-csv.js';
 import { protectionRecord } from './protection-record.js';
+import { packReportPdf } from '../reports/pack-report.js';
 import type { Run } from '../../shared/schemas/run.js';
 
 /** /api/batteries: everyone signed in reads; technicians and admins write. */
@@ -36,6 +37,17 @@ export function createBatteriesRouter(ctx: AppContext): Router {
     const battery = await findOr404(parseIdParam(req.params.id));
     const live = (run: Run) => ctx.services.runRecorder?.withLive(run) ?? run;
     res.json({ batteryId: battery.id, specs: toApiBattery(battery).protectionSpecs, rows: await protectionRecord(ctx.sequelize, battery.id, live) });
+  });
+
+  // The pack's report; the price only with ?prices=1 (a report often goes to the client).
+  router.get('/:id/report.pdf', requireRole('viewer'), async (req, res) => {
+    const battery = await findOr404(parseIdParam(req.params.id));
+    const live = (run: Run) => ctx.services.runRecorder?.withLive(run) ?? run;
+    const pdf = await packReportPdf({ ...ctx, dataDir: ctx.config.dataDir, live }, battery.id, req.query.prices === '1', new Date());
+    if (!pdf) throw notFound('Battery');
+    res.setHeader('Content-Type', 'application/pdf');
+    res.setHeader('Content-Disposition', `attachment; filename="pack-${battery.id}-report.pdf"`);
+    res.end(pdf);
   });
 
   router.post('/', requireRole('technician'), async (req, res) => {

@@ -1,4 +1,3 @@
-import PDFDocument from 'pdfkit';
 import type { Run } from '../../shared/schemas/run.js';
 import type { SamplesResponse, StoredRunEvent } from '../../shared/schemas/api-runs.js';
 import type { LabSettings } from '../../shared/schemas/lab-settings.js';
@@ -7,20 +6,12 @@ import { programmeReportLines } from './programme-lines.js';
 import type { RunInstrument } from '../../shared/schemas/instrument.js';
 import { instrumentsLine } from './instruments-line.js';
 import { formatCharge, formatDuration, formatElapsedClock, formatEnergy, formatPercent, formatTemperature, formatVolts, formatAmps } from '../../shared/units/format.js';
+import { BODY_FONT_PT, HEADING_FONT_PT, labTime, MARGIN_PT, SAFETY_NOTE, heading, startReport } from './pdf-layout.js';
+import { protectionResultLine } from './pack-report-rows.js';
+import { signoffLines, type ReportReview } from './signoff-lines.js';
 
-/** Page layout, PDF points (72 per inch); A4. */
-const MARGIN_PT = 50;
 const CHART_HEIGHT_PT = 180;
-const FOOTER_OFFSET_PT = 30;
-const BODY_FONT_PT = 10;
-const TITLE_FONT_PT = 16;
-const HEADING_FONT_PT = 12;
 const CHART_LINE_PT = 0.6;
-
-/** The usual cautions printed on every run report (common practice; defer to local codes and the makers). */
-export const SAFETY_NOTE =
-  'Safety: lithium packs can burn and lead-acid batteries give off hydrogen. Never leave a load or charger unattended, never charge lithium below 0 °C without a heater, ' +
-  'guard against short circuits, and follow local codes, the makers\u2019 instructions and licensed practice.';
 
 /** What a run report shows. */
 export interface RunReportInput {
@@ -28,6 +19,8 @@ export interface RunReportInput {
   samples: SamplesResponse;
   events: readonly StoredRunEvent[];
   settings: LabSettings;
+  /** The run's review history (sign-offs), judged against the run as it is now. */
+  review: ReportReview;
   /** When the report is made (printed in the lab's time zone). */
   madeAt: Date;
   /** The test programme the run followed, with each step's figures (absent when none). */
@@ -64,12 +57,6 @@ export function verdictText(run: Run, settings: LabSettings): string {
   if (!u) return `${base}. No meter accuracy stated: no uncertainty given.`;
   const wh = u.expandedWh === null ? '' : ` / ± ${formatEnergy(u.expandedWh, settings.energyUnit)}`;
   return `${base}. Capacity ± ${formatCharge(u.expandedAh)}${wh} (expanded, k = ${u.coverageFactor}, about 95 %), method: ${u.method}.`;
-}
-
-/** A date and time in the lab's time zone, e.g. "2026-12-02 08:15 (Europe/Berlin)". */
-export function labTime(at: Date, timeZone: string): string {
-  const parts = new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', hourCycle: 'h23' }).format(at);
-  return `${parts.replace(',', '')} (${timeZone})`;
 }
 
 /** Volts against run time as vector lines from the min/max buckets (a bucket draws its min–max span). */
@@ -109,54 +96,42 @@ function eventLine(e: StoredRunEvent): string {
   return `${formatElapsedClock(ev.t)}  ${detail}`;
 }
 
+/** Prints the sign-off block: the frozen figures' state, the sign-off that holds, the earlier ones. */
+function printSignoff(doc: PDFKit.PDFDocument, review: ReportReview, timeZone: string): void {
+  const lines = signoffLines(review, timeZone);
+  heading(doc, 'Sign-off');
+  doc.text(lines.state);
+  for (const line of lines.signed) doc.text(line);
+  if (lines.earlier.length > 0) {
+    doc.moveDown(0.5).text('Earlier sign-offs:');
+    for (const line of lines.earlier) doc.text(line);
+  }
+}
+
 /** The run report as a PDF: header, verdict with uncertainty, figures, chart, protections, events and notes, sign-off, safety note, page numbers. */
 export async function renderRunReportPdf(input: RunReportInput): Promise<Buffer> {
   const { run, settings } = input;
-  const doc = new PDFDocument({ size: 'A4', margin: MARGIN_PT, bufferPages: true, info: { Title: `Run report: ${run.name}`, Producer: 'Kneepoint' } });
-  const chunks: Buffer[] = [];
-  doc.on('data', (c: Buffer) => chunks.push(c));
-  const ended = new Promise<void>((resolve, reject) => {
-    doc.on('end', () => resolve());
-    doc.on('error', reject);
-  });
-  doc.fontSize(BODY_FONT_PT).text(settings.labName);
-  doc.text(`Made ${labTime(input.madeAt, settings.timeZone)}`);
-  doc.moveDown().fontSize(TITLE_FONT_PT).text(`Run report: ${run.name}`);
+  const { doc, finish } = startReport(`Run report: ${run.name}`, settings, input.madeAt);
   doc.fontSize(BODY_FONT_PT).text(`Run ${run.id} · ${run.kind} · started ${run.startedAt ? labTime(new Date(run.startedAt), settings.timeZone) : '—'}`);
   if (input.instruments) doc.text(instrumentsLine(input.instruments));
   doc.moveDown().fontSize(HEADING_FONT_PT).text(verdictText(run, settings));
-  doc.moveDown().fontSize(HEADING_FONT_PT).text('Figures');
-  doc.fontSize(BODY_FONT_PT);
+  heading(doc, 'Figures');
   for (const [label, value] of runReportFigures(run, settings)) doc.text(`${label}: ${value}`);
   if (input.programme) {
-    doc.moveDown().fontSize(HEADING_FONT_PT).text('Test programme');
-    doc.fontSize(BODY_FONT_PT);
+    heading(doc, 'Test programme');
     for (const line of programmeReportLines(input.programme)) doc.text(line);
   }
-  doc.moveDown().fontSize(HEADING_FONT_PT).text('Volts over the run');
+  heading(doc, 'Volts over the run');
   drawVoltsChart(doc, input.samples);
   const protections = run.summary?.protections ?? [];
   if (protections.length > 0) {
-    doc.fontSize(HEADING_FONT_PT).text('Protection results');
-    doc.fontSize(BODY_FONT_PT);
-    for (const p of protections) doc.text(`${p.protection}: ${p.outcome}`);
-    doc.moveDown();
+    heading(doc, 'Protection results');
+    for (const p of protections) doc.text(protectionResultLine(p, settings));
   }
-  doc.fontSize(HEADING_FONT_PT).text('Events and notes');
-  doc.fontSize(BODY_FONT_PT);
+  heading(doc, 'Events and notes');
   if (input.events.length === 0) doc.text('None.');
   for (const e of input.events) doc.text(eventLine(e));
-  doc.moveDown().fontSize(HEADING_FONT_PT).text('Sign-off');
-  doc.fontSize(BODY_FONT_PT).text('Not signed off.');
+  printSignoff(doc, input.review, settings.timeZone);
   doc.moveDown().fontSize(BODY_FONT_PT).text(SAFETY_NOTE);
-  const range = doc.bufferedPageRange();
-  for (let i = range.start; i < range.start + range.count; i++) {
-    doc.switchToPage(i);
-    // The footer sits in the bottom margin: without this pdfkit would start a new page for it.
-    doc.page.margins.bottom = 0;
-    doc.fontSize(BODY_FONT_PT - 2).text(`${settings.labName} · page ${i + 1} of ${range.count}`, MARGIN_PT, doc.page.height - FOOTER_OFFSET_PT, { lineBreak: false });
-  }
-  doc.end();
-  await ended;
-  return Buffer.concat(chunks);
+  return finish();
 }

@@ -15,7 +15,6 @@ import { notFound } from '../http/http-error.js';
 import { parseBody, parseIdParam } from '../http/validate.js';
 import { batteryLookup } from './battery-facts.js';
 import { exportMeta } from './export-meta.js';
-import { InstrumentsRepo } from '../instruments/instruments-repo.js';
 import { streamCsvExport, streamJsonExport } from './export-stream.js';
 import { createImportHandler } from './import-route.js';
 import { NotesRepo, type NoteChangeRecord } from './notes-repo.js';
@@ -23,8 +22,7 @@ import { changeNote } from './run-notes.js';
 import { RunsRepo } from './runs-repo.js';
 import { recorderOf } from './runs-services.js';
 import { runSamples } from './samples-service.js';
-import { renderRunReportPdf } from '../reports/run-report-pdf.js';
-import { getLabSettings } from '../settings/settings-service.js';
+import { runReportPdf } from '../reports/run-report.js';
 
 /** /api/runs: everyone signed in reads; technicians start, stop, rename, annotate and import. */
 export function createRunsRouter(ctx: AppContext): Router {
@@ -117,18 +115,9 @@ export function createRunsRouter(ctx: AppContext): Router {
     res.json(await runSamples(ctx.sequelize, run.id, SamplesQuerySchema.parse(req.query), run.summary?.maxGapSeconds ?? run.maxGapSeconds ?? undefined));
   });
 
-  /** Points the report's chart is drawn from (min/max buckets of the samples service). */
-  const REPORT_CHART_BUCKETS = 600;
   router.get('/:id/report.pdf', requireRole('viewer'), async (req, res) => {
     const run = live(await runOr404(req.params.id));
-    const [samples, events, settings, programme, instruments] = await Promise.all([
-      runSamples(ctx.sequelize, run.id, SamplesQuerySchema.parse({ maxPoints: REPORT_CHART_BUCKETS })),
-      repo.events(run.id),
-      getLabSettings(ctx.models),
-      ctx.services.programmeRunner?.get(run.id) ?? null,
-      new InstrumentsRepo(ctx.sequelize).ofRun(run.id),
-    ]);
-    const pdf = await renderRunReportPdf({ run, samples, events, settings, madeAt: new Date(), programme, instruments });
+    const pdf = await runReportPdf(ctx, run, new Date());
     res.setHeader('Content-Type', 'application/pdf');
     res.setHeader('Content-Disposition', `attachment; filename="run-${run.id}-report.pdf"`);
     res.end(pdf);

@@ -1,5 +1,5 @@
 import { QueryTypes, type Sequelize } from 'sequelize';
-import type { ShareLink, ShareTargetKind } from '../../shared/schemas/share.js';
+import type { ShareLink, ShareOpeningWhat, ShareTargetKind } from '../../shared/schemas/share.js';
 import { utcDateTime } from '../db/utc-datetime.js';
 
 /** A stored link row (the token itself is never stored). */
@@ -108,20 +108,20 @@ export class ShareRepo {
     return this.get(id);
   }
 
-  /** Logs one opening. */
-  async logOpening(linkId: number, addressHash: string, userAgent: string): Promise<void> {
-    await this.sequelize.query('INSERT INTO share_link_openings (linkId, openedAt, addressHash, userAgent) VALUES (?, ?, ?, ?)', {
-      replacements: [linkId, utcDateTime(new Date(this.now())), addressHash, userAgent],
+  /** Logs one opening of the report page or its PDF. */
+  async logOpening(linkId: number, addressHash: string, userAgent: string, what: ShareOpeningWhat = 'page'): Promise<void> {
+    await this.sequelize.query('INSERT INTO share_link_openings (linkId, openedAt, addressHash, userAgent, what) VALUES (?, ?, ?, ?, ?)', {
+      replacements: [linkId, utcDateTime(new Date(this.now())), addressHash, userAgent, what],
       type: QueryTypes.INSERT,
     });
   }
 
   /** Openings of a link, newest first. */
-  async openings(linkId: number): Promise<Array<{ openedAt: string; addressHash: string; userAgent: string }>> {
-    const rows = await this.sequelize.query<{ openedAt: Date | string; addressHash: string; userAgent: string }>(
-      'SELECT openedAt, addressHash, userAgent FROM share_link_openings WHERE linkId = ? ORDER BY id DESC',
+  async openings(linkId: number): Promise<Array<{ openedAt: string; addressHash: string; userAgent: string; what: ShareOpeningWhat }>> {
+    const rows = await this.sequelize.query<{ openedAt: Date | string; addressHash: string; userAgent: string; what: ShareOpeningWhat }>(
+      'SELECT openedAt, addressHash, userAgent, what FROM share_link_openings WHERE linkId = ? ORDER BY id DESC',
       { replacements: [linkId], type: QueryTypes.SELECT },
     );
-    return rows.map((r) => ({ openedAt: iso(r.openedAt), addressHash: r.addressHash, userAgent: r.userAgent }));
+    return rows.map((r) => ({ openedAt: iso(r.openedAt), addressHash: r.addressHash, userAgent: r.userAgent, what: r.what }));
   }
 }

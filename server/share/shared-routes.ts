@@ -1,10 +1,14 @@
 import { Router, type Request } from 'express';
 import { SamplesQuerySchema } from '../../shared/schemas/api-runs.js';
+import type { ShareOpeningWhat } from '../../shared/schemas/share.js';
 import type { AppContext } from '../app-context.js';
 import { HttpError } from '../http/http-error.js';
 import { parseIdParam } from '../http/validate.js';
 import { PhotoFiles } from '../photos/photo-files.js';
 import { PhotosRepo } from '../photos/photos-repo.js';
+import { packReportPdf } from '../reports/pack-report.js';
+import { runReportPdf } from '../reports/run-report.js';
+import { RunsRepo } from '../runs/runs-repo.js';
 import { runSamples } from '../runs/samples-service.js';
 import { ShareRepo, type ActiveLink } from './share-repo.js';
 import { addressHash, isShareToken, shareTokenHash } from './share-token.js';
@@ -26,6 +30,7 @@ export function createSharedRouter(ctx: AppContext): Router {
   const router = Router();
   const repo = new ShareRepo(ctx.sequelize);
   const photos = new PhotosRepo(ctx.sequelize);
+  const runs = new RunsRepo(ctx.sequelize);
   const files = new PhotoFiles(ctx.config.dataDir);
   const deps = { sequelize: ctx.sequelize, models: ctx.models };
   const linkOf = async (req: Request): Promise<ActiveLink> => {
@@ -33,6 +38,9 @@ export function createSharedRouter(ctx: AppContext): Router {
     if (!isShareToken(token)) throw gone();
     return (await repo.active(shareTokenHash(token))) ?? Promise.reject(gone());
   };
+
+  const logOpening = (req: Request, link: ActiveLink, what: ShareOpeningWhat) =>
+    repo.logOpening(link.id, addressHash(req.ip ?? '', ctx.config.sessionSecret), String(req.get('user-agent') ?? '').slice(0, USER_AGENT_MAX_CHARS), what);
 
   router.use((_req, res, next) => {
     res.setHeader('Cache-Control', 'no-store');
@@ -44,7 +52,7 @@ export function createSharedRouter(ctx: AppContext): Router {
     const link = await linkOf(req);
     const report = link.kind === 'run' ? await sharedRunReport(deps, link) : await sharedPackReport(deps, link);
     if (!report) throw gone();
-    await repo.logOpening(link.id, addressHash(req.ip ?? '', ctx.config.sessionSecret), String(req.get('user-agent') ?? '').slice(0, USER_AGENT_MAX_CHARS));
+    await logOpening(req, link, 'page');
     res.json({ report });
   });
 
@@ -52,6 +60,21 @@ export function createSharedRouter(ctx: AppContext): Router {
     const link = await linkOf(req);
     if (link.kind !== 'run') throw gone();
     res.json(await runSamples(ctx.sequelize, link.targetId, SamplesQuerySchema.parse(req.query)));
+  });
+
+  // The report as a PDF: the run's (with its sign-off block) or the pack's (its price only when the link says so).
+  router.get('/:token/report.pdf', async (req, res) => {
+    const link = await linkOf(req);
+    const madeAt = new Date();
+    const run = link.kind === 'run' ? await runs.get(link.targetId) : null;
+    const pdf = link.kind === 'run'
+      ? run && (await runReportPdf(deps, run, madeAt))
+      : await packReportPdf({ ...deps, dataDir: ctx.config.dataDir }, link.targetId, link.includePrices, madeAt);
+    if (!pdf) throw gone();
+    await logOpening(req, link, 'pdf');
+    res.setHeader('Content-Type', 'application/pdf');
+    res.setHeader('Content-Disposition', `attachment; filename="${link.kind === 'run' ? 'run' : 'pack'}-${link.targetId}-report.pdf"`);
+    res.end(pdf);
   });
 
   router.get('/:token/photos/:photoId/thumb', async (req, res) => {

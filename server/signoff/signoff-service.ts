@@ -46,10 +46,10 @@ export class SignoffService {
     return { ...reviewState(await this.repo.list(runId), hash), currentHash: hash };
   }
 
-  /** The sign-off block of a report (PDF, shared page): where the run stands and the signature that holds. */
+  /** The sign-off block of a report (shared page): where the run stands, the signature that holds and the earlier ones. */
   async block(runId: number): Promise<SignoffBlock> {
-    const { status, signed } = await this.review(runId);
-    return { status, signed };
+    const { status, signed, entries } = await this.review(runId);
+    return { status, signed, earlier: entries.filter((e) => e.action === 'signed' && e.id !== signed?.id) };
   }
 
   /** One entry with the snapshot it froze, or null. */

@@ -95,8 +95,12 @@ export type ShareLink = z.infer<typeof ShareLinkSchema>;
 export const CreateShareLinkResponseSchema = z.object({ link: ShareLinkSchema, token: z.string(), path: z.string() });
 export const ShareLinksResponseSchema = z.object({ links: z.array(ShareLinkSchema) });
 
+/** What an opening read: the report page or its PDF. */
+export const ShareOpeningWhatSchema = z.enum(['page', 'pdf']);
+export type ShareOpeningWhat = z.infer<typeof ShareOpeningWhatSchema>;
+
 /** One logged opening of a link. */
-export const ShareOpeningSchema = z.object({ openedAt: z.string(), addressHash: z.string(), userAgent: z.string() });
+export const ShareOpeningSchema = z.object({ openedAt: z.string(), addressHash: z.string(), userAgent: z.string(), what: ShareOpeningWhatSchema });
 export const ShareOpeningsResponseSchema = z.object({ openings: z.array(ShareOpeningSchema) });
 
 /** The lab as a shared page names it, with the units it reports in. */

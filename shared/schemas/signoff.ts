@@ -85,5 +85,7 @@ export const SignRequestSchema = z.strictObject({
 export const SignoffBlockSchema = z.object({
   status: ReviewStatusSchema,
   signed: SignoffEntrySchema.nullable(),
+  /** Every earlier sign-off that no longer holds, newest first (kept, never changed). */
+  earlier: z.array(SignoffEntrySchema).optional(),
 });
 export type SignoffBlock = z.infer<typeof SignoffBlockSchema>;

@@ -1,9 +1,11 @@
+import { readFile } from 'node:fs/promises';
 import { fileURLToPath } from 'node:url';
 import type { Page } from 'playwright-core';
 import sharp from 'sharp';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { DEMO_ACCOUNTS } from '../../server/db/seed-demo.js';
 import { signInAs, type TestContext } from '../integration/helpers/index.js';
+import { pdfImageCount, pdfText } from '../integration/helpers/pdf-text.js';
 import { axeViolations } from './helpers/axe.js';
 import { launchBrowser, type TestBrowser } from './helpers/browser.js';
 import { SCREENSHOT_DIR, startE2eApp, type E2eApp } from './helpers/e2e-app.js';
@@ -21,6 +23,17 @@ let browser: TestBrowser;
 let app: E2eApp;
 let runId: number;
 let shareUrl: string;
+
+/** Clicks a download link and gives the downloaded file, after checking it is a PDF. */
+async function downloadedPdf(page: Page, linkName: string): Promise<Buffer> {
+  const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('link', { name: linkName }).click()]);
+  const bytes = await readFile((await download.path())!);
+  expect(bytes.subarray(0, 5).toString('latin1')).toBe('%PDF-');
+  return bytes;
+}
+
+/** The text of a downloaded PDF. */
+const downloadedPdfText = async (page: Page, linkName: string) => pdfText(await downloadedPdf(page, linkName));
 
 beforeAll(async () => {
   app = await startE2eApp();
@@ -58,6 +71,12 @@ describe('sign off a run and open its share link in a fresh browser with no sess
     await admin.getByText('Signed off.').waitFor();
     const history = admin.getByRole('list', { name: 'Review history' });
     expect(await history.getByRole('listitem').count()).toBe(2);
+    // The report the lab manager downloads carries the signature.
+    const signedPdf = await downloadedPdfText(admin, 'Report PDF');
+    expect(signedPdf).toContain(`Run report: ${RUN_NAME}`);
+    expect(signedPdf).toContain('Signed: the figures below are the ones signed off.');
+    expect(signedPdf).toMatch(/Signed by .+ \(admin\), \d{4}-\d\d-\d\d \d\d:\d\d \(/);
+    expect(signedPdf).toContain('Comment: Checked against the cell rating');
     await admin.getByLabel('Days the link works').fill('7');
     await admin.getByRole('button', { name: 'Make link' }).click();
     shareUrl = (await admin.getByTestId('share-url').textContent())!.trim();
@@ -90,6 +109,23 @@ describe('sign off a run and open its share link in a fresh browser with no sess
         await page.close();
       }
       expect(findings).toEqual([]);
+      // The client downloads the signed report's PDF through the link, and reaches nothing else of the lab.
+      const page = await fresh.context.newPage();
+      await page.goto(shareUrl);
+      await page.getByRole('heading', { name: RUN_NAME }).waitFor();
+      const pdf = await downloadedPdfText(page, 'Download PDF');
+      expect(pdf).toContain(`Run report: ${RUN_NAME}`);
+      expect(pdf).toContain('Comment: Checked against the cell rating');
+      const token = shareUrl.split('/s/')[1]!;
+      const statusOf = async (path: string) => (await page.request.get(`${t.url}${path}`)).status();
+      for (const path of ['/api/runs', `/api/runs/${runId}`, `/api/runs/${runId}/report.pdf`, `/api/runs/${runId}/samples`, '/api/batteries', '/api/benches', '/api/settings', '/api/auth/me']) {
+        expect([path, await statusOf(path)]).toEqual([path, 401]);
+      }
+      for (const path of [`/api/shared/${token}/runs`, `/api/shared/${token}/photos/1/thumb`, `/api/shared/${token}/../runs/${runId}`]) {
+        const status = await statusOf(path);
+        expect([path, status === 401 || status === 404]).toEqual([path, true]);
+      }
+      await page.close();
       // The fresh browser still holds no session: it saw the report without one.
       expect((await fresh.context.cookies()).filter((c) => c.name === 'kneepoint.sid')).toEqual([]);
     } finally {
@@ -130,6 +166,35 @@ describe('sign off a run and open its share link in a fresh browser with no sess
         await page.close();
       }
       expect(findings).toEqual([]);
+      // The pack's PDF through the link: its capacity history names the run, the photo is embedded, no price.
+      const page = await fresh.context.newPage();
+      await page.goto(`${t.url}/s/${token}`);
+      await page.getByRole('heading', { name: /Pack NG-7/ }).waitFor();
+      const pdf = await downloadedPdf(page, 'Download PDF');
+      const text = await pdfText(pdf);
+      expect(text).toContain('Pack report: Pack NG-7');
+      expect(text).toContain(RUN_NAME);
+      expect(text).not.toContain('120.00');
+      expect(await pdfImageCount(pdf)).toBeGreaterThan(0);
+      await page.close();
+    } finally {
+      await fresh.close();
+    }
+  });
+
+  it('shows "not available", nothing of the run and no PDF once the link has expired', { timeout: 60_000 }, async () => {
+    const tech = await signInAs(t, 'technician', { email: account('technician').email, password: t.ctx.config.demoPassword });
+    const made = (await tech.post('/api/share-links').send({ kind: 'run', targetId: runId, expiresInDays: 1 }).expect(201)).body as { token: string; link: { id: number } };
+    // Thirty days on, as far as the link is concerned: its expiry moves into the past.
+    await t.ctx.sequelize.query('UPDATE share_links SET expiresAt = UTC_TIMESTAMP(3) - INTERVAL 1 MINUTE WHERE id = ?', { replacements: [made.link.id] });
+    const fresh = await launchBrowser();
+    try {
+      const page = await fresh.context.newPage();
+      await page.goto(`${t.url}/s/${made.token}`);
+      await page.getByRole('heading', { name: 'Report not available' }).waitFor();
+      expect(await page.getByText(RUN_NAME).count()).toBe(0);
+      expect(await page.getByRole('link', { name: 'Download PDF' }).count()).toBe(0);
+      expect((await page.request.get(`${t.url}/api/shared/${made.token}/report.pdf`)).status()).toBe(404);
     } finally {
       await fresh.close();
     }
@@ -146,6 +211,7 @@ describe('sign off a run and open its share link in a fresh browser with no sess
       await page.goto(shareUrl);
       await page.getByRole('heading', { name: 'Report not available' }).waitFor();
       expect(await page.getByText(RUN_NAME).count()).toBe(0);
+      expect((await page.request.get(`${t.url}/api/shared/${shareUrl.split('/s/')[1]}/report.pdf`)).status()).toBe(404);
     } finally {
       await fresh.close();
     }

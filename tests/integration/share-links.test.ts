@@ -203,11 +203,13 @@ describe('share links', () => {
     await t.ctx.sequelize.query('RENAME TABLE share_link_openings TO share_link_openings_away');
     try {
       await stranger().get(`/api/shared/${token}`).expect(500);
+      await stranger().get(`/api/shared/${token}/report.pdf`).expect(500);
     } finally {
       await t.ctx.sequelize.query('RENAME TABLE share_link_openings_away TO share_link_openings');
     }
     const log = logLines.join('\n');
     expect(log).toContain('Unhandled error on GET /api/shared/[redacted]');
+    expect(log).toContain('Unhandled error on GET /api/shared/[redacted]/report.pdf');
     expect(tokens.length).toBeGreaterThan(5);
     for (const shared of tokens) expect(log).not.toContain(shared);
   });

@@ -7,7 +7,7 @@ const STATUS_TEXT: Record<Block['status'], string> = {
   superseded: 'Changed since it was signed: the earlier sign-off no longer holds and a new one is needed.',
 };
 
-/** The sign-off block of a report: who signed the result, when and with what comment, or why no one has. */
+/** The sign-off block of a report: who signed the result, when and with what comment, or why no one has; then earlier sign-offs. */
 export function SignoffBlockView({ block, formatTime }: { block: Block; formatTime: (iso: string) => string }) {
   return (
     <section aria-labelledby="signoff-block-heading" className="rounded-lg border border-line p-4">
@@ -26,6 +26,18 @@ export function SignoffBlockView({ block, formatTime }: { block: Block; formatTi
           <dt className="text-ink-muted">Content hash</dt>
           <dd className="num break-all text-xs">SHA-256 {block.signed.contentHash}</dd>
         </dl>
+      )}
+      {block.earlier && block.earlier.length > 0 && (
+        <>
+          <h3 className="mt-3 text-sm font-semibold">Earlier sign-offs</h3>
+          <ul className="mt-1 grid gap-1 text-sm" aria-label="Earlier sign-offs">
+            {block.earlier.map((e) => (
+              <li key={e.id}>
+                {e.byName}, {formatTime(e.at)}, no longer holds: <span className="whitespace-pre-wrap">{e.comment}</span>
+              </li>
+            ))}
+          </ul>
+        </>
       )}
     </section>
   );

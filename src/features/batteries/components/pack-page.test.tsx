@@ -63,6 +63,7 @@ describe('the pack page', () => {
     stubPack('viewer');
     renderAt('/batteries/4');
     expect(await screen.findByRole('heading', { name: 'NG-0142' })).toBeTruthy();
+    expect(screen.getByRole('link', { name: 'Report PDF' }).getAttribute('href')).toBe('/api/batteries/4/report.pdf');
     const specs = screen.getByRole('region', { name: 'Specifications' });
     expect(within(specs).getByText('480 × 410 × 190 mm')).toBeTruthy();
     expect(within(specs).getByText('10 years')).toBeTruthy();
@@ -84,6 +85,8 @@ describe('the pack page', () => {
     const checked = await within(record).findByRole('table', { name: 'Protections checked on this pack' });
     expect(within(checked).getByRole('link', { name: 'Cold-charge check' }).getAttribute('href')).toBe('/runs/13');
     expect(within(checked).getByText('Pass')).toBeTruthy();
+    // The one record table: the pack page shows the release too, as the register's card does.
+    expect(within(checked).getAllByRole('columnheader').map((h) => h.textContent)).toEqual(['Run', 'Protection', 'Expected', 'Measured', 'Released at, after', 'Result']);
     expect(within(record).getByText(/Cold-charge inhibit: 0\.0 °C after/)).toBeTruthy();
     const teardown = screen.getByRole('region', { name: 'Teardown inspection' });
     expect(await within(teardown).findByText('16 prismatic cells')).toBeTruthy();

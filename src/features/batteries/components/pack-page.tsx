@@ -68,7 +68,14 @@ export function PackPage({ batteryId, viewer }: { batteryId: number; viewer: Pac
       <PageHeader
         title={b.label}
         subtitle={<Link to="/batteries" className="text-accent hover:underline">All battery packs</Link>}
-        actions={viewer.canWrite && !editing ? <Button variant="secondary" onClick={() => setEditing(true)}>Edit pack</Button> : undefined}
+        actions={
+          <div className="flex flex-wrap gap-2">
+            {viewer.canWrite && !editing && <Button variant="secondary" onClick={() => setEditing(true)}>Edit pack</Button>}
+            <a href={`/api/batteries/${b.id}/report.pdf`} className="inline-flex min-h-11 items-center rounded-lg border border-line px-4 text-sm font-semibold" download>
+              Report PDF
+            </a>
+          </div>
+        }
       />
       {editing && (
         <Card className="flex flex-col gap-4 p-6">

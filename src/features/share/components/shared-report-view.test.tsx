@@ -14,6 +14,7 @@ describe('the shared report page /s/:token', () => {
     const { router } = renderAt(`/s/${TOKEN}`);
     expect(await screen.findByRole('heading', { name: 'Report not available' })).toBeTruthy();
     expect(router.state.location.pathname).toBe(`/s/${TOKEN}`);
+    expect(screen.queryByRole('link', { name: 'Download PDF' })).toBeNull();
     await waitFor(() => expect(calls.some((c) => c.url === `/api/shared/${TOKEN}`)).toBe(true));
     // Only the shared namespace is asked: no session, no other API.
     expect(calls.map((c) => c.url).filter((u) => !u.startsWith('/api/shared/'))).toEqual([]);

@@ -162,9 +162,14 @@ export function SharedReportView({ token, renderSummary }: { token: string; rend
         </>
       ) : (
         <>
-          <p className="text-sm text-ink-muted">
-            {report.data.lab.name} · shared report · link works until {formatLabTime(report.data.expiresAt, report.data.lab.timeZone)}
-          </p>
+          <div className="flex flex-wrap items-center justify-between gap-2">
+            <p className="text-sm text-ink-muted">
+              {report.data.lab.name} · shared report · link works until {formatLabTime(report.data.expiresAt, report.data.lab.timeZone)}
+            </p>
+            <a href={`/api/shared/${token}/report.pdf`} className="inline-flex min-h-11 items-center rounded-lg border border-line px-4 text-sm font-semibold" download>
+              Download PDF
+            </a>
+          </div>
           {report.data.kind === 'run' ? <RunReport token={token} report={report.data} renderSummary={renderSummary} /> : <PackReport token={token} report={report.data} />}
           <SafetyCautions compact />
         </>
