@@ -20,6 +20,7 @@ import { createPushRouter, pushAcknowledgeRoute } from './push/push-routes.js';
 import { createSignoffRouter } from './signoff/signoff-routes.js';
 import { createShareLinksRouter } from './share/share-links-routes.js';
 import { createSharedRouter } from './share/shared-routes.js';
+import { createGatewaysRouter } from './mqtt/gateways-routes.js';
 
 /**
  * The Express app (no listen). Order matters: security headers, the health endpoint, a 503
@@ -61,6 +62,7 @@ export function createApp(ctx: AppContext): Express {
   app.use('/api/push', createPushRouter(ctx));
   app.use('/api', createSignoffRouter(ctx));
   app.use('/api/share-links', createShareLinksRouter(ctx));
+  app.use('/api/gateways', createGatewaysRouter(ctx));
   // ── end of router mounts ──
 
   app.use('/api', apiNotFound);

@@ -19,6 +19,7 @@ import { attachLive } from './live/attach-live.js';
 import { backupAttachment } from './backup/attach-backups.js';
 import { attachAlarms } from './alarms/attach-alarms.js';
 import { attachPush } from './push/attach-push.js';
+import { mqttAttachment } from './mqtt/attach-mqtt.js';
 
 /** Undoes an attachment (close sockets, stop timers); awaited on server close. */
 export type Detach = () => Promise<void> | void;
@@ -31,7 +32,7 @@ export type Attachment = (httpServer: Server, ctx: AppContext) => Promise<Detach
  *   attachBenchManager,   (ingest, from ./benches/...)
  *   attachLiveHub,        (live, from ./live/...)
  */
-export const ATTACHMENTS: Attachment[] = [attachBenchManager, attachLive, attachAlarms, attachPush, backupAttachment()];
+export const ATTACHMENTS: Attachment[] = [mqttAttachment(), attachBenchManager, attachLive, attachAlarms, attachPush, backupAttachment()];
 
 /** How to start; everything is optional (defaults: environment config, provisioned MariaDB). */
 export interface StartServerOptions {
