@@ -2,6 +2,7 @@ import type { QueryClient } from '@tanstack/react-query';
 import { Link } from 'react-router-dom';
 import { useMe } from '../../features/auth/api/get-me';
 import { BenchesOverview } from '../../features/benches/components/benches-overview';
+import { GatewaysPanel } from '../../features/gateways/components/gateways-panel';
 import { PageHeader } from '../../components/ui/card';
 import { benchesQueryOptions } from '../../lib/queries/benches';
 import { hasRole } from '../../lib/roles';
@@ -18,6 +19,9 @@ export function Component() {
         actions={isAdmin ? <Link to="/benches/new" className="inline-flex min-h-11 items-center rounded-lg bg-accent px-4 text-sm font-semibold text-accent-ink">New bench</Link> : undefined}
       />
       <BenchesOverview canManage={hasRole(me.data?.role, 'admin')} />
+      <div className="mt-6">
+        <GatewaysPanel canManage={isAdmin} />
+      </div>
     </>
   );
 }
