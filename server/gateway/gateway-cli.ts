@@ -3,7 +3,7 @@ import { resolve } from 'node:path';
 import { parseArgs } from 'node:util';
 import { z } from 'zod';
 import { GatewayNameSchema } from '../../shared/schemas/gateway.js';
-import { GatewayRuntime } from './gateway-runtime.js';
+import { GatewayRuntime, SHUTDOWN_DRAIN_MS } from './gateway-runtime.js';
 
 /**
  * `npm run gateway -- --broker mqtt://host:1883 --id <name> [--password-file F] [--dir D]`, or
@@ -43,7 +43,7 @@ const stop = async (signal: string) => {
   if (stopping) return;
   stopping = true;
   console.log(`${signal}: stopping gateway (outbox depth ${gateway.outboxDepth})`);
-  await gateway.stop();
+  await gateway.stop(SHUTDOWN_DRAIN_MS);
   process.exit(0);
 };
 process.on('SIGINT', () => void stop('SIGINT'));

@@ -2,6 +2,7 @@ import { mkdirSync, readFileSync, existsSync, writeFileSync, renameSync } from '
 import { join } from 'node:path';
 import { connect, type MqttClient } from 'mqtt';
 import { GatewayConfigMessageSchema, type GatewayConfigMessage, type GatewayStateMessage } from '../../shared/schemas/gateway.js';
+import type { Frame } from '../../shared/schemas/frame.js';
 import { BenchManager } from '../ingest/bench-manager.js';
 import type { SourceDeps } from '../ingest/sources/create-source.js';
 import { benchFeedTopic, gatewayConfigTopic, gatewayStateTopic, gatewayUsername } from '../mqtt/topics.js';
@@ -17,6 +18,9 @@ export const RECONNECT_MS = 1000;
 export const SESSION_EXPIRY_S = 7 * 24 * 3600;
 /** MQTT 5 reason code of a publish the broker's ACL refused. */
 const NOT_AUTHORIZED = 0x87;
+const DRAIN_POLL_MS = 50;
+/** On SIGTERM the gateway waits this long for the broker to take its outbox before it exits (the rest is kept on disk). */
+export const SHUTDOWN_DRAIN_MS = 2000;
 
 /** How to start a gateway. */
 export interface GatewayOptions {
@@ -61,6 +65,11 @@ export class GatewayRuntime {
   /** Messages waiting for the broker's acknowledgement. */
   get outboxDepth(): number {
     return this.outbox.depth;
+  }
+
+  /** Observes every frame the gateway's benches capture, as it goes into the outbox (logs, the benchmark). */
+  onFrame(listener: (benchId: number, frame: Frame) => void): () => void {
+    return this.manager.onFrame(listener);
   }
 
   /** Publishes refused by the broker (a bench no longer assigned to this gateway). */
@@ -150,10 +159,15 @@ export class GatewayRuntime {
     this.client.publish(gatewayStateTopic(this.options.name), JSON.stringify(state), { qos: 1, retain: true });
   }
 
-  /** Stops the benches, says offline, disconnects and closes the outbox (what is unsent stays for the next start). */
-  async stop(): Promise<void> {
+  /**
+   * Stops the benches, waits up to `drainMs` for the broker to acknowledge what the outbox
+   * holds, says offline, disconnects and closes the outbox (what is unsent stays for the next start).
+   */
+  async stop(drainMs = 0): Promise<void> {
     clearInterval(this.stateTimer);
     await this.manager.stopAll();
+    const until = Date.now() + drainMs;
+    while (this.outbox.depth > 0 && this.client?.connected && Date.now() < until) await new Promise((r) => setTimeout(r, DRAIN_POLL_MS));
     const client = this.client;
     if (client?.connected) {
       const offline: GatewayStateMessage = { online: false, atMs: Date.now(), outboxDepth: this.outbox.depth, benchIds: this.benchIds };
