@@ -13,10 +13,11 @@ export type ToGateway = { type: 'start'; brokerUrl: string; name: string; passwo
 export type FromGateway =
   | { type: 'epoch'; benchId: number; atMs: number }
   | { type: 'state'; framesMade: number; outboxDepth: number }
-  | { type: 'stopped'; framesMade: number; outboxDepth: number };
+  | { type: 'stopped'; framesMade: number; outboxDepth: number; cpuPercentOfOneCore: number };
 
 let gateway: GatewayRuntime | undefined;
 let framesMade = 0;
+let startedAt = { cpu: process.cpuUsage(), wallMs: Date.now() };
 let producing = true;
 const STATE_EVERY_MS = 1000;
 const DRAIN_MS = 60_000;
@@ -30,13 +31,16 @@ process.on('message', async (m: ToGateway) => {
       if (frame.t === 0) process.send!({ type: 'epoch', benchId, atMs: wallMs() } satisfies FromGateway);
     });
     await gateway.start();
+    startedAt = { cpu: process.cpuUsage(), wallMs: Date.now() };
     setInterval(() => process.send!({ type: 'state', framesMade, outboxDepth: gateway!.outboxDepth } satisfies FromGateway), STATE_EVERY_MS).unref();
   } else if (m.type === 'stop') {
     const g = gateway!;
+    const cpu = process.cpuUsage(startedAt.cpu);
+    const cpuPercentOfOneCore = +(((cpu.user + cpu.system) / 1000 / (Date.now() - startedAt.wallMs)) * 100).toFixed(1);
     // The sources stop first, then the outbox drains (the parent checks that nothing was lost).
     await g.stop(DRAIN_MS);
     producing = false;
-    process.send!({ type: 'stopped', framesMade, outboxDepth: g.outboxDepth } satisfies FromGateway);
+    process.send!({ type: 'stopped', framesMade, outboxDepth: g.outboxDepth, cpuPercentOfOneCore } satisfies FromGateway);
     process.disconnect();
   }
 });

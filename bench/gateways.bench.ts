@@ -7,7 +7,7 @@
  * process's CPU and RSS. Soak length: GATEWAYS_SOAK_S (default 60 s).
  */
 import { fork, type ChildProcess } from 'node:child_process';
-import { mkdtempSync } from 'node:fs';
+import { mkdtempSync, readFileSync } from 'node:fs';
 import { loadavg, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { hashPassword } from '../server/auth/password.js';
@@ -34,6 +34,16 @@ const PASSWORD = 'bench-viewer-password';
 const MS_PER_S = 1000;
 const MEMORY_EVERY_MS = 5000;
 const mb = (b: number) => +(b / 1e6).toFixed(1);
+/** Linux counts a process's CPU time in clock ticks of 1/100 s (USER_HZ, common practice on x86-64). */
+const CLOCK_TICKS_PER_S = 100;
+
+/** The broker process's user + system CPU time so far, in clock ticks (from /proc). */
+function brokerCpuTicks(pid: number | undefined): number {
+  if (pid === undefined) return 0;
+  // Fields after the command name: state is field 3, utime 14 and stime 15 (proc(5)).
+  const fields = readFileSync(`/proc/${pid}/stat`, 'utf8').split(') ')[1]!.split(' ');
+  return Number(fields[11]) + Number(fields[12]);
+}
 
 async function signIn(url: string, email: string): Promise<string> {
   const csrf = await fetch(`${url}/api/auth/csrf`);
@@ -126,6 +136,7 @@ export async function run(): Promise<Record<string, string | number>> {
     tellViewers({ type: 'measure', on: true });
     measuring = true;
     const cpu0 = process.cpuUsage();
+    const brokerTicks0 = brokerCpuTicks(broker.pid);
     const t0 = Date.now();
     const rss: number[] = [mb(process.memoryUsage().rss)];
     let maxOutbox = 0;
@@ -136,6 +147,7 @@ export async function run(): Promise<Record<string, string | number>> {
     await new Promise((r) => setTimeout(r, (SOAK_S - WARMUP_S) * MS_PER_S));
     clearInterval(sampler);
     const cpu = process.cpuUsage(cpu0);
+    const brokerTicks = brokerCpuTicks(broker.pid) - brokerTicks0;
     const wallS = (Date.now() - t0) / MS_PER_S;
     const load = loadavg();
     rss.push(mb(process.memoryUsage().rss));
@@ -172,6 +184,9 @@ export async function run(): Promise<Record<string, string | number>> {
       frameToViewerP99Ms: +v.p99Ms.toFixed(1),
       frameToViewerMaxMs: +v.maxMs.toFixed(1),
       serverCpuPercentOfOneCore: +(((cpu.user + cpu.system) / 1000 / (wallS * MS_PER_S)) * 100).toFixed(1),
+      serverHeapEndMB: mb(process.memoryUsage().heapUsed),
+      gatewayCpuPercentOfOneCoreEach: finals.map((f) => f.cpuPercentOfOneCore).join(' / '),
+      brokerCpuPercentOfOneCore: +(((brokerTicks / CLOCK_TICKS_PER_S) / wallS) * 100).toFixed(1),
       serverRssStartMB: rss[0]!,
       serverRssEndMB: rss[rss.length - 1]!,
       serverRssMaxMB: Math.max(...rss),

@@ -47,6 +47,11 @@ export class MosquittoBroker {
     return `mqtt://${this.host}:${this.port}`;
   }
 
+  /** The broker's process id while it runs. */
+  get pid(): number | undefined {
+    return this.child?.pid;
+  }
+
   /** Whether the broker process is running. */
   get running(): boolean {
     return this.child !== undefined;
