@@ -179,6 +179,25 @@ describe('bench gateways', () => {
     await tech.post(`/api/runs/${run}/stop`).send({}).expect(200);
   }, 120_000);
 
+  it('takes a QoS 1 redelivery once (by its seq) and refuses a malformed message without losing the rest', async () => {
+    // South's gateway process is not running yet: only this test's client publishes to the bench.
+    const benchId = await bench('Dedupe', 1, 16);
+    await assign(south.id, [benchId]);
+    const link = t.ctx.services.gatewayLink!;
+    const client = await connectAsync(broker.url, { clientId: 'south-dedupe', username: gatewayUsername('south'), password: south.password, reconnectPeriod: 0, protocolVersion: 5 });
+    const before = { ...link.counters, framesOk: (await benchStatus(benchId)).framesOk as number };
+    const message = (seq: number, tS: number) => JSON.stringify({ type: 'frame', seq, atMs: Date.now(), frame: { t: tS, volts: 13.1, amps: 4, clock: 'device' } });
+    await client.publishAsync(benchFeedTopic(benchId), message(1_000_001, 1), { qos: 1 });
+    await client.publishAsync(benchFeedTopic(benchId), message(1_000_001, 1), { qos: 1, dup: true });
+    await client.publishAsync(benchFeedTopic(benchId), '{"type":"frame","seq":1000002,"frame":{"volts":"high"}}', { qos: 1 });
+    await client.publishAsync(benchFeedTopic(benchId), message(1_000_002, 2), { qos: 1 });
+    await client.endAsync();
+    await eventually(async () => expect(link.counters.invalid - before.invalid).toBe(1));
+    await eventually(async () => expect((await benchStatus(benchId)).framesOk - before.framesOk).toBe(2));
+    expect(link.counters.duplicates - before.duplicates).toBe(1);
+    await assign(south.id, []);
+  });
+
   it('refuses wrong credentials and a revoked gateway', async () => {
     const wrong = connectAsync(broker.url, { clientId: 'intruder', username: gatewayUsername('north'), password: 'not-the-password', reconnectPeriod: 0, protocolVersion: 5 });
     await expect(wrong).rejects.toThrow(/not authori[sz]ed|bad user name or password/i);
