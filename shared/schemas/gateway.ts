@@ -65,8 +65,8 @@ export const GatewaySchema = z.object({
     /** ISO time the server last heard from it. */
     lastSeenAt: z.string().nullable(),
     /**
-     * Its clock minus the server's, ms, from its latest state message (includes the time
-     * in transit, so it is an upper bound of the true offset on a quick network). Null: not heard.
+     * Its clock minus the server's, ms, from its latest state message (the time in transit
+     * makes it read low by that much). Null: not heard.
      */
     clockOffsetMs: z.number().nullable(),
     /** Messages waiting in its on-disk outbox when it last reported. */
