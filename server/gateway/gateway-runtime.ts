@@ -6,7 +6,7 @@ import type { Frame } from '../../shared/schemas/frame.js';
 import { BenchManager } from '../ingest/bench-manager.js';
 import type { SourceDeps } from '../ingest/sources/create-source.js';
 import { benchFeedTopic, gatewayConfigTopic, gatewayStateTopic, gatewayUsername } from '../mqtt/topics.js';
-import { Outbox, type OutboxEntry } from './outbox.js';
+import { Outbox } from './outbox.js';
 
 /** Messages sent but not yet acknowledged, at most (the rest wait in the outbox). */
 export const SEND_WINDOW = 1000;
@@ -58,8 +58,15 @@ export class GatewayRuntime {
     this.configPath = join(options.dir, 'config.json');
     this.outbox = new Outbox(options.dir, this.log);
     this.manager = new BenchManager(options.sourceDeps ?? {}, (m, e) => this.log(`${m}: ${String(e)}`));
-    this.manager.onFrame((benchId, frame) => this.enqueue(this.outbox.append(benchId, { type: 'frame', atMs: Date.now(), frame })));
-    this.manager.onStatus((benchId, status) => this.enqueue(this.outbox.append(benchId, { type: 'status', atMs: Date.now(), status })));
+    // Everything goes to disk first, then out as the send window allows.
+    this.manager.onFrame((benchId, frame) => {
+      this.outbox.append(benchId, { type: 'frame', atMs: Date.now(), frame });
+      this.pump();
+    });
+    this.manager.onStatus((benchId, status) => {
+      this.outbox.append(benchId, { type: 'status', atMs: Date.now(), status });
+      this.pump();
+    });
   }
 
   /** Messages waiting for the broker's acknowledgement. */
@@ -126,10 +133,6 @@ export class GatewayRuntime {
   private async apply(config: GatewayConfigMessage): Promise<void> {
     this.benchIds = config.benches.map((b) => b.id);
     await this.manager.sync(config.benches);
-  }
-
-  private enqueue(_entry: OutboxEntry): void {
-    this.pump();
   }
 
   /** Sends what the outbox holds beyond the window in flight, oldest first, while connected. */

@@ -121,19 +121,13 @@ export class GatewayLink implements GatewaySourceLink {
   /** A bench's stand-in starts listening. */
   attach(benchId: number, source: GatewaySource): void {
     this.sources.set(benchId, source);
-    const gatewayId = this.gatewayOfSource(source);
-    if (gatewayId !== null) this.scheduleConfig(gatewayId);
+    if (source.gatewayId !== null) this.scheduleConfig(source.gatewayId);
   }
 
   /** A bench's stand-in stops. */
   detach(benchId: number, source: GatewaySource): void {
     if (this.sources.get(benchId) === source) this.sources.delete(benchId);
-    const gatewayId = this.gatewayOfSource(source);
-    if (gatewayId !== null) this.scheduleConfig(gatewayId);
-  }
-
-  private gatewayOfSource(source: GatewaySource): number | null {
-    return source.gatewayId;
+    if (source.gatewayId !== null) this.scheduleConfig(source.gatewayId);
   }
 
   /** Publishes a gateway's configuration soon (changes close together go out once). */
