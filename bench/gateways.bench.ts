@@ -9,6 +9,7 @@
 import { fork, type ChildProcess } from 'node:child_process';
 import { mkdtempSync, readFileSync } from 'node:fs';
 import { loadavg, tmpdir } from 'node:os';
+import { monitorEventLoopDelay } from 'node:perf_hooks';
 import { join } from 'node:path';
 import { hashPassword } from '../server/auth/password.js';
 import { attachBenchManager } from '../server/benches/attach-bench-manager.js';
@@ -135,6 +136,9 @@ export async function run(): Promise<Record<string, string | number>> {
     await new Promise((r) => setTimeout(r, WARMUP_S * MS_PER_S));
     tellViewers({ type: 'measure', on: true });
     measuring = true;
+    // How long the server's event loop was blocked: separates its own stalls from waiting for a core.
+    const loopDelay = monitorEventLoopDelay({ resolution: 10 });
+    loopDelay.enable();
     const cpu0 = process.cpuUsage();
     const brokerTicks0 = brokerCpuTicks(broker.pid);
     const t0 = Date.now();
@@ -147,6 +151,7 @@ export async function run(): Promise<Record<string, string | number>> {
     await new Promise((r) => setTimeout(r, (SOAK_S - WARMUP_S) * MS_PER_S));
     clearInterval(sampler);
     const cpu = process.cpuUsage(cpu0);
+    loopDelay.disable();
     const brokerTicks = brokerCpuTicks(broker.pid) - brokerTicks0;
     const wallS = (Date.now() - t0) / MS_PER_S;
     const load = loadavg();
@@ -184,6 +189,8 @@ export async function run(): Promise<Record<string, string | number>> {
       frameToViewerP99Ms: +v.p99Ms.toFixed(1),
       frameToViewerMaxMs: +v.maxMs.toFixed(1),
       serverCpuPercentOfOneCore: +(((cpu.user + cpu.system) / 1000 / (wallS * MS_PER_S)) * 100).toFixed(1),
+      serverEventLoopDelayP99Ms: +(loopDelay.percentile(99) / 1e6).toFixed(1),
+      serverEventLoopDelayMaxMs: +(loopDelay.max / 1e6).toFixed(1),
       serverHeapEndMB: mb(process.memoryUsage().heapUsed),
       gatewayCpuPercentOfOneCoreEach: finals.map((f) => f.cpuPercentOfOneCore).join(' / '),
       brokerCpuPercentOfOneCore: +(((brokerTicks / CLOCK_TICKS_PER_S) / wallS) * 100).toFixed(1),
