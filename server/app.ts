@@ -22,6 +22,7 @@ import { createShareLinksRouter } from './share/share-links-routes.js';
 import { createSharedRouter } from './share/shared-routes.js';
 import { createProgrammesRouter } from './programmes/programmes-routes.js';
 import { createInstrumentsRouter } from './instruments/instruments-routes.js';
+import { createGatewaysRouter } from './mqtt/gateways-routes.js';
 
 /**
  * The Express app (no listen). Order matters: security headers, the health endpoint, a 503
@@ -65,6 +66,7 @@ export function createApp(ctx: AppContext): Express {
   app.use('/api/share-links', createShareLinksRouter(ctx));
   app.use('/api', createProgrammesRouter(ctx));
   app.use('/api', createInstrumentsRouter(ctx));
+  app.use('/api/gateways', createGatewaysRouter(ctx));
   // ── end of router mounts ──
 
   app.use('/api', apiNotFound);

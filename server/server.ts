@@ -21,6 +21,7 @@ import { attachAlarms } from './alarms/attach-alarms.js';
 import { attachPush } from './push/attach-push.js';
 import { attachProgrammes } from './programmes/attach-programmes.js';
 import { attachInstruments } from './instruments/attach-instruments.js';
+import { mqttAttachment } from './mqtt/attach-mqtt.js';
 
 /** Undoes an attachment (close sockets, stop timers); awaited on server close. */
 export type Detach = () => Promise<void> | void;
@@ -33,7 +34,7 @@ export type Attachment = (httpServer: Server, ctx: AppContext) => Promise<Detach
  *   attachBenchManager,   (ingest, from ./benches/...)
  *   attachRecording,      (the composition root of recording, from ./compose/...)
  */
-export const ATTACHMENTS: Attachment[] = [attachBenchManager, attachRecording, attachInstruments, attachProgrammes, attachAlarms, attachPush, backupAttachment()];
+export const ATTACHMENTS: Attachment[] = [mqttAttachment(), attachBenchManager, attachRecording, attachInstruments, attachProgrammes, attachAlarms, attachPush, backupAttachment()];
 
 /** How to start; everything is optional (defaults: environment config, provisioned MariaDB). */
 export interface StartServerOptions {

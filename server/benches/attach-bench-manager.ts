@@ -1,6 +1,10 @@
 import type { Server } from 'node:http';
 import type { AppContext } from '../app-context.js';
-import { BenchManager } from '../ingest/bench-manager.js';
+import { BenchManager, type ManagedBench } from '../ingest/bench-manager.js';
+import { systemClock } from '../ingest/clock.js';
+import type { SourceSink } from '../ingest/sources/source.js';
+import { GatewaySource } from '../mqtt/gateway-source.js';
+import '../mqtt/attach-mqtt.js';
 import type { SourceDeps } from '../ingest/sources/create-source.js';
 import './bench-services.js';
 import { benchModel } from './bench-model.js';
@@ -12,7 +16,10 @@ import { toManaged } from './bench-service.js';
  * on close. A bench whose port is missing does not stop the server: it just reconnects.
  */
 export async function attachBenchManager(_httpServer: Server, ctx: AppContext, deps: SourceDeps = {}): Promise<() => Promise<void>> {
-  const manager = new BenchManager(deps, (message, err) => ctx.log.error(message, err));
+  const link = ctx.services.gatewayLink;
+  // A bench a gateway runs gets a stand-in fed over MQTT (the MQTT attachment ran first); without MQTT it stays idle.
+  const remote = link ? (bench: ManagedBench, sink: SourceSink) => new GatewaySource(bench, sink, link, deps.clock ?? systemClock) : undefined;
+  const manager = new BenchManager(deps, (message, err) => ctx.log.error(message, err), remote);
   ctx.services.benchManager = manager;
   const rows = await benchModel(ctx.sequelize).findAll();
   await manager.sync(rows.map(toManaged));

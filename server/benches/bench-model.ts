@@ -13,6 +13,8 @@ export interface BenchRow extends Model<InferAttributes<BenchRow>, InferCreation
   loadOnAmps: CreationOptional<number | null>;
   /** JSON of the meter's stated accuracy (migration 1250); null = not stated. */
   meterAccuracy: CreationOptional<string | null>;
+  /** The gateway that runs this bench's source (migration 1650); null = this server. */
+  gatewayId: CreationOptional<number | null>;
   createdAt: CreationOptional<Date>;
   updatedAt: CreationOptional<Date>;
 }
@@ -33,6 +35,7 @@ export function benchModel(sequelize: Sequelize): BenchModel {
       notes: { type: DataTypes.TEXT, allowNull: false },
       loadOnAmps: { type: DataTypes.DOUBLE, allowNull: true, defaultValue: null },
       meterAccuracy: { type: DataTypes.TEXT, allowNull: true, defaultValue: null },
+      gatewayId: { type: DataTypes.INTEGER, allowNull: true, defaultValue: null },
       createdAt: DataTypes.DATE,
       updatedAt: DataTypes.DATE,
     },
@@ -64,6 +67,7 @@ export function toApiBench(row: BenchRow): Bench {
     notes: row.notes,
     loadOnAmps: row.loadOnAmps ?? null,
     meterAccuracy: readMeterAccuracy(row.meterAccuracy),
+    gatewayId: row.gatewayId ?? null,
     createdAt: row.createdAt.toISOString(),
     updatedAt: row.updatedAt.toISOString(),
   };

@@ -8,7 +8,7 @@ const NO_MANAGER: BenchStatus = { state: 'idle', message: 'bench manager not run
 
 /** A bench row as the manager wants it. */
 export function toManaged(row: BenchRow): ManagedBench {
-  return { id: row.id, source: readSource(row).source, enabled: row.enabled };
+  return { id: row.id, source: readSource(row).source, enabled: row.enabled, gatewayId: row.gatewayId ?? null };
 }
 
 /** A bench with its live status (or why it has none). */

@@ -35,6 +35,17 @@ export interface AppConfig {
   alarms?: AlarmDeliveryConfig;
   /** Public host names (or name:port) accepted in the Host header besides the loopback ones. */
   allowedHosts: string[];
+  /** Bench gateways over MQTT; absent or null: none (everything runs on this machine). */
+  mqtt?: MqttConfig | null;
+}
+
+/** Where the server meets its bench gateways. */
+export interface MqttConfig {
+  /** The broker's URL with the server's credentials; null with `local` (the private broker's own). */
+  url: string | null;
+  /** Start a private Mosquitto on loopback (KNEEPOINT_MQTT=local). */
+  local: boolean;
+  localPort: number;
 }
 
 /** How alarms are delivered: SMTP (or the local fake), links, and the retry back-off. */
@@ -117,5 +128,9 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, cwd = process.c
     },
     trustProxy: parsed.KNEEPOINT_TRUST_PROXY,
     allowedHosts: parsed.KNEEPOINT_ALLOWED_HOSTS,
+    mqtt:
+      parsed.KNEEPOINT_MQTT === 'local' || parsed.KNEEPOINT_MQTT_URL
+        ? { url: parsed.KNEEPOINT_MQTT === 'local' ? null : parsed.KNEEPOINT_MQTT_URL!, local: parsed.KNEEPOINT_MQTT === 'local', localPort: parsed.KNEEPOINT_MQTT_PORT }
+        : null,
   };
 }

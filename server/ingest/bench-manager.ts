@@ -3,14 +3,19 @@ import type { Frame } from '../../shared/schemas/frame.js';
 import { ListenerSet } from './listener-set.js';
 import { createSource, type SourceDeps } from './sources/create-source.js';
 import { IdleSource } from './sources/idle-source.js';
-import type { Source } from './sources/source.js';
+import type { Source, SourceSink } from './sources/source.js';
 
 /** What the manager needs to know of a bench. */
 export interface ManagedBench {
   id: number;
   source: BenchSourceConfig;
   enabled: boolean;
+  /** A bench gateway runs the source on another machine (its frames arrive over MQTT); absent or null: run here. */
+  gatewayId?: number | null;
 }
+
+/** Makes the stand-in source of a bench that a gateway runs (the server's MQTT link). */
+export type RemoteSourceFactory = (bench: ManagedBench, sink: SourceSink) => Source;
 
 /** A frame listener: every valid frame of every bench, in order per bench. */
 export type FrameListener = (benchId: number, frame: Frame) => void;
@@ -54,6 +59,7 @@ export class BenchManager implements BenchFeed {
   constructor(
     private readonly deps: SourceDeps = {},
     private readonly log: (message: string, err?: unknown) => void = (message, err) => console.warn(message, err),
+    private readonly remoteSource?: RemoteSourceFactory,
   ) {
     this.frameListeners = new ListenerSet((err) => this.log('bench frame listener failed', err));
     this.statusListeners = new ListenerSet((err) => this.log('bench status listener failed', err));
@@ -93,14 +99,18 @@ export class BenchManager implements BenchFeed {
   }
 
   private async applyNow(bench: ManagedBench): Promise<void> {
-    const config = JSON.stringify(bench.source);
+    const remote = bench.gatewayId ?? null;
+    const config = JSON.stringify([bench.source, remote]);
     const current = this.entries.get(bench.id);
     if (current && current.config === config && current.enabled === bench.enabled) return;
     await this.removeNow(bench.id);
-    const source = bench.enabled
-      ? createSource(bench.source, this.sinkFor(bench.id), this.deps)
-      : new IdleSource('bench disabled');
-    const entry: Entry = { config, enabled: bench.enabled, simulated: bench.enabled && bench.source.kind === 'simulator', source };
+    // A gateway's bench gets its stand-in even when disabled: the gateway must hear that too.
+    const source = remote !== null
+      ? (this.remoteSource?.(bench, this.sinkFor(bench.id)) ?? new IdleSource('bench runs on a gateway, but MQTT is not configured'))
+      : bench.enabled
+        ? createSource(bench.source, this.sinkFor(bench.id), this.deps)
+        : new IdleSource('bench disabled');
+    const entry: Entry = { config, enabled: bench.enabled, simulated: remote === null && bench.enabled && bench.source.kind === 'simulator', source };
     this.entries.set(bench.id, entry);
     source.start();
     this.statusListeners.emit(bench.id, source.getStatus());

@@ -218,6 +218,8 @@ export const BenchSchema = z.object({
   loadOnAmps: LoadOnAmpsSchema.default(null),
   /** The meter's stated accuracy from its data sheet (null: not stated, no uncertainty is given). */
   meterAccuracy: MeterAccuracySchema.nullable().default(null),
+  /** The bench gateway that runs this bench's source on another machine; null: this server. */
+  gatewayId: z.number().int().positive().nullable().default(null),
   createdAt: z.string(),
   updatedAt: z.string(),
 });

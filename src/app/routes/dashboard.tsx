@@ -3,6 +3,7 @@ import { Link } from 'react-router-dom';
 import { useMe } from '../../features/auth/api/get-me';
 import { BenchesOverview } from '../../features/benches/components/benches-overview';
 import { CalibrationFlag } from '../../components/calibration/calibration-flag';
+import { GatewaysPanel } from '../../features/gateways/components/gateways-panel';
 import { PageHeader } from '../../components/ui/card';
 import { benchesQueryOptions } from '../../lib/queries/benches';
 import { hasRole } from '../../lib/roles';
@@ -20,6 +21,9 @@ export function Component() {
       />
       <CalibrationFlag />
       <BenchesOverview canManage={hasRole(me.data?.role, 'admin')} />
+      <div className="mt-6">
+        <GatewaysPanel canManage={isAdmin} />
+      </div>
     </>
   );
 }

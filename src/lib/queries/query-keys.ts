@@ -20,6 +20,7 @@ export const queryKeys = {
     channels: () => ['alarms', 'channels'] as const,
     outbox: () => ['alarms', 'outbox'] as const,
   },
+  gateways: { all: ['gateways'] as const },
   benches: {
     all: ['benches'] as const,
     list: () => ['benches'] as const,
