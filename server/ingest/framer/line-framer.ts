@@ -1,3 +1,7 @@
+import { isBlankSpan } from '../parsers/csv-fields.js';
+
+const CODE_CR = 13;
+
 /** Longest line a meter is expected to send; a longer run of bytes is noise or a wrong baud rate. */
 export const DEFAULT_MAX_LINE_BYTES = 1024;
 
@@ -16,13 +20,23 @@ export class LineFramer {
 
   /** Feeds a chunk and returns the complete lines it finished, without line endings; empty lines are skipped. */
   push(chunk: Buffer | string): string[] {
-    const text = typeof chunk === 'string' ? chunk : chunk.toString('latin1');
     const lines: string[] = [];
+    this.pushInto(chunk, lines);
+    return lines;
+  }
+
+  /**
+   * Appends the lines a chunk finishes to `out` (the caller may reuse one array from chunk to
+   * chunk). Lines are cut by a character scan: no regex and no trimmed copy per line.
+   */
+  pushInto(chunk: Buffer | string, out: string[]): void {
+    const text = typeof chunk === 'string' ? chunk : chunk.toString('latin1');
     let start = 0;
     for (;;) {
       const nl = text.indexOf('\n', start);
       if (nl < 0) break;
-      const piece = text.slice(start, nl);
+      let end = nl;
+      const from = start;
       start = nl + 1;
       if (this.discarding) {
         // The tail of an over-long line: it was counted when it overflowed.
@@ -30,16 +44,22 @@ export class LineFramer {
         this.pending = '';
         continue;
       }
-      const line = (this.pending + piece).replace(/\r$/, '');
-      this.pending = '';
+      let line: string;
+      if (this.pending === '') {
+        if (end > from && text.charCodeAt(end - 1) === CODE_CR) end--;
+        line = text.slice(from, end);
+      } else {
+        line = this.pending + text.slice(from, end);
+        this.pending = '';
+        if (line.charCodeAt(line.length - 1) === CODE_CR) line = line.slice(0, -1);
+      }
       if (line.length > this.maxLineBytes) {
         this.droppedLines++;
         continue;
       }
-      if (line.trim() !== '') lines.push(line);
+      if (!isBlankSpan(line, 0, line.length)) out.push(line);
     }
-    this.appendPending(text.slice(start));
-    return lines;
+    this.appendPending(start === 0 ? text : text.slice(start));
   }
 
   /** Forgets a partial line (after a reconnect the first bytes may be the tail of an old line). */

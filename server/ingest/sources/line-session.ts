@@ -10,8 +10,11 @@ export function startLineSession(ctx: SessionContext, format: CsvFormat | JsonlF
   let dropped = 0;
   // The first bytes after opening may be the tail of a line sent before we listened.
   let first = true;
+  // One array for every chunk's lines: reading a stream allocates nothing per chunk but the lines.
+  const lines: string[] = [];
   const onData = (chunk: Buffer): void => {
-    const lines = framer.push(chunk);
+    lines.length = 0;
+    framer.pushInto(chunk, lines);
     if (framer.droppedLines > dropped) {
       for (; dropped < framer.droppedLines; dropped++) ctx.tracker.rejected('line too long (wrong baud rate or no line ending?)');
     }
