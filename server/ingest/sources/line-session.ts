@@ -18,8 +18,10 @@ export function startLineSession(ctx: SessionContext, format: CsvFormat | JsonlF
     if (framer.droppedLines > dropped) {
       for (; dropped < framer.droppedLines; dropped++) ctx.tracker.rejected('line too long (wrong baud rate or no line ending?)');
     }
+    // Every line of a chunk arrived together: one arrival stamp for the chunk.
+    const arrivalMs = ctx.clock.nowMs();
     for (const line of lines) {
-      const result = parse(line, ctx.clock.nowMs());
+      const result = parse(line, arrivalMs);
       if (result.kind === 'frame') ctx.emitFrame(result.frame);
       else if (result.kind === 'rejected' && !first) ctx.tracker.rejected(result.reason);
       first = false;
