@@ -4,13 +4,14 @@ import { createRunPipeline } from '../../shared/measure/run-pipeline.js';
 import { summarizeRun } from '../../shared/measure/summarize-run.js';
 import type { ImportResponse } from '../../shared/schemas/api-runs.js';
 import type { Frame } from '../../shared/schemas/frame.js';
+import { frameProblem } from '../../shared/schemas/frame-check.js';
 import type { Reading } from '../../shared/schemas/reading.js';
 import type { CutoffEvent, RecoveryEvent, RunEvent } from '../../shared/schemas/run-event.js';
 import { COMPACT_READINGS, writeBatch } from '../archive/chunk-store.js';
 import { encodeChunk } from '../archive/chunk-encode.js';
 import { readingsToColumns } from '../archive/reading-columns.js';
 import { HttpError } from '../http/http-error.js';
-import { csvRecords, sniffDelimiter } from './import-csv.js';
+import { readCsvRecords, sniffDelimiter } from './import-csv.js';
 import { createRowParser, type ColumnOverrides } from './import-headers.js';
 import { importNotices } from './import-notices.js';
 import { decideCurrentSign, type SignDecision } from './import-sign.js';
@@ -37,6 +38,16 @@ export interface ImportRequest {
   electrolyteTempCelsius?: number;
   /** A step longer than this is a gap; omitted: judged against the file's cadence. */
   maxGapSeconds?: number;
+  /** Told the rows done after each chunk of the file is read (for the client's progress bar). */
+  onProgress?: (progress: ImportProgress) => void;
+}
+
+/** How far an import has got: checking every row first, then importing them. */
+export interface ImportProgress {
+  phase: 'checking' | 'importing';
+  rows: number;
+  /** Rows in the file, known once the check is done. */
+  totalRows: number | null;
 }
 
 /** The sign as stated, or as the file's energy each way tells it. */
@@ -58,7 +69,7 @@ export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: Impor
     throw new HttpError(400, `Electrolyte temperature ${electrolyte} °C is outside the correction table (${min.toFixed(1)} to ${max.toFixed(1)} °C)`, { electrolyteTempCelsius: ['outside the table'] });
   }
   const delimiter = await sniffDelimiter(req.filePath);
-  const survey = await surveyFile(req.filePath, delimiter, req.columns, req.timeZone ?? 'UTC');
+  const survey = await surveyFile(req.filePath, delimiter, req.columns, req.timeZone ?? 'UTC', (rows) => req.onProgress?.({ phase: 'checking', rows, totalRows: null }));
   const { plan, rows, duplicates, medianStepS } = survey;
   const sign = settleSign(req, survey.sign);
   const config: RunConfig = {
@@ -86,29 +97,42 @@ export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: Impor
     const events: RunEvent[] = [];
     let pending: Reading[] = [];
     let seq = 0;
-    const flush = async () => {
-      if (!pending.length) return;
-      const block = encodeChunk(seq - pending.length, readingsToColumns(pending));
-      pending = [];
-      await writeBatch(sequelize, { runId: run.id, block, events: [], patch: { readingsCount: seq } });
+    let written = 0;
+    /** Archives pending readings in blocks of COMPACT_READINGS (the rest too when `all`). */
+    const flush = async (all: boolean) => {
+      while (pending.length >= COMPACT_READINGS || (all && pending.length > 0)) {
+        const take = Math.min(COMPACT_READINGS, pending.length);
+        const block = encodeChunk(written, readingsToColumns(pending.slice(0, take)));
+        pending = pending.slice(take);
+        written += take;
+        await writeBatch(sequelize, { runId: run.id, block, events: [], patch: { readingsCount: written } });
+      }
     };
     const parse = createRowParser(plan);
     let header = true;
-    for await (const { fields, line } of csvRecords(req.filePath, delimiter)) {
+    let rowsRead = 0;
+    await readCsvRecords(req.filePath, delimiter, (text, spans, line) => {
       if (header) {
         header = false;
-        continue;
+        return;
       }
-      const row = parse(fields, line);
-      const frame: Frame = { t: row.t, volts: row.volts, amps: sign.flip ? -row.amps : row.amps, clock: 'device', ...(row.tempC !== null ? { temps: { cell: row.tempC } } : {}) };
+      const row = parse(text, spans, line);
+      rowsRead++;
+      const frame: Frame = { t: row.t, volts: row.volts, amps: sign.flip ? -row.amps : row.amps, clock: 'device' };
+      if (row.tempC !== null) frame.temps = { cell: row.tempC };
+      // Checked once, where it is made, like every live source's frames.
+      const problem = frameProblem(frame);
+      if (problem !== null) throw new HttpError(400, `line ${line}: ${problem}`);
       const out = pipeline.push(frame);
-      if (!out.reading) continue;
+      if (!out.reading) return;
       pending.push(out.reading);
       seq++;
       for (const e of out.events) events.push(e);
-      if (pending.length >= COMPACT_READINGS) await flush();
-    }
-    await flush();
+    }, async () => {
+      req.onProgress?.({ phase: 'importing', rows: rowsRead, totalRows: rows });
+      await flush(false);
+    });
+    await flush(true);
     const summary = summarizeRun({
       snapshot: pipeline.snapshot(), events, acceptancePercent: req.acceptancePercent,
       price: req.battery?.price ?? null, massKg: req.battery?.massKg ?? null, leadAcidTempCelsius: electrolyte ?? null,

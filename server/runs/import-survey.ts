@@ -1,5 +1,5 @@
 import { HttpError } from '../http/http-error.js';
-import { csvRecords, type Delimiter } from './import-csv.js';
+import { readCsvRecords, type Delimiter } from './import-csv.js';
 import { createRowParser, planColumns, type ColumnOverrides, type ColumnPlan } from './import-headers.js';
 import { createSignTally, tallyReading, type SignTally } from './import-sign.js';
 import { checkTimeSteps } from './import-time.js';
@@ -50,8 +50,8 @@ export function medianOfCounts(counts: ReadonlyMap<number, number>): number | nu
  * of the current. Refuses (400, naming the line) a row out of time order or a time column
  * whose steps cannot be the unit claimed.
  */
-export async function surveyFile(filePath: string, delimiter: Delimiter, overrides: ColumnOverrides, timeZone: string): Promise<Survey> {
-  let headers: string[] | null = null;
+export async function surveyFile(filePath: string, delimiter: Delimiter, overrides: ColumnOverrides, timeZone: string, onProgress?: (rows: number) => void): Promise<Survey> {
+  let headers: string[] | null = null as string[] | null;
   let plan: ColumnPlan | null = null;
   let parse: ReturnType<typeof createRowParser> | null = null;
   let rows = 0;
@@ -62,15 +62,14 @@ export async function surveyFile(filePath: string, delimiter: Delimiter, overrid
   const sign = createSignTally();
   let firstTempC: number | null = null;
   const makePlan = (first: string[] | null) => ({ ...planColumns(headers!, first, overrides), decimalComma: delimiter !== ',', timeZone });
-  for await (const { fields, line } of csvRecords(filePath, delimiter)) {
+  await readCsvRecords(filePath, delimiter, (text, spans, line) => {
     if (!headers) {
-      headers = fields;
-      continue;
+      headers = spans.texts(text);
+      return;
     }
-    plan ??= makePlan(fields);
+    plan ??= makePlan(spans.texts(text));
     parse ??= createRowParser(plan);
-    if (fields.length !== headers.length) throw new HttpError(400, `line ${line}: ${fields.length} fields, the header has ${headers.length}`);
-    const row = parse(fields, line);
+    const row = parse(text, spans, line);
     // Out-of-order rows would be dropped by the integrator: refuse the file rather than lose them quietly.
     if (row.t < lastT) throw new HttpError(400, `line ${line}: time goes back (${row.t} s after ${lastT} s); rows must be in time order`);
     if (row.t === lastT) {
@@ -85,7 +84,7 @@ export async function surveyFile(filePath: string, delimiter: Delimiter, overrid
     if (rows === 0) firstT = row.t;
     lastT = row.t;
     rows++;
-  }
+  }, async () => onProgress?.(rows));
   if (!headers) throw new HttpError(400, 'line 1: the file is empty; expected a header row');
   // A header alone (or a file that is no CSV) is reported by what is wrong with its header first.
   plan ??= makePlan(null);
