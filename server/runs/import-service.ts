@@ -50,6 +50,9 @@ export interface ImportProgress {
   totalRows: number | null;
 }
 
+/** Archive blocks queued for writing before reading waits for them (about 16 × 4096 readings, a few MB encoded). */
+const MAX_BLOCKS_IN_FLIGHT = 16;
+
 /** The sign as stated, or as the file's energy each way tells it. */
 function settleSign(req: ImportRequest, tally: Parameters<typeof decideCurrentSign>[0]): SignDecision {
   if (req.currentSign === 'discharge-negative') return { flip: true, reason: 'negative amps are discharge (as chosen)' };
@@ -90,6 +93,7 @@ export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: Impor
     name: req.name, tags: req.tags, origin: 'import', benchId: null, batteryId: req.battery?.id ?? null,
     state: 'recording', config, createdById: req.userId, startedAt,
   });
+  let writing: Promise<void> = Promise.resolve();
   try {
     // Gaps are judged against the file's own cadence (its median interval) unless a limit was typed.
     const pipeline = createRunPipeline(measureConfigFor(config, req.battery, { cadenceSeconds: medianStepS }));
@@ -98,6 +102,18 @@ export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: Impor
     let pending: Reading[] = [];
     let seq = 0;
     let written = 0;
+    // Blocks are written while the next part of the file is read: each write waits on the
+    // database's commit, and reading on meanwhile keeps both busy. The chain never rejects;
+    // its first error is kept and thrown at the next chunk or at the end.
+    let inFlight = 0;
+    let writeError: unknown = null;
+    const writeBlock = (block: ReturnType<typeof encodeChunk>, readingsCount: number) => {
+      inFlight++;
+      writing = writing
+        .then(() => (writeError === null ? writeBatch(sequelize, { runId: run.id, block, events: [], patch: { readingsCount } }) : undefined))
+        .catch((err: unknown) => void (writeError ??= err))
+        .finally(() => void inFlight--);
+    };
     /** Archives pending readings in blocks of COMPACT_READINGS (the rest too when `all`). */
     const flush = async (all: boolean) => {
       while (pending.length >= COMPACT_READINGS || (all && pending.length > 0)) {
@@ -105,8 +121,10 @@ export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: Impor
         const block = encodeChunk(written, readingsToColumns(pending.slice(0, take)));
         pending = pending.slice(take);
         written += take;
-        await writeBatch(sequelize, { runId: run.id, block, events: [], patch: { readingsCount: written } });
+        writeBlock(block, written);
       }
+      if (all || inFlight >= MAX_BLOCKS_IN_FLIGHT) await writing;
+      if (writeError !== null) throw writeError;
     };
     const parse = createRowParser(plan);
     let header = true;
@@ -162,6 +180,7 @@ export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: Impor
       fullSummary: summary,
     };
   } catch (err) {
+    await writing;
     // Nothing half-imported stays behind (chunks and events go with the run).
     await sequelize.query('DELETE FROM runs WHERE id = ?', { replacements: [run.id] }).catch(() => undefined);
     throw err;
