@@ -2,7 +2,7 @@ import type { Sequelize } from 'sequelize';
 import { CAPACITY_FACTOR_CELSIUS_RANGE, inCapacityFactorRange } from '../../shared/measure/lead-acid-correction.js';
 import { createRunPipeline } from '../../shared/measure/run-pipeline.js';
 import { summarizeRun } from '../../shared/measure/summarize-run.js';
-import type { ImportResponse } from '../../shared/schemas/api-runs.js';
+import type { ImportProgress, ImportResponse } from '../../shared/schemas/api-runs.js';
 import type { Frame } from '../../shared/schemas/frame.js';
 import { frameProblem } from '../../shared/schemas/frame-check.js';
 import type { Reading } from '../../shared/schemas/reading.js';
@@ -42,13 +42,7 @@ export interface ImportRequest {
   onProgress?: (progress: ImportProgress) => void;
 }
 
-/** How far an import has got: checking every row first, then importing them. */
-export interface ImportProgress {
-  phase: 'checking' | 'importing';
-  rows: number;
-  /** Rows in the file, known once the check is done. */
-  totalRows: number | null;
-}
+
 
 /** Archive blocks queued for writing before reading waits for them (about 16 × 4096 readings, a few MB encoded). */
 const MAX_BLOCKS_IN_FLIGHT = 16;
