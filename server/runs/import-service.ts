@@ -7,8 +7,8 @@ import type { Frame } from '../../shared/schemas/frame.js';
 import { frameProblem } from '../../shared/schemas/frame-check.js';
 import type { Reading } from '../../shared/schemas/reading.js';
 import type { CutoffEvent, RecoveryEvent, RunEvent } from '../../shared/schemas/run-event.js';
-import { COMPACT_READINGS, writeBatch } from '../archive/chunk-store.js';
-import { encodeChunk } from '../archive/chunk-encode.js';
+import { COMPACT_READINGS, writeBatch, writeBlocks } from '../archive/chunk-store.js';
+import { encodeChunk, type EncodedChunk } from '../archive/chunk-encode.js';
 import { readingsToColumns } from '../archive/reading-columns.js';
 import { HttpError } from '../http/http-error.js';
 import { readCsvRecords, sniffDelimiter } from './import-csv.js';
@@ -44,8 +44,8 @@ export interface ImportRequest {
 
 
 
-/** Archive blocks queued for writing before reading waits for them (about 16 × 4096 readings, a few MB encoded). */
-const MAX_BLOCKS_IN_FLIGHT = 16;
+/** Groups of blocks (one per 1 MiB of file, about 7 blocks) queued for writing before reading waits for them. */
+const MAX_GROUPS_IN_FLIGHT = 4;
 
 /** The sign as stated, or as the file's energy each way tells it. */
 function settleSign(req: ImportRequest, tally: Parameters<typeof decideCurrentSign>[0]): SignDecision {
@@ -101,23 +101,24 @@ export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: Impor
     // its first error is kept and thrown at the next chunk or at the end.
     let inFlight = 0;
     let writeError: unknown = null;
-    const writeBlock = (block: ReturnType<typeof encodeChunk>, readingsCount: number) => {
+    const writeGroup = (blocks: EncodedChunk[], readingsCount: number) => {
       inFlight++;
       writing = writing
-        .then(() => (writeError === null ? writeBatch(sequelize, { runId: run.id, block, events: [], patch: { readingsCount } }) : undefined))
+        .then(() => (writeError === null ? writeBlocks(sequelize, run.id, blocks, { readingsCount }) : undefined))
         .catch((err: unknown) => void (writeError ??= err))
         .finally(() => void inFlight--);
     };
-    /** Archives pending readings in blocks of COMPACT_READINGS (the rest too when `all`). */
+    /** Archives pending readings in blocks of COMPACT_READINGS (the rest too when `all`), one transaction for the lot. */
     const flush = async (all: boolean) => {
+      const blocks: EncodedChunk[] = [];
       while (pending.length >= COMPACT_READINGS || (all && pending.length > 0)) {
         const take = Math.min(COMPACT_READINGS, pending.length);
-        const block = encodeChunk(written, readingsToColumns(pending.slice(0, take)));
+        blocks.push(encodeChunk(written, readingsToColumns(pending.slice(0, take))));
         pending = pending.slice(take);
         written += take;
-        writeBlock(block, written);
       }
-      if (all || inFlight >= MAX_BLOCKS_IN_FLIGHT) await writing;
+      if (blocks.length > 0) writeGroup(blocks, written);
+      if (all || inFlight >= MAX_GROUPS_IN_FLIGHT) await writing;
       if (writeError !== null) throw writeError;
     };
     const parse = createRowParser(plan);
