@@ -27,9 +27,19 @@ export class LineFramer {
 
   /**
    * Appends the lines a chunk finishes to `out` (the caller may reuse one array from chunk to
-   * chunk). Lines are cut by a character scan: no regex and no trimmed copy per line.
+   * chunk).
    */
   pushInto(chunk: Buffer | string, out: string[]): void {
+    this.forEachLine(chunk, (text, start, end) => void out.push(start === 0 && end === text.length ? text : text.slice(start, end)));
+  }
+
+  /**
+   * Calls `onLine(text, start, end)` for each line a chunk finishes, in order: the line is
+   * `text[start, end)`, usually a stretch of the chunk's own text, so no string is cut per
+   * line (a line that began in an earlier chunk comes joined, as a string of its own). Lines
+   * are found by a character scan: no regex and no trimmed copy per line.
+   */
+  forEachLine(chunk: Buffer | string, onLine: (text: string, start: number, end: number) => void): void {
     const text = typeof chunk === 'string' ? chunk : chunk.toString('latin1');
     let start = 0;
     for (;;) {
@@ -44,20 +54,23 @@ export class LineFramer {
         this.pending = '';
         continue;
       }
-      let line: string;
       if (this.pending === '') {
         if (end > from && text.charCodeAt(end - 1) === CODE_CR) end--;
-        line = text.slice(from, end);
-      } else {
-        line = this.pending + text.slice(from, end);
-        this.pending = '';
-        if (line.charCodeAt(line.length - 1) === CODE_CR) line = line.slice(0, -1);
+        if (end - from > this.maxLineBytes) {
+          this.droppedLines++;
+          continue;
+        }
+        if (!isBlankSpan(text, from, end)) onLine(text, from, end);
+        continue;
       }
+      let line = this.pending + text.slice(from, end);
+      this.pending = '';
+      if (line.charCodeAt(line.length - 1) === CODE_CR) line = line.slice(0, -1);
       if (line.length > this.maxLineBytes) {
         this.droppedLines++;
         continue;
       }
-      if (!isBlankSpan(line, 0, line.length)) out.push(line);
+      if (!isBlankSpan(line, 0, line.length)) onLine(line, 0, line.length);
     }
     this.appendPending(start === 0 ? text : text.slice(start));
   }

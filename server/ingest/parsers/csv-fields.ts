@@ -73,15 +73,15 @@ function addTrimmed(spans: FieldSpans, line: string, start: number, end: number)
  * Splits a meter's line on a one-character delimiter, each field trimmed, as
  * `line.split(delimiter).map(trim)` does; the delimiter `' '` splits on runs of blanks and
  * ignores leading ones, as `split(/\s+/)` without its leading empty field. No quoting:
- * meters write plain numbers.
+ * meters write plain numbers. `lineStart`/`lineEnd` bound the line within `line` (a chunk of text).
  */
-export function splitPlain(line: string, delimiter: string, spans: FieldSpans): void {
+export function splitPlain(line: string, delimiter: string, spans: FieldSpans, lineStart = 0, lineEnd = line.length): void {
   spans.count = 0;
-  const end = line.length;
+  const end = lineEnd;
   if (delimiter === ' ') {
     // ''.split(/\s+/) is [''], and its leading empty field goes: no field at all.
-    if (end === 0) return;
-    let i = 0;
+    if (end === lineStart) return;
+    let i = lineStart;
     while (i < end && isBlank(line.charCodeAt(i))) i++;
     let from = i;
     for (; i < end; i++) {
@@ -94,8 +94,8 @@ export function splitPlain(line: string, delimiter: string, spans: FieldSpans): 
     return;
   }
   const d = delimiter.charCodeAt(0);
-  let from = 0;
-  for (let i = 0; i < end; i++) {
+  let from = lineStart;
+  for (let i = lineStart; i < end; i++) {
     if (line.charCodeAt(i) !== d) continue;
     addTrimmed(spans, line, from, i);
     from = i + 1;

@@ -1,7 +1,7 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { CsvFormatSchema, type CsvFormat } from '../../../shared/schemas/bench.js';
-import { createCsvParser } from './csv-parser.js';
+import { createCsvParser, createCsvSpanParser } from './csv-parser.js';
 import { readDecimal } from './strict-number.js';
 import { legacyCreateCsvParser } from './testing/legacy-csv-parser.js';
 
@@ -39,6 +39,21 @@ describe('the fast CSV parser gives exactly what the former parser gave', () => 
           for (const line of lines) expect(fast(line, ARRIVAL_MS)).toEqual(legacy(line, ARRIVAL_MS));
         }),
         { numRuns: 3000 },
+      );
+    }
+  });
+});
+
+describe('a line parsed where it lies in a chunk of text', () => {
+  it('gives what the same line parsed as a string of its own gives', () => {
+    for (const format of FORMATS) {
+      fc.assert(
+        fc.property(noisyLine, fc.oneof(noisyLine, dataLine(format.delimiter)), noisyLine, (before, line, after) => {
+          const text = `${before}\n${line}\n${after}`;
+          const inPlace = createCsvSpanParser(format)(text, before.length + 1, before.length + 1 + line.length, ARRIVAL_MS);
+          expect(inPlace).toEqual(createCsvParser(format)(line, ARRIVAL_MS));
+        }),
+        { numRuns: 2000 },
       );
     }
   });

@@ -1,7 +1,7 @@
 import type { CsvFormat } from '../../../shared/schemas/bench.js';
 import type { Frame } from '../../../shared/schemas/frame.js';
 import { FieldSpans, splitPlain } from './csv-fields.js';
-import { clip, reject, type LineParser, type ParseResult } from './parse-result.js';
+import { clip, reject, type LineParser, type ParseResult, type SpanParser } from './parse-result.js';
 import { readDecimal } from './strict-number.js';
 import { toAmps, toCelsius, toVolts } from './units.js';
 
@@ -56,8 +56,13 @@ export class CsvLineParser {
 
   /** Parses one line; `isFirstLine`, `seenFrame` and `arrivalMs` come from the caller. */
   parse(line: string, isFirstLine: boolean, arrivalMs: number, seenFrame: boolean): ParseResult {
+    return this.parseSpan(line, 0, line.length, isFirstLine, arrivalMs, seenFrame);
+  }
+
+  /** Parses the line `line[lineStart, lineEnd)` in place (the framer's chunk text: no string per line). */
+  parseSpan(line: string, lineStart: number, lineEnd: number, isFirstLine: boolean, arrivalMs: number, seenFrame: boolean): ParseResult {
     const { format, spans, columns } = this;
-    splitPlain(line, format.delimiter, spans);
+    splitPlain(line, format.delimiter, spans, lineStart, lineEnd);
     if (isFirstLine && format.header === 'skip-first') return SKIPPED;
     if (format.header === 'auto' && !seenFrame && this.looksLikeHeader(line)) return SKIPPED;
     if (spans.count !== columns.length) return reject(`expected ${columns.length} fields, got ${spans.count}`);
@@ -121,8 +126,8 @@ export class CsvLineParser {
   /** A header's first field is a word, not a number nor (for ISO time) a date. */
   private looksLikeHeader(line: string): boolean {
     const { spans, format } = this;
-    const start = spans.count > 0 ? spans.starts[0]! : 0;
-    const end = spans.count > 0 ? spans.ends[0]! : 0;
+    const start = spans.count > 0 ? spans.starts[0]! : -1;
+    const end = spans.count > 0 ? spans.ends[0]! : -1;
     if (format.columns[0] === 't' && format.timeUnit === 'iso') return !startsWithIsoYear(line, start, end);
     if (start >= end) return false;
     const c = line.charCodeAt(start);
@@ -151,15 +156,21 @@ export function parseCsvLine(format: CsvFormat, line: string, isFirstLine: boole
   return new CsvLineParser(format).parse(line, isFirstLine, arrivalMs, seenFrame);
 }
 
-/** Makes a stateful line parser for a CSV format (it remembers the first line and the first frame). */
-export function createCsvParser(format: CsvFormat): LineParser {
+/** Makes a stateful parser of lines given in place, for a CSV format (it remembers the first line and the first frame). */
+export function createCsvSpanParser(format: CsvFormat): SpanParser {
   const parser = new CsvLineParser(format);
   let first = true;
   let seenFrame = false;
-  return (line, arrivalMs) => {
-    const result = parser.parse(line, first, arrivalMs, seenFrame);
+  return (text, start, end, arrivalMs) => {
+    const result = parser.parseSpan(text, start, end, first, arrivalMs, seenFrame);
     first = false;
     if (result.kind === 'frame') seenFrame = true;
     return result;
   };
+}
+
+/** Makes a stateful line parser for a CSV format (it remembers the first line and the first frame). */
+export function createCsvParser(format: CsvFormat): LineParser {
+  const parse = createCsvSpanParser(format);
+  return (line, arrivalMs) => parse(line, 0, line.length, arrivalMs);
 }
