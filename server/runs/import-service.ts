@@ -12,7 +12,7 @@ import { encodeChunk, type EncodedChunk } from '../archive/chunk-encode.js';
 import { readingsToColumns } from '../archive/reading-columns.js';
 import { HttpError } from '../http/http-error.js';
 import { readCsvRecords, sniffDelimiter } from './import-csv.js';
-import { createRowParser, type ColumnOverrides } from './import-headers.js';
+import { createRowParser, type ColumnOverrides, type ParsedRow } from './import-headers.js';
 import { importNotices } from './import-notices.js';
 import { decideCurrentSign, type SignDecision } from './import-sign.js';
 import { surveyFile } from './import-survey.js';
@@ -46,6 +46,8 @@ export interface ImportRequest {
 
 /** Groups of blocks (one per 1 MiB of file, about 7 blocks) queued for writing before reading waits for them. */
 const MAX_GROUPS_IN_FLIGHT = 4;
+/** Kept rows imported between progress reports and archive writes (about what 1 MiB of a log holds). */
+const KEPT_ROWS_PER_PART = 32_768;
 
 /** The sign as stated, or as the file's energy each way tells it. */
 function settleSign(req: ImportRequest, tally: Parameters<typeof decideCurrentSign>[0]): SignDecision {
@@ -121,30 +123,47 @@ export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: Impor
       if (all || inFlight >= MAX_GROUPS_IN_FLIGHT) await writing;
       if (writeError !== null) throw writeError;
     };
-    const parse = createRowParser(plan);
-    let header = true;
     let rowsRead = 0;
-    await readCsvRecords(req.filePath, delimiter, (text, spans, line) => {
-      if (header) {
-        header = false;
-        return;
-      }
-      const row = parse(text, spans, line);
+    /** One row to the run: its frame checked once, where it is made, like every live source's frames. */
+    const take = (row: ParsedRow, line: number | null) => {
       rowsRead++;
       const frame: Frame = { t: row.t, volts: row.volts, amps: sign.flip ? -row.amps : row.amps, clock: 'device' };
       if (row.tempC !== null) frame.temps = { cell: row.tempC };
-      // Checked once, where it is made, like every live source's frames.
       const problem = frameProblem(frame);
-      if (problem !== null) throw new HttpError(400, `line ${line}: ${problem}`);
+      if (problem !== null) throw new HttpError(400, line === null ? problem : `line ${line}: ${problem}`);
       const out = pipeline.push(frame);
       if (!out.reading) return;
       pending.push(out.reading);
       seq++;
       for (const e of out.events) events.push(e);
-    }, async () => {
+    };
+    const afterPart = async () => {
       req.onProgress?.({ phase: 'importing', rows: rowsRead, totalRows: rows });
       await flush(false);
-    });
+    };
+    const { kept } = survey;
+    if (kept) {
+      // The check pass kept every row: no second read and parse of the file.
+      const row: ParsedRow = { t: 0, volts: 0, amps: 0, tempC: null };
+      for (let i = 0; i < kept.count; i++) {
+        row.t = kept.t(i);
+        row.volts = kept.volts(i);
+        row.amps = kept.amps(i);
+        row.tempC = kept.tempC(i);
+        take(row, null);
+        if ((i + 1) % KEPT_ROWS_PER_PART === 0) await afterPart();
+      }
+    } else {
+      const parse = createRowParser(plan);
+      let header = true;
+      await readCsvRecords(req.filePath, delimiter, (text, spans, line) => {
+        if (header) {
+          header = false;
+          return;
+        }
+        take(parse(text, spans, line), line);
+      }, afterPart);
+    }
     await flush(true);
     const summary = summarizeRun({
       snapshot: pipeline.snapshot(), events, acceptancePercent: req.acceptancePercent,

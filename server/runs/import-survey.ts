@@ -4,6 +4,7 @@ import { createRowParser, planColumns, type ColumnOverrides, type ColumnPlan } f
 import { createSignTally, tallyReading, type SignTally } from './import-sign.js';
 import { checkTimeSteps } from './import-time.js';
 import { checkAssumedTempUnit } from './import-temp-check.js';
+import { KeptRows } from './kept-rows.js';
 
 /** Lines of duplicate times named in the result; the count covers them all. */
 export const MAX_NAMED_DUPLICATES = 10;
@@ -27,6 +28,8 @@ export interface Survey {
   firstT: number;
   lastT: number;
   sign: SignTally;
+  /** Every parsed row, when they fit the memory budget (null otherwise): the import pass uses them instead of reading again. */
+  kept: KeptRows | null;
 }
 
 /** Median of counted steps (keys in microseconds), or null when there are none. */
@@ -60,6 +63,7 @@ export async function surveyFile(filePath: string, delimiter: Delimiter, overrid
   const duplicates: DuplicateTimes = { count: 0, lines: [] };
   const steps = new Map<number, number>();
   const sign = createSignTally();
+  const kept = new KeptRows();
   let firstTempC: number | null = null;
   const makePlan = (first: string[] | null) => ({ ...planColumns(headers!, first, overrides), decimalComma: delimiter !== ',', timeZone });
   await readCsvRecords(filePath, delimiter, (text, spans, line) => {
@@ -81,6 +85,7 @@ export async function surveyFile(filePath: string, delimiter: Delimiter, overrid
     }
     tallyReading(sign, rows > 0 ? row.t - lastT : 0, row.volts, row.amps);
     firstTempC ??= row.tempC;
+    kept.add(row);
     if (rows === 0) firstT = row.t;
     lastT = row.t;
     rows++;
@@ -92,5 +97,5 @@ export async function surveyFile(filePath: string, delimiter: Delimiter, overrid
   const medianStepS = medianOfCounts(steps);
   if (plan.temp && firstTempC !== null) checkAssumedTempUnit(plan.temp, firstTempC);
   checkTimeSteps({ format: plan.time.format, source: plan.time.source, column: plan.time.column, medianStepS, spanS: lastT - firstT });
-  return { plan, rows, duplicates, medianStepS, firstT, lastT, sign };
+  return { plan, rows, duplicates, medianStepS, firstT, lastT, sign, kept: kept.full ? null : kept };
 }
