@@ -40,6 +40,8 @@ export interface ImportRequest {
   maxGapSeconds?: number;
   /** Told the rows done after each chunk of the file is read (for the client's progress bar). */
   onProgress?: (progress: ImportProgress) => void;
+  /** Most rows the check pass keeps for the import pass (default MAX_KEPT_ROWS); more, and the file is read again. */
+  maxKeptRows?: number;
 }
 
 
@@ -68,7 +70,7 @@ export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: Impor
     throw new HttpError(400, `Electrolyte temperature ${electrolyte} °C is outside the correction table (${min.toFixed(1)} to ${max.toFixed(1)} °C)`, { electrolyteTempCelsius: ['outside the table'] });
   }
   const delimiter = await sniffDelimiter(req.filePath);
-  const survey = await surveyFile(req.filePath, delimiter, req.columns, req.timeZone ?? 'UTC', (rows) => req.onProgress?.({ phase: 'checking', rows, totalRows: null }));
+  const survey = await surveyFile(req.filePath, delimiter, req.columns, req.timeZone ?? 'UTC', (rows) => req.onProgress?.({ phase: 'checking', rows, totalRows: null }), req.maxKeptRows);
   const { plan, rows, duplicates, medianStepS } = survey;
   const sign = settleSign(req, survey.sign);
   const config: RunConfig = {

@@ -53,7 +53,7 @@ export function medianOfCounts(counts: ReadonlyMap<number, number>): number | nu
  * of the current. Refuses (400, naming the line) a row out of time order or a time column
  * whose steps cannot be the unit claimed.
  */
-export async function surveyFile(filePath: string, delimiter: Delimiter, overrides: ColumnOverrides, timeZone: string, onProgress?: (rows: number) => void): Promise<Survey> {
+export async function surveyFile(filePath: string, delimiter: Delimiter, overrides: ColumnOverrides, timeZone: string, onProgress?: (rows: number) => void, maxKeptRows?: number): Promise<Survey> {
   let headers: string[] | null = null as string[] | null;
   let plan: ColumnPlan | null = null;
   let parse: ReturnType<typeof createRowParser> | null = null;
@@ -63,7 +63,7 @@ export async function surveyFile(filePath: string, delimiter: Delimiter, overrid
   const duplicates: DuplicateTimes = { count: 0, lines: [] };
   const steps = new Map<number, number>();
   const sign = createSignTally();
-  const kept = new KeptRows();
+  const kept = new KeptRows(maxKeptRows);
   let firstTempC: number | null = null;
   const makePlan = (first: string[] | null) => ({ ...planColumns(headers!, first, overrides), decimalComma: delimiter !== ',', timeZone });
   await readCsvRecords(filePath, delimiter, (text, spans, line) => {

@@ -15,16 +15,18 @@ export class KeptRows {
   count = 0;
   full = false;
 
+  constructor(private readonly maxRows = MAX_KEPT_ROWS) {}
+
   /** Keeps one row (or notes that the budget is spent). */
   add(row: ParsedRow): void {
     if (this.full) return;
-    if (this.count === MAX_KEPT_ROWS) {
+    if (this.count >= this.maxRows) {
       this.full = true;
       this.data = new Float64Array(0);
       return;
     }
     if ((this.count + 1) * COLUMNS > this.data.length) {
-      const bigger = new Float64Array(Math.min(this.data.length * 2, MAX_KEPT_ROWS * COLUMNS));
+      const bigger = new Float64Array(Math.max((this.count + 1) * COLUMNS, Math.min(this.data.length * 2, this.maxRows * COLUMNS)));
       bigger.set(this.data);
       this.data = bigger;
     }

@@ -83,3 +83,21 @@ describe('an import that fails half-way', () => {
     expect(samples.readingsInWindow).toBe(200_000);
   }, 120_000);
 });
+
+describe('the import pass', () => {
+  it('gives the same run whether the check pass kept the rows or the file is read again', async () => {
+    const path = join(dir, 'twice.csv');
+    await writeLog(path, 50_000);
+    const repo = new RunsRepo(t.ctx.sequelize);
+    const base: ImportRequest = {
+      filePath: path, name: 'kept rows', tags: [], battery: null, currentSign: 'auto', columns: {}, userId: tech.user.id, timeZone: 'UTC', acceptancePercent: 95,
+    };
+    const kept = await importRun(t.ctx.sequelize, repo, base);
+    const reread = await importRun(t.ctx.sequelize, repo, { ...base, name: 'read again', maxKeptRows: 1000 });
+    expect(reread.summary).toEqual(kept.summary);
+    expect(reread.fullSummary).toEqual(kept.fullSummary);
+    expect([kept.run.readingsCount, reread.run.readingsCount]).toEqual([50_000, 50_000]);
+    const samples = async (id: number) => ({ ...(await tech.get(`/api/runs/${id}/samples?maxPoints=500`).expect(200)).body, runId: undefined });
+    expect(await samples(reread.run.id)).toEqual(await samples(kept.run.id));
+  }, 120_000);
+});
