@@ -1,6 +1,6 @@
 import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
 import type { ArchiveBatch } from './archive-batch.js';
-import { encodeChunk } from './chunk-encode.js';
+import { encodeChunk, type EncodedChunk } from './chunk-encode.js';
 import { computeStats } from './chunk-stats.js';
 import { concatColumns, decodeBlock, type BlockLayout, type Columns } from './column-block.js';
 import { utcDateTime } from '../db/utc-datetime.js';
@@ -34,6 +34,25 @@ export async function writeBatch(sequelize: Sequelize, batch: ArchiveBatch): Pro
       );
     }
     await patchRun(sequelize, batch, transaction);
+  });
+}
+
+/**
+ * Writes several blocks of one run and its patch in a single transaction and one multi-row
+ * INSERT (idempotent like writeBatch): a bulk writer such as the importer commits once for
+ * many blocks instead of once per block.
+ */
+export async function writeBlocks(sequelize: Sequelize, runId: number, blocks: readonly EncodedChunk[], patch: ArchiveBatch['patch']): Promise<void> {
+  await sequelize.transaction(async (transaction) => {
+    if (blocks.length > 0) {
+      const replacements: unknown[] = [];
+      for (const b of blocks) replacements.push(runId, b.firstSeq, b.count, b.firstElapsed, b.lastElapsed, JSON.stringify(b.layout), b.data, JSON.stringify(b.statsLayout), b.stats);
+      await sequelize.query(
+        `INSERT IGNORE INTO run_sample_chunks (runId, firstSeq, count, firstElapsed, lastElapsed, layout, data, statsLayout, stats) VALUES ${blocks.map(() => '(?, ?, ?, ?, ?, ?, ?, ?, ?)').join(', ')}`,
+        { replacements, transaction },
+      );
+    }
+    await patchRun(sequelize, { runId, block: null, events: [], patch }, transaction);
   });
 }
 

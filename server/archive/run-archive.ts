@@ -1,10 +1,11 @@
 import type { Sequelize } from 'sequelize';
-import type { RunBatch, RunBatchSink } from '../runs/run-batch.js';
+import type { Reading } from '../../shared/schemas/reading.js';
+import type { RunBatch, RunBatchSink, RunPatch } from '../runs/run-batch.js';
 import { readingsToColumns } from '../readings/reading-columns.js';
 import type { ArchiveBatch } from './archive-batch.js';
 import type { ArchiveWriter } from './archive-writer.js';
-import { encodeChunk } from './chunk-encode.js';
-import { COMPACT_READINGS, writeBatch } from './chunk-store.js';
+import { encodeChunk, type EncodedChunk } from './chunk-encode.js';
+import { COMPACT_READINGS, writeBatch, writeBlocks } from './chunk-store.js';
 
 /**
  * The archive's write side as other areas see it: it takes runs' batches of readings and
@@ -28,4 +29,20 @@ export function archiveSink(writer: ArchiveWriter): RunBatchSink {
 /** Writes one batch now, in one transaction (the importer, which has no live viewers to keep up with). */
 export function writeRunBatch(sequelize: Sequelize, batch: RunBatch): Promise<void> {
   return writeBatch(sequelize, toArchiveBatch(batch));
+}
+
+/** One block of readings encoded by the archive, ready to write; its format is the archive's own. */
+export type ArchiveBlock = EncodedChunk;
+
+/**
+ * Encodes readings numbered from `firstSeq` as one archive block now, so an importer can
+ * encode the next block while the previous group is being committed.
+ */
+export function encodeReadingBlock(firstSeq: number, readings: readonly Reading[]): ArchiveBlock {
+  return encodeChunk(firstSeq, readingsToColumns(readings));
+}
+
+/** Writes several encoded blocks and the run's new row state in one transaction (the importer's streaming write). */
+export function writeArchiveBlocks(sequelize: Sequelize, runId: number, blocks: readonly ArchiveBlock[], patch: RunPatch): Promise<void> {
+  return writeBlocks(sequelize, runId, blocks, patch);
 }

@@ -1,4 +1,5 @@
 import type { FrameLimits } from '../../shared/schemas/bench.js';
+import { frameProblem } from '../../shared/schemas/frame-check.js';
 import { HEATER_AMPS_CHANNEL, type Frame } from '../../shared/schemas/frame.js';
 
 /**
@@ -17,6 +18,17 @@ export function frameOutOfBounds(frame: Frame, limits: FrameLimits): string | nu
       return `temperature ${channel} ${show(celsius)} °C outside ${limits.minTempCelsius}…${limits.maxTempCelsius} °C`;
   }
   return null;
+}
+
+/**
+ * Why a source must not hand a frame on: not a valid Frame (the FrameSchema rules, checked by
+ * hand) or outside its bench's physical bounds; null when it may go. Every source checks each
+ * frame here once, where it is made, so the bench view, the run and the archive all see
+ * checked frames and nothing downstream checks again.
+ */
+export function frameRejection(frame: Frame, limits: FrameLimits): string | null {
+  const problem = frameProblem(frame);
+  return problem === null ? frameOutOfBounds(frame, limits) : `bad frame: ${problem}`;
 }
 
 const SHOWN_DIGITS = 6;

@@ -16,6 +16,8 @@ export class StatusTracker {
   private framesRejected = 0;
   private lastRejection: string | undefined;
   private watchdog: TimerHandle | undefined;
+  /** When the watchdog's count last restarted (the port opened, or a valid frame came). */
+  private watchFromMs = 0;
 
   constructor(
     private readonly clock: Clock,
@@ -28,16 +30,22 @@ export class StatusTracker {
   /** The port (or simulation) is open; the watchdog starts counting. */
   connected(message?: string): void {
     this.set('connected', message);
-    this.armWatchdog();
+    this.disarmWatchdog();
+    this.watchFromMs = this.clock.nowMs();
+    this.armWatchdog(this.staleAfterMs);
   }
 
   /** A valid frame went through: counts it, clears a stale state and re-arms the watchdog. */
   frameOk(): void {
     this.framesOk++;
-    this.lastFrameAtMs = this.clock.nowMs();
+    const now = this.clock.nowMs();
+    this.lastFrameAtMs = now;
+    this.watchFromMs = now;
     // Keep an informative message (the instrument's identity) but not a stale warning.
     if (this.state !== 'receiving') this.set('receiving', this.state === 'stale' ? undefined : this.message);
-    this.armWatchdog();
+    // The armed timer stays: when it fires it looks at watchFromMs and waits out the rest
+    // (a timer cancelled and set again for every frame would cost more than the frame itself).
+    if (this.watchdog === undefined) this.armWatchdog(this.staleAfterMs);
   }
 
   /** A line or reply was refused; counted with its reason, the source carries on. */
@@ -97,14 +105,15 @@ export class StatusTracker {
     }
   }
 
-  private armWatchdog(): void {
-    if (this.staleAfterMs === undefined) return;
-    this.disarmWatchdog();
+  private armWatchdog(delayMs: number | undefined): void {
+    if (delayMs === undefined) return;
     this.watchdog = this.clock.setTimeout(() => {
       this.watchdog = undefined;
+      const quietMs = this.clock.nowMs() - this.watchFromMs;
+      if (quietMs < this.staleAfterMs!) return this.armWatchdog(this.staleAfterMs! - quietMs);
       this.set('stale', `no valid frame for ${Math.round(this.staleAfterMs! / MS_PER_S)} s`);
       this.onStale();
-    }, this.staleAfterMs);
+    }, delayMs);
   }
 
   private disarmWatchdog(): void {

@@ -36,12 +36,26 @@ describe('csv errors become 400s naming the line', () => {
 });
 
 describe('line numbers', () => {
-  it('name the last line of each record past comments, blank lines and quoted line breaks (as csv-parse counts them)', async () => {
+  it('name the last line of each record past comments, blank lines and quoted line breaks (a CRLF is one line end)', async () => {
     const path = join(dir, 'lines.csv');
     await writeFile(path, '# logger v2\n\ntime,volts,"a\nb"\n1,2,3\n\n# note\n2,"x\ny\nz",4\r\n3,4,5');
     const lines: number[] = [];
     for await (const r of csvRecords(path, ',')) lines.push(r.line);
-    expect(lines).toEqual([4, 5, 11, 12]);
+    // Counted by hand: the record "2,x..z,4" ends on line 10, "3,4,5" is line 11 (csv-parse, used before, counted CRLF twice).
+    expect(lines).toEqual([4, 5, 10, 11]);
+  });
+});
+
+describe('records', () => {
+  it('trims blanks, unquotes fields, skips comments and blank lines, takes CR-only line ends and a BOM', async () => {
+    expect(await readAll('\uFEFFtime, volts ,"amps"\r\n# c\r\n\r\n 1 ,"1,5", " 2 ""x"" " # note\r\n')).toEqual([['time', 'volts', 'amps'], ['1', '1,5', ' 2 "x" ']]);
+    expect(await readAll('t,v\r0,1\r1,2')).toEqual([['t', 'v'], ['0', '1'], ['1', '2']]);
+  });
+  it('refuses a record with another number of fields than the header, naming its line', async () => {
+    await expect(readAll('t,v,a\n0,1,2\n\n1,2\n')).rejects.toMatchObject({ status: 400, message: 'line 4: a different number of fields than the header (2, the header has 3)' });
+  });
+  it('refuses a file without line ends beyond the longest line, naming line 1', async () => {
+    await expect(readAll('1,'.repeat(40_000))).rejects.toMatchObject({ status: 400, message: expect.stringMatching(/^line 1: longer than 65536 bytes/) });
   });
 });
 

@@ -1,5 +1,7 @@
 import { InvalidInputError } from '../domain/domain-errors.js';
-import { checkTimeValue, createTimeReader, inferTimeFormat, parseDecimal, type TimeFormat, type TimeFormatSource } from './import-time.js';
+import { FieldSpans, isBlank } from '../ingest/parsers/csv-fields.js';
+import { readDecimal } from '../ingest/parsers/strict-number.js';
+import { checkTimeValue, createTimeReader, inferTimeFormat, MAX_EPOCH_SECONDS, type TimeFormat, type TimeFormatSource } from './import-time.js';
 
 /** Channels an imported log can carry. */
 export type ImportChannel = 'time' | 'volts' | 'amps' | 'temp';
@@ -142,7 +144,7 @@ function planTemp(temp: Found, overrides: ColumnOverrides): ColumnPlan['temp'] |
 /**
  * Recognises the time, volts, amps and (optional) temperature columns of a header row,
  * with or without units in the names, or takes them from `overrides`. `firstRow` lets the
- * time format be recognised when the header names none. Throws an InvalidInputError naming line 1 otherwise.
+ * time format be recognised when the header names none. Throws a 400 naming line 1 otherwise.
  */
 export function planColumns(headers: readonly string[], firstRow: readonly string[] | null, overrides: ColumnOverrides = {}): ColumnPlan {
   const time = find(headers, 'time', overrides.time);
@@ -181,39 +183,81 @@ export interface ParsedRow {
   tempC: number | null;
 }
 
+/** A row parser: the record's text, where its fields lie, and its line number. */
+export type RowParser = (text: string, spans: FieldSpans, line: number) => ParsedRow;
+
+/** A field's bounds with the blanks inside its quotes trimmed too (the reader trims those outside). */
+function fieldBounds(spans: FieldSpans, text: string, index: number): [number, number] {
+  if (index >= spans.count) return [0, 0];
+  let start = spans.starts[index]!;
+  let end = spans.ends[index]!;
+  while (start < end && isBlank(text.charCodeAt(start))) start++;
+  while (end > start && isBlank(text.charCodeAt(end - 1))) end--;
+  return [start, end];
+}
+
+/** A field's text, trimmed, as messages and date formats need it ('' when the row is short). */
+function fieldText(spans: FieldSpans, text: string, index: number): string {
+  return index < spans.count ? spans.text(text, index).trim() : '';
+}
+
+/** Seconds per unit of the time formats that are a plain number. */
+const NUMERIC_TIME_SECONDS: Partial<Record<TimeFormat, number>> = { s: 1, ms: 1e-3, min: 60, h: 3600 };
+
 /**
  * A parser of one log's data rows by the plan (one per pass: clock times keep a day count).
- * Throws an InvalidInputError naming the line and the bad field.
+ * Numbers are read in place by the same strict reader as live meters' lines (readDecimal);
+ * a string is made only for a date or clock time and for a message.
+ * Throws a 400 naming the line and the bad field.
  */
-export function createRowParser(plan: ColumnPlan): (fields: readonly string[], line: number) => ParsedRow {
+export function createRowParser(plan: ColumnPlan): RowParser {
   const decimalComma = plan.decimalComma ?? false;
   const readTime = createTimeReader(plan.time.format, { timeZone: plan.timeZone ?? 'UTC', decimalComma });
-  const num = (fields: readonly string[], index: number, what: string, line: number): number => {
-    const raw = fields[index]?.trim() ?? '';
-    const v = parseDecimal(raw, decimalComma);
-    if (!Number.isFinite(v)) throw new InvalidInputError(`line ${line}: ${what} "${raw.slice(0, 40)}" is not a number`);
+  const numericTimeScale = NUMERIC_TIME_SECONDS[plan.time.format];
+  const num = (text: string, spans: FieldSpans, index: number, what: string, line: number): number => {
+    const [start, end] = fieldBounds(spans, text, index);
+    const v = spans.escaped[index] === 1 ? Number.NaN : readDecimal(text, start, end, decimalComma);
+    if (Number.isNaN(v)) throw new InvalidInputError(`line ${line}: ${what} "${fieldText(spans, text, index).slice(0, 40)}" is not a number`);
     return v;
   };
-  return (fields, line) => {
-    const timeText = fields[plan.time.index]?.trim() ?? '';
-    const t = readTime(timeText);
-    if (!Number.isFinite(t)) {
-      const comma = !decimalComma && /^\d+,\d+$/.test(timeText) ? '; a decimal comma needs a semicolon- or tab-separated file' : '';
-      throw new InvalidInputError(`line ${line}: time "${timeText.slice(0, 40)}" is not ${plan.time.format === 'iso' ? 'an ISO 8601 date-time' : `in the format ${plan.time.format}`}${comma}`, { timeFormat: ['does not match the file'] });
-    }
-    checkTimeValue(t, timeText, plan.time.format, line);
-    const tempText = plan.temp ? (fields[plan.temp.index]?.trim() ?? '') : '';
-    return {
-      t,
-      volts: num(fields, plan.volts.index, 'volts', line) * plan.volts.scale,
-      amps: num(fields, plan.amps.index, 'amps', line) * plan.amps.scale,
+  const timeError = (timeText: string, line: number) => {
+    const comma = !decimalComma && /^\d+,\d+$/.test(timeText) ? '; a decimal comma needs a semicolon- or tab-separated file' : '';
+    return new InvalidInputError(`line ${line}: time "${timeText.slice(0, 40)}" is not ${plan.time.format === 'iso' ? 'an ISO 8601 date-time' : `in the format ${plan.time.format}`}${comma}`, { timeFormat: ['does not match the file'] });
+  };
+  const timeIndex = plan.time.index;
+  return (text, spans, line) => {
+    let t: number;
+    if (numericTimeScale !== undefined && spans.escaped[timeIndex] !== 1) {
+      const [start, end] = fieldBounds(spans, text, timeIndex);
+      t = readDecimal(text, start, end, decimalComma) * numericTimeScale;
+    } else t = readTime(fieldText(spans, text, timeIndex));
+    if (!Number.isFinite(t)) throw timeError(fieldText(spans, text, timeIndex), line);
+    if (!(Math.abs(t) < MAX_EPOCH_SECONDS)) checkTimeValue(t, fieldText(spans, text, timeIndex), plan.time.format, line);
+    const volts = num(text, spans, plan.volts.index, 'volts', line) * plan.volts.scale;
+    const amps = num(text, spans, plan.amps.index, 'amps', line) * plan.amps.scale;
+    let tempC: number | null = null;
+    if (plan.temp) {
+      const [start, end] = fieldBounds(spans, text, plan.temp.index);
       // A blank temperature is "not measured", not an error.
-      tempC: plan.temp && tempText !== '' ? toCelsius[plan.temp.unit](num(fields, plan.temp.index, 'temperature', line)) : null,
-    };
+      if (end > start) tempC = toCelsius[plan.temp.unit](num(text, spans, plan.temp.index, 'temperature', line));
+    }
+    return { t, volts, amps, tempC };
   };
 }
 
-/** Parses one data row by the plan (a fresh parser: fine for one row, use createRowParser for a file). */
+/** Fields laid end to end with their spans, for a row given as texts (tests, single rows). */
+export function spansOfFields(fields: readonly string[]): { text: string; spans: FieldSpans } {
+  const spans = new FieldSpans();
+  let text = '';
+  for (const field of fields) {
+    spans.add(text.length, text.length + field.length, false);
+    text += field;
+  }
+  return { text, spans };
+}
+
+/** Parses one data row given as field texts by the plan (a fresh parser: fine for one row, use createRowParser for a file). */
 export function parseRow(plan: ColumnPlan, fields: readonly string[], line: number): ParsedRow {
-  return createRowParser(plan)(fields, line);
+  const { text, spans } = spansOfFields(fields);
+  return createRowParser(plan)(text, spans, line);
 }

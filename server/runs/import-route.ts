@@ -4,10 +4,11 @@ import { join } from 'node:path';
 import type { RequestHandler } from 'express';
 import multer from 'multer';
 import type { z } from 'zod';
-import { ImportColumnMapSchema, ImportFieldsSchema, RunTagsSchema } from '../../shared/schemas/api-runs.js';
+import { ImportColumnMapSchema, ImportFieldsSchema, RunTagsSchema, type ImportProgress } from '../../shared/schemas/api-runs.js';
 import type { AppContext } from '../app-context.js';
 import { HttpError } from '../http/http-error.js';
 import { getLabSettings } from '../settings/settings-service.js';
+import type { ImportProgressBoard } from './import-progress.js';
 import { importRun } from './import-service.js';
 import type { BatteryFacts } from './measure-config.js';
 import type { RunsRepo } from './runs-repo.js';
@@ -19,7 +20,7 @@ export const IMPORT_MAX_BYTES = 512 * 1024 * 1024;
  * POST /api/runs/import: multer writes the upload to disk under the data folder (never
  * into memory), then the importer streams it twice. The temporary file always goes.
  */
-export function createImportHandler(ctx: AppContext, repo: RunsRepo, getBattery: (id: number) => Promise<BatteryFacts | null>): RequestHandler {
+export function createImportHandler(ctx: AppContext, repo: RunsRepo, getBattery: (id: number) => Promise<BatteryFacts | null>, progress?: ImportProgressBoard): RequestHandler {
   const dir = join(ctx.config.dataDir, 'uploads');
   mkdirSync(dir, { recursive: true });
   const upload = multer({ dest: dir, limits: { fileSize: IMPORT_MAX_BYTES, files: 1, fields: 20 } }).single('file');
@@ -53,12 +54,18 @@ export function createImportHandler(ctx: AppContext, repo: RunsRepo, getBattery:
         const tags = split.data;
         const lab = await getLabSettings(ctx.models);
         const { timeUnit, ...names } = columns;
+        const userId = req.user!.id;
+        const { progressId } = fields;
+        const follow = progress && progressId ? (p: ImportProgress) => progress.set(userId, progressId, p) : undefined;
+        follow?.({ phase: 'checking', rows: 0, totalRows: null });
         const result = await importRun(ctx.sequelize, repo, {
           filePath: file.path, name: fields.name, tags, battery, endVolts: fields.endVolts,
           currentSign: fields.currentSign, userId: req.user!.id, timeZone: lab.timeZone,
           columns: { ...names, timeFormat: fields.timeFormat ?? timeUnit, tempUnit: fields.tempUnit, labTempUnit: lab.temperatureUnit },
           acceptancePercent: fields.acceptancePercent ?? lab.acceptancePercent,
-          electrolyteTempCelsius: fields.electrolyteTempCelsius, maxGapSeconds: fields.maxGapSeconds,
+          electrolyteTempCelsius: fields.electrolyteTempCelsius, maxGapSeconds: fields.maxGapSeconds, onProgress: follow,
+        }).finally(() => {
+          if (progressId) progress?.delete(userId, progressId);
         });
         if (file) await unlink(file.path).catch(() => undefined);
         res.status(201).json(result);

@@ -2,14 +2,15 @@ import type { Sequelize } from 'sequelize';
 import { CAPACITY_FACTOR_CELSIUS_RANGE, inCapacityFactorRange } from '../../shared/measure/lead-acid-correction.js';
 import { createRunPipeline } from '../../shared/measure/run-pipeline.js';
 import { summarizeRun } from '../../shared/measure/summarize-run.js';
-import type { ImportResponse } from '../../shared/schemas/api-runs.js';
+import type { ImportProgress, ImportResponse } from '../../shared/schemas/api-runs.js';
 import type { Frame } from '../../shared/schemas/frame.js';
+import { frameProblem } from '../../shared/schemas/frame-check.js';
 import type { Reading } from '../../shared/schemas/reading.js';
 import type { CutoffEvent, RecoveryEvent, RunEvent } from '../../shared/schemas/run-event.js';
-import { ARCHIVE_BLOCK_READINGS, writeRunBatch } from '../archive/run-archive.js';
+import { ARCHIVE_BLOCK_READINGS, encodeReadingBlock, writeArchiveBlocks, writeRunBatch, type ArchiveBlock } from '../archive/run-archive.js';
 import { InvalidInputError } from '../domain/domain-errors.js';
-import { csvRecords, sniffDelimiter } from './import-csv.js';
-import { createRowParser, type ColumnOverrides } from './import-headers.js';
+import { readCsvRecords, sniffDelimiter } from './import-csv.js';
+import { createRowParser, type ColumnOverrides, type ParsedRow } from './import-headers.js';
 import { importNotices } from './import-notices.js';
 import { decideCurrentSign, type SignDecision } from './import-sign.js';
 import { surveyFile } from './import-survey.js';
@@ -35,7 +36,18 @@ export interface ImportRequest {
   electrolyteTempCelsius?: number;
   /** A step longer than this is a gap; omitted: judged against the file's cadence. */
   maxGapSeconds?: number;
+  /** Told the rows done after each chunk of the file is read (for the client's progress bar). */
+  onProgress?: (progress: ImportProgress) => void;
+  /** Most rows the check pass keeps for the import pass (default MAX_KEPT_ROWS); more, and the file is read again. */
+  maxKeptRows?: number;
 }
+
+
+
+/** Groups of blocks (one per 1 MiB of file, about 7 blocks) queued for writing before reading waits for them. */
+const MAX_GROUPS_IN_FLIGHT = 4;
+/** Kept rows imported between progress reports and archive writes (about what 1 MiB of a log holds). */
+const KEPT_ROWS_PER_PART = 32_768;
 
 /** The sign as stated, or as the file's energy each way tells it. */
 function settleSign(req: ImportRequest, tally: Parameters<typeof decideCurrentSign>[0]): SignDecision {
@@ -56,7 +68,7 @@ export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: Impor
     throw new InvalidInputError(`Electrolyte temperature ${electrolyte} °C is outside the correction table (${min.toFixed(1)} to ${max.toFixed(1)} °C)`, { electrolyteTempCelsius: ['outside the table'] });
   }
   const delimiter = await sniffDelimiter(req.filePath);
-  const survey = await surveyFile(req.filePath, delimiter, req.columns, req.timeZone ?? 'UTC');
+  const survey = await surveyFile(req.filePath, delimiter, req.columns, req.timeZone ?? 'UTC', (rows) => req.onProgress?.({ phase: 'checking', rows, totalRows: null }), req.maxKeptRows);
   const { plan, rows, duplicates, medianStepS } = survey;
   const sign = settleSign(req, survey.sign);
   const config: RunConfig = {
@@ -77,6 +89,7 @@ export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: Impor
     name: req.name, tags: req.tags, origin: 'import', benchId: null, batteryId: req.battery?.id ?? null,
     state: 'recording', config, createdById: req.userId, startedAt,
   });
+  let writing: Promise<void> = Promise.resolve();
   try {
     // Gaps are judged against the file's own cadence (its median interval) unless a limit was typed.
     const pipeline = createRunPipeline(measureConfigFor(config, req.battery, { cadenceSeconds: medianStepS }));
@@ -84,29 +97,74 @@ export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: Impor
     const events: RunEvent[] = [];
     let pending: Reading[] = [];
     let seq = 0;
-    const flush = async () => {
-      if (!pending.length) return;
-      const readings = pending;
-      pending = [];
-      await writeRunBatch(sequelize, { runId: run.id, firstSeq: seq - readings.length, readings, events: [], patch: { readingsCount: seq } });
+    let written = 0;
+    // Blocks are written while the next part of the file is read: each write waits on the
+    // database's commit, and reading on meanwhile keeps both busy. The chain never rejects;
+    // its first error is kept and thrown at the next chunk or at the end.
+    let inFlight = 0;
+    let writeError: unknown = null;
+    const writeGroup = (blocks: ArchiveBlock[], readingsCount: number) => {
+      inFlight++;
+      writing = writing
+        .then(() => (writeError === null ? writeArchiveBlocks(sequelize, run.id, blocks, { readingsCount }) : undefined))
+        .catch((err: unknown) => void (writeError ??= err))
+        .finally(() => void inFlight--);
     };
-    const parse = createRowParser(plan);
-    let header = true;
-    for await (const { fields, line } of csvRecords(req.filePath, delimiter)) {
-      if (header) {
-        header = false;
-        continue;
+    /** Archives pending readings in blocks of ARCHIVE_BLOCK_READINGS (the rest too when `all`), one transaction for the lot. */
+    const flush = async (all: boolean) => {
+      const blocks: ArchiveBlock[] = [];
+      while (pending.length >= ARCHIVE_BLOCK_READINGS || (all && pending.length > 0)) {
+        const take = Math.min(ARCHIVE_BLOCK_READINGS, pending.length);
+        blocks.push(encodeReadingBlock(written, pending.slice(0, take)));
+        pending = pending.slice(take);
+        written += take;
       }
-      const row = parse(fields, line);
-      const frame: Frame = { t: row.t, volts: row.volts, amps: sign.flip ? -row.amps : row.amps, clock: 'device', ...(row.tempC !== null ? { temps: { cell: row.tempC } } : {}) };
+      if (blocks.length > 0) writeGroup(blocks, written);
+      if (all || inFlight >= MAX_GROUPS_IN_FLIGHT) await writing;
+      if (writeError !== null) throw writeError;
+    };
+    let rowsRead = 0;
+    /** One row to the run: its frame checked once, where it is made, like every live source's frames. */
+    const take = (row: ParsedRow, line: number | null) => {
+      rowsRead++;
+      const frame: Frame = { t: row.t, volts: row.volts, amps: sign.flip ? -row.amps : row.amps, clock: 'device' };
+      if (row.tempC !== null) frame.temps = { cell: row.tempC };
+      const problem = frameProblem(frame);
+      if (problem !== null) throw new InvalidInputError(line === null ? problem : `line ${line}: ${problem}`);
       const out = pipeline.push(frame);
-      if (!out.reading) continue;
+      if (!out.reading) return;
       pending.push(out.reading);
       seq++;
       for (const e of out.events) events.push(e);
-      if (pending.length >= ARCHIVE_BLOCK_READINGS) await flush();
+    };
+    const afterPart = async () => {
+      req.onProgress?.({ phase: 'importing', rows: rowsRead, totalRows: rows });
+      await flush(false);
+    };
+    const { kept } = survey;
+    if (kept) {
+      // The check pass kept every row: no second read and parse of the file.
+      const row: ParsedRow = { t: 0, volts: 0, amps: 0, tempC: null };
+      for (let i = 0; i < kept.count; i++) {
+        row.t = kept.t(i);
+        row.volts = kept.volts(i);
+        row.amps = kept.amps(i);
+        row.tempC = kept.tempC(i);
+        take(row, null);
+        if ((i + 1) % KEPT_ROWS_PER_PART === 0) await afterPart();
+      }
+    } else {
+      const parse = createRowParser(plan);
+      let header = true;
+      await readCsvRecords(req.filePath, delimiter, (text, spans, line) => {
+        if (header) {
+          header = false;
+          return;
+        }
+        take(parse(text, spans, line), line);
+      }, afterPart);
     }
-    await flush();
+    await flush(true);
     const summary = summarizeRun({
       snapshot: pipeline.snapshot(), events, acceptancePercent: req.acceptancePercent,
       price: req.battery?.price ?? null, massKg: req.battery?.massKg ?? null, leadAcidTempCelsius: electrolyte ?? null,
@@ -136,6 +194,7 @@ export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: Impor
       fullSummary: summary,
     };
   } catch (err) {
+    await writing;
     // Nothing half-imported stays behind (chunks and events go with the run).
     await sequelize.query('DELETE FROM runs WHERE id = ?', { replacements: [run.id] }).catch(() => undefined);
     throw err;

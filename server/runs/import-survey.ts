@@ -1,9 +1,10 @@
 import { InvalidInputError } from '../domain/domain-errors.js';
-import { csvRecords, type Delimiter } from './import-csv.js';
+import { readCsvRecords, type Delimiter } from './import-csv.js';
 import { createRowParser, planColumns, type ColumnOverrides, type ColumnPlan } from './import-headers.js';
 import { createSignTally, tallyReading, type SignTally } from './import-sign.js';
 import { checkTimeSteps } from './import-time.js';
 import { checkAssumedTempUnit } from './import-temp-check.js';
+import { KeptRows } from './kept-rows.js';
 
 /** Lines of duplicate times named in the result; the count covers them all. */
 export const MAX_NAMED_DUPLICATES = 10;
@@ -27,6 +28,8 @@ export interface Survey {
   firstT: number;
   lastT: number;
   sign: SignTally;
+  /** Every parsed row, when they fit the memory budget (null otherwise): the import pass uses them instead of reading again. */
+  kept: KeptRows | null;
 }
 
 /** Median of counted steps (keys in microseconds), or null when there are none. */
@@ -47,11 +50,11 @@ export function medianOfCounts(counts: ReadonlyMap<number, number>): number | nu
 
 /**
  * Pass 1: check every row, count duplicate times, learn the cadence and the energy each way
- * of the current. Refuses (an InvalidInputError naming the line) a row out of time order or a time column
+ * of the current. Refuses (400, naming the line) a row out of time order or a time column
  * whose steps cannot be the unit claimed.
  */
-export async function surveyFile(filePath: string, delimiter: Delimiter, overrides: ColumnOverrides, timeZone: string): Promise<Survey> {
-  let headers: string[] | null = null;
+export async function surveyFile(filePath: string, delimiter: Delimiter, overrides: ColumnOverrides, timeZone: string, onProgress?: (rows: number) => void, maxKeptRows?: number): Promise<Survey> {
+  let headers: string[] | null = null as string[] | null;
   let plan: ColumnPlan | null = null;
   let parse: ReturnType<typeof createRowParser> | null = null;
   let rows = 0;
@@ -60,17 +63,17 @@ export async function surveyFile(filePath: string, delimiter: Delimiter, overrid
   const duplicates: DuplicateTimes = { count: 0, lines: [] };
   const steps = new Map<number, number>();
   const sign = createSignTally();
+  const kept = new KeptRows(maxKeptRows);
   let firstTempC: number | null = null;
   const makePlan = (first: string[] | null) => ({ ...planColumns(headers!, first, overrides), decimalComma: delimiter !== ',', timeZone });
-  for await (const { fields, line } of csvRecords(filePath, delimiter)) {
+  await readCsvRecords(filePath, delimiter, (text, spans, line) => {
     if (!headers) {
-      headers = fields;
-      continue;
+      headers = spans.texts(text);
+      return;
     }
-    plan ??= makePlan(fields);
+    plan ??= makePlan(spans.texts(text));
     parse ??= createRowParser(plan);
-    if (fields.length !== headers.length) throw new InvalidInputError(`line ${line}: ${fields.length} fields, the header has ${headers.length}`);
-    const row = parse(fields, line);
+    const row = parse(text, spans, line);
     // Out-of-order rows would be dropped by the integrator: refuse the file rather than lose them quietly.
     if (row.t < lastT) throw new InvalidInputError(`line ${line}: time goes back (${row.t} s after ${lastT} s); rows must be in time order`);
     if (row.t === lastT) {
@@ -82,10 +85,11 @@ export async function surveyFile(filePath: string, delimiter: Delimiter, overrid
     }
     tallyReading(sign, rows > 0 ? row.t - lastT : 0, row.volts, row.amps);
     firstTempC ??= row.tempC;
+    kept.add(row);
     if (rows === 0) firstT = row.t;
     lastT = row.t;
     rows++;
-  }
+  }, async () => onProgress?.(rows));
   if (!headers) throw new InvalidInputError('line 1: the file is empty; expected a header row');
   // A header alone (or a file that is no CSV) is reported by what is wrong with its header first.
   plan ??= makePlan(null);
@@ -93,5 +97,5 @@ export async function surveyFile(filePath: string, delimiter: Delimiter, overrid
   const medianStepS = medianOfCounts(steps);
   if (plan.temp && firstTempC !== null) checkAssumedTempUnit(plan.temp, firstTempC);
   checkTimeSteps({ format: plan.time.format, source: plan.time.source, column: plan.time.column, medianStepS, spanS: lastT - firstT });
-  return { plan, rows, duplicates, medianStepS, firstT, lastT, sign };
+  return { plan, rows, duplicates, medianStepS, firstT, lastT, sign, kept: kept.full ? null : kept };
 }

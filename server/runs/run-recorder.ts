@@ -1,6 +1,6 @@
 import type { StartRunRequestSchema, StoredRunEvent } from '../../shared/schemas/api-runs.js';
 import type { BenchStatus } from '../../shared/schemas/bench.js';
-import { FrameSchema, type Frame } from '../../shared/schemas/frame.js';
+import type { Frame } from '../../shared/schemas/frame.js';
 import type { Reading } from '../../shared/schemas/reading.js';
 import { LIVE_RUN_STATES, type Run } from '../../shared/schemas/run.js';
 import type { RunEvent } from '../../shared/schemas/run-event.js';
@@ -323,8 +323,7 @@ export class RunRecorder {
     const runId = this.byBench.get(benchId);
     const session = runId === undefined ? undefined : this.sessions.get(runId);
     if (!session) return;
-    // The measurement core trusts its input: a NaN temperature would poison the run's summary.
-    if (!FrameSchema.safeParse(frame).success) return;
+    // Frames arrive checked: every source validates each frame where it makes it (ingest/frame-limits.ts).
     const { frames } = session.clock.accept(frame, (this.deps.nowMs ?? Date.now)() / MS_PER_S);
     for (const f of frames) if (this.sessions.has(session.run.id)) this.record(session, f);
   }

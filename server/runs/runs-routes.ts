@@ -2,6 +2,7 @@ import { Router, type Request } from 'express';
 import {
   AnnotateRequestSchema,
   EditNoteRequestSchema,
+  ImportProgressIdSchema,
   ListRunsQuerySchema,
   PatchRunRequestSchema,
   SamplesQuerySchema,
@@ -16,6 +17,7 @@ import { parseBody, parseIdParam } from '../http/validate.js';
 import { batteryLookup } from './battery-facts.js';
 import { exportMeta } from './export-meta.js';
 import { streamCsvExport, streamJsonExport } from './export-stream.js';
+import { ImportProgressBoard } from './import-progress.js';
 import { createImportHandler } from './import-route.js';
 import { NotesRepo, type NoteChangeRecord } from './notes-repo.js';
 import { changeNote } from './run-notes.js';
@@ -54,7 +56,16 @@ export function createRunsRouter(ctx: AppContext): Router {
     res.status(201).json({ run: await recorderOf(ctx).start(body, req.user!.id) });
   });
 
-  router.post('/import', requireRole('technician'), createImportHandler(ctx, repo, getBattery));
+  const importProgress = new ImportProgressBoard();
+  router.post('/import', requireRole('technician'), createImportHandler(ctx, repo, getBattery, importProgress));
+
+  // Polled by the importing browser while its upload is processed (the POST answers at the end).
+  router.get('/import/progress/:progressId', requireRole('technician'), (req, res) => {
+    const id = ImportProgressIdSchema.safeParse(req.params.progressId);
+    const progress = id.success ? importProgress.get(req.user!.id, id.data) : null;
+    if (!progress) throw notFound('Import');
+    res.json(progress);
+  });
 
   router.get('/:id', requireRole('viewer'), async (req, res) => {
     res.json({ run: live(await runOr404(req.params.id)) });

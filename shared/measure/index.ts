@@ -6,7 +6,6 @@ export * from './trapezoid.js';
 export * from './time-to-end.js';
 export * from './capacity-to-end-voltage.js';
 export * from './detector.js';
-export * from './parse-csv-line.js';
 export * from './run-stats.js';
 export * from './verdict.js';
 export * from './cumulative-discharge.js';

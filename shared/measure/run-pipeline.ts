@@ -116,7 +116,8 @@ export function createRunPipeline(config: MeasureConfigInput, snapshot?: unknown
     updateRunStats(stats, elapsedSeconds, frame.volts, frame.amps, frame.temps, settings.loadOnAmps, outcome === 'gap');
     trackRoundTrip(stats.roundTrip, reading, settings.loadOnAmps, settings.zeroAmps);
     trackLoadSteps(stats.loadSteps, reading, outcome === 'gap', stepOptions);
-    scratch.length = 0;
+    // Setting an array's length costs a runtime call even when it is already 0.
+    if (scratch.length !== 0) scratch.length = 0;
     if (outcome === 'gap' && prevT !== null) scratch.push({ type: 'gap', t: prevT - originT, endT: elapsedSeconds, gapSeconds: frame.t - prevT });
     detectStep(det, settings, reading, scratch);
     return { reading, events: scratch.length === 0 ? NO_EVENTS : scratch.slice(), outcome };

@@ -195,6 +195,9 @@ export const ImportColumnMapSchema = z.object({
 
 
 /** Multipart fields of POST /api/runs/import (the CSV is the `file` part). */
+/** A client-chosen name for one import's progress: letters, digits, - and _ (a UUID fits). */
+export const ImportProgressIdSchema = z.string().regex(/^[A-Za-z0-9_-]{8,64}$/);
+
 export const ImportFieldsSchema = z.object({
   name: labelText(200),
   batteryId: z.coerce.number().int().positive().optional(),
@@ -213,7 +216,19 @@ export const ImportFieldsSchema = z.object({
   electrolyteTempCelsius: z.coerce.number().finite().min(ELECTROLYTE_CELSIUS.min).max(ELECTROLYTE_CELSIUS.max).optional(),
   /** A step longer than this is a gap, seconds; omitted: judged against the file's median interval. */
   maxGapSeconds: z.coerce.number().finite().positive().max(MAX_GAP_LIMIT_SECONDS).optional(),
+  /** The client's name for this import, to ask GET /api/runs/import/progress/:progressId how far it got. */
+  progressId: ImportProgressIdSchema.optional(),
 });
+
+/** How far an import has got on the server: every row checked first, then imported (GET /api/runs/import/progress/:progressId). */
+export const ImportProgressSchema = z.object({
+  phase: z.enum(['checking', 'importing']),
+  /** Rows done in this phase. */
+  rows: z.number().int().nonnegative(),
+  /** Rows in the file, known once the check is done (null while checking). */
+  totalRows: z.number().int().nonnegative().nullable(),
+});
+export type ImportProgress = z.infer<typeof ImportProgressSchema>;
 
 /** The short summary the import answers with. */
 export const ImportSummarySchema = z.object({

@@ -4,7 +4,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { ImportResponseSchema } from '../../shared/schemas/api-runs.js';
+import { ImportProgressSchema, ImportResponseSchema } from '../../shared/schemas/api-runs.js';
 import { createTestContext, signInAs, type SignedInAgent, type TestContext } from './helpers/index.js';
 
 const NASA_CSV = fileURLToPath(new URL('../fixtures/nasa-pcoe-b0005-discharge-cycle1.csv', import.meta.url));
@@ -110,6 +110,51 @@ describe('POST /api/runs/import', () => {
   it('refuses a viewer', async () => {
     await viewer.post('/api/runs/import').field('name', 'x').attach('file', NASA_CSV).expect(403);
   });
+
+  it('reports how far a large import has got to the importer alone, while it runs, and forgets it after the answer', async () => {
+    const path = join(dir, 'progress.csv');
+    const out = createWriteStream(path);
+    out.write('time_s,voltage_v,current_a\n');
+    const ROWS = 300_000;
+    for (let i = 0; i < ROWS; i += 10_000) {
+      let chunk = '';
+      for (let j = i; j < i + 10_000; j++) chunk += `${j},${(13.3 - j * 1e-6).toFixed(6)},4\n`;
+      if (!out.write(chunk)) await new Promise<void>((r) => out.once('drain', () => r()));
+    }
+    await new Promise<void>((r) => out.end(() => r()));
+    const admin = await signInAs(t, 'admin');
+    const progressId = 'bench-log-0001';
+    const seen: { phase: string; rows: number; totalRows: number | null }[] = [];
+    let othersSaw = 0;
+    let done = false;
+    const post = tech.post('/api/runs/import').field('name', 'followed').field('progressId', progressId).attach('file', path)
+      .then((res) => {
+        done = true;
+        return res;
+      });
+    while (!done) {
+      const res = await tech.get(`/api/runs/import/progress/${progressId}`);
+      if (res.status === 200) seen.push(ImportProgressSchema.parse(res.body));
+      else expect(res.status).toBe(404);
+      if ((await admin.get(`/api/runs/import/progress/${progressId}`)).status !== 404) othersSaw++;
+      await new Promise((r) => setTimeout(r, 10));
+    }
+    const res = await post;
+    expect(res.status).toBe(201);
+    expect(res.body.summary.rows).toBe(ROWS);
+    expect(othersSaw).toBe(0);
+    // Rows only grow within a phase, and checking comes before importing.
+    const busy = seen.filter((p) => p.rows > 0);
+    expect(busy.length).toBeGreaterThan(0);
+    for (let i = 1; i < seen.length; i++) {
+      const [a, b] = [seen[i - 1]!, seen[i]!];
+      if (a.phase === b.phase) expect(b.rows).toBeGreaterThanOrEqual(a.rows);
+      else expect([a.phase, b.phase]).toEqual(['checking', 'importing']);
+    }
+    for (const p of seen.filter((s) => s.phase === 'importing')) expect(p.totalRows).toBe(ROWS);
+    await tech.get(`/api/runs/import/progress/${progressId}`).expect(404);
+    await tech.get('/api/runs/import/progress/no').expect(404);
+  }, 120_000);
 
   it('takes 1,000,000 rows streamed from disk without holding them in memory', async () => {
     const path = join(dir, 'million.csv');

@@ -1,3 +1,4 @@
+import { frameProblem } from '../../shared/schemas/frame-check.js';
 import { mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -20,7 +21,9 @@ export class ManualFeed implements FrameFeed {
     this.statuses.add(l);
     return () => void this.statuses.delete(l);
   }
+  /** Hands a frame on as a source does: only if it passes the check every source makes (frameProblem). */
   emit(benchId: number, frame: Frame): void {
+    if (frameProblem(frame) !== null) return;
     for (const l of this.frames) l(benchId, frame);
   }
   status(benchId: number, status: BenchStatus): void {

@@ -14,6 +14,9 @@ export function reject(reason: string): ParseResult {
 /** A parser for one text line; `arrivalMs` stamps frames whose meter sends no time. */
 export type LineParser = (line: string, arrivalMs: number) => ParseResult;
 
+/** A parser of one text line given in place: `text[start, end)` (so a framer need not cut a string per line). */
+export type SpanParser = (text: string, start: number, end: number, arrivalMs: number) => ParseResult;
+
 const MAX_ECHO_CHARS = 24;
 
 /** Shortens a bad value for a rejection message, so a garbled line never floods the status. */

@@ -1,4 +1,6 @@
 import type { CurrentSign } from '../../../shared/schemas/bench.js';
+import { isBlank } from './csv-fields.js';
+import { readDecimal } from './strict-number.js';
 
 const MS_PER_S = 1000;
 const MILLI = 1000;
@@ -6,12 +8,14 @@ const KELVIN_OFFSET = 273.15;
 const FAHRENHEIT_OFFSET = 32;
 const FAHRENHEIT_PER_C = 1.8;
 
-/** Parses a decimal number strictly (no empty string, no trailing junk, finite only). */
+/** Parses a decimal number strictly (no empty string, no trailing junk, finite only; blanks around it allowed). */
 export function parseStrictNumber(text: string): number | undefined {
-  const trimmed = text.trim();
-  if (trimmed === '' || !/^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(trimmed)) return undefined;
-  const value = Number(trimmed);
-  return Number.isFinite(value) ? value : undefined;
+  let start = 0;
+  let end = text.length;
+  while (start < end && isBlank(text.charCodeAt(start))) start++;
+  while (end > start && isBlank(text.charCodeAt(end - 1))) end--;
+  const value = readDecimal(text, start, end);
+  return Number.isNaN(value) ? undefined : value;
 }
 
 /** Converts a time field to seconds; ISO timestamps become Unix seconds. */

@@ -44,6 +44,22 @@ describe('SerialSource', () => {
     expect(source.getStatus().state).toBe('idle');
   });
 
+  it('checks every frame where it is made: a frame FrameSchema refuses is counted as bad and never handed on', async () => {
+    const jsonl = SerialSourceConfigSchema.parse({ ...config, format: { kind: 'jsonl' } });
+    const clock = new ManualClock();
+    const { factory, ports } = mockPortFactory();
+    const frames: Frame[] = [];
+    const source = new SerialSource(jsonl, { frame: (f) => frames.push(f), status: () => undefined }, { clock, openPort: factory });
+    source.start();
+    await settle();
+    // 2^53 + 1 reads as 2^53: an integer, but no longer an exact count (beyond Number.MAX_SAFE_INTEGER, ECMA-262).
+    lastPort(ports).port!.emitData('{"t":0,"volts":13.3,"amps":10,"seq":9007199254740993}\n{"t":1,"volts":13.2,"amps":10,"seq":1}\n');
+    await settle();
+    expect(frames.map((f) => f.t)).toEqual([1]);
+    expect(source.getStatus()).toMatchObject({ framesOk: 1, framesRejected: 1, lastRejection: 'bad frame: seq is not a count' });
+    await source.stop();
+  });
+
   it('goes stale after staleAfterS without a valid frame and recovers on the next one', async () => {
     const { clock, ports, source, statuses } = setup();
     source.start();

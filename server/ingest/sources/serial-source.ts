@@ -1,7 +1,7 @@
 import type { BenchStatus, SerialSourceConfig } from '../../../shared/schemas/bench.js';
 import type { Frame } from '../../../shared/schemas/frame.js';
 import { systemClock, type Clock, type TimerHandle } from '../clock.js';
-import { frameOutOfBounds } from '../frame-limits.js';
+import { frameRejection } from '../frame-limits.js';
 import { StatusTracker } from '../status-tracker.js';
 import { startLineSession } from './line-session.js';
 import { startModbusSession } from './modbus-session.js';
@@ -115,7 +115,7 @@ export class SerialSource implements Source {
       emitFrame: (frame: Frame) => {
         if (this.port !== port || !this.running) return;
         this.attempt = 0;
-        const outside = frameOutOfBounds(frame, this.config.limits);
+        const outside = frameRejection(frame, this.config.limits);
         if (outside) return this.tracker.rejected(outside);
         this.tracker.frameOk();
         safeDeliver(this.sink.frame, frame);

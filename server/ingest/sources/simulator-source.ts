@@ -2,7 +2,7 @@ import type { BenchStatus, SimulatorSourceConfig } from '../../../shared/schemas
 import type { Frame } from '../../../shared/schemas/frame.js';
 import { createSimulation, loadScenario, type SimSample, type Simulation } from '../../../simulator/index.js';
 import { systemClock, type Clock } from '../clock.js';
-import { frameOutOfBounds } from '../frame-limits.js';
+import { frameRejection } from '../frame-limits.js';
 import { StatusTracker } from '../status-tracker.js';
 import { safeDeliver, type Source, type SourceSink } from './source.js';
 
@@ -71,7 +71,7 @@ export class SimulatorSource implements Source {
       return;
     }
     const frame: Frame = { ...sample.frame, clock: 'device' };
-    const outside = frameOutOfBounds(frame, this.config.limits);
+    const outside = frameRejection(frame, this.config.limits);
     if (outside) return this.tracker.rejected(outside);
     this.tracker.frameOk();
     safeDeliver(this.sink.frame, frame);

@@ -2,13 +2,47 @@ import { screen, waitFor } from '@testing-library/react';
 import userEvent from '@testing-library/user-event';
 import { render } from '@testing-library/react';
 import { MemoryRouter } from 'react-router-dom';
-import { describe, expect, it } from 'vitest';
+import { act } from '@testing-library/react';
+import { afterEach, describe, expect, it, vi } from 'vitest';
 import type { Battery } from '../../../../shared/schemas/battery';
 import { LabSettingsSchema } from '../../../../shared/schemas/lab-settings';
 import { demoUser, renderAt, stubApi } from '../../../testing/render-app';
 import { ImportNoticesPanel } from './import-notices-panel';
 
 const emptyRuns = { status: 200, body: { runs: [], total: 0 } };
+
+/** A stand-in XMLHttpRequest that the test drives: upload progress events, then the server's answer. */
+class FakeXhr {
+  static last: FakeXhr | null = null;
+  upload: { onprogress: ((e: { lengthComputable: boolean; loaded: number; total: number }) => void) | null } = { onprogress: null };
+  onload: (() => void) | null = null;
+  onerror: (() => void) | null = null;
+  status = 0;
+  responseText = '';
+  withCredentials = false;
+  url = '';
+  headers: Record<string, string> = {};
+  body: FormData | null = null;
+  open(_method: string, url: string) {
+    this.url = url;
+  }
+  setRequestHeader(name: string, value: string) {
+    this.headers[name] = value;
+  }
+  send(body: FormData) {
+    this.body = body;
+    FakeXhr.last = this;
+  }
+  answer(status: number, body: unknown) {
+    this.status = status;
+    this.responseText = JSON.stringify(body);
+    this.onload?.();
+  }
+}
+afterEach(() => {
+  FakeXhr.last = null;
+  vi.unstubAllGlobals();
+});
 
 describe('runs page', () => {
   it('offers no import to a viewer', async () => {
@@ -167,6 +201,45 @@ describe('import notices on the run page', () => {
     const panel = screen.getByRole('region', { name: 'How the file was read' });
     expect(panel.textContent).toContain(notices[0]);
     expect(panel.textContent).toContain(notices[1]);
+  });
+
+  it('shows a large file\'s upload, then the rows the server has done, and clears the bars at the answer', async () => {
+    const progressCalls: string[] = [];
+    stubApi(demoUser('technician'), (url) => {
+      if (url.startsWith('/api/runs?')) return emptyRuns;
+      if (url === '/api/batteries') return { status: 200, body: { batteries: [] } };
+      if (url.startsWith('/api/runs/import/progress/')) {
+        progressCalls.push(url);
+        return { status: 200, body: { phase: 'importing', rows: 250_000, totalRows: 1_000_000 } };
+      }
+      return undefined;
+    });
+    vi.stubGlobal('XMLHttpRequest', FakeXhr);
+    renderAt('/runs');
+    await userEvent.click(await screen.findByRole('button', { name: 'Import a CSV log' }));
+    // 300 KiB: above the size from which the form follows an import's progress.
+    const big = new File(['time_s,volts,amps\n', '0,13.2,5\n'.repeat(300 * 1024 / 9)], 'soak-log.csv', { type: 'text/csv' });
+    await userEvent.upload(screen.getByLabelText(/CSV file/), big);
+    await userEvent.type(screen.getByLabelText('Run name'), 'Soak log');
+    await userEvent.click(screen.getByRole('button', { name: 'Import' }));
+    await waitFor(() => expect(FakeXhr.last).not.toBeNull());
+    const xhr = FakeXhr.last!;
+    expect([xhr.url, xhr.headers['X-CSRF-Token']]).toEqual(['/api/runs/import', 'test-token']);
+    const progressId = xhr.body!.get('progressId') as string;
+    expect(progressId).toMatch(/^[A-Za-z0-9_-]{8,64}$/);
+    expect((xhr.body!.get('file') as File).name).toBe('soak-log.csv');
+    act(() => xhr.upload.onprogress!({ lengthComputable: true, loaded: 150, total: 600 }));
+    expect((screen.getByRole('progressbar', { name: 'Uploading soak-log.csv' }) as HTMLProgressElement).value).toBe(25);
+    expect(screen.queryByRole('progressbar', { name: 'Importing rows' })).toBeNull();
+    act(() => xhr.upload.onprogress!({ lengthComputable: true, loaded: 600, total: 600 }));
+    expect(screen.getByText('Uploaded; the server is starting on it…')).toBeTruthy();
+    const rows = (await screen.findByRole('progressbar', { name: 'Importing rows' }, { timeout: 3000 })) as HTMLProgressElement;
+    expect([rows.value, rows.max]).toEqual([250_000, 1_000_000]);
+    expect(screen.getByText('Importing: 250,000 of 1,000,000 rows')).toBeTruthy();
+    expect(progressCalls[0]).toBe(`/api/runs/import/progress/${progressId}`);
+    act(() => xhr.answer(400, { error: { message: 'line 9: volts "x" is not a number' } }));
+    expect((await screen.findByRole('alert')).textContent).toBe('line 9: volts "x" is not a number');
+    expect(screen.queryByRole('progressbar')).toBeNull();
   });
 });
 

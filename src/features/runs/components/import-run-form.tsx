@@ -7,6 +7,7 @@ import { formatCharge, formatDuration, formatEnergy } from '../../../lib/units';
 import { useBatteryChoices } from '../api/get-batteries';
 import { ApiError } from '../../../lib/api-client';
 import { useImportRun, type ImportRunInput } from '../api/import-run';
+import { ImportProgressBars } from './import-progress-bars';
 import { ImportOptionsFields, importOptionsError, importOptionsInput, type ImportOptions } from './import-options-fields';
 
 /** The columns a log must have (temperature is optional), as the mapping names them. */
@@ -102,6 +103,7 @@ export function ImportRunForm({ onDone }: { onDone: () => void }) {
           {message}
         </p>
       )}
+      {importRun.isPending && importRun.progress && file && <ImportProgressBars progress={importRun.progress} fileName={file.name} />}
       {importRun.data && (
         <p role="status" className="num text-sm md:col-span-2">
           {formatEnergy(importRun.data.summary.energyWh, energyUnit)} · {formatCharge(importRun.data.summary.chargeAh)} · {formatDuration(importRun.data.summary.durationS)}
