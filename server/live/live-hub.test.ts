@@ -9,7 +9,7 @@ import {
   THIN_LEAVE_BYTES,
 } from './backpressure-policy.js';
 import { ClientSender, type SocketLike } from './client-sender.js';
-import { LiveHub, MAX_SUBSCRIPTIONS_PER_CLIENT, MIN_BATCH_INTERVAL_MS, RECENT_READINGS } from './live-hub.js';
+import { LiveHub, MAX_SUBSCRIPTIONS_PER_CLIENT, MIN_BATCH_INTERVAL_MS, RECENT_READINGS, RESUME_READINGS } from './live-hub.js';
 
 const user: SessionUser = { id: 1, email: 'v@lab', name: 'V', role: 'viewer', disabled: false };
 class FakeSocket implements SocketLike {
@@ -60,7 +60,8 @@ describe('LiveHub', () => {
     expect(batches()).toHaveLength(1);
     advance(1);
     expect(batches().map((b) => b.readings.t)).toEqual([[0], [1, 2]]);
-    expect(sock.sent.map((m) => m.seq)).toEqual([1, 2, 3]);
+    // The snapshot had no readings; each batch carries the number of its last reading.
+    expect(sock.sent.map((m) => m.seq)).toEqual([0, 1, 3]);
   });
 
   it('never drops an event, even for a client too far behind to get readings', async () => {
@@ -292,5 +293,73 @@ describe('LiveHub snapshots', () => {
     expect(snaps.map((s) => s.recent.t)).toEqual([[0, 1, 2], [0, 1, 2], [0, 1, 2, 3]]);
     expect(snaps[2]).toMatchObject({ topic: { kind: 'bench', id: 8 }, status: { state: 'receiving' }, events: [] });
     expect(snaps[2]!.recent.volts).toEqual([12, 12, 12, 12]);
+  });
+});
+
+describe('LiveHub reading cursor', () => {
+  type Snap = { stream: string; seq: number; resume: string; recent: { t: number[] } };
+  type Batch = { seq: number; readings: { t: number[] } };
+  const topic = { kind: 'bench', id: 9 } as const;
+
+  it('numbers readings per topic; a subscribe with a cursor gets exactly the readings after it', async () => {
+    const { hub, advance } = setup();
+    const first = new FakeSocket();
+    const a = new ClientSender(first, user);
+    for (let i = 0; i < 5; i++) hub.publishSample(topic, frame(i));
+    await hub.subscribe(a, topic);
+    const snap = first.sent.find((m) => m.type === 'snapshot') as Snap;
+    expect(snap).toMatchObject({ seq: 5, resume: 'fresh', recent: { t: [0, 1, 2, 3, 4] } });
+    hub.publishSample(topic, frame(5));
+    advance(MIN_BATCH_INTERVAL_MS);
+    hub.publishSample(topic, frame(6));
+    advance(MIN_BATCH_INTERVAL_MS);
+    const batches = first.sent.filter((m) => m.type === 'batch') as Batch[];
+    expect(batches.map((b) => [b.seq, b.readings.t])).toEqual([[6, [5]], [7, [6]]]);
+    hub.removeClient(a); // the connection drops after reading 7
+    for (let i = 7; i < 12; i++) hub.publishSample(topic, frame(i));
+
+    const second = new FakeSocket();
+    await hub.subscribe(new ClientSender(second, user), topic, { stream: snap.stream, seq: 7 });
+    expect(second.sent[0]).toMatchObject({ type: 'snapshot', seq: 12, resume: 'resumed', recent: { t: [7, 8, 9, 10, 11] } });
+  });
+
+  it('a subscribe while readings wait for their batch: the snapshot ends where the next batch begins', async () => {
+    const { hub, advance } = setup();
+    const watcher = new FakeSocket();
+    await hub.subscribe(new ClientSender(watcher, user), topic);
+    hub.publishSample(topic, frame(0)); // sent at once
+    hub.publishSample(topic, frame(1)); // waits for the batch interval
+    const late = new FakeSocket();
+    await hub.subscribe(new ClientSender(late, user), topic);
+    hub.publishSample(topic, frame(2));
+    advance(MIN_BATCH_INTERVAL_MS);
+    const seen = late.sent.flatMap((m) => (m.type === 'snapshot' ? (m as unknown as Snap).recent.t : m.type === 'batch' ? (m as unknown as Batch).readings.t : []));
+    expect(seen).toEqual([0, 1, 2]);
+    const watched = watcher.sent.flatMap((m) => (m.type === 'batch' ? (m as unknown as Batch).readings.t : []));
+    expect(watched).toEqual([0, 1, 2]);
+  });
+
+  it('a cursor older than the readings kept, ahead of the stream, or of another stream is told to refetch', async () => {
+    const { hub } = setup();
+    const sock = new FakeSocket();
+    const c = new ClientSender(sock, user);
+    await hub.subscribe(c, topic);
+    const { stream } = sock.sent[0] as unknown as Snap;
+    const total = 2 * RESUME_READINGS + 10;
+    for (let i = 0; i < total; i++) hub.publishSample(topic, frame(i));
+    const ask = async (after: { stream: string; seq: number }) => {
+      const s = new FakeSocket();
+      await hub.subscribe(new ClientSender(s, user), topic, after);
+      return s.sent[0] as unknown as Snap;
+    };
+    // After a trim the ring holds RESUME_READINGS to twice that; a cursor before it cannot resume.
+    expect((await ask({ stream, seq: 1 })).resume).toBe('refetch');
+    const refetch = await ask({ stream, seq: 1 });
+    expect(refetch.recent.t).toHaveLength(RECENT_READINGS);
+    expect(refetch.recent.t.at(-1)).toBe(total - 1);
+    expect((await ask({ stream, seq: total - RESUME_READINGS })).recent.t).toHaveLength(RESUME_READINGS);
+    expect((await ask({ stream, seq: total + 1 })).resume).toBe('refetch');
+    expect((await ask({ stream: 'another', seq: total - 1 })).resume).toBe('refetch');
+    expect(await ask({ stream, seq: total })).toMatchObject({ resume: 'resumed', recent: { t: [] } });
   });
 });

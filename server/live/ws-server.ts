@@ -140,7 +140,7 @@ export function attachWsServer(
       const m = msg.data;
       if (m.type === 'ping') return client.send({ type: 'pong', id: m.id, serverTimeMs: Date.now() });
       if (m.type === 'unsubscribe') return opts.hub.unsubscribe(client, m.topic);
-      opts.hub.subscribe(client, m.topic).catch((err: unknown) => {
+      opts.hub.subscribe(client, m.topic, m.after).catch((err: unknown) => {
         log('ws: subscribe failed', err);
         client.send({ type: 'error', message: 'Subscribe failed', topic: m.topic });
       });
