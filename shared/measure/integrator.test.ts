@@ -7,8 +7,8 @@ const HOUR_S = 3600;
 
 describe('trapezoidal rule against published values', () => {
   it('∫₀¹ e^(−x²) dx with n = 10 gives 0.7462107961', () => {
-    // Source: the standard textbook example of the composite trapezoidal rule (value as given
-    // in issue 3; e.g. Stewart, Calculus, §7.7, from memory). Exact value √π/2·erf(1) =
+    // Source: the standard textbook example of the composite trapezoidal rule (e.g. Stewart,
+    // Calculus, §7.7, from memory). Exact value √π/2·erf(1) =
     // 0.7468241328 (erf(1) = 0.8427007929, Abramowitz & Stegun, Table 7.1).
     const approx = trapezoidFunction((x) => Math.exp(-x * x), 0, 1, 10);
     expect(approx).toBeCloseTo(0.7462107961, 10);
