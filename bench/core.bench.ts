@@ -7,7 +7,7 @@
  */
 import { performance } from 'node:perf_hooks';
 import { createRunPipeline, parseCsvLine, type CsvLayout } from '../shared/measure/index.js';
-import { SECONDS_PER_HOUR } from '../shared/units/convert.js';
+import { SECONDS_PER_HOUR } from '../shared/units/time.js';
 
 const THROUGHPUT_LINES = 1_000_000;
 const THROUGHPUT_ROUNDS = 5;

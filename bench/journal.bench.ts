@@ -21,6 +21,7 @@ import { JOURNAL_SYNC_INTERVAL_MS, ReadingJournal } from '../server/journal/read
 import { RunRecorder, type FrameFeed } from '../server/runs/run-recorder.js';
 import { RunsRepo } from '../server/runs/runs-repo.js';
 import { openBenchDb } from './bench-db.js';
+import { MS_PER_S } from '../shared/units/time.js';
 
 const RUNS = 20;
 const FRAMES_PER_RUN = 25_000;
@@ -28,7 +29,6 @@ const FRAMES_PER_RUN = 25_000;
 const FRAMES_PER_TURN = 2000;
 const LAB_HZ = 10;
 const LAB_SECONDS = Number(process.env.JOURNAL_BENCH_S ?? 20);
-const MS_PER_S = 1000;
 const NS_PER_MS = 1e6;
 const quiet = () => undefined;
 

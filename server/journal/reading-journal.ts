@@ -3,6 +3,7 @@ import { join } from 'node:path';
 import type { Frame } from '../../shared/schemas/frame.js';
 import type { Reading } from '../../shared/schemas/reading.js';
 import { decodeJournal, encodeRecord, type JournalRecord } from './journal-record.js';
+import { MS_PER_S } from '../../shared/units/time.js';
 
 /** Readings reach the disk (written and fdatasync'd) at least this often: half the 100 ms promise. */
 export const JOURNAL_SYNC_INTERVAL_MS = 50;
@@ -16,7 +17,6 @@ const SEGMENT_SUFFIX = '.jnl';
 const RUN_PREFIX = 'run-';
 const RUN_FOLDER = /^run-(\d{1,15})$/;
 const INDEX_DIGITS = 12;
-const MS_PER_S = 1000;
 
 export interface ReadingJournalOptions {
   /** Folder of the journal (<dataDir>/journal): one sub-folder per run, one file per segment. */

@@ -1,5 +1,6 @@
 import { HttpError } from '../http/http-error.js';
 import { checkTimeValue, createTimeReader, inferTimeFormat, parseDecimal, type TimeFormat, type TimeFormatSource } from './import-time.js';
+import { fahrenheitToCelsius, kelvinToCelsius } from '../../shared/units/convert.js';
 
 /** Channels an imported log can carry. */
 export type ImportChannel = 'time' | 'volts' | 'amps' | 'temp';
@@ -170,8 +171,8 @@ export function planColumns(headers: readonly string[], firstRow: readonly strin
   };
 }
 
-/** °F → °C and K → °C (exact definitions of the scales). */
-const toCelsius = { C: (v: number) => v, F: (v: number) => ((v - 32) * 5) / 9, K: (v: number) => v - 273.15 };
+/** °F → °C and K → °C, by unit (shared/units). */
+const toCelsius = { C: (v: number) => v, F: fahrenheitToCelsius, K: kelvinToCelsius };
 
 /** One parsed row, before the current's sign is settled. */
 export interface ParsedRow {

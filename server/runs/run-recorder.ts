@@ -13,6 +13,7 @@ import { MissingProtectionThresholdError, resolveProtectionChecks } from './reso
 import { RunSession, type RunSessionSnapshot, type SequencedEvent } from './run-session.js';
 import type { NoteChangeRecord } from './notes-repo.js';
 import type { RunsRepo } from './runs-repo.js';
+import { MS_PER_S } from '../../shared/units/time.js';
 
 /** Where frames come from: the ingest area's BenchManager satisfies this. */
 export interface FrameFeed {
@@ -24,7 +25,6 @@ export interface FrameFeed {
 export const FLUSH_INTERVAL_MS = 1000;
 /** …or as soon as this many are pending (a fast meter). */
 export const FLUSH_READINGS = 2000;
-const MS_PER_S = 1000;
 /** Bench states that mean the meter is not delivering. */
 const SOURCE_DOWN_STATES = new Set(['stale', 'error', 'reconnecting', 'idle']);
 

@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { labelText, noteText } from './text.js';
 import { MeterAccuracySchema } from './meter-accuracy.js';
+import { MS_PER_S } from '../units/time.js';
 
 /**
  * Benches and their sources: the one source of truth for the server's bench manager,
@@ -283,7 +284,6 @@ export type UpdateBenchRequest = z.input<typeof UpdateBenchRequestSchema>;
 export type SerialPortInfo = z.infer<typeof SerialPortInfoSchema>;
 export type SerialPortListResponse = z.infer<typeof SerialPortListResponseSchema>;
 
-const MS_PER_S = 1000;
 
 /**
  * The source's own interval between readings, s, when its configuration states one: the

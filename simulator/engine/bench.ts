@@ -8,8 +8,8 @@ import { ambientAt } from './ambient.js';
 import { buildPack } from './build-pack.js';
 import type { SimEvent, SimTotals } from './events.js';
 import { chargeAmps, dischargeAmps } from './load.js';
+import { SECONDS_PER_HOUR } from '../../shared/units/time.js';
 
-const SECONDS_PER_HOUR = 3600;
 /** Without a set termination current a charge ends at C/20 of its CC current (common practice). */
 const DEFAULT_TERM_FRACTION = 1 / 20;
 /** A charger needs a moment to push current before "too little current" can mean "full". */

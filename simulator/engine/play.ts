@@ -1,7 +1,7 @@
 import type { Clock } from './clock.js';
 import type { SimSample } from './simulation.js';
+import { MS_PER_S } from '../../shared/units/time.js';
 
-const MS_PER_S = 1000;
 /** Never wake more often than this: at high speeds several samples go out per wake-up. */
 const MIN_WAKE_MS = 5;
 

@@ -1,8 +1,8 @@
 import { CHEMISTRIES, type Chemistry } from './chemistry.js';
 import { interpolate, ocvAt } from './ocv.js';
+import { SECONDS_PER_HOUR } from '../../shared/units/time.js';
 
 const REFERENCE_TEMP_C = 25;
-const SECONDS_PER_HOUR = 3600;
 /** Below this state of charge the resistance climbs (the knee near empty). */
 const LOW_SOC_KNEE = 0.12;
 /** How many times the resistance multiplies at 0 % through the low-SoC knee. */

@@ -2,8 +2,8 @@ import type { CsvFormat } from '../../../shared/schemas/bench.js';
 import type { Frame } from '../../../shared/schemas/frame.js';
 import { clip, reject, type LineParser, type ParseResult } from './parse-result.js';
 import { parseStrictNumber, timeToSeconds, toAmps, toCelsius, toVolts } from './units.js';
+import { MS_PER_S } from '../../../shared/units/time.js';
 
-const MS_PER_S = 1000;
 
 /**
  * Parses one CSV line against the column map. Pure: `isFirstLine`, `seenFrame` and

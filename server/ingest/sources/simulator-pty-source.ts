@@ -5,8 +5,8 @@ import { StatusTracker } from '../status-tracker.js';
 import { SerialSource, type SerialSourceDeps } from './serial-source.js';
 import { serialFormatForSimulator } from './simulator-formats.js';
 import { safeDeliver, type Source, type SourceSink } from './source.js';
+import { MS_PER_S } from '../../../shared/units/time.js';
 
-const MS_PER_S = 1000;
 /** Pseudo-terminal links live under /tmp, never in the repository (Tailwind hangs scanning them). */
 const LINK_DIR = '/tmp';
 let linkCounter = 0;

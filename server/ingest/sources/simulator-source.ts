@@ -5,8 +5,8 @@ import { systemClock, type Clock } from '../clock.js';
 import { frameOutOfBounds } from '../frame-limits.js';
 import { StatusTracker } from '../status-tracker.js';
 import { safeDeliver, type Source, type SourceSink } from './source.js';
+import { MS_PER_S } from '../../../shared/units/time.js';
 
-const MS_PER_S = 1000;
 type Player = ReturnType<Simulation['play']>;
 
 /**

@@ -13,10 +13,10 @@ import { hashPassword } from '../../../server/auth/password.js';
 import { defineCoreModels } from '../../../server/db/models/index.js';
 import { createSequelize } from '../../../server/db/sequelize.js';
 import { openPtyPair, type PtyPair } from '../../../simulator/transport/socat.js';
+import { SECONDS_PER_HOUR } from '../../../shared/units/time.js';
 
 const START_TIMEOUT_MS = 120_000;
 const STOP_TIMEOUT_MS = 30_000;
-const SECONDS_PER_HOUR = 3600;
 /** The test MariaDB's port + this = the fault suite's own MariaDB (3317 → 3327 in CI). */
 const FAULT_DB_PORT_OFFSET = 10;
 

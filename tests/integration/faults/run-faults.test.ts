@@ -9,6 +9,7 @@ import { createSequelize } from '../../../server/db/sequelize.js';
 import { signInAs, TEST_PASSWORD, TEST_USERS, type SignedInAgent } from '../helpers/index.js';
 import { eventually } from '../runs-kit.js';
 import { exportColumns, freePort, JsonlMeter, missingFrames, neverDecreases, referenceTotals, ServerProcess, type ExportedRun, type SentFrame } from './fault-kit.js';
+import { SECONDS_PER_HOUR } from '../../../shared/units/time.js';
 
 /**
  * The fault suite for a live run: Kneepoint in a child process of its own (server/index.ts
@@ -152,7 +153,6 @@ async function finish(runId: number): Promise<{ exported: ExportedRun; summary: 
  * most two trapezoid panels of one meter period.
  */
 function lostEnergyWh(missing: readonly SentFrame[]): number {
-  const SECONDS_PER_HOUR = 3600;
   return missing.reduce((wh, f) => wh + (2 * f.volts * f.amps * METER_PERIOD_MS) / 1000 / SECONDS_PER_HOUR, 0);
 }
 
