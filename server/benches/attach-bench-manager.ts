@@ -5,6 +5,7 @@ import type { SourceDeps } from '../ingest/sources/create-source.js';
 import './bench-services.js';
 import { benchModel } from './bench-model.js';
 import { toManaged } from './bench-service.js';
+import { createLogger } from '../log/logger.js';
 
 /**
  * Server attachment: creates the bench manager, publishes it as `ctx.services.benchManager`
@@ -12,7 +13,7 @@ import { toManaged } from './bench-service.js';
  * on close. A bench whose port is missing does not stop the server: it just reconnects.
  */
 export async function attachBenchManager(_httpServer: Server, ctx: AppContext, deps: SourceDeps = {}): Promise<() => Promise<void>> {
-  const manager = new BenchManager(deps, (message, err) => ctx.log.error(message, err));
+  const manager = new BenchManager(deps, createLogger('benches', ctx.log));
   ctx.services.benchManager = manager;
   const rows = await benchModel(ctx.sequelize).findAll();
   await manager.sync(rows.map(toManaged));

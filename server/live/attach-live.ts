@@ -12,6 +12,7 @@ import '../auth/end-sessions.js';
 import '../runs/runs-services.js';
 import { LiveHub } from './live-hub.js';
 import { attachWsServer } from './ws-server.js';
+import { createLogger } from '../log/logger.js';
 
 /** How long a shutdown waits for the database to take pending readings before spilling them. */
 export const SHUTDOWN_FLUSH_MS = 5000;
@@ -34,16 +35,16 @@ export interface LiveOptions {
 export function liveAttachment(options: LiveOptions = {}) {
   return async function attachLive(httpServer: Server, ctx: AppContext): Promise<() => Promise<void>> {
     const repo = new RunsRepo(ctx.sequelize);
-    const journal = new ReadingJournal({ dir: options.journalDir ?? join(ctx.config.dataDir, 'journal'), log: (m) => ctx.log.warn(m) });
+    const journal = new ReadingJournal({ dir: options.journalDir ?? join(ctx.config.dataDir, 'journal'), log: createLogger('journal', ctx.log) });
     const writer = createArchiveWriter(ctx.sequelize, {
       spillDir: options.spillDir ?? join(ctx.config.dataDir, 'spill'),
       memoryLimitBytes: options.memoryLimitBytes,
-      log: (m) => ctx.log.warn(m),
+      log: createLogger('archive', ctx.log),
       onArchived: (batch) => journal.archived(batch.runId, batch.patch.readingsCount ?? 0, batch.patch.endedAt !== undefined),
     });
     const recorder = new RunRecorder({
       repo, writer, getBattery: batteryLookup(ctx), benchExists: (id) => repo.benchExists(id),
-      benchSourceFacts: (id) => repo.benchSourceFacts(id), log: (m, e) => ctx.log.error(m, e),
+      benchSourceFacts: (id) => repo.benchSourceFacts(id), log: createLogger('runs', ctx.log),
       // Arming a run on a simulated bench starts a fresh simulated pack, so a demo always starts from full.
       prepareBench: async (id) => ctx.services.benchManager?.freshSimulation(id),
     });
@@ -89,8 +90,7 @@ export function liveAttachment(options: LiveOptions = {}) {
       hub,
       authenticate: (req) => sessionUserFromRequest(ctx, req),
       checkOrigin: (req) => isSameOrigin(req, ctx.config),
-      log: (m, e) => ctx.log.error(m, e),
-      warn: (m) => ctx.log.warn(m),
+      log: createLogger('live', ctx.log),
     });
     ctx.services.closeUserSockets = ws.closeUser;
     ctx.services.closeSessionSockets = ws.closeSession;

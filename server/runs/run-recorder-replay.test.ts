@@ -7,6 +7,7 @@ import { measureConfigFor } from './measure-config.js';
 import { RunRecorder, type KeptReading } from './run-recorder.js';
 import { RunSession } from './run-session.js';
 import type { RunsRepo } from './runs-repo.js';
+import { quietLogger } from '../log/logger.js';
 
 const run: Run = {
   id: 4, name: 'r', tags: [], origin: 'live', benchId: 2, batteryId: null, kind: 'capacity-discharge', state: 'recording',
@@ -24,7 +25,7 @@ async function resumedAt(archived: number): Promise<{ recorder: RunRecorder; bat
   const batches: ArchiveBatch[] = [];
   const repo = { listLive: async () => [run], getPipelineState: async () => stored, events: async () => [] } as unknown as RunsRepo;
   const writer = { enqueue: (b: ArchiveBatch) => void batches.push(b) } as unknown as ArchiveWriter;
-  const recorder = new RunRecorder({ repo, writer, getBattery: async () => null, log: () => undefined });
+  const recorder = new RunRecorder({ repo, writer, getBattery: async () => null, log: quietLogger });
   await recorder.resume();
   return { recorder, batches };
 }

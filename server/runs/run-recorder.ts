@@ -14,6 +14,7 @@ import { RunSession, type RunSessionSnapshot, type SequencedEvent } from './run-
 import type { NoteChangeRecord } from './notes-repo.js';
 import type { RunsRepo } from './runs-repo.js';
 import { MS_PER_S } from '../../shared/units/time.js';
+import { createLogger, type Logger } from '../log/logger.js';
 
 /** Where frames come from: the ingest area's BenchManager satisfies this. */
 export interface FrameFeed {
@@ -38,7 +39,7 @@ export interface RunRecorderDeps {
   benchSourceFacts?: (id: number) => Promise<SourceFacts | null>;
   /** Readies a bench just before a run is armed on it (a simulated bench gets a fresh pack). */
   prepareBench?: (id: number) => Promise<unknown>;
-  log?: (message: string, err?: unknown) => void;
+  log?: Logger;
   /** Injected timer (tests drive flushes by hand with `flushAll`). */
   setInterval?: (fn: () => void, ms: number) => { unref?: () => void };
   clearInterval?: (handle: unknown) => void;
@@ -72,14 +73,14 @@ export class RunRecorder {
   private readonly unsubscribe: (() => void)[] = [];
   private timer: unknown = null;
   /** Every reading a run accepts, with its index in the run (the archive's sequence number). */
-  readonly readings = new ListenerSet<[runId: number, reading: Reading, index: number]>((e) => this.log('run readings listener failed', e));
-  readonly events = new ListenerSet<[runId: number, event: SequencedEvent | StoredRunEvent]>((e) => this.log('run event listener failed', e));
-  readonly runChanges = new ListenerSet<[run: Run]>((e) => this.log('run change listener failed', e));
-  readonly noteChanges = new ListenerSet<[change: NoteChangeRecord]>((e) => this.log('note change listener failed', e));
-  private readonly log: (message: string, err?: unknown) => void;
+  readonly readings = new ListenerSet<[runId: number, reading: Reading, index: number]>((e) => this.log.error('run readings listener failed', e));
+  readonly events = new ListenerSet<[runId: number, event: SequencedEvent | StoredRunEvent]>((e) => this.log.error('run event listener failed', e));
+  readonly runChanges = new ListenerSet<[run: Run]>((e) => this.log.error('run change listener failed', e));
+  readonly noteChanges = new ListenerSet<[change: NoteChangeRecord]>((e) => this.log.error('note change listener failed', e));
+  private readonly log: Logger;
 
   constructor(private readonly deps: RunRecorderDeps) {
-    this.log = deps.log ?? ((m, e) => console.warn(m, e ?? ''));
+    this.log = deps.log ?? createLogger('runs');
   }
 
   /** Subscribes to a frame feed and starts the flush timer. */
@@ -105,9 +106,9 @@ export class RunRecorder {
         const session = new RunSession(run, battery, measureConfigFor(run, battery, source), previous, past);
         this.register(session);
         resumed.push(run);
-        this.log(`run ${run.id} resumed at ${session.readingsCount} readings`);
+        this.log.info(`run ${run.id} resumed at ${session.readingsCount} readings`);
       } catch (err) {
-        this.log(`run ${run.id} could not be resumed`, err);
+        this.log.error(`run ${run.id} could not be resumed`, err);
       }
     }
     return resumed;
@@ -133,7 +134,7 @@ export class RunRecorder {
       last = k;
     }
     if (replayed < expected)
-      this.log(`run ${runId}: replay stopped after ${replayed} of the journalled readings (indexes did not follow on)`);
+      this.log.warn(`run ${runId}: replay stopped after ${replayed} of the journalled readings (indexes did not follow on)`);
     if (last) session.clock.resumeAfter(last.frame.t, last.arrivalS);
     return replayed;
   }
@@ -212,7 +213,7 @@ export class RunRecorder {
   private endStranded(run: Run, state: 'finished' | 'aborted'): Run {
     const endedAt = new Date();
     this.deps.writer.enqueue({ runId: run.id, block: null, events: [], patch: { state, endedAt, pipelineState: null } });
-    this.log(`run ${run.id} was ${run.state} without a live session; ended as ${state}`);
+    this.log.warn(`run ${run.id} was ${run.state} without a live session; ended as ${state}`);
     const ended: Run = { ...run, state, endedAt: endedAt.toISOString() };
     this.runChanges.emit(ended);
     return ended;
@@ -334,7 +335,7 @@ export class RunRecorder {
     if (out.reading) this.readings.emit(session.run.id, out.reading, session.readingsCount - 1);
     for (const e of out.events) this.emitEvent(session.run.id, e);
     if (out.stateChanged) this.runChanges.emit(this.liveView(session));
-    if (session.shouldFinish()) void this.endSession(session, 'finished').catch((err) => this.log(`run ${session.run.id} did not end cleanly`, err));
+    if (session.shouldFinish()) void this.endSession(session, 'finished').catch((err) => this.log.error(`run ${session.run.id} did not end cleanly`, err));
     else if (session.hasPending() && out.stateChanged) this.deps.writer.enqueue(session.takeBatch());
     else if (session.readingsCount % FLUSH_READINGS === 0) this.deps.writer.enqueue(session.takeBatch());
   }
