@@ -54,7 +54,7 @@ async function tableBytes(sequelize: Sequelize, table: string): Promise<number> 
 }
 
 async function plainRows(sequelize: Sequelize, readings: Reading[]) {
-  await sequelize.query(`CREATE TABLE bench_rows (runId INT NOT NULL, t DOUBLE NOT NULL, volts DOUBLE, amps DOUBLE, tempC DOUBLE,
+  await sequelize.query(`CREATE TABLE bench_rows (runId INT NOT NULL, t DOUBLE NOT NULL, volts DOUBLE, amps DOUBLE, tempCelsius DOUBLE,
     dischargeWh DOUBLE, dischargeAh DOUBLE, PRIMARY KEY (runId, t)) ENGINE=InnoDB`);
   const w0 = performance.now();
   for (let at = 0; at < readings.length; at += ROWS_PER_INSERT) {
@@ -64,7 +64,7 @@ async function plainRows(sequelize: Sequelize, readings: Reading[]) {
   }
   const writeS = (performance.now() - w0) / 1000;
   const r0 = performance.now();
-  const rows = await sequelize.query<{ t: number }>('SELECT t, volts, amps, tempC, dischargeWh, dischargeAh FROM bench_rows WHERE runId = 1 ORDER BY t', { type: QueryTypes.SELECT, raw: true });
+  const rows = await sequelize.query<{ t: number }>('SELECT t, volts, amps, tempCelsius, dischargeWh, dischargeAh FROM bench_rows WHERE runId = 1 ORDER BY t', { type: QueryTypes.SELECT, raw: true });
   const readS = (performance.now() - r0) / 1000;
   if (rows.length !== readings.length) throw new Error(`plain rows: read ${rows.length}`);
   return { writeS, readS, bytes: await tableBytes(sequelize, 'bench_rows') };

@@ -179,7 +179,7 @@ export interface ParsedRow {
   t: number;
   volts: number;
   amps: number;
-  tempC: number | null;
+  tempCelsius: number | null;
 }
 
 /**
@@ -209,7 +209,7 @@ export function createRowParser(plan: ColumnPlan): (fields: readonly string[], l
       volts: num(fields, plan.volts.index, 'volts', line) * plan.volts.scale,
       amps: num(fields, plan.amps.index, 'amps', line) * plan.amps.scale,
       // A blank temperature is "not measured", not an error.
-      tempC: plan.temp && tempText !== '' ? toCelsius[plan.temp.unit](num(fields, plan.temp.index, 'temperature', line)) : null,
+      tempCelsius: plan.temp && tempText !== '' ? toCelsius[plan.temp.unit](num(fields, plan.temp.index, 'temperature', line)) : null,
     };
   };
 }

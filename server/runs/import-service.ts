@@ -100,7 +100,7 @@ export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: Impor
         continue;
       }
       const row = parse(fields, line);
-      const frame: Frame = { t: row.t, volts: row.volts, amps: sign.flip ? -row.amps : row.amps, clock: 'device', ...(row.tempC !== null ? { temps: { cell: row.tempC } } : {}) };
+      const frame: Frame = { t: row.t, volts: row.volts, amps: sign.flip ? -row.amps : row.amps, clock: 'device', ...(row.tempCelsius !== null ? { temps: { cell: row.tempCelsius } } : {}) };
       const out = pipeline.push(frame);
       if (!out.reading) continue;
       pending.push(out.reading);

@@ -60,7 +60,7 @@ export async function surveyFile(filePath: string, delimiter: Delimiter, overrid
   const duplicates: DuplicateTimes = { count: 0, lines: [] };
   const steps = new Map<number, number>();
   const sign = createSignTally();
-  let firstTempC: number | null = null;
+  let firstTempCelsius: number | null = null;
   const makePlan = (first: string[] | null) => ({ ...planColumns(headers!, first, overrides), decimalComma: delimiter !== ',', timeZone });
   for await (const { fields, line } of csvRecords(filePath, delimiter)) {
     if (!headers) {
@@ -81,7 +81,7 @@ export async function surveyFile(filePath: string, delimiter: Delimiter, overrid
       steps.set(key, (steps.get(key) ?? 0) + 1);
     }
     tallyReading(sign, rows > 0 ? row.t - lastT : 0, row.volts, row.amps);
-    firstTempC ??= row.tempC;
+    firstTempCelsius ??= row.tempCelsius;
     if (rows === 0) firstT = row.t;
     lastT = row.t;
     rows++;
@@ -91,7 +91,7 @@ export async function surveyFile(filePath: string, delimiter: Delimiter, overrid
   plan ??= makePlan(null);
   if (rows < 2) throw new HttpError(400, `line ${rows + 2}: at least two readings are needed after the header`);
   const medianStepS = medianOfCounts(steps);
-  if (plan.temp && firstTempC !== null) checkAssumedTempUnit(plan.temp, firstTempC);
+  if (plan.temp && firstTempCelsius !== null) checkAssumedTempUnit(plan.temp, firstTempCelsius);
   checkTimeSteps({ format: plan.time.format, source: plan.time.source, column: plan.time.column, medianStepS, spanS: lastT - firstT });
   return { plan, rows, duplicates, medianStepS, firstT, lastT, sign };
 }

@@ -31,8 +31,8 @@ export interface Bench {
   readonly events: SimEvent[];
   readonly totals: SimTotals;
   readonly t: number;
-  readonly tempC: number;
-  readonly ambientC: number;
+  readonly tempCelsius: number;
+  readonly ambientCelsius: number;
   readonly stepIndex: number;
   readonly done: boolean;
   readonly bms: Bms | undefined;
@@ -51,16 +51,16 @@ export function createBench(scenario: Scenario, prng: Prng): Bench {
   const events: SimEvent[] = [{ t: 0, kind: 'step-start', step: 0 }];
   const totals: SimTotals = { netWh: 0, netAh: 0, dischargedWh: 0, chargedWh: 0, heaterWh: 0 };
   let t = 0;
-  let tempC = scenario.pack.initialTempC;
+  let tempCelsius = scenario.pack.initialTempCelsius;
   let stepIndex = 0;
   let stepElapsedS = 0;
   const currentStep = () => scenario.program[stepIndex];
 
   const point = (): OperatingPoint => {
     const step = currentStep();
-    if (!step) return { cellAmps: 0, heaterAmps: 0, amps: 0, volts: pack.sourceVolts(tempC) };
-    const sourceVolts = pack.sourceVolts(tempC);
-    const ohms = pack.ohms(tempC);
+    if (!step) return { cellAmps: 0, heaterAmps: 0, amps: 0, volts: pack.sourceVolts(tempCelsius) };
+    const sourceVolts = pack.sourceVolts(tempCelsius);
+    const ohms = pack.ohms(tempCelsius);
     if (step.kind === 'discharge' || step.kind === 'rest') {
       const blocked = bms?.dischargeOpen ?? false;
       const cellAmps = step.kind === 'discharge' && !blocked ? dischargeAmps(step.load, sourceVolts, ohms) : 0;
@@ -92,24 +92,24 @@ export function createBench(scenario: Scenario, prng: Prng): Bench {
     // After the program ends the bench idles (no load, no charger) so time can still pass.
     const p = point();
     const chargeWasOpen = bms?.chargeOpen ?? false;
-    const ambientC = ambientAt(scenario.ambient, t);
-    const cellVolts = pack.cellVolts(p.cellAmps, tempC);
+    const ambientCelsius = ambientAt(scenario.ambient, t);
+    const cellVolts = pack.cellVolts(p.cellAmps, tempCelsius);
     const heaterWatts = p.heaterAmps * p.volts;
     totals.netWh += (p.volts * p.amps * dtS) / SECONDS_PER_HOUR;
     totals.netAh += (p.amps * dtS) / SECONDS_PER_HOUR;
     if (p.amps > 0) totals.dischargedWh += (p.volts * p.amps * dtS) / SECONDS_PER_HOUR;
     else totals.chargedWh -= (p.volts * p.amps * dtS) / SECONDS_PER_HOUR;
     totals.heaterWh += (heaterWatts * dtS) / SECONDS_PER_HOUR;
-    const heatWatts = pack.step(p.cellAmps, dtS, tempC) + heaterWatts;
-    tempC = stepTemperature(tempC, ambientC, heatWatts, dtS, scenario.pack.thermal);
+    const heatWatts = pack.step(p.cellAmps, dtS, tempCelsius) + heaterWatts;
+    tempCelsius = stepTemperature(tempCelsius, ambientCelsius, heatWatts, dtS, scenario.pack.thermal);
     t += dtS;
     stepElapsedS += dtS;
-    const changes: SimEvent[] = (bms?.update({ cellVolts, amps: p.cellAmps, tempC }, dtS) ?? []).map((c) => ({ t, tempC, ...c }));
+    const changes: SimEvent[] = (bms?.update({ cellVolts, amps: p.cellAmps, tempCelsius }, dtS) ?? []).map((c) => ({ t, tempCelsius, ...c }));
     events.push(...changes);
     if (heater) {
       const charging = currentStep()?.kind === 'charge';
-      const change = charging ? heater.update(tempC, t) : heater.on ? heater.update(Infinity, t) : undefined;
-      if (change) events.push({ t, kind: change === 'on' ? 'heater-on' : 'heater-off', tempC });
+      const change = charging ? heater.update(tempCelsius, t) : heater.on ? heater.update(Infinity, t) : undefined;
+      if (change) events.push({ t, kind: change === 'on' ? 'heater-on' : 'heater-off', tempCelsius });
     }
     const reason = currentStep() ? stopReason(p, changes, chargeWasOpen) : undefined;
     if (reason) {
@@ -123,8 +123,8 @@ export function createBench(scenario: Scenario, prng: Prng): Bench {
   return {
     pack, events, totals, bms, heater, point, advance,
     get t() { return t; },
-    get tempC() { return tempC; },
-    get ambientC() { return ambientAt(scenario.ambient, t); },
+    get tempCelsius() { return tempCelsius; },
+    get ambientCelsius() { return ambientAt(scenario.ambient, t); },
     get stepIndex() { return stepIndex; },
     get done() { return stepIndex >= scenario.program.length; },
   };

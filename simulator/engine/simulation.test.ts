@@ -66,8 +66,8 @@ describe('scenarios behave as their titles promise', () => {
     const offs = sim.bench.events.filter((e) => e.kind === 'heater-off');
     expect(ons.length).toBeGreaterThanOrEqual(2);
     expect(offs.length).toBeGreaterThanOrEqual(1);
-    for (const on of ons) expect(on.tempC!).toBeLessThan(heater.onBelowC);
-    for (const off of offs) expect(Math.abs(off.tempC! - heater.offAboveC)).toBeLessThan(0.1);
+    for (const on of ons) expect(on.tempCelsius!).toBeLessThan(heater.onBelowCelsius);
+    for (const off of offs) expect(Math.abs(off.tempCelsius! - heater.offAboveCelsius)).toBeLessThan(0.1);
     const inhibit = sim.bench.events.find((e) => e.kind === 'bms-trip' && e.protection === 'cold-charge');
     expect(inhibit?.t).toBe(scenario.bms!.coldChargeDelayS);
     // While inhibited, the meter sees only the heater's current; after release the cells charge too.
@@ -105,11 +105,11 @@ describe('scenarios behave as their titles promise', () => {
     const trip = sim.bench.events.find((e) => e.kind === 'bms-trip')!;
     const release = sim.bench.events.find((e) => e.kind === 'bms-release')!;
     expect(trip.protection).toBe('over-temperature');
-    expect(trip.tempC!).toBeGreaterThan(scenario.bms!.overTempC);
-    const firstHot = samples.find((s) => s.frame.temps!.cell > scenario.bms!.overTempC)!;
+    expect(trip.tempCelsius!).toBeGreaterThan(scenario.bms!.overTempCelsius);
+    const firstHot = samples.find((s) => s.frame.temps!.cell > scenario.bms!.overTempCelsius)!;
     expect(trip.t - firstHot.t).toBeGreaterThanOrEqual(scenario.bms!.overTempDelayS - 1);
     expect(trip.t - firstHot.t).toBeLessThanOrEqual(scenario.bms!.overTempDelayS);
-    expect(release.tempC!).toBeLessThanOrEqual(scenario.bms!.overTempReleaseC);
+    expect(release.tempCelsius!).toBeLessThanOrEqual(scenario.bms!.overTempReleaseCelsius);
   });
 
   it('the lead-acid reserve test stops at 10.5 V with no BMS, after a plausible reserve time', () => {

@@ -64,7 +64,7 @@ export function createSimulation(input: Scenario | ScenarioInput, options: Simul
     const t = Number((seq * meter.samplePeriodS).toFixed(6));
     const p = bench.point();
     const truth = {
-      t, volts: p.volts, amps: p.amps, cellTempC: bench.tempC, ambientC: bench.ambientC,
+      t, volts: p.volts, amps: p.amps, cellTempCelsius: bench.tempCelsius, ambientCelsius: bench.ambientCelsius,
       ...(hasHeater ? { heaterAmps: p.heaterAmps } : {}),
     };
     const frame = measure(truth, seq, meter, meterPrng);

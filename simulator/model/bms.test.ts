@@ -5,7 +5,7 @@ import { createBms, type BmsInputs } from './bms.js';
 
 const config = BmsSchema.parse(lfpBms());
 const DT_S = 0.25;
-const healthy: BmsInputs = { cellVolts: [3.3, 3.3, 3.3, 3.3], amps: 10, tempC: 25 };
+const healthy: BmsInputs = { cellVolts: [3.3, 3.3, 3.3, 3.3], amps: 10, tempCelsius: 25 };
 
 /** Feeds the same inputs for a number of seconds; returns the changes with their times. */
 function hold(bms: ReturnType<typeof createBms>, inputs: BmsInputs, seconds: number, start = 0) {
@@ -47,16 +47,16 @@ describe('BMS', () => {
     expect(high.chargeOpen && !high.dischargeOpen).toBe(true);
 
     const cold = createBms(config);
-    expect(hold(cold, { ...healthy, tempC: -1 }, config.coldChargeDelayS - DT_S)).toEqual([]);
-    expect(hold(cold, { ...healthy, tempC: -1 }, DT_S).map((c) => c.protection)).toEqual(['cold-charge']);
+    expect(hold(cold, { ...healthy, tempCelsius: -1 }, config.coldChargeDelayS - DT_S)).toEqual([]);
+    expect(hold(cold, { ...healthy, tempCelsius: -1 }, DT_S).map((c) => c.protection)).toEqual(['cold-charge']);
     expect(cold.chargeOpen && !cold.dischargeOpen).toBe(true);
-    // Hysteresis: warming past 0 °C is not enough, the release is at coldChargeReleaseC.
-    expect(hold(cold, { ...healthy, tempC: config.coldChargeReleaseC - 0.5 }, 10)).toEqual([]);
-    expect(hold(cold, { ...healthy, tempC: config.coldChargeReleaseC }, DT_S).map((c) => c.kind)).toEqual(['bms-release']);
+    // Hysteresis: warming past 0 °C is not enough, the release is at coldChargeReleaseCelsius.
+    expect(hold(cold, { ...healthy, tempCelsius: config.coldChargeReleaseCelsius - 0.5 }, 10)).toEqual([]);
+    expect(hold(cold, { ...healthy, tempCelsius: config.coldChargeReleaseCelsius }, DT_S).map((c) => c.kind)).toEqual(['bms-release']);
 
     const hot = createBms(config);
-    expect(hold(hot, { ...healthy, tempC: config.overTempC + 1 }, config.overTempDelayS - DT_S)).toEqual([]);
-    expect(hold(hot, { ...healthy, tempC: config.overTempC + 1 }, DT_S).map((c) => c.protection)).toEqual(['over-temperature']);
+    expect(hold(hot, { ...healthy, tempCelsius: config.overTempCelsius + 1 }, config.overTempDelayS - DT_S)).toEqual([]);
+    expect(hold(hot, { ...healthy, tempCelsius: config.overTempCelsius + 1 }, DT_S).map((c) => c.protection)).toEqual(['over-temperature']);
     expect(hot.chargeOpen && hot.dischargeOpen).toBe(true);
   });
 

@@ -7,7 +7,7 @@ export interface BmsInputs {
   cellVolts: readonly number[];
   /** Pack current, positive = discharge. */
   amps: number;
-  tempC: number;
+  tempCelsius: number;
 }
 
 export interface BmsChange {
@@ -59,15 +59,15 @@ function rulesFor(config: BmsConfig): Rule[] {
       protection: 'cold-charge',
       blocks: 'charge',
       delayS: config.coldChargeDelayS,
-      fault: (i) => (i.tempC < config.coldChargeBelowC ? -1 : undefined),
-      release: (i) => i.tempC >= config.coldChargeReleaseC,
+      fault: (i) => (i.tempCelsius < config.coldChargeBelowCelsius ? -1 : undefined),
+      release: (i) => i.tempCelsius >= config.coldChargeReleaseCelsius,
     },
     {
       protection: 'over-temperature',
       blocks: 'both',
       delayS: config.overTempDelayS,
-      fault: (i) => (i.tempC > config.overTempC ? -1 : undefined),
-      release: (i) => i.tempC <= config.overTempReleaseC,
+      fault: (i) => (i.tempCelsius > config.overTempCelsius ? -1 : undefined),
+      release: (i) => i.tempCelsius <= config.overTempReleaseCelsius,
     },
   ];
 }

@@ -3,7 +3,7 @@ import { createHeater } from './heater.js';
 
 describe('heater thermostat', () => {
   // The demo pack's own design (invented): 120 W at 51.2 V, on below 2 °C, off above 7 °C.
-  const params = { watts: 120, ratedVolts: 51.2, onBelowC: 2, offAboveC: 7 };
+  const params = { watts: 120, ratedVolts: 51.2, onBelowCelsius: 2, offAboveCelsius: 7 };
 
   it('switches on below the lower threshold and off above the upper one (hysteresis)', () => {
     const heater = createHeater(params);

@@ -3,8 +3,8 @@ export interface HeaterParams {
   watts: number;
   /** Pack volts at which the element draws its rated watts (it is a plain resistor). */
   ratedVolts: number;
-  onBelowC: number;
-  offAboveC: number;
+  onBelowCelsius: number;
+  offAboveCelsius: number;
   /** Pulse-width modulation while on (absent: powered all the time it is on). */
   pwm?: { onS: number; offS: number };
 }
@@ -13,7 +13,7 @@ export interface HeaterParams {
 export interface HeaterController {
   readonly on: boolean;
   /** Updates the thermostat at simulated time tS; returns 'on' or 'off' when it switches, else undefined. */
-  update(tempC: number, tS?: number): 'on' | 'off' | undefined;
+  update(tempCelsius: number, tS?: number): 'on' | 'off' | undefined;
   /** Current the element draws at a supply voltage at simulated time tS (0 when off or in a PWM off slot). */
   amps(supplyVolts: number, tS?: number): number;
 }
@@ -36,13 +36,13 @@ export function createHeater(params: HeaterParams): HeaterController {
     get on() {
       return on;
     },
-    update(tempC, tS = 0) {
-      if (!on && tempC < params.onBelowC) {
+    update(tempCelsius, tS = 0) {
+      if (!on && tempCelsius < params.onBelowCelsius) {
         on = true;
         onAtS = tS;
         return 'on';
       }
-      if (on && tempC > params.offAboveC) {
+      if (on && tempCelsius > params.offAboveCelsius) {
         on = false;
         return 'off';
       }

@@ -17,8 +17,8 @@ export const CellOverrideSchema = z.object({
 export const HeaterPwmSchema = z.object({ onS: positive, offS: positive });
 
 export const HeaterSchema = z
-  .object({ watts: positive, ratedVolts: positive, onBelowC: celsius, offAboveC: celsius, pwm: HeaterPwmSchema.optional() })
-  .refine((h) => h.offAboveC > h.onBelowC, { message: 'offAboveC must be above onBelowC (hysteresis)' });
+  .object({ watts: positive, ratedVolts: positive, onBelowCelsius: celsius, offAboveCelsius: celsius, pwm: HeaterPwmSchema.optional() })
+  .refine((h) => h.offAboveCelsius > h.onBelowCelsius, { message: 'offAboveCelsius must be above onBelowCelsius (hysteresis)' });
 
 export const PackSchema = z.object({
   label: z.string().min(1),
@@ -32,7 +32,7 @@ export const PackSchema = z.object({
   /** Ohmic resistance of one cell at 25 °C; defaults from the chemistry and capacity. */
   cellOhms: positive.optional(),
   initialSoc: z.number().min(0).max(1),
-  initialTempC: celsius,
+  initialTempCelsius: celsius,
   cells: z.array(CellOverrideSchema).default([]),
   thermal: z.object({ heatCapacityJPerK: positive, toAmbientKPerW: positive }),
   heater: HeaterSchema.optional(),
@@ -50,12 +50,12 @@ export const BmsSchema = z.object({
   overCurrentAmps: positive,
   overCurrentDelayS: nonNegative,
   overCurrentRecoveryS: nonNegative,
-  coldChargeBelowC: celsius,
+  coldChargeBelowCelsius: celsius,
   coldChargeDelayS: nonNegative,
-  coldChargeReleaseC: celsius,
-  overTempC: celsius,
+  coldChargeReleaseCelsius: celsius,
+  overTempCelsius: celsius,
   overTempDelayS: nonNegative,
-  overTempReleaseC: celsius,
+  overTempReleaseCelsius: celsius,
   /** What a meter on the terminals reads while discharge is blocked: 0 V, or the pack behind a diode. */
   openTerminal: z.enum(['zero', 'pack']).default('zero'),
 });
@@ -97,7 +97,7 @@ export const ScenarioSchema = z.object({
   pack: PackSchema,
   bms: BmsSchema.optional(),
   /** Chamber or room temperature over simulated time, interpolated linearly. */
-  ambient: z.array(z.object({ atS: nonNegative, tempC: celsius })).min(1),
+  ambient: z.array(z.object({ atS: nonNegative, tempCelsius: celsius })).min(1),
   program: z.array(ProgramStepSchema).min(1),
   meter: MeterSchema.default(MeterSchema.parse({})),
   /** Physics step; the meter's sample period is cut into steps no longer than this. */

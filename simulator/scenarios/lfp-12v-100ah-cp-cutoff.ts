@@ -16,11 +16,11 @@ export const lfp12v100ahCpCutoff: ScenarioInput = {
     capacityFactor: 1.02,
     capacityTolerancePct: 1.5,
     initialSoc: 1,
-    initialTempC: 23,
+    initialTempCelsius: 23,
     thermal: lfpThermal(4, 100),
   },
   bms: lfpBms(),
-  ambient: [{ atS: 0, tempC: 23 }],
+  ambient: [{ atS: 0, tempCelsius: 23 }],
   program: [
     { kind: 'discharge', load: { mode: 'cp', watts: 600 }, maxS: 4 * 3600, stopWhen: 'bms-trip' },
     { kind: 'rest', maxS: 900 },

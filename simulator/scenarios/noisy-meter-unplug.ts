@@ -14,11 +14,11 @@ export const noisyMeterUnplug: ScenarioInput = {
     cellsInSeries: 4,
     ratedAh: 50,
     initialSoc: 0.9,
-    initialTempC: 21,
+    initialTempCelsius: 21,
     thermal: lfpThermal(4, 50),
   },
   bms: lfpBms(),
-  ambient: [{ atS: 0, tempC: 21 }],
+  ambient: [{ atS: 0, tempCelsius: 21 }],
   program: [{ kind: 'discharge', load: { mode: 'cc', amps: 20 }, maxS: 1800 }, { kind: 'rest', maxS: 300 }],
   meter: {
     samplePeriodS: 1,

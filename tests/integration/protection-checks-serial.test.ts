@@ -100,9 +100,9 @@ describe('protection checks over the real serial path give back the BMS settings
     const bms = checkColdCharge.bms!;
     const heater = checkColdCharge.pack.heater!;
     const p = await play(checkColdCharge, [
-      { protection: 'cold-charge', thresholdValue: bms.coldChargeBelowC, delaySeconds: bms.coldChargeDelayS, releaseValue: bms.coldChargeReleaseC, channel: 'cell' },
-      { protection: 'heater-on', thresholdValue: heater.onBelowC, channel: 'cell' },
-      { protection: 'heater-off', thresholdValue: heater.offAboveC, channel: 'cell' },
+      { protection: 'cold-charge', thresholdValue: bms.coldChargeBelowCelsius, delaySeconds: bms.coldChargeDelayS, releaseValue: bms.coldChargeReleaseCelsius, channel: 'cell' },
+      { protection: 'heater-on', thresholdValue: heater.onBelowCelsius, channel: 'cell' },
+      { protection: 'heater-off', thresholdValue: heater.offAboveCelsius, channel: 'cell' },
     ]);
     expect(p.summary.verdict).toBe('not-applicable');
     expect(p.summary.percentRatedAh).toBeNull();
@@ -110,14 +110,14 @@ describe('protection checks over the real serial path give back the BMS settings
     const [cold, on, off] = p.rows;
     expectGivenBack(p, cold!, 'cold-charge', 'cold-charge', bms.coldChargeDelayS);
     // Charging resumes once the pack has warmed past the release temperature (within a sample's warming).
-    expect(cold!.releaseValue!).toBeGreaterThanOrEqual(bms.coldChargeReleaseC - 0.05);
-    expect(cold!.releaseValue!).toBeLessThan(bms.coldChargeReleaseC + 0.1);
+    expect(cold!.releaseValue!).toBeGreaterThanOrEqual(bms.coldChargeReleaseCelsius - 0.05);
+    expect(cold!.releaseValue!).toBeLessThan(bms.coldChargeReleaseCelsius + 0.1);
     const simOn = p.sim.find((e) => e.kind === 'heater-on')!;
     const simOff = p.sim.find((e) => e.kind === 'heater-off')!;
     expect(on).toMatchObject({ protection: 'heater-on', outcome: 'pass' });
     expect(off).toMatchObject({ protection: 'heater-off', outcome: 'pass' });
-    expect(Math.abs(on!.measuredValue! - simOn.tempC!)).toBeLessThan(0.1);
-    expect(Math.abs(off!.measuredValue! - simOff.tempC!)).toBeLessThan(0.1);
+    expect(Math.abs(on!.measuredValue! - simOn.tempCelsius!)).toBeLessThan(0.1);
+    expect(Math.abs(off!.measuredValue! - simOff.tempCelsius!)).toBeLessThan(0.1);
     // PWM 2 s on / 1 s off: the mean is about two thirds of the peak (V²/R at the charger's voltage).
     expect(off!.meanHeaterAmps! / off!.peakHeaterAmps!).toBeGreaterThan(0.6);
     expect(off!.meanHeaterAmps! / off!.peakHeaterAmps!).toBeLessThan(0.73);
@@ -125,9 +125,9 @@ describe('protection checks over the real serial path give back the BMS settings
 
   it('over-temperature on discharge and on charge', async () => {
     const bms = checkHotDischarge.bms!;
-    const d = await play(checkHotDischarge, [{ protection: 'over-temp-discharge', thresholdValue: bms.overTempC, delaySeconds: bms.overTempDelayS, channel: 'cell' }]);
+    const d = await play(checkHotDischarge, [{ protection: 'over-temp-discharge', thresholdValue: bms.overTempCelsius, delaySeconds: bms.overTempDelayS, channel: 'cell' }]);
     expectGivenBack(d, d.rows[0]!, 'over-temp-discharge', 'over-temperature', bms.overTempDelayS);
-    const c = await play(checkHotCharge, [{ protection: 'over-temp-charge', thresholdValue: bms.overTempC, delaySeconds: bms.overTempDelayS, channel: 'cell' }]);
+    const c = await play(checkHotCharge, [{ protection: 'over-temp-charge', thresholdValue: bms.overTempCelsius, delaySeconds: bms.overTempDelayS, channel: 'cell' }]);
     expectGivenBack(c, c.rows[0]!, 'over-temp-charge', 'over-temperature', bms.overTempDelayS);
   }, 240_000);
 
