@@ -55,16 +55,16 @@ export async function run(): Promise<Record<string, string | number>> {
     });
     const importMs = performance.now() - i0;
     const importCpu = process.cpuUsage(c1);
-    const cpuS = (u: NodeJS.CpuUsage) => ((u.user + u.system) / 1e6).toFixed(2);
+    const cpuSeconds = (u: NodeJS.CpuUsage) => ((u.user + u.system) / 1e6).toFixed(2);
     const [load1] = loadavg();
     const figures = {
       rows: res.summary.rows,
       fileMB: (bytes / 1e6).toFixed(1),
-      surveyPassS: (surveyMs / 1000).toFixed(2),
-      importTotalS: (importMs / 1000).toFixed(2),
+      surveyPassSeconds: (surveyMs / 1000).toFixed(2),
+      importTotalSeconds: (importMs / 1000).toFixed(2),
       rowsPerSecond: Math.round(ROWS / (importMs / 1000)),
-      surveyPassCpuS: cpuS(surveyCpu),
-      importNodeCpuS: cpuS(importCpu),
+      surveyPassCpuSeconds: cpuSeconds(surveyCpu),
+      importNodeCpuSeconds: cpuSeconds(importCpu),
       loadAverage1m: load1!.toFixed(1),
       chargeAh: res.summary.chargeAh.toFixed(6),
     };

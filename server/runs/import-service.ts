@@ -59,7 +59,7 @@ export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: Impor
   }
   const delimiter = await sniffDelimiter(req.filePath);
   const survey = await surveyFile(req.filePath, delimiter, req.columns, req.timeZone ?? 'UTC');
-  const { plan, rows, duplicates, medianStepS } = survey;
+  const { plan, rows, duplicates, medianStepSeconds } = survey;
   const sign = settleSign(req, survey.sign);
   const config: RunConfig = {
     kind: 'capacity-discharge',
@@ -81,7 +81,7 @@ export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: Impor
   });
   try {
     // Gaps are judged against the file's own cadence (its median interval) unless a limit was typed.
-    const pipeline = createRunPipeline(measureConfigFor(config, req.battery, { cadenceSeconds: medianStepS }));
+    const pipeline = createRunPipeline(measureConfigFor(config, req.battery, { cadenceSeconds: medianStepSeconds }));
     const maxGapSeconds = pipeline.gapLimit.seconds;
     const events: RunEvent[] = [];
     let pending: Reading[] = [];
@@ -125,14 +125,14 @@ export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: Impor
       summary: {
         energyWh: summary.capacityWh ?? totals.dischargeWh,
         chargeAh: summary.capacityAh ?? totals.dischargeAh,
-        durationS: summary.durationSeconds,
-        cutoff: cutoff ? { atS: cutoff.t, volts: cutoff.volts } : null,
-        recoveryS: recovery?.recoverySeconds ?? null,
+        durationSeconds: summary.durationSeconds,
+        cutoff: cutoff ? { atSeconds: cutoff.t, volts: cutoff.volts } : null,
+        recoverySeconds: recovery?.recoverySeconds ?? null,
         rows,
         duplicateTimes: duplicates,
-        medianIntervalS: medianStepS,
+        medianIntervalSeconds: medianStepSeconds,
         maxGapSeconds,
-        notices: importNotices({ plan, sign, duplicates, medianStepS, maxGapSeconds, gapsFromForm: req.maxGapSeconds !== undefined }),
+        notices: importNotices({ plan, sign, duplicates, medianStepSeconds, maxGapSeconds, gapsFromForm: req.maxGapSeconds !== undefined }),
         ...(req.battery ? { percentOfRated: summary.percentRatedAh } : {}),
       },
       fullSummary: summary,

@@ -23,7 +23,7 @@ export interface Survey {
   rows: number;
   duplicates: DuplicateTimes;
   /** Median step between distinct times, seconds: the file's cadence. */
-  medianStepS: number | null;
+  medianStepSeconds: number | null;
   firstT: number;
   lastT: number;
   sign: SignTally;
@@ -90,8 +90,8 @@ export async function surveyFile(filePath: string, delimiter: Delimiter, overrid
   // A header alone (or a file that is no CSV) is reported by what is wrong with its header first.
   plan ??= makePlan(null);
   if (rows < 2) throw new HttpError(400, `line ${rows + 2}: at least two readings are needed after the header`);
-  const medianStepS = medianOfCounts(steps);
+  const medianStepSeconds = medianOfCounts(steps);
   if (plan.temp && firstTempCelsius !== null) checkAssumedTempUnit(plan.temp, firstTempCelsius);
-  checkTimeSteps({ format: plan.time.format, source: plan.time.source, column: plan.time.column, medianStepS, spanS: lastT - firstT });
-  return { plan, rows, duplicates, medianStepS, firstT, lastT, sign };
+  checkTimeSteps({ format: plan.time.format, source: plan.time.source, column: plan.time.column, medianStepSeconds, spanSeconds: lastT - firstT });
+  return { plan, rows, duplicates, medianStepSeconds, firstT, lastT, sign };
 }

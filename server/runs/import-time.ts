@@ -145,8 +145,8 @@ export interface TimeStepFacts {
   source: TimeFormatSource;
   column: string;
   /** Median step between distinct times, seconds (null with fewer than two distinct times). */
-  medianStepS: number | null;
-  spanS: number;
+  medianStepSeconds: number | null;
+  spanSeconds: number;
 }
 
 /**
@@ -157,11 +157,11 @@ export interface TimeStepFacts {
 export function checkTimeSteps(f: TimeStepFacts): void {
   const how = f.source === 'inferred' ? `read as ${TIME_FORMAT_WORDS[f.format]}` : `in ${TIME_FORMAT_WORDS[f.format]}`;
   const other = 'choose the time format that matches the file';
-  if (f.spanS > MAX_LOG_SPAN_S) throw askFormat(`time column "${f.column}" ${how} spans ${(f.spanS / SECONDS_PER_DAY).toFixed(0)} days, more than a year; ${other}`);
-  if (f.medianStepS === null) return;
-  if (f.medianStepS < MIN_MEDIAN_STEP_S) throw askFormat(`time column "${f.column}" ${how} steps ${f.medianStepS} s (median), finer than any battery logger; ${other}`);
-  if (f.medianStepS > MAX_MEDIAN_STEP_S) throw askFormat(`time column "${f.column}" ${how} steps ${f.medianStepS} s (median), more than an hour between readings; ${other}`);
-  if (f.source === 'inferred' && f.format === 's' && f.medianStepS > MAX_INFERRED_SECONDS_STEP_S) {
-    throw askFormat(`time column "${f.column}" has no unit and steps of ${f.medianStepS} (median): seconds (${(f.medianStepS / 60).toFixed(1)} min apart) or milliseconds (${f.medianStepS / MS_PER_S} s apart)? Choose the time format`);
+  if (f.spanSeconds > MAX_LOG_SPAN_S) throw askFormat(`time column "${f.column}" ${how} spans ${(f.spanSeconds / SECONDS_PER_DAY).toFixed(0)} days, more than a year; ${other}`);
+  if (f.medianStepSeconds === null) return;
+  if (f.medianStepSeconds < MIN_MEDIAN_STEP_S) throw askFormat(`time column "${f.column}" ${how} steps ${f.medianStepSeconds} s (median), finer than any battery logger; ${other}`);
+  if (f.medianStepSeconds > MAX_MEDIAN_STEP_S) throw askFormat(`time column "${f.column}" ${how} steps ${f.medianStepSeconds} s (median), more than an hour between readings; ${other}`);
+  if (f.source === 'inferred' && f.format === 's' && f.medianStepSeconds > MAX_INFERRED_SECONDS_STEP_S) {
+    throw askFormat(`time column "${f.column}" has no unit and steps of ${f.medianStepSeconds} (median): seconds (${(f.medianStepSeconds / 60).toFixed(1)} min apart) or milliseconds (${f.medianStepSeconds / MS_PER_S} s apart)? Choose the time format`);
   }
 }

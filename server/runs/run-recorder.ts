@@ -53,7 +53,7 @@ type StartRequest = z.infer<typeof StartRunRequestSchema>;
 export interface KeptReading {
   index: number;
   frame: Frame;
-  arrivalS: number;
+  arrivalSeconds: number;
 }
 
 /** How far past a live run's latest reading a note may be placed (a browser clock a little ahead). */
@@ -135,7 +135,7 @@ export class RunRecorder {
     }
     if (replayed < expected)
       this.log.warn(`run ${runId}: replay stopped after ${replayed} of the journalled readings (indexes did not follow on)`);
-    if (last) session.clock.resumeAfter(last.frame.t, last.arrivalS);
+    if (last) session.clock.resumeAfter(last.frame.t, last.arrivalSeconds);
     return replayed;
   }
 
@@ -225,10 +225,10 @@ export class RunRecorder {
     const stored = session ? null : await this.deps.repo.get(runId);
     if (!session && !stored) throw notFound(`Run ${runId}`);
     // A note belongs within the run: up to its latest reading (live), or its length (ended).
-    const lengthS = session ? (session.lastElapsed ?? 0) + NOTE_AHEAD_OF_LIVE_S : (stored?.summary?.durationSeconds ?? null);
-    if (t !== undefined && lengthS !== null && t > lengthS) {
+    const lengthSeconds = session ? (session.lastElapsed ?? 0) + NOTE_AHEAD_OF_LIVE_S : (stored?.summary?.durationSeconds ?? null);
+    if (t !== undefined && lengthSeconds !== null && t > lengthSeconds) {
       const what = session ? 'the latest reading' : 'the end of the run';
-      throw new HttpError(400, `The note's time (${t} s) is after ${what} (${lengthS.toFixed(1)} s)`, { t: [`at most ${lengthS.toFixed(1)} s`] });
+      throw new HttpError(400, `The note's time (${t} s) is after ${what} (${lengthSeconds.toFixed(1)} s)`, { t: [`at most ${lengthSeconds.toFixed(1)} s`] });
     }
     const at = t ?? session?.lastElapsed ?? 0;
     const note = await this.deps.repo.insertEvent(runId, { type: 'annotation', t: at, text, author: author.name }, author.id);

@@ -12,6 +12,7 @@ import { encodeChunk } from '../archive/chunk-encode.js';
 import { readingsToColumns } from '../archive/reading-columns.js';
 import type { BatteryFacts } from './measure-config.js';
 import { emptyClockState, SourceClockGuard, type ClockGuardState } from './source-clock-guard.js';
+import { withCurrentKeys } from '../../shared/schemas/legacy-keys.js';
 
 /** Everything needed to pick a run up again after a restart; stored with each batch. */
 export interface RunSessionSnapshot {
@@ -45,7 +46,9 @@ const FRESH_FIELDS: Omit<SessionFields, 'state'> = {
  */
 function sessionFields(previous: RunSessionSnapshot): SessionFields {
   const { nextSeq, nextEventSeq, state, recoveredAt, cutoffAt, cutoffCause, lastElapsed, tempAlarmRaised, clock } = previous;
-  return { nextSeq, nextEventSeq, state, recoveredAt, cutoffAt, cutoffCause, lastElapsed, tempAlarmRaised, clock: clock ?? emptyClockState() };
+  // A snapshot stored before the renames names the clock guard's fields offsetS, lastArrivalS, suspectArrivalS.
+  const current = clock ? (withCurrentKeys(clock) as ClockGuardState) : emptyClockState();
+  return { nextSeq, nextEventSeq, state, recoveredAt, cutoffAt, cutoffCause, lastElapsed, tempAlarmRaised, clock: current };
 }
 
 /** One event with its per-run sequence number (its idempotency key in the archive). */

@@ -163,7 +163,7 @@ export const SerialSourceConfigSchema = z.object({
   dataBits: z.union([z.literal(7), z.literal(8)]).default(8),
   parity: z.enum(['none', 'even', 'odd']).default('none'),
   stopBits: z.union([z.literal(1), z.literal(2)]).default(1),
-  staleAfterS: z.number().min(1).max(3600).default(DEFAULT_STALE_AFTER_S),
+  staleAfterSeconds: z.number().min(1).max(3600).default(DEFAULT_STALE_AFTER_S),
   format: SerialFormatSchema,
   limits: FrameLimitsSchema.prefault({}),
 });
@@ -176,7 +176,7 @@ export const SimulatorSourceConfigSchema = z.object({
   seed: z.number().int().min(0).max(2 ** 31 - 1).default(1),
   /** Absent: frames handed over in-process. Present: bytes through a pseudo-terminal in that format. */
   format: z.enum(['csv', 'jsonl', 'scpi', 'modbus']).optional(),
-  staleAfterS: z.number().min(1).max(3600).default(DEFAULT_STALE_AFTER_S),
+  staleAfterSeconds: z.number().min(1).max(3600).default(DEFAULT_STALE_AFTER_S),
   limits: FrameLimitsSchema.prefault({}),
 });
 

@@ -39,8 +39,8 @@ export interface Bench {
   readonly heater: HeaterController | undefined;
   /** The operating point right now. */
   point(): OperatingPoint;
-  /** Advances the physics by dtS seconds. */
-  advance(dtS: number): void;
+  /** Advances the physics by dtSeconds seconds. */
+  advance(dtSeconds: number): void;
 }
 
 /** Creates the bench model for a scenario; physics randomness comes from `prng`. */
@@ -53,7 +53,7 @@ export function createBench(scenario: Scenario, prng: Prng): Bench {
   let t = 0;
   let tempCelsius = scenario.pack.initialTempCelsius;
   let stepIndex = 0;
-  let stepElapsedS = 0;
+  let stepElapsedSeconds = 0;
   const currentStep = () => scenario.program[stepIndex];
 
   const point = (): OperatingPoint => {
@@ -83,28 +83,28 @@ export function createBench(scenario: Scenario, prng: Prng): Bench {
     // A blocked charger carries no current: that is not a full pack.
     if (step.kind === 'charge' && step.stopWhen === 'charged' && !chargeWasOpen && !bms?.chargeOpen) {
       const termAmps = step.charger.termAmps ?? step.charger.ccAmps * DEFAULT_TERM_FRACTION;
-      if (-p.cellAmps < termAmps && stepElapsedS > CHARGED_SETTLE_S) return 'charged';
+      if (-p.cellAmps < termAmps && stepElapsedSeconds > CHARGED_SETTLE_S) return 'charged';
     }
-    return stepElapsedS >= step.maxS ? 'max-time' : undefined;
+    return stepElapsedSeconds >= step.maxSeconds ? 'max-time' : undefined;
   };
 
-  const advance = (dtS: number): void => {
+  const advance = (dtSeconds: number): void => {
     // After the program ends the bench idles (no load, no charger) so time can still pass.
     const p = point();
     const chargeWasOpen = bms?.chargeOpen ?? false;
     const ambientCelsius = ambientAt(scenario.ambient, t);
     const cellVolts = pack.cellVolts(p.cellAmps, tempCelsius);
     const heaterWatts = p.heaterAmps * p.volts;
-    totals.netWh += (p.volts * p.amps * dtS) / SECONDS_PER_HOUR;
-    totals.netAh += (p.amps * dtS) / SECONDS_PER_HOUR;
-    if (p.amps > 0) totals.dischargedWh += (p.volts * p.amps * dtS) / SECONDS_PER_HOUR;
-    else totals.chargedWh -= (p.volts * p.amps * dtS) / SECONDS_PER_HOUR;
-    totals.heaterWh += (heaterWatts * dtS) / SECONDS_PER_HOUR;
-    const heatWatts = pack.step(p.cellAmps, dtS, tempCelsius) + heaterWatts;
-    tempCelsius = stepTemperature(tempCelsius, ambientCelsius, heatWatts, dtS, scenario.pack.thermal);
-    t += dtS;
-    stepElapsedS += dtS;
-    const changes: SimEvent[] = (bms?.update({ cellVolts, amps: p.cellAmps, tempCelsius }, dtS) ?? []).map((c) => ({ t, tempCelsius, ...c }));
+    totals.netWh += (p.volts * p.amps * dtSeconds) / SECONDS_PER_HOUR;
+    totals.netAh += (p.amps * dtSeconds) / SECONDS_PER_HOUR;
+    if (p.amps > 0) totals.dischargedWh += (p.volts * p.amps * dtSeconds) / SECONDS_PER_HOUR;
+    else totals.chargedWh -= (p.volts * p.amps * dtSeconds) / SECONDS_PER_HOUR;
+    totals.heaterWh += (heaterWatts * dtSeconds) / SECONDS_PER_HOUR;
+    const heatWatts = pack.step(p.cellAmps, dtSeconds, tempCelsius) + heaterWatts;
+    tempCelsius = stepTemperature(tempCelsius, ambientCelsius, heatWatts, dtSeconds, scenario.pack.thermal);
+    t += dtSeconds;
+    stepElapsedSeconds += dtSeconds;
+    const changes: SimEvent[] = (bms?.update({ cellVolts, amps: p.cellAmps, tempCelsius }, dtSeconds) ?? []).map((c) => ({ t, tempCelsius, ...c }));
     events.push(...changes);
     if (heater) {
       const charging = currentStep()?.kind === 'charge';
@@ -115,7 +115,7 @@ export function createBench(scenario: Scenario, prng: Prng): Bench {
     if (reason) {
       events.push({ t, kind: 'step-end', step: stepIndex, reason });
       stepIndex += 1;
-      stepElapsedS = 0;
+      stepElapsedSeconds = 0;
       if (currentStep()) events.push({ t, kind: 'step-start', step: stepIndex });
     }
   };

@@ -7,8 +7,8 @@ const base = loadScenario('lfp-12v-weak-cell');
 const at = (tempCelsius: number): Scenario => ({
   ...base,
   pack: { ...base.pack, cells: [], initialTempCelsius: tempCelsius },
-  ambient: [{ atS: 0, tempCelsius }],
-  program: [{ kind: 'discharge', load: { mode: 'cp', watts: 600 }, maxS: 4 * 3600, stopWhen: 'bms-trip' }],
+  ambient: [{ atSeconds: 0, tempCelsius }],
+  program: [{ kind: 'discharge', load: { mode: 'cp', watts: 600 }, maxSeconds: 4 * 3600, stopWhen: 'bms-trip' }],
 });
 
 function run(scenario: Scenario) {

@@ -18,7 +18,7 @@ export interface Player {
  */
 export function playSamples(
   source: { step(): SimSample | undefined },
-  samplePeriodS: number,
+  samplePeriodSeconds: number,
   speed: number,
   clock: Clock,
   onSample: (sample: SimSample) => void,
@@ -26,7 +26,7 @@ export function playSamples(
   if (!(speed > 0)) throw new Error(`speed must be a positive number, got ${speed}`);
   const startMs = clock.now();
   // Multiply before dividing so that sample 60 at 60× is due at exactly 1000 ms.
-  const dueAtMs = (k: number): number => startMs + (k * samplePeriodS * MS_PER_S) / speed;
+  const dueAtMs = (k: number): number => startMs + (k * samplePeriodSeconds * MS_PER_S) / speed;
   let index = 0;
   let handle: unknown;
   let stopped = false;

@@ -69,7 +69,7 @@ describe('scenarios behave as their titles promise', () => {
     for (const on of ons) expect(on.tempCelsius!).toBeLessThan(heater.onBelowCelsius);
     for (const off of offs) expect(Math.abs(off.tempCelsius! - heater.offAboveCelsius)).toBeLessThan(0.1);
     const inhibit = sim.bench.events.find((e) => e.kind === 'bms-trip' && e.protection === 'cold-charge');
-    expect(inhibit?.t).toBe(scenario.bms!.coldChargeDelayS);
+    expect(inhibit?.t).toBe(scenario.bms!.coldChargeDelaySeconds);
     // While inhibited, the meter sees only the heater's current; after release the cells charge too.
     const blocked = samples.find((s) => s.t === 60)!.frame;
     expect(blocked.amps).toBeCloseTo(-blocked.aux!.heaterAmps, 1);
@@ -85,7 +85,7 @@ describe('scenarios behave as their titles promise', () => {
     const trip = sim.bench.events.find((e) => e.kind === 'bms-trip')!;
     const release = sim.bench.events.find((e) => e.kind === 'bms-release')!;
     expect(trip.protection).toBe('under-voltage');
-    expect(release.t - trip.t).toBeCloseTo(scenario.bms!.underVoltRecoveryS, 6);
+    expect(release.t - trip.t).toBeCloseTo(scenario.bms!.underVoltRecoverySeconds, 6);
     // On the wire: 0 V while open, the pack's voltage again once it reconnects, relaxing upwards.
     const open = samples.filter((s) => s.t > trip.t && s.t < release.t);
     expect(open.every((s) => s.frame.volts < 0.1)).toBe(true);
@@ -107,8 +107,8 @@ describe('scenarios behave as their titles promise', () => {
     expect(trip.protection).toBe('over-temperature');
     expect(trip.tempCelsius!).toBeGreaterThan(scenario.bms!.overTempCelsius);
     const firstHot = samples.find((s) => s.frame.temps!.cell > scenario.bms!.overTempCelsius)!;
-    expect(trip.t - firstHot.t).toBeGreaterThanOrEqual(scenario.bms!.overTempDelayS - 1);
-    expect(trip.t - firstHot.t).toBeLessThanOrEqual(scenario.bms!.overTempDelayS);
+    expect(trip.t - firstHot.t).toBeGreaterThanOrEqual(scenario.bms!.overTempDelaySeconds - 1);
+    expect(trip.t - firstHot.t).toBeLessThanOrEqual(scenario.bms!.overTempDelaySeconds);
     expect(release.tempCelsius!).toBeLessThanOrEqual(scenario.bms!.overTempReleaseCelsius);
   });
 
@@ -129,8 +129,8 @@ describe('scenarios behave as their titles promise', () => {
     const sim = createSimulation(loadScenario('noisy-meter-unplug'), { seed: 8 });
     const samples = runToEnd(sim);
     const unplug = sim.meter.unplugs[0];
-    const during = samples.filter((s) => s.t >= unplug.atS && s.t < unplug.atS + unplug.forS);
-    expect(during.length).toBe(unplug.forS);
+    const during = samples.filter((s) => s.t >= unplug.atSeconds && s.t < unplug.atSeconds + unplug.forSeconds);
+    expect(during.length).toBe(unplug.forSeconds);
     expect(during.every((s) => s.lost === 'unplugged')).toBe(true);
     const dropped = samples.filter((s) => s.lost === 'dropped').length / samples.length;
     const corrupt = samples.filter((s) => s.corrupt).length / samples.length;

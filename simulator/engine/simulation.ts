@@ -55,13 +55,13 @@ export function createSimulation(input: Scenario | ScenarioInput, options: Simul
   const bench = createBench(scenario, createPrng(seed, 'physics'));
   const meterPrng = createPrng(seed, 'meter');
   const hasHeater = scenario.pack.heater !== undefined;
-  const substeps = Math.max(1, Math.ceil(meter.samplePeriodS / scenario.maxPhysicsStepS - STEP_COUNT_EPSILON));
-  const dtS = meter.samplePeriodS / substeps;
+  const substeps = Math.max(1, Math.ceil(meter.samplePeriodSeconds / scenario.maxPhysicsStepSeconds - STEP_COUNT_EPSILON));
+  const dtSeconds = meter.samplePeriodSeconds / substeps;
   let seq = 0;
   let wasPlugged = true;
 
   const sample = (): SimSample => {
-    const t = Number((seq * meter.samplePeriodS).toFixed(6));
+    const t = Number((seq * meter.samplePeriodSeconds).toFixed(6));
     const p = bench.point();
     const truth = {
       t, volts: p.volts, amps: p.amps, cellTempCelsius: bench.tempCelsius, ambientCelsius: bench.ambientCelsius,
@@ -86,14 +86,14 @@ export function createSimulation(input: Scenario | ScenarioInput, options: Simul
     step() {
       if (seq === 0) return sample();
       if (bench.done) return undefined;
-      for (let i = 0; i < substeps; i += 1) bench.advance(dtS);
+      for (let i = 0; i < substeps; i += 1) bench.advance(dtSeconds);
       return sample();
     },
     *frames() {
       for (let s = simulation.step(); s; s = simulation.step()) if (!s.lost && !s.corrupt) yield s.frame;
     },
     play(onSample) {
-      return playSamples(simulation, meter.samplePeriodS, options.speed ?? 1, options.clock ?? systemClock, onSample);
+      return playSamples(simulation, meter.samplePeriodSeconds, options.speed ?? 1, options.clock ?? systemClock, onSample);
     },
   };
   return simulation;

@@ -52,5 +52,5 @@ export function measure(truth: TrueReading, seq: number, config: MeterConfig, pr
 
 /** Whether the meter's cable is plugged in at simulated time tS. */
 export function isPlugged(config: MeterConfig, tS: number): boolean {
-  return !config.unplugs.some((u) => tS >= u.atS && tS < u.atS + u.forS);
+  return !config.unplugs.some((u) => tS >= u.atSeconds && tS < u.atSeconds + u.forSeconds);
 }

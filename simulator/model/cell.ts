@@ -42,8 +42,8 @@ export interface Cell {
   ohms(tempCelsius: number): number;
   /** RC pair resistance at a temperature, carrying amps (charging near full adds the end-of-charge rise). */
   rcOhms(tempCelsius: number, amps?: number): number;
-  /** Advances the cell by dtS seconds carrying amps (positive = discharge). */
-  step(amps: number, dtS: number, tempCelsius: number): void;
+  /** Advances the cell by dtSeconds seconds carrying amps (positive = discharge). */
+  step(amps: number, dtSeconds: number, tempCelsius: number): void;
 }
 
 /** Creates a cell model from its parameters. */
@@ -75,14 +75,14 @@ export function createCell(params: CellParams): Cell {
       const endOfCharge = 1 + HIGH_SOC_CHARGE_GAIN[params.chemistry] * depth * depth;
       return params.ohmicOhms * chem.rcResistanceRatio * temperatureFactor(tempCelsius) * endOfCharge;
     },
-    step(amps, dtS, tempCelsius) {
+    step(amps, dtSeconds, tempCelsius) {
       // Exact solution of the RC pair for a current held constant over the step.
-      const decay = Math.exp(-dtS / chem.rcTauSeconds);
+      const decay = Math.exp(-dtSeconds / chem.rcTauSeconds);
       cell.rcVolts = cell.rcVolts * decay + amps * cell.rcOhms(tempCelsius, amps) * (1 - decay);
       // Peukert: discharging faster than the rated rate uses up more charge than it delivers.
       const peukert =
         amps > 0 ? Math.pow(amps / referenceAmps, chem.peukertExponent - 1) : 1;
-      cell.soc -= (amps * peukert * dtS) / (SECONDS_PER_HOUR * params.capacityAh);
+      cell.soc -= (amps * peukert * dtSeconds) / (SECONDS_PER_HOUR * params.capacityAh);
     },
   };
   return cell;

@@ -6,7 +6,7 @@ export interface HeaterParams {
   onBelowCelsius: number;
   offAboveCelsius: number;
   /** Pulse-width modulation while on (absent: powered all the time it is on). */
-  pwm?: { onS: number; offS: number };
+  pwm?: { onSeconds: number; offSeconds: number };
 }
 
 /** Thermostat state: switches on below one threshold and off above another. */
@@ -25,12 +25,12 @@ const PWM_EPSILON_S = 1e-9;
 export function createHeater(params: HeaterParams): HeaterController {
   const elementOhms = (params.ratedVolts * params.ratedVolts) / params.watts;
   let on = false;
-  let onAtS = 0;
+  let onAtSeconds = 0;
   const powered = (tS: number): boolean => {
     if (!params.pwm) return true;
-    const period = params.pwm.onS + params.pwm.offS;
-    const phase = (tS - onAtS + PWM_EPSILON_S) % period;
-    return phase < params.pwm.onS;
+    const period = params.pwm.onSeconds + params.pwm.offSeconds;
+    const phase = (tS - onAtSeconds + PWM_EPSILON_S) % period;
+    return phase < params.pwm.onSeconds;
   };
   return {
     get on() {
@@ -39,7 +39,7 @@ export function createHeater(params: HeaterParams): HeaterController {
     update(tempCelsius, tS = 0) {
       if (!on && tempCelsius < params.onBelowCelsius) {
         on = true;
-        onAtS = tS;
+        onAtSeconds = tS;
         return 'on';
       }
       if (on && tempCelsius > params.offAboveCelsius) {

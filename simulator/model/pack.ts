@@ -17,7 +17,7 @@ export interface Pack {
   /** Each cell's terminal volts while the pack carries amps. */
   cellVolts(amps: number, tempCelsius: number): number[];
   /** Advances every cell and returns the heat released (W) during the step. */
-  step(amps: number, dtS: number, tempCelsius: number): number;
+  step(amps: number, dtSeconds: number, tempCelsius: number): number;
 }
 
 /** Builds a series pack from per-cell specifications. */
@@ -30,12 +30,12 @@ export function createPack(chemistry: Chemistry, ratedAh: number, specs: readonl
     sourceVolts: (tempCelsius) => cells.reduce((sum, cell) => sum + cell.ocv(tempCelsius) - cell.rcVolts, 0),
     ohms: (tempCelsius) => cells.reduce((sum, cell) => sum + cell.ohms(tempCelsius), 0),
     cellVolts: (amps, tempCelsius) => cells.map((cell) => cell.ocv(tempCelsius) - cell.rcVolts - amps * cell.ohms(tempCelsius)),
-    step(amps, dtS, tempCelsius) {
+    step(amps, dtSeconds, tempCelsius) {
       let heatWatts = 0;
       for (const cell of cells) {
         // Joule heat in the ohmic part plus the RC pair's resistor, taken before the update.
         heatWatts += amps * amps * cell.ohms(tempCelsius) + (cell.rcVolts * cell.rcVolts) / cell.rcOhms(tempCelsius, amps);
-        cell.step(amps, dtS, tempCelsius);
+        cell.step(amps, dtSeconds, tempCelsius);
       }
       return heatWatts;
     },

@@ -14,10 +14,10 @@ export function stepTemperature(
   tempCelsius: number,
   ambientCelsius: number,
   heatWatts: number,
-  dtS: number,
+  dtSeconds: number,
   params: ThermalParams,
 ): number {
   const steadyCelsius = ambientCelsius + heatWatts * params.toAmbientKPerW;
-  const tauS = params.heatCapacityJPerK * params.toAmbientKPerW;
-  return steadyCelsius + (tempCelsius - steadyCelsius) * Math.exp(-dtS / tauS);
+  const tauSeconds = params.heatCapacityJPerK * params.toAmbientKPerW;
+  return steadyCelsius + (tempCelsius - steadyCelsius) * Math.exp(-dtSeconds / tauSeconds);
 }

@@ -2,6 +2,7 @@ import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
+import { LEGACY_KEYS } from '../../shared/schemas/legacy-keys.js';
 import { listScenarios, loadScenario } from './registry.js';
 
 describe('scenario registry', () => {
@@ -29,9 +30,11 @@ describe('scenario registry', () => {
   it('reads a scenario file written with the old key names as the same scenario', () => {
     const dir = mkdtempSync(join(tmpdir(), 'kneepoint-scenario-'));
     const current = loadScenario(listScenarios().find((s) => s.name.startsWith('check-'))!.name);
-    // The file as it was written before the renames: every *Celsius key in its old *C spelling.
-    const oldText = JSON.stringify(current).replace(/"(\w+)Celsius"/g, (_m, stem: string) => `"${stem}C"`);
-    expect(oldText).not.toMatch(/Celsius/);
+    // The file as it was written before the renames: every renamed key in its old spelling.
+    const oldName = new Map(Object.entries(LEGACY_KEYS).map(([old, current]) => [current, old]));
+    const oldText = JSON.stringify(current).replace(/"(\w+)":/g, (m, key: string) => (oldName.has(key) ? `"${oldName.get(key)}":` : m));
+    expect(oldText).toMatch(/"overTempC":/);
+    expect(oldText).toMatch(/"maxS":/);
     writeFileSync(join(dir, 'old.json'), oldText);
     expect(loadScenario(join(dir, 'old.json'))).toEqual(current);
   });

@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { BUILT_IN_SCENARIOS } from '../scenarios/index.js';
-import { withCurrentKeys } from './legacy-keys.js';
+import { withCurrentKeys } from '../../shared/schemas/legacy-keys.js';
 import { ScenarioSchema, type Scenario } from './schema.js';
 
 /** Name, title and description of a built-in scenario. */

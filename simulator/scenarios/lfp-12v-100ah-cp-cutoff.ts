@@ -20,10 +20,10 @@ export const lfp12v100ahCpCutoff: ScenarioInput = {
     thermal: lfpThermal(4, 100),
   },
   bms: lfpBms(),
-  ambient: [{ atS: 0, tempCelsius: 23 }],
+  ambient: [{ atSeconds: 0, tempCelsius: 23 }],
   program: [
-    { kind: 'discharge', load: { mode: 'cp', watts: 600 }, maxS: 4 * 3600, stopWhen: 'bms-trip' },
-    { kind: 'rest', maxS: 900 },
+    { kind: 'discharge', load: { mode: 'cp', watts: 600 }, maxSeconds: 4 * 3600, stopWhen: 'bms-trip' },
+    { kind: 'rest', maxSeconds: 900 },
   ],
-  meter: { samplePeriodS: 1, voltsNoise: 0.002, ampsNoise: 0.02, tempNoise: 0.05 },
+  meter: { samplePeriodSeconds: 1, voltsNoise: 0.002, ampsNoise: 0.02, tempNoise: 0.05 },
 };

@@ -19,10 +19,10 @@ export const lfp12vWeakCell: ScenarioInput = {
     thermal: lfpThermal(4, 100),
   },
   bms: lfpBms(),
-  ambient: [{ atS: 0, tempCelsius: 22 }],
+  ambient: [{ atSeconds: 0, tempCelsius: 22 }],
   program: [
-    { kind: 'discharge', load: { mode: 'cc', amps: 50 }, maxS: 3 * 3600, stopWhen: 'bms-trip' },
-    { kind: 'rest', maxS: 300 },
+    { kind: 'discharge', load: { mode: 'cc', amps: 50 }, maxSeconds: 3 * 3600, stopWhen: 'bms-trip' },
+    { kind: 'rest', maxSeconds: 300 },
   ],
-  meter: { samplePeriodS: 1, voltsNoise: 0.002, ampsNoise: 0.02, tempNoise: 0.05 },
+  meter: { samplePeriodSeconds: 1, voltsNoise: 0.002, ampsNoise: 0.02, tempNoise: 0.05 },
 };

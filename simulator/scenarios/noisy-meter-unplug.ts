@@ -18,10 +18,10 @@ export const noisyMeterUnplug: ScenarioInput = {
     thermal: lfpThermal(4, 50),
   },
   bms: lfpBms(),
-  ambient: [{ atS: 0, tempCelsius: 21 }],
-  program: [{ kind: 'discharge', load: { mode: 'cc', amps: 20 }, maxS: 1800 }, { kind: 'rest', maxS: 300 }],
+  ambient: [{ atSeconds: 0, tempCelsius: 21 }],
+  program: [{ kind: 'discharge', load: { mode: 'cc', amps: 20 }, maxSeconds: 1800 }, { kind: 'rest', maxSeconds: 300 }],
   meter: {
-    samplePeriodS: 1,
+    samplePeriodSeconds: 1,
     voltsNoise: 0.02,
     ampsNoise: 0.08,
     tempNoise: 0.3,
@@ -30,6 +30,6 @@ export const noisyMeterUnplug: ScenarioInput = {
     tempStep: 0.5,
     dropProbability: 0.02,
     corruptProbability: 0.01,
-    unplugs: [{ atS: 600, forS: 45 }],
+    unplugs: [{ atSeconds: 600, forSeconds: 45 }],
   },
 };

@@ -102,7 +102,7 @@ describe('import: timestamps without a zone', () => {
       const body = ImportResponseSchema.parse(res.body);
       // Berlin is UTC+2 in July (EU summer time, from memory): 12:00 local is 10:00 UTC.
       expect(body.run.startedAt).toBe('2026-07-15T10:00:00.000Z');
-      expect(body.summary.durationS).toBe(4);
+      expect(body.summary.durationSeconds).toBe(4);
     } finally {
       await admin.patch('/api/settings').send({ timeZone: 'UTC' }).expect(200);
     }

@@ -78,7 +78,7 @@ describe('import: time in any common format, in the lab zone (issue 11 item 11)'
       const body = ImportResponseSchema.parse(res.body);
       // Berlin keeps UTC+2 from the last Sunday of March (EU summer time, from memory): 10:00 local is 08:00 UTC.
       expect(body.run.startedAt).toBe('2026-04-03T08:00:00.000Z');
-      expect(body.summary.durationS).toBe(10);
+      expect(body.summary.durationSeconds).toBe(10);
       expect(body.summary.chargeAh).toBeCloseTo((5 * 10) / 3600, 12); // 5 A for 10 s
     });
   });
@@ -98,7 +98,7 @@ describe('import: time in any common format, in the lab zone (issue 11 item 11)'
     expect(res.status).toBe(201);
     expect(res.body.summary.chargeAh).toBeCloseTo(5, 9); // 5 A for 1 h
     expect(res.body.run.startedAt).toBe('2026-07-15T10:00:00.000Z');
-    expect(res.body.summary.medianIntervalS).toBe(1);
+    expect(res.body.summary.medianIntervalSeconds).toBe(1);
   });
 
   it('a bare Time in ms is refused with a question, not read as seconds; choosing ms reads it right', async () => {
@@ -202,14 +202,14 @@ describe('import: current sign (issue 11 item 2)', () => {
 });
 
 describe('import: cadence, acceptance and electrolyte temperature (issue 11 Deliver 2, 6, 7)', () => {
-  it.each([1, 60, 300])('a %i s log of a constant 5 A integrates to the analytic Ah', async (stepS) => {
-    const count = Math.round((6 * 3600) / stepS) + 1;
-    const res = await upload('time_s,volts,amps\n' + lines(count, (i) => String(i * stepS)));
+  it.each([1, 60, 300])('a %i s log of a constant 5 A integrates to the analytic Ah', async (stepSeconds) => {
+    const count = Math.round((6 * 3600) / stepSeconds) + 1;
+    const res = await upload('time_s,volts,amps\n' + lines(count, (i) => String(i * stepSeconds)));
     expect(res.status).toBe(201);
     // 5 A for 6 h is 30 Ah (constant-current arithmetic).
     expect(Math.abs(res.body.fullSummary.dischargeAh - 30) / 30).toBeLessThan(1e-9);
     expect(res.body.fullSummary.gaps).toBe(0);
-    expect(res.body.summary.medianIntervalS).toBe(stepS);
+    expect(res.body.summary.medianIntervalSeconds).toBe(stepSeconds);
   });
 
   it('a 60 s log with a real 30-minute hole still reports the gap', async () => {

@@ -44,10 +44,10 @@ describe('POST /api/runs/import', () => {
     expect(Math.abs(s.chargeAh - 1.849825)).toBeLessThan(5e-6);
     expect(s.chargeAh).toBeLessThan(1.8564874208181574);
     expect(s.energyWh).toBeLessThan(6.593751); // the README's energy through the first sample below
-    expect(s.cutoff.atS).toBeGreaterThan(3327.234); // between the last sample above 2.7 V…
-    expect(s.cutoff.atS).toBeLessThan(3346.937); // …and the first below
+    expect(s.cutoff.atSeconds).toBeGreaterThan(3327.234); // between the last sample above 2.7 V…
+    expect(s.cutoff.atSeconds).toBeLessThan(3346.937); // …and the first below
     expect(s.cutoff.volts).toBe(2.7);
-    expect(s.recoveryS).toBeNull();
+    expect(s.recoverySeconds).toBeNull();
     expect(s.rows).toBe(197);
     expect(s.percentOfRated).toBeCloseTo((s.chargeAh / 2) * 100, 9);
     expect(res.body.run).toMatchObject({ origin: 'import', state: 'finished', readingsCount: 197, batteryId: battery.id });

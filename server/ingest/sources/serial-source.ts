@@ -53,7 +53,7 @@ export class SerialSource implements Source {
     this.clock = deps.clock ?? systemClock;
     this.openPort = deps.openPort ?? openRealPort;
     this.delaysMs = deps.reconnectDelaysMs ?? RECONNECT_DELAYS_MS;
-    const staleAfterMs = config.staleAfterS * MS_PER_S;
+    const staleAfterMs = config.staleAfterSeconds * MS_PER_S;
     this.tracker = new StatusTracker(this.clock, staleAfterMs, (s) => safeDeliver(sink.status, s), () =>
       this.scheduleStaleReopen(staleAfterMs * STALE_PERIODS_BEFORE_REOPEN),
     );

@@ -71,7 +71,7 @@ export class SimulatorPtySource implements Source {
       this.meter = meter;
       const format = serialFormatForSimulator(this.config.format, scenario, this.config.speed);
       const serial = new SerialSource(
-        { kind: 'serial', path: linkPath, baudRate: 115200, dataBits: 8, parity: 'none', stopBits: 1, staleAfterS: this.config.staleAfterS, format, limits: this.config.limits },
+        { kind: 'serial', path: linkPath, baudRate: 115200, dataBits: 8, parity: 'none', stopBits: 1, staleAfterSeconds: this.config.staleAfterSeconds, format, limits: this.config.limits },
         this.sink,
         this.deps,
       );
@@ -80,7 +80,7 @@ export class SimulatorPtySource implements Source {
       void meter.finished.then(async () => {
         if (this.serial !== serial) return;
         // Let the last bytes through before closing, then say why the stream ended.
-        await new Promise((r) => clock.setTimeout(() => r(undefined), this.config.staleAfterS * MS_PER_S));
+        await new Promise((r) => clock.setTimeout(() => r(undefined), this.config.staleAfterSeconds * MS_PER_S));
         if (this.serial !== serial) return;
         this.serial = undefined;
         await serial.stop();

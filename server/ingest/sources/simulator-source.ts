@@ -25,7 +25,7 @@ export class SimulatorSource implements Source {
     private readonly sink: SourceSink,
     private readonly clock: Clock = systemClock,
   ) {
-    this.tracker = new StatusTracker(clock, config.staleAfterS * MS_PER_S, (s) => safeDeliver(sink.status, s));
+    this.tracker = new StatusTracker(clock, config.staleAfterSeconds * MS_PER_S, (s) => safeDeliver(sink.status, s));
   }
 
   /** Loads the scenario and starts playing it; an unknown scenario becomes an error status. */
