@@ -66,7 +66,7 @@ export async function run(): Promise<Record<string, string | number>> {
       surveyPassCpuSeconds: cpuSeconds(surveyCpu),
       importNodeCpuSeconds: cpuSeconds(importCpu),
       loadAverage1m: load1!.toFixed(1),
-      chargeAh: res.summary.chargeAh.toFixed(6),
+      dischargeAh: res.summary.dischargeAh.toFixed(6),
     };
     console.log(figures);
     return figures;

@@ -124,7 +124,7 @@ export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: Impor
       run: (await repo.get(run.id))!,
       summary: {
         energyWh: summary.capacityWh ?? totals.dischargeWh,
-        chargeAh: summary.capacityAh ?? totals.dischargeAh,
+        dischargeAh: summary.capacityAh ?? totals.dischargeAh,
         durationSeconds: summary.durationSeconds,
         cutoff: cutoff ? { atSeconds: cutoff.t, volts: cutoff.volts } : null,
         recoverySeconds: recovery?.recoverySeconds ?? null,

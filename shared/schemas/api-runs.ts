@@ -218,7 +218,7 @@ export const ImportFieldsSchema = z.object({
 /** The short summary the import answers with. */
 export const ImportSummarySchema = z.object({
   energyWh: z.number(),
-  chargeAh: z.number(),
+  dischargeAh: z.number(),
   durationSeconds: z.number(),
   cutoff: z.object({ atSeconds: z.number(), volts: z.number() }).nullable(),
   recoverySeconds: z.number().nullable(),

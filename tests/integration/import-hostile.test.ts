@@ -58,10 +58,10 @@ describe('import: odd and hostile files', () => {
     expect(semi.status).toBe(201);
     const s = ImportResponseSchema.parse(semi.body).summary;
     expect(s.rows).toBe(10);
-    expect(s.chargeAh).toBeCloseTo((5.5 * 9) / 3600, 12);
+    expect(s.dischargeAh).toBeCloseTo((5.5 * 9) / 3600, 12);
     const tab = await upload('tab.csv', `time\tvolts\tamps\n${rows('\t', String, '5')}\n`);
     expect(tab.status).toBe(201);
-    expect(ImportResponseSchema.parse(tab.body).summary.chargeAh).toBeCloseTo((5 * 9) / 3600, 12);
+    expect(ImportResponseSchema.parse(tab.body).summary.dischargeAh).toBeCloseTo((5 * 9) / 3600, 12);
   });
 
   it('a header with no data says what is wrong with the header first', async () => {
