@@ -9,7 +9,7 @@ function manualClock(): Clock & { advance(ms: number): void } {
   let timers: { at: number; fn: () => void; id: number }[] = [];
   let nextId = 0;
   return {
-    now: () => nowMs,
+    nowMs: () => nowMs,
     setTimeout(fn, delayMs) {
       nextId += 1;
       timers.push({ at: nowMs + delayMs, fn, id: nextId });

@@ -24,7 +24,7 @@ export function playSamples(
   onSample: (sample: SimSample) => void,
 ): Player {
   if (!(speed > 0)) throw new Error(`speed must be a positive number, got ${speed}`);
-  const startMs = clock.now();
+  const startMs = clock.nowMs();
   // Multiply before dividing so that sample 60 at 60× is due at exactly 1000 ms.
   const dueAtMs = (k: number): number => startMs + (k * samplePeriodSeconds * MS_PER_S) / speed;
   let index = 0;
@@ -35,7 +35,7 @@ export function playSamples(
 
   const wake = (): void => {
     handle = undefined;
-    while (!stopped && dueAtMs(index) <= clock.now()) {
+    while (!stopped && dueAtMs(index) <= clock.nowMs()) {
       const next = source.step();
       if (!next) {
         stopped = true;
@@ -46,7 +46,7 @@ export function playSamples(
       onSample(next);
     }
     if (stopped) return;
-    const dueMs = dueAtMs(index) - clock.now();
+    const dueMs = dueAtMs(index) - clock.nowMs();
     handle = clock.setTimeout(wake, Math.max(MIN_WAKE_MS, dueMs));
   };
   wake();

@@ -65,7 +65,7 @@ export class SimulatorPtySource implements Source {
         linkPath,
         speed: this.config.speed,
         seed: this.config.seed,
-        clock: { now: () => clock.nowMs(), setTimeout: (fn, ms) => clock.setTimeout(fn, ms), clearTimeout: (h) => clock.clearTimeout(h as object) },
+        clock,
       });
       if (!this.running) return void (await meter.stop());
       this.meter = meter;

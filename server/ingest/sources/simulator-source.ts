@@ -36,7 +36,7 @@ export class SimulatorSource implements Source {
       const simulation = createSimulation(loadScenario(this.config.scenario), {
         seed: this.config.seed,
         speed: this.config.speed,
-        clock: { now: () => this.clock.nowMs(), setTimeout: (fn, ms) => this.clock.setTimeout(fn, ms), clearTimeout: (h) => this.clock.clearTimeout(h as object) },
+        clock: this.clock,
       });
       this.tracker.connected(`simulating ${this.config.scenario} at ${this.config.speed}×`);
       const player = simulation.play((sample) => this.onSample(sample));
