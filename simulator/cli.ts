@@ -66,7 +66,7 @@ async function main(): Promise<void> {
     seed: args.seed,
     csv: csvOptionsFor(scenario, !args['no-time']),
     meter: {
-      ...(args['sample-period'] ? { samplePeriodSeconds: args['sample-period'] } : {}),
+      ...(args['sample-period'] ? { readingPeriodSeconds: args['sample-period'] } : {}),
       ...(args.ideal ? IDEAL_METER : {}),
     },
     modbus: { unitId: args['unit-id'] },

@@ -64,7 +64,7 @@ export function liveAttachment(options: LiveOptions = {}) {
         },
       },
     });
-    recorder.readings.add((runId, reading) => hub.publishSample({ kind: 'run', id: runId }, reading));
+    recorder.readings.add((runId, reading) => hub.publishReading({ kind: 'run', id: runId }, reading));
     recorder.readings.add((runId, reading, index) => journal.append(runId, index, reading));
     recorder.events.add((runId, e) => ('id' in e ? hub.publishStoredEvent(e) : hub.publishEvent(runId, e.event, null)));
     recorder.runChanges.add((run) => hub.publishRun(run));
@@ -82,7 +82,7 @@ export function liveAttachment(options: LiveOptions = {}) {
     const unsubscribe: (() => void)[] = [];
     if (feed) {
       recorder.attach(feed);
-      unsubscribe.push(feed.onFrame((benchId, frame) => hub.publishSample({ kind: 'bench', id: benchId }, frame)));
+      unsubscribe.push(feed.onFrame((benchId, frame) => hub.publishReading({ kind: 'bench', id: benchId }, frame)));
       if (feed.onStatus) unsubscribe.push(feed.onStatus((benchId, status) => hub.publishStatus(benchId, status)));
     } else ctx.log.warn('Live: no frame feed; runs cannot record');
     ctx.services.runRecorder = recorder;

@@ -2,7 +2,7 @@ import type { Topic } from '../../shared/schemas/ws.js';
 import { topicKey } from '../../shared/schemas/ws.js';
 import type { SessionUser } from '../auth/session-user.js';
 import { checkBudget, keepEveryFor, nextThinning, thinIndices, type BudgetState } from './backpressure-policy.js';
-import { toReadingColumns, type LiveSample } from './reading-columns.js';
+import { toReadingColumns, type LiveReading } from './reading-columns.js';
 
 /** The part of a `ws` WebSocket the sender uses (tests pass a fake). */
 export interface SocketLike {
@@ -89,7 +89,7 @@ export class ClientSender {
    * number of the last reading in `samples`; `shared` is the unthinned payload for clients
    * that keep up and have nothing dropped to report.
    */
-  sendBatch(topic: Topic, seq: number, samples: readonly LiveSample[], shared: () => string): void {
+  sendBatch(topic: Topic, seq: number, samples: readonly LiveReading[], shared: () => string): void {
     if (!this.isOpen) return;
     const key = topicKey(topic);
     const buffered = this.socket.bufferedAmount;

@@ -5,7 +5,7 @@ import type { AnnotationEvent, RunEvent } from '../../shared/schemas/run-event.j
 import type { Run } from '../../shared/schemas/run.js';
 import { topicKey, type ReadingCursor, type SnapshotResume, type Topic } from '../../shared/schemas/ws.js';
 import type { ClientSender } from './client-sender.js';
-import { toReadingColumns, type LiveSample } from './reading-columns.js';
+import { toReadingColumns, type LiveReading } from './reading-columns.js';
 
 /** Batches of one topic go out at most this often. */
 export const MIN_BATCH_INTERVAL_MS = 100;
@@ -43,9 +43,9 @@ interface TopicState {
   stream: string;
   /** Number of the last reading published (the first is 1). */
   seq: number;
-  pending: LiveSample[];
+  pending: LiveReading[];
   /** The last readings, oldest first: RESUME_READINGS to twice that (trimmed in steps, not per reading). */
-  recent: LiveSample[];
+  recent: LiveReading[];
   /** `recent` as ReadingColumns JSON, built once for every snapshot until the next reading. */
   recentJson: string | null;
   lastFlushMs: number;
@@ -117,7 +117,7 @@ export class LiveHub {
    * The readings after a client's cursor, or null when the cursor is of another stream, ahead
    * of this one, or older than the readings kept (the client must refetch the history).
    */
-  private missedSince(state: TopicState, after: ReadingCursor): LiveSample[] | null {
+  private missedSince(state: TopicState, after: ReadingCursor): LiveReading[] | null {
     if (after.stream !== state.stream || after.seq > state.seq) return null;
     const firstKept = state.seq - state.recent.length + 1;
     if (after.seq + 1 < firstKept) return null;
@@ -159,7 +159,7 @@ export class LiveHub {
   }
 
   /** A bench frame or a run reading arrived. */
-  publishSample(topic: Topic, sample: LiveSample): void {
+  publishReading(topic: Topic, sample: LiveReading): void {
     const state = this.state(topic);
     state.recent.push(sample);
     state.seq++;

@@ -3,15 +3,15 @@ import type { Reading } from '../../shared/schemas/reading.js';
 import type { ReadingColumns } from '../../shared/schemas/ws.js';
 
 /** A bench frame or a run reading; run readings carry totals and their run time. */
-export type LiveSample = Frame | Reading;
+export type LiveReading = Frame | Reading;
 
-const isReading = (s: LiveSample): s is Reading => 'elapsedSeconds' in s;
+const isReading = (s: LiveReading): s is Reading => 'elapsedSeconds' in s;
 
 /**
  * Columns of the samples at `indices` (all when omitted), in the WebSocket's shape. For
  * run readings `t` is the run time and the totals are included.
  */
-export function toReadingColumns(samples: readonly LiveSample[], indices?: readonly number[]): ReadingColumns {
+export function toReadingColumns(samples: readonly LiveReading[], indices?: readonly number[]): ReadingColumns {
   const idx = indices ?? samples.map((_, i) => i);
   const withTotals = samples.length > 0 && isReading(samples[0]!);
   const cols: ReadingColumns = { t: [], volts: [], amps: [], watts: [], temps: {} };

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { xyIntegration } from 'ml-spectra-processing';
-import { integrateColumns, integrateSamples, integrateStep, createIntegratorState, integratorTotals, rejectedCounts } from './integrator.js';
+import { integrateColumns, integrateReadings, integrateStep, createIntegratorState, integratorTotals, rejectedCounts } from './integrator.js';
 import { trapezoid, trapezoidFunction } from './trapezoid.js';
 
 const HOUR_S = 3600;
@@ -53,7 +53,7 @@ describe('integrator: analytic cases exact to 1e-9', () => {
 
   it('keeps charge apart from discharge and cuts a sign-changing panel at zero', () => {
     // Analytic: current +10 A → −10 A linearly over 2 h: 5 Ah out in the first hour, 5 Ah in in the second.
-    const r = integrateSamples([
+    const r = integrateReadings([
       { t: 0, volts: 10, amps: 10 },
       { t: 2 * HOUR_S, volts: 10, amps: -10 },
     ], { maxGapSeconds: 3 * HOUR_S });

@@ -12,7 +12,7 @@ export const LEGACY_KEYS: Readonly<Record<string, string>> = {
   coldChargeReleaseC: 'coldChargeReleaseCelsius', ambientC: 'ambientCelsius',
   // Durations and times in seconds end in Seconds.
   staleAfterS: 'staleAfterSeconds', atS: 'atSeconds', forS: 'forSeconds', maxS: 'maxSeconds', onS: 'onSeconds', offS: 'offSeconds',
-  samplePeriodS: 'samplePeriodSeconds', maxPhysicsStepS: 'maxPhysicsStepSeconds', delayS: 'delaySeconds',
+  samplePeriodS: 'readingPeriodSeconds', samplePeriodSeconds: 'readingPeriodSeconds', maxPhysicsStepS: 'maxPhysicsStepSeconds', delayS: 'delaySeconds',
   underVoltDelayS: 'underVoltDelaySeconds', underVoltRecoveryS: 'underVoltRecoverySeconds', overVoltDelayS: 'overVoltDelaySeconds',
   overVoltRecoveryS: 'overVoltRecoverySeconds', overCurrentDelayS: 'overCurrentDelaySeconds', overCurrentRecoveryS: 'overCurrentRecoverySeconds',
   coldChargeDelayS: 'coldChargeDelaySeconds', overTempDelayS: 'overTempDelaySeconds', pollS: 'pollSeconds', periodS: 'periodSeconds',

@@ -1,5 +1,5 @@
 import type { Clock } from './clock.js';
-import type { SimSample } from './simulation.js';
+import type { SimReading } from './simulation.js';
 import { MS_PER_S } from '../../shared/units/time.js';
 
 /** Never wake more often than this: at high speeds several samples go out per wake-up. */
@@ -16,17 +16,17 @@ export interface Player {
  * Releases samples at their due real time: sample k at start + k·period/speed.
  * Late wake-ups catch up at once, so a busy event loop never stretches simulated time.
  */
-export function playSamples(
-  source: { step(): SimSample | undefined },
-  samplePeriodSeconds: number,
+export function playReadings(
+  source: { step(): SimReading | undefined },
+  readingPeriodSeconds: number,
   speed: number,
   clock: Clock,
-  onSample: (sample: SimSample) => void,
+  onReading: (sample: SimReading) => void,
 ): Player {
   if (!(speed > 0)) throw new Error(`speed must be a positive number, got ${speed}`);
   const startMs = clock.nowMs();
   // Multiply before dividing so that sample 60 at 60× is due at exactly 1000 ms.
-  const dueAtMs = (k: number): number => startMs + (k * samplePeriodSeconds * MS_PER_S) / speed;
+  const dueAtMs = (k: number): number => startMs + (k * readingPeriodSeconds * MS_PER_S) / speed;
   let index = 0;
   let handle: unknown;
   let stopped = false;
@@ -43,7 +43,7 @@ export function playSamples(
         return;
       }
       index += 1;
-      onSample(next);
+      onReading(next);
     }
     if (stopped) return;
     const dueMs = dueAtMs(index) - clock.nowMs();

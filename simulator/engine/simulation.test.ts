@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { integrateSamples } from '../../shared/measure/integrator.js';
+import { integrateReadings } from '../../shared/measure/integrator.js';
 import { loadScenario } from '../scenario/registry.js';
 import type { Scenario } from '../scenario/schema.js';
 import { createSimulation, type Simulation } from './simulation.js';
@@ -20,7 +20,7 @@ describe('energy balance against the measurement core', () => {
     (name) => {
       const sim = createSimulation(loadScenario(name), { seed: 3, meter: IDEAL_METER });
       const frames = [...sim.frames()];
-      const totals = integrateSamples(frames);
+      const totals = integrateReadings(frames);
       const model = sim.bench.totals;
       const modelWh = model.dischargedWh + model.chargedWh;
       expect(modelWh).toBeGreaterThan(100);
@@ -33,7 +33,7 @@ describe('energy balance against the measurement core', () => {
 
   it('a noisy meter with quantisation still integrates to the model energy within 0.1 %', () => {
     const sim = createSimulation(loadScenario('lfp-12v-100ah-cp-cutoff'), { seed: 9 });
-    const totals = integrateSamples([...sim.frames()]);
+    const totals = integrateReadings([...sim.frames()]);
     expect(Math.abs(totals.dischargeWh / sim.bench.totals.dischargedWh - 1)).toBeLessThan(0.001);
   });
 });

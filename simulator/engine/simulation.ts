@@ -5,7 +5,7 @@ import { createPrng } from '../prng.js';
 import { MeterSchema, ScenarioSchema, type MeterConfig, type Scenario, type ScenarioInput } from '../scenario/schema.js';
 import { createBench, type Bench } from './bench.js';
 import { systemClock, type Clock } from './clock.js';
-import { playSamples, type Player } from './play.js';
+import { playReadings, type Player } from './play.js';
 
 export const DEFAULT_SEED = 1;
 /** Keeps 1 s / 0.25 s at 4 steps, not 5, when the division lands a hair above an integer. */
@@ -22,7 +22,7 @@ export interface SimulationOptions {
 }
 
 /** One sample of the meter: what it measured, whether it reached the wire, and the truth behind it. */
-export interface SimSample {
+export interface SimReading {
   seq: number;
   t: number;
   frame: Frame;
@@ -40,11 +40,11 @@ export interface Simulation {
   readonly bench: Bench;
   readonly done: boolean;
   /** The next sample (the first is at t = 0), or undefined once the program has ended. */
-  step(): SimSample | undefined;
+  step(): SimReading | undefined;
   /** Every frame that reaches the wire intact, to the end of the program. */
   frames(): Generator<Frame>;
   /** Plays the samples in real time at the chosen speed; resolves when done or stopped. */
-  play(onSample: (sample: SimSample) => void): Player;
+  play(onReading: (sample: SimReading) => void): Player;
 }
 
 /** Creates a seeded simulation of a scenario (validated with zod), stepped by the caller or played. */
@@ -55,13 +55,13 @@ export function createSimulation(input: Scenario | ScenarioInput, options: Simul
   const bench = createBench(scenario, createPrng(seed, 'physics'));
   const meterPrng = createPrng(seed, 'meter');
   const hasHeater = scenario.pack.heater !== undefined;
-  const substeps = Math.max(1, Math.ceil(meter.samplePeriodSeconds / scenario.maxPhysicsStepSeconds - STEP_COUNT_EPSILON));
-  const dtSeconds = meter.samplePeriodSeconds / substeps;
+  const substeps = Math.max(1, Math.ceil(meter.readingPeriodSeconds / scenario.maxPhysicsStepSeconds - STEP_COUNT_EPSILON));
+  const dtSeconds = meter.readingPeriodSeconds / substeps;
   let seq = 0;
   let wasPlugged = true;
 
-  const sample = (): SimSample => {
-    const t = Number((seq * meter.samplePeriodSeconds).toFixed(6));
+  const sample = (): SimReading => {
+    const t = Number((seq * meter.readingPeriodSeconds).toFixed(6));
     const p = bench.point();
     const truth = {
       t, volts: p.volts, amps: p.amps, cellTempCelsius: bench.tempCelsius, ambientCelsius: bench.ambientCelsius,
@@ -92,8 +92,8 @@ export function createSimulation(input: Scenario | ScenarioInput, options: Simul
     *frames() {
       for (let s = simulation.step(); s; s = simulation.step()) if (!s.lost && !s.corrupt) yield s.frame;
     },
-    play(onSample) {
-      return playSamples(simulation, meter.samplePeriodSeconds, options.speed ?? 1, options.clock ?? systemClock, onSample);
+    play(onReading) {
+      return playReadings(simulation, meter.readingPeriodSeconds, options.speed ?? 1, options.clock ?? systemClock, onReading);
     },
   };
   return simulation;

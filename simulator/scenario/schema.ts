@@ -77,7 +77,7 @@ export const ProgramStepSchema = z.discriminatedUnion('kind', [
 ]);
 
 export const MeterSchema = z.object({
-  samplePeriodSeconds: positive.default(1),
+  readingPeriodSeconds: positive.default(1),
   voltsNoise: nonNegative.default(0),
   ampsNoise: nonNegative.default(0),
   tempNoise: nonNegative.default(0),

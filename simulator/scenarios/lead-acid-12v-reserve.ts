@@ -21,5 +21,5 @@ export const leadAcid12vReserve: ScenarioInput = {
   },
   ambient: [{ atSeconds: 0, tempCelsius: 27 }],
   program: [{ kind: 'discharge', load: { mode: 'cc', amps: 25 }, endVolts: 10.5, maxSeconds: 6 * 3600 }, { kind: 'rest', maxSeconds: 600 }],
-  meter: { samplePeriodSeconds: 1, voltsNoise: 0.002, ampsNoise: 0.01, tempNoise: 0.05 },
+  meter: { readingPeriodSeconds: 1, voltsNoise: 0.002, ampsNoise: 0.01, tempNoise: 0.05 },
 };

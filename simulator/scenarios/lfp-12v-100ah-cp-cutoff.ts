@@ -25,5 +25,5 @@ export const lfp12v100ahCpCutoff: ScenarioInput = {
     { kind: 'discharge', load: { mode: 'cp', watts: 600 }, maxSeconds: 4 * 3600, stopWhen: 'bms-trip' },
     { kind: 'rest', maxSeconds: 900 },
   ],
-  meter: { samplePeriodSeconds: 1, voltsNoise: 0.002, ampsNoise: 0.02, tempNoise: 0.05 },
+  meter: { readingPeriodSeconds: 1, voltsNoise: 0.002, ampsNoise: 0.02, tempNoise: 0.05 },
 };

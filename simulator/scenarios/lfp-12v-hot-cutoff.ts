@@ -29,5 +29,5 @@ export const lfp12vHotCutoff: ScenarioInput = {
     { kind: 'discharge', load: { mode: 'cc', amps: 25 }, maxSeconds: 7200, stopWhen: 'bms-trip' }, { kind: 'rest', maxSeconds: 7200, stopWhen: 'bms-release' },
     { kind: 'rest', maxSeconds: 300 },
   ],
-  meter: { samplePeriodSeconds: 1, voltsNoise: 0.002, ampsNoise: 0.01, tempNoise: 0.05 },
+  meter: { readingPeriodSeconds: 1, voltsNoise: 0.002, ampsNoise: 0.01, tempNoise: 0.05 },
 };

@@ -24,5 +24,5 @@ export const lfp12vWeakCell: ScenarioInput = {
     { kind: 'discharge', load: { mode: 'cc', amps: 50 }, maxSeconds: 3 * 3600, stopWhen: 'bms-trip' },
     { kind: 'rest', maxSeconds: 300 },
   ],
-  meter: { samplePeriodSeconds: 1, voltsNoise: 0.002, ampsNoise: 0.02, tempNoise: 0.05 },
+  meter: { readingPeriodSeconds: 1, voltsNoise: 0.002, ampsNoise: 0.02, tempNoise: 0.05 },
 };

@@ -27,5 +27,5 @@ export const lfp48v30ahPwmHeater: ScenarioInput = {
   bms: lfpBms({ overCurrentAmps: 60 }),
   ambient: [{ atSeconds: 0, tempCelsius: -15 }],
   program: [{ kind: 'charge', charger: { cvVolts: 57.6, ccAmps: 6, termAmps: 0.6 }, maxSeconds: 4 * 3600, stopWhen: 'charged' }],
-  meter: { samplePeriodSeconds: 1, voltsNoise: 0.005, ampsNoise: 0.01, tempNoise: 0.05 },
+  meter: { readingPeriodSeconds: 1, voltsNoise: 0.005, ampsNoise: 0.01, tempNoise: 0.05 },
 };

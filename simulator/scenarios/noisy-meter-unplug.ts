@@ -21,7 +21,7 @@ export const noisyMeterUnplug: ScenarioInput = {
   ambient: [{ atSeconds: 0, tempCelsius: 21 }],
   program: [{ kind: 'discharge', load: { mode: 'cc', amps: 20 }, maxSeconds: 1800 }, { kind: 'rest', maxSeconds: 300 }],
   meter: {
-    samplePeriodSeconds: 1,
+    readingPeriodSeconds: 1,
     voltsNoise: 0.02,
     ampsNoise: 0.08,
     tempNoise: 0.3,

@@ -7,7 +7,7 @@ import { lfpBms, lfpThermal } from './lfp-defaults.js';
  * stated here, so a test can ask the measurement core to give them back. The meter is ideal
  * (no noise, fine steps) so only the sample period limits what can be measured.
  */
-const IDEAL_METER = { samplePeriodSeconds: 1, voltsNoise: 0, ampsNoise: 0, tempNoise: 0, voltsStep: 0.0001, ampsStep: 0.0001, tempStep: 0.0001 };
+const IDEAL_METER = { readingPeriodSeconds: 1, voltsNoise: 0, ampsNoise: 0, tempNoise: 0, voltsStep: 0.0001, ampsStep: 0.0001, tempStep: 0.0001 };
 /** A small, quickly cooled pack so temperature protections act within minutes. */
 const FAST_THERMAL = { heatCapacityJPerK: 1500, toAmbientKPerW: 0.4 };
 

@@ -75,7 +75,7 @@ async function play(input: unknown, checks: ProtectionRequest[], specs: Protecti
 }
 
 /** The largest change of a check's signal between two readings from the crossing to the trip (the drift over the delay). */
-function driftPerSample(row: ProtectionResult, frames: Frame[], fromT: number, toT: number): number {
+function driftPerReading(row: ProtectionResult, frames: Frame[], fromT: number, toT: number): number {
   const signal = (f: Frame) => (PROTECTION_TRAITS[row.protection].signal === 'volts' ? f.volts : PROTECTION_TRAITS[row.protection].signal === 'amps' ? f.amps : f.temps!.cell!);
   let most = 0;
   for (let i = 1; i < frames.length; i++) if (frames[i]!.t >= fromT && frames[i]!.t <= toT) most = Math.max(most, Math.abs(signal(frames[i]!) - signal(frames[i - 1]!)));
@@ -89,7 +89,7 @@ function expectGivenBack(p: Played, row: ProtectionResult, protection: string, s
   expect(row.protection).toBe(protection);
   expect(row.outcome).toBe('pass');
   expect(Math.abs(row.measuredDelaySeconds! - delaySeconds)).toBeLessThanOrEqual(SAMPLE_PERIOD_S);
-  const drift = driftPerSample(row, p.frames, trip.t - delaySeconds - 2 * SAMPLE_PERIOD_S, trip.t + SAMPLE_PERIOD_S);
+  const drift = driftPerReading(row, p.frames, trip.t - delaySeconds - 2 * SAMPLE_PERIOD_S, trip.t + SAMPLE_PERIOD_S);
   expect(Math.abs(row.measuredValue! - row.expectedValue)).toBeLessThanOrEqual(drift * (delaySeconds + SAMPLE_PERIOD_S) + 1e-9);
   if (release) expect(Math.abs(row.resumeSeconds! - (release.t - trip.t))).toBeLessThanOrEqual(SAMPLE_PERIOD_S);
   expect(row.window!.fromSeconds).toBeLessThanOrEqual(trip.t);

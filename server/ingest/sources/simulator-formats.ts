@@ -13,7 +13,7 @@ const TYPE_NAMES = { uint16: 'u16', int16: 'i16', uint32: 'u32', int32: 'i32' } 
  * polled once per simulated sample.
  */
 export function serialFormatForSimulator(format: 'csv' | 'jsonl' | 'scpi' | 'modbus', scenario: Scenario, speed: number): SerialFormat {
-  const pollMs = Math.min(MAX_POLL_MS, Math.max(MIN_POLL_MS, Math.round((scenario.meter.samplePeriodSeconds * MS_PER_S) / speed)));
+  const pollMs = Math.min(MAX_POLL_MS, Math.max(MIN_POLL_MS, Math.round((scenario.meter.readingPeriodSeconds * MS_PER_S) / speed)));
   switch (format) {
     case 'csv':
       return SerialFormatSchema.parse({ kind: 'csv', columns: (csvOptionsFor(scenario).columns ?? []).map((c) => c.field) });

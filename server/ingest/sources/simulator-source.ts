@@ -1,6 +1,6 @@
 import type { BenchStatus, SimulatorSourceConfig } from '../../../shared/schemas/bench.js';
 import type { Frame } from '../../../shared/schemas/frame.js';
-import { createSimulation, loadScenario, type SimSample, type Simulation } from '../../../simulator/index.js';
+import { createSimulation, loadScenario, type SimReading, type Simulation } from '../../../simulator/index.js';
 import { systemClock, type Clock } from '../clock.js';
 import { frameOutOfBounds } from '../frame-limits.js';
 import { StatusTracker } from '../status-tracker.js';
@@ -39,7 +39,7 @@ export class SimulatorSource implements Source {
         clock: this.clock,
       });
       this.tracker.connected(`simulating ${this.config.scenario} at ${this.config.speed}×`);
-      const player = simulation.play((sample) => this.onSample(sample));
+      const player = simulation.play((sample) => this.onReading(sample));
       this.player = player;
       void player.finished.then(() => {
         if (this.running && this.player === player) this.tracker.idle(`scenario ${this.config.scenario} finished`);
@@ -64,7 +64,7 @@ export class SimulatorSource implements Source {
     return this.tracker.snapshot();
   }
 
-  private onSample(sample: SimSample): void {
+  private onReading(sample: SimReading): void {
     if (!this.running || sample.lost) return;
     if (sample.corrupt) {
       this.tracker.rejected(`frame ${sample.seq} corrupted on the (simulated) wire`);
