@@ -47,7 +47,7 @@ export function benchModel(sequelize: Sequelize): BenchModel {
  */
 export function readSource(row: BenchRow): { source: BenchSourceConfig; problem?: string } {
   try {
-    // A row stored before the renames (`staleAfterS`) reads as the same source.
+    // A row stored before the renames (`staleAfterS`) reads as the same source. // vocab-rename: keep
     const parsed = BenchSourceConfigSchema.safeParse(withCurrentKeys(JSON.parse(row.source)));
     if (parsed.success) return { source: parsed.data };
     return { source: { kind: 'none' }, problem: `stored source is invalid: ${parsed.error.issues[0]?.message ?? 'unknown'}` };

@@ -166,7 +166,7 @@ describe('RunSession across restarts', () => {
 });
 
 describe('a run-session snapshot stored before the vocabulary renames', () => {
-  it('resumes with the same source-clock state from the old field names (offsetS, lastArrivalS, suspectArrivalS)', () => {
+  it('resumes with the same source-clock state from the old field names (offsetS, lastArrivalS, suspectArrivalS)', () => { // vocab-rename: keep
     const run = baseRun({ state: 'recording' });
     const before = new RunSession(run, null, measureConfigFor(run, null));
     for (let i = 0; i < 5; i++) before.clock.accept({ t: 1000 + i, volts: 12, amps: 2, clock: 'device' }, 1_700_000_000 + i);
@@ -174,9 +174,9 @@ describe('a run-session snapshot stored before the vocabulary renames', () => {
     expect(snapshot.clock!.lastArrivalSeconds).toBe(1_700_000_004);
     const old = JSON.parse(
       JSON.stringify(snapshot)
-        .replace('"offsetSeconds"', '"offsetS"')
-        .replace('"lastArrivalSeconds"', '"lastArrivalS"')
-        .replace('"suspectArrivalSeconds"', '"suspectArrivalS"'),
+        .replace('"offsetSeconds"', '"offsetS"') // vocab-rename: keep
+        .replace('"lastArrivalSeconds"', '"lastArrivalS"') // vocab-rename: keep
+        .replace('"suspectArrivalSeconds"', '"suspectArrivalS"'), // vocab-rename: keep
     );
     const resumed = new RunSession(run, null, measureConfigFor(run, null), old);
     expect(resumed.clock.state).toEqual(before.clock.state);

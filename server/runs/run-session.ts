@@ -46,7 +46,7 @@ const FRESH_FIELDS: Omit<SessionFields, 'state'> = {
  */
 function sessionFields(previous: RunSessionSnapshot): SessionFields {
   const { nextSeq, nextEventSeq, state, recoveredAt, cutoffAt, cutoffCause, lastElapsed, tempAlarmRaised, clock } = previous;
-  // A snapshot stored before the renames names the clock guard's fields offsetS, lastArrivalS, suspectArrivalS.
+  // A snapshot stored before the renames names the clock guard's fields offsetS, lastArrivalS, suspectArrivalS. // vocab-rename: keep
   const current = clock ? (withCurrentKeys(clock) as ClockGuardState) : emptyClockState();
   return { nextSeq, nextEventSeq, state, recoveredAt, cutoffAt, cutoffCause, lastElapsed, tempAlarmRaised, clock: current };
 }

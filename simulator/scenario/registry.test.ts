@@ -33,8 +33,8 @@ describe('scenario registry', () => {
     // The file as it was written before the renames: every renamed key in its old spelling.
     const oldName = new Map(Object.entries(LEGACY_KEYS).map(([old, current]) => [current, old]));
     const oldText = JSON.stringify(current).replace(/"(\w+)":/g, (m, key: string) => (oldName.has(key) ? `"${oldName.get(key)}":` : m));
-    expect(oldText).toMatch(/"overTempC":/);
-    expect(oldText).toMatch(/"maxS":/);
+    expect(oldText).toMatch(/"overTempC":/); // vocab-rename: keep
+    expect(oldText).toMatch(/"maxS":/); // vocab-rename: keep
     writeFileSync(join(dir, 'old.json'), oldText);
     expect(loadScenario(join(dir, 'old.json'))).toEqual(current);
   });
