@@ -19,6 +19,7 @@ import { attachLive } from './live/attach-live.js';
 import { backupAttachment } from './backup/attach-backups.js';
 import { attachAlarms } from './alarms/attach-alarms.js';
 import { attachPush } from './push/attach-push.js';
+import { createLogger } from './log/logger.js';
 
 /** Undoes an attachment (close sockets, stop timers); awaited on server close. */
 export type Detach = () => Promise<void> | void;
@@ -67,7 +68,7 @@ async function openDatabase(config: AppConfig, options: StartServerOptions, log:
   if (!config.db.provision) return { database: config.db, mariadb: undefined };
   const mariadb = await provisionMariaDb({
     baseDir: config.db.mariadbDir, port: config.db.port, database: config.db.database,
-    user: config.db.user, password: config.db.password, log: (message) => log.info(`[mariadb] ${message}`),
+    user: config.db.user, password: config.db.password, log: createLogger('mariadb', log),
   });
   return { database: mariadb as DatabaseConfig, mariadb };
 }
@@ -121,7 +122,7 @@ export async function startServer(options: StartServerOptions = {}): Promise<Run
     const health = new DatabaseHealth(mariadb !== undefined);
     ctx.services.databaseHealth = health;
     guardQueries(sequelize, health);
-    watch = watchDatabase({ health, probe: createPingProbe(database), server: mariadb, log: (message) => log.warn(message) });
+    watch = watchDatabase({ health, probe: createPingProbe(database), server: mariadb, log: createLogger('mariadb', log) });
     const demoSeeded = options.seedDemo ? (await seedDemo(ctx.models, config.demoPassword)).seeded : false;
     const app = createApp(ctx);
     httpServer = createServer(app);

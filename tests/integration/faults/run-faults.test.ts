@@ -10,6 +10,7 @@ import { signInAs, TEST_PASSWORD, TEST_USERS, type SignedInAgent } from '../help
 import { eventually } from '../runs-kit.js';
 import { exportColumns, freePort, JsonlMeter, missingFrames, neverDecreases, referenceTotals, ServerProcess, type ExportedRun, type SentFrame } from './fault-kit.js';
 import { SECONDS_PER_HOUR } from '../../../shared/units/time.js';
+import { quietLogger } from '../../../server/log/logger.js';
 
 /**
  * The fault suite for a live run: Kneepoint in a child process of its own (server/index.ts
@@ -39,7 +40,7 @@ let benchId: number;
 let batteryId: number;
 
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
-const provision = () => provisionMariaDb({ baseDir: DB_DIR, port: dbPort, ...DB, grantAllDatabases: true, log: () => undefined });
+const provision = () => provisionMariaDb({ baseDir: DB_DIR, port: dbPort, ...DB, grantAllDatabases: true, log: quietLogger });
 
 beforeAll(async () => {
   dbPort = await freePort();
