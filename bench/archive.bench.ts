@@ -54,7 +54,7 @@ async function tableBytes(sequelize: Sequelize, table: string): Promise<number> 
 }
 
 async function plainRows(sequelize: Sequelize, readings: Reading[]) {
-  await sequelize.query(`CREATE TABLE bench_rows (runId INT NOT NULL, t DOUBLE NOT NULL, volts DOUBLE, amps DOUBLE, tempC DOUBLE,
+  await sequelize.query(`CREATE TABLE bench_rows (runId INT NOT NULL, t DOUBLE NOT NULL, volts DOUBLE, amps DOUBLE, tempCelsius DOUBLE,
     dischargeWh DOUBLE, dischargeAh DOUBLE, PRIMARY KEY (runId, t)) ENGINE=InnoDB`);
   const w0 = performance.now();
   for (let at = 0; at < readings.length; at += ROWS_PER_INSERT) {
@@ -62,12 +62,12 @@ async function plainRows(sequelize: Sequelize, readings: Reading[]) {
     const values = part.map((r) => `(1,${r.elapsedSeconds},${r.volts},${r.amps},${r.temps?.cell ?? 'NULL'},${r.dischargeWh},${r.dischargeAh})`).join(',');
     await sequelize.query(`INSERT INTO bench_rows VALUES ${values}`);
   }
-  const writeS = (performance.now() - w0) / 1000;
+  const writeSeconds = (performance.now() - w0) / 1000;
   const r0 = performance.now();
-  const rows = await sequelize.query<{ t: number }>('SELECT t, volts, amps, tempC, dischargeWh, dischargeAh FROM bench_rows WHERE runId = 1 ORDER BY t', { type: QueryTypes.SELECT, raw: true });
-  const readS = (performance.now() - r0) / 1000;
+  const rows = await sequelize.query<{ t: number }>('SELECT t, volts, amps, tempCelsius, dischargeWh, dischargeAh FROM bench_rows WHERE runId = 1 ORDER BY t', { type: QueryTypes.SELECT, raw: true });
+  const readSeconds = (performance.now() - r0) / 1000;
   if (rows.length !== readings.length) throw new Error(`plain rows: read ${rows.length}`);
-  return { writeS, readS, bytes: await tableBytes(sequelize, 'bench_rows') };
+  return { writeSeconds, readSeconds, bytes: await tableBytes(sequelize, 'bench_rows') };
 }
 
 async function blocks(sequelize: Sequelize, readings: Reading[], runId: number) {
@@ -77,13 +77,13 @@ async function blocks(sequelize: Sequelize, readings: Reading[], runId: number) 
     const block = encodeChunk(at, readingsToColumns(part));
     await writeBatch(sequelize, { runId, block, events: [], patch: { readingsCount: at + part.length } });
   }
-  const writeS = (performance.now() - w0) / 1000;
+  const writeSeconds = (performance.now() - w0) / 1000;
   const r0 = performance.now();
   const parts = await readChunks(sequelize, runId, -Number.MAX_VALUE, Number.MAX_VALUE);
-  const readS = (performance.now() - r0) / 1000;
+  const readSeconds = (performance.now() - r0) / 1000;
   const n = parts.reduce((s, p) => s + p.elapsed!.length, 0);
   if (n !== readings.length) throw new Error(`blocks: read ${n}`);
-  return { writeS, readS, bytes: await tableBytes(sequelize, 'run_sample_chunks') };
+  return { writeSeconds, readSeconds, bytes: await tableBytes(sequelize, 'run_sample_chunks') };
 }
 
 /** Prints and returns the archive figures. */
@@ -95,9 +95,9 @@ export async function run(): Promise<Record<string, string | number>> {
     console.log(`generated ${readings.length} readings through the run pipeline in ${((performance.now() - g0) / 1000).toFixed(2)} s`);
     const runId = await newRunId(db.sequelize, 'Bench 24 h');
     const rows = await plainRows(db.sequelize, readings);
-    console.log(`plain rows:    write ${rows.writeS.toFixed(2)} s (${Math.round(READINGS / rows.writeS)}/s), read ${rows.readS.toFixed(2)} s, ${(rows.bytes / 1e6).toFixed(1)} MB`);
+    console.log(`plain rows:    write ${rows.writeSeconds.toFixed(2)} s (${Math.round(READINGS / rows.writeSeconds)}/s), read ${rows.readSeconds.toFixed(2)} s, ${(rows.bytes / 1e6).toFixed(1)} MB`);
     const blk = await blocks(db.sequelize, readings, runId);
-    console.log(`column blocks: write ${blk.writeS.toFixed(2)} s (${Math.round(READINGS / blk.writeS)}/s), read ${blk.readS.toFixed(2)} s, ${(blk.bytes / 1e6).toFixed(1)} MB`);
+    console.log(`column blocks: write ${blk.writeSeconds.toFixed(2)} s (${Math.round(READINGS / blk.writeSeconds)}/s), read ${blk.readSeconds.toFixed(2)} s, ${(blk.bytes / 1e6).toFixed(1)} MB`);
 
     const times: number[] = [];
     for (let i = 0; i < SAMPLE_ROUNDS; i++) {
@@ -115,20 +115,20 @@ export async function run(): Promise<Record<string, string | number>> {
     const e0 = performance.now();
     const meta = await exportMeta(db.sequelize, (await new RunsRepo(db.sequelize).get(runId))!, async () => null);
     await streamCsvExport(sink, db.sequelize, meta);
-    const exportS = (performance.now() - e0) / 1000;
-    console.log(`export.csv: ${exportS.toFixed(2)} s, ${(bytes / 1e6).toFixed(1)} MB`);
+    const exportSeconds = (performance.now() - e0) / 1000;
+    console.log(`export.csv: ${exportSeconds.toFixed(2)} s, ${(bytes / 1e6).toFixed(1)} MB`);
     return {
       readings: READINGS,
-      rowsWriteS: +rows.writeS.toFixed(2),
-      rowsPerS: Math.round(READINGS / rows.writeS),
-      rowsReadS: +rows.readS.toFixed(2),
+      rowsWriteSeconds: +rows.writeSeconds.toFixed(2),
+      rowsPerS: Math.round(READINGS / rows.writeSeconds),
+      rowsReadSeconds: +rows.readSeconds.toFixed(2),
       rowsMB: +(rows.bytes / 1e6).toFixed(1),
-      blocksWriteS: +blk.writeS.toFixed(2),
-      blocksPerS: Math.round(READINGS / blk.writeS),
-      blocksReadS: +blk.readS.toFixed(2),
+      blocksWriteSeconds: +blk.writeSeconds.toFixed(2),
+      blocksPerS: Math.round(READINGS / blk.writeSeconds),
+      blocksReadSeconds: +blk.readSeconds.toFixed(2),
       blocksMB: +(blk.bytes / 1e6).toFixed(1),
       samples1000pxMs: Math.round(samplesMs),
-      exportCsvS: +exportS.toFixed(2),
+      exportCsvSeconds: +exportSeconds.toFixed(2),
       exportCsvMB: +(bytes / 1e6).toFixed(1),
     };
   } finally {

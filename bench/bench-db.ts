@@ -7,6 +7,7 @@ import type { Sequelize } from 'sequelize';
 import { provisionMariaDb, type ProvisionedMariaDb } from '../server/db/provisioner.js';
 import { createSequelize } from '../server/db/sequelize.js';
 import { migrate } from '../server/db/migrate.js';
+import { quietLogger } from '../server/log/logger.js';
 
 export const BENCH_DB_DIR = resolve('.data/bench-mariadb');
 export const BENCH_DB_PORT = Number(process.env.KNEEPOINT_BENCH_DB_PORT ?? 3329);
@@ -15,7 +16,7 @@ export const BENCH_DB_PORT = Number(process.env.KNEEPOINT_BENCH_DB_PORT ?? 3329)
 export async function openBenchDb(name: string): Promise<{ mariadb: ProvisionedMariaDb; sequelize: Sequelize; close(): Promise<void> }> {
   const database = `kp_bench_${name}_${Date.now().toString(36)}`;
   const mariadb = await provisionMariaDb({
-    baseDir: BENCH_DB_DIR, port: BENCH_DB_PORT, database, user: 'kp_bench', password: 'bench-only', grantAllDatabases: true, log: () => undefined,
+    baseDir: BENCH_DB_DIR, port: BENCH_DB_PORT, database, user: 'kp_bench', password: 'bench-only', grantAllDatabases: true, log: quietLogger,
   });
   const sequelize = createSequelize(mariadb);
   await migrate(sequelize);

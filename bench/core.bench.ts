@@ -16,7 +16,7 @@ import { createRunPipeline } from '../shared/measure/index.js';
 import { SerialSourceConfigSchema } from '../shared/schemas/bench.js';
 import type { SerialPortLike } from '../server/ingest/sources/serial-port-factory.js';
 import { SerialSource } from '../server/ingest/sources/serial-source.js';
-import { SECONDS_PER_HOUR } from '../shared/units/convert.js';
+import { SECONDS_PER_HOUR } from '../shared/units/time.js';
 
 const THROUGHPUT_LINES = 1_000_000;
 const THROUGHPUT_ROUNDS = 5;
@@ -25,7 +25,7 @@ const RATE_HZ = 50;
 const DAY_SECONDS = 24 * SECONDS_PER_HOUR;
 const CONFIG = { chemistry: 'lfp', cellsInSeries: 8, endVoltsPerCell: 2.5, ratedAh: 100, ratedWh: 2560, maxGapSeconds: 5 } as const;
 const SOURCE = SerialSourceConfigSchema.parse({
-  kind: 'serial', path: '/dev/bench-meter', baudRate: 115200, staleAfterS: 10,
+  kind: 'serial', path: '/dev/bench-meter', baudRate: 115200, staleAfterSeconds: 10,
   format: { kind: 'csv', columns: ['t', 'volts', 'amps', 'temp:cell'] },
 });
 

@@ -8,6 +8,7 @@
 import WebSocket from 'ws';
 import type { ServerMessage } from '../shared/schemas/ws.js';
 import { DelayHistogram, wallMs } from './delay-histogram.js';
+import { MS_PER_S } from '../shared/units/time.js';
 
 /** Parent → child. */
 export type ToGatewayViewers =
@@ -20,7 +21,6 @@ export type FromGatewayViewers =
   | { type: 'ready' }
   | { type: 'report'; received: number; measured: number; p50Ms: number; p99Ms: number; maxMs: number; dropped: number };
 
-const MS_PER_S = 1000;
 const delays = new DelayHistogram();
 const epochs = new Map<number, number>();
 const sockets: WebSocket[] = [];

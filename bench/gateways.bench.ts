@@ -24,6 +24,7 @@ import { openBenchDb } from './bench-db.js';
 import { DelayHistogram, wallMs } from './delay-histogram.js';
 import type { FromGateway, ToGateway } from './gateway-child.js';
 import type { FromGatewayViewers, ToGatewayViewers } from './gateway-viewers.js';
+import { MS_PER_S } from '../shared/units/time.js';
 
 const GATEWAYS = 4;
 const BENCHES_PER_GATEWAY = 50;
@@ -32,7 +33,6 @@ const HZ = 10;
 const SOAK_S = Number(process.env.GATEWAYS_SOAK_S ?? 60);
 const WARMUP_S = Math.min(10, SOAK_S / 4);
 const PASSWORD = 'bench-viewer-password';
-const MS_PER_S = 1000;
 const MEMORY_EVERY_MS = 5000;
 const mb = (b: number) => +(b / 1e6).toFixed(1);
 /** Linux counts a process's CPU time in clock ticks of 1/100 s (USER_HZ, common practice on x86-64). */
@@ -100,7 +100,7 @@ export async function run(): Promise<Record<string, string | number>> {
       const { gateway, password } = await service.create(`room-${g + 1}`);
       const benchIds: number[] = [];
       for (let i = 0; i < BENCHES_PER_GATEWAY; i++) {
-        const source = { kind: 'simulator', scenario: 'lfp-12v-100ah-cp-cutoff', speed: HZ, seed: allBenchIds.length + 1, staleAfterS: 10 };
+        const source = { kind: 'simulator', scenario: 'lfp-12v-100ah-cp-cutoff', speed: HZ, seed: allBenchIds.length + 1, staleAfterSeconds: 10 };
         const row = await benchModel(server.ctx.sequelize).create({ name: `Room ${g + 1} bench ${i + 1}`, source: JSON.stringify(source), enabled: true, notes: '' });
         benchIds.push(row.id);
         allBenchIds.push(row.id);
@@ -173,7 +173,7 @@ export async function run(): Promise<Record<string, string | number>> {
       gateways: GATEWAYS,
       benches: allBenchIds.length,
       hz: HZ,
-      soakS: SOAK_S,
+      soakSeconds: SOAK_S,
       framesMade,
       framesAtServer,
       lost: framesMade - framesAtServer,

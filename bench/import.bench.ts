@@ -92,7 +92,7 @@ export async function run(): Promise<Record<string, string | number>> {
       }
     })();
     const res = await fetch(`${url}/api/runs/import`, { method: 'POST', headers: { cookie, 'x-csrf-token': csrfToken }, body: form });
-    const body = (await res.json()) as { summary?: { rows: number; chargeAh: number }; error?: unknown };
+    const body = (await res.json()) as { summary?: { rows: number; dischargeAh: number }; error?: unknown };
     const seconds = (performance.now() - t0) / 1000;
     answered = true;
     await follow;
@@ -101,13 +101,13 @@ export async function run(): Promise<Record<string, string | number>> {
     const figures = {
       rows: body.summary.rows,
       fileMB: (bytes / 1e6).toFixed(1),
-      importTotalS: seconds.toFixed(2),
+      importTotalSeconds: seconds.toFixed(2),
       uploadedByS: ((phaseAtMs.checking ?? Number.NaN) / 1000).toFixed(2),
       checkedByS: ((phaseAtMs.importing ?? Number.NaN) / 1000).toFixed(2),
       rowsPerSecond: Math.round(ROWS / seconds),
       nodeCpuS: ((cpu.user + cpu.system) / 1e6).toFixed(2),
       loadAverage1m: load1!.toFixed(1),
-      chargeAh: body.summary.chargeAh.toFixed(6),
+      dischargeAh: body.summary.dischargeAh.toFixed(6),
     };
     console.log(figures);
     return figures;

@@ -22,6 +22,8 @@ import { JOURNAL_SYNC_INTERVAL_MS, ReadingJournal } from '../server/journal/read
 import { RunRecorder, type FrameFeed } from '../server/runs/run-recorder.js';
 import { RunsRepo } from '../server/runs/runs-repo.js';
 import { openBenchDb } from './bench-db.js';
+import { MS_PER_S } from '../shared/units/time.js';
+import { quietLogger } from '../server/log/logger.js';
 
 const RUNS = 20;
 const FRAMES_PER_RUN = 25_000;
@@ -29,9 +31,7 @@ const FRAMES_PER_RUN = 25_000;
 const FRAMES_PER_TURN = 2000;
 const LAB_HZ = 10;
 const LAB_SECONDS = Number(process.env.JOURNAL_BENCH_S ?? 20);
-const MS_PER_S = 1000;
 const NS_PER_MS = 1e6;
-const quiet = () => undefined;
 
 class BenchFeed implements FrameFeed {
   private listener: ((benchId: number, frame: Frame) => void) | null = null;
@@ -53,15 +53,15 @@ async function setUp(name: string, withJournal: boolean, timer?: (fn: () => void
   const models = defineCoreModels(db.sequelize);
   const battery = await models.Battery.create({ ...BATTERY_OPTIONAL_DEFAULTS, label: 'Bench pack', brand: 'Kestrel Energy', chemistry: 'lfp', cellsInSeries: 4, cellsInParallel: 1, ratedAh: 100, createdById: null });
   const journalDir = mkdtempSync(join(tmpdir(), 'kp-journal-bench-'));
-  const journal = withJournal ? new ReadingJournal({ dir: journalDir, log: quiet, setInterval: timer }) : null;
+  const journal = withJournal ? new ReadingJournal({ dir: journalDir, log: quietLogger, setInterval: timer }) : null;
   const writer = createArchiveWriter(db.sequelize, {
-    spillDir: join(journalDir, 'spill'), log: quiet,
+    spillDir: join(journalDir, 'spill'), log: quietLogger,
     onArchived: (b) => journal?.archived(b.runId, b.patch.readingsCount ?? 0, b.patch.endedAt !== undefined),
   });
   await writer.start();
   const repo = new RunsRepo(db.sequelize);
   const facts = { id: battery.id, label: 'Bench pack', brand: 'Kestrel Energy', chemistry: 'lfp', cellsInSeries: 4, ratedAh: 100, ratedWh: null, price: null, massKg: null, protectionSpecs: [] };
-  const recorder = new RunRecorder({ repo, archive: archiveSink(writer), getBattery: async () => facts, log: quiet });
+  const recorder = new RunRecorder({ repo, archive: archiveSink(writer), getBattery: async () => facts, log: quietLogger });
   if (journal) recorder.readings.add((runId, reading, index) => journal.append(runId, index, reading));
   const feed = new BenchFeed();
   recorder.attach(feed);

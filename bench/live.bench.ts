@@ -141,7 +141,7 @@ export async function run(): Promise<Record<string, string | number>> {
       benches: BENCHES,
       hz: HZ,
       viewers: VIEWERS,
-      soakS: SOAK_S,
+      soakSeconds: SOAK_S,
       framesIn: seq,
       readingsOut: v.received,
       delayP50Ms: +v.p50Ms.toFixed(1),

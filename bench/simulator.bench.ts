@@ -4,7 +4,7 @@
  */
 import { performance } from 'node:perf_hooks';
 import { createMeterDevice } from '../simulator/meter/device.js';
-import { createSimulation, type SimSample } from '../simulator/engine/simulation.js';
+import { createSimulation, type SimReading } from '../simulator/engine/simulation.js';
 import { loadScenario } from '../simulator/scenario/registry.js';
 import { withCrc } from '../simulator/encoders/modbus/crc16.js';
 
@@ -17,7 +17,7 @@ export async function run(): Promise<Record<string, string | number>> {
   const scenario = loadScenario(SCENARIO);
   const started = performance.now();
   const sim = createSimulation(scenario, { seed: 1 });
-  const samples: SimSample[] = [];
+  const samples: SimReading[] = [];
   for (let s = sim.step(); s; s = sim.step()) samples.push(s);
   const physicsMs = performance.now() - started;
   const figures: Record<string, string | number> = {

@@ -5,6 +5,7 @@ import { defineCoreModels, type CoreModels } from './db/models/index.js';
 import { createPassport, type PassportInstance } from './auth/passport-setup.js';
 import { createSession, type SessionParts } from './auth/session.js';
 import { redactingLogger } from './http/redact-tokens.js';
+import { consoleLogger, type Logger } from './log/logger.js';
 
 /**
  * Services other areas hang on the context (bench manager, live hub, ...). Add yours from your
@@ -15,12 +16,8 @@ import { redactingLogger } from './http/redact-tokens.js';
 // eslint-disable-next-line @typescript-eslint/no-empty-object-type
 export interface AppServices {}
 
-/** Minimal logger; tests pass a quiet one. */
-export interface Logger {
-  info(message: string): void;
-  warn(message: string): void;
-  error(message: string, error?: unknown): void;
-}
+/** The server's logger shape (server/log/logger.ts); tests pass a quiet one. */
+export type { Logger };
 
 /** Everything a router or attachment needs, created once per server. */
 export interface AppContext {
@@ -40,11 +37,7 @@ export interface AppContext {
 }
 
 /** The console logger used outside tests. */
-export const consoleLogger: Logger = {
-  info: (message) => console.log(message),
-  warn: (message) => console.warn(message),
-  error: (message, error) => console.error(message, error ?? ''),
-};
+export { consoleLogger };
 
 /** Builds the context: models, passport and sessions on an already migrated database; its logger redacts share tokens. */
 export function createAppContext(config: AppConfig, sequelize: Sequelize, rawLog: Logger = consoleLogger): AppContext {

@@ -1,6 +1,7 @@
 import { ConfigError, loadConfig } from './config/config.js';
 import { DEMO_ACCOUNTS, DEMO_LAB_NAME } from './db/seed-demo.js';
 import { ATTACHMENTS, startServer, type Attachment } from './server.js';
+import { createLogger } from './log/logger.js';
 
 /**
  * ── DEMO BENCH: attachments that run only in demo mode (ingest adds the simulator-backed demo
@@ -33,7 +34,7 @@ async function main(): Promise<void> {
       await server.close();
       process.exit(0);
     } catch (error) {
-      console.error('Error while stopping', error);
+      createLogger('server').error('Error while stopping', error);
       process.exit(1);
     }
   };

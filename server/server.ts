@@ -22,6 +22,7 @@ import { attachPush } from './push/attach-push.js';
 import { attachProgrammes } from './programmes/attach-programmes.js';
 import { attachInstruments } from './instruments/attach-instruments.js';
 import { mqttAttachment } from './mqtt/attach-mqtt.js';
+import { createLogger } from './log/logger.js';
 
 /** Undoes an attachment (close sockets, stop timers); awaited on server close. */
 export type Detach = () => Promise<void> | void;
@@ -70,7 +71,7 @@ async function openDatabase(config: AppConfig, options: StartServerOptions, log:
   if (!config.db.provision) return { database: config.db, mariadb: undefined };
   const mariadb = await provisionMariaDb({
     baseDir: config.db.mariadbDir, port: config.db.port, database: config.db.database,
-    user: config.db.user, password: config.db.password, log: (message) => log.info(`[mariadb] ${message}`),
+    user: config.db.user, password: config.db.password, log: createLogger('mariadb', log),
   });
   return { database: mariadb as DatabaseConfig, mariadb };
 }
@@ -124,7 +125,7 @@ export async function startServer(options: StartServerOptions = {}): Promise<Run
     const health = new DatabaseHealth(mariadb !== undefined);
     ctx.services.databaseHealth = health;
     guardQueries(sequelize, health);
-    watch = watchDatabase({ health, probe: createPingProbe(database), server: mariadb, log: (message) => log.warn(message) });
+    watch = watchDatabase({ health, probe: createPingProbe(database), server: mariadb, log: createLogger('mariadb', log) });
     const demoSeeded = options.seedDemo ? (await seedDemo(ctx.models, config.demoPassword)).seeded : false;
     const app = createApp(ctx);
     httpServer = createServer(app);

@@ -74,7 +74,7 @@ async function main(): Promise<void> {
     seed: args.seed,
     csv: csvOptionsFor(scenario, !args['no-time']),
     meter: {
-      ...(args['sample-period'] ? { samplePeriodS: args['sample-period'] } : {}),
+      ...(args['sample-period'] ? { readingPeriodSeconds: args['sample-period'] } : {}),
       ...(args.ideal ? IDEAL_METER : {}),
     },
     modbus: { unitId: args['unit-id'] },

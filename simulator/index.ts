@@ -3,7 +3,7 @@
  * encoders and the transports (pseudo-terminal, streams). The server imports this file.
  */
 export { createSimulation, DEFAULT_SEED } from './engine/simulation.js';
-export type { SimSample, Simulation, SimulationOptions } from './engine/simulation.js';
+export type { SimReading, Simulation, SimulationOptions } from './engine/simulation.js';
 export type { SimEvent, SimTotals } from './engine/events.js';
 export type { Clock } from './engine/clock.js';
 export { systemClock } from './engine/clock.js';

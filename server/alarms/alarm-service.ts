@@ -8,9 +8,8 @@ import type { AlarmChannels } from './alarm-channel.js';
 import type { AlarmRepo } from './alarm-repo.js';
 import { ALARM_PRIORITY, LATCHING_KINDS, alarmActionFor, lastEscalationStep } from './alarm-rules.js';
 import type { DeliveryKey, DeliveryQueue } from './delivery-queue.js';
+import { MS_PER_MINUTE, MS_PER_S } from '../../shared/units/time.js';
 
-const MS_PER_S = 1000;
-const MS_PER_MINUTE = 60_000;
 /** How often escalations and the silence watchdog are checked. */
 export const ALARM_TICK_MS = 1000;
 /** Kinds that return to normal when the run ends (latching ones wait for a person). */

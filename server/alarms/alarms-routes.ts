@@ -10,8 +10,8 @@ import { parseBody, parseIdParam } from '../http/validate.js';
 import { AlarmRepo } from './alarm-repo.js';
 import { alarmsOf } from './alarms-services.js';
 import { DeliveryQueue } from './delivery-queue.js';
+import { MS_PER_MINUTE } from '../../shared/units/time.js';
 
-const MS_PER_MINUTE = 60_000;
 /** Most alarms the in-app list returns. */
 const INBOX_LIMIT = 100;
 const ListQuerySchema = z.object({

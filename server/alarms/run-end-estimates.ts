@@ -3,8 +3,8 @@ import { EndEstimator } from '../../shared/measure/time-to-end.js';
 import type { MeasureConfig } from '../../shared/schemas/measure-config.js';
 import type { Reading } from '../../shared/schemas/reading.js';
 import type { RunKind } from '../../shared/schemas/run.js';
+import { SECONDS_PER_MINUTE } from '../../shared/units/time.js';
 
-const SECONDS_PER_MINUTE = 60;
 
 /** What the estimate needs to know of a live run: its kind and its measure config (rating, chemistry). */
 export interface RunEstimateFacts {

@@ -5,6 +5,7 @@ import { ArchiveWriter } from './archive-writer.js';
 import { COMPACT_READINGS, compactRun, writeBatch } from './chunk-store.js';
 import { SpillStore } from './spill-store.js';
 import { isConnectionFailure } from '../db/connection-errors.js';
+import type { Logger } from '../log/logger.js';
 
 /**
  * Connection trouble is worth waiting out; an SQL error (missing run or table) is not. A
@@ -20,7 +21,7 @@ export function isTransient(err: unknown): boolean {
 export interface ArchiveOptions {
   spillDir: string;
   memoryLimitBytes?: number;
-  log?: (message: string) => void;
+  log?: Logger;
   sleep?: (ms: number) => Promise<void>;
   /** Told of every batch once it is in the database (the journal drops what the archive holds). */
   onArchived?: (batch: ArchiveBatch) => void;

@@ -1,5 +1,6 @@
 import { batchBytes, type ArchiveBatch } from './archive-batch.js';
 import type { SpillStore } from './spill-store.js';
+import type { Logger } from '../log/logger.js';
 
 /** Waits before retrying a failed write: grows to the last value and stays there. */
 export const RETRY_DELAYS_MS = [250, 500, 1000, 2000, 5000] as const;
@@ -13,7 +14,7 @@ export interface ArchiveWriterOptions {
   /** Called after a batch is in the database (compaction hooks in here). */
   afterWrite?: (batch: ArchiveBatch) => Promise<void>;
   sleep?: (ms: number) => Promise<void>;
-  log?: (message: string) => void;
+  log?: Logger;
   /**
    * False for an error that retrying cannot fix (the run was deleted, the schema is wrong).
    * Such a batch is tried PERMANENT_ERROR_ATTEMPTS times, then handed to `deadLetter` so it
@@ -66,7 +67,7 @@ export class ArchiveWriter {
         .then(() => this.opts.spill.push(batch))
         .catch((err: unknown) => {
           // The disk failed too: keep the batch in memory rather than lose it.
-          this.opts.log?.(`archive: spill failed (${String(err)}); holding the batch in memory`);
+          this.opts.log?.warn('archive: spill failed; holding the batch in memory', err);
           this.memory.push(batch);
           this.memoryBytes += size;
         })
@@ -131,7 +132,7 @@ export class ArchiveWriter {
     this.draining = this.drain()
       .catch(async (err: unknown) => {
         // A spill file could not be read: report it and pause so the loop never spins.
-        this.opts.log?.(`archive: drain failed: ${String(err)}`);
+        this.opts.log?.warn('archive: drain failed', err);
         await this.sleep(RETRY_DELAYS_MS[RETRY_DELAYS_MS.length - 1]!);
       })
       .finally(() => {
@@ -155,7 +156,7 @@ export class ArchiveWriter {
         await this.opts.spill.shift();
       }
       this.stats.written++;
-      await this.opts.afterWrite?.(batch).catch((err: unknown) => this.opts.log?.(`archive: after-write step failed: ${String(err)}`));
+      await this.opts.afterWrite?.(batch).catch((err: unknown) => this.opts.log?.error('archive: after-write step failed', err));
     }
   }
 
@@ -164,17 +165,17 @@ export class ArchiveWriter {
     for (let attempt = 0; !this.stopped; attempt++) {
       try {
         await this.opts.write(batch);
-        if (!this.stats.healthy) this.opts.log?.('archive: database reachable again');
+        if (!this.stats.healthy) this.opts.log?.info('archive: database reachable again');
         this.stats.healthy = true;
         return;
       } catch (err) {
         this.stats.failures++;
         if (this.opts.deadLetter && this.opts.isTransient && !this.opts.isTransient(err) && ++permanent >= PERMANENT_ERROR_ATTEMPTS) {
-          this.opts.log?.(`archive: batch for run ${batch.runId} set aside after ${permanent} failures (${String(err)})`);
+          this.opts.log?.error(`archive: batch for run ${batch.runId} set aside after ${permanent} failures`, err);
           await this.opts.deadLetter(batch, err);
           return;
         }
-        if (this.stats.healthy) this.opts.log?.(`archive: write failed, buffering (${String(err)})`);
+        if (this.stats.healthy) this.opts.log?.warn('archive: write failed, buffering', err);
         this.stats.healthy = false;
         await this.sleep(RETRY_DELAYS_MS[Math.min(attempt, RETRY_DELAYS_MS.length - 1)]!);
       }

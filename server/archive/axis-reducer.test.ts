@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { dischargeAxis, reduceOverDischarge } from './axis-reducer.js';
 import { integrateColumns } from '../../shared/measure/integrator.js';
+import { SECONDS_PER_HOUR } from '../../shared/units/time.js';
 
-const SECONDS_PER_HOUR = 3600;
 
 /** A constant-current discharge: I amps for `seconds` s at one reading a second, volts falling linearly. */
 function constantCurrent(amps: number, seconds: number, v0: number, voltsPerSecond: number) {

@@ -1,6 +1,6 @@
 import { concatColumns, type Columns } from './column-block.js';
 import { cumulativeDischarge } from '../../shared/measure/cumulative-discharge.js';
-import { reduceSamples, type ReducedSamples } from './sample-reducer.js';
+import { reduceReadings, type ReducedReadings } from './sample-reducer.js';
 
 /** A chart's x axis: run seconds, or delivered Ah or Wh so far. */
 export type SampleAxis = 't' | 'ah' | 'wh';
@@ -29,10 +29,10 @@ export function reduceOverDischarge(
   window: { from?: number; to?: number },
   maxPoints: number,
   maxGapSeconds?: number,
-): ReducedSamples & { from: number; to: number } {
+): ReducedReadings & { from: number; to: number } {
   const { columns, x } = dischargeAxis(parts, axis, maxGapSeconds);
   const from = window.from ?? 0;
   const to = window.to ?? (x.length ? x[x.length - 1]! : 0);
   if (to < from) throw new RangeError('`to` must not be before `from`');
-  return { from, to, ...reduceSamples([{ ...columns, elapsed: x }], from, to, maxPoints) };
+  return { from, to, ...reduceReadings([{ ...columns, elapsed: x }], from, to, maxPoints) };
 }

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { reduceSamples, reduceStats } from './sample-reducer.js';
+import { reduceReadings, reduceStats } from './sample-reducer.js';
 
 const cols = (elapsed: number[], volts: number[], amps?: number[]) => ({
   elapsed: Float64Array.from(elapsed),
@@ -7,9 +7,9 @@ const cols = (elapsed: number[], volts: number[], amps?: number[]) => ({
   amps: Float64Array.from(amps ?? volts.map(() => 1)),
 });
 
-describe('reduceSamples', () => {
+describe('reduceReadings', () => {
   it('returns every reading when the window holds no more than maxPoints', () => {
-    const r = reduceSamples([cols([0, 1, 2, 3], [13, 12.9, 12.8, 12.7])], 1, 2, 10);
+    const r = reduceReadings([cols([0, 1, 2, 3], [13, 12.9, 12.8, 12.7])], 1, 2, 10);
     expect(r.reduced).toBe(false);
     expect(r.t).toEqual([1, 2]);
     expect(r.volts.min).toEqual([12.9, 12.8]);
@@ -22,7 +22,7 @@ describe('reduceSamples', () => {
     const volts = elapsed.map(() => 12);
     volts[4321] = 3.1; // a protection cutoff dip lasting one sample
     volts[777] = 14.6;
-    const r = reduceSamples([cols(elapsed, volts)], 0, n - 1, 100);
+    const r = reduceReadings([cols(elapsed, volts)], 0, n - 1, 100);
     expect(r.reduced).toBe(true);
     expect(r.t).toHaveLength(100);
     expect(Math.min(...(r.volts.min as number[]))).toBe(3.1);
@@ -34,7 +34,7 @@ describe('reduceSamples', () => {
   it('leaves an empty bucket null so a chart draws a gap, and spans several parts', () => {
     const a = cols([0, 1, 2, 3, 4], [1, 2, 3, 4, 5]);
     const b = cols([96, 97, 98, 99, 100], [6, 7, 8, 9, 10]);
-    const r = reduceSamples([a, b], 0, 100, 5);
+    const r = reduceReadings([a, b], 0, 100, 5);
     expect(r.reduced).toBe(true);
     expect(r.volts.min).toEqual([1, null, null, null, 6]);
     expect(r.volts.max).toEqual([5, null, null, null, 10]);
@@ -43,7 +43,7 @@ describe('reduceSamples', () => {
 
   it('reduces temperature channels with the same buckets', () => {
     const p = { ...cols([0, 1, 2, 3], [1, 1, 1, 1]), 'temp:cell': Float64Array.from([20, 25, Number.NaN, 22]) };
-    const r = reduceSamples([p], 0, 3, 2);
+    const r = reduceReadings([p], 0, 3, 2);
     expect(r.temps.cell!.min).toEqual([20, 22]);
     expect(r.temps.cell!.max).toEqual([25, 22]);
   });
@@ -58,7 +58,7 @@ describe('reduceStats', () => {
     volts[12_345] = 2.2; // a one-reading collapse
     const amps = Float64Array.from({ length: n }, () => 4);
     const part = { elapsed, volts, amps, 'temp:cell': Float64Array.from({ length: n }, (_, i) => 20 + i / 1000) };
-    const exact = reduceSamples([part], 0, elapsed[n - 1]!, 50);
+    const exact = reduceReadings([part], 0, elapsed[n - 1]!, 50);
     const fast = reduceStats([computeStats(part)], 0, elapsed[n - 1]!, 50);
     expect(fast.readingsInWindow).toBe(n);
     const min = (c: (number | null)[]) => Math.min(...(c.filter((v) => v !== null) as number[]));

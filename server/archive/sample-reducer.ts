@@ -6,7 +6,7 @@ export interface MinMax {
   min: (number | null)[];
   max: (number | null)[];
 }
-export interface ReducedSamples {
+export interface ReducedReadings {
   reduced: boolean;
   bucketSeconds: number | null;
   readingsInWindow: number;
@@ -67,7 +67,7 @@ const accRecord = (r: Record<string, Acc>): Record<string, MinMax> => Object.fro
  * holds no more readings than `maxPoints`, every reading is returned as it is. A spike
  * survives because a bucket keeps its extremes, never an average.
  */
-export function reduceSamples(parts: readonly Columns[], from: number, to: number, maxPoints: number): ReducedSamples {
+export function reduceReadings(parts: readonly Columns[], from: number, to: number, maxPoints: number): ReducedReadings {
   const ranges = parts.map((p) => {
     const e = p.elapsed!;
     return { p, start: lowerBound(e, from), end: upperBound(e, to) };
@@ -148,7 +148,7 @@ function emptyBuckets(from: number, to: number, buckets: number) {
  * straddles a bucket border counts in both buckets, so an extreme is never lost; the
  * bucket it lands in is off by at most one group's duration.
  */
-export function reduceStats(parts: readonly Columns[], from: number, to: number, buckets: number): ReducedSamples {
+export function reduceStats(parts: readonly Columns[], from: number, to: number, buckets: number): ReducedReadings {
   const { bucketSeconds, t, volts, amps, watts, temps } = emptyBuckets(from, to, buckets);
   let inWindow = 0;
   const bucketOf = (x: number) => Math.max(0, Math.min(buckets - 1, Math.floor((x - from) / bucketSeconds)));

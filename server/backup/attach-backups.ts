@@ -2,6 +2,7 @@ import type { Server } from 'node:http';
 import type { AppContext } from '../app-context.js';
 import type { DatabaseConfig } from '../config/config.js';
 import { createBackup } from './backup-service.js';
+import { MS_PER_HOUR } from '../../shared/units/time.js';
 
 /** The last scheduled backup, for the health endpoint. */
 export interface BackupStatus {
@@ -19,7 +20,6 @@ declare module '../app-context.js' {
   }
 }
 
-const MS_PER_HOUR = 3_600_000;
 
 /**
  * Server attachment: when KNEEPOINT_BACKUP_DIR is set, backs up the database and the uploaded

@@ -8,6 +8,7 @@ import { loadConfig, type AppConfig, type DatabaseConfig } from '../config/confi
 import { liveLeaseHolders } from '../db/mariadb-lease.js';
 import { provisionMariaDb, type ProvisionedMariaDb } from '../db/provisioner.js';
 import { createBackup, listBackups, readManifest, restoreBackup } from './backup-service.js';
+import { createLogger } from '../log/logger.js';
 
 const USAGE = 'usage: npm run backup [-- <folder>]   |   npm run restore -- <backup folder>';
 
@@ -15,7 +16,7 @@ async function openDatabase(config: AppConfig): Promise<{ db: DatabaseConfig; ma
   if (!config.db.provision) return { db: config.db };
   const mariadb = await provisionMariaDb({
     baseDir: config.db.mariadbDir, port: config.db.port, database: config.db.database, user: config.db.user, password: config.db.password,
-    log: (m) => console.log(`[mariadb] ${m}`),
+    log: createLogger('mariadb'),
   });
   return { db: mariadb, mariadb };
 }

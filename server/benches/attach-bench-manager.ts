@@ -8,6 +8,7 @@ import '../mqtt/attach-mqtt.js';
 import type { SourceDeps } from '../ingest/sources/create-source.js';
 import './bench-services.js';
 import { benchModel } from './bench-model.js';
+import { createLogger } from '../log/logger.js';
 import { toManaged } from './bench-service.js';
 
 /**
@@ -19,7 +20,7 @@ export async function attachBenchManager(_httpServer: Server, ctx: AppContext, d
   const link = ctx.services.gatewayLink;
   // A bench a gateway runs gets a stand-in fed over MQTT (the MQTT attachment ran first); without MQTT it stays idle.
   const remote = link ? (bench: ManagedBench, sink: SourceSink) => new GatewaySource(bench, sink, link, deps.clock ?? systemClock) : undefined;
-  const manager = new BenchManager(deps, (message, err) => ctx.log.error(message, err), remote);
+  const manager = new BenchManager(deps, createLogger('benches', ctx.log), remote);
   ctx.services.benchManager = manager;
   const rows = await benchModel(ctx.sequelize).findAll();
   await manager.sync(rows.map(toManaged));

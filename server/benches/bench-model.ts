@@ -1,6 +1,7 @@
 import { DataTypes, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Model, type ModelStatic, type Sequelize } from 'sequelize';
 import { BenchSourceConfigSchema, type Bench, type BenchSourceConfig } from '../../shared/schemas/bench.js';
 import { readMeterAccuracy } from '../../shared/schemas/meter-accuracy.js';
+import { withCurrentKeys } from '../../shared/schemas/legacy-keys.js';
 
 /** A row of `benches`; `source` holds the JSON text of a BenchSourceConfig. */
 export interface BenchRow extends Model<InferAttributes<BenchRow>, InferCreationAttributes<BenchRow>> {
@@ -49,7 +50,8 @@ export function benchModel(sequelize: Sequelize): BenchModel {
  */
 export function readSource(row: BenchRow): { source: BenchSourceConfig; problem?: string } {
   try {
-    const parsed = BenchSourceConfigSchema.safeParse(JSON.parse(row.source));
+    // A row stored before the renames (`staleAfterS`) reads as the same source. // vocab-rename: keep
+    const parsed = BenchSourceConfigSchema.safeParse(withCurrentKeys(JSON.parse(row.source)));
     if (parsed.success) return { source: parsed.data };
     return { source: { kind: 'none' }, problem: `stored source is invalid: ${parsed.error.issues[0]?.message ?? 'unknown'}` };
   } catch {

@@ -13,6 +13,7 @@ import { RunsRepo } from '../runs/runs-repo.js';
 import '../benches/bench-services.js';
 import '../runs/runs-services.js';
 import { liveSnapshotSource } from './live-snapshot-source.js';
+import { createLogger } from '../log/logger.js';
 
 /** How long a shutdown waits for the database to take pending readings before spilling them. */
 export const SHUTDOWN_FLUSH_MS = 5000;
@@ -39,21 +40,21 @@ export interface RecordingOptions {
 export function recordingAttachment(options: RecordingOptions = {}) {
   return async function attachRecording(httpServer: Server, ctx: AppContext): Promise<() => Promise<void>> {
     const repo = new RunsRepo(ctx.sequelize);
-    const journal = new ReadingJournal({ dir: options.journalDir ?? join(ctx.config.dataDir, 'journal'), log: (m) => ctx.log.warn(m) });
+    const journal = new ReadingJournal({ dir: options.journalDir ?? join(ctx.config.dataDir, 'journal'), log: createLogger('journal', ctx.log) });
     const writer = createArchiveWriter(ctx.sequelize, {
       spillDir: options.spillDir ?? join(ctx.config.dataDir, 'spill'),
       memoryLimitBytes: options.memoryLimitBytes,
-      log: (m) => ctx.log.warn(m),
+      log: createLogger('archive', ctx.log),
       onArchived: (batch) => journal.archived(batch.runId, batch.patch.readingsCount ?? 0, batch.patch.endedAt !== undefined),
     });
     const recorder = new RunRecorder({
       repo, archive: archiveSink(writer), getBattery: batteryLookup(ctx), benchExists: (id) => repo.benchExists(id),
-      benchSourceFacts: (id) => repo.benchSourceFacts(id), log: (m, e) => ctx.log.error(m, e),
+      benchSourceFacts: (id) => repo.benchSourceFacts(id), log: createLogger('runs', ctx.log),
       // Arming a run on a simulated bench starts a fresh simulated pack, so a demo always starts from full.
       prepareBench: async (id) => ctx.services.benchManager?.freshSimulation(id),
     });
     const hub = new LiveHub({ source: liveSnapshotSource(ctx, recorder, repo) });
-    recorder.readings.add((runId, reading) => hub.publishSample({ kind: 'run', id: runId }, reading));
+    recorder.readings.add((runId, reading) => hub.publishReading({ kind: 'run', id: runId }, reading));
     recorder.readings.add((runId, reading, index) => journal.append(runId, index, reading));
     recorder.events.add((runId, e) => ('id' in e ? hub.publishStoredEvent(e) : hub.publishEvent(runId, e.event, null)));
     recorder.runChanges.add((run) => hub.publishRun(run));
@@ -71,7 +72,7 @@ export function recordingAttachment(options: RecordingOptions = {}) {
     const unsubscribe: (() => void)[] = [];
     if (feed) {
       recorder.attach(feed);
-      unsubscribe.push(feed.onFrame((benchId, frame) => hub.publishSample({ kind: 'bench', id: benchId }, frame)));
+      unsubscribe.push(feed.onFrame((benchId, frame) => hub.publishReading({ kind: 'bench', id: benchId }, frame)));
       if (feed.onStatus) unsubscribe.push(feed.onStatus((benchId, status) => hub.publishStatus(benchId, status)));
     } else ctx.log.warn('Live: no frame feed; runs cannot record');
     ctx.services.runRecorder = recorder;

@@ -2,6 +2,7 @@ import { resolve } from 'node:path';
 import { EnvSchema, type Env } from './env-schema.js';
 import type { TrustProxySetting } from './proxy-settings.js';
 import { loadOrCreateSecrets } from './secrets.js';
+import { MS_PER_HOUR, MS_PER_MINUTE, MS_PER_S } from '../../shared/units/time.js';
 
 /** Where and how to reach the application database. */
 export interface DatabaseConfig {
@@ -62,9 +63,6 @@ export interface AlarmDeliveryConfig {
   maxAttempts: number;
 }
 
-const MS_PER_S = 1000;
-const MS_PER_HOUR = 3_600_000;
-const MS_PER_MINUTE = 60_000;
 
 /** Thrown when the environment is invalid; the message names every bad variable. */
 export class ConfigError extends Error {}

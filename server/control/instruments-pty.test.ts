@@ -9,12 +9,12 @@ import { benchControlLfp12v } from '../../simulator/scenarios/bench-control-lfp-
 import { SerialSource } from '../ingest/sources/serial-source.js';
 import { InstrumentFault, type CommandLogEntry, type InstrumentControl } from './instrument-control.js';
 import { openInstrument } from './open-instrument.js';
+import { SECONDS_PER_HOUR } from '../../shared/units/time.js';
 
 const run = promisify(execFile);
 const TIMEOUT_MS = 30_000;
 /** A simulated minute a second: the pack moves visibly while the test waits a few seconds. */
 const SPEED = 60;
-const SECONDS_PER_HOUR = 3600;
 const link = (name: string) => `/tmp/kneepoint-ctl-test-${process.pid}-${name}`;
 let bench: SimulatedBench | undefined;
 const closers: (() => Promise<void>)[] = [];

@@ -7,6 +7,7 @@ import type { CommandLogEntry } from './instrument-control.js';
 import { readingTrip, silenceTrip, type OutputsOn, type SafetyLimits } from './safety-net.js';
 import { allOutputsOff, applyStep, reasonOf, type BenchInstruments } from './step-actions.js';
 import { SETTLE_WINDOW_SECONDS, stepEndReason, stepTimeoutFault, stepTotals, type ProgrammeReading, type StepEnd } from './step-conditions.js';
+import { MS_PER_S } from '../../shared/units/time.js';
 
 /** How often the executor checks the time, the meter's silence and the steps' time limits, ms. */
 export const TICK_MS = 250;
@@ -14,7 +15,6 @@ export const TICK_MS = 250;
 export const POLL_MS = 1000;
 /** The instrument-side watchdog: outputs off when the server has sent nothing for this long, s. */
 export const WATCHDOG_SECONDS = 5;
-const MS_PER_S = 1000;
 
 /** What the executor needs from the world; no HTTP, no database. */
 export interface ExecutorDeps {

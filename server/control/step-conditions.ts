@@ -1,6 +1,7 @@
 import type { Reading } from '../../shared/schemas/reading.js';
 import type { SimpleStep } from '../../shared/schemas/programme.js';
 import type { StepEndCause } from '../../shared/schemas/programme-run.js';
+import { SECONDS_PER_MINUTE } from '../../shared/units/time.js';
 
 /** What the executor needs of a reading: volts, amps, temperatures and the run's running totals. */
 export type ProgrammeReading = Pick<Reading, 'elapsedSeconds' | 'volts' | 'amps' | 'temps' | 'chargeAh' | 'chargeWh' | 'dischargeAh' | 'dischargeWh'>;
@@ -14,7 +15,6 @@ export const CV_REACHED_SHARE = 0.02;
 export const TAPER_SETTLE_SECONDS = 10;
 /** A rest's settle test looks at the voltage change over this window, s. */
 export const SETTLE_WINDOW_SECONDS = 60;
-const SECONDS_PER_MINUTE = 60;
 
 /** Everything a step's end test looks at. */
 export interface StepProgress {

@@ -33,7 +33,7 @@ function setUp(supervised = true) {
   const log: string[] = [];
   const health = new DatabaseHealth(supervised, now);
   const watch = watchDatabase({
-    health, probe, server: supervised ? server : undefined, log: (m) => log.push(m), now, intervalMs: 1e9, restartDelaysMs: [0, 1000, 5000],
+    health, probe, server: supervised ? server : undefined, log: { info: (m) => log.push(m), warn: (m) => log.push(m), error: (m, e) => log.push(`${m}: ${String(e)}`) }, now, intervalMs: 1e9, restartDelaysMs: [0, 1000, 5000],
   });
   return { db, health, watch, log, advance: (ms: number) => (nowMs += ms) };
 }

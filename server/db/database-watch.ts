@@ -1,5 +1,6 @@
 import type { DatabaseHealth } from './database-health.js';
 import type { DatabaseProbe } from './database-probe.js';
+import type { Logger } from '../log/logger.js';
 
 /** The private MariaDB as the supervisor sees it (the provisioner implements it). */
 export interface SupervisedServer {
@@ -29,7 +30,8 @@ export interface WatchOptions {
   probe: DatabaseProbe;
   /** Absent when the server did not provision the database: then it is only watched, never restarted. */
   server?: SupervisedServer;
-  log: (message: string) => void;
+  /** Every step of the watch (restarts, stalls, recoveries); lines are written as warnings. */
+  log: Logger;
   intervalMs?: number;
   probeTimeoutMs?: number;
   restartDelaysMs?: readonly number[];
@@ -67,7 +69,7 @@ export function watchDatabase(opts: WatchOptions): DatabaseWatch {
     const state = health.status().state;
     if (state !== 'down') {
       health.set('down', 'the MariaDB server process has exited');
-      opts.log('[mariadb] the server process has exited; restarting it');
+      opts.log.warn('the server process has exited; restarting it');
       // Dead again right after a restart: the delay that attempt set stands.
       if (state !== 'restarting') nextRestartAt = now() + delays[Math.min(attempt, delays.length - 1)]!;
     }
@@ -78,10 +80,10 @@ export function watchDatabase(opts: WatchOptions): DatabaseWatch {
       const pid = await server.ensureRunning();
       health.restarted();
       lastRestartMs = now();
-      opts.log(`[mariadb] restarted (pid ${pid}) in ${now() - started} ms; restarts so far: ${health.status().restarts}`);
+      opts.log.warn(`restarted (pid ${pid}) in ${now() - started} ms; restarts so far: ${health.status().restarts}`);
     } catch (err) {
       health.set('down', `restart failed: ${err instanceof Error ? err.message.split('\n')[0] : String(err)}`);
-      opts.log(`[mariadb] restart failed: ${String(err)}`);
+      opts.log.warn('restart failed', err);
     }
     attempt++;
     nextRestartAt = now() + delays[Math.min(attempt, delays.length - 1)]!;
@@ -91,7 +93,7 @@ export function watchDatabase(opts: WatchOptions): DatabaseWatch {
     const { health } = opts;
     if (await opts.probe.check(timeoutMs)) {
       if (!health.available()) {
-        opts.log(`[mariadb] answering again after ${outageStartMs === undefined ? '?' : ((now() - outageStartMs) / 1000).toFixed(1)} s`);
+        opts.log.warn(`answering again after ${outageStartMs === undefined ? '?' : ((now() - outageStartMs) / 1000).toFixed(1)} s`);
       }
       outageStartMs = undefined;
       stoppedPid = undefined;
@@ -106,7 +108,7 @@ export function watchDatabase(opts: WatchOptions): DatabaseWatch {
     if (opts.server && !proc) return restartIfDue(opts.server);
     if (!proc?.stopped && latePings < LATE_PINGS_FOR_STALL) return;
     if (!opts.server) {
-      if (health.available()) opts.log('[mariadb] the database does not answer');
+      if (health.available()) opts.log.warn('the database does not answer');
       return health.set('unreachable', `no answer within ${timeoutMs} ms, ${latePings} times in a row`);
     }
     // A process seen stopped in this outage stays part of the reason: right after SIGCONT it runs
@@ -116,11 +118,11 @@ export function watchDatabase(opts: WatchOptions): DatabaseWatch {
     const why = proc!.stopped ? `the server process (pid ${proc!.pid}) is stopped (SIGSTOP)`
       : stoppedPid !== undefined ? `the server process (pid ${stoppedPid}) was stopped (SIGSTOP), runs again and ${late}`
       : `the server (pid ${proc!.pid}) ${late}`;
-    if (health.available()) opts.log(`[mariadb] stalled: ${why}`);
+    if (health.available()) opts.log.warn(`stalled: ${why}`);
     health.set('stalled', why);
   };
 
-  const tick = () => (running = running.then(check).catch((err: unknown) => opts.log(`[mariadb] watch failed: ${String(err)}`)));
+  const tick = () => (running = running.then(check).catch((err: unknown) => opts.log.error('watch failed', err)));
   const loop = () => {
     if (stopped) return;
     void tick().then(() => {

@@ -2,6 +2,10 @@ import { dirname, join } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { Umzug, SequelizeStorage } from 'umzug';
 import type { QueryInterface, Sequelize } from 'sequelize';
+import { createLogger } from '../log/logger.js';
+
+/** Umzug's own warnings and errors. */
+const migrateLog = createLogger('migrate');
 
 /** What every migration receives: `export const up: Migration = async ({ context }) => …`. */
 export interface MigrationContext {
@@ -33,7 +37,7 @@ export function createMigrator(sequelize: Sequelize, log: (message: string) => v
     },
     context: { queryInterface: sequelize.getQueryInterface(), sequelize },
     storage: new SequelizeStorage({ sequelize, tableName: 'schema_migrations' }),
-    logger: { info: (e) => log(String(e.event ?? '') + ' ' + String(e.name ?? '')), warn: console.warn, error: console.error, debug: () => {} },
+    logger: { info: (e) => log(String(e.event ?? '') + ' ' + String(e.name ?? '')), warn: (e) => migrateLog.warn(JSON.stringify(e)), error: (e) => migrateLog.error(JSON.stringify(e)), debug: () => {} },
   });
 }
 

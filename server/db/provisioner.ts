@@ -9,6 +9,10 @@ import { findRunningMariaDb, isAlive, isPortFree, isStopped, pingOverSocket, sto
 import type { SupervisedServer } from './database-watch.js';
 import { SYSTEM_MARIADB_PORT } from '../config/env-schema.js';
 import type { DatabaseConfig } from '../config/config.js';
+import { createLogger, type Logger } from '../log/logger.js';
+
+/** The provisioner's lines when the caller passes no log of its own. */
+const mariadbLog = createLogger('mariadb');
 
 /** What to provision: one private MariaDB per base directory. */
 export interface ProvisionOptions {
@@ -22,7 +26,8 @@ export interface ProvisionOptions {
   grantAllDatabases?: boolean;
   allowInstall?: boolean;
   readyTimeoutMs?: number;
-  log?: (message: string) => void;
+  /** Where its progress goes (default: the console, as [mariadb]). */
+  log?: Logger;
 }
 
 /** A running private MariaDB and how to reach it. */
@@ -149,7 +154,8 @@ async function createDatabaseAndUser(bin: MariaDbBinaries, socketPath: string, o
  * creates the database and app user idempotently.
  */
 export async function provisionMariaDb(options: ProvisionOptions): Promise<ProvisionedMariaDb> {
-  const log = options.log ?? ((message: string) => console.log(`[mariadb] ${message}`));
+  const logger = options.log ?? mariadbLog;
+  const log = (message: string) => logger.info(message);
   if (options.port === SYSTEM_MARIADB_PORT) throw new Error(`Refusing port ${SYSTEM_MARIADB_PORT}: that is the system MariaDB's port`);
   const bin = ensureMariaDbBinaries(log, options.allowInstall ?? true);
   const baseDir = resolve(options.baseDir);

@@ -7,6 +7,7 @@ import { BenchManager } from '../ingest/bench-manager.js';
 import type { SourceDeps } from '../ingest/sources/create-source.js';
 import { benchFeedTopic, gatewayConfigTopic, gatewayStateTopic, gatewayUsername } from '../mqtt/topics.js';
 import { Outbox } from './outbox.js';
+import type { Logger } from '../log/logger.js';
 
 /** Messages sent but not yet acknowledged, at most (the rest wait in the outbox). */
 export const SEND_WINDOW = 1000;
@@ -52,12 +53,18 @@ export class GatewayRuntime {
   private benchIds: number[] = [];
   private readonly configPath: string;
 
+  /** The bench manager's logger: its lines through this gateway's log, an error's text appended. */
+  private managerLog(): Logger {
+    const line = (message: string, error?: unknown) => this.log(error === undefined ? message : `${message}: ${String(error)}`);
+    return { info: line, warn: line, error: line };
+  }
+
   constructor(private readonly options: GatewayOptions) {
     this.log = options.log ?? ((m) => console.log(m));
     mkdirSync(options.dir, { recursive: true });
     this.configPath = join(options.dir, 'config.json');
     this.outbox = new Outbox(options.dir, this.log);
-    this.manager = new BenchManager(options.sourceDeps ?? {}, (m, e) => this.log(`${m}: ${String(e)}`));
+    this.manager = new BenchManager(options.sourceDeps ?? {}, this.managerLog());
     // Everything goes to disk first, then out as the send window allows.
     this.manager.onFrame((benchId, frame) => {
       this.outbox.append(benchId, { type: 'frame', atMs: Date.now(), frame });

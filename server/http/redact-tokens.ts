@@ -26,8 +26,8 @@ function redactLogged(value: unknown): unknown {
 /** Wraps a logger so that no share token reaches the server's log, whatever is logged. */
 export function redactingLogger(log: Logger): Logger {
   return {
-    info: (message) => log.info(redactShareTokens(message)),
-    warn: (message) => log.warn(redactShareTokens(message)),
+    info: (message, error) => log.info(redactShareTokens(message), redactLogged(error)),
+    warn: (message, error) => log.warn(redactShareTokens(message), redactLogged(error)),
     error: (message, error) => log.error(redactShareTokens(message), redactLogged(error)),
   };
 }

@@ -12,7 +12,7 @@ function setup() {
   const clock = new ManualClock();
   const { factory, ports } = mockPortFactory();
   const faults: unknown[] = [];
-  const manager = new BenchManager({ clock, openPort: factory }, (_m, err) => faults.push(err));
+  const manager = new BenchManager({ clock, openPort: factory }, { info: () => undefined, warn: () => undefined, error: (_m, err) => faults.push(err) });
   return { clock, ports, manager, faults };
 }
 

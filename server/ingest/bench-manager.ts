@@ -4,6 +4,7 @@ import { ListenerSet } from './listener-set.js';
 import { createSource, type SourceDeps } from './sources/create-source.js';
 import { IdleSource } from './sources/idle-source.js';
 import type { Source, SourceSink } from './sources/source.js';
+import { createLogger, type Logger } from '../log/logger.js';
 
 /** What the manager needs to know of a bench. */
 export interface ManagedBench {
@@ -58,11 +59,11 @@ export class BenchManager implements BenchFeed {
 
   constructor(
     private readonly deps: SourceDeps = {},
-    private readonly log: (message: string, err?: unknown) => void = (message, err) => console.warn(message, err),
+    private readonly log: Logger = createLogger('ingest'),
     private readonly remoteSource?: RemoteSourceFactory,
   ) {
-    this.frameListeners = new ListenerSet((err) => this.log('bench frame listener failed', err));
-    this.statusListeners = new ListenerSet((err) => this.log('bench status listener failed', err));
+    this.frameListeners = new ListenerSet((err) => this.log.error('bench frame listener failed', err));
+    this.statusListeners = new ListenerSet((err) => this.log.error('bench status listener failed', err));
   }
 
   /**

@@ -1,7 +1,7 @@
 import type { BenchStatus, SourceState } from '../../shared/schemas/bench.js';
 import type { Clock, TimerHandle } from './clock.js';
+import { MS_PER_S } from '../../shared/units/time.js';
 
-const MS_PER_S = 1000;
 
 /**
  * Keeps one source's status: its state, frame counts and the no-data watchdog. It calls

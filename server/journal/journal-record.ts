@@ -20,8 +20,8 @@ const CRC_CHARS = 8;
 const NEWLINE = '\n';
 
 /** One record as a line: a CRC-32 of the JSON (8 hex digits), a space, the JSON, a newline. */
-export function encodeRecord(index: number, arrivalS: number, frame: Frame): string {
-  const json = JSON.stringify({ i: index, a: arrivalS, f: frame });
+export function encodeRecord(index: number, arrivalSeconds: number, frame: Frame): string {
+  const json = JSON.stringify({ i: index, a: arrivalSeconds, f: frame });
   return `${crc32(json).toString(HEX).padStart(CRC_CHARS, '0')} ${json}${NEWLINE}`;
 }
 

@@ -11,7 +11,7 @@ const reading = (t: number): Reading => ({
 const fresh = (over: Partial<ConstructorParameters<typeof ReadingJournal>[0]> = {}) => {
   const dir = mkdtempSync(join(tmpdir(), 'kp-journal-'));
   const logs: string[] = [];
-  const make = () => new ReadingJournal({ dir, log: (m) => logs.push(m), nowMs: () => 1_700_000_000_000, ...over });
+  const make = () => new ReadingJournal({ dir, log: { info: (m) => logs.push(m), warn: (m) => logs.push(m), error: (m) => logs.push(m) }, nowMs: () => 1_700_000_000_000, ...over });
   return { dir, logs, make };
 };
 const files = (dir: string) => readdirSync(dir).sort();

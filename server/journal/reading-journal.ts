@@ -3,6 +3,8 @@ import { join } from 'node:path';
 import type { Frame } from '../../shared/schemas/frame.js';
 import type { Reading } from '../../shared/schemas/reading.js';
 import { decodeJournal, encodeRecord, type JournalRecord } from './journal-record.js';
+import { MS_PER_S } from '../../shared/units/time.js';
+import { createLogger, type Logger } from '../log/logger.js';
 
 /** Readings reach the disk (written and fdatasync'd) at least this often: half the 100 ms promise. */
 export const JOURNAL_SYNC_INTERVAL_MS = 50;
@@ -16,7 +18,6 @@ const SEGMENT_SUFFIX = '.jnl';
 const RUN_PREFIX = 'run-';
 const RUN_FOLDER = /^run-(\d{1,15})$/;
 const INDEX_DIGITS = 12;
-const MS_PER_S = 1000;
 
 export interface ReadingJournalOptions {
   /** Folder of the journal (<dataDir>/journal): one sub-folder per run, one file per segment. */
@@ -24,7 +25,7 @@ export interface ReadingJournalOptions {
   syncIntervalMs?: number;
   maxBytes?: number;
   segmentReadings?: number;
-  log?: (message: string) => void;
+  log?: Logger;
   /** Server clock in ms (default Date.now). */
   nowMs?: () => number;
   /** Injected timers (tests fire the batch by hand). */
@@ -96,11 +97,11 @@ export class ReadingJournal {
   private writeScheduled = false;
   private full = false;
   private readonly now: () => number;
-  private readonly log: (message: string) => void;
+  private readonly log: Logger;
 
   constructor(private readonly opts: ReadingJournalOptions) {
     this.now = opts.nowMs ?? Date.now;
-    this.log = opts.log ?? ((m) => console.warn(m));
+    this.log = opts.log ?? createLogger('journal');
   }
 
   /** Starts the batch timer. */
@@ -119,7 +120,7 @@ export class ReadingJournal {
     const line = encodeRecord(index, this.now() / MS_PER_S, frame);
     if (this.stats.bytes + line.length > (this.opts.maxBytes ?? JOURNAL_MAX_BYTES)) {
       this.stats.dropped++;
-      if (!this.full) this.log(`journal: full at ${this.stats.bytes} bytes; readings are held in memory only until the archive catches up`);
+      if (!this.full) this.log.warn(`journal: full at ${this.stats.bytes} bytes; readings are held in memory only until the archive catches up`);
       this.full = true;
       return;
     }
@@ -147,7 +148,7 @@ export class ReadingJournal {
   }
 
   private enqueue(step: () => Promise<void>): Promise<void> {
-    const next = this.queue.then(step).catch((err: unknown) => this.log(`journal: ${String(err)}`));
+    const next = this.queue.then(step).catch((err: unknown) => this.log.error('journal: a step failed', err));
     this.queue = next;
     return next;
   }
@@ -173,7 +174,7 @@ export class ReadingJournal {
         this.syncQueued = null;
         return this.syncAll();
       })
-      .catch((err: unknown) => this.log(`journal: ${String(err)}`));
+      .catch((err: unknown) => this.log.error('journal: a step failed', err));
     return this.syncQueued;
   }
 
@@ -188,7 +189,7 @@ export class ReadingJournal {
       try {
         found.push({ runId, records: await this.recoverRun(runId) });
       } catch (err) {
-        this.log(`journal: run ${runId} could not be read (${String(err)}); left as it is`);
+        this.log.error(`journal: run ${runId} could not be read; left as it is`, err);
       }
     }
     return found;
@@ -239,7 +240,7 @@ export class ReadingJournal {
       const path = join(run.dir, file);
       const decoded = decodeJournal(await readFile(path));
       if (decoded.problem) {
-        this.log(`journal: run ${runId} ${file}: ${decoded.problem}; cut off after ${decoded.records.length} good readings`);
+        this.log.warn(`journal: run ${runId} ${file}: ${decoded.problem}; cut off after ${decoded.records.length} good readings`);
         await truncate(path, decoded.goodBytes);
       }
       records.push(...decoded.records);
@@ -295,7 +296,7 @@ export class ReadingJournal {
       await step();
       return true;
     } catch (err) {
-      this.log(`journal: run ${runId} could not be written (${String(err)}); will retry`);
+      this.log.warn(`journal: run ${runId} could not be written; will retry`, err);
       return false;
     }
   }

@@ -15,7 +15,7 @@ export async function replayJournal(recovered: readonly RecoveredRun[], journal:
     if (session) {
       const archived = session.readingsCount;
       journal.archived(runId, archived);
-      const replayed = recorder.replay(runId, records.map((r) => ({ index: r.i, frame: r.f, arrivalS: r.a })));
+      const replayed = recorder.replay(runId, records.map((r) => ({ index: r.i, frame: r.f, arrivalSeconds: r.a })));
       if (replayed > 0) log.info(`run ${runId}: ${replayed} journalled readings replayed after the ${archived} archived`);
       continue;
     }

@@ -2,7 +2,7 @@ import type { Topic } from '../../shared/schemas/ws.js';
 import { topicKey } from '../../shared/schemas/ws.js';
 import type { SessionUser } from '../auth/session-user.js';
 import { checkBudget, keepEveryFor, nextThinning, thinIndices, type BudgetState } from './backpressure-policy.js';
-import { toReadingColumns, type LiveSample } from '../readings/reading-columns.js';
+import { toReadingColumns, type LiveReading } from '../readings/reading-columns.js';
 
 /** The part of a `ws` WebSocket the sender uses (tests pass a fake). */
 export interface SocketLike {
@@ -22,15 +22,13 @@ export interface ClientSenderOptions {
 const OPEN = 1;
 
 /**
- * One connected client: its subscriptions, its message counter, and how far behind it
- * is. Payloads arrive already serialised without `seq`; the sender splices its own
- * counter in, so a payload shared by many clients is built once. Every message counts
+ * One connected client: its subscriptions and how far behind it is. Payloads arrive
+ * already serialised, so a payload shared by many clients is built once. Every message counts
  * against the client's byte budget (backpressure-policy.ts); nothing is dropped silently:
  * readings are thinned and counted, anything else is sent, and a client that cannot keep
  * up is closed.
  */
 export class ClientSender {
-  private seq = 0;
   readonly subscriptions = new Set<string>();
   /** Subscribes waiting for their snapshot's data, by topic key (they count against the cap). */
   readonly pendingSubscribes = new Map<string, symbol>();
@@ -50,10 +48,6 @@ export class ClientSender {
     this.now = opts.now ?? (() => performance.now());
   }
 
-  get lastSeq(): number {
-    return this.seq;
-  }
-
   /** True while messages can still reach the client (open socket, not closed for its backlog). */
   get isOpen(): boolean {
     return this.socket.readyState === OPEN && !this.budget.close;
@@ -64,12 +58,11 @@ export class ClientSender {
     return this.budget.close;
   }
 
-  /** Sends a payload (`{"type":…}` JSON without seq). Never throws: a closing socket just misses it. */
+  /** Sends a payload (a message as JSON). Never throws: a closing socket just misses it. */
   sendPayload(json: string): void {
     if (!this.isOpen) return;
-    const seq = ++this.seq;
     try {
-      this.socket.send(`{"seq":${seq},${json.slice(1)}`);
+      this.socket.send(json);
     } catch {
       // The socket is closing; the heartbeat and close handler clean it up.
     }
@@ -92,10 +85,11 @@ export class ClientSender {
   }
 
   /**
-   * Sends a batch of readings, thinned to what this socket can take. `shared` is the
-   * unthinned payload for clients that keep up and have nothing dropped to report.
+   * Sends a batch of readings, thinned to what this socket can take. `seq` is the topic's
+   * number of the last reading in `samples`; `shared` is the unthinned payload for clients
+   * that keep up and have nothing dropped to report.
    */
-  sendBatch(topic: Topic, samples: readonly LiveSample[], shared: () => string): void {
+  sendBatch(topic: Topic, seq: number, samples: readonly LiveReading[], shared: () => string): void {
     if (!this.isOpen) return;
     const key = topicKey(topic);
     const buffered = this.socket.bufferedAmount;
@@ -112,7 +106,7 @@ export class ClientSender {
       return;
     }
     this.dropped.set(key, 0);
-    this.send({ type: 'batch', topic, readings: toReadingColumns(samples, keep), dropped: owed + droppedNow });
+    this.send({ type: 'batch', seq, topic, readings: toReadingColumns(samples, keep), dropped: owed + droppedNow });
   }
 
   /** Forgets a topic's thinning counters (after an unsubscribe). */

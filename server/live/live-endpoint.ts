@@ -4,6 +4,7 @@ import { isSameOrigin, sessionUserFromRequest } from '../auth/upgrade-auth.js';
 import '../auth/end-sessions.js';
 import type { LiveHub } from './live-hub.js';
 import { attachWsServer } from './ws-server.js';
+import { createLogger } from '../log/logger.js';
 
 /**
  * Opens the WebSocket at /ws onto a hub for signed-in, same-origin browsers, and lets the
@@ -14,8 +15,7 @@ export function openLiveEndpoint(httpServer: Server, ctx: AppContext, hub: LiveH
     hub,
     authenticate: (req) => sessionUserFromRequest(ctx, req),
     checkOrigin: (req) => isSameOrigin(req, ctx.config),
-    log: (m, e) => ctx.log.error(m, e),
-    warn: (m) => ctx.log.warn(m),
+    log: createLogger('live', ctx.log),
   });
   ctx.services.closeUserSockets = ws.closeUser;
   ctx.services.closeSessionSockets = ws.closeSession;

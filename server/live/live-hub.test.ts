@@ -9,7 +9,7 @@ import {
   THIN_LEAVE_BYTES,
 } from './backpressure-policy.js';
 import { ClientSender, type SocketLike } from './client-sender.js';
-import { LiveHub, MAX_SUBSCRIPTIONS_PER_CLIENT, MIN_BATCH_INTERVAL_MS, RECENT_READINGS } from './live-hub.js';
+import { LiveHub, MAX_SUBSCRIPTIONS_PER_CLIENT, MIN_BATCH_INTERVAL_MS, RECENT_READINGS, RESUME_READINGS } from './live-hub.js';
 
 const user: SessionUser = { id: 1, email: 'v@lab', name: 'V', role: 'viewer', disabled: false };
 class FakeSocket implements SocketLike {
@@ -51,16 +51,17 @@ describe('LiveHub', () => {
     const sock = new FakeSocket();
     const c = new ClientSender(sock, user);
     await hub.subscribe(c, { kind: 'bench', id: 3 });
-    hub.publishSample({ kind: 'bench', id: 3 }, frame(0));
-    hub.publishSample({ kind: 'bench', id: 3 }, frame(1));
-    hub.publishSample({ kind: 'bench', id: 3 }, frame(2));
+    hub.publishReading({ kind: 'bench', id: 3 }, frame(0));
+    hub.publishReading({ kind: 'bench', id: 3 }, frame(1));
+    hub.publishReading({ kind: 'bench', id: 3 }, frame(2));
     const batches = () => sock.sent.filter((m) => m.type === 'batch') as { readings: { t: number[] } }[];
     expect(batches().map((b) => b.readings.t)).toEqual([[0]]);
     advance(MIN_BATCH_INTERVAL_MS - 1);
     expect(batches()).toHaveLength(1);
     advance(1);
     expect(batches().map((b) => b.readings.t)).toEqual([[0], [1, 2]]);
-    expect(sock.sent.map((m) => m.seq)).toEqual([1, 2, 3]);
+    // The snapshot had no readings; each batch carries the number of its last reading.
+    expect(sock.sent.map((m) => m.seq)).toEqual([0, 1, 3]);
   });
 
   it('never drops an event, even for a client too far behind to get readings', async () => {
@@ -71,13 +72,13 @@ describe('LiveHub', () => {
     await hub.subscribe(c, { kind: 'run', id: 9 });
     sock.bufferedAmount = READINGS_STOP_BYTES * 2;
     const reading = { ...frame(0), elapsedSeconds: 0, watts: 12, dischargeWh: 0, dischargeAh: 0, chargeWh: 0, chargeAh: 0 };
-    hub.publishSample({ kind: 'run', id: 9 }, reading);
+    hub.publishReading({ kind: 'run', id: 9 }, reading);
     hub.publishEvent(9, { type: 'annotation', t: 0, text: 'note' }, 5);
     expect(sock.sent.filter((m) => m.type === 'batch')).toHaveLength(0);
     expect(sock.sent.filter((m) => m.type === 'event')).toHaveLength(1);
     // Once it drains it hears how many readings it missed.
     sock.bufferedAmount = 0;
-    hub.publishSample({ kind: 'run', id: 9 }, { ...reading, t: 1, elapsedSeconds: 1 });
+    hub.publishReading({ kind: 'run', id: 9 }, { ...reading, t: 1, elapsedSeconds: 1 });
     hub.publishEvent(9, { type: 'annotation', t: 1, text: 'flush' }, 6);
     const batch = sock.sent.find((m) => m.type === 'batch') as { dropped: number; readings: { t: number[] } };
     expect(batch.dropped).toBe(1);
@@ -94,7 +95,7 @@ describe('LiveHub', () => {
     await hub.subscribe(cb, { kind: 'bench', id: 1 });
     hub.unsubscribe(ca, { kind: 'bench', id: 1 });
     hub.removeClient(cb);
-    hub.publishSample({ kind: 'bench', id: 1 }, frame(0));
+    hub.publishReading({ kind: 'bench', id: 1 }, frame(0));
     advance(1000);
     expect([...a.sent, ...b.sent].filter((m) => m.type === 'batch')).toHaveLength(0);
   });
@@ -110,7 +111,7 @@ describe('LiveHub memory under hostile subscriptions', () => {
     expect(sock.sent.filter((m) => m.type === 'error')).toHaveLength(100);
     expect(hub.topicCount()).toBe(MAX_SUBSCRIPTIONS_PER_CLIENT);
     // A bench with readings keeps its recent buffer for the next viewer; made-up ids go.
-    hub.publishSample({ kind: 'bench', id: 1 }, frame(0));
+    hub.publishReading({ kind: 'bench', id: 1 }, frame(0));
     hub.removeClient(c);
     expect(hub.topicCount()).toBe(1);
   });
@@ -121,7 +122,7 @@ describe('LiveHub memory under hostile subscriptions', () => {
     const c = new ClientSender(sock, user);
     (hub as unknown as { opts: { source: { run: unknown } } }).opts.source.run = async () => ({ run: null, events: [] });
     await hub.subscribe(c, { kind: 'run', id: 4 });
-    hub.publishSample({ kind: 'run', id: 4 }, { ...frame(0), elapsedSeconds: 0, watts: 12, dischargeWh: 0, dischargeAh: 0, chargeWh: 0, chargeAh: 0 });
+    hub.publishReading({ kind: 'run', id: 4 }, { ...frame(0), elapsedSeconds: 0, watts: 12, dischargeWh: 0, dischargeAh: 0, chargeWh: 0, chargeAh: 0 });
     hub.publishRun({ id: 4, benchId: null, state: 'finished' } as unknown as Parameters<typeof hub.publishRun>[0]);
     expect(hub.topicCount()).toBe(1);
     hub.unsubscribe(c, { kind: 'run', id: 4 });
@@ -144,7 +145,7 @@ describe('LiveHub: a byte budget per client for every message type', () => {
     let closed = 0;
     const c = new ClientSender(sock, user, { now: () => 0, onOverBudget: () => closed++ });
     // A busy bench: each snapshot carries its RECENT_READINGS.
-    for (let i = 0; i < RECENT_READINGS; i++) hub.publishSample({ kind: 'bench', id: 1 }, frame(i));
+    for (let i = 0; i < RECENT_READINGS; i++) hub.publishReading({ kind: 'bench', id: 1 }, frame(i));
     let pairs = 0;
     while (closed === 0 && pairs < 100_000) {
       await hub.subscribe(c, { kind: 'bench', id: 1 });
@@ -202,7 +203,7 @@ describe('LiveHub: a byte budget per client for every message type', () => {
     await hub.subscribe(c, { kind: 'bench', id: 5 });
     const batchSizes: number[] = [];
     const publish = (n: number) => {
-      for (let i = 0; i < n; i++) hub.publishSample({ kind: 'bench', id: 5 }, frame(i));
+      for (let i = 0; i < n; i++) hub.publishReading({ kind: 'bench', id: 5 }, frame(i));
       advance(MIN_BATCH_INTERVAL_MS);
       const batches = sock.sent.filter((m) => m.type === 'batch') as { readings: { t: number[] } }[];
       batchSizes.push(batches.reduce((n, b) => n + b.readings.t.length, 0));
@@ -281,16 +282,84 @@ describe('LiveHub snapshots', () => {
     const { hub } = setup();
     const sock = new FakeSocket();
     const c = new ClientSender(sock, user);
-    for (let i = 0; i < 3; i++) hub.publishSample({ kind: 'bench', id: 8 }, frame(i));
+    for (let i = 0; i < 3; i++) hub.publishReading({ kind: 'bench', id: 8 }, frame(i));
     await hub.subscribe(c, { kind: 'bench', id: 8 });
     hub.unsubscribe(c, { kind: 'bench', id: 8 });
     await hub.subscribe(c, { kind: 'bench', id: 8 });
     hub.unsubscribe(c, { kind: 'bench', id: 8 });
-    hub.publishSample({ kind: 'bench', id: 8 }, frame(3));
+    hub.publishReading({ kind: 'bench', id: 8 }, frame(3));
     await hub.subscribe(c, { kind: 'bench', id: 8 });
     const snaps = sock.sent.filter((m) => m.type === 'snapshot') as { topic: unknown; status: unknown; recent: { t: number[]; volts: number[] }; events: unknown[] }[];
     expect(snaps.map((s) => s.recent.t)).toEqual([[0, 1, 2], [0, 1, 2], [0, 1, 2, 3]]);
     expect(snaps[2]).toMatchObject({ topic: { kind: 'bench', id: 8 }, status: { state: 'receiving' }, events: [] });
     expect(snaps[2]!.recent.volts).toEqual([12, 12, 12, 12]);
+  });
+});
+
+describe('LiveHub reading cursor', () => {
+  type Snap = { stream: string; seq: number; resume: string; recent: { t: number[] } };
+  type Batch = { seq: number; readings: { t: number[] } };
+  const topic = { kind: 'bench', id: 9 } as const;
+
+  it('numbers readings per topic; a subscribe with a cursor gets exactly the readings after it', async () => {
+    const { hub, advance } = setup();
+    const first = new FakeSocket();
+    const a = new ClientSender(first, user);
+    for (let i = 0; i < 5; i++) hub.publishReading(topic, frame(i));
+    await hub.subscribe(a, topic);
+    const snap = first.sent.find((m) => m.type === 'snapshot') as Snap;
+    expect(snap).toMatchObject({ seq: 5, resume: 'fresh', recent: { t: [0, 1, 2, 3, 4] } });
+    hub.publishReading(topic, frame(5));
+    advance(MIN_BATCH_INTERVAL_MS);
+    hub.publishReading(topic, frame(6));
+    advance(MIN_BATCH_INTERVAL_MS);
+    const batches = first.sent.filter((m) => m.type === 'batch') as Batch[];
+    expect(batches.map((b) => [b.seq, b.readings.t])).toEqual([[6, [5]], [7, [6]]]);
+    hub.removeClient(a); // the connection drops after reading 7
+    for (let i = 7; i < 12; i++) hub.publishReading(topic, frame(i));
+
+    const second = new FakeSocket();
+    await hub.subscribe(new ClientSender(second, user), topic, { stream: snap.stream, seq: 7 });
+    expect(second.sent[0]).toMatchObject({ type: 'snapshot', seq: 12, resume: 'resumed', recent: { t: [7, 8, 9, 10, 11] } });
+  });
+
+  it('a subscribe while readings wait for their batch: the snapshot ends where the next batch begins', async () => {
+    const { hub, advance } = setup();
+    const watcher = new FakeSocket();
+    await hub.subscribe(new ClientSender(watcher, user), topic);
+    hub.publishReading(topic, frame(0)); // sent at once
+    hub.publishReading(topic, frame(1)); // waits for the batch interval
+    const late = new FakeSocket();
+    await hub.subscribe(new ClientSender(late, user), topic);
+    hub.publishReading(topic, frame(2));
+    advance(MIN_BATCH_INTERVAL_MS);
+    const seen = late.sent.flatMap((m) => (m.type === 'snapshot' ? (m as unknown as Snap).recent.t : m.type === 'batch' ? (m as unknown as Batch).readings.t : []));
+    expect(seen).toEqual([0, 1, 2]);
+    const watched = watcher.sent.flatMap((m) => (m.type === 'batch' ? (m as unknown as Batch).readings.t : []));
+    expect(watched).toEqual([0, 1, 2]);
+  });
+
+  it('a cursor older than the readings kept, ahead of the stream, or of another stream is told to refetch', async () => {
+    const { hub } = setup();
+    const sock = new FakeSocket();
+    const c = new ClientSender(sock, user);
+    await hub.subscribe(c, topic);
+    const { stream } = sock.sent[0] as unknown as Snap;
+    const total = 2 * RESUME_READINGS + 10;
+    for (let i = 0; i < total; i++) hub.publishReading(topic, frame(i));
+    const ask = async (after: { stream: string; seq: number }) => {
+      const s = new FakeSocket();
+      await hub.subscribe(new ClientSender(s, user), topic, after);
+      return s.sent[0] as unknown as Snap;
+    };
+    // After a trim the ring holds RESUME_READINGS to twice that; a cursor before it cannot resume.
+    expect((await ask({ stream, seq: 1 })).resume).toBe('refetch');
+    const refetch = await ask({ stream, seq: 1 });
+    expect(refetch.recent.t).toHaveLength(RECENT_READINGS);
+    expect(refetch.recent.t.at(-1)).toBe(total - 1);
+    expect((await ask({ stream, seq: total - RESUME_READINGS })).recent.t).toHaveLength(RESUME_READINGS);
+    expect((await ask({ stream, seq: total + 1 })).resume).toBe('refetch');
+    expect((await ask({ stream: 'another', seq: total - 1 })).resume).toBe('refetch');
+    expect(await ask({ stream, seq: total })).toMatchObject({ resume: 'resumed', recent: { t: [] } });
   });
 });

@@ -1,15 +1,23 @@
+import { randomBytes } from 'node:crypto';
 import type { StoredRunEvent } from '../../shared/schemas/api-runs.js';
 import type { BenchStatus } from '../../shared/schemas/bench.js';
 import type { AnnotationEvent, RunEvent } from '../../shared/schemas/run-event.js';
 import type { Run } from '../../shared/schemas/run.js';
-import { topicKey, type Topic } from '../../shared/schemas/ws.js';
+import { topicKey, type ReadingCursor, type SnapshotResume, type Topic } from '../../shared/schemas/ws.js';
 import type { ClientSender } from './client-sender.js';
-import { toReadingColumns, type LiveSample } from '../readings/reading-columns.js';
+import { toReadingColumns, type LiveReading } from '../readings/reading-columns.js';
 
 /** Batches of one topic go out at most this often. */
 export const MIN_BATCH_INTERVAL_MS = 100;
-/** Readings kept per topic for a new subscriber's snapshot (30 s at 10 Hz). */
+/** Readings a new subscriber's snapshot carries (30 s at 10 Hz). */
 export const RECENT_READINGS = 300;
+/**
+ * Readings kept per topic for clients that reconnect with a cursor (3 min at 10 Hz, longer
+ * than the client's longest reconnect wait); an older cursor is told to refetch the history.
+ */
+export const RESUME_READINGS = 1_800;
+/** Random bytes of a topic's stream id: a cursor from before a restart never matches. */
+const STREAM_ID_BYTES = 6;
 /** Topics one connection may follow at once: a lab's benches and runs, with room to spare. */
 export const MAX_SUBSCRIPTIONS_PER_CLIENT = 64;
 
@@ -31,8 +39,13 @@ export interface LiveHubOptions {
 
 interface TopicState {
   topic: Topic;
-  pending: LiveSample[];
-  recent: LiveSample[];
+  /** Names this topic's numbering; a new state (restart, topic forgotten) gets a new one. */
+  stream: string;
+  /** Number of the last reading published (the first is 1). */
+  seq: number;
+  pending: LiveReading[];
+  /** The last readings, oldest first: RESUME_READINGS to twice that (trimmed in steps, not per reading). */
+  recent: LiveReading[];
   /** `recent` as ReadingColumns JSON, built once for every snapshot until the next reading. */
   recentJson: string | null;
   lastFlushMs: number;
@@ -65,7 +78,7 @@ export class LiveHub {
    * Subscribes still waiting for their data count against the cap, and one that completes
    * after its socket closed (or after an unsubscribe of the same topic) keeps nothing.
    */
-  async subscribe(client: ClientSender, topic: Topic): Promise<void> {
+  async subscribe(client: ClientSender, topic: Topic, after?: ReadingCursor): Promise<void> {
     const key = topicKey(topic);
     const known = client.subscriptions.has(key) || client.pendingSubscribes.has(key);
     if (!known && client.subscriptions.size + client.pendingSubscribes.size >= MAX_SUBSCRIPTIONS_PER_CLIENT) {
@@ -86,13 +99,29 @@ export class LiveHub {
     if (!client.isOpen) return;
     if (topic.kind === 'run' && !found) return client.send({ type: 'error', message: `Run ${topic.id} not found`, topic });
     const state = this.state(topic);
+    // Readings still pending go to the other viewers first, so the snapshot is exactly up to `seq`.
+    this.flush(state);
     state.subscribers.add(client);
     client.subscriptions.add(key);
     const status = topic.kind === 'bench' ? this.opts.source.benchStatus(topic.id) : null;
     const run = topic.kind === 'bench' ? (this.opts.source.benchRun?.(topic.id) ?? null) : found!.run;
-    state.recentJson ??= JSON.stringify(toReadingColumns(state.recent));
-    const head = JSON.stringify({ type: 'snapshot', topic, status, run });
-    client.sendPayload(`${head.slice(0, -1)},"recent":${state.recentJson},"events":${JSON.stringify(found?.events ?? [])}}`);
+    const resume: SnapshotResume = !after ? 'fresh' : this.missedSince(state, after) ? 'resumed' : 'refetch';
+    let recentJson: string;
+    if (resume === 'resumed') recentJson = JSON.stringify(toReadingColumns(this.missedSince(state, after!)!));
+    else recentJson = state.recentJson ??= JSON.stringify(toReadingColumns(state.recent.slice(-RECENT_READINGS)));
+    const head = JSON.stringify({ type: 'snapshot', stream: state.stream, seq: state.seq, resume, topic, status, run });
+    client.sendPayload(`${head.slice(0, -1)},"recent":${recentJson},"events":${JSON.stringify(found?.events ?? [])}}`);
+  }
+
+  /**
+   * The readings after a client's cursor, or null when the cursor is of another stream, ahead
+   * of this one, or older than the readings kept (the client must refetch the history).
+   */
+  private missedSince(state: TopicState, after: ReadingCursor): LiveReading[] | null {
+    if (after.stream !== state.stream || after.seq > state.seq) return null;
+    const firstKept = state.seq - state.recent.length + 1;
+    if (after.seq + 1 < firstKept) return null;
+    return state.recent.slice(after.seq + 1 - firstKept);
   }
 
   /** Stops sending a topic to a client. */
@@ -130,11 +159,12 @@ export class LiveHub {
   }
 
   /** A bench frame or a run reading arrived. */
-  publishSample(topic: Topic, sample: LiveSample): void {
+  publishReading(topic: Topic, sample: LiveReading): void {
     const state = this.state(topic);
     state.recent.push(sample);
+    state.seq++;
     state.recentJson = null;
-    if (state.recent.length > RECENT_READINGS) state.recent.splice(0, state.recent.length - RECENT_READINGS);
+    if (state.recent.length > 2 * RESUME_READINGS) state.recent.splice(0, state.recent.length - RESUME_READINGS);
     if (state.subscribers.size === 0) return;
     state.pending.push(sample);
     if (state.timer !== null) return;
@@ -211,7 +241,7 @@ export class LiveHub {
     const key = topicKey(topic);
     let s = this.topics.get(key);
     if (!s) {
-      s = { topic, pending: [], recent: [], recentJson: null, lastFlushMs: Number.NEGATIVE_INFINITY, timer: null, subscribers: new Set(), ended: false };
+      s = { topic, stream: randomBytes(STREAM_ID_BYTES).toString('hex'), seq: 0, pending: [], recent: [], recentJson: null, lastFlushMs: Number.NEGATIVE_INFINITY, timer: null, subscribers: new Set(), ended: false };
       this.topics.set(key, s);
     }
     return s;
@@ -225,7 +255,7 @@ export class LiveHub {
     state.pending = [];
     state.lastFlushMs = this.now();
     let shared: string | null = null;
-    const build = () => (shared ??= JSON.stringify({ type: 'batch', topic: state.topic, readings: toReadingColumns(samples), dropped: 0 }));
-    for (const c of state.subscribers) c.sendBatch(state.topic, samples, build);
+    const build = () => (shared ??= JSON.stringify({ type: 'batch', seq: state.seq, topic: state.topic, readings: toReadingColumns(samples), dropped: 0 }));
+    for (const c of state.subscribers) c.sendBatch(state.topic, state.seq, samples, build);
   }
 }

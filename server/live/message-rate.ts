@@ -1,3 +1,4 @@
+import { MS_PER_S } from '../../shared/units/time.js';
 /**
  * How many messages one WebSocket client may send: a token bucket. The browser sends a
  * handful (a subscribe per topic on connect, a ping now and then); a client past these
@@ -9,7 +10,6 @@ export const CLIENT_MESSAGE_BURST = 1000;
 /** Messages per second a client may keep sending. */
 export const CLIENT_MESSAGES_PER_S = 500;
 
-const MS_PER_S = 1000;
 
 /** A token bucket of client messages on an injected clock. */
 export class MessageRate {

@@ -9,6 +9,7 @@ import { ClientSender } from './client-sender.js';
 import { isConnectionFailure } from '../db/connection-errors.js';
 import { CLIENT_MESSAGES_PER_S, MessageRate } from './message-rate.js';
 import type { LiveHub } from './live-hub.js';
+import { quietLogger, type Logger } from '../log/logger.js';
 
 export const WS_PATH = '/ws';
 /** A socket that has not answered the previous ping by the next one is terminated. */
@@ -41,9 +42,8 @@ export interface WsServerOptions {
   heartbeatMs?: number;
   /** How often backlogs are checked against the budget (default BUDGET_CHECK_MS). */
   budgetCheckMs?: number;
-  log?: (message: string, err?: unknown) => void;
-  /** Notable but expected events (a client closed for its backlog). */
-  warn?: (message: string) => void;
+  /** Failures (error) and notable but expected events (warn: a client closed for its backlog). */
+  log?: Logger;
 }
 
 function refuse(socket: Duplex, status: number, reason: string): void {
@@ -67,7 +67,7 @@ export function attachWsServer(
   const senders = new Map<WebSocket, ClientSender>();
   // Who opened each socket with which session, so ending a user's sessions closes their sockets too.
   const owners = new WeakMap<WebSocket, { userId: number; sid: string | undefined }>();
-  const log = opts.log ?? (() => undefined);
+  const log = opts.log ?? quietLogger;
 
   const onUpgrade = (req: IncomingMessage, socket: Duplex, head: Buffer) => {
     const path = (req.url ?? '').split('?')[0];
@@ -88,7 +88,7 @@ export function attachWsServer(
         });
       })
       .catch((err: unknown) => {
-        log('ws: session check failed', err);
+        log.error('ws: session check failed', err);
         // The session lives in the database: while it is away, say so rather than fail.
         if (isConnectionFailure(err)) refuse(socket, 503, 'Service Unavailable');
         else refuse(socket, 500, 'Internal Server Error');
@@ -106,7 +106,7 @@ export function attachWsServer(
     };
     const client = new ClientSender(ws, user, {
       onOverBudget: () => {
-        opts.warn?.(`ws: closed a client of user ${user.id} with code ${CLIENT_TOO_SLOW_CODE}: ${ws.bufferedAmount} bytes were waiting (budget ${CLIENT_BUDGET_BYTES})`);
+        log.warn(`ws: closed a client of user ${user.id} with code ${CLIENT_TOO_SLOW_CODE}: ${ws.bufferedAmount} bytes were waiting (budget ${CLIENT_BUDGET_BYTES})`);
         closeClient(CLIENT_TOO_SLOW_CODE, 'Too far behind: not reading what the server sends', false);
       },
     });
@@ -126,7 +126,7 @@ export function attachWsServer(
       // A client being closed gets nothing more, so its requests are not served.
       if (!client.isOpen) return;
       if (!rate.take()) {
-        opts.warn?.(`ws: closed a client of user ${user.id} with code ${CLIENT_FLOOD_CODE}: more than ${CLIENT_MESSAGES_PER_S} messages a second`);
+        log.warn(`ws: closed a client of user ${user.id} with code ${CLIENT_FLOOD_CODE}: more than ${CLIENT_MESSAGES_PER_S} messages a second`);
         return closeClient(CLIENT_FLOOD_CODE, 'Too many messages', true);
       }
       let parsed: unknown;
@@ -140,8 +140,8 @@ export function attachWsServer(
       const m = msg.data;
       if (m.type === 'ping') return client.send({ type: 'pong', id: m.id, serverTimeMs: Date.now() });
       if (m.type === 'unsubscribe') return opts.hub.unsubscribe(client, m.topic);
-      opts.hub.subscribe(client, m.topic).catch((err: unknown) => {
-        log('ws: subscribe failed', err);
+      opts.hub.subscribe(client, m.topic, m.after).catch((err: unknown) => {
+        log.error('ws: subscribe failed', err);
         client.send({ type: 'error', message: 'Subscribe failed', topic: m.topic });
       });
     });

@@ -21,7 +21,7 @@ class FakeLink implements GatewaySourceLink {
 }
 
 const STALE_AFTER_S = 5;
-const bench = { id: 4, gatewayId: 9, enabled: true, source: { kind: 'simulator' as const, scenario: 'lfp-12v-weak-cell', speed: 1, seed: 1, staleAfterS: STALE_AFTER_S, limits: { maxAbsVolts: 2000, maxAbsAmps: 5000, minTempCelsius: -100, maxTempCelsius: 300 } } };
+const bench = { id: 4, gatewayId: 9, enabled: true, source: { kind: 'simulator' as const, scenario: 'lfp-12v-weak-cell', speed: 1, seed: 1, staleAfterSeconds: STALE_AFTER_S, limits: { maxAbsVolts: 2000, maxAbsAmps: 5000, minTempCelsius: -100, maxTempCelsius: 300 } } };
 const receiving: BenchStatus = { state: 'receiving', message: 'simulating', framesOk: 3, framesRejected: 1, lastRejection: 'line 2: garbled' };
 const frame = (t: number): Frame => ({ t, volts: 13, amps: 5, clock: 'device' });
 

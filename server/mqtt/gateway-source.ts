@@ -3,8 +3,8 @@ import type { Frame } from '../../shared/schemas/frame.js';
 import type { ManagedBench } from '../ingest/bench-manager.js';
 import type { Clock, TimerHandle } from '../ingest/clock.js';
 import { safeDeliver, type Source, type SourceSink } from '../ingest/sources/source.js';
+import { MS_PER_S } from '../../shared/units/time.js';
 
-const MS_PER_S = 1000;
 
 /** What the stand-in asks of the MQTT link. */
 export interface GatewaySourceLink {
@@ -40,7 +40,7 @@ export class GatewaySource implements Source {
     private readonly clock: Clock,
   ) {
     const source = bench.source;
-    this.staleAfterMs = source.kind === 'none' ? undefined : source.staleAfterS * MS_PER_S;
+    this.staleAfterMs = source.kind === 'none' ? undefined : source.staleAfterSeconds * MS_PER_S;
   }
 
   /** The gateway that runs the bench. */

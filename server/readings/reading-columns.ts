@@ -12,7 +12,7 @@ import type { ReadingColumns } from '../../shared/schemas/ws.js';
 export type Columns = Record<string, Float64Array>;
 
 /** A bench frame or a run reading; run readings carry totals and their run time. */
-export type LiveSample = Frame | Reading;
+export type LiveReading = Frame | Reading;
 
 /** Fixed channels every stored reading has; temperatures and aux channels add `temp:`/`aux:` columns. */
 export const BASE_COLUMNS = ['t', 'elapsed', 'volts', 'amps', 'dischargeWh', 'dischargeAh', 'chargeWh', 'chargeAh'] as const;
@@ -21,10 +21,10 @@ export const TEMP_PREFIX = 'temp:';
 /** Prefix of a stored auxiliary column (`aux:soc`). */
 export const AUX_PREFIX = 'aux:';
 
-const isReading = (s: LiveSample): s is Reading => 'elapsedSeconds' in s;
+const isReading = (s: LiveReading): s is Reading => 'elapsedSeconds' in s;
 
 /** Every channel name of one kind (temps or aux) that any of the samples at `idx` has, in first-seen order. */
-function channelsOf(samples: readonly LiveSample[], idx: Iterable<number>, kind: 'temps' | 'aux'): string[] {
+function channelsOf(samples: readonly LiveReading[], idx: Iterable<number>, kind: 'temps' | 'aux'): string[] {
   const channels = new Set<string>();
   for (const i of idx) {
     const s = samples[i]!;
@@ -40,7 +40,7 @@ const allIndices = (n: number): number[] => Array.from({ length: n }, (_, i) => 
  * Columns of the samples at `indices` (all when omitted), in the WebSocket's shape. For
  * run readings `t` is the run time and the totals are included.
  */
-export function toReadingColumns(samples: readonly LiveSample[], indices?: readonly number[]): ReadingColumns {
+export function toReadingColumns(samples: readonly LiveReading[], indices?: readonly number[]): ReadingColumns {
   const idx = indices ?? allIndices(samples.length);
   const withTotals = samples.length > 0 && isReading(samples[0]!);
   const cols: ReadingColumns = { t: [], volts: [], amps: [], watts: [], temps: {} };

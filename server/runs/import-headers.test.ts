@@ -93,14 +93,14 @@ describe('planColumns', () => {
 describe('parseRow', () => {
   const plan = planColumns(['time (ms)', 'voltage', 'current', 'temp (°F)'], ['0', '1', '1', '1']);
   it('converts ms to s and °F to °C (41 °F = 5 °C by the scales\' definitions)', () => {
-    expect(parseRow(plan, ['1500', '12.5', '3', '41'], 2)).toEqual({ t: 1.5, volts: 12.5, amps: 3, tempC: 5 });
+    expect(parseRow(plan, ['1500', '12.5', '3', '41'], 2)).toEqual({ t: 1.5, volts: 12.5, amps: 3, tempCelsius: 5 });
   });
   it('names the line and the field of a bad value', () => {
     expect(() => parseRow(plan, ['1500', 'abc', '3', '41'], 17)).toThrow('line 17: volts "abc" is not a number');
   });
   it('reads a °F column as °F: 77 °F is 25 °C (scale definitions), not 77 °C', () => {
     const p = planColumns(['time_s', 'volts', 'amps', 'Temperature (degF)'], ['0', '1', '1', '77']);
-    expect(parseRow(p, ['0', '13', '5', '77'], 2).tempC).toBeCloseTo(25, 12);
+    expect(parseRow(p, ['0', '13', '5', '77'], 2).tempCelsius).toBeCloseTo(25, 12);
   });
   it('refuses times beyond the year 2100 either way (±1e300), naming the line', () => {
     const p = planColumns(['time_s', 'volts', 'amps'], ['0', '1', '1']);
@@ -109,7 +109,7 @@ describe('parseRow', () => {
   });
   it('reads decimal-comma times in a semicolon file and names the trouble in a comma file', () => {
     const semi = { ...planColumns(['Zeit (s)', 'Spannung (V)', 'Strom (A)'], null, { time: 'Zeit (s)', volts: 'Spannung (V)', amps: 'Strom (A)' }), decimalComma: true };
-    expect(parseRow(semi, ['12,5', '13,1', '5,5'], 2)).toEqual({ t: 12.5, volts: 13.1, amps: 5.5, tempC: null });
+    expect(parseRow(semi, ['12,5', '13,1', '5,5'], 2)).toEqual({ t: 12.5, volts: 13.1, amps: 5.5, tempCelsius: null });
     const comma = planColumns(['time_s', 'volts', 'amps'], ['0', '1', '1']);
     expect(() => parseRow(comma, ['12,5', '13', '5'], 2)).toThrow(/decimal comma needs a semicolon- or tab-separated file/);
   });

@@ -1,4 +1,5 @@
 import { InvalidInputError } from '../domain/domain-errors.js';
+import { fahrenheitToCelsius, kelvinToCelsius } from '../../shared/units/convert.js';
 import { FieldSpans, isBlank } from '../ingest/parsers/csv-fields.js';
 import { readDecimal } from '../ingest/parsers/strict-number.js';
 import { checkTimeValue, createTimeReader, inferTimeFormat, MAX_EPOCH_SECONDS, type TimeFormat, type TimeFormatSource } from './import-time.js';
@@ -172,15 +173,15 @@ export function planColumns(headers: readonly string[], firstRow: readonly strin
   };
 }
 
-/** °F → °C and K → °C (exact definitions of the scales). */
-const toCelsius = { C: (v: number) => v, F: (v: number) => ((v - 32) * 5) / 9, K: (v: number) => v - 273.15 };
+/** °F → °C and K → °C, by unit (shared/units). */
+const toCelsius = { C: (v: number) => v, F: fahrenheitToCelsius, K: kelvinToCelsius };
 
 /** One parsed row, before the current's sign is settled. */
 export interface ParsedRow {
   t: number;
   volts: number;
   amps: number;
-  tempC: number | null;
+  tempCelsius: number | null;
 }
 
 /** A row parser: the record's text, where its fields lie, and its line number. */
@@ -235,13 +236,13 @@ export function createRowParser(plan: ColumnPlan): RowParser {
     if (!(Math.abs(t) < MAX_EPOCH_SECONDS)) checkTimeValue(t, fieldText(spans, text, timeIndex), plan.time.format, line);
     const volts = num(text, spans, plan.volts.index, 'volts', line) * plan.volts.scale;
     const amps = num(text, spans, plan.amps.index, 'amps', line) * plan.amps.scale;
-    let tempC: number | null = null;
+    let tempCelsius: number | null = null;
     if (plan.temp) {
       const [start, end] = fieldBounds(spans, text, plan.temp.index);
       // A blank temperature is "not measured", not an error.
-      if (end > start) tempC = toCelsius[plan.temp.unit](num(text, spans, plan.temp.index, 'temperature', line));
+      if (end > start) tempCelsius = toCelsius[plan.temp.unit](num(text, spans, plan.temp.index, 'temperature', line));
     }
-    return { t, volts, amps, tempC };
+    return { t, volts, amps, tempCelsius };
   };
 }
 

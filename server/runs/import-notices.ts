@@ -8,7 +8,7 @@ export interface ImportDecisions {
   plan: ColumnPlan;
   sign: SignDecision;
   duplicates: DuplicateTimes;
-  medianStepS: number | null;
+  medianStepSeconds: number | null;
   maxGapSeconds: number;
   gapsFromForm: boolean;
 }
@@ -30,8 +30,8 @@ export function importNotices(d: ImportDecisions): string[] {
     const more = d.duplicates.count > d.duplicates.lines.length ? ' and others' : '';
     out.push(`${d.duplicates.count} row(s) repeat the time of the row before (line ${d.duplicates.lines.join(', ')}${more}); the first reading at each time is kept, the repeats are not integrated.`);
   }
-  if (d.medianStepS !== null) {
-    out.push(`Readings every ${d.medianStepS} s (median); a step longer than ${d.maxGapSeconds} s is a gap${d.gapsFromForm ? ' (as chosen)' : ''}, not integrated across.`);
+  if (d.medianStepSeconds !== null) {
+    out.push(`Readings every ${d.medianStepSeconds} s (median); a step longer than ${d.maxGapSeconds} s is a gap${d.gapsFromForm ? ' (as chosen)' : ''}, not integrated across.`);
   }
   return out;
 }

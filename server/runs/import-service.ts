@@ -69,7 +69,7 @@ export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: Impor
   }
   const delimiter = await sniffDelimiter(req.filePath);
   const survey = await surveyFile(req.filePath, delimiter, req.columns, req.timeZone ?? 'UTC', (rows) => req.onProgress?.({ phase: 'checking', rows, totalRows: null }), req.maxKeptRows);
-  const { plan, rows, duplicates, medianStepS } = survey;
+  const { plan, rows, duplicates, medianStepSeconds } = survey;
   const sign = settleSign(req, survey.sign);
   const config: RunConfig = {
     kind: 'capacity-discharge',
@@ -92,7 +92,7 @@ export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: Impor
   let writing: Promise<void> = Promise.resolve();
   try {
     // Gaps are judged against the file's own cadence (its median interval) unless a limit was typed.
-    const pipeline = createRunPipeline(measureConfigFor(config, req.battery, { cadenceSeconds: medianStepS }));
+    const pipeline = createRunPipeline(measureConfigFor(config, req.battery, { cadenceSeconds: medianStepSeconds }));
     const maxGapSeconds = pipeline.gapLimit.seconds;
     const events: RunEvent[] = [];
     let pending: Reading[] = [];
@@ -128,7 +128,7 @@ export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: Impor
     const take = (row: ParsedRow, line: number | null) => {
       rowsRead++;
       const frame: Frame = { t: row.t, volts: row.volts, amps: sign.flip ? -row.amps : row.amps, clock: 'device' };
-      if (row.tempC !== null) frame.temps = { cell: row.tempC };
+      if (row.tempCelsius !== null) frame.temps = { cell: row.tempCelsius };
       const problem = frameProblem(frame);
       if (problem !== null) throw new InvalidInputError(line === null ? problem : `line ${line}: ${problem}`);
       const out = pipeline.push(frame);
@@ -144,12 +144,12 @@ export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: Impor
     const { kept } = survey;
     if (kept) {
       // The check pass kept every row: no second read and parse of the file.
-      const row: ParsedRow = { t: 0, volts: 0, amps: 0, tempC: null };
+      const row: ParsedRow = { t: 0, volts: 0, amps: 0, tempCelsius: null };
       for (let i = 0; i < kept.count; i++) {
         row.t = kept.t(i);
         row.volts = kept.volts(i);
         row.amps = kept.amps(i);
-        row.tempC = kept.tempC(i);
+        row.tempCelsius = kept.tempCelsius(i);
         take(row, null);
         if ((i + 1) % KEPT_ROWS_PER_PART === 0) await afterPart();
       }
@@ -180,15 +180,15 @@ export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: Impor
       run: (await repo.get(run.id))!,
       summary: {
         energyWh: summary.capacityWh ?? totals.dischargeWh,
-        chargeAh: summary.capacityAh ?? totals.dischargeAh,
-        durationS: summary.durationSeconds,
-        cutoff: cutoff ? { atS: cutoff.t, volts: cutoff.volts } : null,
-        recoveryS: recovery?.recoverySeconds ?? null,
+        dischargeAh: summary.capacityAh ?? totals.dischargeAh,
+        durationSeconds: summary.durationSeconds,
+        cutoff: cutoff ? { atSeconds: cutoff.t, volts: cutoff.volts } : null,
+        recoverySeconds: recovery?.recoverySeconds ?? null,
         rows,
         duplicateTimes: duplicates,
-        medianIntervalS: medianStepS,
+        medianIntervalSeconds: medianStepSeconds,
         maxGapSeconds,
-        notices: importNotices({ plan, sign, duplicates, medianStepS, maxGapSeconds, gapsFromForm: req.maxGapSeconds !== undefined }),
+        notices: importNotices({ plan, sign, duplicates, medianStepSeconds, maxGapSeconds, gapsFromForm: req.maxGapSeconds !== undefined }),
         ...(req.battery ? { percentOfRated: summary.percentRatedAh } : {}),
       },
       fullSummary: summary,

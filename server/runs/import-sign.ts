@@ -1,6 +1,6 @@
 import { InvalidInputError } from '../domain/domain-errors.js';
+import { SECONDS_PER_HOUR } from '../../shared/units/time.js';
 
-const SECONDS_PER_HOUR = 3600;
 /** A direction carrying less than this share of the other's Ah is noise around zero, not a charge or discharge. */
 export const MINOR_DIRECTION_SHARE = 0.05;
 /**

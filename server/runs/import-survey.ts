@@ -24,7 +24,7 @@ export interface Survey {
   rows: number;
   duplicates: DuplicateTimes;
   /** Median step between distinct times, seconds: the file's cadence. */
-  medianStepS: number | null;
+  medianStepSeconds: number | null;
   firstT: number;
   lastT: number;
   sign: SignTally;
@@ -64,7 +64,7 @@ export async function surveyFile(filePath: string, delimiter: Delimiter, overrid
   const steps = new Map<number, number>();
   const sign = createSignTally();
   const kept = new KeptRows(maxKeptRows);
-  let firstTempC: number | null = null;
+  let firstTempCelsius: number | null = null;
   const makePlan = (first: string[] | null) => ({ ...planColumns(headers!, first, overrides), decimalComma: delimiter !== ',', timeZone });
   await readCsvRecords(filePath, delimiter, (text, spans, line) => {
     if (!headers) {
@@ -84,7 +84,7 @@ export async function surveyFile(filePath: string, delimiter: Delimiter, overrid
       steps.set(key, (steps.get(key) ?? 0) + 1);
     }
     tallyReading(sign, rows > 0 ? row.t - lastT : 0, row.volts, row.amps);
-    firstTempC ??= row.tempC;
+    firstTempCelsius ??= row.tempCelsius;
     kept.add(row);
     if (rows === 0) firstT = row.t;
     lastT = row.t;
@@ -94,8 +94,8 @@ export async function surveyFile(filePath: string, delimiter: Delimiter, overrid
   // A header alone (or a file that is no CSV) is reported by what is wrong with its header first.
   plan ??= makePlan(null);
   if (rows < 2) throw new InvalidInputError(`line ${rows + 2}: at least two readings are needed after the header`);
-  const medianStepS = medianOfCounts(steps);
-  if (plan.temp && firstTempC !== null) checkAssumedTempUnit(plan.temp, firstTempC);
-  checkTimeSteps({ format: plan.time.format, source: plan.time.source, column: plan.time.column, medianStepS, spanS: lastT - firstT });
-  return { plan, rows, duplicates, medianStepS, firstT, lastT, sign, kept: kept.full ? null : kept };
+  const medianStepSeconds = medianOfCounts(steps);
+  if (plan.temp && firstTempCelsius !== null) checkAssumedTempUnit(plan.temp, firstTempCelsius);
+  checkTimeSteps({ format: plan.time.format, source: plan.time.source, column: plan.time.column, medianStepSeconds, spanSeconds: lastT - firstT });
+  return { plan, rows, duplicates, medianStepSeconds, firstT, lastT, sign, kept: kept.full ? null : kept };
 }

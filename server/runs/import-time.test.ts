@@ -73,18 +73,18 @@ describe('recognising a time column the header does not label', () => {
 });
 
 describe('plausibility of the steps', () => {
-  const base = { format: 's' as const, source: 'inferred' as const, column: 'Time', spanS: 3600 };
+  const base = { format: 's' as const, source: 'inferred' as const, column: 'Time', spanSeconds: 3600 };
   it('takes 1 s, 60 s and 300 s logs whose unit is stated', () => {
-    expect(() => checkTimeSteps({ ...base, source: 'header', medianStepS: 1 })).not.toThrow();
-    expect(() => checkTimeSteps({ ...base, source: 'header', medianStepS: 60 })).not.toThrow();
-    expect(() => checkTimeSteps({ ...base, source: 'header', medianStepS: 300, spanS: 86_400 })).not.toThrow();
+    expect(() => checkTimeSteps({ ...base, source: 'header', medianStepSeconds: 1 })).not.toThrow();
+    expect(() => checkTimeSteps({ ...base, source: 'header', medianStepSeconds: 60 })).not.toThrow();
+    expect(() => checkTimeSteps({ ...base, source: 'header', medianStepSeconds: 300, spanSeconds: 86_400 })).not.toThrow();
   });
   it('asks for the unit of a bare Time in ms (steps of 1000 read as seconds would be 17 min apart)', () => {
-    expect(() => checkTimeSteps({ ...base, medianStepS: 1000, spanS: 3_600_000 })).toThrow(/has no unit and steps of 1000 \(median\): seconds .* or milliseconds \(1 s apart\)\? Choose the time format/);
+    expect(() => checkTimeSteps({ ...base, medianStepSeconds: 1000, spanSeconds: 3_600_000 })).toThrow(/has no unit and steps of 1000 \(median\): seconds .* or milliseconds \(1 s apart\)\? Choose the time format/);
   });
   it('refuses steps finer than a millisecond, coarser than an hour, or a span over a year', () => {
-    expect(() => checkTimeSteps({ ...base, format: 'ms', source: 'header', medianStepS: 1e-6 })).toThrow(/finer than any battery logger/);
-    expect(() => checkTimeSteps({ ...base, format: 'min', source: 'chosen', medianStepS: 60_000 })).toThrow(/more than an hour between readings/);
-    expect(() => checkTimeSteps({ ...base, source: 'header', medianStepS: 1, spanS: 1e300 })).toThrow(/more than a year/);
+    expect(() => checkTimeSteps({ ...base, format: 'ms', source: 'header', medianStepSeconds: 1e-6 })).toThrow(/finer than any battery logger/);
+    expect(() => checkTimeSteps({ ...base, format: 'min', source: 'chosen', medianStepSeconds: 60_000 })).toThrow(/more than an hour between readings/);
+    expect(() => checkTimeSteps({ ...base, source: 'header', medianStepSeconds: 1, spanSeconds: 1e300 })).toThrow(/more than a year/);
   });
 });

@@ -1,5 +1,6 @@
 import { InvalidInputError } from '../domain/domain-errors.js';
 import { calendarWallMs, fractionToMs, parseTimestampMs, wallMsToUtcMs } from './zoned-time.js';
+import { MS_PER_S, SECONDS_PER_DAY } from '../../shared/units/time.js';
 
 /**
  * How a log writes its time column: a number of seconds, milliseconds, minutes or hours;
@@ -11,8 +12,6 @@ export type TimeFormat = 's' | 'ms' | 'min' | 'h' | 'hms' | 'iso' | 'dmy' | 'mdy
 export type TimeFormatSource = 'header' | 'chosen' | 'inferred';
 
 const SECONDS_PER: Record<'s' | 'ms' | 'min' | 'h', number> = { s: 1, ms: 1e-3, min: 60, h: 3600 };
-const SECONDS_PER_DAY = 86_400;
-const MS_PER_SECOND = 1000;
 /** Day 0 of spreadsheet serial dates (1900 date system as spreadsheets store it, counting from 30 Dec 1899; common practice). */
 const SERIAL_DAY_ZERO_MS = Date.UTC(1899, 11, 30);
 /** A clock time that falls by more than this passed midnight (the log went on into the next day). */
@@ -27,7 +26,7 @@ const ISO_DATE = /^\d{4}-\d{2}-\d{2}/;
 const NUMERIC_DATE = /^(\d{1,2})[./-](\d{1,2})[./-](\d{4}|\d{2})(?:[ T,]+(\d{1,2}):(\d{2})(?::(\d{2})(?:[.,](\d{1,9}))?)?)?$/;
 
 /** Latest instant a log can come from as seconds since 1970 (1 Jan 2100): larger numbers are no seconds. */
-export const MAX_EPOCH_SECONDS = Date.UTC(2100, 0, 1) / MS_PER_SECOND;
+export const MAX_EPOCH_SECONDS = Date.UTC(2100, 0, 1) / MS_PER_S;
 /** Earliest epoch a log's own clock could hold in milliseconds (9 Sep 2001, 1e12 ms): smaller numbers are no epoch ms. */
 const MIN_EPOCH_MS = 1e12;
 /** Earliest epoch in seconds the importer takes for a Unix time (9 Sep 2001, 1e9 s). */
@@ -66,14 +65,14 @@ export function createTimeReader(format: TimeFormat, opts: TimeReadOptions): (te
       return (text) => {
         const m = HMS.exec(text);
         if (!m) return Number.NaN;
-        const t = Number(m[1]) * 3600 + Number(m[2]) * 60 + Number(m[3]) + fractionToMs(m[4]) / MS_PER_SECOND;
+        const t = Number(m[1]) * 3600 + Number(m[2]) * 60 + Number(m[3]) + fractionToMs(m[4]) / MS_PER_S;
         if (t + days * SECONDS_PER_DAY < last - MIDNIGHT_ROLLOVER_S) days++;
         last = t + days * SECONDS_PER_DAY;
         return last;
       };
     }
     case 'iso':
-      return (text) => (ISO_DATE.test(text) ? parseTimestampMs(text, opts.timeZone) / MS_PER_SECOND : Number.NaN);
+      return (text) => (ISO_DATE.test(text) ? parseTimestampMs(text, opts.timeZone) / MS_PER_S : Number.NaN);
     case 'dmy':
     case 'mdy':
       return (text) => {
@@ -83,14 +82,14 @@ export function createTimeReader(format: TimeFormat, opts: TimeReadOptions): (te
         const [day, month] = format === 'dmy' ? [a, b] : [b, a];
         const year = m[3]!.length === 2 ? CENTURY + Number(m[3]) : Number(m[3]);
         const wall = calendarWallMs(year, month, day, Number(m[4] ?? 0), Number(m[5] ?? 0), Number(m[6] ?? 0), fractionToMs(m[7]));
-        return wallMsToUtcMs(wall, opts.timeZone) / MS_PER_SECOND;
+        return wallMsToUtcMs(wall, opts.timeZone) / MS_PER_S;
       };
     case 'serial-days':
       return (text) => {
         const days = parseDecimal(text, opts.decimalComma);
         // Round to the millisecond: a serial day carries about 1e-11 d of float noise.
-        const wall = Math.round(SERIAL_DAY_ZERO_MS + days * SECONDS_PER_DAY * MS_PER_SECOND);
-        return wallMsToUtcMs(wall, opts.timeZone) / MS_PER_SECOND;
+        const wall = Math.round(SERIAL_DAY_ZERO_MS + days * SECONDS_PER_DAY * MS_PER_S);
+        return wallMsToUtcMs(wall, opts.timeZone) / MS_PER_S;
       };
   }
 }
@@ -119,7 +118,7 @@ export function inferTimeFormat(sample: string, column: string): TimeFormat {
   if (ISO_DATE.test(sample)) return 'iso';
   if (NUMERIC_DATE.test(sample)) throw askFormat(`line 2: time "${sample}" in column "${column}" is a date that can be day-first or month-first; choose the time format (dd.mm.yyyy or mm/dd/yyyy)`);
   const v = parseDecimal(sample, sample.includes(',') && !sample.includes('.'));
-  if (Number.isFinite(v) && v >= MIN_EPOCH_MS && v < MAX_EPOCH_SECONDS * MS_PER_SECOND) return 'ms';
+  if (Number.isFinite(v) && v >= MIN_EPOCH_MS && v < MAX_EPOCH_SECONDS * MS_PER_S) return 'ms';
   if (Number.isFinite(v) || sample === '') return 's';
   throw askFormat(`line 2: time "${sample.slice(0, 40)}" in column "${column}" is in no format Kneepoint recognises by itself; choose the time format`);
 }
@@ -146,8 +145,8 @@ export interface TimeStepFacts {
   source: TimeFormatSource;
   column: string;
   /** Median step between distinct times, seconds (null with fewer than two distinct times). */
-  medianStepS: number | null;
-  spanS: number;
+  medianStepSeconds: number | null;
+  spanSeconds: number;
 }
 
 /**
@@ -158,11 +157,11 @@ export interface TimeStepFacts {
 export function checkTimeSteps(f: TimeStepFacts): void {
   const how = f.source === 'inferred' ? `read as ${TIME_FORMAT_WORDS[f.format]}` : `in ${TIME_FORMAT_WORDS[f.format]}`;
   const other = 'choose the time format that matches the file';
-  if (f.spanS > MAX_LOG_SPAN_S) throw askFormat(`time column "${f.column}" ${how} spans ${(f.spanS / SECONDS_PER_DAY).toFixed(0)} days, more than a year; ${other}`);
-  if (f.medianStepS === null) return;
-  if (f.medianStepS < MIN_MEDIAN_STEP_S) throw askFormat(`time column "${f.column}" ${how} steps ${f.medianStepS} s (median), finer than any battery logger; ${other}`);
-  if (f.medianStepS > MAX_MEDIAN_STEP_S) throw askFormat(`time column "${f.column}" ${how} steps ${f.medianStepS} s (median), more than an hour between readings; ${other}`);
-  if (f.source === 'inferred' && f.format === 's' && f.medianStepS > MAX_INFERRED_SECONDS_STEP_S) {
-    throw askFormat(`time column "${f.column}" has no unit and steps of ${f.medianStepS} (median): seconds (${(f.medianStepS / 60).toFixed(1)} min apart) or milliseconds (${f.medianStepS / MS_PER_SECOND} s apart)? Choose the time format`);
+  if (f.spanSeconds > MAX_LOG_SPAN_S) throw askFormat(`time column "${f.column}" ${how} spans ${(f.spanSeconds / SECONDS_PER_DAY).toFixed(0)} days, more than a year; ${other}`);
+  if (f.medianStepSeconds === null) return;
+  if (f.medianStepSeconds < MIN_MEDIAN_STEP_S) throw askFormat(`time column "${f.column}" ${how} steps ${f.medianStepSeconds} s (median), finer than any battery logger; ${other}`);
+  if (f.medianStepSeconds > MAX_MEDIAN_STEP_S) throw askFormat(`time column "${f.column}" ${how} steps ${f.medianStepSeconds} s (median), more than an hour between readings; ${other}`);
+  if (f.source === 'inferred' && f.format === 's' && f.medianStepSeconds > MAX_INFERRED_SECONDS_STEP_S) {
+    throw askFormat(`time column "${f.column}" has no unit and steps of ${f.medianStepSeconds} (median): seconds (${(f.medianStepSeconds / 60).toFixed(1)} min apart) or milliseconds (${f.medianStepSeconds / MS_PER_S} s apart)? Choose the time format`);
   }
 }

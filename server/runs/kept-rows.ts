@@ -34,7 +34,7 @@ export class KeptRows {
     this.data[at] = row.t;
     this.data[at + 1] = row.volts;
     this.data[at + 2] = row.amps;
-    this.data[at + 3] = row.tempC ?? Number.NaN;
+    this.data[at + 3] = row.tempCelsius ?? Number.NaN;
     this.count++;
   }
 
@@ -54,7 +54,7 @@ export class KeptRows {
   }
 
   /** Row `i`'s temperature, °C, or null when not measured. */
-  tempC(i: number): number | null {
+  tempCelsius(i: number): number | null {
     const c = this.data[i * COLUMNS + 3]!;
     return Number.isNaN(c) ? null : c;
   }

@@ -6,6 +6,7 @@ import type { RunBatch } from './run-batch.js';
 import { RunRecorder, type KeptReading } from './run-recorder.js';
 import { RunSession } from './run-session.js';
 import type { RunsRepo } from './runs-repo.js';
+import { quietLogger } from '../log/logger.js';
 
 const run: Run = {
   id: 4, name: 'r', tags: [], origin: 'live', benchId: 2, batteryId: null, kind: 'capacity-discharge', state: 'recording',
@@ -13,7 +14,7 @@ const run: Run = {
   afterRecoverySeconds: 0, readingsCount: 0, summary: null, startedAt: null, endedAt: null, createdBy: null, createdAt: '', updatedAt: '',
 };
 const frame = (i: number): Frame => ({ t: 100 + i * 0.5, volts: 12.9 - i * 0.001, amps: 8 + (i % 3), clock: 'device' });
-const kept = (from: number, to: number): KeptReading[] => Array.from({ length: to - from }, (_, k) => ({ index: from + k, frame: frame(from + k), arrivalS: 1_700_000_000 + from + k }));
+const kept = (from: number, to: number): KeptReading[] => Array.from({ length: to - from }, (_, k) => ({ index: from + k, frame: frame(from + k), arrivalSeconds: 1_700_000_000 + from + k }));
 
 /** A recorder resumed from the archived state after `archived` readings, as at a start after a crash. */
 async function resumedAt(archived: number): Promise<{ recorder: RunRecorder; batches: RunBatch[] }> {
@@ -23,7 +24,7 @@ async function resumedAt(archived: number): Promise<{ recorder: RunRecorder; bat
   const batches: RunBatch[] = [];
   const repo = { listLive: async () => [run], getPipelineState: async () => stored, events: async () => [] } as unknown as RunsRepo;
   const archive = { enqueue: (b: RunBatch) => void batches.push(b) };
-  const recorder = new RunRecorder({ repo, archive, getBattery: async () => null, log: () => undefined });
+  const recorder = new RunRecorder({ repo, archive, getBattery: async () => null, log: quietLogger });
   await recorder.resume();
   return { recorder, batches };
 }
@@ -47,6 +48,6 @@ describe('RunRecorder.replay', () => {
     const session = recorder.session(run.id)!;
     expect(session.readingsCount).toBe(14);
     expect(session.clock.state.lastT).toBe(frame(13).t);
-    expect(session.clock.state.lastArrivalS).toBe(1_700_000_013);
+    expect(session.clock.state.lastArrivalSeconds).toBe(1_700_000_013);
   });
 });

@@ -13,6 +13,8 @@ import type { RunBatchSink } from './run-batch.js';
 import { RunSession, type RunSessionSnapshot, type SequencedEvent } from './run-session.js';
 import type { NoteChangeRecord } from './notes-repo.js';
 import type { RunsRepo } from './runs-repo.js';
+import { MS_PER_S } from '../../shared/units/time.js';
+import { createLogger, type Logger } from '../log/logger.js';
 
 /** Where frames come from: the ingest area's BenchManager satisfies this. */
 export interface FrameFeed {
@@ -24,7 +26,6 @@ export interface FrameFeed {
 export const FLUSH_INTERVAL_MS = 1000;
 /** …or as soon as this many are pending (a fast meter). */
 export const FLUSH_READINGS = 2000;
-const MS_PER_S = 1000;
 /** Bench states that mean the meter is not delivering. */
 const SOURCE_DOWN_STATES = new Set(['stale', 'error', 'reconnecting', 'idle']);
 
@@ -39,7 +40,7 @@ export interface RunRecorderDeps {
   benchSourceFacts?: (id: number) => Promise<SourceFacts | null>;
   /** Readies a bench just before a run is armed on it (a simulated bench gets a fresh pack). */
   prepareBench?: (id: number) => Promise<unknown>;
-  log?: (message: string, err?: unknown) => void;
+  log?: Logger;
   /** Injected timer (tests drive flushes by hand with `flushAll`). */
   setInterval?: (fn: () => void, ms: number) => { unref?: () => void };
   clearInterval?: (handle: unknown) => void;
@@ -53,7 +54,7 @@ type StartRequest = z.infer<typeof StartRunRequestSchema>;
 export interface KeptReading {
   index: number;
   frame: Frame;
-  arrivalS: number;
+  arrivalSeconds: number;
 }
 
 /** How far past a live run's latest reading a note may be placed (a browser clock a little ahead). */
@@ -73,14 +74,14 @@ export class RunRecorder {
   private readonly unsubscribe: (() => void)[] = [];
   private timer: unknown = null;
   /** Every reading a run accepts, with its index in the run (the archive's sequence number). */
-  readonly readings = new ListenerSet<[runId: number, reading: Reading, index: number]>((e) => this.log('run readings listener failed', e));
-  readonly events = new ListenerSet<[runId: number, event: SequencedEvent | StoredRunEvent]>((e) => this.log('run event listener failed', e));
-  readonly runChanges = new ListenerSet<[run: Run]>((e) => this.log('run change listener failed', e));
-  readonly noteChanges = new ListenerSet<[change: NoteChangeRecord]>((e) => this.log('note change listener failed', e));
-  private readonly log: (message: string, err?: unknown) => void;
+  readonly readings = new ListenerSet<[runId: number, reading: Reading, index: number]>((e) => this.log.error('run readings listener failed', e));
+  readonly events = new ListenerSet<[runId: number, event: SequencedEvent | StoredRunEvent]>((e) => this.log.error('run event listener failed', e));
+  readonly runChanges = new ListenerSet<[run: Run]>((e) => this.log.error('run change listener failed', e));
+  readonly noteChanges = new ListenerSet<[change: NoteChangeRecord]>((e) => this.log.error('note change listener failed', e));
+  private readonly log: Logger;
 
   constructor(private readonly deps: RunRecorderDeps) {
-    this.log = deps.log ?? ((m, e) => console.warn(m, e ?? ''));
+    this.log = deps.log ?? createLogger('runs');
   }
 
   /** Subscribes to a frame feed and starts the flush timer. */
@@ -106,9 +107,9 @@ export class RunRecorder {
         const session = new RunSession(run, battery, measureConfigFor(run, battery, source), previous, past);
         this.register(session);
         resumed.push(run);
-        this.log(`run ${run.id} resumed at ${session.readingsCount} readings`);
+        this.log.info(`run ${run.id} resumed at ${session.readingsCount} readings`);
       } catch (err) {
-        this.log(`run ${run.id} could not be resumed`, err);
+        this.log.error(`run ${run.id} could not be resumed`, err);
       }
     }
     return resumed;
@@ -134,8 +135,8 @@ export class RunRecorder {
       last = k;
     }
     if (replayed < expected)
-      this.log(`run ${runId}: replay stopped after ${replayed} of the journalled readings (indexes did not follow on)`);
-    if (last) session.clock.resumeAfter(last.frame.t, last.arrivalS);
+      this.log.warn(`run ${runId}: replay stopped after ${replayed} of the journalled readings (indexes did not follow on)`);
+    if (last) session.clock.resumeAfter(last.frame.t, last.arrivalSeconds);
     return replayed;
   }
 
@@ -213,7 +214,7 @@ export class RunRecorder {
   private endStranded(run: Run, state: 'finished' | 'aborted'): Run {
     const endedAt = new Date();
     this.deps.archive.enqueue({ runId: run.id, firstSeq: run.readingsCount, readings: [], events: [], patch: { state, endedAt, pipelineState: null } });
-    this.log(`run ${run.id} was ${run.state} without a live session; ended as ${state}`);
+    this.log.warn(`run ${run.id} was ${run.state} without a live session; ended as ${state}`);
     const ended: Run = { ...run, state, endedAt: endedAt.toISOString() };
     this.runChanges.emit(ended);
     return ended;
@@ -225,10 +226,10 @@ export class RunRecorder {
     const stored = session ? null : await this.deps.repo.get(runId);
     if (!session && !stored) throw notFound(`Run ${runId}`);
     // A note belongs within the run: up to its latest reading (live), or its length (ended).
-    const lengthS = session ? (session.lastElapsed ?? 0) + NOTE_AHEAD_OF_LIVE_S : (stored?.summary?.durationSeconds ?? null);
-    if (t !== undefined && lengthS !== null && t > lengthS) {
+    const lengthSeconds = session ? (session.lastElapsed ?? 0) + NOTE_AHEAD_OF_LIVE_S : (stored?.summary?.durationSeconds ?? null);
+    if (t !== undefined && lengthSeconds !== null && t > lengthSeconds) {
       const what = session ? 'the latest reading' : 'the end of the run';
-      throw new InvalidInputError(`The note's time (${t} s) is after ${what} (${lengthS.toFixed(1)} s)`, { t: [`at most ${lengthS.toFixed(1)} s`] });
+      throw new InvalidInputError(`The note's time (${t} s) is after ${what} (${lengthSeconds.toFixed(1)} s)`, { t: [`at most ${lengthSeconds.toFixed(1)} s`] });
     }
     const at = t ?? session?.lastElapsed ?? 0;
     const note = await this.deps.repo.insertEvent(runId, { type: 'annotation', t: at, text, author: author.name }, author.id);
@@ -334,7 +335,7 @@ export class RunRecorder {
     if (out.reading) this.readings.emit(session.run.id, out.reading, session.readingsCount - 1);
     for (const e of out.events) this.emitEvent(session.run.id, e);
     if (out.stateChanged) this.runChanges.emit(this.liveView(session));
-    if (session.shouldFinish()) void this.endSession(session, 'finished').catch((err) => this.log(`run ${session.run.id} did not end cleanly`, err));
+    if (session.shouldFinish()) void this.endSession(session, 'finished').catch((err) => this.log.error(`run ${session.run.id} did not end cleanly`, err));
     else if (session.hasPending() && out.stateChanged) this.deps.archive.enqueue(session.takeBatch());
     else if (session.readingsCount % FLUSH_READINGS === 0) this.deps.archive.enqueue(session.takeBatch());
   }

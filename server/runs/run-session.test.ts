@@ -164,3 +164,21 @@ describe('RunSession across restarts', () => {
     expect(s.summary()!.capacityAh!).toBeCloseTo((5 * 100) / 3600, 2);
   });
 });
+
+describe('a run-session snapshot stored before the vocabulary renames', () => {
+  it('resumes with the same source-clock state from the old field names (offsetS, lastArrivalS, suspectArrivalS)', () => { // vocab-rename: keep
+    const run = baseRun({ state: 'recording' });
+    const before = new RunSession(run, null, measureConfigFor(run, null));
+    for (let i = 0; i < 5; i++) before.clock.accept({ t: 1000 + i, volts: 12, amps: 2, clock: 'device' }, 1_700_000_000 + i);
+    const snapshot = before.snapshot();
+    expect(snapshot.clock!.lastArrivalSeconds).toBe(1_700_000_004);
+    const old = JSON.parse(
+      JSON.stringify(snapshot)
+        .replace('"offsetSeconds"', '"offsetS"') // vocab-rename: keep
+        .replace('"lastArrivalSeconds"', '"lastArrivalS"') // vocab-rename: keep
+        .replace('"suspectArrivalSeconds"', '"suspectArrivalS"'), // vocab-rename: keep
+    );
+    const resumed = new RunSession(run, null, measureConfigFor(run, null), old);
+    expect(resumed.clock.state).toEqual(before.clock.state);
+  });
+});

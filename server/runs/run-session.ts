@@ -10,6 +10,7 @@ import type { Run, RunState } from '../../shared/schemas/run.js';
 import type { BatteryFacts } from './measure-config.js';
 import type { RunBatch } from './run-batch.js';
 import { emptyClockState, SourceClockGuard, type ClockGuardState } from './source-clock-guard.js';
+import { withCurrentKeys } from '../../shared/schemas/legacy-keys.js';
 
 /** Everything needed to pick a run up again after a restart; stored with each batch. */
 export interface RunSessionSnapshot {
@@ -43,7 +44,9 @@ const FRESH_FIELDS: Omit<SessionFields, 'state'> = {
  */
 function sessionFields(previous: RunSessionSnapshot): SessionFields {
   const { nextSeq, nextEventSeq, state, recoveredAt, cutoffAt, cutoffCause, lastElapsed, tempAlarmRaised, clock } = previous;
-  return { nextSeq, nextEventSeq, state, recoveredAt, cutoffAt, cutoffCause, lastElapsed, tempAlarmRaised, clock: clock ?? emptyClockState() };
+  // A snapshot stored before the renames names the clock guard's fields offsetS, lastArrivalS, suspectArrivalS. // vocab-rename: keep
+  const current = clock ? (withCurrentKeys(clock) as ClockGuardState) : emptyClockState();
+  return { nextSeq, nextEventSeq, state, recoveredAt, cutoffAt, cutoffCause, lastElapsed, tempAlarmRaised, clock: current };
 }
 
 /** One event with its per-run sequence number (its idempotency key in the archive). */

@@ -1,6 +1,6 @@
 import type { Sequelize } from 'sequelize';
 import type { SamplesQuery, SamplesResponse } from '../../shared/schemas/api-runs.js';
-import { chunkExtent, readChunks, readStats, reduceOverDischarge, reduceSamples, reduceStats, STATS_GROUP_READINGS } from '../archive/archive-reader.js';
+import { chunkExtent, readChunks, readStats, reduceOverDischarge, reduceReadings, reduceStats, STATS_GROUP_READINGS } from '../archive/archive-reader.js';
 import { InvalidInputError } from '../domain/domain-errors.js';
 
 /** Channels the chart needs; totals and aux columns stay compressed. */
@@ -11,10 +11,10 @@ const GROUPS_PER_BUCKET = 4;
 /**
  * History of a run for a chart: readings between `from` and `to` (run seconds; default
  * the whole run) as min/max buckets, or every reading when few enough. With `x` = `ah` or
- * `wh` the axis is the delivered discharge so far (see dischargeSamples).
+ * `wh` the axis is the delivered discharge so far (see dischargeReadings).
  */
 export async function runSamples(sequelize: Sequelize, runId: number, q: SamplesQuery, maxGapSeconds?: number): Promise<SamplesResponse> {
-  if (q.x !== 't') return dischargeSamples(sequelize, runId, q, q.x, maxGapSeconds);
+  if (q.x !== 't') return dischargeReadings(sequelize, runId, q, q.x, maxGapSeconds);
   const x = 't' as const;
   const extent = await chunkExtent(sequelize, runId);
   const from = q.from ?? extent?.from ?? 0;
@@ -22,7 +22,7 @@ export async function runSamples(sequelize: Sequelize, runId: number, q: Samples
   if (to < from) throw new InvalidInputError('`to` must not be before `from`', { to: ['must be >= from'] });
   // Two finite ends can still be an infinite span (-1e308 to 1e308): every bucket time would be NaN.
   if (!Number.isFinite(to - from)) throw new InvalidInputError('The window from `from` to `to` is too wide', { to: ['to - from must be a finite number of seconds'] });
-  if (!extent) return { runId, x, from, to, ...reduceSamples([], from, to, q.maxPoints) };
+  if (!extent) return { runId, x, from, to, ...reduceReadings([], from, to, q.maxPoints) };
   // Estimate the readings in the window from the run's mean rate; the groups are exact enough
   // once each bucket would hold several of them.
   const span = extent.to - extent.from;
@@ -31,7 +31,7 @@ export async function runSamples(sequelize: Sequelize, runId: number, q: Samples
     return { runId, x, from, to, ...reduceStats(await readStats(sequelize, runId, from, to), from, to, q.maxPoints) };
   }
   const parts = await readChunks(sequelize, runId, from, to, CHART_COLUMNS);
-  return { runId, x, from, to, ...reduceSamples(parts, from, to, q.maxPoints) };
+  return { runId, x, from, to, ...reduceReadings(parts, from, to, q.maxPoints) };
 }
 
 /**
@@ -39,7 +39,7 @@ export async function runSamples(sequelize: Sequelize, runId: number, q: Samples
  * needs the run from its start), integrated by the core's step with the run's gap limit,
  * then bucketed over [from, to] in Ah or Wh (default 0 to the delivered total).
  */
-async function dischargeSamples(sequelize: Sequelize, runId: number, q: SamplesQuery, x: 'ah' | 'wh', maxGapSeconds?: number): Promise<SamplesResponse> {
+async function dischargeReadings(sequelize: Sequelize, runId: number, q: SamplesQuery, x: 'ah' | 'wh', maxGapSeconds?: number): Promise<SamplesResponse> {
   const extent = await chunkExtent(sequelize, runId);
   const parts = extent ? await readChunks(sequelize, runId, extent.from, extent.to, CHART_COLUMNS) : [];
   if (q.from !== undefined && q.to !== undefined && q.to < q.from) throw new InvalidInputError('`to` must not be before `from`', { to: ['must be >= from'] });

@@ -1,9 +1,8 @@
+import { MS_PER_HOUR, MS_PER_S } from '../../shared/units/time.js';
 /** An ISO date-time that says which zone it is in (Z or an offset such as +02:00 after the time; a date's own -15 is no zone). */
 const HAS_ZONE = /\d:\d{2}(?::\d{2}(?:[.,]\d+)?)?\s*(z|[+-]\d{2}(:?\d{2})?)$/i;
 /** A date and wall-clock time without a zone: "2026-03-29 01:30:00", "2026-03-29T01:30:00.250". */
 const LOCAL_DATE_TIME = /^(\d{4})-(\d{2})-(\d{2})(?:[T ](\d{2}):(\d{2})(?::(\d{2})(?:[.,](\d{1,9}))?)?)?$/i;
-const MS_PER_HOUR = 3_600_000;
-const MS_PER_SECOND = 1000;
 
 const formatters = new Map<string, Intl.DateTimeFormat>();
 const offsets = new Map<string, number>();
@@ -53,7 +52,7 @@ export function calendarWallMs(year: number, month: number, day: number, hour = 
 
 /** Milliseconds of a decimal fraction of a second written as its digits ("25" of "12:00:00.25"). */
 export function fractionToMs(digits: string | undefined): number {
-  return digits ? Number(`0.${digits}`) * MS_PER_SECOND : 0;
+  return digits ? Number(`0.${digits}`) * MS_PER_S : 0;
 }
 
 /**

@@ -1,3 +1,4 @@
+import { derivative } from 'mathjs';
 import { describe, expect, it } from 'vitest';
 import { internalResistanceFromSteps, resistanceFromPoints } from './internal-resistance.js';
 import { incrementalCapacity, movingAverage } from './incremental-capacity.js';
@@ -43,6 +44,24 @@ describe('incremental capacity dQ/dV', () => {
     const peak = dQdV.indexOf(Math.max(...dQdV));
     expect(Math.abs(volts[peak]! - V0)).toBeLessThan(0.006);
     expect(Math.abs(dQdV[peak]! - A / (4 * w)) / (A / (4 * w))).toBeLessThan(0.05);
+  });
+  it('matches the symbolic derivative mathjs gives for a curved discharge V(Q)', () => {
+    // Check values: mathjs.derivative of V(Q), then dQ/dV = −1/(dV/dQ) at the bin centre.
+    const curve = '3.3 + 0.8 * exp(-Q / 4) - 0.015 * Q';
+    const v = (q: number) => 3.3 + 0.8 * Math.exp(-q / 4) - 0.015 * q;
+    const dVdQ = derivative(curve, 'Q').compile();
+    const qAt = (volts: number) => {
+      let lo = 0, hi = 40; // V falls monotonically on [0, 40] Ah: bisection finds Q(V).
+      for (let i = 0; i < 60; i++) [lo, hi] = v((lo + hi) / 2) > volts ? [(lo + hi) / 2, hi] : [lo, (lo + hi) / 2];
+      return (lo + hi) / 2;
+    };
+    const pts = Array.from({ length: 40_001 }, (_, i) => ({ dischargeAh: i * 0.001, volts: v(i * 0.001) }));
+    const { volts, dQdV } = incrementalCapacity(pts, { binVolts: 0.002, smoothBins: 1 });
+    expect(volts.length).toBeGreaterThan(300);
+    volts.forEach((centre, i) => {
+      const expected = -1 / (dVdQ.evaluate({ Q: qAt(centre) }) as number);
+      expect(Math.abs(dQdV[i]! - expected) / expected).toBeLessThan(0.01);
+    });
   });
   it('moving average keeps a constant and smooths a spike', () => {
     expect(movingAverage([2, 2, 2], 3)).toEqual([2, 2, 2]);

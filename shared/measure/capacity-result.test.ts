@@ -209,7 +209,7 @@ describe('incomplete runs', () => {
 
 describe('test rate and temperature beside the verdict', () => {
   // IEC 61960-3 rates capacity at 0.2 It A and 20 ± 5 °C (from memory); the ±10 % rate tolerance is ours.
-  const frames = (amps: number, tempC: number): Frame[] => trace(0, 600, () => ({ volts: 25, amps, temps: { cell: tempC } }));
+  const frames = (amps: number, tempCelsius: number): Frame[] => trace(0, 600, () => ({ volts: 25, amps, temps: { cell: tempCelsius } }));
   it('10 A from a 50 Ah pack at 24 °C: 0.2 C, nothing flagged', () => {
     const { summary } = run({ ...LFP_8S, ratedAh: 50 }, frames(10, 24));
     expect(summary.cRate!).toBeCloseTo(0.2, 12); // definition of C-rate: 10 A ÷ 50 Ah

@@ -1,6 +1,6 @@
 import type { RunTotals } from '../schemas/reading.js';
 import { createIntegratorState, integratorTotals } from './integrator-state.js';
-import { DEFAULT_MAX_GAP_SECONDS, integrateStep, type Sample } from './integrator.js';
+import { DEFAULT_MAX_GAP_SECONDS, integrateStep, type ReadingPoint } from './integrator.js';
 
 /**
  * Where a discharge ends for capacity purposes:
@@ -19,13 +19,13 @@ export interface CapacityToEndVoltage extends RunTotals {
 
 /** Integrates samples from the first up to the end voltage, by the chosen convention. */
 export function capacityToEndVoltage(
-  samples: ArrayLike<Sample>,
+  samples: ArrayLike<ReadingPoint>,
   endVolts: number,
   convention: EndOfDischargeConvention = 'first-below',
   maxGapSeconds = DEFAULT_MAX_GAP_SECONDS,
 ): CapacityToEndVoltage {
   const s = createIntegratorState();
-  let prev: Sample | null = null;
+  let prev: ReadingPoint | null = null;
   for (let i = 0; i < samples.length; i++) {
     const x = samples[i]!;
     if (x.volts < endVolts && prev !== null && convention === 'interpolated' && prev.volts >= endVolts) {

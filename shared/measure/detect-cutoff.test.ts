@@ -5,7 +5,7 @@ import type { RunEvent } from '../schemas/run-event.js';
 
 // Synthetic traces with known answers (analytic ramps plus seeded noise). The protection's
 // reconnect "after a couple of minutes" is common practice for pack BMSs; the 2.5 V/cell LFP
-// end voltage is common practice (see PRODUCT.md). Event times are checked to one sample.
+// end voltage is common practice. Event times are checked to one sample.
 const LFP_8S = { chemistry: 'lfp', cellsInSeries: 8, endVoltsPerCell: 2.5 } as const; // 20 V end
 const types = (events: RunEvent[]): string[] => events.map((e) => e.type + ('milestone' in e ? `:${e.milestone}` : ''));
 

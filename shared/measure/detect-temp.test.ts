@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { createRunPipeline } from './run-pipeline.js';
 import { noise, trace } from './synthetic-trace.test-helper.js';
 
-// Common practice (issue 3 / PRODUCT.md): a pack's BMS inhibits charging below 0 °C after
+// Common practice: a pack's BMS inhibits charging below 0 °C after
 // about one minute, and cuts off above its high limit within about 20 s; a self-heating pack
 // heats from 0 °C (32 °F) to about 5 °C (41 °F) drawing 3 to 6 A. Traces are synthetic with
 // seeded noise; times are checked to within one sample period (1 s here) plus the noise's shift.

@@ -1,5 +1,5 @@
 import type { Reading } from '../schemas/reading.js';
-import { SECONDS_PER_HOUR } from '../units/convert.js';
+import { SECONDS_PER_HOUR } from '../units/time.js';
 
 /** One reading as the crossing needs it (plain JSON, kept in the detector's state). */
 export interface CrossingPoint {

@@ -9,11 +9,11 @@ import type { MeasureConfigInput } from '../schemas/measure-config.js';
 const HOUR_S = 3600;
 const REL_TOLERANCE = 1e-9;
 
-/** Constant-current frames every `stepS` from 0 to `endS`, with a last frame at `endS` itself. */
-function constantLog(stepS: number, endS: number, volts: number, amps: number): Frame[] {
+/** Constant-current frames every `stepSeconds` from 0 to `endSeconds`, with a last frame at `endSeconds` itself. */
+function constantLog(stepSeconds: number, endSeconds: number, volts: number, amps: number): Frame[] {
   const out: Frame[] = [];
-  for (let t = 0; t < endS; t += stepS) out.push({ t, volts, amps, clock: 'device' });
-  out.push({ t: endS, volts, amps, clock: 'device' });
+  for (let t = 0; t < endSeconds; t += stepSeconds) out.push({ t, volts, amps, clock: 'device' });
+  out.push({ t: endSeconds, volts, amps, clock: 'device' });
   return out;
 }
 
@@ -37,15 +37,15 @@ describe('gap limit: resolved from the source cadence', () => {
 
 describe('gap limit: logs at any cadence integrate to the analytic Ah', () => {
   // Analytic: constant current I for T seconds delivers I·T/3600 Ah; the trapezoid rule is exact for a constant.
-  for (const stepS of [1, 60, 300]) {
-    it(`a ${stepS} s log of 8 A for 10 h gives 80 Ah within 1e-9 relative, with no gap`, () => {
-      const { totals, gaps } = runLog(constantLog(stepS, 10 * HOUR_S, 12.8, 8), { cadenceSeconds: stepS });
+  for (const stepSeconds of [1, 60, 300]) {
+    it(`a ${stepSeconds} s log of 8 A for 10 h gives 80 Ah within 1e-9 relative, with no gap`, () => {
+      const { totals, gaps } = runLog(constantLog(stepSeconds, 10 * HOUR_S, 12.8, 8), { cadenceSeconds: stepSeconds });
       expect(relErr(totals.dischargeAh, 80)).toBeLessThan(REL_TOLERANCE);
       expect(relErr(totals.dischargeWh, 80 * 12.8)).toBeLessThan(REL_TOLERANCE);
       expect(gaps).toHaveLength(0);
       // The array form resolves the same limit from the same cadence.
-      const frames = constantLog(stepS, 10 * HOUR_S, 12.8, 8);
-      const cols = integrateColumns(frames.map((f) => f.t), frames.map((f) => f.volts), frames.map((f) => f.amps), { cadenceSeconds: stepS });
+      const frames = constantLog(stepSeconds, 10 * HOUR_S, 12.8, 8);
+      const cols = integrateColumns(frames.map((f) => f.t), frames.map((f) => f.volts), frames.map((f) => f.amps), { cadenceSeconds: stepSeconds });
       expect(relErr(cols.dischargeAh, 80)).toBeLessThan(REL_TOLERANCE);
     });
   }
@@ -67,11 +67,11 @@ describe('gap limit: logs at any cadence integrate to the analytic Ah', () => {
 });
 
 describe('gap limit: the numbers of issue 11, item 1', () => {
-  for (const pollS of [31, 45, 60]) {
-    it(`1 h at 5 A polled every ${pollS} s gives 5 Ah (the fixed 30 s rule gave 0 Ah)`, () => {
+  for (const pollSeconds of [31, 45, 60]) {
+    it(`1 h at 5 A polled every ${pollSeconds} s gives 5 Ah (the fixed 30 s rule gave 0 Ah)`, () => {
       // Analytic: 5 A × 1 h = 5 Ah.
-      const frames = constantLog(pollS, HOUR_S, 13.2, 5);
-      expect(runLog(frames, { cadenceSeconds: pollS }).totals.dischargeAh).toBeCloseTo(5, 9);
+      const frames = constantLog(pollSeconds, HOUR_S, 13.2, 5);
+      expect(runLog(frames, { cadenceSeconds: pollSeconds }).totals.dischargeAh).toBeCloseTo(5, 9);
       // Without the cadence, the 30 s default treats every step as a gap: what the fix is for.
       expect(runLog(frames, {}).totals.dischargeAh).toBeLessThan(0.01);
     });

@@ -1,6 +1,6 @@
 import { z } from 'zod';
 import type { RunTotals } from '../schemas/reading.js';
-import { SECONDS_PER_HOUR } from '../units/convert.js';
+import { SECONDS_PER_HOUR } from '../units/time.js';
 import { createSum, sumValue, type CompensatedSum } from './compensated-sum.js';
 
 const SumSchema = z.object({ sum: z.number().finite(), comp: z.number().finite() });

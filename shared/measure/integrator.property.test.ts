@@ -1,9 +1,9 @@
 import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
-import { createIntegratorState, integrateSamples, integrateStep, integratorTotals, type Sample } from './integrator.js';
+import { createIntegratorState, integrateReadings, integrateStep, integratorTotals, type ReadingPoint } from './integrator.js';
 
 // Property tests (fast-check, npm): invariants of the trapezoidal rule, not example values.
-const sampleStream = (minAmps: number): fc.Arbitrary<Sample[]> =>
+const readingStream = (minAmps: number): fc.Arbitrary<ReadingPoint[]> =>
   fc
     .array(
       fc.record({
@@ -21,7 +21,7 @@ const sampleStream = (minAmps: number): fc.Arbitrary<Sample[]> =>
 describe('integrator properties', () => {
   it('energy and charge never decrease during a discharge', () => {
     fc.assert(
-      fc.property(sampleStream(0), (samples) => {
+      fc.property(readingStream(0), (samples) => {
         const s = createIntegratorState();
         let last = integratorTotals(s);
         for (const x of samples) {
@@ -38,12 +38,12 @@ describe('integrator properties', () => {
 
   it('feeding a stream in chunks (through a JSON snapshot) gives the same totals as one pass', () => {
     fc.assert(
-      fc.property(sampleStream(-200), fc.array(fc.nat({ max: 300 }), { maxLength: 6 }), (samples, cuts) => {
-        const whole = integrateSamples(samples);
+      fc.property(readingStream(-200), fc.array(fc.nat({ max: 300 }), { maxLength: 6 }), (samples, cuts) => {
+        const whole = integrateReadings(samples);
         const bounds = [...new Set([0, ...cuts.map((c) => c % (samples.length + 1)), samples.length])].sort((a, b) => a - b);
         let state = createIntegratorState();
         for (let i = 1; i < bounds.length; i++) {
-          const part = integrateSamples(samples.slice(bounds[i - 1], bounds[i]), { from: state });
+          const part = integrateReadings(samples.slice(bounds[i - 1], bounds[i]), { from: state });
           state = JSON.parse(JSON.stringify(part.state)) as typeof state;
         }
         expect(integratorTotals(state)).toEqual(integratorTotals(whole.state));

@@ -1,14 +1,14 @@
 import { describe, expect, it } from 'vitest';
 import { xyIntegration } from 'ml-spectra-processing';
-import { integrateColumns, integrateSamples, integrateStep, createIntegratorState, integratorTotals, rejectedCounts } from './integrator.js';
+import { integrateColumns, integrateReadings, integrateStep, createIntegratorState, integratorTotals, rejectedCounts } from './integrator.js';
 import { trapezoid, trapezoidFunction } from './trapezoid.js';
 
 const HOUR_S = 3600;
 
 describe('trapezoidal rule against published values', () => {
   it('∫₀¹ e^(−x²) dx with n = 10 gives 0.7462107961', () => {
-    // Source: the standard textbook example of the composite trapezoidal rule (value as given
-    // in issue 3; e.g. Stewart, Calculus, §7.7, from memory). Exact value √π/2·erf(1) =
+    // Source: the standard textbook example of the composite trapezoidal rule (e.g. Stewart,
+    // Calculus, §7.7, from memory). Exact value √π/2·erf(1) =
     // 0.7468241328 (erf(1) = 0.8427007929, Abramowitz & Stegun, Table 7.1).
     const approx = trapezoidFunction((x) => Math.exp(-x * x), 0, 1, 10);
     expect(approx).toBeCloseTo(0.7462107961, 10);
@@ -53,7 +53,7 @@ describe('integrator: analytic cases exact to 1e-9', () => {
 
   it('keeps charge apart from discharge and cuts a sign-changing panel at zero', () => {
     // Analytic: current +10 A → −10 A linearly over 2 h: 5 Ah out in the first hour, 5 Ah in in the second.
-    const r = integrateSamples([
+    const r = integrateReadings([
       { t: 0, volts: 10, amps: 10 },
       { t: 2 * HOUR_S, volts: 10, amps: -10 },
     ], { maxGapSeconds: 3 * HOUR_S });

@@ -87,14 +87,14 @@ export interface IntegrateOptions extends GapLimitInput {
 }
 
 /** One sample as the array form takes it (a Frame fits). */
-export interface Sample {
+export interface ReadingPoint {
   t: number;
   volts: number;
   amps: number;
 }
 
 /** Integrates an array of samples in one pass; returns the totals and the final state. */
-export function integrateSamples(samples: ArrayLike<Sample>, options: IntegrateOptions = {}): RunTotals & { state: IntegratorState } {
+export function integrateReadings(samples: ArrayLike<ReadingPoint>, options: IntegrateOptions = {}): RunTotals & { state: IntegratorState } {
   const s = options.from ? IntegratorStateSchema.parse(structuredClone(options.from)) : createIntegratorState();
   const gapSeconds = resolveGapLimit(options).seconds;
   for (let i = 0; i < samples.length; i++) {

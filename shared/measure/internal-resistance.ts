@@ -1,7 +1,7 @@
 import { z } from 'zod';
 
 /** One sample for resistance and dQ/dV work (a Reading fits). */
-export interface VoltAmpSample {
+export interface VoltAmpReading {
   t: number;
   volts: number;
   amps: number;
@@ -103,7 +103,7 @@ function holds(xs: readonly number[], start: number, from: number, to: number, o
  * or (2); a ramp (a taper, a sag) fails (2); each step is found once, at its edge. A window
  * with a collapsed voltage (a protection opening) is no step. `gap` empties the window.
  */
-export function trackLoadSteps(s: LoadStepState, sample: VoltAmpSample, gap: boolean, options: LoadStepOptions = {}): LoadStep | null {
+export function trackLoadSteps(s: LoadStepState, sample: VoltAmpReading, gap: boolean, options: LoadStepOptions = {}): LoadStep | null {
   const w = options.windowReadings ?? DEFAULT_WINDOW_READINGS;
   const size = 2 * w;
   if (gap || s.amps.length !== size) {
@@ -164,7 +164,7 @@ export function medianStepOhms(s: LoadStepState): number | null {
 }
 
 /** Finds the load steps of a whole array (see trackLoadSteps) and their median resistance. */
-export function internalResistanceFromSteps(samples: ArrayLike<VoltAmpSample>, options: LoadStepOptions = {}): { steps: LoadStep[]; medianOhms: number | null } {
+export function internalResistanceFromSteps(samples: ArrayLike<VoltAmpReading>, options: LoadStepOptions = {}): { steps: LoadStep[]; medianOhms: number | null } {
   const s = createLoadStepState();
   const steps: LoadStep[] = [];
   for (let i = 0; i < samples.length; i++) {

@@ -1,3 +1,5 @@
+import { celsiusToFahrenheit, fahrenheitToCelsius } from '../units/convert.js';
+
 /**
  * Lead-acid capacity corrected to 25 °C (77 °F) for the initial electrolyte temperature, as
  * IEEE Std 450 asks of a capacity test of vented lead-acid batteries. A cold battery delivers
@@ -21,14 +23,12 @@ export const CAPACITY_FACTOR_FROM_MEMORY: ReadonlyArray<readonly [fahrenheit: nu
   [77, 1.0], [80, 0.98], [85, 0.96], [90, 0.94], [95, 0.93], [100, 0.91], [105, 0.89], [110, 0.88],
 ];
 
-const FAHRENHEIT_PER_CELSIUS = 9 / 5;
-const FAHRENHEIT_ZERO_OFFSET = 32;
 const PERCENT = 100;
 
 /** Celsius range the table covers (40 to 110 °F), for forms and messages. */
 export const CAPACITY_FACTOR_CELSIUS_RANGE = {
-  min: (CAPACITY_FACTOR_FROM_MEMORY[0]![0] - FAHRENHEIT_ZERO_OFFSET) / FAHRENHEIT_PER_CELSIUS,
-  max: (CAPACITY_FACTOR_FROM_MEMORY[CAPACITY_FACTOR_FROM_MEMORY.length - 1]![0] - FAHRENHEIT_ZERO_OFFSET) / FAHRENHEIT_PER_CELSIUS,
+  min: fahrenheitToCelsius(CAPACITY_FACTOR_FROM_MEMORY[0]![0]),
+  max: fahrenheitToCelsius(CAPACITY_FACTOR_FROM_MEMORY[CAPACITY_FACTOR_FROM_MEMORY.length - 1]![0]),
 } as const;
 
 /** True when the table covers this electrolyte temperature. */
@@ -38,7 +38,7 @@ export function inCapacityFactorRange(celsius: number): boolean {
 
 /** F(T) = capacity at 25 °C ÷ capacity at T for an electrolyte at `celsius` (above 1 when cold), from the table. */
 export function capacityFactorTo25C(celsius: number, table = CAPACITY_FACTOR_FROM_MEMORY): number {
-  const f = celsius * FAHRENHEIT_PER_CELSIUS + FAHRENHEIT_ZERO_OFFSET;
+  const f = celsiusToFahrenheit(celsius);
   const first = table[0]!;
   const last = table[table.length - 1]!;
   // A hair of float noise at the ends (4.444… °C) must not refuse the table's own end points.

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { loadNasaB0005 } from '../../tests/fixtures/nasa-b0005.js';
 import { capacityToEndVoltage } from './capacity-to-end-voltage.js';
-import { integrateSamples } from './integrator.js';
+import { integrateReadings } from './integrator.js';
 
 // Source for every figure here: NASA Ames PCoE Li-ion Battery Aging Datasets (Saha & Goebel,
 // 2007), cell B0005, discharge cycle 1; see tests/fixtures/README.md. Samples are ~18 s apart
@@ -29,7 +29,7 @@ describe('NASA PCoE B0005, cycle 1 (2 A to 2.7 V)', () => {
   });
 
   it('whole file: net 1.862192 Ah and 6.608743 Wh (discharge minus the tiny charge at rest)', () => {
-    const r = integrateSamples(frames);
+    const r = integrateReadings(frames);
     expect(r.dischargeAh - r.chargeAh).toBeCloseTo(1.862192, 6);
     expect(r.dischargeWh - r.chargeWh).toBeCloseTo(6.608743, 6);
     expect(r.state.rejectedNonFinite + r.state.gaps).toBe(0);

@@ -10,11 +10,11 @@ const HOUR_S = 3600;
 /** Step between one segment's last reading and the next one's first, s (a switch). */
 const SWITCH_S = 1e-4;
 
-/** Readings every `stepS` over `seconds`, starting SWITCH_S after `after` (or at 0). */
-function segment(after: Frame[], seconds: number, at: (s: number) => { volts: number; amps: number }, stepS = 10): Frame[] {
+/** Readings every `stepSeconds` over `seconds`, starting SWITCH_S after `after` (or at 0). */
+function segment(after: Frame[], seconds: number, at: (s: number) => { volts: number; amps: number }, stepSeconds = 10): Frame[] {
   const t0 = after.length === 0 ? 0 : after.at(-1)!.t + SWITCH_S;
   const out: Frame[] = [];
-  for (let s = 0; s <= seconds; s += stepS) out.push({ t: t0 + s, clock: 'device', ...at(s) });
+  for (let s = 0; s <= seconds; s += stepSeconds) out.push({ t: t0 + s, clock: 'device', ...at(s) });
   return out;
 }
 

@@ -3,7 +3,7 @@ import type { Frame } from '../schemas/frame.js';
 import type { Reading, RunTotals } from '../schemas/reading.js';
 import type { RunEvent } from '../schemas/run-event.js';
 import { MeasureConfigSchema, type MeasureConfig, type MeasureConfigInput } from '../schemas/measure-config.js';
-import { SECONDS_PER_HOUR } from '../units/convert.js';
+import { SECONDS_PER_HOUR } from '../units/time.js';
 import { sumValue } from './compensated-sum.js';
 import { createIntegratorState, integratorTotals, IntegratorStateSchema, type IntegratorState } from './integrator-state.js';
 import { integrateStep, type StepOutcome } from './integrator.js';

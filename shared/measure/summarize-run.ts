@@ -8,7 +8,7 @@ import { DEFAULT_ACCEPTANCE_PERCENT, costPerKWh, cRate, percentOfRated, verdictW
 import { capacityUncertainty } from './uncertainty.js';
 import type { MeterAccuracy } from '../schemas/meter-accuracy.js';
 import { nominalVolts } from './nominal.js';
-import { internalResistanceFromSteps, medianStepOhms, type VoltAmpSample } from './internal-resistance.js';
+import { internalResistanceFromSteps, medianStepOhms, type VoltAmpReading } from './internal-resistance.js';
 import { correctedAhAt25C, inCapacityFactorRange } from './lead-acid-correction.js';
 import { resolveGapLimit } from './gap-limit.js';
 import { capacityResult, COMPLETE_ENDS } from './capacity-result.js';
@@ -37,7 +37,7 @@ export interface SummarizeRunInput {
   price?: number | null;
   massKg?: number | null;
   /** Readings to find load steps in for the internal resistance (default: the steps the pipeline found as it ran). */
-  readings?: ArrayLike<VoltAmpSample>;
+  readings?: ArrayLike<VoltAmpReading>;
   /** Lead-acid: initial electrolyte/cell temperature for the IEEE 450 correction, °C (outside its table: no correction). */
   leadAcidTempCelsius?: number | null;
   /** The run has ended (default true); while it records, a capacity not yet reached is "in progress". */

@@ -1,8 +1,8 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { EndEstimator, estimateTimeToEnd, TIME_TO_END_MAX_SECONDS, type EstimatorReading } from './time-to-end.js';
+import { SECONDS_PER_HOUR } from '../units/time.js';
 
-const SECONDS_PER_HOUR = 3600;
 
 /** Readings once a second at a constant volts and amps, with the energy integrated exactly (E = V·I·t). */
 function constantPower(volts: number, amps: number, seconds: number, startWh = 0): EstimatorReading[] {

@@ -1,3 +1,4 @@
+import { SECONDS_PER_HOUR } from '../units/time.js';
 /**
  * Estimated time to the end voltage and % of rated energy so far, for a discharge in
  * progress: the rated energy not yet delivered divided by the recent mean power.
@@ -23,7 +24,6 @@ export const TIME_TO_END_RISING_VOLTS_PER_SECOND = 0.0002;
 export const TIME_TO_END_MAX_SECONDS = 100 * 3600;
 /** Highest % of rated shown; above it the rating is surely wrong for this pack. */
 export const PERCENT_OF_RATED_MAX = 300;
-const SECONDS_PER_HOUR = 3600;
 
 /** One reading as the estimator needs it (seconds, volts, amps positive = discharge, cumulative discharge Wh). */
 export interface EstimatorReading {

@@ -1,4 +1,5 @@
 import { UNCERTAINTY_METHOD, type CapacityUncertainty, type MeterAccuracy } from '../schemas/meter-accuracy.js';
+import { SECONDS_PER_HOUR } from '../units/time.js';
 
 /**
  * Uncertainty of delivered Ah and Wh from a meter's data-sheet accuracy, by the law of
@@ -20,7 +21,6 @@ import { UNCERTAINTY_METHOD, type CapacityUncertainty, type MeterAccuracy } from
 export const COVERAGE_FACTOR = 2;
 const SQRT3 = Math.sqrt(3);
 const PERCENT = 100;
-const SECONDS_PER_HOUR = 3600;
 
 /** The integrals the sensitivities come from, over the capacity's discharge. */
 export interface CapacityIntegrals {

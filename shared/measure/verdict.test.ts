@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { peukertCapacityAh, peukertRuntimeHours } from './peukert.js';
+import { peukertCapacityAh, peukertRuntimeFromTest, peukertRuntimeHours } from './peukert.js';
 import { nominalVolts, nominalWh, packVolts } from './nominal.js';
 import { cRate, costPerKWh, percentOfRated, verdictFor, whPerKg, DEFAULT_ACCEPTANCE_PERCENT } from './figures.js';
 import { ahFromWh, voltsFrom } from '../units/convert.js';
@@ -29,7 +29,8 @@ describe('trade arithmetic (common practice)', () => {
 });
 
 describe('Peukert (published form t = H·(C/(I·H))^k), 100 Ah at the 20-hour rate, k = 1.2', () => {
-  // Worked example as stated in issue 3 (Peukert's law in the capacity-at-rated-time form).
+  // The published form's arithmetic (10 A: 20·0.5^1.2 = 8.706 h); the worked example of a
+  // blog on Peukert's law below checks the same form against an outside source.
   it.each([
     [5, 20],
     [10, 8.706],
@@ -40,6 +41,19 @@ describe('Peukert (published form t = H·(C/(I·H))^k), 100 Ah at the 20-hour ra
   it('k = 1 is an ideal battery: capacity independent of current', () => {
     expect(peukertCapacityAh(100, 20, 50, 1)).toBeCloseTo(100, 12);
     expect(() => peukertRuntimeHours(100, 20, 0, 1.2)).toThrow(RangeError);
+  });
+});
+
+describe('Peukert from a measured discharge', () => {
+  it('a battery rated 120 Ah over 20 hours delivering 120 A lasts about 0.30 h with k = 1.4', () => {
+    // Worked example: oracletutoring.ca, "Battery output vs discharge rate: Peukert's Law"
+    // (t = T·(C/(I·T))^k, 120 Ah over 20 h at 120 A: t = 0.30 hours, about 18 minutes).
+    expect(peukertRuntimeFromTest(120, 6, 120, 1.4)).toBeCloseTo(0.3, 2);
+  });
+  it('at the test current it returns the test duration, and k = 1 keeps the Ah', () => {
+    expect(peukertRuntimeFromTest(48, 10, 10, 1.05)).toBeCloseTo(4.8, 12);
+    expect(peukertRuntimeFromTest(48, 10, 40, 1) * 40).toBeCloseTo(48, 12);
+    expect(() => peukertRuntimeFromTest(48, 0, 10, 1.05)).toThrow(RangeError);
   });
 });
 

@@ -233,16 +233,16 @@ export type ImportProgress = z.infer<typeof ImportProgressSchema>;
 /** The short summary the import answers with. */
 export const ImportSummarySchema = z.object({
   energyWh: z.number(),
-  chargeAh: z.number(),
-  durationS: z.number(),
-  cutoff: z.object({ atS: z.number(), volts: z.number() }).nullable(),
-  recoveryS: z.number().nullable(),
+  dischargeAh: z.number(),
+  durationSeconds: z.number(),
+  cutoff: z.object({ atSeconds: z.number(), volts: z.number() }).nullable(),
+  recoverySeconds: z.number().nullable(),
   percentOfRated: z.number().nullable().optional(),
   rows: z.number().int(),
   /** Rows whose time repeats the row before (kept: the first of each; the lines of the first ten named). */
   duplicateTimes: z.object({ count: z.number().int(), lines: z.array(z.number().int()) }).optional(),
   /** The file's cadence: median step between distinct times, seconds. */
-  medianIntervalS: z.number().nullable().optional(),
+  medianIntervalSeconds: z.number().nullable().optional(),
   /** The gap limit used, seconds. */
   maxGapSeconds: z.number().optional(),
   /** What the importer decided or assumed, in words (time format, temperature unit, current sign, duplicates). */

@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { labelText, noteText } from './text.js';
 import { MeterAccuracySchema } from './meter-accuracy.js';
+import { MS_PER_S } from '../units/time.js';
 
 /**
  * Benches and their sources: the one source of truth for the server's bench manager,
@@ -162,7 +163,7 @@ export const SerialSourceConfigSchema = z.object({
   dataBits: z.union([z.literal(7), z.literal(8)]).default(8),
   parity: z.enum(['none', 'even', 'odd']).default('none'),
   stopBits: z.union([z.literal(1), z.literal(2)]).default(1),
-  staleAfterS: z.number().min(1).max(3600).default(DEFAULT_STALE_AFTER_S),
+  staleAfterSeconds: z.number().min(1).max(3600).default(DEFAULT_STALE_AFTER_S),
   format: SerialFormatSchema,
   limits: FrameLimitsSchema.prefault({}),
 });
@@ -175,7 +176,7 @@ export const SimulatorSourceConfigSchema = z.object({
   seed: z.number().int().min(0).max(2 ** 31 - 1).default(1),
   /** Absent: frames handed over in-process. Present: bytes through a pseudo-terminal in that format. */
   format: z.enum(['csv', 'jsonl', 'scpi', 'modbus']).optional(),
-  staleAfterS: z.number().min(1).max(3600).default(DEFAULT_STALE_AFTER_S),
+  staleAfterSeconds: z.number().min(1).max(3600).default(DEFAULT_STALE_AFTER_S),
   limits: FrameLimitsSchema.prefault({}),
 });
 
@@ -285,7 +286,6 @@ export type UpdateBenchRequest = z.input<typeof UpdateBenchRequestSchema>;
 export type SerialPortInfo = z.infer<typeof SerialPortInfoSchema>;
 export type SerialPortListResponse = z.infer<typeof SerialPortListResponseSchema>;
 
-const MS_PER_S = 1000;
 
 /**
  * The source's own interval between readings, s, when its configuration states one: the

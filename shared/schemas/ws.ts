@@ -4,8 +4,9 @@ import { AnnotationEventSchema, RunEventSchema } from './run-event.js';
 import { RunSchema } from './run.js';
 
 /**
- * WebSocket messages on /ws. Every server message carries `seq`, one counter per
- * connection, so a client can tell whether it missed anything after a reconnect.
+ * WebSocket messages on /ws. Readings of each topic are numbered (`seq`, one counter per
+ * topic stream); snapshots and batches carry the number of the last reading they account
+ * for, and a client that reconnects sends it back as its cursor to get exactly what it missed.
  */
 
 /** What a client can listen to: a bench's raw frames, or a run's integrated readings. */
@@ -20,9 +21,23 @@ export function topicKey(topic: Topic): string {
   return `${topic.kind}:${topic.id}`;
 }
 
+/** Longest stream id the server hands out; a longer one in a cursor is refused. */
+const MAX_STREAM_ID_LENGTH = 64;
+
+/**
+ * Where a client stands in a topic's readings: the topic's stream (it changes when the server
+ * restarts or forgets the topic) and the `seq` of the last reading the client accounted for.
+ */
+export const ReadingCursorSchema = z.object({
+  stream: z.string().min(1).max(MAX_STREAM_ID_LENGTH),
+  seq: z.number().int().nonnegative(),
+});
+export type ReadingCursor = z.infer<typeof ReadingCursorSchema>;
+
 // ---- client → server ----
 export const ClientMessageSchema = z.discriminatedUnion('type', [
-  z.object({ type: z.literal('subscribe'), topic: TopicSchema }),
+  /** `after`: the cursor of a reconnecting client; the snapshot then holds only what it missed. */
+  z.object({ type: z.literal('subscribe'), topic: TopicSchema, after: ReadingCursorSchema.optional() }),
   z.object({ type: z.literal('unsubscribe'), topic: TopicSchema }),
   z.object({ type: z.literal('ping'), id: z.number().int().nonnegative().optional() }),
 ]);
@@ -49,11 +64,20 @@ export const ReadingColumnsSchema = z.object({
 });
 export type ReadingColumns = z.infer<typeof ReadingColumnsSchema>;
 
+/** Number of the last reading a snapshot or batch accounts for in its topic's stream (0 = none yet). */
 const seq = z.number().int().nonnegative();
+
+/**
+ * How a snapshot's `recent` relates to the cursor of the subscribe: `fresh` (no cursor: the
+ * last readings), `resumed` (exactly the readings after the cursor, nothing repeated or
+ * missing) or `refetch` (the cursor is older than the server keeps, or of another stream:
+ * the last readings, and the client fetches the history it missed from the archive).
+ */
+export const SnapshotResumeSchema = z.enum(['fresh', 'resumed', 'refetch']);
+export type SnapshotResume = z.infer<typeof SnapshotResumeSchema>;
 
 export const HelloMessageSchema = z.object({
   type: z.literal('hello'),
-  seq,
   /** Server clock (Unix ms) so the client can show how old a reading is. */
   serverTimeMs: num,
   user: z.object({ id: z.number().int(), role: z.enum(['admin', 'technician', 'viewer']) }),
@@ -66,7 +90,10 @@ export const HelloMessageSchema = z.object({
  */
 export const SnapshotMessageSchema = z.object({
   type: z.literal('snapshot'),
+  /** The topic's stream id, for the client's cursor. */
+  stream: ReadingCursorSchema.shape.stream,
   seq,
+  resume: SnapshotResumeSchema,
   topic: TopicSchema,
   status: BenchStatusSchema.nullable(),
   run: RunSchema.nullable(),
@@ -74,7 +101,10 @@ export const SnapshotMessageSchema = z.object({
   events: z.array(RunEventSchema),
 });
 
-/** At most one per topic every 100 ms. `dropped` = readings thinned away for this client since the last batch. */
+/**
+ * At most one per topic every 100 ms. `dropped` = readings thinned away for this client since
+ * the last batch; `seq` counts them too (they are accounted for, not owed).
+ */
 export const BatchMessageSchema = z.object({
   type: z.literal('batch'),
   seq,
@@ -86,7 +116,6 @@ export const BatchMessageSchema = z.object({
 /** A run event; never dropped, whatever the back-pressure. */
 export const EventMessageSchema = z.object({
   type: z.literal('event'),
-  seq,
   topic: TopicSchema,
   /** Database id of the stored event (null while the archive is catching up). */
   eventId: z.number().int().nullable(),
@@ -99,7 +128,6 @@ export const EventMessageSchema = z.object({
  */
 export const NoteChangeMessageSchema = z.object({
   type: z.literal('note'),
-  seq,
   topic: TopicSchema,
   eventId: z.number().int(),
   previous: AnnotationEventSchema,
@@ -111,19 +139,17 @@ export type NoteChangeMessage = z.infer<typeof NoteChangeMessageSchema>;
  * A run started, changed state (armed → recording → cutoff → …) or its name/tags/summary
  * changed. Sent on the run's topic and on its bench's topic (`topic` says which).
  */
-export const RunMessageSchema = z.object({ type: z.literal('run'), seq, topic: TopicSchema, run: RunSchema });
+export const RunMessageSchema = z.object({ type: z.literal('run'), topic: TopicSchema, run: RunSchema });
 
 /** A bench's source status changed. */
 export const StatusMessageSchema = z.object({
   type: z.literal('status'),
-  seq,
   topic: TopicSchema,
   status: BenchStatusSchema,
 });
 
 export const ErrorMessageSchema = z.object({
   type: z.literal('error'),
-  seq,
   message: z.string(),
   /** Present when the error is about one topic (unknown bench, no such run). */
   topic: TopicSchema.optional(),
@@ -131,7 +157,6 @@ export const ErrorMessageSchema = z.object({
 
 export const PongMessageSchema = z.object({
   type: z.literal('pong'),
-  seq,
   id: z.number().int().nonnegative().optional(),
   serverTimeMs: num,
 });

@@ -3,11 +3,29 @@ import fc from 'fast-check';
 import { unit } from 'mathjs';
 import {
   ahFromWh, ahToCoulombs, ahToMah, celsiusToFahrenheit, fahrenheitToCelsius, joulesToWh, kWhToWh,
-  mahToAh, voltsFrom, wattsFrom, whFromAh, whToJoules, whToKWh,
+  kelvinToCelsius, mahToAh, toCelsius, voltsFrom, wattsFrom, whFromAh, whToJoules, whToKWh,
 } from './convert.js';
+import { MS_PER_HOUR, SECONDS_PER_DAY, SECONDS_PER_HOUR } from './time.js';
 
 // Reference library: mathjs (npm) unit conversions.
 const ref = (value: number, from: string, to: string): number => unit(value, from).toNumber(to);
+
+describe('one temperature conversion for every unit a log or meter writes, against mathjs', () => {
+  it.each([
+    [98.6, 'F', 'degF'], // body temperature (mathjs degF→degC: 37 °C)
+    [-40, 'F', 'degF'], // where the scales meet (mathjs: −40 °C)
+    [298.15, 'K', 'K'], // 25 °C (mathjs K→degC)
+    [21.5, 'C', 'degC'],
+  ] as const)('%d %s', (value, u, mathjsUnit) => {
+    expect(toCelsius(value, u)).toBeCloseTo(ref(value, mathjsUnit, 'degC'), 10);
+  });
+  it('K → °C and the time units agree with mathjs', () => {
+    expect(kelvinToCelsius(0)).toBeCloseTo(ref(0, 'K', 'degC'), 10);
+    expect(SECONDS_PER_HOUR).toBe(ref(1, 'hour', 's'));
+    expect(SECONDS_PER_DAY).toBe(ref(1, 'day', 's'));
+    expect(MS_PER_HOUR).toBe(ref(1, 'hour', 'ms'));
+  });
+});
 
 describe('temperature conversion against mathjs', () => {
   it.each([

@@ -1,7 +1,11 @@
-/** Seconds in one hour: Wh = J / 3600, Ah = C / 3600 (SI definition of the hour). */
-export const SECONDS_PER_HOUR = 3600;
+import { SECONDS_PER_HOUR } from './time.js';
+
+/** °F at 0 °C (definition of the Fahrenheit scale). */
 const FAHRENHEIT_ZERO_OFFSET = 32;
+/** °F per °C (definition of the Fahrenheit scale). */
 const FAHRENHEIT_PER_CELSIUS = 9 / 5;
+/** K at 0 °C (SI definition). */
+const KELVIN_AT_ZERO_CELSIUS = 273.15;
 const KILO = 1000;
 const MILLI_PER_UNIT = 1000;
 
@@ -13,6 +17,18 @@ export function celsiusToFahrenheit(celsius: number): number {
 /** °F → °C. */
 export function fahrenheitToCelsius(fahrenheit: number): number {
   return (fahrenheit - FAHRENHEIT_ZERO_OFFSET) / FAHRENHEIT_PER_CELSIUS;
+}
+
+/** K → °C. */
+export function kelvinToCelsius(kelvin: number): number {
+  return kelvin - KELVIN_AT_ZERO_CELSIUS;
+}
+
+/** A temperature in °C from °C, °F or K: the one conversion every reader of logs and meters uses. */
+export function toCelsius(value: number, unit: 'C' | 'F' | 'K'): number {
+  if (unit === 'F') return fahrenheitToCelsius(value);
+  if (unit === 'K') return kelvinToCelsius(value);
+  return value;
 }
 
 /** Wh → J. */

@@ -1,4 +1,5 @@
 import { celsiusToFahrenheit, whToKWh, ahToMah } from './convert.js';
+import { HOURS_PER_DAY, SECONDS_PER_DAY, SECONDS_PER_HOUR, SECONDS_PER_MINUTE } from './time.js';
 
 /** Shown for a value that is missing or not a finite number. */
 export const NO_VALUE = '—';
@@ -6,10 +7,6 @@ export type TemperatureUnit = 'C' | 'F';
 export type EnergyUnit = 'Wh' | 'kWh' | 'auto';
 export type ChargeUnit = 'Ah' | 'mAh' | 'auto';
 
-const SECONDS_PER_MINUTE = 60;
-const SECONDS_PER_HOUR = 3600;
-const SECONDS_PER_DAY = 86_400;
-const HOURS_PER_DAY = 24;
 /** `auto` switches to kWh from this many Wh, and to mAh below 1 Ah. */
 const AUTO_KWH_FROM_WH = 10_000;
 const AUTO_MAH_BELOW_AH = 1;

@@ -1,3 +1,4 @@
+export * from './time.js';
 export * from './convert.js';
 export * from './format.js';
 export * from './export-number.js';

@@ -1,12 +1,11 @@
 import { z } from 'zod';
 import type { Frame } from '../../shared/schemas/frame.js';
 import { FIELD_NAME_PATTERN, fieldValue, type FieldName } from './fields.js';
+import { celsiusToFahrenheit } from '../../shared/units/convert.js';
 
 /** Units a column may be written in, with the factor from the frame's base unit. */
 const UNIT_FACTORS = { s: 1, ms: 1000, min: 1 / 60, V: 1, mV: 1000, A: 1, mA: 1000, C: 1, F: 1 } as const;
 type Unit = keyof typeof UNIT_FACTORS;
-const FAHRENHEIT_PER_CELSIUS = 9 / 5;
-const FAHRENHEIT_OFFSET = 32;
 
 export const CsvColumnSchema = z.object({
   field: z.string().regex(FIELD_NAME_PATTERN, 'field: t, volts, amps, seq, temp:<channel> or aux:<channel>'),
@@ -37,7 +36,7 @@ export interface LineEncoder {
 }
 
 function convert(value: number, unit: Unit | undefined): number {
-  if (unit === 'F') return value * FAHRENHEIT_PER_CELSIUS + FAHRENHEIT_OFFSET;
+  if (unit === 'F') return celsiusToFahrenheit(value);
   return value * (unit ? UNIT_FACTORS[unit] : 1);
 }
 

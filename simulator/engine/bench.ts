@@ -9,8 +9,8 @@ import { buildPack } from './build-pack.js';
 import type { SimEvent, SimTotals } from './events.js';
 import type { ExternalDrive } from './external-drive.js';
 import { chargeAmps, dischargeAmps } from './load.js';
+import { SECONDS_PER_HOUR } from '../../shared/units/time.js';
 
-const SECONDS_PER_HOUR = 3600;
 /** Without a set termination current a charge ends at C/20 of its CC current (common practice). */
 const DEFAULT_TERM_FRACTION = 1 / 20;
 /** A charger needs a moment to push current before "too little current" can mean "full". */
@@ -32,16 +32,16 @@ export interface Bench {
   readonly events: SimEvent[];
   readonly totals: SimTotals;
   readonly t: number;
-  readonly tempC: number;
-  readonly ambientC: number;
+  readonly tempCelsius: number;
+  readonly ambientCelsius: number;
   readonly stepIndex: number;
   readonly done: boolean;
   readonly bms: Bms | undefined;
   readonly heater: HeaterController | undefined;
   /** The operating point right now. */
   point(): OperatingPoint;
-  /** Advances the physics by dtS seconds. */
-  advance(dtS: number): void;
+  /** Advances the physics by dtSeconds seconds. */
+  advance(dtSeconds: number): void;
 }
 
 /**
@@ -55,16 +55,16 @@ export function createBench(scenario: Scenario, prng: Prng, drive?: ExternalDriv
   const events: SimEvent[] = [{ t: 0, kind: 'step-start', step: 0 }];
   const totals: SimTotals = { netWh: 0, netAh: 0, dischargedWh: 0, chargedWh: 0, heaterWh: 0 };
   let t = 0;
-  let tempC = scenario.pack.initialTempC;
+  let tempCelsius = scenario.pack.initialTempCelsius;
   let stepIndex = 0;
-  let stepElapsedS = 0;
+  let stepElapsedSeconds = 0;
   const currentStep = () => scenario.program[stepIndex];
 
   const point = (): OperatingPoint => {
     const step = currentStep();
-    if (!step) return { cellAmps: 0, heaterAmps: 0, amps: 0, volts: pack.sourceVolts(tempC) };
-    const sourceVolts = pack.sourceVolts(tempC);
-    const ohms = pack.ohms(tempC);
+    if (!step) return { cellAmps: 0, heaterAmps: 0, amps: 0, volts: pack.sourceVolts(tempCelsius) };
+    const sourceVolts = pack.sourceVolts(tempCelsius);
+    const ohms = pack.ohms(tempCelsius);
     const demand = step.kind === 'rest' ? drive?.demandAmps(sourceVolts, ohms) : undefined;
     if (demand !== undefined) return drivenPoint(demand, sourceVolts, ohms);
     if (step.kind === 'discharge' || step.kind === 'rest') {
@@ -98,40 +98,40 @@ export function createBench(scenario: Scenario, prng: Prng, drive?: ExternalDriv
     // A blocked charger carries no current: that is not a full pack.
     if (step.kind === 'charge' && step.stopWhen === 'charged' && !chargeWasOpen && !bms?.chargeOpen) {
       const termAmps = step.charger.termAmps ?? step.charger.ccAmps * DEFAULT_TERM_FRACTION;
-      if (-p.cellAmps < termAmps && stepElapsedS > CHARGED_SETTLE_S) return 'charged';
+      if (-p.cellAmps < termAmps && stepElapsedSeconds > CHARGED_SETTLE_S) return 'charged';
     }
-    return stepElapsedS >= step.maxS ? 'max-time' : undefined;
+    return stepElapsedSeconds >= step.maxSeconds ? 'max-time' : undefined;
   };
 
-  const advance = (dtS: number): void => {
+  const advance = (dtSeconds: number): void => {
     // After the program ends the bench idles (no load, no charger) so time can still pass.
     const p = point();
     const chargeWasOpen = bms?.chargeOpen ?? false;
-    const ambientC = ambientAt(scenario.ambient, t);
-    const cellVolts = pack.cellVolts(p.cellAmps, tempC);
+    const ambientCelsius = ambientAt(scenario.ambient, t);
+    const cellVolts = pack.cellVolts(p.cellAmps, tempCelsius);
     const heaterWatts = p.heaterAmps * p.volts;
-    totals.netWh += (p.volts * p.amps * dtS) / SECONDS_PER_HOUR;
-    totals.netAh += (p.amps * dtS) / SECONDS_PER_HOUR;
-    if (p.amps > 0) totals.dischargedWh += (p.volts * p.amps * dtS) / SECONDS_PER_HOUR;
-    else totals.chargedWh -= (p.volts * p.amps * dtS) / SECONDS_PER_HOUR;
-    totals.heaterWh += (heaterWatts * dtS) / SECONDS_PER_HOUR;
-    if (currentStep()?.kind === 'rest') drive?.record(p.volts, p.amps, dtS, t + dtS);
-    const heatWatts = pack.step(p.cellAmps, dtS, tempC) + heaterWatts;
-    tempC = stepTemperature(tempC, ambientC, heatWatts, dtS, scenario.pack.thermal);
-    t += dtS;
-    stepElapsedS += dtS;
-    const changes: SimEvent[] = (bms?.update({ cellVolts, amps: p.cellAmps, tempC }, dtS) ?? []).map((c) => ({ t, tempC, ...c }));
+    totals.netWh += (p.volts * p.amps * dtSeconds) / SECONDS_PER_HOUR;
+    totals.netAh += (p.amps * dtSeconds) / SECONDS_PER_HOUR;
+    if (p.amps > 0) totals.dischargedWh += (p.volts * p.amps * dtSeconds) / SECONDS_PER_HOUR;
+    else totals.chargedWh -= (p.volts * p.amps * dtSeconds) / SECONDS_PER_HOUR;
+    totals.heaterWh += (heaterWatts * dtSeconds) / SECONDS_PER_HOUR;
+    if (currentStep()?.kind === 'rest') drive?.record(p.volts, p.amps, dtSeconds, t + dtSeconds);
+    const heatWatts = pack.step(p.cellAmps, dtSeconds, tempCelsius) + heaterWatts;
+    tempCelsius = stepTemperature(tempCelsius, ambientCelsius, heatWatts, dtSeconds, scenario.pack.thermal);
+    t += dtSeconds;
+    stepElapsedSeconds += dtSeconds;
+    const changes: SimEvent[] = (bms?.update({ cellVolts, amps: p.cellAmps, tempCelsius }, dtSeconds) ?? []).map((c) => ({ t, tempCelsius, ...c }));
     events.push(...changes);
     if (heater) {
       const charging = currentStep()?.kind === 'charge';
-      const change = charging ? heater.update(tempC, t) : heater.on ? heater.update(Infinity, t) : undefined;
-      if (change) events.push({ t, kind: change === 'on' ? 'heater-on' : 'heater-off', tempC });
+      const change = charging ? heater.update(tempCelsius, t) : heater.on ? heater.update(Infinity, t) : undefined;
+      if (change) events.push({ t, kind: change === 'on' ? 'heater-on' : 'heater-off', tempCelsius });
     }
     const reason = currentStep() ? stopReason(p, changes, chargeWasOpen) : undefined;
     if (reason) {
       events.push({ t, kind: 'step-end', step: stepIndex, reason });
       stepIndex += 1;
-      stepElapsedS = 0;
+      stepElapsedSeconds = 0;
       if (currentStep()) events.push({ t, kind: 'step-start', step: stepIndex });
     }
   };
@@ -139,8 +139,8 @@ export function createBench(scenario: Scenario, prng: Prng, drive?: ExternalDriv
   return {
     pack, events, totals, bms, heater, point, advance,
     get t() { return t; },
-    get tempC() { return tempC; },
-    get ambientC() { return ambientAt(scenario.ambient, t); },
+    get tempCelsius() { return tempCelsius; },
+    get ambientCelsius() { return ambientAt(scenario.ambient, t); },
     get stepIndex() { return stepIndex; },
     get done() { return stepIndex >= scenario.program.length; },
   };

@@ -8,7 +8,7 @@ const weak = loadScenario('lfp-12v-weak-cell');
 const chargeOf = (cells: Scenario['pack']['cells'], cvVolts: number): Scenario => ({
   ...weak,
   pack: { ...weak.pack, initialSoc: 0.6, cells },
-  program: [{ kind: 'charge', charger: { cvVolts, ccAmps: 50, termAmps: 5 }, maxS: 4 * 3600, stopWhen: 'charged' }],
+  program: [{ kind: 'charge', charger: { cvVolts, ccAmps: 50, termAmps: 5 }, maxSeconds: 4 * 3600, stopWhen: 'charged' }],
 });
 
 describe('charging with CC then CV', () => {

@@ -4,11 +4,11 @@ import type { Scenario } from '../scenario/schema.js';
 import { createSimulation } from './simulation.js';
 
 const base = loadScenario('lfp-12v-weak-cell');
-const at = (tempC: number): Scenario => ({
+const at = (tempCelsius: number): Scenario => ({
   ...base,
-  pack: { ...base.pack, cells: [], initialTempC: tempC },
-  ambient: [{ atS: 0, tempC }],
-  program: [{ kind: 'discharge', load: { mode: 'cp', watts: 600 }, maxS: 4 * 3600, stopWhen: 'bms-trip' }],
+  pack: { ...base.pack, cells: [], initialTempCelsius: tempCelsius },
+  ambient: [{ atSeconds: 0, tempCelsius }],
+  program: [{ kind: 'discharge', load: { mode: 'cp', watts: 600 }, maxSeconds: 4 * 3600, stopWhen: 'bms-trip' }],
 });
 
 function run(scenario: Scenario) {

@@ -19,7 +19,7 @@ describe('simulated runs through the measurement core', () => {
     expect(cutoff && cutoff.type === 'cutoff' && cutoff.cause).toBe('protection');
     expect(Math.abs(cutoff!.t - trip.t)).toBeLessThanOrEqual(5);
     // The detector confirms over a few readings, so allow a few sample periods either way.
-    expect(recovery && recovery.type === 'recovery' && Math.abs(recovery.recoverySeconds - scenario.bms!.underVoltRecoveryS)).toBeLessThanOrEqual(5);
+    expect(recovery && recovery.type === 'recovery' && Math.abs(recovery.recoverySeconds - scenario.bms!.underVoltRecoverySeconds)).toBeLessThanOrEqual(5);
     expect(Math.abs(pipeline.totals().dischargeWh / sim.bench.totals.dischargedWh - 1)).toBeLessThan(0.001);
   });
 

@@ -18,7 +18,7 @@ export interface SimEvent {
   reason?: 'max-time' | 'bms-trip' | 'bms-release' | 'end-volts' | 'charged';
   protection?: Protection;
   cell?: number;
-  tempC?: number;
+  tempCelsius?: number;
 }
 
 /** Energy and charge through the pack terminals, integrated at the physics step. */

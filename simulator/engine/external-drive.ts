@@ -10,5 +10,5 @@ export interface ExternalDrive {
    */
   demandAmps(sourceVolts: number, ohms: number): number | undefined;
   /** After each physics step: the terminal volts and the current that really flowed (the BMS may block it). */
-  record(volts: number, amps: number, dtS: number, t: number): void;
+  record(volts: number, amps: number, dtSeconds: number, t: number): void;
 }

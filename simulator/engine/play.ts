@@ -1,7 +1,7 @@
 import type { Clock } from './clock.js';
-import type { SimSample } from './simulation.js';
+import type { SimReading } from './simulation.js';
+import { MS_PER_S } from '../../shared/units/time.js';
 
-const MS_PER_S = 1000;
 /** Never wake more often than this: at high speeds several samples go out per wake-up. */
 const MIN_WAKE_MS = 5;
 
@@ -16,17 +16,17 @@ export interface Player {
  * Releases samples at their due real time: sample k at start + k·period/speed.
  * Late wake-ups catch up at once, so a busy event loop never stretches simulated time.
  */
-export function playSamples(
-  source: { step(): SimSample | undefined },
-  samplePeriodS: number,
+export function playReadings(
+  source: { step(): SimReading | undefined },
+  readingPeriodSeconds: number,
   speed: number,
   clock: Clock,
-  onSample: (sample: SimSample) => void,
+  onReading: (sample: SimReading) => void,
 ): Player {
   if (!(speed > 0)) throw new Error(`speed must be a positive number, got ${speed}`);
-  const startMs = clock.now();
+  const startMs = clock.nowMs();
   // Multiply before dividing so that sample 60 at 60× is due at exactly 1000 ms.
-  const dueAtMs = (k: number): number => startMs + (k * samplePeriodS * MS_PER_S) / speed;
+  const dueAtMs = (k: number): number => startMs + (k * readingPeriodSeconds * MS_PER_S) / speed;
   let index = 0;
   let handle: unknown;
   let stopped = false;
@@ -35,7 +35,7 @@ export function playSamples(
 
   const wake = (): void => {
     handle = undefined;
-    while (!stopped && dueAtMs(index) <= clock.now()) {
+    while (!stopped && dueAtMs(index) <= clock.nowMs()) {
       const next = source.step();
       if (!next) {
         stopped = true;
@@ -43,10 +43,10 @@ export function playSamples(
         return;
       }
       index += 1;
-      onSample(next);
+      onReading(next);
     }
     if (stopped) return;
-    const dueMs = dueAtMs(index) - clock.now();
+    const dueMs = dueAtMs(index) - clock.nowMs();
     handle = clock.setTimeout(wake, Math.max(MIN_WAKE_MS, dueMs));
   };
   wake();

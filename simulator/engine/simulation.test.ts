@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { integrateSamples } from '../../shared/measure/integrator.js';
+import { integrateReadings } from '../../shared/measure/integrator.js';
 import { loadScenario } from '../scenario/registry.js';
 import type { Scenario } from '../scenario/schema.js';
 import { createSimulation, type Simulation } from './simulation.js';
@@ -20,7 +20,7 @@ describe('energy balance against the measurement core', () => {
     (name) => {
       const sim = createSimulation(loadScenario(name), { seed: 3, meter: IDEAL_METER });
       const frames = [...sim.frames()];
-      const totals = integrateSamples(frames);
+      const totals = integrateReadings(frames);
       const model = sim.bench.totals;
       const modelWh = model.dischargedWh + model.chargedWh;
       expect(modelWh).toBeGreaterThan(100);
@@ -33,7 +33,7 @@ describe('energy balance against the measurement core', () => {
 
   it('a noisy meter with quantisation still integrates to the model energy within 0.1 %', () => {
     const sim = createSimulation(loadScenario('lfp-12v-100ah-cp-cutoff'), { seed: 9 });
-    const totals = integrateSamples([...sim.frames()]);
+    const totals = integrateReadings([...sim.frames()]);
     expect(Math.abs(totals.dischargeWh / sim.bench.totals.dischargedWh - 1)).toBeLessThan(0.001);
   });
 });
@@ -66,10 +66,10 @@ describe('scenarios behave as their titles promise', () => {
     const offs = sim.bench.events.filter((e) => e.kind === 'heater-off');
     expect(ons.length).toBeGreaterThanOrEqual(2);
     expect(offs.length).toBeGreaterThanOrEqual(1);
-    for (const on of ons) expect(on.tempC!).toBeLessThan(heater.onBelowC);
-    for (const off of offs) expect(Math.abs(off.tempC! - heater.offAboveC)).toBeLessThan(0.1);
+    for (const on of ons) expect(on.tempCelsius!).toBeLessThan(heater.onBelowCelsius);
+    for (const off of offs) expect(Math.abs(off.tempCelsius! - heater.offAboveCelsius)).toBeLessThan(0.1);
     const inhibit = sim.bench.events.find((e) => e.kind === 'bms-trip' && e.protection === 'cold-charge');
-    expect(inhibit?.t).toBe(scenario.bms!.coldChargeDelayS);
+    expect(inhibit?.t).toBe(scenario.bms!.coldChargeDelaySeconds);
     // While inhibited, the meter sees only the heater's current; after release the cells charge too.
     const blocked = samples.find((s) => s.t === 60)!.frame;
     expect(blocked.amps).toBeCloseTo(-blocked.aux!.heaterAmps, 1);
@@ -85,7 +85,7 @@ describe('scenarios behave as their titles promise', () => {
     const trip = sim.bench.events.find((e) => e.kind === 'bms-trip')!;
     const release = sim.bench.events.find((e) => e.kind === 'bms-release')!;
     expect(trip.protection).toBe('under-voltage');
-    expect(release.t - trip.t).toBeCloseTo(scenario.bms!.underVoltRecoveryS, 6);
+    expect(release.t - trip.t).toBeCloseTo(scenario.bms!.underVoltRecoverySeconds, 6);
     // On the wire: 0 V while open, the pack's voltage again once it reconnects, relaxing upwards.
     const open = samples.filter((s) => s.t > trip.t && s.t < release.t);
     expect(open.every((s) => s.frame.volts < 0.1)).toBe(true);
@@ -105,11 +105,11 @@ describe('scenarios behave as their titles promise', () => {
     const trip = sim.bench.events.find((e) => e.kind === 'bms-trip')!;
     const release = sim.bench.events.find((e) => e.kind === 'bms-release')!;
     expect(trip.protection).toBe('over-temperature');
-    expect(trip.tempC!).toBeGreaterThan(scenario.bms!.overTempC);
-    const firstHot = samples.find((s) => s.frame.temps!.cell > scenario.bms!.overTempC)!;
-    expect(trip.t - firstHot.t).toBeGreaterThanOrEqual(scenario.bms!.overTempDelayS - 1);
-    expect(trip.t - firstHot.t).toBeLessThanOrEqual(scenario.bms!.overTempDelayS);
-    expect(release.tempC!).toBeLessThanOrEqual(scenario.bms!.overTempReleaseC);
+    expect(trip.tempCelsius!).toBeGreaterThan(scenario.bms!.overTempCelsius);
+    const firstHot = samples.find((s) => s.frame.temps!.cell > scenario.bms!.overTempCelsius)!;
+    expect(trip.t - firstHot.t).toBeGreaterThanOrEqual(scenario.bms!.overTempDelaySeconds - 1);
+    expect(trip.t - firstHot.t).toBeLessThanOrEqual(scenario.bms!.overTempDelaySeconds);
+    expect(release.tempCelsius!).toBeLessThanOrEqual(scenario.bms!.overTempReleaseCelsius);
   });
 
   it('the lead-acid reserve test stops at 10.5 V with no BMS, after a plausible reserve time', () => {
@@ -129,8 +129,8 @@ describe('scenarios behave as their titles promise', () => {
     const sim = createSimulation(loadScenario('noisy-meter-unplug'), { seed: 8 });
     const samples = runToEnd(sim);
     const unplug = sim.meter.unplugs[0];
-    const during = samples.filter((s) => s.t >= unplug.atS && s.t < unplug.atS + unplug.forS);
-    expect(during.length).toBe(unplug.forS);
+    const during = samples.filter((s) => s.t >= unplug.atSeconds && s.t < unplug.atSeconds + unplug.forSeconds);
+    expect(during.length).toBe(unplug.forSeconds);
     expect(during.every((s) => s.lost === 'unplugged')).toBe(true);
     const dropped = samples.filter((s) => s.lost === 'dropped').length / samples.length;
     const corrupt = samples.filter((s) => s.corrupt).length / samples.length;

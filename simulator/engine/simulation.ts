@@ -6,7 +6,7 @@ import { MeterSchema, ScenarioSchema, type MeterConfig, type Scenario, type Scen
 import { createBench, type Bench } from './bench.js';
 import { systemClock, type Clock } from './clock.js';
 import type { ExternalDrive } from './external-drive.js';
-import { playSamples, type Player } from './play.js';
+import { playReadings, type Player } from './play.js';
 
 export const DEFAULT_SEED = 1;
 /** Keeps 1 s / 0.25 s at 4 steps, not 5, when the division lands a hair above an integer. */
@@ -25,7 +25,7 @@ export interface SimulationOptions {
 }
 
 /** One sample of the meter: what it measured, whether it reached the wire, and the truth behind it. */
-export interface SimSample {
+export interface SimReading {
   seq: number;
   t: number;
   frame: Frame;
@@ -43,11 +43,11 @@ export interface Simulation {
   readonly bench: Bench;
   readonly done: boolean;
   /** The next sample (the first is at t = 0), or undefined once the program has ended. */
-  step(): SimSample | undefined;
+  step(): SimReading | undefined;
   /** Every frame that reaches the wire intact, to the end of the program. */
   frames(): Generator<Frame>;
   /** Plays the samples in real time at the chosen speed; resolves when done or stopped. */
-  play(onSample: (sample: SimSample) => void): Player;
+  play(onReading: (sample: SimReading) => void): Player;
 }
 
 /** Creates a seeded simulation of a scenario (validated with zod), stepped by the caller or played. */
@@ -58,16 +58,16 @@ export function createSimulation(input: Scenario | ScenarioInput, options: Simul
   const bench = createBench(scenario, createPrng(seed, 'physics'), options.drive);
   const meterPrng = createPrng(seed, 'meter');
   const hasHeater = scenario.pack.heater !== undefined;
-  const substeps = Math.max(1, Math.ceil(meter.samplePeriodS / scenario.maxPhysicsStepS - STEP_COUNT_EPSILON));
-  const dtS = meter.samplePeriodS / substeps;
+  const substeps = Math.max(1, Math.ceil(meter.readingPeriodSeconds / scenario.maxPhysicsStepSeconds - STEP_COUNT_EPSILON));
+  const dtSeconds = meter.readingPeriodSeconds / substeps;
   let seq = 0;
   let wasPlugged = true;
 
-  const sample = (): SimSample => {
-    const t = Number((seq * meter.samplePeriodS).toFixed(6));
+  const sample = (): SimReading => {
+    const t = Number((seq * meter.readingPeriodSeconds).toFixed(6));
     const p = bench.point();
     const truth = {
-      t, volts: p.volts, amps: p.amps, cellTempC: bench.tempC, ambientC: bench.ambientC,
+      t, volts: p.volts, amps: p.amps, cellTempCelsius: bench.tempCelsius, ambientCelsius: bench.ambientCelsius,
       ...(hasHeater ? { heaterAmps: p.heaterAmps } : {}),
     };
     const frame = measure(truth, seq, meter, meterPrng);
@@ -89,14 +89,14 @@ export function createSimulation(input: Scenario | ScenarioInput, options: Simul
     step() {
       if (seq === 0) return sample();
       if (bench.done) return undefined;
-      for (let i = 0; i < substeps; i += 1) bench.advance(dtS);
+      for (let i = 0; i < substeps; i += 1) bench.advance(dtSeconds);
       return sample();
     },
     *frames() {
       for (let s = simulation.step(); s; s = simulation.step()) if (!s.lost && !s.corrupt) yield s.frame;
     },
-    play(onSample) {
-      return playSamples(simulation, meter.samplePeriodS, options.speed ?? 1, options.clock ?? systemClock, onSample);
+    play(onReading) {
+      return playReadings(simulation, meter.readingPeriodSeconds, options.speed ?? 1, options.clock ?? systemClock, onReading);
     },
   };
   return simulation;

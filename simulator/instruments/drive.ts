@@ -17,9 +17,9 @@ export function instrumentsDrive(instruments: readonly SimInstrument[]): Externa
       }
       return anyOn ? total : undefined;
     },
-    record(volts, amps, dtS, t) {
+    record(volts, amps, dtSeconds, t) {
       const share = total === 0 ? 0 : amps / total;
-      for (const instrument of instruments) instrument.record(volts, share, dtS, t);
+      for (const instrument of instruments) instrument.record(volts, share, dtSeconds, t);
     },
   };
 }

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { integrateSamples } from '../../shared/measure/integrator.js';
+import { integrateReadings } from '../../shared/measure/integrator.js';
 import { createSimulation } from '../engine/simulation.js';
 import { benchControlLfp12v } from '../scenarios/bench-control-lfp-12v.js';
 import { instrumentsDrive } from './drive.js';
@@ -7,8 +7,8 @@ import { SIM_LOAD_SPEC, SIM_SUPPLY_SPEC } from './instrument-specs.js';
 import { createScpiControl, GARBAGE_REPLY } from './scpi-control.js';
 import { SimInstrument } from './sim-instrument.js';
 import { TestClock } from './test-clock.js';
+import { SECONDS_PER_HOUR } from '../../shared/units/time.js';
 
-const SECONDS_PER_HOUR = 3600;
 
 function bench() {
   const clock = new TestClock();
@@ -36,7 +36,7 @@ describe('simulated load and supply on the simulated pack', () => {
     expect(load.totals.ah).toBeCloseTo(sim.bench.totals.netAh, 9);
     expect(load.totals.wh).toBeCloseTo(sim.bench.totals.dischargedWh, 9);
     // The meter's frames, integrated by the trapezoidal rule, give the same charge.
-    expect(integrateSamples(loaded.map((s) => s.frame)).dischargeAh).toBeCloseTo(load.totals.ah, 2);
+    expect(integrateReadings(loaded.map((s) => s.frame)).dischargeAh).toBeCloseTo(load.totals.ah, 2);
     expect(loadScpi.receive('MEAS:CURR?\nINP?\n')).toEqual(['10.0000\n', '1\n']);
     expect(Number(loadScpi.receive('MEAS:VOLT?\n')[0])).toBeCloseTo(loaded.at(-1)!.frame.volts, 2);
     expect(load.segments.map((s) => [s.mode, s.value, s.outputOn])).toEqual([['cc', 0, false], ['cc', 10, true]]);

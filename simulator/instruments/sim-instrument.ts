@@ -1,13 +1,12 @@
 import type { Clock } from '../engine/clock.js';
 import { dischargeAmps } from '../engine/load.js';
+import { MS_PER_S, SECONDS_PER_HOUR } from '../../shared/units/time.js';
 
 /** Regulation modes (the same four as the server's control contract). */
 export type SimMode = 'cc' | 'cp' | 'cr' | 'cv';
 /** How a broken instrument behaves on its port: answers noise, or nothing at all. */
 export type SimFault = 'garbage' | 'silent';
 
-const SECONDS_PER_HOUR = 3600;
-const MS_PER_S = 1000;
 
 /** What a simulated instrument is and can do. */
 export interface SimInstrumentSpec {
@@ -139,14 +138,14 @@ export class SimInstrument {
     return this.demand;
   }
 
-  /** The current that really flowed for the last demand (`share` of it), at `volts`, for dtS. */
-  record(volts: number, share: number, dtS: number, t: number): void {
+  /** The current that really flowed for the last demand (`share` of it), at `volts`, for dtSeconds. */
+  record(volts: number, share: number, dtSeconds: number, t: number): void {
     const amps = Math.abs(this.demand * share);
     this.lastVolts = volts;
     this.lastAmps = amps;
     this.t = t;
-    const ah = (amps * dtS) / SECONDS_PER_HOUR;
-    const wh = (amps * volts * dtS) / SECONDS_PER_HOUR;
+    const ah = (amps * dtSeconds) / SECONDS_PER_HOUR;
+    const wh = (amps * volts * dtSeconds) / SECONDS_PER_HOUR;
     this.totals.ah += ah;
     this.totals.wh += wh;
     const segment = this.segments[this.segments.length - 1];
@@ -190,7 +189,7 @@ export class SimInstrument {
   }
 
   private note(kind: SimInstrumentEvent['kind']): void {
-    this.events.push({ atMs: this.clock.now(), t: this.t, kind });
+    this.events.push({ atMs: this.clock.nowMs(), t: this.t, kind });
   }
 
   private openSegment(): void {

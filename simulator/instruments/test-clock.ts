@@ -2,17 +2,17 @@ import type { Clock } from '../engine/clock.js';
 
 /** A wall clock for tests: time moves only on advance(), and due timers run in order. */
 export class TestClock implements Clock {
-  private nowMs = 0;
+  private currentMs = 0;
   private timers: { id: number; dueMs: number; run: () => void }[] = [];
   private nextId = 1;
 
-  now(): number {
-    return this.nowMs;
+  nowMs(): number {
+    return this.currentMs;
   }
 
   setTimeout(run: () => void, delayMs: number): unknown {
     const id = this.nextId++;
-    this.timers.push({ id, dueMs: this.nowMs + delayMs, run });
+    this.timers.push({ id, dueMs: this.currentMs + delayMs, run });
     return id;
   }
 
@@ -22,14 +22,14 @@ export class TestClock implements Clock {
 
   /** Moves time forward, running each timer that falls due. */
   advance(ms: number): void {
-    const endMs = this.nowMs + ms;
+    const endMs = this.currentMs + ms;
     for (;;) {
       const due = this.timers.filter((t) => t.dueMs <= endMs).sort((a, b) => a.dueMs - b.dueMs)[0];
       if (!due) break;
       this.timers = this.timers.filter((t) => t !== due);
-      this.nowMs = due.dueMs;
+      this.currentMs = due.dueMs;
       due.run();
     }
-    this.nowMs = endMs;
+    this.currentMs = endMs;
   }
 }

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { hasValidCrc, withCrc } from '../encoders/modbus/crc16.js';
-import { createSimulation, type SimSample } from '../engine/simulation.js';
+import { createSimulation, type SimReading } from '../engine/simulation.js';
 import { loadScenario } from '../scenario/registry.js';
 import { createMeterDevice, csvOptionsFor, type MeterFormat } from './device.js';
 
@@ -9,15 +9,15 @@ const READ = withCrc(Uint8Array.of(1, 3, 0, 0, 0, 12));
 const FETCH = new TextEncoder().encode('FETC?\n');
 const decoder = new TextDecoder();
 
-function samplesOf(seed: number): SimSample[] {
+function samplesOf(seed: number): SimReading[] {
   const sim = createSimulation(scenario, { seed });
-  const out: SimSample[] = [];
+  const out: SimReading[] = [];
   for (let s = sim.step(); s; s = sim.step()) out.push(s);
   return out;
 }
 
 /** Every byte a meter puts on the wire for a run, with one query per sample for query meters. */
-function wireBytes(format: MeterFormat, seed: number, samples: SimSample[]): Uint8Array[] {
+function wireBytes(format: MeterFormat, seed: number, samples: SimReading[]): Uint8Array[] {
   const sim = createSimulation(scenario, { seed });
   const device = createMeterDevice({ format, meter: sim.meter, seed, csv: csvOptionsFor(sim.scenario) });
   const out: Uint8Array[] = [];

@@ -5,7 +5,7 @@ import { createJsonlEncoder } from '../encoders/jsonl.js';
 import { createModbusSlave } from '../encoders/modbus/slave.js';
 import { DEFAULT_REGISTER_MAP, RegisterMapSchema, type RegisterMapInput } from '../encoders/modbus/register-map.js';
 import { createScpiInstrument, DEFAULT_IDN } from '../encoders/scpi.js';
-import type { SimSample } from '../engine/simulation.js';
+import type { SimReading } from '../engine/simulation.js';
 import { createPrng } from '../prng.js';
 import type { MeterConfig, Scenario } from '../scenario/schema.js';
 
@@ -25,7 +25,7 @@ export interface MeterDeviceOptions {
 export interface MeterDevice {
   readonly format: MeterFormat;
   /** Bytes the meter pushes for a new sample (streaming formats; a header after power-up). */
-  sample(sample: SimSample): Uint8Array[];
+  sample(sample: SimReading): Uint8Array[];
   /** Replies to bytes from the master (query formats); streaming meters ignore input. */
   receive(bytes: Uint8Array): Uint8Array[];
 }

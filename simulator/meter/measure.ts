@@ -8,8 +8,8 @@ export interface TrueReading {
   t: number;
   volts: number;
   amps: number;
-  cellTempC: number;
-  ambientC: number;
+  cellTempCelsius: number;
+  ambientCelsius: number;
   /** Present only on packs with a heater pad. */
   heaterAmps?: number;
 }
@@ -33,8 +33,8 @@ export function measure(truth: TrueReading, seq: number, config: MeterConfig, pr
   };
   const volts = noisy(truth.volts, config.voltsNoise, config.voltsStep);
   const amps = noisy(truth.amps, config.ampsNoise, config.ampsStep);
-  const cell = noisy(truth.cellTempC, config.tempNoise, config.tempStep) + 0;
-  const ambient = noisy(truth.ambientC, config.tempNoise, config.tempStep) + 0;
+  const cell = noisy(truth.cellTempCelsius, config.tempNoise, config.tempStep) + 0;
+  const ambient = noisy(truth.ambientCelsius, config.tempNoise, config.tempStep) + 0;
   const heater = noisy(truth.heaterAmps ?? 0, config.ampsNoise, config.ampsStep);
   // Rounding a small negative value leaves -0; JSON writes it as 0, so +0 makes a frame equal
   // to its own round trip through the wire.
@@ -52,5 +52,5 @@ export function measure(truth: TrueReading, seq: number, config: MeterConfig, pr
 
 /** Whether the meter's cable is plugged in at simulated time tS. */
 export function isPlugged(config: MeterConfig, tS: number): boolean {
-  return !config.unplugs.some((u) => tS >= u.atS && tS < u.atS + u.forS);
+  return !config.unplugs.some((u) => tS >= u.atSeconds && tS < u.atSeconds + u.forSeconds);
 }

@@ -5,7 +5,7 @@ import { createBms, type BmsInputs } from './bms.js';
 
 const config = BmsSchema.parse(lfpBms());
 const DT_S = 0.25;
-const healthy: BmsInputs = { cellVolts: [3.3, 3.3, 3.3, 3.3], amps: 10, tempC: 25 };
+const healthy: BmsInputs = { cellVolts: [3.3, 3.3, 3.3, 3.3], amps: 10, tempCelsius: 25 };
 
 /** Feeds the same inputs for a number of seconds; returns the changes with their times. */
 function hold(bms: ReturnType<typeof createBms>, inputs: BmsInputs, seconds: number, start = 0) {
@@ -21,51 +21,51 @@ describe('BMS', () => {
     const bms = createBms(config);
     const low = { ...healthy, cellVolts: [3.2, 3.2, 2.45, 3.2] };
     // A dip shorter than the delay is ignored (no nuisance trips).
-    expect(hold(bms, low, config.underVoltDelayS - 0.5)).toEqual([]);
+    expect(hold(bms, low, config.underVoltDelaySeconds - 0.5)).toEqual([]);
     hold(bms, healthy, 1);
-    const trips = hold(bms, low, config.underVoltDelayS, 10);
-    expect(trips).toEqual([{ t: 10 + config.underVoltDelayS, kind: 'bms-trip', protection: 'under-voltage', cell: 2 }]);
+    const trips = hold(bms, low, config.underVoltDelaySeconds, 10);
+    expect(trips).toEqual([{ t: 10 + config.underVoltDelaySeconds, kind: 'bms-trip', protection: 'under-voltage', cell: 2 }]);
     expect(bms.dischargeOpen).toBe(true);
     expect(bms.chargeOpen).toBe(false);
     const rested = { ...healthy, amps: 0, cellVolts: [3.1, 3.1, 2.8, 3.1] };
-    const releases = hold(bms, rested, config.underVoltRecoveryS + 5, 20);
-    expect(releases).toEqual([{ t: 20 + config.underVoltRecoveryS, kind: 'bms-release', protection: 'under-voltage' }]);
+    const releases = hold(bms, rested, config.underVoltRecoverySeconds + 5, 20);
+    expect(releases).toEqual([{ t: 20 + config.underVoltRecoverySeconds, kind: 'bms-release', protection: 'under-voltage' }]);
     expect(bms.dischargeOpen).toBe(false);
   });
 
   it('stays open past the recovery time while the cell is still below its release voltage', () => {
     const bms = createBms(config);
-    hold(bms, { ...healthy, cellVolts: [3.2, 2.4, 3.2, 3.2] }, config.underVoltDelayS);
-    expect(hold(bms, { ...healthy, amps: 0, cellVolts: [3.2, 2.5, 3.2, 3.2] }, config.underVoltRecoveryS * 2)).toEqual([]);
+    hold(bms, { ...healthy, cellVolts: [3.2, 2.4, 3.2, 3.2] }, config.underVoltDelaySeconds);
+    expect(hold(bms, { ...healthy, amps: 0, cellVolts: [3.2, 2.5, 3.2, 3.2] }, config.underVoltRecoverySeconds * 2)).toEqual([]);
     expect(bms.dischargeOpen).toBe(true);
   });
 
   it('blocks charging on a high cell, on cold, and both ways on heat, each after its own delay', () => {
     const high = createBms(config);
-    const highTrips = hold(high, { ...healthy, amps: -10, cellVolts: [3.5, 3.7, 3.5, 3.5] }, config.overVoltDelayS);
+    const highTrips = hold(high, { ...healthy, amps: -10, cellVolts: [3.5, 3.7, 3.5, 3.5] }, config.overVoltDelaySeconds);
     expect(highTrips.map((c) => [c.protection, c.cell])).toEqual([['over-voltage', 1]]);
     expect(high.chargeOpen && !high.dischargeOpen).toBe(true);
 
     const cold = createBms(config);
-    expect(hold(cold, { ...healthy, tempC: -1 }, config.coldChargeDelayS - DT_S)).toEqual([]);
-    expect(hold(cold, { ...healthy, tempC: -1 }, DT_S).map((c) => c.protection)).toEqual(['cold-charge']);
+    expect(hold(cold, { ...healthy, tempCelsius: -1 }, config.coldChargeDelaySeconds - DT_S)).toEqual([]);
+    expect(hold(cold, { ...healthy, tempCelsius: -1 }, DT_S).map((c) => c.protection)).toEqual(['cold-charge']);
     expect(cold.chargeOpen && !cold.dischargeOpen).toBe(true);
-    // Hysteresis: warming past 0 °C is not enough, the release is at coldChargeReleaseC.
-    expect(hold(cold, { ...healthy, tempC: config.coldChargeReleaseC - 0.5 }, 10)).toEqual([]);
-    expect(hold(cold, { ...healthy, tempC: config.coldChargeReleaseC }, DT_S).map((c) => c.kind)).toEqual(['bms-release']);
+    // Hysteresis: warming past 0 °C is not enough, the release is at coldChargeReleaseCelsius.
+    expect(hold(cold, { ...healthy, tempCelsius: config.coldChargeReleaseCelsius - 0.5 }, 10)).toEqual([]);
+    expect(hold(cold, { ...healthy, tempCelsius: config.coldChargeReleaseCelsius }, DT_S).map((c) => c.kind)).toEqual(['bms-release']);
 
     const hot = createBms(config);
-    expect(hold(hot, { ...healthy, tempC: config.overTempC + 1 }, config.overTempDelayS - DT_S)).toEqual([]);
-    expect(hold(hot, { ...healthy, tempC: config.overTempC + 1 }, DT_S).map((c) => c.protection)).toEqual(['over-temperature']);
+    expect(hold(hot, { ...healthy, tempCelsius: config.overTempCelsius + 1 }, config.overTempDelaySeconds - DT_S)).toEqual([]);
+    expect(hold(hot, { ...healthy, tempCelsius: config.overTempCelsius + 1 }, DT_S).map((c) => c.protection)).toEqual(['over-temperature']);
     expect(hot.chargeOpen && hot.dischargeOpen).toBe(true);
   });
 
   it('opens on over-current after its delay and closes after its recovery time', () => {
     const bms = createBms(config);
     const surge = { ...healthy, amps: config.overCurrentAmps + 20 };
-    const trips = hold(bms, surge, config.overCurrentDelayS);
+    const trips = hold(bms, surge, config.overCurrentDelaySeconds);
     expect(trips.map((c) => c.protection)).toEqual(['over-current']);
-    const releases = hold(bms, { ...healthy, amps: 0 }, config.overCurrentRecoveryS, config.overCurrentDelayS);
-    expect(releases).toEqual([{ t: config.overCurrentDelayS + config.overCurrentRecoveryS, kind: 'bms-release', protection: 'over-current' }]);
+    const releases = hold(bms, { ...healthy, amps: 0 }, config.overCurrentRecoverySeconds, config.overCurrentDelaySeconds);
+    expect(releases).toEqual([{ t: config.overCurrentDelaySeconds + config.overCurrentRecoverySeconds, kind: 'bms-release', protection: 'over-current' }]);
   });
 });

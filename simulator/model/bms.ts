@@ -7,7 +7,7 @@ export interface BmsInputs {
   cellVolts: readonly number[];
   /** Pack current, positive = discharge. */
   amps: number;
-  tempC: number;
+  tempCelsius: number;
 }
 
 export interface BmsChange {
@@ -20,10 +20,10 @@ export interface BmsChange {
 interface Rule {
   protection: Protection;
   blocks: Blocks;
-  delayS: number;
+  delaySeconds: number;
   /** Returns the offending cell index (or -1 for a pack-level fault) when the fault is present. */
   fault(inputs: BmsInputs): number | undefined;
-  release(inputs: BmsInputs, sinceTripS: number): boolean;
+  release(inputs: BmsInputs, sinceTripSeconds: number): boolean;
 }
 
 /** Timers add up float steps (0.1 s ...): a tolerance keeps 600 × 0.1 s equal to 60 s. */
@@ -37,37 +37,37 @@ function rulesFor(config: BmsConfig): Rule[] {
     {
       protection: 'under-voltage',
       blocks: 'discharge',
-      delayS: config.underVoltDelayS,
+      delaySeconds: config.underVoltDelaySeconds,
       fault: (i) => (Math.min(...i.cellVolts) < config.cellUnderVolts ? indexOfMin(i.cellVolts) : undefined),
-      release: (i, since) => since >= config.underVoltRecoveryS && Math.min(...i.cellVolts) >= config.cellUnderVoltsRelease,
+      release: (i, since) => since >= config.underVoltRecoverySeconds && Math.min(...i.cellVolts) >= config.cellUnderVoltsRelease,
     },
     {
       protection: 'over-voltage',
       blocks: 'charge',
-      delayS: config.overVoltDelayS,
+      delaySeconds: config.overVoltDelaySeconds,
       fault: (i) => (Math.max(...i.cellVolts) > config.cellOverVolts ? indexOfMax(i.cellVolts) : undefined),
-      release: (i, since) => since >= config.overVoltRecoveryS && Math.max(...i.cellVolts) <= config.cellOverVoltsRelease,
+      release: (i, since) => since >= config.overVoltRecoverySeconds && Math.max(...i.cellVolts) <= config.cellOverVoltsRelease,
     },
     {
       protection: 'over-current',
       blocks: 'discharge',
-      delayS: config.overCurrentDelayS,
+      delaySeconds: config.overCurrentDelaySeconds,
       fault: (i) => (i.amps > config.overCurrentAmps ? -1 : undefined),
-      release: (_i, since) => since >= config.overCurrentRecoveryS,
+      release: (_i, since) => since >= config.overCurrentRecoverySeconds,
     },
     {
       protection: 'cold-charge',
       blocks: 'charge',
-      delayS: config.coldChargeDelayS,
-      fault: (i) => (i.tempC < config.coldChargeBelowC ? -1 : undefined),
-      release: (i) => i.tempC >= config.coldChargeReleaseC,
+      delaySeconds: config.coldChargeDelaySeconds,
+      fault: (i) => (i.tempCelsius < config.coldChargeBelowCelsius ? -1 : undefined),
+      release: (i) => i.tempCelsius >= config.coldChargeReleaseCelsius,
     },
     {
       protection: 'over-temperature',
       blocks: 'both',
-      delayS: config.overTempDelayS,
-      fault: (i) => (i.tempC > config.overTempC ? -1 : undefined),
-      release: (i) => i.tempC <= config.overTempReleaseC,
+      delaySeconds: config.overTempDelaySeconds,
+      fault: (i) => (i.tempCelsius > config.overTempCelsius ? -1 : undefined),
+      release: (i) => i.tempCelsius <= config.overTempReleaseCelsius,
     },
   ];
 }
@@ -77,8 +77,8 @@ export interface Bms {
   readonly dischargeOpen: boolean;
   readonly chargeOpen: boolean;
   readonly active: readonly Protection[];
-  /** Advances the timers by dtS with the present readings; returns trips and releases. */
-  update(inputs: BmsInputs, dtS: number): BmsChange[];
+  /** Advances the timers by dtSeconds with the present readings; returns trips and releases. */
+  update(inputs: BmsInputs, dtSeconds: number): BmsChange[];
 }
 
 /** Creates a BMS with everything closed (conducting). */
@@ -98,12 +98,12 @@ export function createBms(config: BmsConfig): Bms {
     get active() {
       return [...trippedFor.keys()];
     },
-    update(inputs, dtS) {
+    update(inputs, dtSeconds) {
       const changes: BmsChange[] = [];
       for (const rule of rules) {
         const since = trippedFor.get(rule.protection);
         if (since !== undefined) {
-          const elapsed = since + dtS;
+          const elapsed = since + dtSeconds;
           if (rule.release(inputs, elapsed + TIME_EPSILON_S)) {
             trippedFor.delete(rule.protection);
             changes.push({ kind: 'bms-release', protection: rule.protection });
@@ -116,9 +116,9 @@ export function createBms(config: BmsConfig): Bms {
           continue;
         }
         // A fault must persist for the whole delay before the switch opens (no nuisance trips).
-        const seconds = (faultSeconds.get(rule.protection) ?? 0) + dtS;
+        const seconds = (faultSeconds.get(rule.protection) ?? 0) + dtSeconds;
         faultSeconds.set(rule.protection, seconds);
-        if (seconds + TIME_EPSILON_S >= rule.delayS) {
+        if (seconds + TIME_EPSILON_S >= rule.delaySeconds) {
           faultSeconds.delete(rule.protection);
           trippedFor.set(rule.protection, 0);
           changes.push({ kind: 'bms-trip', protection: rule.protection, ...(cell >= 0 ? { cell } : {}) });

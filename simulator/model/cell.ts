@@ -1,8 +1,8 @@
 import { CHEMISTRIES, type Chemistry } from './chemistry.js';
 import { interpolate, ocvAt } from './ocv.js';
+import { SECONDS_PER_HOUR } from '../../shared/units/time.js';
 
 const REFERENCE_TEMP_C = 25;
-const SECONDS_PER_HOUR = 3600;
 /** Below this state of charge the resistance climbs (the knee near empty). */
 const LOW_SOC_KNEE = 0.12;
 /** How many times the resistance multiplies at 0 % through the low-SoC knee. */
@@ -36,14 +36,14 @@ export interface Cell {
   soc: number;
   /** Voltage across the RC pair (positive while discharging). */
   rcVolts: number;
-  /** Open-circuit volts at the present state of charge, with the capacity usable at tempC. */
-  ocv(tempC: number): number;
+  /** Open-circuit volts at the present state of charge, with the capacity usable at tempCelsius. */
+  ocv(tempCelsius: number): number;
   /** Ohmic resistance at a temperature and the present state of charge. */
-  ohms(tempC: number): number;
+  ohms(tempCelsius: number): number;
   /** RC pair resistance at a temperature, carrying amps (charging near full adds the end-of-charge rise). */
-  rcOhms(tempC: number, amps?: number): number;
-  /** Advances the cell by dtS seconds carrying amps (positive = discharge). */
-  step(amps: number, dtS: number, tempC: number): void;
+  rcOhms(tempCelsius: number, amps?: number): number;
+  /** Advances the cell by dtSeconds seconds carrying amps (positive = discharge). */
+  step(amps: number, dtSeconds: number, tempCelsius: number): void;
 }
 
 /** Creates a cell model from its parameters. */
@@ -52,37 +52,37 @@ export function createCell(params: CellParams): Cell {
   const referenceAmps = params.ratedAh / chem.ratedHours;
   // A cold cell empties early: depth of discharge counts against the capacity usable at its
   // temperature, and comes back when it warms (the charge is still there, just not reachable).
-  const usableSoc = (soc: number, tempC: number): number => 1 - (1 - soc) / interpolate(chem.capacityByTemp, tempC);
-  const temperatureFactor = (tempC: number): number =>
-    Math.min(MAX_COLD_FACTOR, Math.exp(chem.resistancePerKelvin * (REFERENCE_TEMP_C - tempC)));
+  const usableSoc = (soc: number, tempCelsius: number): number => 1 - (1 - soc) / interpolate(chem.capacityByTemp, tempCelsius);
+  const temperatureFactor = (tempCelsius: number): number =>
+    Math.min(MAX_COLD_FACTOR, Math.exp(chem.resistancePerKelvin * (REFERENCE_TEMP_C - tempCelsius)));
 
   const cell: Cell = {
     params,
     soc: params.initialSoc,
     rcVolts: 0,
-    ocv(tempC) {
-      const soc = usableSoc(cell.soc, tempC);
+    ocv(tempCelsius) {
+      const soc = usableSoc(cell.soc, tempCelsius);
       if (soc >= 0) return ocvAt(params.chemistry, soc);
       return ocvAt(params.chemistry, 0) + OVER_DISCHARGE_SLOPE_VOLTS * soc;
     },
-    ohms(tempC) {
-      const depth = Math.max(0, 1 - usableSoc(cell.soc, tempC) / LOW_SOC_KNEE);
+    ohms(tempCelsius) {
+      const depth = Math.max(0, 1 - usableSoc(cell.soc, tempCelsius) / LOW_SOC_KNEE);
       const lowSocFactor = 1 + LOW_SOC_GAIN[params.chemistry] * depth * depth;
-      return params.ohmicOhms * temperatureFactor(tempC) * lowSocFactor;
+      return params.ohmicOhms * temperatureFactor(tempCelsius) * lowSocFactor;
     },
-    rcOhms(tempC, amps = 0) {
+    rcOhms(tempCelsius, amps = 0) {
       const depth = amps < 0 ? Math.max(0, (cell.soc - HIGH_SOC_KNEE) / (1 - HIGH_SOC_KNEE)) : 0;
       const endOfCharge = 1 + HIGH_SOC_CHARGE_GAIN[params.chemistry] * depth * depth;
-      return params.ohmicOhms * chem.rcResistanceRatio * temperatureFactor(tempC) * endOfCharge;
+      return params.ohmicOhms * chem.rcResistanceRatio * temperatureFactor(tempCelsius) * endOfCharge;
     },
-    step(amps, dtS, tempC) {
+    step(amps, dtSeconds, tempCelsius) {
       // Exact solution of the RC pair for a current held constant over the step.
-      const decay = Math.exp(-dtS / chem.rcTauSeconds);
-      cell.rcVolts = cell.rcVolts * decay + amps * cell.rcOhms(tempC, amps) * (1 - decay);
+      const decay = Math.exp(-dtSeconds / chem.rcTauSeconds);
+      cell.rcVolts = cell.rcVolts * decay + amps * cell.rcOhms(tempCelsius, amps) * (1 - decay);
       // Peukert: discharging faster than the rated rate uses up more charge than it delivers.
       const peukert =
         amps > 0 ? Math.pow(amps / referenceAmps, chem.peukertExponent - 1) : 1;
-      cell.soc -= (amps * peukert * dtS) / (SECONDS_PER_HOUR * params.capacityAh);
+      cell.soc -= (amps * peukert * dtSeconds) / (SECONDS_PER_HOUR * params.capacityAh);
     },
   };
   return cell;

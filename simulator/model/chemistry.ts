@@ -24,7 +24,7 @@ export interface ChemistryProfile {
   /** Hours of the rate at which the rated capacity is specified (C/20 → 20). */
   ratedHours: number;
   /** Usable share of the capacity against cell temperature (°C), ascending temperature. */
-  capacityByTemp: ReadonlyArray<readonly [tempC: number, share: number]>;
+  capacityByTemp: ReadonlyArray<readonly [tempCelsius: number, share: number]>;
 }
 
 /*

@@ -3,7 +3,7 @@ import { createHeater } from './heater.js';
 
 describe('heater thermostat', () => {
   // The demo pack's own design (invented): 120 W at 51.2 V, on below 2 °C, off above 7 °C.
-  const params = { watts: 120, ratedVolts: 51.2, onBelowC: 2, offAboveC: 7 };
+  const params = { watts: 120, ratedVolts: 51.2, onBelowCelsius: 2, offAboveCelsius: 7 };
 
   it('switches on below the lower threshold and off above the upper one (hysteresis)', () => {
     const heater = createHeater(params);
@@ -22,7 +22,7 @@ describe('heater thermostat', () => {
   });
 
   it('with PWM draws current only in the on slots: 2 s on, 1 s off, counted from switch-on', () => {
-    const heater = createHeater({ ...params, pwm: { onS: 2, offS: 1 } });
+    const heater = createHeater({ ...params, pwm: { onSeconds: 2, offSeconds: 1 } });
     heater.update(-5, 10);
     const drawn = [10, 10.5, 11, 11.75, 12, 12.5, 13, 14.9, 15].map((t) => heater.amps(51.2, t) > 0);
     expect(drawn).toEqual([true, true, true, true, false, false, true, true, false]);

@@ -3,17 +3,17 @@ export interface HeaterParams {
   watts: number;
   /** Pack volts at which the element draws its rated watts (it is a plain resistor). */
   ratedVolts: number;
-  onBelowC: number;
-  offAboveC: number;
+  onBelowCelsius: number;
+  offAboveCelsius: number;
   /** Pulse-width modulation while on (absent: powered all the time it is on). */
-  pwm?: { onS: number; offS: number };
+  pwm?: { onSeconds: number; offSeconds: number };
 }
 
 /** Thermostat state: switches on below one threshold and off above another. */
 export interface HeaterController {
   readonly on: boolean;
   /** Updates the thermostat at simulated time tS; returns 'on' or 'off' when it switches, else undefined. */
-  update(tempC: number, tS?: number): 'on' | 'off' | undefined;
+  update(tempCelsius: number, tS?: number): 'on' | 'off' | undefined;
   /** Current the element draws at a supply voltage at simulated time tS (0 when off or in a PWM off slot). */
   amps(supplyVolts: number, tS?: number): number;
 }
@@ -25,24 +25,24 @@ const PWM_EPSILON_S = 1e-9;
 export function createHeater(params: HeaterParams): HeaterController {
   const elementOhms = (params.ratedVolts * params.ratedVolts) / params.watts;
   let on = false;
-  let onAtS = 0;
+  let onAtSeconds = 0;
   const powered = (tS: number): boolean => {
     if (!params.pwm) return true;
-    const period = params.pwm.onS + params.pwm.offS;
-    const phase = (tS - onAtS + PWM_EPSILON_S) % period;
-    return phase < params.pwm.onS;
+    const period = params.pwm.onSeconds + params.pwm.offSeconds;
+    const phase = (tS - onAtSeconds + PWM_EPSILON_S) % period;
+    return phase < params.pwm.onSeconds;
   };
   return {
     get on() {
       return on;
     },
-    update(tempC, tS = 0) {
-      if (!on && tempC < params.onBelowC) {
+    update(tempCelsius, tS = 0) {
+      if (!on && tempCelsius < params.onBelowCelsius) {
         on = true;
-        onAtS = tS;
+        onAtSeconds = tS;
         return 'on';
       }
-      if (on && tempC > params.offAboveC) {
+      if (on && tempCelsius > params.offAboveCelsius) {
         on = false;
         return 'off';
       }

@@ -11,13 +11,13 @@ export interface CellSpec {
 export interface Pack {
   readonly cells: readonly Cell[];
   /** Sum of the cells' open-circuit volts minus their RC voltages: the source behind the resistance. */
-  sourceVolts(tempC: number): number;
+  sourceVolts(tempCelsius: number): number;
   /** Sum of the cells' ohmic resistances at a temperature. */
-  ohms(tempC: number): number;
+  ohms(tempCelsius: number): number;
   /** Each cell's terminal volts while the pack carries amps. */
-  cellVolts(amps: number, tempC: number): number[];
+  cellVolts(amps: number, tempCelsius: number): number[];
   /** Advances every cell and returns the heat released (W) during the step. */
-  step(amps: number, dtS: number, tempC: number): number;
+  step(amps: number, dtSeconds: number, tempCelsius: number): number;
 }
 
 /** Builds a series pack from per-cell specifications. */
@@ -27,15 +27,15 @@ export function createPack(chemistry: Chemistry, ratedAh: number, specs: readonl
   );
   return {
     cells,
-    sourceVolts: (tempC) => cells.reduce((sum, cell) => sum + cell.ocv(tempC) - cell.rcVolts, 0),
-    ohms: (tempC) => cells.reduce((sum, cell) => sum + cell.ohms(tempC), 0),
-    cellVolts: (amps, tempC) => cells.map((cell) => cell.ocv(tempC) - cell.rcVolts - amps * cell.ohms(tempC)),
-    step(amps, dtS, tempC) {
+    sourceVolts: (tempCelsius) => cells.reduce((sum, cell) => sum + cell.ocv(tempCelsius) - cell.rcVolts, 0),
+    ohms: (tempCelsius) => cells.reduce((sum, cell) => sum + cell.ohms(tempCelsius), 0),
+    cellVolts: (amps, tempCelsius) => cells.map((cell) => cell.ocv(tempCelsius) - cell.rcVolts - amps * cell.ohms(tempCelsius)),
+    step(amps, dtSeconds, tempCelsius) {
       let heatWatts = 0;
       for (const cell of cells) {
         // Joule heat in the ohmic part plus the RC pair's resistor, taken before the update.
-        heatWatts += amps * amps * cell.ohms(tempC) + (cell.rcVolts * cell.rcVolts) / cell.rcOhms(tempC, amps);
-        cell.step(amps, dtS, tempC);
+        heatWatts += amps * amps * cell.ohms(tempCelsius) + (cell.rcVolts * cell.rcVolts) / cell.rcOhms(tempCelsius, amps);
+        cell.step(amps, dtSeconds, tempCelsius);
       }
       return heatWatts;
     },

@@ -7,12 +7,12 @@ describe('lumped thermal model', () => {
   it('follows Newton\'s law of cooling: ambient + P·R, approached with time constant C·R', () => {
     // Analytic solution of C·dT/dt = P − (T − Ta)/R (first-order lumped model, any heat-transfer text).
     const heatWatts = 12.5;
-    const tauS = params.heatCapacityJPerK * params.toAmbientKPerW;
+    const tauSeconds = params.heatCapacityJPerK * params.toAmbientKPerW;
     let temp = 20;
-    for (let t = 0; t < tauS; t += 0.25) temp = stepTemperature(temp, 20, heatWatts, 0.25, params);
+    for (let t = 0; t < tauSeconds; t += 0.25) temp = stepTemperature(temp, 20, heatWatts, 0.25, params);
     const rise = heatWatts * params.toAmbientKPerW;
     expect(temp).toBeCloseTo(20 + rise * (1 - Math.exp(-1)), 6);
-    for (let t = 0; t < 20 * tauS; t += 10) temp = stepTemperature(temp, 20, heatWatts, 10, params);
+    for (let t = 0; t < 20 * tauSeconds; t += 10) temp = stepTemperature(temp, 20, heatWatts, 10, params);
     expect(temp).toBeCloseTo(20 + rise, 6);
   });
 

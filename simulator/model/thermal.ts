@@ -11,13 +11,13 @@ export interface ThermalParams {
  * C·dT/dt = P − (T − T_ambient)/R, solved exactly for constant P and ambient over the step.
  */
 export function stepTemperature(
-  tempC: number,
-  ambientC: number,
+  tempCelsius: number,
+  ambientCelsius: number,
   heatWatts: number,
-  dtS: number,
+  dtSeconds: number,
   params: ThermalParams,
 ): number {
-  const steadyC = ambientC + heatWatts * params.toAmbientKPerW;
-  const tauS = params.heatCapacityJPerK * params.toAmbientKPerW;
-  return steadyC + (tempC - steadyC) * Math.exp(-dtS / tauS);
+  const steadyCelsius = ambientCelsius + heatWatts * params.toAmbientKPerW;
+  const tauSeconds = params.heatCapacityJPerK * params.toAmbientKPerW;
+  return steadyCelsius + (tempCelsius - steadyCelsius) * Math.exp(-dtSeconds / tauSeconds);
 }

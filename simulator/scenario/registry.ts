@@ -1,5 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { BUILT_IN_SCENARIOS } from '../scenarios/index.js';
+import { withCurrentKeys } from '../../shared/schemas/legacy-keys.js';
 import { ScenarioSchema, type Scenario } from './schema.js';
 
 /** Name, title and description of a built-in scenario. */
@@ -34,7 +35,7 @@ export function loadScenario(nameOrPath: string): Scenario {
 
 function readJson(path: string): unknown {
   try {
-    return JSON.parse(readFileSync(path, 'utf8'));
+    return withCurrentKeys(JSON.parse(readFileSync(path, 'utf8')));
   } catch (error) {
     throw new Error(`Cannot read scenario file ${path}: ${(error as Error).message}`);
   }

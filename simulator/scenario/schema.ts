@@ -13,12 +13,12 @@ export const CellOverrideSchema = z.object({
   socOffset: z.number().finite().min(-1).max(1).optional(),
 });
 
-/** A heater driven by pulse-width modulation while on: `onS` seconds powered, `offS` seconds not, repeated. */
-export const HeaterPwmSchema = z.object({ onS: positive, offS: positive });
+/** A heater driven by pulse-width modulation while on: `onSeconds` seconds powered, `offSeconds` seconds not, repeated. */
+export const HeaterPwmSchema = z.object({ onSeconds: positive, offSeconds: positive });
 
 export const HeaterSchema = z
-  .object({ watts: positive, ratedVolts: positive, onBelowC: celsius, offAboveC: celsius, pwm: HeaterPwmSchema.optional() })
-  .refine((h) => h.offAboveC > h.onBelowC, { message: 'offAboveC must be above onBelowC (hysteresis)' });
+  .object({ watts: positive, ratedVolts: positive, onBelowCelsius: celsius, offAboveCelsius: celsius, pwm: HeaterPwmSchema.optional() })
+  .refine((h) => h.offAboveCelsius > h.onBelowCelsius, { message: 'offAboveCelsius must be above onBelowCelsius (hysteresis)' });
 
 export const PackSchema = z.object({
   label: z.string().min(1),
@@ -32,7 +32,7 @@ export const PackSchema = z.object({
   /** Ohmic resistance of one cell at 25 °C; defaults from the chemistry and capacity. */
   cellOhms: positive.optional(),
   initialSoc: z.number().min(0).max(1),
-  initialTempC: celsius,
+  initialTempCelsius: celsius,
   cells: z.array(CellOverrideSchema).default([]),
   thermal: z.object({ heatCapacityJPerK: positive, toAmbientKPerW: positive }),
   heater: HeaterSchema.optional(),
@@ -40,22 +40,22 @@ export const PackSchema = z.object({
 
 export const BmsSchema = z.object({
   cellUnderVolts: positive,
-  underVoltDelayS: nonNegative,
-  underVoltRecoveryS: nonNegative,
+  underVoltDelaySeconds: nonNegative,
+  underVoltRecoverySeconds: nonNegative,
   cellUnderVoltsRelease: positive,
   cellOverVolts: positive,
-  overVoltDelayS: nonNegative,
-  overVoltRecoveryS: nonNegative.default(0),
+  overVoltDelaySeconds: nonNegative,
+  overVoltRecoverySeconds: nonNegative.default(0),
   cellOverVoltsRelease: positive,
   overCurrentAmps: positive,
-  overCurrentDelayS: nonNegative,
-  overCurrentRecoveryS: nonNegative,
-  coldChargeBelowC: celsius,
-  coldChargeDelayS: nonNegative,
-  coldChargeReleaseC: celsius,
-  overTempC: celsius,
-  overTempDelayS: nonNegative,
-  overTempReleaseC: celsius,
+  overCurrentDelaySeconds: nonNegative,
+  overCurrentRecoverySeconds: nonNegative,
+  coldChargeBelowCelsius: celsius,
+  coldChargeDelaySeconds: nonNegative,
+  coldChargeReleaseCelsius: celsius,
+  overTempCelsius: celsius,
+  overTempDelaySeconds: nonNegative,
+  overTempReleaseCelsius: celsius,
   /** What a meter on the terminals reads while discharge is blocked: 0 V, or the pack behind a diode. */
   openTerminal: z.enum(['zero', 'pack']).default('zero'),
 });
@@ -71,13 +71,13 @@ export const ChargerSchema = z.object({ cvVolts: positive, ccAmps: positive, ter
 const stopWhen = z.enum(['bms-trip', 'bms-release', 'end-volts', 'charged']);
 
 export const ProgramStepSchema = z.discriminatedUnion('kind', [
-  z.object({ kind: z.literal('discharge'), load: LoadSchema, endVolts: positive.optional(), maxS: positive, stopWhen: stopWhen.optional() }),
-  z.object({ kind: z.literal('charge'), charger: ChargerSchema, maxS: positive, stopWhen: stopWhen.optional() }),
-  z.object({ kind: z.literal('rest'), maxS: positive, stopWhen: stopWhen.optional() }),
+  z.object({ kind: z.literal('discharge'), load: LoadSchema, endVolts: positive.optional(), maxSeconds: positive, stopWhen: stopWhen.optional() }),
+  z.object({ kind: z.literal('charge'), charger: ChargerSchema, maxSeconds: positive, stopWhen: stopWhen.optional() }),
+  z.object({ kind: z.literal('rest'), maxSeconds: positive, stopWhen: stopWhen.optional() }),
 ]);
 
 export const MeterSchema = z.object({
-  samplePeriodS: positive.default(1),
+  readingPeriodSeconds: positive.default(1),
   voltsNoise: nonNegative.default(0),
   ampsNoise: nonNegative.default(0),
   tempNoise: nonNegative.default(0),
@@ -87,7 +87,7 @@ export const MeterSchema = z.object({
   dropProbability: z.number().min(0).max(1).default(0),
   corruptProbability: z.number().min(0).max(1).default(0),
   /** Simulated unplug and replug of the meter's USB cable, in simulated seconds. */
-  unplugs: z.array(z.object({ atS: nonNegative, forS: positive })).default([]),
+  unplugs: z.array(z.object({ atSeconds: nonNegative, forSeconds: positive })).default([]),
 });
 
 export const ScenarioSchema = z.object({
@@ -97,11 +97,11 @@ export const ScenarioSchema = z.object({
   pack: PackSchema,
   bms: BmsSchema.optional(),
   /** Chamber or room temperature over simulated time, interpolated linearly. */
-  ambient: z.array(z.object({ atS: nonNegative, tempC: celsius })).min(1),
+  ambient: z.array(z.object({ atSeconds: nonNegative, tempCelsius: celsius })).min(1),
   program: z.array(ProgramStepSchema).min(1),
   meter: MeterSchema.default(MeterSchema.parse({})),
   /** Physics step; the meter's sample period is cut into steps no longer than this. */
-  maxPhysicsStepS: positive.default(0.25),
+  maxPhysicsStepSeconds: positive.default(0.25),
 });
 
 export type Scenario = z.infer<typeof ScenarioSchema>;

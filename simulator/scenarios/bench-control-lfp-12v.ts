@@ -1,9 +1,9 @@
 import type { ScenarioInput } from '../scenario/schema.js';
 import { lfpBms, lfpThermal } from './lfp-defaults.js';
+import { SECONDS_PER_HOUR } from '../../shared/units/time.js';
 
 /** Hours the bench waits for commands: long enough for a full charge, rest, discharge, rest, recharge. */
 const IDLE_HOURS = 24;
-const SECONDS_PER_HOUR = 3600;
 
 /**
  * A pack on a bench with a simulated electronic load and supply: the program is one long
@@ -21,11 +21,11 @@ export const benchControlLfp12v: ScenarioInput = {
     cellsInSeries: 4,
     ratedAh: 20,
     initialSoc: 0.5,
-    initialTempC: 23,
+    initialTempCelsius: 23,
     thermal: lfpThermal(4, 20),
   },
   bms: lfpBms(),
-  ambient: [{ atS: 0, tempC: 23 }],
-  program: [{ kind: 'rest', maxS: IDLE_HOURS * SECONDS_PER_HOUR }],
-  meter: { samplePeriodS: 1 },
+  ambient: [{ atSeconds: 0, tempCelsius: 23 }],
+  program: [{ kind: 'rest', maxSeconds: IDLE_HOURS * SECONDS_PER_HOUR }],
+  meter: { readingPeriodSeconds: 1 },
 };

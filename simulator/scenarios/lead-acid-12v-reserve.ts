@@ -15,11 +15,11 @@ export const leadAcid12vReserve: ScenarioInput = {
     ratedAh: 100,
     capacityTolerancePct: 2,
     initialSoc: 1,
-    initialTempC: 27,
+    initialTempCelsius: 27,
     // About 25 kg of lead, acid and case at roughly 1.1 kJ/(kg·K) (from memory).
     thermal: { heatCapacityJPerK: 27_000, toAmbientKPerW: 0.3 },
   },
-  ambient: [{ atS: 0, tempC: 27 }],
-  program: [{ kind: 'discharge', load: { mode: 'cc', amps: 25 }, endVolts: 10.5, maxS: 6 * 3600 }, { kind: 'rest', maxS: 600 }],
-  meter: { samplePeriodS: 1, voltsNoise: 0.002, ampsNoise: 0.01, tempNoise: 0.05 },
+  ambient: [{ atSeconds: 0, tempCelsius: 27 }],
+  program: [{ kind: 'discharge', load: { mode: 'cc', amps: 25 }, endVolts: 10.5, maxSeconds: 6 * 3600 }, { kind: 'rest', maxSeconds: 600 }],
+  meter: { readingPeriodSeconds: 1, voltsNoise: 0.002, ampsNoise: 0.01, tempNoise: 0.05 },
 };

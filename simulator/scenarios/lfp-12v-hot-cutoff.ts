@@ -14,20 +14,20 @@ export const lfp12vHotCutoff: ScenarioInput = {
     cellsInSeries: 4,
     ratedAh: 50,
     initialSoc: 1,
-    initialTempC: 42,
+    initialTempCelsius: 42,
     // The chamber's fan stirs the air, so the pack follows the chamber closer than in still air.
     thermal: { ...lfpThermal(4, 50), toAmbientKPerW: 0.5 },
   },
   bms: lfpBms(),
   ambient: [
-    { atS: 0, tempC: 45 },
-    { atS: 1200, tempC: 80 },
-    { atS: 4200, tempC: 80 },
-    { atS: 6000, tempC: 30 },
+    { atSeconds: 0, tempCelsius: 45 },
+    { atSeconds: 1200, tempCelsius: 80 },
+    { atSeconds: 4200, tempCelsius: 80 },
+    { atSeconds: 6000, tempCelsius: 30 },
   ],
   program: [
-    { kind: 'discharge', load: { mode: 'cc', amps: 25 }, maxS: 7200, stopWhen: 'bms-trip' }, { kind: 'rest', maxS: 7200, stopWhen: 'bms-release' },
-    { kind: 'rest', maxS: 300 },
+    { kind: 'discharge', load: { mode: 'cc', amps: 25 }, maxSeconds: 7200, stopWhen: 'bms-trip' }, { kind: 'rest', maxSeconds: 7200, stopWhen: 'bms-release' },
+    { kind: 'rest', maxSeconds: 300 },
   ],
-  meter: { samplePeriodS: 1, voltsNoise: 0.002, ampsNoise: 0.01, tempNoise: 0.05 },
+  meter: { readingPeriodSeconds: 1, voltsNoise: 0.002, ampsNoise: 0.01, tempNoise: 0.05 },
 };

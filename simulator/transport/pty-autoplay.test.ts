@@ -8,12 +8,12 @@ import { startPtyMeter, type PtyMeter } from './pty-meter.js';
 
 const SPEED = 50;
 const WATCHDOG_MS = 100;
-const UNPLUG = { atS: 30, forS: 10 };
+const UNPLUG = { atSeconds: 30, forSeconds: 10 };
 const base = loadScenario('noisy-meter-unplug');
 // A short run of the noisy scenario with a clean line, so every missing frame is the unplug's doing.
 const scenario: Scenario = {
   ...base,
-  program: [{ kind: 'discharge', load: { mode: 'cc', amps: 20 }, maxS: 80 }],
+  program: [{ kind: 'discharge', load: { mode: 'cc', amps: 20 }, maxSeconds: 80 }],
   meter: { ...base.meter, dropProbability: 0, corruptProbability: 0, unplugs: [UNPLUG] },
 };
 let meter: PtyMeter | undefined;
@@ -64,17 +64,17 @@ describe('a played meter on a pseudo-terminal', { timeout: 20_000 }, () => {
     stopGateway = reconnectingGateway(meter.path, (f) => frames.push(f), () => (closes += 1));
     const startedMs = Date.now();
     await meter.finished;
-    const elapsedS = (Date.now() - startedMs) / 1000;
+    const elapsedSeconds = (Date.now() - startedMs) / 1000;
     await new Promise((r) => setTimeout(r, 100));
     // 80 simulated seconds at 50× take about 1.6 s of real time.
-    expect(elapsedS).toBeGreaterThan(80 / SPEED - 0.2);
-    expect(elapsedS).toBeLessThan(80 / SPEED + 2);
+    expect(elapsedSeconds).toBeGreaterThan(80 / SPEED - 0.2);
+    expect(elapsedSeconds).toBeLessThan(80 / SPEED + 2);
     expect(closes).toBeGreaterThanOrEqual(1);
     const seqs = frames.map((f) => f.seq!);
     for (let i = 1; i < seqs.length; i += 1) expect(seqs[i]).toBeGreaterThan(seqs[i - 1]);
     const ts = frames.map((f) => f.t);
-    expect(ts.some((t) => t >= UNPLUG.atS && t < UNPLUG.atS + UNPLUG.forS)).toBe(false);
-    expect(ts.filter((t) => t > UNPLUG.atS + UNPLUG.forS + 2).length).toBeGreaterThan(20);
-    expect(ts.filter((t) => t < UNPLUG.atS).length).toBeGreaterThan(20);
+    expect(ts.some((t) => t >= UNPLUG.atSeconds && t < UNPLUG.atSeconds + UNPLUG.forSeconds)).toBe(false);
+    expect(ts.filter((t) => t > UNPLUG.atSeconds + UNPLUG.forSeconds + 2).length).toBeGreaterThan(20);
+    expect(ts.filter((t) => t < UNPLUG.atSeconds).length).toBeGreaterThan(20);
   });
 });

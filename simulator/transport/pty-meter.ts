@@ -1,5 +1,5 @@
 import { SerialPort } from 'serialport';
-import { createSimulation, type SimSample, type SimulationOptions } from '../engine/simulation.js';
+import { createSimulation, type SimReading, type SimulationOptions } from '../engine/simulation.js';
 import { createMeterDevice, csvOptionsFor, type MeterDeviceOptions, type MeterFormat } from '../meter/device.js';
 import type { Scenario, ScenarioInput } from '../scenario/schema.js';
 import { openPtyPair, type PtyPair } from './socat.js';
@@ -28,7 +28,7 @@ export interface PtyMeter {
   /** Resolves when the scenario's program has ended (autoplay) or the meter stopped. */
   readonly finished: Promise<void>;
   /** Advances one sample by hand and sends it (with autoplay off); undefined at the end. */
-  tick(): Promise<SimSample | undefined>;
+  tick(): Promise<SimReading | undefined>;
   /** Pulls the cable: socat stops, the link disappears, the gateway's port closes. */
   unplug(): Promise<void>;
   /** Plugs it back: a new pseudo-terminal at the same link path. */
@@ -82,7 +82,7 @@ export async function startPtyMeter(options: PtyMeterOptions): Promise<PtyMeter>
     pair = undefined;
     if (closing?.isOpen) await new Promise<void>((done) => closing.close(() => done()));
   };
-  const deliver = (sample: SimSample): void => {
+  const deliver = (sample: SimReading): void => {
     if (!sample.plugged && port) void serial(pullOut);
     if (sample.plugged && !port && !stopped && !heldOut) void serial(plugIn);
     void serial(async () => write(device.sample(sample)));

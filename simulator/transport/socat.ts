@@ -21,7 +21,7 @@ export interface PtyPair {
 
 /**
  * Refuses a link inside the repository (outside .data/): Tailwind's file scan hangs on a
- * pseudo-terminal (MACHINE-FACTS), so links live under /tmp.
+ * pseudo-terminal (DEVELOPERS.md, Conventions), so links live under /tmp.
  */
 export function assertLinkOutsideRepo(linkPath: string, repoRoots = [process.cwd(), MODULE_REPO_ROOT]): void {
   const link = resolve(linkPath);

@@ -10,7 +10,7 @@ function jumpClock(): Clock & { jump(ms: number): void } {
   const timers = new Map<number, { at: number; fn: () => void }>();
   let id = 0;
   return {
-    now: () => now,
+    nowMs: () => now,
     setTimeout: (fn, ms) => (timers.set(++id, { at: now + ms, fn }), id),
     clearTimeout: (h) => void timers.delete(h as number),
     jump(ms) {

@@ -47,10 +47,10 @@ describe('LiveSocket', () => {
     live.subscribe(topic, (m) => got.push(m.type));
     sockets[0].open();
     expect(sockets[0].sent).toEqual([{ type: 'subscribe', topic }]);
-    sockets[0].onmessage?.({ data: JSON.stringify({ type: 'status', seq: 1, topic, status: { state: 'receiving', framesOk: 3, framesRejected: 0 } }) });
+    sockets[0].onmessage?.({ data: JSON.stringify({ type: 'status', topic, status: { state: 'receiving', framesOk: 3, framesRejected: 0 } }) });
     sockets[0].onmessage?.({ data: '{"type":"status","seq":"not a number"}' });
     sockets[0].onmessage?.({ data: 'garbage' });
-    sockets[0].onmessage?.({ data: JSON.stringify({ type: 'status', seq: 2, topic: { kind: 'bench', id: 4 }, status: { state: 'idle', framesOk: 0, framesRejected: 0 } }) });
+    sockets[0].onmessage?.({ data: JSON.stringify({ type: 'status', topic: { kind: 'bench', id: 4 }, status: { state: 'idle', framesOk: 0, framesRejected: 0 } }) });
     expect(got).toEqual(['status']);
   });
 
@@ -89,7 +89,7 @@ describe('LiveSocket', () => {
     live.subscribe(topic, () => undefined);
     sockets[0].open();
     const serverAheadMs = 90_000;
-    sockets[0].onmessage?.({ data: JSON.stringify({ type: 'hello', seq: 1, serverTimeMs: Date.now() + serverAheadMs, user: { id: 1, role: 'viewer' } }) });
+    sockets[0].onmessage?.({ data: JSON.stringify({ type: 'hello', serverTimeMs: Date.now() + serverAheadMs, user: { id: 1, role: 'viewer' } }) });
     expect(Math.abs(live.clockOffsetMs - serverAheadMs)).toBeLessThan(1_000);
   });
 });

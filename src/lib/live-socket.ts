@@ -2,6 +2,7 @@ import {
   ServerMessageSchema,
   topicKey,
   type ClientMessage,
+  type ReadingCursor,
   type ServerMessage,
   type Topic,
 } from '../../shared/schemas/ws';
@@ -23,12 +24,18 @@ export interface LiveSocketDeps {
 interface TopicEntry {
   topic: Topic;
   listeners: Set<MessageListener>;
+  /** The last reading this topic's listeners received (from snapshots and batches); null before the first snapshot. */
+  cursor: ReadingCursor | null;
 }
+
+/** `WebSocket.OPEN`, written out so that the socket works with any WebSocket implementation. */
+const OPEN = 1;
 
 /**
  * One WebSocket to /ws shared by every live screen. Screens subscribe to topics; the socket
- * reconnects with back-off and subscribes again, and the server answers each subscribe with
- * a fresh snapshot, so a screen never has to know a reconnect happened.
+ * reconnects with back-off and subscribes again with each topic's cursor, and the server
+ * answers with a snapshot of exactly the readings missed (or, when the cursor is too old,
+ * tells the screen to refetch its history), so no reading is lost or repeated.
  */
 export class LiveSocket {
   private ws: WebSocket | null = null;
@@ -53,7 +60,7 @@ export class LiveSocket {
     const key = topicKey(topic);
     let entry = this.topics.get(key);
     if (!entry) {
-      entry = { topic, listeners: new Set() };
+      entry = { topic, listeners: new Set(), cursor: null };
       this.topics.set(key, entry);
       this.send({ type: 'subscribe', topic });
     }
@@ -98,7 +105,7 @@ export class LiveSocket {
   }
 
   private send(message: ClientMessage): void {
-    if (this.ws && this.ws.readyState === WebSocket.OPEN) this.ws.send(JSON.stringify(message));
+    if (this.ws && this.ws.readyState === OPEN) this.ws.send(JSON.stringify(message));
   }
 
   private ensureConnected(): void {
@@ -113,7 +120,7 @@ export class LiveSocket {
     ws.onopen = () => {
       this.attempt = 0;
       this.setState('open');
-      for (const { topic } of this.topics.values()) this.send({ type: 'subscribe', topic });
+      for (const { topic, cursor } of this.topics.values()) this.send(cursor ? { type: 'subscribe', topic, after: cursor } : { type: 'subscribe', topic });
     };
     ws.onmessage = (e: MessageEvent) => this.dispatch(e.data);
     ws.onclose = () => {
@@ -150,7 +157,11 @@ export class LiveSocket {
       this.globalListeners.forEach((l) => l(message));
       return;
     }
-    this.topics.get(topicKey(topic))?.listeners.forEach((l) => l(message));
+    const entry = this.topics.get(topicKey(topic));
+    if (!entry) return;
+    if (message.type === 'snapshot') entry.cursor = { stream: message.stream, seq: message.seq };
+    else if (message.type === 'batch' && entry.cursor) entry.cursor = { stream: entry.cursor.stream, seq: message.seq };
+    entry.listeners.forEach((l) => l(message));
   }
 }
 

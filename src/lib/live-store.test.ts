@@ -42,7 +42,7 @@ describe('LiveStore', () => {
   it('keeps only new readings when a snapshot after a reconnect repeats old ones', () => {
     const store = new LiveStore((fn) => fn());
     store.handle(batch([0, 1, 2]));
-    store.handle({ type: 'snapshot', seq: 9, topic, status: null, run: null, recent: cols([1, 2, 3]), events: [] });
+    store.handle({ type: 'snapshot', stream: 's1', seq: 9, resume: 'fresh', topic, status: null, run: null, recent: cols([1, 2, 3]), events: [] });
     const t = Array.from({ length: store.buffer.length }, (_, i) => store.buffer.at(LIVE_COLUMN.t, i));
     expect(t).toEqual([0, 1, 2, 3]);
   });
@@ -51,8 +51,8 @@ describe('LiveStore', () => {
     const store = new LiveStore((fn) => fn());
     const heard: [string, boolean][] = [];
     store.onEvent((e, live) => heard.push([e.type, live]));
-    store.handle({ type: 'snapshot', seq: 1, topic, status: null, run: null, recent: cols([]), events: [{ type: 'run-start', t: 0 }] });
-    store.handle({ type: 'event', seq: 2, topic, eventId: 5, event: { type: 'annotation', t: 3, text: 'Fan on' } });
+    store.handle({ type: 'snapshot', stream: 's1', seq: 1, resume: 'fresh', topic, status: null, run: null, recent: cols([]), events: [{ type: 'run-start', t: 0 }] });
+    store.handle({ type: 'event', topic, eventId: 5, event: { type: 'annotation', t: 3, text: 'Fan on' } });
     expect(heard).toEqual([
       ['run-start', false],
       ['annotation', true],
@@ -97,11 +97,11 @@ describe('LiveStore notes', () => {
     const heard: number[] = [];
     store.onNoteChange((id) => heard.push(id));
     const note = { type: 'annotation' as const, t: 3, text: 'Fan on', author: 'Tomas' };
-    store.handle({ type: 'snapshot', seq: 1, topic, status: null, run: null, recent: cols([]), events: [{ type: 'run-start', t: 0 }, note] });
+    store.handle({ type: 'snapshot', stream: 's1', seq: 1, resume: 'fresh', topic, status: null, run: null, recent: cols([]), events: [{ type: 'run-start', t: 0 }, note] });
     const edited = { ...note, text: 'Fan on, 30 cm away' };
-    store.handle({ type: 'note', seq: 2, topic, eventId: 8, previous: note, event: edited });
+    store.handle({ type: 'note', topic, eventId: 8, previous: note, event: edited });
     expect(store.getSnapshot().events).toEqual([{ type: 'run-start', t: 0 }, edited]);
-    store.handle({ type: 'note', seq: 3, topic, eventId: 8, previous: edited, event: null });
+    store.handle({ type: 'note', topic, eventId: 8, previous: edited, event: null });
     expect(store.getSnapshot().events).toEqual([{ type: 'run-start', t: 0 }]);
     expect(heard).toEqual([8, 8]);
   });

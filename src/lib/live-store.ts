@@ -69,7 +69,11 @@ export class LiveStore {
     return () => this.noteListeners.delete(listener);
   }
 
-  /** Hears each snapshot (first subscribe and every reconnect) with the first reading time it holds. */
+  /**
+   * Hears each snapshot that leaves the history to fetch (first subscribe, or a reconnect whose
+   * cursor the server no longer had) with the first reading time it holds. A resumed snapshot
+   * carries exactly the readings missed, so nothing is fetched for it.
+   */
   onSnapshot(listener: (firstT: number | null) => void): () => void {
     this.snapshotListeners.add(listener);
     return () => this.snapshotListeners.delete(listener);
@@ -124,9 +128,9 @@ export class LiveStore {
     switch (message.type) {
       case 'snapshot':
         this.update({ run: message.run, status: message.status ?? this.next.status, events: message.events });
-        this.appendReadings(message.recent, true);
+        this.appendReadings(message.recent, message.resume !== 'resumed');
         message.events.forEach((e) => this.eventListeners.forEach((l) => l(e, false)));
-        this.snapshotListeners.forEach((l) => l(message.recent.t.length > 0 ? message.recent.t[0] : null));
+        if (message.resume !== 'resumed') this.snapshotListeners.forEach((l) => l(message.recent.t.length > 0 ? message.recent.t[0] : null));
         break;
       case 'batch':
         this.appendReadings(message.readings, false);
@@ -175,7 +179,7 @@ export class LiveStore {
     });
   }
 
-  private appendReadings(cols: ReadingColumns, fromSnapshot: boolean): void {
+  private appendReadings(cols: ReadingColumns, afterOutage: boolean): void {
     const n = cols.t.length;
     if (n === 0) return;
     const channel = this.next.tempChannel ?? pickTempChannel(cols.temps);
@@ -183,11 +187,11 @@ export class LiveStore {
     let lastT = this.buffer.last(LIVE_COLUMN.t) ?? null;
     for (let i = 0; i < n; i++) {
       const t = cols.t[i];
-      // A snapshot after a reconnect repeats what we have: keep only what is new.
+      // A snapshot without a usable cursor repeats what we have: keep only what is new.
       if (lastT !== null && t <= lastT) continue;
       if (lastT !== null) {
         const dt = t - lastT;
-        if (dt > Math.max(MIN_GAP_SECONDS, GAP_FACTOR * this.lastDtSeconds) && (fromSnapshot || this.lastDtSeconds > 0)) {
+        if (dt > Math.max(MIN_GAP_SECONDS, GAP_FACTOR * this.lastDtSeconds) && (afterOutage || this.lastDtSeconds > 0)) {
           this.pushGap((lastT + t) / 2);
         } else {
           this.lastDtSeconds = dt;

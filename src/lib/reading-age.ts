@@ -2,10 +2,10 @@ import type { BenchStatus } from '../../shared/schemas/bench';
 import type { LiveView } from './live-view';
 import { useServerClockOffsetMs } from './use-live';
 import { useNow } from './use-now';
+import { MS_PER_S } from '../../shared/units/time';
 
 /** Readings older than this are shown as stale even before the server says the meter went quiet. */
 export const STALE_AFTER_S = 10;
-const MS_PER_S = 1000;
 /** Source states in which the numbers on screen are the last ones seen, not the present. */
 const QUIET_STATES = new Set(['stale', 'error', 'reconnecting', 'idle']);
 

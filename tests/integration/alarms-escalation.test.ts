@@ -5,10 +5,10 @@ import { FakeSmtpServer, type ReceivedMail } from '../../server/alarms/fake-smtp
 import { liveAttachment } from '../../server/live/attach-live.js';
 import { createTestContext, signInAs, TEST_USERS, type SignedInAgent, type TestContext } from './helpers/index.js';
 import { batteryAndBench, eventually, ManualFeed, tempSpillDir } from './runs-kit.js';
+import { MS_PER_MINUTE } from '../../shared/units/time.js';
 
 /** The lab's escalation setting under test: re-send after 1 minute without an acknowledgement. */
 const ESCALATE_AFTER_MINUTES = 1;
-const MS_PER_MINUTE = 60_000;
 /** A few timer turns: long enough for the production timer to have acted if it were going to. */
 const QUIET_MS = 4 * ALARM_TICK_MS;
 

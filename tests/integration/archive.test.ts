@@ -10,6 +10,7 @@ import { chunkExtent, readChunks } from '../../server/archive/chunk-store.js';
 import { RunsRepo } from '../../server/runs/runs-repo.js';
 import { testConfig } from './helpers/index.js';
 import { eventually, ManualFeed, tempSpillDir } from './runs-kit.js';
+import { quietLogger } from '../../server/log/logger.js';
 
 // A MariaDB of this file's own (its own folder and port), so stopping it mid-run never
 // disturbs the shared test server.
@@ -17,7 +18,7 @@ const OUTAGE_DB_DIR = resolve('.data/test-mariadb-outage');
 const OUTAGE_DB_PORT = 3318;
 // A fresh database each time (dropped after), so runs left by an earlier attempt never resume here.
 const DB = { database: `kp_outage_${Date.now().toString(36)}`, user: 'kp_outage', password: 'outage-test-only' };
-const provision = () => provisionMariaDb({ baseDir: OUTAGE_DB_DIR, port: OUTAGE_DB_PORT, ...DB, grantAllDatabases: true, log: () => undefined });
+const provision = () => provisionMariaDb({ baseDir: OUTAGE_DB_DIR, port: OUTAGE_DB_PORT, ...DB, grantAllDatabases: true, log: quietLogger });
 
 const spillDir = tempSpillDir();
 let mariadb: ProvisionedMariaDb;

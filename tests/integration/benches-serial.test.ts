@@ -60,7 +60,7 @@ async function setUp(format: keyof typeof FORMATS) {
   const linkPath = `/tmp/kneepoint-ingest-${process.pid}-${format}`;
   const meter: PtyMeter = await startPtyMeter({ scenario: SCENARIO, format, linkPath, autoplay: false, seed: 5 });
   cleanup.push(() => meter.stop());
-  const config = SerialSourceConfigSchema.parse({ kind: 'serial', path: linkPath, baudRate: 115200, staleAfterS: STALE_AFTER_S, format: FORMATS[format] });
+  const config = SerialSourceConfigSchema.parse({ kind: 'serial', path: linkPath, baudRate: 115200, staleAfterSeconds: STALE_AFTER_S, format: FORMATS[format] });
   const frames: Frame[] = [];
   const states: BenchStatus['state'][] = [];
   const source = new SerialSource(config, { frame: (f) => frames.push(f), status: (s) => states.push(s.state) });

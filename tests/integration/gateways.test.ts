@@ -28,7 +28,7 @@ let south: { id: number; password: string };
 const gateways: GatewayProcess[] = [];
 
 /** 6,000 simulated seconds of a one-cell-weak pack discharged to its BMS cutoff, then rest (common practice for a capacity run). */
-const scenario = (speed: number, seed: number) => ({ kind: 'simulator', scenario: 'lfp-12v-weak-cell', speed, seed, staleAfterS: 3 });
+const scenario = (speed: number, seed: number) => ({ kind: 'simulator', scenario: 'lfp-12v-weak-cell', speed, seed, staleAfterSeconds: 3 });
 const RELATIVE = 1e-9;
 
 beforeAll(async () => {

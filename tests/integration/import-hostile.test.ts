@@ -58,10 +58,10 @@ describe('import: odd and hostile files', () => {
     expect(semi.status).toBe(201);
     const s = ImportResponseSchema.parse(semi.body).summary;
     expect(s.rows).toBe(10);
-    expect(s.chargeAh).toBeCloseTo((5.5 * 9) / 3600, 12);
+    expect(s.dischargeAh).toBeCloseTo((5.5 * 9) / 3600, 12);
     const tab = await upload('tab.csv', `time\tvolts\tamps\n${rows('\t', String, '5')}\n`);
     expect(tab.status).toBe(201);
-    expect(ImportResponseSchema.parse(tab.body).summary.chargeAh).toBeCloseTo((5 * 9) / 3600, 12);
+    expect(ImportResponseSchema.parse(tab.body).summary.dischargeAh).toBeCloseTo((5 * 9) / 3600, 12);
   });
 
   it('a header with no data says what is wrong with the header first', async () => {
@@ -102,7 +102,7 @@ describe('import: timestamps without a zone', () => {
       const body = ImportResponseSchema.parse(res.body);
       // Berlin is UTC+2 in July (EU summer time, from memory): 12:00 local is 10:00 UTC.
       expect(body.run.startedAt).toBe('2026-07-15T10:00:00.000Z');
-      expect(body.summary.durationS).toBe(4);
+      expect(body.summary.durationSeconds).toBe(4);
     } finally {
       await admin.patch('/api/settings').send({ timeZone: 'UTC' }).expect(200);
     }

@@ -78,27 +78,27 @@ describe('import: time in any common format, in the lab zone (issue 11 item 11)'
       const body = ImportResponseSchema.parse(res.body);
       // Berlin keeps UTC+2 from the last Sunday of March (EU summer time, from memory): 10:00 local is 08:00 UTC.
       expect(body.run.startedAt).toBe('2026-04-03T08:00:00.000Z');
-      expect(body.summary.durationS).toBe(10);
-      expect(body.summary.chargeAh).toBeCloseTo((5 * 10) / 3600, 12); // 5 A for 10 s
+      expect(body.summary.durationSeconds).toBe(10);
+      expect(body.summary.dischargeAh).toBeCloseTo((5 * 10) / 3600, 12); // 5 A for 10 s
     });
   });
 
   it('h:mm:ss elapsed times and decimal-comma seconds', async () => {
     const hms = await upload('Elapsed,Voltage (V),Current (A)\n' + lines(3601, (i) => `${Math.floor(i / 3600)}:${String(Math.floor(i / 60) % 60).padStart(2, '0')}:${String(i % 60).padStart(2, '0')}`));
     expect(hms.status).toBe(201);
-    expect(hms.body.summary.chargeAh).toBeCloseTo(5, 9); // 5 A for 1 h
+    expect(hms.body.summary.dischargeAh).toBeCloseTo(5, 9); // 5 A for 1 h
     const comma = await upload('Zeit (s);Spannung (V);Strom (A)\n' + lines(21, (i) => String(i / 2).replace('.', ','), '3,6', ';').replace(/(\d)\.(\d{4});/g, '$1,$2;'));
     expect(comma.status).toBe(201);
-    expect(comma.body.summary.chargeAh).toBeCloseTo((3.6 * 10) / 3600, 12); // 3.6 A for 10 s
+    expect(comma.body.summary.dischargeAh).toBeCloseTo((3.6 * 10) / 3600, 12); // 3.6 A for 10 s
   });
 
   it('epoch ms under "timestamp" integrate right, and start the run at the first reading', async () => {
     const t0 = Date.UTC(2026, 6, 15, 10); // 15 Jul 2026 10:00 UTC
     const res = await upload('timestamp,volts,amps\n' + lines(3601, (i) => String(t0 + i * 1000)));
     expect(res.status).toBe(201);
-    expect(res.body.summary.chargeAh).toBeCloseTo(5, 9); // 5 A for 1 h
+    expect(res.body.summary.dischargeAh).toBeCloseTo(5, 9); // 5 A for 1 h
     expect(res.body.run.startedAt).toBe('2026-07-15T10:00:00.000Z');
-    expect(res.body.summary.medianIntervalS).toBe(1);
+    expect(res.body.summary.medianIntervalSeconds).toBe(1);
   });
 
   it('a bare Time in ms is refused with a question, not read as seconds; choosing ms reads it right', async () => {
@@ -108,7 +108,7 @@ describe('import: time in any common format, in the lab zone (issue 11 item 11)'
     expect(res.body.error.message).toMatch(/"Time" has no unit and steps of 1000 \(median\): seconds .* or milliseconds \(1 s apart\)\? Choose the time format/);
     const ms = await upload(csv, { timeFormat: 'ms' });
     expect(ms.status).toBe(201);
-    expect(ms.body.summary.chargeAh).toBeCloseTo(5, 9);
+    expect(ms.body.summary.dischargeAh).toBeCloseTo(5, 9);
   });
 
   it('a bare Time in minutes read as seconds is said aloud, and choosing minutes gives the 60x larger Ah', async () => {
@@ -117,8 +117,8 @@ describe('import: time in any common format, in the lab zone (issue 11 item 11)'
     expect(assumed.status).toBe(201);
     expect(assumed.body.summary.notices.join(' ')).toMatch(/names no unit: if it counts minutes or milliseconds, import again/);
     const minutes = await upload(csv, { timeFormat: 'min' });
-    expect(minutes.body.summary.chargeAh).toBeCloseTo(5, 9); // 5 A for 60 min
-    expect(minutes.body.summary.chargeAh / assumed.body.summary.chargeAh).toBeCloseTo(60, 9);
+    expect(minutes.body.summary.dischargeAh).toBeCloseTo(5, 9); // 5 A for 60 min
+    expect(minutes.body.summary.dischargeAh / assumed.body.summary.dischargeAh).toBeCloseTo(60, 9);
   });
 
   it('spreadsheet serial days in the lab zone', async () => {
@@ -126,14 +126,14 @@ describe('import: time in any common format, in the lab zone (issue 11 item 11)'
     const res = await upload(csv, { timeFormat: 'serial-days' });
     expect(res.status).toBe(201);
     expect(res.body.run.startedAt).toBe('2026-07-15T12:00:00.000Z'); // serial 46218.5 is noon, 15 Jul 2026 (see import-time.test.ts)
-    expect(res.body.summary.chargeAh).toBeCloseTo((5 * 60) / 3600, 6);
+    expect(res.body.summary.dischargeAh).toBeCloseTo((5 * 60) / 3600, 6);
   });
 
   it('a ; file whose headers hold commas is read as ;-separated', async () => {
     const csv = 'Time, s;Voltage, V;Current, A\n' + lines(11, String, '2,5', ';').replace(/(\d)\.(\d{4});/g, '$1,$2;');
     const res = await upload(csv);
     expect(res.status).toBe(201);
-    expect(res.body.summary.chargeAh).toBeCloseTo((2.5 * 10) / 3600, 12);
+    expect(res.body.summary.dischargeAh).toBeCloseTo((2.5 * 10) / 3600, 12);
   });
 });
 
@@ -202,14 +202,14 @@ describe('import: current sign (issue 11 item 2)', () => {
 });
 
 describe('import: cadence, acceptance and electrolyte temperature (issue 11 Deliver 2, 6, 7)', () => {
-  it.each([1, 60, 300])('a %i s log of a constant 5 A integrates to the analytic Ah', async (stepS) => {
-    const count = Math.round((6 * 3600) / stepS) + 1;
-    const res = await upload('time_s,volts,amps\n' + lines(count, (i) => String(i * stepS)));
+  it.each([1, 60, 300])('a %i s log of a constant 5 A integrates to the analytic Ah', async (stepSeconds) => {
+    const count = Math.round((6 * 3600) / stepSeconds) + 1;
+    const res = await upload('time_s,volts,amps\n' + lines(count, (i) => String(i * stepSeconds)));
     expect(res.status).toBe(201);
     // 5 A for 6 h is 30 Ah (constant-current arithmetic).
     expect(Math.abs(res.body.fullSummary.dischargeAh - 30) / 30).toBeLessThan(1e-9);
     expect(res.body.fullSummary.gaps).toBe(0);
-    expect(res.body.summary.medianIntervalS).toBe(stepS);
+    expect(res.body.summary.medianIntervalSeconds).toBe(stepSeconds);
   });
 
   it('a 60 s log with a real 30-minute hole still reports the gap', async () => {

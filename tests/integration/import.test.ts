@@ -41,15 +41,15 @@ describe('POST /api/runs/import', () => {
     // Source: NASA Ames PCoE Li-ion Battery Aging Datasets (Saha & Goebel, 2007), B0005 cycle 1:
     // 1.8564874208181574 Ah through the first sample below 2.7 V (the authors' figure), about
     // 1.849825 Ah to the interpolated 2.7 V crossing (reference-data README), which we report.
-    expect(Math.abs(s.chargeAh - 1.849825)).toBeLessThan(5e-6);
-    expect(s.chargeAh).toBeLessThan(1.8564874208181574);
+    expect(Math.abs(s.dischargeAh - 1.849825)).toBeLessThan(5e-6);
+    expect(s.dischargeAh).toBeLessThan(1.8564874208181574);
     expect(s.energyWh).toBeLessThan(6.593751); // the README's energy through the first sample below
-    expect(s.cutoff.atS).toBeGreaterThan(3327.234); // between the last sample above 2.7 V…
-    expect(s.cutoff.atS).toBeLessThan(3346.937); // …and the first below
+    expect(s.cutoff.atSeconds).toBeGreaterThan(3327.234); // between the last sample above 2.7 V…
+    expect(s.cutoff.atSeconds).toBeLessThan(3346.937); // …and the first below
     expect(s.cutoff.volts).toBe(2.7);
-    expect(s.recoveryS).toBeNull();
+    expect(s.recoverySeconds).toBeNull();
     expect(s.rows).toBe(197);
-    expect(s.percentOfRated).toBeCloseTo((s.chargeAh / 2) * 100, 9);
+    expect(s.percentOfRated).toBeCloseTo((s.dischargeAh / 2) * 100, 9);
     expect(res.body.run).toMatchObject({ origin: 'import', state: 'finished', readingsCount: 197, batteryId: battery.id });
     // The imported readings are archived like a live run's.
     const samples = (await viewer.get(`/api/runs/${res.body.run.id}/samples?maxPoints=1000`).expect(200)).body;
@@ -84,7 +84,7 @@ describe('POST /api/runs/import', () => {
       .attach('file', Buffer.from(csv), 'm.csv')
       .expect(201);
     // 1 A for 1 h at 12 V: 1 Ah, 12 Wh (constant values, exact).
-    expect(res.body.summary.chargeAh).toBeCloseTo(1, 12);
+    expect(res.body.summary.dischargeAh).toBeCloseTo(1, 12);
     expect(res.body.summary.energyWh).toBeCloseTo(12, 12);
     expect(res.body.summary.percentOfRated).toBeUndefined();
   });
@@ -174,7 +174,7 @@ describe('POST /api/runs/import', () => {
     clearInterval(probe);
     expect(res.body.summary.rows).toBe(ROWS);
     // 999,999 steps of 0.1 s at a constant 4 A: 4 × 99,999.9 / 3600 Ah (exact for a constant).
-    expect(res.body.summary.chargeAh).toBeCloseTo((4 * 99_999.9) / 3600, 9);
+    expect(res.body.summary.dischargeAh).toBeCloseTo((4 * 99_999.9) / 3600, 9);
     // A million readings held as objects (about 300 bytes each with their boxed doubles and
     // temps) would need some 300 MB of heap on top of the 40 MB file; streaming stays below
     // that even counting garbage the collector has not reclaimed yet.

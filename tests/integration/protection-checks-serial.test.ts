@@ -75,7 +75,7 @@ async function play(input: unknown, checks: ProtectionRequest[], specs: Protecti
 }
 
 /** The largest change of a check's signal between two readings from the crossing to the trip (the drift over the delay). */
-function driftPerSample(row: ProtectionResult, frames: Frame[], fromT: number, toT: number): number {
+function driftPerReading(row: ProtectionResult, frames: Frame[], fromT: number, toT: number): number {
   const signal = (f: Frame) => (PROTECTION_TRAITS[row.protection].signal === 'volts' ? f.volts : PROTECTION_TRAITS[row.protection].signal === 'amps' ? f.amps : f.temps!.cell!);
   let most = 0;
   for (let i = 1; i < frames.length; i++) if (frames[i]!.t >= fromT && frames[i]!.t <= toT) most = Math.max(most, Math.abs(signal(frames[i]!) - signal(frames[i - 1]!)));
@@ -83,14 +83,14 @@ function driftPerSample(row: ProtectionResult, frames: Frame[], fromT: number, t
 }
 
 /** Checks one row against the simulator: delay within one sample, threshold within the drift over the delay plus a sample, resume time as the BMS's. */
-function expectGivenBack(p: Played, row: ProtectionResult, protection: string, simProtection: string, delayS: number): void {
+function expectGivenBack(p: Played, row: ProtectionResult, protection: string, simProtection: string, delaySeconds: number): void {
   const trip = p.sim.find((e) => e.kind === 'bms-trip' && e.protection === simProtection)!;
   const release = p.sim.find((e) => e.kind === 'bms-release' && e.protection === simProtection && e.t > trip.t);
   expect(row.protection).toBe(protection);
   expect(row.outcome).toBe('pass');
-  expect(Math.abs(row.measuredDelaySeconds! - delayS)).toBeLessThanOrEqual(SAMPLE_PERIOD_S);
-  const drift = driftPerSample(row, p.frames, trip.t - delayS - 2 * SAMPLE_PERIOD_S, trip.t + SAMPLE_PERIOD_S);
-  expect(Math.abs(row.measuredValue! - row.expectedValue)).toBeLessThanOrEqual(drift * (delayS + SAMPLE_PERIOD_S) + 1e-9);
+  expect(Math.abs(row.measuredDelaySeconds! - delaySeconds)).toBeLessThanOrEqual(SAMPLE_PERIOD_S);
+  const drift = driftPerReading(row, p.frames, trip.t - delaySeconds - 2 * SAMPLE_PERIOD_S, trip.t + SAMPLE_PERIOD_S);
+  expect(Math.abs(row.measuredValue! - row.expectedValue)).toBeLessThanOrEqual(drift * (delaySeconds + SAMPLE_PERIOD_S) + 1e-9);
   if (release) expect(Math.abs(row.resumeSeconds! - (release.t - trip.t))).toBeLessThanOrEqual(SAMPLE_PERIOD_S);
   expect(row.window!.fromSeconds).toBeLessThanOrEqual(trip.t);
 }
@@ -100,24 +100,24 @@ describe('protection checks over the real serial path give back the BMS settings
     const bms = checkColdCharge.bms!;
     const heater = checkColdCharge.pack.heater!;
     const p = await play(checkColdCharge, [
-      { protection: 'cold-charge', thresholdValue: bms.coldChargeBelowC, delaySeconds: bms.coldChargeDelayS, releaseValue: bms.coldChargeReleaseC, channel: 'cell' },
-      { protection: 'heater-on', thresholdValue: heater.onBelowC, channel: 'cell' },
-      { protection: 'heater-off', thresholdValue: heater.offAboveC, channel: 'cell' },
+      { protection: 'cold-charge', thresholdValue: bms.coldChargeBelowCelsius, delaySeconds: bms.coldChargeDelaySeconds, releaseValue: bms.coldChargeReleaseCelsius, channel: 'cell' },
+      { protection: 'heater-on', thresholdValue: heater.onBelowCelsius, channel: 'cell' },
+      { protection: 'heater-off', thresholdValue: heater.offAboveCelsius, channel: 'cell' },
     ]);
     expect(p.summary.verdict).toBe('not-applicable');
     expect(p.summary.percentRatedAh).toBeNull();
     expect(p.summary.chargeAh).toBeGreaterThan(0);
     const [cold, on, off] = p.rows;
-    expectGivenBack(p, cold!, 'cold-charge', 'cold-charge', bms.coldChargeDelayS);
+    expectGivenBack(p, cold!, 'cold-charge', 'cold-charge', bms.coldChargeDelaySeconds);
     // Charging resumes once the pack has warmed past the release temperature (within a sample's warming).
-    expect(cold!.releaseValue!).toBeGreaterThanOrEqual(bms.coldChargeReleaseC - 0.05);
-    expect(cold!.releaseValue!).toBeLessThan(bms.coldChargeReleaseC + 0.1);
+    expect(cold!.releaseValue!).toBeGreaterThanOrEqual(bms.coldChargeReleaseCelsius - 0.05);
+    expect(cold!.releaseValue!).toBeLessThan(bms.coldChargeReleaseCelsius + 0.1);
     const simOn = p.sim.find((e) => e.kind === 'heater-on')!;
     const simOff = p.sim.find((e) => e.kind === 'heater-off')!;
     expect(on).toMatchObject({ protection: 'heater-on', outcome: 'pass' });
     expect(off).toMatchObject({ protection: 'heater-off', outcome: 'pass' });
-    expect(Math.abs(on!.measuredValue! - simOn.tempC!)).toBeLessThan(0.1);
-    expect(Math.abs(off!.measuredValue! - simOff.tempC!)).toBeLessThan(0.1);
+    expect(Math.abs(on!.measuredValue! - simOn.tempCelsius!)).toBeLessThan(0.1);
+    expect(Math.abs(off!.measuredValue! - simOff.tempCelsius!)).toBeLessThan(0.1);
     // PWM 2 s on / 1 s off: the mean is about two thirds of the peak (V²/R at the charger's voltage).
     expect(off!.meanHeaterAmps! / off!.peakHeaterAmps!).toBeGreaterThan(0.6);
     expect(off!.meanHeaterAmps! / off!.peakHeaterAmps!).toBeLessThan(0.73);
@@ -125,10 +125,10 @@ describe('protection checks over the real serial path give back the BMS settings
 
   it('over-temperature on discharge and on charge', async () => {
     const bms = checkHotDischarge.bms!;
-    const d = await play(checkHotDischarge, [{ protection: 'over-temp-discharge', thresholdValue: bms.overTempC, delaySeconds: bms.overTempDelayS, channel: 'cell' }]);
-    expectGivenBack(d, d.rows[0]!, 'over-temp-discharge', 'over-temperature', bms.overTempDelayS);
-    const c = await play(checkHotCharge, [{ protection: 'over-temp-charge', thresholdValue: bms.overTempC, delaySeconds: bms.overTempDelayS, channel: 'cell' }]);
-    expectGivenBack(c, c.rows[0]!, 'over-temp-charge', 'over-temperature', bms.overTempDelayS);
+    const d = await play(checkHotDischarge, [{ protection: 'over-temp-discharge', thresholdValue: bms.overTempCelsius, delaySeconds: bms.overTempDelaySeconds, channel: 'cell' }]);
+    expectGivenBack(d, d.rows[0]!, 'over-temp-discharge', 'over-temperature', bms.overTempDelaySeconds);
+    const c = await play(checkHotCharge, [{ protection: 'over-temp-charge', thresholdValue: bms.overTempCelsius, delaySeconds: bms.overTempDelaySeconds, channel: 'cell' }]);
+    expectGivenBack(c, c.rows[0]!, 'over-temp-charge', 'over-temperature', bms.overTempDelaySeconds);
   }, 240_000);
 
   it('over-current, low-voltage cutoff and recovery (thresholds from the pack\'s record), high-voltage cutoff', async () => {
@@ -137,18 +137,18 @@ describe('protection checks over the real serial path give back the BMS settings
     // Nothing typed on the run but the protections: thresholds and delays come from the pack's record.
     const e = await play(checkElectricalDischarge, [{ protection: 'over-current' }, { protection: 'low-voltage' }], [
       // A 45 A step on a 40 A limit: the trip value is the step's current, so the record states a 5 A tolerance.
-      { protection: 'over-current', thresholdValue: bms.overCurrentAmps, delaySeconds: bms.overCurrentDelayS, thresholdTolerance: 5 },
-      { protection: 'low-voltage', thresholdValue: bms.cellUnderVolts * cells, delaySeconds: bms.underVoltDelayS },
+      { protection: 'over-current', thresholdValue: bms.overCurrentAmps, delaySeconds: bms.overCurrentDelaySeconds, thresholdTolerance: 5 },
+      { protection: 'low-voltage', thresholdValue: bms.cellUnderVolts * cells, delaySeconds: bms.underVoltDelaySeconds },
     ]);
     expect(e.rows[0]).toMatchObject({ protection: 'over-current', expectedValue: 40, measuredValue: 45, thresholdTolerance: 5, outcome: 'pass' });
-    expect(Math.abs(e.rows[0]!.measuredDelaySeconds! - bms.overCurrentDelayS)).toBeLessThanOrEqual(SAMPLE_PERIOD_S);
-    expect(Math.abs(e.rows[0]!.resumeSeconds! - bms.overCurrentRecoveryS)).toBeLessThanOrEqual(SAMPLE_PERIOD_S);
-    expectGivenBack(e, e.rows[1]!, 'low-voltage', 'under-voltage', bms.underVoltDelayS);
-    expect(Math.abs(e.rows[1]!.resumeSeconds! - bms.underVoltRecoveryS)).toBeLessThanOrEqual(SAMPLE_PERIOD_S);
+    expect(Math.abs(e.rows[0]!.measuredDelaySeconds! - bms.overCurrentDelaySeconds)).toBeLessThanOrEqual(SAMPLE_PERIOD_S);
+    expect(Math.abs(e.rows[0]!.resumeSeconds! - bms.overCurrentRecoverySeconds)).toBeLessThanOrEqual(SAMPLE_PERIOD_S);
+    expectGivenBack(e, e.rows[1]!, 'low-voltage', 'under-voltage', bms.underVoltDelaySeconds);
+    expect(Math.abs(e.rows[1]!.resumeSeconds! - bms.underVoltRecoverySeconds)).toBeLessThanOrEqual(SAMPLE_PERIOD_S);
 
     const hv = checkHighVoltage.bms!;
-    const h = await play(checkHighVoltage, [{ protection: 'high-voltage', thresholdValue: hv.cellOverVolts * cells, delaySeconds: hv.overVoltDelayS }]);
-    expectGivenBack(h, h.rows[0]!, 'high-voltage', 'over-voltage', hv.overVoltDelayS);
+    const h = await play(checkHighVoltage, [{ protection: 'high-voltage', thresholdValue: hv.cellOverVolts * cells, delaySeconds: hv.overVoltDelaySeconds }]);
+    expectGivenBack(h, h.rows[0]!, 'high-voltage', 'over-voltage', hv.overVoltDelaySeconds);
 
     // The pack's record: every protection checked on its runs, latest run first.
     const batteryId = (await tech.get(`/api/runs/${e.runId}`).expect(200)).body.run.batteryId;

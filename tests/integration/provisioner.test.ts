@@ -5,6 +5,7 @@ import { join, resolve } from 'node:path';
 import mariadb from 'mariadb';
 import { provisionMariaDb, type ProvisionedMariaDb, type ProvisionOptions } from '../../server/db/provisioner.js';
 import { findRunningMariaDb, isAlive, stopMariaDb, waitFor } from '../../server/db/mariadb-process.js';
+import { quietLogger } from '../../server/log/logger.js';
 
 // Its own data directories and ports: never the demo (3307) or the shared test server (3317).
 const BASE_DIR = resolve('.data/test-mariadb-provisioner');
@@ -14,7 +15,7 @@ const TAKEN_PORT = 3319;
 const FAIL_FAST_MS = 3_000;
 
 const options: ProvisionOptions = {
-  baseDir: BASE_DIR, port: PORT, database: 'prov_check', user: 'prov_user', password: 'prov-password-123', log: () => {},
+  baseDir: BASE_DIR, port: PORT, database: 'prov_check', user: 'prov_user', password: 'prov-password-123', log: quietLogger,
 };
 
 async function query<T>(db: ProvisionedMariaDb, sql: string, values?: unknown[]): Promise<T> {

@@ -158,8 +158,8 @@ describe('a live run', () => {
     // Cell warms 0.5 °C/s from 50 °C, crosses 60 °C at s = 20; the pack opens 12 s later (a made-up delay for the check).
     const TRIP_DELAY_S = 12;
     for (let s = 0; s < 60; s++) {
-      const tempC = 50 + s * 0.5;
-      feed.emit(ids.benchId, { t: 30_000 + s, volts: 13, amps: s < 20 + TRIP_DELAY_S ? 5 : 0, temps: { cell: tempC }, clock: 'device' });
+      const tempCelsius = 50 + s * 0.5;
+      feed.emit(ids.benchId, { t: 30_000 + s, volts: 13, amps: s < 20 + TRIP_DELAY_S ? 5 : 0, temps: { cell: tempCelsius }, clock: 'device' });
     }
     await tech.post(`/api/runs/${res.body.run.id}/stop`).send({}).expect(200);
     const events = await eventually(async () => {

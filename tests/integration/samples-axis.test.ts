@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { SamplesResponseSchema } from '../../shared/schemas/api-runs.js';
 import { createTestContext, signInAs, type SignedInAgent, type TestContext } from './helpers/index.js';
+import { SECONDS_PER_HOUR } from '../../shared/units/time.js';
 
 let t: TestContext;
 let tech: SignedInAgent;
@@ -10,7 +11,6 @@ let runId: number;
 const AMPS = 2;
 const STEP_S = 10;
 const STEPS = 360; // one hour
-const SECONDS_PER_HOUR = 3600;
 
 beforeAll(async () => {
   t = await createTestContext();

@@ -1,6 +1,7 @@
 import { resolve } from 'node:path';
 import type { TestProject } from 'vitest/node';
 import { provisionMariaDb } from '../../server/db/provisioner.js';
+import { createLogger } from '../../server/log/logger.js';
 
 /** Connection to the test MariaDB, handed to test files with `inject('mariadb')`. */
 export interface TestMariaDbInfo {
@@ -38,7 +39,7 @@ export default async function setup(project: TestProject): Promise<() => Promise
     user: 'kneepoint_test',
     password: TEST_DB_PASSWORD,
     grantAllDatabases: true,
-    log: (message) => console.log(`[test-mariadb] ${message}`),
+    log: createLogger('test-mariadb'),
   });
   project.provide('mariadb', {
     host: mariadb.host, port: mariadb.port, user: mariadb.user, password: mariadb.password, database: mariadb.database,

@@ -1,6 +1,7 @@
 import { createRunPipeline, type RunPipeline } from '../../../shared/measure/run-pipeline.js';
 import type { Reading } from '../../../shared/schemas/reading.js';
 import type { FakeInstrument } from './fake-instrument.js';
+import { SECONDS_PER_HOUR } from '../../../shared/units/time.js';
 
 /** A made-up pack for tests: open-circuit volts linear in state of charge, one series resistance. */
 export interface FakePackSpec {
@@ -12,7 +13,6 @@ export interface FakePackSpec {
   tempCelsius: number;
 }
 
-const SECONDS_PER_HOUR = 3600;
 
 /**
  * A pack wired to a fake load and a fake supply: each `step(dt)` works out the current the

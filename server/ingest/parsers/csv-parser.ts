@@ -4,8 +4,8 @@ import { FieldSpans, splitPlain } from './csv-fields.js';
 import { clip, reject, type LineParser, type ParseResult, type SpanParser } from './parse-result.js';
 import { readDecimal } from './strict-number.js';
 import { toAmps, toCelsius, toVolts } from './units.js';
+import { MS_PER_S } from '../../../shared/units/time.js';
 
-const MS_PER_S = 1000;
 const CODE_0 = 48;
 const CODE_9 = 57;
 const CODE_DASH = 45;

@@ -2,8 +2,8 @@ import type { JsonlFormat } from '../../../shared/schemas/bench.js';
 import type { Frame } from '../../../shared/schemas/frame.js';
 import { clip, reject, type LineParser, type ParseResult } from './parse-result.js';
 import { timeToSeconds, toAmps, toCelsius, toVolts } from './units.js';
+import { MS_PER_S } from '../../../shared/units/time.js';
 
-const MS_PER_S = 1000;
 
 /**
  * Parses one JSON line into a Frame through the field map. Volts and amps are required

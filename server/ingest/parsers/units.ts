@@ -1,12 +1,9 @@
 import type { CurrentSign } from '../../../shared/schemas/bench.js';
 import { isBlank } from './csv-fields.js';
 import { readDecimal } from './strict-number.js';
+import { MS_PER_S } from '../../../shared/units/time.js';
 
-const MS_PER_S = 1000;
 const MILLI = 1000;
-const KELVIN_OFFSET = 273.15;
-const FAHRENHEIT_OFFSET = 32;
-const FAHRENHEIT_PER_C = 1.8;
 
 /** Parses a decimal number strictly (no empty string, no trailing junk, finite only; blanks around it allowed). */
 export function parseStrictNumber(text: string): number | undefined {
@@ -42,9 +39,5 @@ export function toAmps(value: number, unit: 'A' | 'mA', sign: CurrentSign): numb
   return (sign === 'discharge-negative' ? -amps : amps) + 0;
 }
 
-/** °C from °C, °F or K. */
-export function toCelsius(value: number, unit: 'C' | 'F' | 'K'): number {
-  if (unit === 'F') return (value - FAHRENHEIT_OFFSET) / FAHRENHEIT_PER_C;
-  if (unit === 'K') return value - KELVIN_OFFSET;
-  return value;
-}
+/** °C from °C, °F or K (the one conversion in shared/units). */
+export { toCelsius } from '../../../shared/units/convert.js';

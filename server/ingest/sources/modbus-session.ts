@@ -6,8 +6,8 @@ import { decodeRegister, planReads, type ReadBlock } from '../parsers/modbus-reg
 import { toAmps } from '../parsers/units.js';
 import { ModbusRtuPort } from './modbus-rtu-port.js';
 import type { PortSession, SessionContext } from './port-session.js';
+import { MS_PER_S } from '../../../shared/units/time.js';
 
-const MS_PER_S = 1000;
 // modbus-serial is CommonJS with `module.exports.default = module.exports`; under NodeNext
 // the default import is the module object, whose `default` is the client class.
 const ModbusRTU = modbusSerial.default;

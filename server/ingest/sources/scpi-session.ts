@@ -5,8 +5,8 @@ import { LineFramer } from '../framer/line-framer.js';
 import { parseScpiNumber } from '../parsers/scpi-reply.js';
 import { toAmps } from '../parsers/units.js';
 import type { PortSession, SessionContext } from './port-session.js';
+import { MS_PER_S } from '../../../shared/units/time.js';
 
-const MS_PER_S = 1000;
 
 /**
  * Polls a SCPI instrument: asks `*IDN?` once, then every `pollMs` sends the volts, amps

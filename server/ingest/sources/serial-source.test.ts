@@ -11,7 +11,7 @@ const config = SerialSourceConfigSchema.parse({
   kind: 'serial',
   path: PATH,
   baudRate: 9600,
-  staleAfterS: STALE_AFTER_S,
+  staleAfterSeconds: STALE_AFTER_S,
   format: { kind: 'csv', columns: ['t', 'volts', 'amps'] },
 });
 
@@ -60,7 +60,7 @@ describe('SerialSource', () => {
     await source.stop();
   });
 
-  it('goes stale after staleAfterS without a valid frame and recovers on the next one', async () => {
+  it('goes stale after staleAfterSeconds without a valid frame and recovers on the next one', async () => {
     const { clock, ports, source, statuses } = setup();
     source.start();
     await settle();

@@ -9,10 +9,10 @@ import type { PortSession, SessionContext } from './port-session.js';
 import { startScpiSession } from './scpi-session.js';
 import { openRealPort, type PortFactory, type SerialPortLike } from './serial-port-factory.js';
 import { safeDeliver, type Source, type SourceSink } from './source.js';
+import { MS_PER_S } from '../../../shared/units/time.js';
 
 /** Waits between reopen attempts after an unplug or a failed open; the last one repeats. */
 export const RECONNECT_DELAYS_MS = [250, 500, 1000, 2000, 5000, 10_000] as const;
-const MS_PER_S = 1000;
 /**
  * A port that stays stale this many watchdog periods is closed and reopened: a USB reset
  * can leave a port open but dead, and only a reopen brings it back.
@@ -53,7 +53,7 @@ export class SerialSource implements Source {
     this.clock = deps.clock ?? systemClock;
     this.openPort = deps.openPort ?? openRealPort;
     this.delaysMs = deps.reconnectDelaysMs ?? RECONNECT_DELAYS_MS;
-    const staleAfterMs = config.staleAfterS * MS_PER_S;
+    const staleAfterMs = config.staleAfterSeconds * MS_PER_S;
     this.tracker = new StatusTracker(this.clock, staleAfterMs, (s) => safeDeliver(sink.status, s), () =>
       this.scheduleStaleReopen(staleAfterMs * STALE_PERIODS_BEFORE_REOPEN),
     );

@@ -1,7 +1,7 @@
 import { MAX_POLL_MS, MIN_POLL_MS, SerialFormatSchema, type RegisterSpec, type SerialFormat } from '../../../shared/schemas/bench.js';
 import { csvOptionsFor, DEFAULT_REGISTER_MAP, type RegisterMap, type Scenario } from '../../../simulator/index.js';
+import { MS_PER_S } from '../../../shared/units/time.js';
 
-const MS_PER_S = 1000;
 /** A reply slower than this from a simulated meter on a local pty means something is wrong. */
 const SIMULATED_REPLY_TIMEOUT_MS = 1000;
 const TYPE_NAMES = { uint16: 'u16', int16: 'i16', uint32: 'u32', int32: 'i32' } as const;
@@ -13,7 +13,7 @@ const TYPE_NAMES = { uint16: 'u16', int16: 'i16', uint32: 'u32', int32: 'i32' } 
  * polled once per simulated sample.
  */
 export function serialFormatForSimulator(format: 'csv' | 'jsonl' | 'scpi' | 'modbus', scenario: Scenario, speed: number): SerialFormat {
-  const pollMs = Math.min(MAX_POLL_MS, Math.max(MIN_POLL_MS, Math.round((scenario.meter.samplePeriodS * MS_PER_S) / speed)));
+  const pollMs = Math.min(MAX_POLL_MS, Math.max(MIN_POLL_MS, Math.round((scenario.meter.readingPeriodSeconds * MS_PER_S) / speed)));
   switch (format) {
     case 'csv':
       return SerialFormatSchema.parse({ kind: 'csv', columns: (csvOptionsFor(scenario).columns ?? []).map((c) => c.field) });

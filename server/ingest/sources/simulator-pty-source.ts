@@ -5,8 +5,8 @@ import { StatusTracker } from '../status-tracker.js';
 import { SerialSource, type SerialSourceDeps } from './serial-source.js';
 import { serialFormatForSimulator } from './simulator-formats.js';
 import { safeDeliver, type Source, type SourceSink } from './source.js';
+import { MS_PER_S } from '../../../shared/units/time.js';
 
-const MS_PER_S = 1000;
 /** Pseudo-terminal links live under /tmp, never in the repository (Tailwind hangs scanning them). */
 const LINK_DIR = '/tmp';
 let linkCounter = 0;
@@ -65,13 +65,13 @@ export class SimulatorPtySource implements Source {
         linkPath,
         speed: this.config.speed,
         seed: this.config.seed,
-        clock: { now: () => clock.nowMs(), setTimeout: (fn, ms) => clock.setTimeout(fn, ms), clearTimeout: (h) => clock.clearTimeout(h as object) },
+        clock,
       });
       if (!this.running) return void (await meter.stop());
       this.meter = meter;
       const format = serialFormatForSimulator(this.config.format, scenario, this.config.speed);
       const serial = new SerialSource(
-        { kind: 'serial', path: linkPath, baudRate: 115200, dataBits: 8, parity: 'none', stopBits: 1, staleAfterS: this.config.staleAfterS, format, limits: this.config.limits },
+        { kind: 'serial', path: linkPath, baudRate: 115200, dataBits: 8, parity: 'none', stopBits: 1, staleAfterSeconds: this.config.staleAfterSeconds, format, limits: this.config.limits },
         this.sink,
         this.deps,
       );
@@ -80,7 +80,7 @@ export class SimulatorPtySource implements Source {
       void meter.finished.then(async () => {
         if (this.serial !== serial) return;
         // Let the last bytes through before closing, then say why the stream ended.
-        await new Promise((r) => clock.setTimeout(() => r(undefined), this.config.staleAfterS * MS_PER_S));
+        await new Promise((r) => clock.setTimeout(() => r(undefined), this.config.staleAfterSeconds * MS_PER_S));
         if (this.serial !== serial) return;
         this.serial = undefined;
         await serial.stop();

@@ -1,12 +1,12 @@
 import type { BenchStatus, SimulatorSourceConfig } from '../../../shared/schemas/bench.js';
 import type { Frame } from '../../../shared/schemas/frame.js';
-import { createSimulation, loadScenario, type SimSample, type Simulation } from '../../../simulator/index.js';
+import { createSimulation, loadScenario, type SimReading, type Simulation } from '../../../simulator/index.js';
 import { systemClock, type Clock } from '../clock.js';
 import { frameRejection } from '../frame-limits.js';
 import { StatusTracker } from '../status-tracker.js';
 import { safeDeliver, type Source, type SourceSink } from './source.js';
+import { MS_PER_S } from '../../../shared/units/time.js';
 
-const MS_PER_S = 1000;
 type Player = ReturnType<Simulation['play']>;
 
 /**
@@ -25,7 +25,7 @@ export class SimulatorSource implements Source {
     private readonly sink: SourceSink,
     private readonly clock: Clock = systemClock,
   ) {
-    this.tracker = new StatusTracker(clock, config.staleAfterS * MS_PER_S, (s) => safeDeliver(sink.status, s));
+    this.tracker = new StatusTracker(clock, config.staleAfterSeconds * MS_PER_S, (s) => safeDeliver(sink.status, s));
   }
 
   /** Loads the scenario and starts playing it; an unknown scenario becomes an error status. */
@@ -36,10 +36,10 @@ export class SimulatorSource implements Source {
       const simulation = createSimulation(loadScenario(this.config.scenario), {
         seed: this.config.seed,
         speed: this.config.speed,
-        clock: { now: () => this.clock.nowMs(), setTimeout: (fn, ms) => this.clock.setTimeout(fn, ms), clearTimeout: (h) => this.clock.clearTimeout(h as object) },
+        clock: this.clock,
       });
       this.tracker.connected(`simulating ${this.config.scenario} at ${this.config.speed}×`);
-      const player = simulation.play((sample) => this.onSample(sample));
+      const player = simulation.play((sample) => this.onReading(sample));
       this.player = player;
       void player.finished.then(() => {
         if (this.running && this.player === player) this.tracker.idle(`scenario ${this.config.scenario} finished`);
@@ -64,7 +64,7 @@ export class SimulatorSource implements Source {
     return this.tracker.snapshot();
   }
 
-  private onSample(sample: SimSample): void {
+  private onReading(sample: SimReading): void {
     if (!this.running || sample.lost) return;
     if (sample.corrupt) {
       this.tracker.rejected(`frame ${sample.seq} corrupted on the (simulated) wire`);

@@ -1,7 +1,7 @@
 import { SerialPortMock } from 'serialport';
 import type { PortFactory, SerialPortLike } from '../sources/serial-port-factory.js';
 
-/** serialport's mock binding (MACHINE-FACTS: go through SerialPortMock.binding, not MockBinding). */
+/** serialport's mock binding: go through SerialPortMock.binding (importing MockBinding loads a second copy whose ports are not found). */
 export const mockBinding = SerialPortMock.binding;
 
 /** A port factory over the mock binding that remembers every port it made. */

@@ -30,7 +30,7 @@ describe('LiveChart', () => {
     expect(plot.data[0]).toEqual([0, 0.1, 0.2, 0.3, 0.4]);
     expect(plot.data[1]).toEqual([12.9, 12.9, 12.9, 12.9, 12.9]);
     // A frame with nothing new draws nothing.
-    store.handle({ type: 'status', seq: 1, topic, status: { state: 'receiving', framesOk: 5, framesRejected: 0 } });
+    store.handle({ type: 'status', topic, status: { state: 'receiving', framesOk: 5, framesRejected: 0 } });
     act(() => frames.splice(0).forEach((fn) => fn()));
     expect(plot.setDataCalls).toBe(1);
   });

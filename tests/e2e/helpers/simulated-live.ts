@@ -46,7 +46,6 @@ export interface SimulatedBench {
 /** Serves /ws for the page; returns a function that pushes a live event to run subscribers. */
 export async function simulateLive(page: Page, benches: SimulatedBench[]): Promise<{ pushEvent(runId: number, event: RunEvent): void }> {
   const sockets = new Set<{ ws: WebSocketRoute; topics: Set<string> }>();
-  let seq = 0;
   const send = (ws: WebSocketRoute, message: ServerMessage) => ws.send(JSON.stringify(ServerMessageSchema.parse(message)));
   const empty: ReadingColumns = { t: [], volts: [], amps: [], watts: [], temps: {} };
 
@@ -54,7 +53,7 @@ export async function simulateLive(page: Page, benches: SimulatedBench[]): Promi
     const peer = { ws, topics: new Set<string>() };
     sockets.add(peer);
     ws.onClose(() => sockets.delete(peer));
-    send(ws, { type: 'hello', seq: seq++, serverTimeMs: Date.now(), user: { id: 2, role: 'technician' } });
+    send(ws, { type: 'hello', serverTimeMs: Date.now(), user: { id: 2, role: 'technician' } });
     ws.onMessage((raw) => {
       const message = ClientMessageSchema.parse(JSON.parse(String(raw)));
       if (message.type !== 'subscribe') return;
@@ -64,7 +63,9 @@ export async function simulateLive(page: Page, benches: SimulatedBench[]): Promi
       const status = { state: 'receiving' as const, framesOk: bench?.recent.t.length ?? 0, framesRejected: 0, lastFrameAt: new Date().toISOString() };
       send(ws, {
         type: 'snapshot',
-        seq: seq++,
+        stream: 'simulated',
+        seq: bench?.recent.t.length ?? 0,
+        resume: 'fresh',
         topic,
         status: topic.kind === 'bench' ? status : null,
         run: bench?.run ?? null,
@@ -79,7 +80,7 @@ export async function simulateLive(page: Page, benches: SimulatedBench[]): Promi
       // Later subscribers get it in their snapshot, as from the real hub.
       benches.find((b) => b.run?.id === runId)?.events.push(event);
       for (const peer of sockets) {
-        if (peer.topics.has(`run:${runId}`)) send(peer.ws, { type: 'event', seq: seq++, topic: { kind: 'run', id: runId }, eventId: null, event });
+        if (peer.topics.has(`run:${runId}`)) send(peer.ws, { type: 'event', topic: { kind: 'run', id: runId }, eventId: null, event });
       }
     },
   };

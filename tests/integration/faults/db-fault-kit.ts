@@ -13,10 +13,10 @@ import { hashPassword } from '../../../server/auth/password.js';
 import { defineCoreModels } from '../../../server/db/models/index.js';
 import { createSequelize } from '../../../server/db/sequelize.js';
 import { openPtyPair, type PtyPair } from '../../../simulator/transport/socat.js';
+import { SECONDS_PER_HOUR } from '../../../shared/units/time.js';
 
 const START_TIMEOUT_MS = 120_000;
 const STOP_TIMEOUT_MS = 30_000;
-const SECONDS_PER_HOUR = 3600;
 /** The test MariaDB's port + this = the fault suite's own MariaDB (3317 → 3327 in CI). */
 const FAULT_DB_PORT_OFFSET = 10;
 
@@ -197,13 +197,13 @@ export class PtyMeter {
   /** Starts sending at `hz`; frame k has t = k / hz s, a slowly falling voltage and a steady discharge current. */
   start(hz: number): void {
     this.fd ??= openSync(this.pair.devicePath, 'w');
-    const periodS = 1 / hz;
+    const periodSeconds = 1 / hz;
     this.timer = setInterval(() => {
       const k = this.sent.length;
-      const frame = { t: +(k * periodS).toFixed(3), volts: +(13.3 - k * 0.0002).toFixed(4), amps: +(18 + (k % 7) * 0.25).toFixed(2) };
+      const frame = { t: +(k * periodSeconds).toFixed(3), volts: +(13.3 - k * 0.0002).toFixed(4), amps: +(18 + (k % 7) * 0.25).toFixed(2) };
       this.sent.push(frame);
       writeSync(this.fd!, `${frame.t},${frame.volts},${frame.amps}\n`);
-    }, periodS * 1000);
+    }, periodSeconds * 1000);
   }
 
   /** Stops sending (the pseudo-terminal stays open). */

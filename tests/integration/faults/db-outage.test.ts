@@ -108,8 +108,8 @@ async function recordThrough(name: string, outage: () => Promise<Outage>) {
   expect(Math.abs(stopped.summary.dischargeAh - reference.ah) / reference.ah).toBeLessThan(RELATIVE_TOLERANCE);
 
   // Live streaming went on through the outage.
-  const outageS = (window.toMs - window.fromMs) / 1000;
-  expect(viewer.countBetween(window.fromMs, window.toMs)).toBeGreaterThanOrEqual(Math.floor(outageS * HZ * 0.8));
+  const outageSeconds = (window.toMs - window.fromMs) / 1000;
+  expect(viewer.countBetween(window.fromMs, window.toMs)).toBeGreaterThanOrEqual(Math.floor(outageSeconds * HZ * 0.8));
 
   // Every answer during the outage (and around it) came within the limit, as 200 or 503.
   const during = poll.answers.filter((a) => a.atMs + a.ms >= window.fromMs && a.atMs <= window.toMs);
@@ -119,7 +119,7 @@ async function recordThrough(name: string, outage: () => Promise<Outage>) {
     if (a.status === 503) expect(a.body.error.message).toMatch(/database .*Recording and live readings continue/);
   }
   // The figures docs/reliability.md quotes.
-  console.info(`${name}: outage ${outageS.toFixed(1)} s; ${during.length} answers during it, ${during.filter((a) => a.status === 503).length} were 503, ` +
+  console.info(`${name}: outage ${outageSeconds.toFixed(1)} s; ${during.length} answers during it, ${during.filter((a) => a.status === 503).length} were 503, ` +
     `slowest ${Math.max(...poll.answers.map((a) => a.ms)).toFixed(0)} ms; ${viewer.countBetween(window.fromMs, window.toMs)} readings streamed during it; ` +
     `${cols.t!.length} archived = ${expected.length} sent; Wh ${stopped.summary.dischargeWh} vs reference ${reference.wh}`);
   return { during, run: stopped };

@@ -4,6 +4,7 @@ import { createServer } from 'node:net';
 import { resolve } from 'node:path';
 import { xyIntegration } from 'ml-spectra-processing';
 import { openPtyPair, type PtyPair } from '../../../simulator/transport/socat.js';
+import { SECONDS_PER_HOUR } from '../../../shared/units/time.js';
 
 /** A free TCP port on loopback, chosen by the OS. */
 export function freePort(): Promise<number> {
@@ -159,7 +160,6 @@ export function exportColumns(body: { columns: string[]; rows: (number | null)[]
  * the product's rule, common practice for logged data).
  */
 export function referenceTotals(run: ExportedRun, maxGapSeconds: number): { wh: number; ah: number } {
-  const SECONDS_PER_HOUR = 3600;
   let ws = 0;
   let as = 0;
   let from = 0;

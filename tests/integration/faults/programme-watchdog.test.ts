@@ -13,6 +13,7 @@ import { benchControlLfp12v } from '../../../simulator/scenarios/bench-control-l
 import { signInAs, TEST_PASSWORD, TEST_USERS, type SignedInAgent } from '../helpers/index.js';
 import { eventually } from '../runs-kit.js';
 import { freePort, ServerProcess } from './fault-kit.js';
+import { quietLogger } from '../../../server/log/logger.js';
 
 /**
  * Server killed while a programme discharges: Kneepoint in a process of its own (as users run
@@ -37,7 +38,7 @@ let admin: SignedInAgent;
 
 beforeAll(async () => {
   dbPort = await freePort();
-  mariadb = await provisionMariaDb({ baseDir: DB_DIR, port: dbPort, ...DB, grantAllDatabases: true, log: () => undefined });
+  mariadb = await provisionMariaDb({ baseDir: DB_DIR, port: dbPort, ...DB, grantAllDatabases: true, log: quietLogger });
   const sequelize = createSequelize(mariadb);
   await migrate(sequelize);
   await defineCoreModels(sequelize).User.create({ ...TEST_USERS.admin, passwordHash: await hashPassword(TEST_PASSWORD) });

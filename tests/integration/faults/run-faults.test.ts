@@ -9,6 +9,8 @@ import { createSequelize } from '../../../server/db/sequelize.js';
 import { signInAs, TEST_PASSWORD, TEST_USERS, type SignedInAgent } from '../helpers/index.js';
 import { eventually } from '../runs-kit.js';
 import { exportColumns, freePort, JsonlMeter, missingFrames, neverDecreases, referenceTotals, ServerProcess, type ExportedRun, type SentFrame } from './fault-kit.js';
+import { SECONDS_PER_HOUR } from '../../../shared/units/time.js';
+import { quietLogger } from '../../../server/log/logger.js';
 
 /**
  * The fault suite for a live run: Kneepoint in a child process of its own (server/index.ts
@@ -38,7 +40,7 @@ let benchId: number;
 let batteryId: number;
 
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
-const provision = () => provisionMariaDb({ baseDir: DB_DIR, port: dbPort, ...DB, grantAllDatabases: true, log: () => undefined });
+const provision = () => provisionMariaDb({ baseDir: DB_DIR, port: dbPort, ...DB, grantAllDatabases: true, log: quietLogger });
 
 beforeAll(async () => {
   dbPort = await freePort();
@@ -152,7 +154,6 @@ async function finish(runId: number): Promise<{ exported: ExportedRun; summary: 
  * most two trapezoid panels of one meter period.
  */
 function lostEnergyWh(missing: readonly SentFrame[]): number {
-  const SECONDS_PER_HOUR = 3600;
   return missing.reduce((wh, f) => wh + (2 * f.volts * f.amps * METER_PERIOD_MS) / 1000 / SECONDS_PER_HOUR, 0);
 }
 

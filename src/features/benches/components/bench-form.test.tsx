@@ -4,7 +4,7 @@ import { describe, expect, it } from 'vitest';
 import { demoUser, renderAt, stubApi } from '../../../testing/render-app';
 
 const savedBench = {
-  id: 5, name: 'Bench C', source: { kind: 'simulator', scenario: 'lfp-12v-weak-cell', speed: 10, seed: 1, staleAfterS: 10 },
+  id: 5, name: 'Bench C', source: { kind: 'simulator', scenario: 'lfp-12v-weak-cell', speed: 10, seed: 1, staleAfterSeconds: 10 },
   enabled: true, notes: '', createdAt: '2026-12-01T20:00:00Z', updatedAt: '2026-12-01T20:00:00Z',
   status: { state: 'idle', framesOk: 0, framesRejected: 0 },
 };
@@ -48,7 +48,7 @@ describe('bench form (admin)', () => {
       loadOnAmps: null,
       meterAccuracy: null,
       source: {
-        kind: 'simulator', scenario: 'lfp-12v-weak-cell', speed: 10, seed: 1, staleAfterS: 10,
+        kind: 'simulator', scenario: 'lfp-12v-weak-cell', speed: 10, seed: 1, staleAfterSeconds: 10,
         limits: { maxAbsVolts: 2000, maxAbsAmps: 5000, minTempCelsius: -100, maxTempCelsius: 300 },
       },
     });

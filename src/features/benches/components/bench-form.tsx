@@ -32,7 +32,7 @@ function buildSource(kind: SourceKind, f: Record<string, string>, formatJson: st
     } catch {
       return { error: 'The format is not valid JSON.' };
     }
-    candidate = { kind, path: f.path.trim(), baudRate: Number(f.baudRate), staleAfterS: Number(f.staleAfterS), format, limits };
+    candidate = { kind, path: f.path.trim(), baudRate: Number(f.baudRate), staleAfterSeconds: Number(f.staleAfterSeconds), format, limits };
   }
   const parsed = BenchSourceConfigSchema.safeParse(candidate);
   if (!parsed.success) return { error: parsed.error.issues.map((i) => `${i.path.join('.') || 'source'}: ${i.message}`).join('; ') };
@@ -52,7 +52,7 @@ export function BenchForm({ bench, onSaved }: { bench?: BenchWithStatus; onSaved
     seed: src?.kind === 'simulator' ? String(src.seed) : DEFAULT_SIM_SEED,
     path: src?.kind === 'serial' ? src.path : '',
     baudRate: src?.kind === 'serial' ? String(src.baudRate) : DEFAULT_BAUD,
-    staleAfterS: src?.kind === 'serial' ? String(src.staleAfterS) : String(DEFAULT_STALE_AFTER_S),
+    staleAfterSeconds: src?.kind === 'serial' ? String(src.staleAfterSeconds) : String(DEFAULT_STALE_AFTER_S),
     loadOnAmps: bench?.loadOnAmps == null ? '' : String(bench.loadOnAmps),
   });
   const [format, setFormat] = useState(() => initialFormat(bench));
@@ -125,7 +125,7 @@ export function BenchForm({ bench, onSaved }: { bench?: BenchWithStatus; onSaved
             ))}
           </datalist>
           <SelectField label="Baud rate" value={fields.baudRate} onChange={set('baudRate')} options={BAUD_RATES.map((b) => ({ value: b, label: `${b} baud` }))} />
-          <TextField label="No data after (s)" inputMode="decimal" value={fields.staleAfterS} onChange={set('staleAfterS')} />
+          <TextField label="No data after (s)" inputMode="decimal" value={fields.staleAfterSeconds} onChange={set('staleAfterSeconds')} />
           <SelectField
             label="Format"
             value={format.kind}

@@ -7,8 +7,8 @@ import { QueryError } from '../../../components/ui/status';
 import { useQuery } from '@tanstack/react-query';
 import { benchesQueryOptions } from '../../../lib/queries/benches';
 import { useAssignBenches, useGateways, useRegisterGateway, useRevokeGateway } from '../api/gateways';
+import { MS_PER_S } from '../../../../shared/units/time';
 
-const MS_PER_S = 1000;
 
 /** "12 s ago", or "never". */
 function seenAgo(iso: string | null, nowMs: number): string {

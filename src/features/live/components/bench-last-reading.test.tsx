@@ -24,7 +24,7 @@ describe('bench page: age of the last reading', () => {
       subscribe: (topic: Topic, listener: (m: ServerMessage) => void) => {
         if (topic.kind === 'bench') {
           queueMicrotask(() => {
-            listener({ type: 'snapshot', seq: 1, topic, status, run: null, recent: { t: [], volts: [], amps: [], watts: [], temps: {} }, events: [] });
+            listener({ type: 'snapshot', stream: 's1', seq: 1, resume: 'fresh', topic, status, run: null, recent: { t: [], volts: [], amps: [], watts: [], temps: {} }, events: [] });
             listener({ type: 'batch', seq: 2, topic, readings, dropped: 0 });
           });
         }
@@ -54,7 +54,7 @@ describe('bench page: age of the last reading', () => {
       subscribe: (topic: Topic, listener: (m: ServerMessage) => void) => {
         if (topic.kind === 'bench') {
           push = listener;
-          queueMicrotask(() => listener({ type: 'snapshot', seq: 1, topic, status, run: null, recent: { t: [1], volts: [13.2], amps: [45], watts: [594], temps: {} }, events: [] }));
+          queueMicrotask(() => listener({ type: 'snapshot', stream: 's1', seq: 1, resume: 'fresh', topic, status, run: null, recent: { t: [1], volts: [13.2], amps: [45], watts: [594], temps: {} }, events: [] }));
         }
         return () => undefined;
       },

@@ -51,7 +51,7 @@ describe('readouts on a charge run', () => {
     const topic = { kind: 'run', id: 5 } as const;
     const now = '2026-12-01T20:00:00Z';
     store.handle({
-      type: 'snapshot', seq: 1, topic, status: null, events: [],
+      type: 'snapshot', stream: 's1', seq: 1, resume: 'fresh', topic, status: null, events: [],
       run: {
         id: 5, name: 'Kestrel cold charge', tags: [], origin: 'live', benchId: 2, batteryId: 3, kind: 'charge', state: 'recording',
         endVolts: null, acceptancePercent: 95, alarms: { onCutoff: true }, stopWhen: 'manual', targetAh: null, targetWh: null,

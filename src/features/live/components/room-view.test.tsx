@@ -30,7 +30,7 @@ describe('room view', () => {
       onState: () => () => undefined,
       subscribe: (topic: Topic, listener: (m: ServerMessage) => void) => {
         listeners.set(topic.kind, listener);
-        queueMicrotask(() => listener({ type: 'snapshot', seq: 1, topic, status, run: recording, recent: empty, events: [] }));
+        queueMicrotask(() => listener({ type: 'snapshot', stream: 's1', seq: 1, resume: 'fresh', topic, status, run: recording, recent: empty, events: [] }));
         return () => undefined;
       },
     };
@@ -39,9 +39,9 @@ describe('room view', () => {
     expect((await screen.findByTestId('room-state')).textContent).toBe('Recording');
     // The pack cuts off, recovers, and the run finishes at once (stop after recovery).
     const runTopic = { kind: 'run', id: 41 } as const;
-    listeners.get('run')!({ type: 'event', seq: 2, topic: runTopic, eventId: 1, event: { t: 7091, type: 'cutoff', cause: 'protection', volts: 10.65, amps: 46.9, dischargeWh: 1181.8, dischargeAh: 92.06 } });
-    listeners.get('run')!({ type: 'run', seq: 3, topic: runTopic, run: finished });
-    listeners.get('bench')!({ type: 'run', seq: 2, topic: { kind: 'bench', id: 1 }, run: finished });
+    listeners.get('run')!({ type: 'event', topic: runTopic, eventId: 1, event: { t: 7091, type: 'cutoff', cause: 'protection', volts: 10.65, amps: 46.9, dischargeWh: 1181.8, dischargeAh: 92.06 } });
+    listeners.get('run')!({ type: 'run', topic: runTopic, run: finished });
+    listeners.get('bench')!({ type: 'run', topic: { kind: 'bench', id: 1 }, run: finished });
     await waitFor(() => expect(screen.getByTestId('room-state').textContent).toBe('Finished'));
     expect(screen.getByRole('alert').textContent).toContain('CUTOFF');
   });

@@ -8,9 +8,9 @@ import { useProgrammeControl, useRunProgramme } from '../api/run-programme';
 import { CommandLog } from './command-log';
 import { StartProgrammeForm } from './start-programme-form';
 import { StepResultsTable } from './step-results-table';
+import { MS_PER_S } from '../../../../shared/units/time';
 
 const STATE_WORD = { starting: 'starting', running: 'running', paused: 'paused', finished: 'finished', failed: 'failed safe, outputs off', aborted: 'aborted, outputs off' } as const;
-const MS_PER_S = 1000;
 
 /** Seconds in the current step: the server's start and clock, moved on by the time since it answered (frozen while paused). */
 function timeInStepSeconds(p: RunProgramme, fetchedAtMs: number, nowMs: number): number | null {

@@ -106,7 +106,7 @@ export function ImportRunForm({ onDone }: { onDone: () => void }) {
       {importRun.isPending && importRun.progress && file && <ImportProgressBars progress={importRun.progress} fileName={file.name} />}
       {importRun.data && (
         <p role="status" className="num text-sm md:col-span-2">
-          {formatEnergy(importRun.data.summary.energyWh, energyUnit)} · {formatCharge(importRun.data.summary.chargeAh)} · {formatDuration(importRun.data.summary.durationS)}
+          {formatEnergy(importRun.data.summary.energyWh, energyUnit)} · {formatCharge(importRun.data.summary.dischargeAh)} · {formatDuration(importRun.data.summary.durationSeconds)}
         </p>
       )}
       <div className="flex gap-2 md:col-span-2">

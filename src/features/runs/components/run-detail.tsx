@@ -14,6 +14,7 @@ import { formatElapsedClock } from '../../../lib/units';
 import { useRun, useRunEvents } from '../api/get-run';
 import { useRunBattery } from '../api/get-run-context';
 import { useRunSamples, type SampleWindow } from '../api/get-run-samples';
+import { CapacityAnalysisPanel } from './capacity-analysis-panel';
 import { ImportNoticesPanel } from './import-notices-panel';
 import { RunLabelEditor } from './run-label-editor';
 import { RunNoteForm } from './run-note-form';
@@ -176,6 +177,11 @@ export function RunDetail({ runId, canEdit = false, viewer = null }: { runId: nu
             <HistoryChart samples={samples.data} markers={markers} onZoom={(from, to) => setWindow({ from, to })} temperatureUnit={settings.temperatureUnit} />
           )}
         </Card>
+        {r.kind === 'capacity-discharge' && !live && r.summary?.capacityAh ? (
+          <Card>
+            <CapacityAnalysisPanel runId={runId} summary={r.summary} />
+          </Card>
+        ) : null}
         <Card>
           <h2 className="mb-3 font-semibold">Events</h2>
           {canEdit && (

@@ -58,7 +58,7 @@ describe('notes on the run page', () => {
     renderAt('/runs/5', socket);
     await screen.findByText('smell of solder');
     current = [mine];
-    push!({ type: 'note', seq: 3, topic: { kind: 'run', id: 5 }, eventId: 42, previous: theirs.event, event: null });
+    push!({ type: 'note', topic: { kind: 'run', id: 5 }, eventId: 42, previous: theirs.event, event: null });
     await waitFor(() => expect(screen.queryByText('smell of solder')).toBeNull());
   });
 });

@@ -16,9 +16,9 @@ function summaryOf(frames: Frame[], ended = true): RunSummary {
 }
 
 /** 10 A at 1 Hz; volts linear in Ah, crossing 20 V at `crossAh`; the load runs on to `endAh`. */
-function runOn(crossAh: number, endAh: number, tempC = 23): Frame[] {
+function runOn(crossAh: number, endAh: number, tempCelsius = 23): Frame[] {
   const out: Frame[] = [];
-  for (let t = 0; (10 * t) / 3600 <= endAh; t++) out.push({ t, volts: 25 - (5 * ((10 * t) / 3600)) / crossAh, amps: 10, temps: { cell: tempC }, clock: 'device' });
+  for (let t = 0; (10 * t) / 3600 <= endAh; t++) out.push({ t, volts: 25 - (5 * ((10 * t) / 3600)) / crossAh, amps: 10, temps: { cell: tempCelsius }, clock: 'device' });
   return out;
 }
 
