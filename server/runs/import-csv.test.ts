@@ -52,10 +52,10 @@ describe('records', () => {
     expect(await readAll('t,v\r0,1\r1,2')).toEqual([['t', 'v'], ['0', '1'], ['1', '2']]);
   });
   it('refuses a record with another number of fields than the header, naming its line', async () => {
-    await expect(readAll('t,v,a\n0,1,2\n\n1,2\n')).rejects.toMatchObject({ status: 400, message: 'line 4: a different number of fields than the header (2, the header has 3)' });
+    await expect(readAll('t,v,a\n0,1,2\n\n1,2\n')).rejects.toMatchObject({ name: 'InvalidInputError', message: 'line 4: a different number of fields than the header (2, the header has 3)' });
   });
   it('refuses a file without line ends beyond the longest line, naming line 1', async () => {
-    await expect(readAll('1,'.repeat(40_000))).rejects.toMatchObject({ status: 400, message: expect.stringMatching(/^line 1: longer than 65536 bytes/) });
+    await expect(readAll('1,'.repeat(40_000))).rejects.toMatchObject({ name: 'InvalidInputError', message: expect.stringMatching(/^line 1: longer than 65536 bytes/) });
   });
 });
 

@@ -123,7 +123,7 @@ describe('bench form (admin)', () => {
     });
     renderAt('/benches/5/setup');
     await userEvent.click(await screen.findByRole('button', { name: 'Reopen source' }));
-    expect((await screen.findByRole('status')).textContent).toBe('Source reopened.');
+    expect((await screen.findByText('Source reopened.')).getAttribute('role')).toBe('status');
     expect(calls.some((c) => c.url === '/api/benches/5/restart')).toBe(true);
   });
 });
