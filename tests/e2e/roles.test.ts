@@ -55,7 +55,7 @@ describe('each demo role signs in and sees what it may do', () => {
 
   it('admin sees users and lab settings, and can open the users list', async () => {
     const { page, labels } = await navFor('admin');
-    expect(labels).toEqual(['Benches', 'Runs', 'Batteries', 'Alarms', 'Users', 'Lab settings', 'My account']);
+    expect(labels).toEqual(['Benches', 'Runs', 'Programmes', 'Batteries', 'Alarms', 'Instruments', 'Users', 'Lab settings', 'My account']);
     await page.getByRole('link', { name: 'Users' }).click();
     await page.getByRole('button', { name: 'Create user' }).waitFor();
     await page.locator('table tbody tr').first().waitFor();
@@ -112,7 +112,7 @@ describe('each demo role signs in and sees what it may do', () => {
 
   it('viewer reads the packs and sees no create buttons', async () => {
     const { page, labels } = await navFor('viewer');
-    expect(labels).toEqual(['Benches', 'Runs', 'Batteries', 'Alarms', 'My account']);
+    expect(labels).toEqual(['Benches', 'Runs', 'Programmes', 'Batteries', 'Alarms', 'Instruments', 'My account']);
     await page.getByRole('link', { name: 'Batteries' }).click();
     await page.locator('table tbody tr').first().waitFor();
     expect(await page.getByRole('button', { name: 'Register a pack' }).count()).toBe(0);
