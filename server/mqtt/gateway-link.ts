@@ -142,6 +142,13 @@ export class GatewayLink implements GatewaySourceLink {
     );
   }
 
+  /** Publishes a gateway's configuration now (a pending debounced one is dropped: this one is newer). */
+  async publishConfigNow(gatewayId: number): Promise<void> {
+    clearTimeout(this.configTimers.get(gatewayId));
+    this.configTimers.delete(gatewayId);
+    await this.publishConfig(gatewayId);
+  }
+
   private async publishConfig(gatewayId: number): Promise<void> {
     const gateway = this.known.get(gatewayId);
     if (!gateway || !this.client?.connected) return;
