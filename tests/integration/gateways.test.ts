@@ -255,4 +255,25 @@ describe('bench gateways', () => {
     await client.publishAsync(benchFeedTopic(keep), 'still granted', { qos: 1 });
     await client.endAsync();
   });
+
+  it("closes a revoked gateway's live connection: its next publish is not recorded and it cannot connect again", async () => {
+    const benchId = await bench('Revoked feed', 1, 19);
+    const gw = (await admin.post('/api/gateways').send({ name: 'gone' }).expect(201)).body;
+    await assign(gw.gateway.id, [benchId]);
+    const options = { username: gatewayUsername('gone'), password: gw.password, reconnectPeriod: 0, protocolVersion: 5 as const };
+    const client = await connectAsync(broker.url, { ...options, clientId: 'gone-live' });
+    const closed = new Promise<void>((resolve) => client.once('close', () => resolve()));
+    const message = (seq: number, tS: number) => JSON.stringify({ type: 'frame', seq, atMs: Date.now(), frame: { t: tS, volts: 13.1, amps: 4, clock: 'device' } });
+    await client.publishAsync(benchFeedTopic(benchId), message(1, 1), { qos: 1 });
+    await eventually(async () => expect((await benchStatus(benchId)).framesOk).toBe(1));
+    await admin.post(`/api/gateways/${gw.gateway.id}/revoke`).send({}).expect(200);
+    // Mosquitto drops a connection whose account is gone when it reloads its files (SIGHUP).
+    await Promise.race([closed, new Promise((_r, reject) => setTimeout(() => reject(new Error('the revoked connection stayed open')), 3_000))]);
+    // The client still tries (it queues the message for a reconnection that never comes).
+    client.publish(benchFeedTopic(benchId), message(2, 2), { qos: 1 });
+    await expect(connectAsync(broker.url, { ...options, clientId: 'gone-again' })).rejects.toThrow(/not authori[sz]ed|bad user name or password/i);
+    await new Promise((r) => setTimeout(r, 500));
+    expect((await benchStatus(benchId)).framesOk).toBe(1);
+    client.end(true);
+  });
 });
