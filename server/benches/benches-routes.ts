@@ -45,7 +45,10 @@ export function createBenchesRouter(ctx: AppContext): Router {
   router.delete('/:id', requireRole('admin'), async (req, res) => {
     const row = await findOr404(parseIdParam(req.params.id));
     await assertNoLiveRun(ctx, row.id);
+    const gatewayId = row.gatewayId ?? null;
     await service.remove(row);
+    // A gateway's bench: its ACL grant and its place in the gateway's configuration go with it.
+    if (gatewayId !== null) await ctx.services.gateways?.benchDeleted(gatewayId);
     res.status(204).end();
   });
 

@@ -79,6 +79,8 @@ export function recordingAttachment(options: RecordingOptions = {}) {
     const closeEndpoint = openLiveEndpoint(httpServer, ctx, hub);
     return async () => {
       await closeEndpoint();
+      // Gateways' feeds stop before the recorder lets go: what the broker has not handed over stays queued for the next start.
+      await ctx.services.gatewayLink?.stop();
       for (const off of unsubscribe) off();
       recorder.detach();
       hub.close();

@@ -7,6 +7,7 @@ import { systemClock } from '../ingest/clock.js';
 import { hashBrokerPassword } from './broker/broker-files.js';
 import { MosquittoBroker } from './broker/mosquitto-broker.js';
 import { GatewayLink } from './gateway-link.js';
+import { sqlFeedSeqStore } from './feed-seq-store.js';
 import { createGatewayService, type GatewayService } from './gateway-service.js';
 import { SERVER_USERNAME } from './topics.js';
 
@@ -45,7 +46,7 @@ function serverPassword(dir: string): string {
  * gateway benches' stand-in sources through the link.
  */
 export function mqttAttachment(options: MqttAttachmentOptions = {}) {
-  return async function attachMqtt(_httpServer: Server, ctx: AppContext): Promise<(() => Promise<void>) | void> {
+  return async function attachMqtt(httpServer: Server, ctx: AppContext): Promise<(() => Promise<void>) | void> {
     const config = ctx.config.mqtt;
     if (!config && !options.broker) return;
     const log = (message: string) => ctx.log.info(`[mqtt] ${message}`);
@@ -68,12 +69,16 @@ export function mqttAttachment(options: MqttAttachmentOptions = {}) {
     await service.syncAccess();
     if (ownBroker) await broker.start();
     const url = external ? `${external.protocol}//${external.host}` : broker.url;
-    const link = new GatewayLink({ url, username, password, clock: systemClock, log, loadGateways: service.known, configFor: service.configFor });
+    const link = new GatewayLink({ url, username, password, clock: systemClock, log, loadGateways: service.known, configFor: service.configFor, seqStore: sqlFeedSeqStore(ctx.sequelize) });
     holder.link = link;
-    await link.start();
+    await link.prepare();
     ctx.services.gatewayLink = link;
     ctx.services.gateways = service;
-    log(`gateways over ${url}${link.connected ? '' : ' (broker not reached yet; retrying)'}`);
+    // Connect once the server listens: every attachment (benches' stand-ins, the recorder and its resumed
+    // runs) is in place by then, so what the broker queued while the server was away is recorded, not dropped.
+    httpServer.once('listening', () => {
+      void link.connect().then(() => log(`gateways over ${url}${link.connected ? '' : ' (broker not reached yet; retrying)'}`));
+    });
     return async () => {
       await link.stop();
       delete ctx.services.gatewayLink;

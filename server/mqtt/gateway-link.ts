@@ -2,6 +2,7 @@ import { connect, type MqttClient } from 'mqtt';
 import { FeedMessageSchema, GatewayStateMessageSchema, type GatewayConfigMessage } from '../../shared/schemas/gateway.js';
 import type { Clock } from '../ingest/clock.js';
 import { gatewayConfigTopic, parseTopic, SERVER_SUBSCRIPTIONS, SERVER_USERNAME } from './topics.js';
+import type { FeedSeqStore } from './feed-seq-store.js';
 import type { GatewaySource, GatewaySourceLink } from './gateway-source.js';
 
 /** The server's MQTT client id: one server per broker (several would share a subscription, see docs/scale-out.md). */
@@ -13,6 +14,8 @@ const RECONNECT_MS = 1000;
 const FIRST_CONNECT_WAIT_MS = 5000;
 /** Configuration changes within this time go out as one message. */
 const CONFIG_DEBOUNCE_MS = 50;
+/** The last taken `seq` of each bench is saved at least this often (and when the link stops). */
+export const SEQ_SAVE_INTERVAL_MS = 1000;
 
 /** A registered gateway as the link knows it. */
 export interface KnownGateway {
@@ -39,6 +42,8 @@ export interface GatewayLinkOptions {
   loadGateways: () => Promise<KnownGateway[]>;
   /** What a gateway should run. */
   configFor: (gatewayId: number) => Promise<GatewayConfigMessage>;
+  /** Keeps the last taken `seq` per bench across restarts (default: memory only). */
+  seqStore?: FeedSeqStore;
 }
 
 /** Counters of what the link dropped, for logs and the benchmark. */
@@ -63,6 +68,10 @@ export class GatewayLink implements GatewaySourceLink {
   private known = new Map<number, KnownGateway>();
   private readonly states = new Map<string, GatewayLiveState>();
   private readonly configTimers = new Map<number, NodeJS.Timeout>();
+  /** Benches whose last taken `seq` changed since the last save. */
+  private readonly unsaved = new Set<number>();
+  private saveTimer: NodeJS.Timeout | undefined;
+  private saving: Promise<void> = Promise.resolve();
   readonly counters: LinkCounters = { accepted: 0, duplicates: 0, gaps: 0, invalid: 0 };
 
   constructor(private readonly options: GatewayLinkOptions) {}
@@ -74,7 +83,28 @@ export class GatewayLink implements GatewaySourceLink {
 
   /** Loads the gateways and connects; resolves on the first connection or after a short wait (it keeps trying). */
   async start(): Promise<void> {
+    await this.prepare();
+    await this.connect();
+  }
+
+  /** Loads the gateways and the last taken `seq`s, without connecting yet. */
+  async prepare(): Promise<void> {
     await this.refresh();
+    // Before the first message: a redelivery of what the previous process took is dropped, not recorded twice.
+    for (const [benchId, seq] of (await this.options.seqStore?.load()) ?? []) this.lastSeq.set(benchId, seq);
+    if (this.options.seqStore) {
+      this.saveTimer = setInterval(() => void this.saveSeqs(), SEQ_SAVE_INTERVAL_MS);
+      this.saveTimer.unref();
+    }
+  }
+
+  /**
+   * Connects; resolves on the first connection or after a short wait (it keeps trying). The
+   * broker hands over what it queued for the server's session at once, so whatever takes
+   * the frames (bench stand-ins, the run recorder) must be in place before this is called.
+   */
+  async connect(): Promise<void> {
+    if (this.client) return;
     const client = connect(this.options.url, {
       clientId: SERVER_CLIENT_ID,
       username: this.options.username ?? SERVER_USERNAME,
@@ -142,6 +172,13 @@ export class GatewayLink implements GatewaySourceLink {
     );
   }
 
+  /** Publishes a gateway's configuration now (a pending debounced one is dropped: this one is newer). */
+  async publishConfigNow(gatewayId: number): Promise<void> {
+    clearTimeout(this.configTimers.get(gatewayId));
+    this.configTimers.delete(gatewayId);
+    await this.publishConfig(gatewayId);
+  }
+
   private async publishConfig(gatewayId: number): Promise<void> {
     const gateway = this.known.get(gatewayId);
     if (!gateway || !this.client?.connected) return;
@@ -178,6 +215,7 @@ export class GatewayLink implements GatewaySourceLink {
       this.options.log(`MQTT: bench ${where.benchId}: sequence jumped from ${last} to ${message.seq}`);
     }
     this.lastSeq.set(where.benchId, message.seq);
+    this.unsaved.add(where.benchId);
     this.counters.accepted++;
     const source = this.sources.get(where.benchId);
     if (!source) return;
@@ -207,11 +245,32 @@ export class GatewayLink implements GatewaySourceLink {
     for (const source of this.sources.values()) source.reachabilityChanged();
   }
 
-  /** Disconnects (the broker keeps the session and queues for the next start). */
+  /** Saves the benches' last taken `seq` that changed (one save at a time; a failed one is tried again later). */
+  saveSeqs(): Promise<void> {
+    const store = this.options.seqStore;
+    if (!store) return this.saving;
+    this.saving = this.saving.then(async () => {
+      if (this.unsaved.size === 0) return;
+      const batch = new Map([...this.unsaved].map((benchId) => [benchId, this.lastSeq.get(benchId)!]));
+      this.unsaved.clear();
+      try {
+        await store.save(batch);
+      } catch (err) {
+        for (const benchId of batch.keys()) this.unsaved.add(benchId);
+        this.options.log(`MQTT: last feed seq not saved: ${String(err)}`);
+      }
+    });
+    return this.saving;
+  }
+
+  /** Disconnects (the broker keeps the session and queues for the next start), then saves the last taken `seq`s. */
   async stop(): Promise<void> {
     for (const timer of this.configTimers.values()) clearTimeout(timer);
     this.configTimers.clear();
+    clearInterval(this.saveTimer);
+    this.saveTimer = undefined;
     await this.client?.endAsync();
     this.client = undefined;
+    await this.saveSeqs();
   }
 }

@@ -130,6 +130,15 @@ export function createGatewayService(deps: GatewayServiceDeps) {
       return toApi(row, wanted.sort((a, b) => a - b));
     },
 
+    /**
+     * A bench this gateway ran was deleted: the broker's ACL stops granting its feed topic
+     * and the gateway gets its new configuration now, not at the next change.
+     */
+    async benchDeleted(gatewayId: number): Promise<void> {
+      await syncAccess();
+      await deps.link()?.publishConfigNow(gatewayId);
+    },
+
     /** What a gateway runs: its assigned benches' sources (none once revoked). */
     async configFor(gatewayId: number): Promise<GatewayConfigMessage> {
       const row = await Gateways.findByPk(gatewayId);

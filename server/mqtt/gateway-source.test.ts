@@ -87,4 +87,17 @@ describe('the stand-in source of a gateway bench', () => {
     expect(frames).toEqual([]);
     expect(link.attached.size).toBe(0);
   });
+
+  it('takes no frame and no status from a revoked gateway, even one the broker queued before it read the revocation', () => {
+    const { source, frames, link } = setup();
+    source.start();
+    source.remoteStatus(receiving);
+    source.frame(frame(0));
+    link.registered = false;
+    source.reachabilityChanged();
+    source.frame(frame(1));
+    source.remoteStatus({ ...receiving, framesRejected: 9 });
+    expect(frames.map((f) => f.t)).toEqual([0]);
+    expect(source.getStatus()).toMatchObject({ state: 'error', framesOk: 1, framesRejected: 1 });
+  });
 });

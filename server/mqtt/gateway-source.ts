@@ -65,9 +65,10 @@ export class GatewaySource implements Source {
     this.report();
   }
 
-  /** A frame from the gateway, in order and seen once. */
+  /** A frame from the gateway, in order and seen once; dropped once the gateway is revoked. */
   frame(frame: Frame): void {
-    if (!this.running) return;
+    // The broker may have taken (and queued for the server) a message just before it read the revocation.
+    if (!this.running || !this.gatewayRegistered()) return;
     this.framesOk++;
     this.lastFrameAtMs = this.clock.nowMs();
     this.stale = false;
@@ -77,8 +78,9 @@ export class GatewaySource implements Source {
     safeDeliver(this.sink.frame, frame);
   }
 
-  /** The gateway reported a status change of the meter. */
+  /** The gateway reported a status change of the meter (ignored once the gateway is revoked). */
   remoteStatus(status: BenchStatus): void {
+    if (!this.gatewayRegistered()) return;
     this.remote = status;
     if (status.state !== 'receiving') this.disarm();
     this.report();
@@ -112,6 +114,10 @@ export class GatewaySource implements Source {
     if (this.stale) return { state: 'stale', message: `no frame from gateway ${gateway.name} for ${Math.round(this.staleAfterMs! / MS_PER_S)} s` };
     if (!this.remote) return { state: 'connected', message: `waiting for gateway ${gateway.name}` };
     return { state: this.remote.state, ...(this.remote.message !== undefined && { message: this.remote.message }) };
+  }
+
+  private gatewayRegistered(): boolean {
+    return this.gatewayId !== null && this.link.gateway(this.gatewayId) !== null;
   }
 
   private report(): void {

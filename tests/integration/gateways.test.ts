@@ -7,7 +7,7 @@ import { attachBenchManager } from '../../server/benches/attach-bench-manager.js
 import { liveAttachment } from '../../server/live/attach-live.js';
 import { mqttAttachment } from '../../server/mqtt/attach-mqtt.js';
 import type { MosquittoBroker } from '../../server/mqtt/broker/mosquitto-broker.js';
-import { benchFeedTopic, gatewayUsername, SERVER_USERNAME } from '../../server/mqtt/topics.js';
+import { benchFeedTopic, gatewayConfigTopic, gatewayUsername, SERVER_USERNAME } from '../../server/mqtt/topics.js';
 import { GatewayListResponseSchema } from '../../shared/schemas/gateway.js';
 import { createTestContext, signInAs, type SignedInAgent, type TestContext } from './helpers/index.js';
 import { GatewayProcess, startTestBroker, tempDir } from './gateway-kit.js';
@@ -232,5 +232,48 @@ describe('bench gateways', () => {
     const seen = await sub;
     expect(seen).toContain(`${benchFeedTopic(mine)} own`);
     expect(seen).not.toContain('forged');
+  });
+
+  it("drops a deleted bench from the broker's ACL and from the gateway's configuration at once", async () => {
+    const keep = await bench('West keep', 1, 17);
+    const gone = await bench('West gone', 1, 18);
+    const west = (await admin.post('/api/gateways').send({ name: 'west' }).expect(201)).body;
+    await assign(west.gateway.id, [keep, gone]);
+    const client = await connectAsync(broker.url, { clientId: 'west-check', username: gatewayUsername('west'), password: west.password, reconnectPeriod: 0, protocolVersion: 5 });
+    const configs: number[][] = [];
+    client.on('message', (topic, payload) => {
+      if (topic === gatewayConfigTopic('west')) configs.push((JSON.parse(payload.toString()) as { benches: { id: number }[] }).benches.map((b) => b.id));
+    });
+    await client.subscribeAsync(gatewayConfigTopic('west'), { qos: 1 });
+    await eventually(async () => expect(configs.at(-1)).toEqual([keep, gone]), 5_000);
+    const seen = configs.length;
+    await admin.delete(`/api/benches/${gone}`).expect(204);
+    // The configuration was published before the answer: it arrives within a round trip, without waiting for a debounce or a later change.
+    await eventually(async () => expect(configs.slice(seen)[0]).toEqual([keep]), 1_000, 20);
+    // The broker read its new ACL (SIGHUP) within moments: the deleted bench's feed is refused, the kept one is not.
+    await eventually(() => expect(client.publishAsync(benchFeedTopic(gone), 'after delete', { qos: 1 })).rejects.toThrow(/not authori[sz]ed/i), 2_000, 50);
+    await client.publishAsync(benchFeedTopic(keep), 'still granted', { qos: 1 });
+    await client.endAsync();
+  });
+
+  it("closes a revoked gateway's live connection: its next publish is not recorded and it cannot connect again", async () => {
+    const benchId = await bench('Revoked feed', 1, 19);
+    const gw = (await admin.post('/api/gateways').send({ name: 'gone' }).expect(201)).body;
+    await assign(gw.gateway.id, [benchId]);
+    const options = { username: gatewayUsername('gone'), password: gw.password, reconnectPeriod: 0, protocolVersion: 5 as const };
+    const client = await connectAsync(broker.url, { ...options, clientId: 'gone-live' });
+    const closed = new Promise<void>((resolve) => client.once('close', () => resolve()));
+    const message = (seq: number, tS: number) => JSON.stringify({ type: 'frame', seq, atMs: Date.now(), frame: { t: tS, volts: 13.1, amps: 4, clock: 'device' } });
+    await client.publishAsync(benchFeedTopic(benchId), message(1, 1), { qos: 1 });
+    await eventually(async () => expect((await benchStatus(benchId)).framesOk).toBe(1));
+    await admin.post(`/api/gateways/${gw.gateway.id}/revoke`).send({}).expect(200);
+    // Mosquitto drops a connection whose account is gone when it reloads its files (SIGHUP).
+    await Promise.race([closed, new Promise((_r, reject) => setTimeout(() => reject(new Error('the revoked connection stayed open')), 3_000))]);
+    // The client still tries (it queues the message for a reconnection that never comes).
+    client.publish(benchFeedTopic(benchId), message(2, 2), { qos: 1 });
+    await expect(connectAsync(broker.url, { ...options, clientId: 'gone-again' })).rejects.toThrow(/not authori[sz]ed|bad user name or password/i);
+    await new Promise((r) => setTimeout(r, 500));
+    expect((await benchStatus(benchId)).framesOk).toBe(1);
+    client.end(true);
   });
 });
