@@ -1,7 +1,7 @@
 import { useEffect, useRef } from 'react';
 import uPlot from 'uplot';
 import 'uplot/dist/uPlot.min.css';
-import type { SamplesResponse } from '../../../shared/schemas/api-runs';
+import type { ReadingsResponse } from '../../../shared/schemas/api-runs';
 import { pickTempChannel } from '../../lib/live-view';
 import { resolveColor, SIGNAL_COLORS } from '../../lib/palette';
 import { formatAmps, formatElapsedClock, formatTemperature, formatVolts } from '../../lib/units';
@@ -21,7 +21,7 @@ const MARKER_WIDTH_PX = 2;
 const NO_MARKERS: readonly ChartMarker[] = [];
 
 /** The chart's columns; the temperature is the same channel the live screens show (the cell when there is one). */
-function toData(s: SamplesResponse): uPlot.AlignedData {
+function toData(s: ReadingsResponse): uPlot.AlignedData {
   const tempName = pickTempChannel(s.temps);
   const temp = tempName ? s.temps[tempName].max : s.t.map(() => null);
   return [s.t, s.volts.max, s.volts.min, s.amps.max, s.amps.min, temp];
@@ -80,7 +80,7 @@ function buildOptions(width: number, heightPx: number, temperatureUnit: 'C' | 'F
 }
 
 interface Props {
-  samples: SamplesResponse;
+  samples: ReadingsResponse;
   markers?: readonly ChartMarker[];
   onZoom: (from: number, to: number) => void;
   heightPx?: number;

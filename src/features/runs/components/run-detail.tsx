@@ -13,7 +13,7 @@ import { NOTE_COLOR, RUN_STATE_COLORS } from '../../../lib/palette';
 import { formatElapsedClock } from '../../../lib/units';
 import { useRun, useRunEvents } from '../api/get-run';
 import { useRunBattery } from '../api/get-run-context';
-import { useRunSamples, type SampleWindow } from '../api/get-run-samples';
+import { useRunReadings, type ReadingWindow } from '../api/get-run-readings';
 import { CapacityAnalysisPanel } from './capacity-analysis-panel';
 import { ImportNoticesPanel } from './import-notices-panel';
 import { RunLabelEditor } from './run-label-editor';
@@ -26,10 +26,10 @@ import { ProtectionCheckPanel, TempChannels } from './protection-check-panel';
 
 /** About one bucket per horizontal pixel of a wide chart. */
 const CHART_MAX_POINTS = 1000;
-const FULL_WINDOW: SampleWindow = { from: null, to: null };
+const FULL_WINDOW: ReadingWindow = { from: null, to: null };
 
 /** The chart's window lives in the address (`?from=&to=`, run seconds), so a link can open the run zoomed to a stretch. */
-function windowFrom(params: URLSearchParams): SampleWindow {
+function windowFrom(params: URLSearchParams): ReadingWindow {
   const read = (key: string) => {
     const raw = params.get(key);
     const n = raw === null || raw.trim() === '' ? NaN : Number(raw);
@@ -56,7 +56,7 @@ export function RunDetail({ runId, canEdit = false, viewer = null }: { runId: nu
   const pack = useRunBattery(run.data?.batteryId ?? null);
   const [params, setParams] = useSearchParams();
   const sampleWindow = useMemo(() => windowFrom(params), [params]);
-  const setWindow = (w: SampleWindow) => {
+  const setWindow = (w: ReadingWindow) => {
     const next = new URLSearchParams(params);
     for (const key of ['from', 'to'] as const) {
       const v = w[key];
@@ -65,7 +65,7 @@ export function RunDetail({ runId, canEdit = false, viewer = null }: { runId: nu
     }
     setParams(next, { replace: true });
   };
-  const samples = useRunSamples(runId, sampleWindow, CHART_MAX_POINTS);
+  const samples = useRunReadings(runId, sampleWindow, CHART_MAX_POINTS);
   const [editing, setEditing] = useState(false);
   // Stable between renders so the chart is not rebuilt for nothing.
   const markers = useMemo(
