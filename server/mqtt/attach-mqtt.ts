@@ -9,6 +9,7 @@ import { MosquittoBroker } from './broker/mosquitto-broker.js';
 import { GatewayLink } from './gateway-link.js';
 import { createGatewayService, type GatewayService } from './gateway-service.js';
 import { SERVER_USERNAME } from './topics.js';
+import { createLogger } from '../log/logger.js';
 
 declare module '../app-context.js' {
   interface AppServices {
@@ -48,7 +49,7 @@ export function mqttAttachment(options: MqttAttachmentOptions = {}) {
   return async function attachMqtt(_httpServer: Server, ctx: AppContext): Promise<(() => Promise<void>) | void> {
     const config = ctx.config.mqtt;
     if (!config && !options.broker) return;
-    const log = (message: string) => ctx.log.info(`[mqtt] ${message}`);
+    const log = createLogger('mqtt', ctx.log);
     const dir = join(ctx.config.dataDir, 'mosquitto');
     const ownBroker = !options.broker && config?.local === true;
     const broker = options.broker ?? new MosquittoBroker(dir, config?.localPort ?? 0, log);
@@ -73,7 +74,7 @@ export function mqttAttachment(options: MqttAttachmentOptions = {}) {
     await link.start();
     ctx.services.gatewayLink = link;
     ctx.services.gateways = service;
-    log(`gateways over ${url}${link.connected ? '' : ' (broker not reached yet; retrying)'}`);
+    log.info(`gateways over ${url}${link.connected ? '' : ' (broker not reached yet; retrying)'}`);
     return async () => {
       await link.stop();
       delete ctx.services.gatewayLink;
