@@ -74,8 +74,8 @@ export class Outbox {
         const message = FeedMessageSchema.parse(JSON.parse(line.slice(space + 1)));
         this.lastSeq.set(benchId, Math.max(this.lastSeq.get(benchId) ?? 0, message.seq));
         if (end + 1 > this.ackedBytes) this.pending.push({ benchId, message, endOffset: end + 1 });
-      } catch {
-        this.log.warn(`outbox: an unreadable line at byte ${start} was skipped`);
+      } catch (err) {
+        this.log.warn(`outbox: an unreadable line at byte ${start} was skipped`, err);
       }
       start = end + 1;
     }
