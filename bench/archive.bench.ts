@@ -15,7 +15,7 @@ import { readingsToColumns } from '../server/readings/reading-columns.js';
 import { exportMeta } from '../server/runs/export-meta.js';
 import { streamCsvExport } from '../server/runs/export-stream.js';
 import { RunsRepo } from '../server/runs/runs-repo.js';
-import { runSamples } from '../server/runs/samples-service.js';
+import { runReadings } from '../server/runs/readings-service.js';
 import { openBenchDb } from './bench-db.js';
 
 const HZ = 10;
@@ -102,7 +102,7 @@ export async function run(): Promise<Record<string, string | number>> {
     const times: number[] = [];
     for (let i = 0; i < SAMPLE_ROUNDS; i++) {
       const s0 = performance.now();
-      const res = await runSamples(db.sequelize, runId, { maxPoints: 1000, x: 't' });
+      const res = await runReadings(db.sequelize, runId, { maxPoints: 1000, x: 't' });
       times.push(performance.now() - s0);
       if (res.t.length !== 1000) throw new Error('samples: wrong bucket count');
     }

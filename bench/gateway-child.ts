@@ -6,6 +6,7 @@
  */
 import { GatewayRuntime } from '../server/gateway/gateway-runtime.js';
 import { wallMs } from './delay-histogram.js';
+import { quietLogger } from '../server/log/logger.js';
 
 /** Parent → child. */
 export type ToGateway = { type: 'start'; brokerUrl: string; name: string; password: string; dir: string } | { type: 'stop' };
@@ -24,7 +25,7 @@ const DRAIN_MS = 60_000;
 
 process.on('message', async (m: ToGateway) => {
   if (m.type === 'start') {
-    gateway = new GatewayRuntime({ brokerUrl: m.brokerUrl, name: m.name, password: m.password, dir: m.dir, log: () => undefined });
+    gateway = new GatewayRuntime({ brokerUrl: m.brokerUrl, name: m.name, password: m.password, dir: m.dir, log: quietLogger });
     gateway.onFrame((benchId, frame) => {
       if (!producing) return;
       framesMade++;

@@ -23,6 +23,7 @@ import { createSharedRouter } from './share/shared-routes.js';
 import { createProgrammesRouter } from './programmes/programmes-routes.js';
 import { createInstrumentsRouter } from './instruments/instruments-routes.js';
 import { createGatewaysRouter } from './mqtt/gateways-routes.js';
+import { createLogger } from './log/logger.js';
 
 /**
  * The Express app (no listen). Order matters: security headers, the health endpoint, a 503
@@ -71,6 +72,6 @@ export function createApp(ctx: AppContext): Express {
 
   app.use('/api', apiNotFound);
   serveClient(app, ctx.config.clientDir, [ctx.sessionMiddleware, ctx.passport.initialize(), ctx.passport.session(), requireSignedIn]);
-  app.use(createErrorHandler((message, error) => ctx.log.error(message, error)));
+  app.use(createErrorHandler(createLogger('http', ctx.log)));
   return app;
 }

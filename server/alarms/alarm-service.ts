@@ -9,6 +9,7 @@ import type { AlarmRepo } from './alarm-repo.js';
 import { ALARM_PRIORITY, LATCHING_KINDS, alarmActionFor, lastEscalationStep } from './alarm-rules.js';
 import type { DeliveryKey, DeliveryQueue } from './delivery-queue.js';
 import { MS_PER_MINUTE, MS_PER_S } from '../../shared/units/time.js';
+import type { Logger } from '../log/logger.js';
 
 /** How often escalations and the silence watchdog are checked. */
 export const ALARM_TICK_MS = 1000;
@@ -29,7 +30,7 @@ export interface AlarmServiceDeps {
   /** Optional estimate of the minutes left to the end voltage of a live run (null = cannot tell). */
   minutesToEnd?: (runId: number) => number | null;
   nowMs?: () => number;
-  log: (message: string, err?: unknown) => void;
+  log: Logger;
 }
 
 /** The latest reading of a live run and when it came, for values and the silence watchdog. */
@@ -47,7 +48,7 @@ interface LiveRun {
  */
 export class AlarmService {
   /** Every alarm raised or changed (acknowledged), for whoever shows them live. */
-  readonly changes = new ListenerSet<[alarm: Alarm]>((e) => this.deps.log('alarm listener failed', e));
+  readonly changes = new ListenerSet<[alarm: Alarm]>((e) => this.deps.log.error('alarm listener failed', e));
   private readonly chains = new Map<number, Promise<void>>();
   private readonly live = new Map<number, LiveRun>();
   private readonly ended = new Set<number>();
@@ -74,7 +75,7 @@ export class AlarmService {
 
   /** Runs `work` after the run's earlier alarm work (so two events never raise one alarm twice). */
   private serial(runId: number, work: () => Promise<void>): void {
-    const next = (this.chains.get(runId) ?? Promise.resolve()).then(work).catch((err: unknown) => this.deps.log(`alarms for run ${runId} failed`, err));
+    const next = (this.chains.get(runId) ?? Promise.resolve()).then(work).catch((err: unknown) => this.deps.log.error(`alarms for run ${runId} failed`, err));
     this.chains.set(runId, next);
     void next.then(() => {
       if (this.chains.get(runId) === next) this.chains.delete(runId);
@@ -149,7 +150,7 @@ export class AlarmService {
       }
       await this.escalateDue(settings.escalateAfterMinutes * MS_PER_MINUTE);
     } catch (err) {
-      this.deps.log('alarm timer failed', err);
+      this.deps.log.error('alarm timer failed', err);
     } finally {
       this.ticking = false;
     }
@@ -188,7 +189,7 @@ export class AlarmService {
     // A notice of something that has already happened (run finished) has no condition to return from.
     if (priority === 'info') await repo.clear(runId, [kind], now);
     this.changes.emit((await repo.get(alarm.id)) ?? alarm);
-    if (shelved) return this.deps.log(`alarm ${alarm.id} (${kind}) on bench ${context.benchId} is shelved: recorded, nobody notified`);
+    if (shelved) return this.deps.log.info(`alarm ${alarm.id} (${kind}) on bench ${context.benchId} is shelved: recorded, nobody notified`);
     const keys = await this.firstRecipients(alarm);
     if (await this.deps.queue.enqueue(keys, now)) this.deps.kick();
   }

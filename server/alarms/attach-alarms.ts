@@ -16,6 +16,7 @@ import { MailQueue } from '../mail/mail-queue.js';
 import '../mail/mail-services.js';
 import { MailWorker } from '../mail/mail-worker.js';
 import { sealingKey, sealSecret } from '../mail/sealed-secret.js';
+import { createLogger } from '../log/logger.js';
 
 /** Alarm delivery when the config names none (a config built by hand, as tests do). */
 export const DEFAULT_ALARM_DELIVERY: AlarmDeliveryConfig = {
@@ -52,7 +53,7 @@ export const attachAlarms = alarmsAttachment();
 async function attachAlarmsWith(options: AlarmsAttachmentOptions, httpServer: Server, ctx: AppContext): Promise<() => Promise<void>> {
   const { nowMs } = options;
   const cfg = ctx.config.alarms ?? DEFAULT_ALARM_DELIVERY;
-  const log = (m: string, e?: unknown) => (e ? ctx.log.error(m, e) : ctx.log.warn(m));
+  const log = createLogger('alarms', ctx.log);
   const repo = new AlarmRepo(ctx.sequelize);
   const queue = new DeliveryQueue(ctx.sequelize, { firstMs: cfg.retryFirstMs, maxMs: cfg.retryMaxMs, maxAttempts: cfg.maxAttempts });
   const channels = new AlarmChannels();
@@ -74,7 +75,7 @@ async function attachAlarmsWith(options: AlarmsAttachmentOptions, httpServer: Se
     // Outbound mail that is not an alarm (share links) takes the same transport and retry policy.
     const mailQueue = new MailQueue(ctx.sequelize, { firstMs: cfg.retryFirstMs, maxMs: cfg.retryMaxMs, maxAttempts: cfg.maxAttempts });
     const secretKey = sealingKey(ctx.config.sessionSecret);
-    const worker = new MailWorker({ queue: mailQueue, transport, from: cfg.mailFrom, secretKey, nowMs, log });
+    const worker = new MailWorker({ queue: mailQueue, transport, from: cfg.mailFrom, secretKey, nowMs, log: createLogger('mail', ctx.log) });
     mailWorker = worker;
     ctx.services.outboundMail = {
       queue: mailQueue, from: cfg.mailFrom, publicUrl,
@@ -97,7 +98,7 @@ async function attachAlarmsWith(options: AlarmsAttachmentOptions, httpServer: Se
     recordRunEvent: async (runId, event, userId) => {
       const recorder = ctx.services.runRecorder;
       if (recorder) await recorder.addStoredEvent(runId, event, userId);
-      else log(`alarm acknowledged on run ${runId}, but live recording is not running here to note it`);
+      else log.warn(`alarm acknowledged on run ${runId}, but live recording is not running here to note it`);
     },
   });
   const offs: (() => void)[] = [];

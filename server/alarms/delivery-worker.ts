@@ -3,6 +3,7 @@ import type { AlarmChannels, AlarmDelivery } from './alarm-channel.js';
 import type { AlarmRepo } from './alarm-repo.js';
 import type { ClaimedDelivery, DeliveryQueue } from './delivery-queue.js';
 import { BadAddressError } from './mail-message.js';
+import type { Logger } from '../log/logger.js';
 
 /** How often the worker looks for due rows when nothing kicked it. */
 export const DELIVERY_POLL_MS = 500;
@@ -21,7 +22,7 @@ export interface DeliveryWorkerDeps {
   /** Base of links, e.g. https://lab.example (no trailing slash). */
   publicUrl: () => string;
   nowMs?: () => number;
-  log: (message: string) => void;
+  log: Logger;
 }
 
 /**
@@ -53,7 +54,7 @@ export class DeliveryWorker {
       return;
     }
     this.running = this.turn()
-      .catch((err: unknown) => this.deps.log(`alarm delivery: ${err instanceof Error ? err.message : String(err)}`))
+      .catch((err: unknown) => this.deps.log.error('alarm delivery pass failed', err))
       .finally(() => {
         this.running = null;
         if (this.again) {
@@ -97,7 +98,7 @@ export class DeliveryWorker {
     } catch (err) {
       const message = err instanceof Error ? err.message : String(err);
       const status = await queue.markFailed(row, message, this.now(), err instanceof BadAddressError);
-      this.deps.log(`alarm delivery ${row.id} (${row.channel}) failed, ${status === 'failed' ? 'given up' : 'will retry'}: ${message}`);
+      this.deps.log.warn(`alarm delivery ${row.id} (${row.channel}) failed, ${status === 'failed' ? 'given up' : 'will retry'}`, err);
     }
   }
 

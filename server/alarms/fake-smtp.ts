@@ -1,6 +1,7 @@
 import type { AddressInfo } from 'node:net';
 import { SMTPServer } from 'smtp-server';
 import { decodeMail } from './mime-decode.js';
+import type { Logger } from '../log/logger.js';
 
 /** Largest message the fake server takes (alarm mail is a few kB). */
 const MAX_MESSAGE_BYTES = 1_000_000;
@@ -21,7 +22,7 @@ export interface ReceivedMail {
 export interface FakeSmtpOptions {
   port?: number;
   onMail?: (mail: ReceivedMail) => Promise<void> | void;
-  log?: (message: string) => void;
+  log?: Logger;
 }
 
 /**
@@ -56,7 +57,7 @@ export class FakeSmtpServer {
           };
           this.received.push(mail);
           Promise.resolve(this.options.onMail?.(mail)).then(() => callback(), (err: unknown) => {
-            this.options.log?.(`fake SMTP: could not keep a message: ${String(err)}`);
+            this.options.log?.error('fake SMTP: could not keep a message', err);
             callback(err instanceof Error ? err : new Error(String(err)));
           });
         });
@@ -69,7 +70,7 @@ export class FakeSmtpServer {
         resolve();
       });
     });
-    server.on('error', (err) => this.options.log?.(`fake SMTP: ${err.message}`));
+    server.on('error', (err) => this.options.log?.error('fake SMTP server error', err));
     this.server = server;
     this.boundPort = (server.server.address() as AddressInfo).port;
     return this.boundPort;

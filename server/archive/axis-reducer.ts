@@ -3,7 +3,7 @@ import { cumulativeDischarge } from '../../shared/measure/cumulative-discharge.j
 import { reduceReadings, type ReducedReadings } from './sample-reducer.js';
 
 /** A chart's x axis: run seconds, or delivered Ah or Wh so far. */
-export type SampleAxis = 't' | 'ah' | 'wh';
+export type ReadingAxis = 't' | 'ah' | 'wh';
 
 /**
  * Readings of a whole run placed on the delivered-charge (`ah`) or delivered-energy (`wh`)

@@ -5,6 +5,7 @@ import { computeStats } from './chunk-stats.js';
 export interface EncodedChunk {
   firstSeq: number;
   count: number;
+  /** Run time (s) of the first and last reading, under the names of run_sample_chunks' columns (storage). */
   firstElapsed: number;
   lastElapsed: number;
   layout: BlockLayout;

@@ -8,6 +8,7 @@ import { readingTrip, silenceTrip, type OutputsOn, type SafetyLimits } from './s
 import { allOutputsOff, applyStep, reasonOf, type BenchInstruments } from './step-actions.js';
 import { SETTLE_WINDOW_SECONDS, stepEndReason, stepTimeoutFault, stepTotals, type ProgrammeReading, type StepEnd } from './step-conditions.js';
 import { MS_PER_S } from '../../shared/units/time.js';
+import type { Logger } from '../log/logger.js';
 
 /** How often the executor checks the time, the meter's silence and the steps' time limits, ms. */
 export const TICK_MS = 250;
@@ -28,7 +29,7 @@ export interface ExecutorDeps {
   onChange(): void;
   /** Every command exchange with an instrument (the run's command log). */
   onCommand?(entry: CommandLogEntry): void;
-  log?(message: string, error?: unknown): void;
+  log?: Logger;
 }
 
 /** The executor's state as the live page and the API show it. */
@@ -255,7 +256,7 @@ export class ProgrammeExecutor {
     // `done` waits for the off commands, so whoever closes the ports next cannot cut them off.
     void allOutputsOff(this.deps.instruments, this.on)
       .then((failures) => {
-        for (const failure of failures) this.deps.log?.(`programme ${state}: ${failure}`);
+        for (const failure of failures) this.deps.log?.warn(`programme ${state}: ${failure}`);
       })
       .finally(() => this.resolveDone(state));
   }

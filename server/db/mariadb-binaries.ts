@@ -1,6 +1,7 @@
 import { accessSync, constants, existsSync } from 'node:fs';
 import { execFileSync } from 'node:child_process';
 import { delimiter, join } from 'node:path';
+import type { Logger } from '../log/logger.js';
 
 /** The exact command that installs the MariaDB server and client on Debian. */
 export const MARIADB_INSTALL_COMMAND =
@@ -44,7 +45,7 @@ function findBinaries(): MariaDbBinaries | undefined {
  * Finds the MariaDB programs; when missing and we are root on Debian, installs them with
  * apt-get (saying so), otherwise stops with the exact command to run.
  */
-export function ensureMariaDbBinaries(log: (message: string) => void, allowInstall = true): MariaDbBinaries {
+export function ensureMariaDbBinaries(log: Logger, allowInstall = true): MariaDbBinaries {
   const found = findBinaries();
   if (found) return found;
   const isRoot = process.getuid?.() === 0;
@@ -55,7 +56,7 @@ export function ensureMariaDbBinaries(log: (message: string) => void, allowInsta
         `Install them as root with:\n  ${MARIADB_INSTALL_COMMAND}`,
     );
   }
-  log(`MariaDB is not installed: installing it now with\n  ${MARIADB_INSTALL_COMMAND}`);
+  log.warn(`MariaDB is not installed: installing it now with\n  ${MARIADB_INSTALL_COMMAND}`);
   execFileSync('sh', ['-c', MARIADB_INSTALL_COMMAND], {
     stdio: 'inherit',
     env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' },

@@ -2,7 +2,7 @@ import { dirname, join } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { Umzug, SequelizeStorage } from 'umzug';
 import type { QueryInterface, Sequelize } from 'sequelize';
-import { createLogger } from '../log/logger.js';
+import { createLogger, quietLogger, type Logger } from '../log/logger.js';
 
 /** Umzug's own warnings and errors. */
 const migrateLog = createLogger('migrate');
@@ -21,7 +21,7 @@ const MIGRATIONS_DIR = join(dirname(fileURLToPath(import.meta.url)), 'migrations
  * Builds the umzug migrator over server/db/migrations/NNNN-name.{ts,js}. Names drop the
  * extension so the compiled (.js) and source (.ts) runs record the same history.
  */
-export function createMigrator(sequelize: Sequelize, log: (message: string) => void = () => {}) {
+export function createMigrator(sequelize: Sequelize, log: Logger = quietLogger) {
   return new Umzug<MigrationContext>({
     migrations: {
       glob: ['[0-9][0-9][0-9][0-9]-*.{ts,js}', { cwd: MIGRATIONS_DIR, ignore: ['**/*.d.ts', '**/*.test.ts'] }],
@@ -37,12 +37,12 @@ export function createMigrator(sequelize: Sequelize, log: (message: string) => v
     },
     context: { queryInterface: sequelize.getQueryInterface(), sequelize },
     storage: new SequelizeStorage({ sequelize, tableName: 'schema_migrations' }),
-    logger: { info: (e) => log(String(e.event ?? '') + ' ' + String(e.name ?? '')), warn: (e) => migrateLog.warn(JSON.stringify(e)), error: (e) => migrateLog.error(JSON.stringify(e)), debug: () => {} },
+    logger: { info: (e) => log.info(String(e.event ?? '') + ' ' + String(e.name ?? '')), warn: (e) => migrateLog.warn(JSON.stringify(e)), error: (e) => migrateLog.error(JSON.stringify(e)), debug: () => {} },
   });
 }
 
 /** Applies every pending migration in order; returns the names applied. */
-export async function migrate(sequelize: Sequelize, log?: (message: string) => void): Promise<string[]> {
+export async function migrate(sequelize: Sequelize, log?: Logger): Promise<string[]> {
   const applied = await createMigrator(sequelize, log).up();
   return applied.map((migration) => migration.name);
 }

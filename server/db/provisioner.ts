@@ -74,14 +74,14 @@ function runSql(bin: MariaDbBinaries, socketPath: string, osUser: string, sql: s
   });
 }
 
-async function initialiseDataDir(bin: MariaDbBinaries, dataDir: string, osUser: string, log: (m: string) => void) {
+async function initialiseDataDir(bin: MariaDbBinaries, dataDir: string, osUser: string, log: Logger) {
   // Initialise into a temporary folder and rename it, so a killed init never leaves half a data dir.
   const tempDir = `${dataDir}.init-${process.pid}`;
   // Leftovers of an init that was killed (we hold the start/stop lock, so none is in progress).
   for (const entry of readdirSync(dirname(dataDir))) {
     if (entry.startsWith(`${basename(dataDir)}.init-`)) rmSync(join(dirname(dataDir), entry), { recursive: true, force: true });
   }
-  log(`Initialising a private MariaDB data directory in ${dataDir}`);
+  log.info(`Initialising a private MariaDB data directory in ${dataDir}`);
   await new Promise<void>((resolvePromise, reject) => {
     execFile(
       bin.installDb,
@@ -154,8 +154,7 @@ async function createDatabaseAndUser(bin: MariaDbBinaries, socketPath: string, o
  * creates the database and app user idempotently.
  */
 export async function provisionMariaDb(options: ProvisionOptions): Promise<ProvisionedMariaDb> {
-  const logger = options.log ?? mariadbLog;
-  const log = (message: string) => logger.info(message);
+  const log = options.log ?? mariadbLog;
   if (options.port === SYSTEM_MARIADB_PORT) throw new Error(`Refusing port ${SYSTEM_MARIADB_PORT}: that is the system MariaDB's port`);
   const bin = ensureMariaDbBinaries(log, options.allowInstall ?? true);
   const baseDir = resolve(options.baseDir);
@@ -183,21 +182,21 @@ export async function provisionMariaDb(options: ProvisionOptions): Promise<Provi
         throw new Error(`A MariaDB server (pid ${pid}) is already running on ${dataDir} but does not answer on ${socketPath}. ` +
           `Stop it first: kill ${pid}`);
       }
-      log(`Reusing the MariaDB server already running on this data (pid ${pid}); the last process using it stops it.`);
+      log.info(`Reusing the MariaDB server already running on this data (pid ${pid}); the last process using it stops it.`);
     } else {
       if (!(await isPortFree(options.port))) {
         throw new Error(`MariaDB port ${options.port} on 127.0.0.1 is already in use by another program: choose another port (KNEEPOINT_DB_PORT).`);
       }
       if (!existsSync(join(dataDir, 'mysql'))) await initialiseDataDir(bin, dataDir, osUser, log);
       pid = await start();
-      log(`MariaDB started on 127.0.0.1:${options.port} (pid ${pid}, data in ${dataDir})`);
+      log.info(`MariaDB started on 127.0.0.1:${options.port} (pid ${pid}, data in ${dataDir})`);
     }
     await createDatabaseAndUser(bin, socketPath, osUser, options);
     const dropLease = takeLease(baseDir);
     const stop = () => withStartStopLock(baseDir, async () => {
       dropLease();
       const others = liveLeaseHolders(baseDir);
-      if (others.length > 0) return log(`MariaDB left running: still used by pid ${[...new Set(others)].join(', ')}`);
+      if (others.length > 0) return log.info(`MariaDB left running: still used by pid ${[...new Set(others)].join(', ')}`);
       const running = findRunningMariaDb(dataDir, pidFile);
       if (running !== undefined) await stopMariaDb(running);
     });

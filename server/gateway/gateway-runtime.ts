@@ -7,7 +7,7 @@ import { BenchManager } from '../ingest/bench-manager.js';
 import type { SourceDeps } from '../ingest/sources/create-source.js';
 import { benchFeedTopic, gatewayConfigTopic, gatewayStateTopic, gatewayUsername } from '../mqtt/topics.js';
 import { Outbox } from './outbox.js';
-import type { Logger } from '../log/logger.js';
+import { createLogger, type Logger } from '../log/logger.js';
 
 /** Messages sent but not yet acknowledged, at most (the rest wait in the outbox). */
 export const SEND_WINDOW = 1000;
@@ -30,7 +30,7 @@ export interface GatewayOptions {
   password: string;
   /** Folder for the outbox and the last configuration received. */
   dir: string;
-  log?: (message: string) => void;
+  log?: Logger;
   sourceDeps?: SourceDeps;
 }
 
@@ -43,7 +43,7 @@ export interface GatewayOptions {
 export class GatewayRuntime {
   private readonly outbox: Outbox;
   private readonly manager: BenchManager;
-  private readonly log: (message: string) => void;
+  private readonly log: Logger;
   private client: MqttClient | undefined;
   private inflight = 0;
   /** Absolute outbox index of the next entry to hand to the client. */
@@ -53,18 +53,12 @@ export class GatewayRuntime {
   private benchIds: number[] = [];
   private readonly configPath: string;
 
-  /** The bench manager's logger: its lines through this gateway's log, an error's text appended. */
-  private managerLog(): Logger {
-    const line = (message: string, error?: unknown) => this.log(error === undefined ? message : `${message}: ${String(error)}`);
-    return { info: line, warn: line, error: line };
-  }
-
   constructor(private readonly options: GatewayOptions) {
-    this.log = options.log ?? ((m) => console.log(m));
+    this.log = options.log ?? createLogger('gateway');
     mkdirSync(options.dir, { recursive: true });
     this.configPath = join(options.dir, 'config.json');
     this.outbox = new Outbox(options.dir, this.log);
-    this.manager = new BenchManager(options.sourceDeps ?? {}, this.managerLog());
+    this.manager = new BenchManager(options.sourceDeps ?? {}, createLogger('ingest', this.log));
     // Everything goes to disk first, then out as the send window allows.
     this.manager.onFrame((benchId, frame) => {
       this.outbox.append(benchId, { type: 'frame', atMs: Date.now(), frame });
@@ -111,14 +105,14 @@ export class GatewayRuntime {
     });
     this.client = client;
     client.on('connect', () => {
-      this.log(`gateway ${name}: connected to ${this.options.brokerUrl}`);
+      this.log.info(`gateway ${name}: connected to ${this.options.brokerUrl}`);
       client.subscribe(gatewayConfigTopic(name), { qos: 1 });
       this.publishState();
       this.pump();
     });
     client.on('message', (_topic, payload) => void this.onConfig(payload));
-    client.on('error', (err) => this.log(`gateway ${name}: ${err.message}`));
-    client.on('offline', () => this.log(`gateway ${name}: broker unreachable; keeping readings in the outbox`));
+    client.on('error', (err) => this.log.error(`gateway ${name}: broker connection error`, err));
+    client.on('offline', () => this.log.warn(`gateway ${name}: broker unreachable; keeping readings in the outbox`));
     this.stateTimer = setInterval(() => this.publishState(), STATE_EVERY_MS);
     this.stateTimer.unref();
   }
@@ -128,7 +122,7 @@ export class GatewayRuntime {
     try {
       config = GatewayConfigMessageSchema.parse(JSON.parse(payload.toString('utf8')));
     } catch (err) {
-      this.log(`gateway: configuration refused: ${err instanceof Error ? err.message : String(err)}`);
+      this.log.error('configuration refused', err);
       return;
     }
     writeFileSync(`${this.configPath}.tmp`, JSON.stringify(config));

@@ -3,6 +3,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterEach, describe, expect, it } from 'vitest';
 import { COMPACT_AT_BYTES, Outbox } from './outbox.js';
+import { quietLogger } from '../log/logger.js';
 
 const dirs: string[] = [];
 const fresh = () => {
@@ -47,6 +48,24 @@ describe('gateway outbox', () => {
     const lines = readFileSync(join(dir, 'outbox.log'), 'utf8').trim().split('\n');
     expect(lines).toHaveLength(2);
     expect(lines.map((l) => JSON.parse(l.slice(2)).seq)).toEqual([1, 2]);
+  });
+
+  it('skips an unreadable whole line, keeps the lines after it, and tells its logger why (the error object)', () => {
+    const dir = fresh();
+    const box = new Outbox(dir);
+    box.append(1, frame(0));
+    box.close();
+    appendFileSync(join(dir, 'outbox.log'), '1 {"type":"frame","seq":2,"atMs":"not a time"}\n');
+    const later = new Outbox(dir);
+    later.append(1, frame(2));
+    later.close();
+    const warned: [string, unknown][] = [];
+    const again = new Outbox(dir, { ...quietLogger, warn: (message, error) => void warned.push([message, error]) });
+    expect(again.unacknowledged().map((e) => e.message.seq)).toEqual([1, 2]);
+    again.close();
+    expect(warned).toHaveLength(1);
+    expect(warned[0]![0]).toMatch(/unreadable line at byte \d+ was skipped/);
+    expect(warned[0]![1]).toBeInstanceOf(Error);
   });
 
   it('empties a fully acknowledged log past its size limit and keeps counting', () => {

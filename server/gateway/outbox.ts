@@ -1,6 +1,7 @@
 import { closeSync, existsSync, fsyncSync, openSync, readFileSync, writeSync, ftruncateSync, renameSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { FeedMessageSchema, type FeedMessage } from '../../shared/schemas/gateway.js';
+import { quietLogger, type Logger } from '../log/logger.js';
 
 /** The log is compacted (emptied) once everything in it is acknowledged and it is larger than this. */
 export const COMPACT_AT_BYTES = 8 * 1024 * 1024;
@@ -47,7 +48,7 @@ export class Outbox {
   private syncTimer: NodeJS.Timeout | undefined;
   private ackTimer: NodeJS.Timeout | undefined;
 
-  constructor(dir: string, private readonly log: (message: string) => void = () => undefined) {
+  constructor(dir: string, private readonly log: Logger = quietLogger) {
     this.logPath = join(dir, 'outbox.log');
     this.ackPath = join(dir, 'outbox.acked');
     this.seqPath = join(dir, 'outbox.seq');
@@ -73,8 +74,8 @@ export class Outbox {
         const message = FeedMessageSchema.parse(JSON.parse(line.slice(space + 1)));
         this.lastSeq.set(benchId, Math.max(this.lastSeq.get(benchId) ?? 0, message.seq));
         if (end + 1 > this.ackedBytes) this.pending.push({ benchId, message, endOffset: end + 1 });
-      } catch {
-        this.log(`outbox: an unreadable line at byte ${start} was skipped`);
+      } catch (err) {
+        this.log.warn(`outbox: an unreadable line at byte ${start} was skipped`, err);
       }
       start = end + 1;
     }

@@ -4,6 +4,7 @@ import { describe, expect, it } from 'vitest';
 import { ConflictError, DomainError, ForbiddenError, InvalidInputError, notFound, UnavailableError } from '../domain/domain-errors.js';
 import { domainErrorStatus } from './domain-error-status.js';
 import { createErrorHandler } from './error-handler.js';
+import { quietLogger } from '../log/logger.js';
 
 // Statuses as RFC 9110 section 15 defines them (400 Bad Request, 403 Forbidden, 404 Not Found,
 // 409 Conflict, 503 Service Unavailable).
@@ -31,7 +32,7 @@ describe('domain errors at the HTTP edge', () => {
     app.get('/odd', () => {
       throw new (class Odd extends DomainError {})('internal detail');
     });
-    app.use(createErrorHandler((m) => void logged.push(m)));
+    app.use(createErrorHandler({ ...quietLogger, error: (m) => void logged.push(m) }));
     const missing = await request(app).get('/missing');
     expect([missing.status, missing.body]).toEqual([404, { error: { message: 'Run 7 not found' } }]);
     const bad = await request(app).get('/bad');

@@ -4,6 +4,7 @@ import { HttpError } from './http-error.js';
 import { domainErrorStatus } from './domain-error-status.js';
 import { DomainError } from '../domain/domain-errors.js';
 import { isConnectionFailure } from '../db/connection-errors.js';
+import type { Logger } from '../log/logger.js';
 
 /** The JSON shape of every error answer: `{ error: { message, fields? } }`. */
 export interface ErrorBody {
@@ -59,7 +60,7 @@ function databaseError(error: unknown): { status: number; message: string } | un
  * (refused, broken or timed-out connection) → 503, anything else → 500 with a generic message
  * (the details go to the server log only).
  */
-export function createErrorHandler(log: (message: string, error: unknown) => void): ErrorRequestHandler {
+export function createErrorHandler(log: Logger): ErrorRequestHandler {
   return (error, req, res, next) => {
     if (res.headersSent) return next(error);
     const send = (status: number, body: ErrorBody['error']) => res.status(status).json({ error: body } satisfies ErrorBody);
@@ -80,7 +81,7 @@ export function createErrorHandler(log: (message: string, error: unknown) => voi
     const status = (error as { status?: number })?.status;
     if (typeof status === 'number' && status >= 400 && status < 500) return send(status, { message: 'Bad request' });
     // The path says which route failed; the context's logger takes share tokens out of it.
-    log(`Unhandled error on ${req.method} ${req.originalUrl}`, error);
+    log.error(`Unhandled error on ${req.method} ${req.originalUrl}`, error);
     return send(500, { message: 'Internal server error' });
   };
 }

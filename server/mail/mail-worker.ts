@@ -2,6 +2,7 @@ import type { Transporter } from 'nodemailer';
 import { BadAddressError, checkedAddress } from '../alarms/mail-message.js';
 import { openSecret } from './sealed-secret.js';
 import { SECRET_PLACEHOLDER, type ClaimedMail, type MailQueue } from './mail-queue.js';
+import type { Logger } from '../log/logger.js';
 
 /** How often the worker looks for due rows when nothing kicked it. */
 export const MAIL_POLL_MS = 1000;
@@ -19,7 +20,7 @@ export interface MailWorkerDeps {
   /** Key that opens the sealed secrets. */
   secretKey: Buffer;
   nowMs?: () => number;
-  log: (message: string) => void;
+  log: Logger;
 }
 
 /**
@@ -50,7 +51,7 @@ export class MailWorker {
       return;
     }
     this.running = this.turn()
-      .catch((err: unknown) => this.deps.log(`outbound mail: ${err instanceof Error ? err.message : String(err)}`))
+      .catch((err: unknown) => this.deps.log.error('outbound mail pass failed', err))
       .finally(() => {
         this.running = null;
         if (this.again) {
@@ -102,7 +103,7 @@ export class MailWorker {
     } catch (err) {
       const message = err instanceof Error ? err.message : String(err);
       const status = await queue.markFailed(row, message, this.now(), err instanceof BadAddressError);
-      this.deps.log(`outbound mail ${row.id} failed, ${status === 'failed' ? 'given up' : 'will retry'}: ${message}`);
+      this.deps.log.warn(`outbound mail ${row.id} failed, ${status === 'failed' ? 'given up' : 'will retry'}`, err);
     }
   }
 }

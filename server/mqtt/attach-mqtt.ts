@@ -10,6 +10,7 @@ import { GatewayLink } from './gateway-link.js';
 import { sqlFeedSeqStore } from './feed-seq-store.js';
 import { createGatewayService, type GatewayService } from './gateway-service.js';
 import { SERVER_USERNAME } from './topics.js';
+import { createLogger } from '../log/logger.js';
 
 declare module '../app-context.js' {
   interface AppServices {
@@ -49,7 +50,7 @@ export function mqttAttachment(options: MqttAttachmentOptions = {}) {
   return async function attachMqtt(httpServer: Server, ctx: AppContext): Promise<(() => Promise<void>) | void> {
     const config = ctx.config.mqtt;
     if (!config && !options.broker) return;
-    const log = (message: string) => ctx.log.info(`[mqtt] ${message}`);
+    const log = createLogger('mqtt', ctx.log);
     const dir = join(ctx.config.dataDir, 'mosquitto');
     const ownBroker = !options.broker && config?.local === true;
     const broker = options.broker ?? new MosquittoBroker(dir, config?.localPort ?? 0, log);
@@ -77,7 +78,7 @@ export function mqttAttachment(options: MqttAttachmentOptions = {}) {
     // Connect once the server listens: every attachment (benches' stand-ins, the recorder and its resumed
     // runs) is in place by then, so what the broker queued while the server was away is recorded, not dropped.
     httpServer.once('listening', () => {
-      void link.connect().then(() => log(`gateways over ${url}${link.connected ? '' : ' (broker not reached yet; retrying)'}`));
+      void link.connect().then(() => log.info(`gateways over ${url}${link.connected ? '' : ' (broker not reached yet; retrying)'}`));
     });
     return async () => {
       await link.stop();

@@ -4,6 +4,7 @@ import type { Clock } from '../ingest/clock.js';
 import { gatewayConfigTopic, parseTopic, SERVER_SUBSCRIPTIONS, SERVER_USERNAME } from './topics.js';
 import type { FeedSeqStore } from './feed-seq-store.js';
 import type { GatewaySource, GatewaySourceLink } from './gateway-source.js';
+import type { Logger } from '../log/logger.js';
 
 /** The server's MQTT client id: one server per broker (several would share a subscription, see docs/scale-out.md). */
 export const SERVER_CLIENT_ID = 'kneepoint-server';
@@ -37,7 +38,7 @@ export interface GatewayLinkOptions {
   username?: string;
   password?: string;
   clock: Clock;
-  log: (message: string) => void;
+  log: Logger;
   /** The registered, not revoked gateways. */
   loadGateways: () => Promise<KnownGateway[]>;
   /** What a gateway should run. */
@@ -120,13 +121,13 @@ export class GatewayLink implements GatewaySourceLink {
       setTimeout(resolve, FIRST_CONNECT_WAIT_MS).unref();
     });
     client.on('connect', () => {
-      this.options.log('MQTT: connected to the broker');
+      this.options.log.info('connected to the broker');
       client.subscribe(SERVER_SUBSCRIPTIONS, { qos: 1 });
       for (const id of this.known.keys()) this.scheduleConfig(id);
       this.notifyAll();
     });
     client.on('close', () => this.notifyAll());
-    client.on('error', (err) => this.options.log(`MQTT: ${err.message}`));
+    client.on('error', (err) => this.options.log.error('broker connection error', err));
     client.on('message', (topic, payload) => this.onMessage(topic, payload));
     await first;
   }
@@ -167,7 +168,7 @@ export class GatewayLink implements GatewaySourceLink {
       gatewayId,
       setTimeout(() => {
         this.configTimers.delete(gatewayId);
-        void this.publishConfig(gatewayId).catch((err: unknown) => this.options.log(`MQTT: configuration of gateway ${gatewayId} not sent: ${String(err)}`));
+        void this.publishConfig(gatewayId).catch((err: unknown) => this.options.log.error(`configuration of gateway ${gatewayId} not sent`, err));
       }, CONFIG_DEBOUNCE_MS),
     );
   }
@@ -200,7 +201,7 @@ export class GatewayLink implements GatewaySourceLink {
     const parsed = FeedMessageSchema.safeParse(raw);
     if (!parsed.success) {
       this.counters.invalid++;
-      if (this.counters.invalid === 1) this.options.log(`MQTT: a message on bench ${where.benchId}'s feed was refused: ${parsed.error.issues[0]?.message ?? '?'}`);
+      if (this.counters.invalid === 1) this.options.log.warn(`a message on bench ${where.benchId}'s feed was refused: ${parsed.error.issues[0]?.message ?? '?'}`);
       return;
     }
     const message = parsed.data;
@@ -212,7 +213,7 @@ export class GatewayLink implements GatewaySourceLink {
     }
     if (last !== undefined && message.seq > last + 1) {
       this.counters.gaps++;
-      this.options.log(`MQTT: bench ${where.benchId}: sequence jumped from ${last} to ${message.seq}`);
+      this.options.log.warn(`bench ${where.benchId}: sequence jumped from ${last} to ${message.seq}`);
     }
     this.lastSeq.set(where.benchId, message.seq);
     this.unsaved.add(where.benchId);
@@ -236,7 +237,7 @@ export class GatewayLink implements GatewaySourceLink {
       outboxDepth: state.outboxDepth ?? previous.outboxDepth,
     });
     if (previous.online !== state.online) {
-      this.options.log(`MQTT: gateway ${name} ${state.online ? 'online' : 'offline'}`);
+      this.options.log.info(`gateway ${name} ${state.online ? 'online' : 'offline'}`);
       this.notifyAll();
     }
   }
@@ -257,7 +258,7 @@ export class GatewayLink implements GatewaySourceLink {
         await store.save(batch);
       } catch (err) {
         for (const benchId of batch.keys()) this.unsaved.add(benchId);
-        this.options.log(`MQTT: last feed seq not saved: ${String(err)}`);
+        this.options.log.warn("last feed seq not saved", err);
       }
     });
     return this.saving;

@@ -1,4 +1,5 @@
 import { chargeCeilingVolts, programmeProblems, safetyFloorVolts, type PackLimits } from '../../shared/measure/programme-limits.js';
+import { createLogger } from '../log/logger.js';
 import { planSteps } from '../../shared/measure/programme-plan.js';
 import { ChemistrySchema } from '../../shared/schemas/battery.js';
 import type { Programme } from '../../shared/schemas/programme.js';
@@ -97,12 +98,12 @@ export class ProgrammeRunner {
 
   private launch(runId: number, benchId: number, plan: ReturnType<typeof planSteps>, instruments: NonNullable<Awaited<ReturnType<BenchInstrumentsProvider['forBench']>>>, limits: SafetyLimits, userId: number): void {
     const recorder = recorderOf(this.ctx);
-    const log = (m: string, e?: unknown) => this.ctx.log.warn(`run ${runId} programme: ${m}${e ? ` (${String(e)})` : ''}`);
+    const log = createLogger(`programme run ${runId}`, this.ctx.log);
     const commands: CommandLogRow[] = [];
     const executor: ProgrammeExecutor = new ProgrammeExecutor({
       plan, instruments, clock: this.clock, limits, log,
-      onStepEvent: (event) => void recorder.addStoredEvent(runId, event, userId).catch((e) => log('step event not stored', e)),
-      onChange: () => void this.runProgrammes.save(runId, executor.view()).catch((e) => log('progress not saved', e)),
+      onStepEvent: (event) => void recorder.addStoredEvent(runId, event, userId).catch((e) => log.error('step event not stored', e)),
+      onChange: () => void this.runProgrammes.save(runId, executor.view()).catch((e) => log.error('progress not saved', e)),
       onCommand: (entry) => void commands.push(entry),
     });
     const offReadings = recorder.readings.add((id, reading) => id === runId && executor.onReading(reading));
@@ -122,7 +123,7 @@ export class ProgrammeRunner {
       await this.flushCommands(runId, commands);
       await this.runProgrammes.save(runId, executor.view());
       if (recorder.session(runId)) await recorder.stop(runId, state !== 'finished');
-    }).catch((e) => log('did not end cleanly', e));
+    }).catch((e) => log.error('did not end cleanly', e));
     void executor.start();
   }
 
@@ -173,7 +174,7 @@ export class ProgrammeRunner {
       await this.runProgrammes.appendCommands(runId, batch);
     } catch (error) {
       commands.unshift(...batch);
-      this.ctx.log.warn(`run ${runId}: command log not written yet (${String(error)})`);
+      this.ctx.log.warn(`run ${runId}: command log not written yet`, error);
     }
   }
 

@@ -8,6 +8,7 @@ import './push-services.js';
 import { PushSendLog } from './push-send-log.js';
 import { PushSubscriptionRepo } from './push-subscription-repo.js';
 import { loadOrCreateVapidKeys } from './vapid-keys.js';
+import { createLogger } from '../log/logger.js';
 
 /** Options for the push attachment. */
 export interface PushAttachmentOptions {
@@ -40,7 +41,7 @@ function attachPushWith(options: PushAttachmentOptions, ctx: AppContext): Promis
   const off = channels.register(pushChannel({
     repo: new PushSubscriptionRepo(ctx.sequelize), sends: new PushSendLog(ctx.sequelize), vapid, ackSecret,
     subject: `mailto:${cfg.mailFrom}`,
-    log: (m) => ctx.log.warn(m), agent: options.agent,
+    log: createLogger('push', ctx.log), agent: options.agent,
   }));
   ctx.services.push = { vapid, ackSecret };
   return Promise.resolve(async () => {

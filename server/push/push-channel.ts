@@ -6,6 +6,7 @@ import { buildPushPayload } from './push-payload.js';
 import type { PushSendLog } from './push-send-log.js';
 import type { PushSubscriptionRepo, StoredPushSubscription } from './push-subscription-repo.js';
 import type { VapidKeys } from './vapid-keys.js';
+import type { Logger } from '../log/logger.js';
 
 /** How long the push service keeps an undelivered message for an offline browser (seconds). */
 const PUSH_TTL_SECONDS = 6 * 60 * 60;
@@ -33,7 +34,7 @@ export interface PushChannelDeps {
   /** Secret the acknowledge tokens are signed with. */
   ackSecret: string;
   nowMs?: () => number;
-  log: (message: string) => void;
+  log: Logger;
   /** HTTPS agent for the push services (tests trust their local push service's certificate with it). */
   agent?: Agent;
 }
@@ -62,7 +63,7 @@ export function pushChannel(deps: PushChannelDeps): AlarmChannel {
         if (error === null) await deps.sends.add(d.deliveryId, sub.id, new Date(now()));
         else if (error === 'gone') {
           await deps.repo.remove(sub.id);
-          deps.log(`push: the push service no longer knows subscription ${sub.id} of user ${sub.userId}; removed`);
+          deps.log.warn(`the push service no longer knows subscription ${sub.id} of user ${sub.userId}; removed`);
         } else failures.push(error);
       }));
       if (failures.length > 0) throw new Error(`push: ${failures.length} of ${subs.length} browsers not reached: ${failures[0]}`);

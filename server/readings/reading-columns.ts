@@ -14,7 +14,11 @@ export type Columns = Record<string, Float64Array>;
 /** A bench frame or a run reading; run readings carry totals and their run time. */
 export type LiveReading = Frame | Reading;
 
-/** Fixed channels every stored reading has; temperatures and aux channels add `temp:`/`aux:` columns. */
+/**
+ * Fixed channels every stored reading has; temperatures and aux channels add `temp:`/`aux:` columns.
+ * These are the names inside stored archive blocks, so they stay as stored: `elapsed` is a
+ * Reading's `elapsedSeconds` (run time, s) and `t` its source time (the meter's own clock).
+ */
 export const BASE_COLUMNS = ['t', 'elapsed', 'volts', 'amps', 'dischargeWh', 'dischargeAh', 'chargeWh', 'chargeAh'] as const;
 /** Prefix of a stored temperature column (`temp:cell`). */
 export const TEMP_PREFIX = 'temp:';

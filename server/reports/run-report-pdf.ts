@@ -1,5 +1,5 @@
 import type { Run } from '../../shared/schemas/run.js';
-import type { SamplesResponse, StoredRunEvent } from '../../shared/schemas/api-runs.js';
+import type { ReadingsResponse, StoredRunEvent } from '../../shared/schemas/api-runs.js';
 import type { LabSettings } from '../../shared/schemas/lab-settings.js';
 import type { RunProgramme } from '../../shared/schemas/programme-run.js';
 import { programmeReportLines } from './programme-lines.js';
@@ -16,7 +16,7 @@ const CHART_LINE_PT = 0.6;
 /** What a run report shows. */
 export interface RunReportInput {
   run: Run;
-  samples: SamplesResponse;
+  samples: ReadingsResponse;
   events: readonly StoredRunEvent[];
   settings: LabSettings;
   /** The run's review history (sign-offs), judged against the run as it is now. */
@@ -60,7 +60,7 @@ export function verdictText(run: Run, settings: LabSettings): string {
 }
 
 /** Volts against run time as vector lines from the min/max buckets (a bucket draws its min–max span). */
-function drawVoltsChart(doc: PDFKit.PDFDocument, samples: SamplesResponse): void {
+function drawVoltsChart(doc: PDFKit.PDFDocument, samples: ReadingsResponse): void {
   const x0 = MARGIN_PT;
   const y0 = doc.y;
   const width = doc.page.width - 2 * MARGIN_PT;

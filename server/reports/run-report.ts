@@ -1,9 +1,9 @@
 import type { Sequelize } from 'sequelize';
-import { SamplesQuerySchema } from '../../shared/schemas/api-runs.js';
+import { ReadingsQuerySchema } from '../../shared/schemas/api-runs.js';
 import type { Run } from '../../shared/schemas/run.js';
 import type { CoreModels } from '../db/models/index.js';
 import { RunsRepo } from '../runs/runs-repo.js';
-import { runSamples } from '../runs/samples-service.js';
+import { runReadings } from '../runs/readings-service.js';
 import { getLabSettings } from '../settings/settings-service.js';
 import { SignoffService } from '../signoff/signoff-service.js';
 import { renderRunReportPdf } from './run-report-pdf.js';
@@ -22,7 +22,7 @@ export interface ReportDeps {
 /** The run's report as PDF bytes: its chart buckets, events and notes, review history, test programme, instruments and the lab's settings, read now. */
 export async function runReportPdf(deps: ReportDeps, run: Run, madeAt: Date): Promise<Buffer> {
   const [samples, events, settings, review, programme, instruments] = await Promise.all([
-    runSamples(deps.sequelize, run.id, SamplesQuerySchema.parse({ maxPoints: REPORT_CHART_BUCKETS })),
+    runReadings(deps.sequelize, run.id, ReadingsQuerySchema.parse({ maxPoints: REPORT_CHART_BUCKETS })),
     new RunsRepo(deps.sequelize).events(run.id),
     getLabSettings(deps.models),
     new SignoffService(deps.sequelize).review(run.id),

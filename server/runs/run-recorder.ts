@@ -226,12 +226,12 @@ export class RunRecorder {
     const stored = session ? null : await this.deps.repo.get(runId);
     if (!session && !stored) throw notFound(`Run ${runId}`);
     // A note belongs within the run: up to its latest reading (live), or its length (ended).
-    const lengthSeconds = session ? (session.lastElapsed ?? 0) + NOTE_AHEAD_OF_LIVE_S : (stored?.summary?.durationSeconds ?? null);
+    const lengthSeconds = session ? (session.lastElapsedSeconds ?? 0) + NOTE_AHEAD_OF_LIVE_S : (stored?.summary?.durationSeconds ?? null);
     if (t !== undefined && lengthSeconds !== null && t > lengthSeconds) {
       const what = session ? 'the latest reading' : 'the end of the run';
       throw new InvalidInputError(`The note's time (${t} s) is after ${what} (${lengthSeconds.toFixed(1)} s)`, { t: [`at most ${lengthSeconds.toFixed(1)} s`] });
     }
-    const at = t ?? session?.lastElapsed ?? 0;
+    const at = t ?? session?.lastElapsedSeconds ?? 0;
     const note = await this.deps.repo.insertEvent(runId, { type: 'annotation', t: at, text, author: author.name }, author.id);
     session?.events.push(note.event);
     this.events.emit(runId, note);
@@ -346,7 +346,7 @@ export class RunRecorder {
     if (!session || session.state === 'armed') return;
     const down = SOURCE_DOWN_STATES.has(status.state);
     const lastWasLost = [...session.events].reverse().find((e) => e.type === 'source-lost' || e.type === 'source-restored')?.type === 'source-lost';
-    const t = session.lastElapsed ?? 0;
+    const t = session.lastElapsedSeconds ?? 0;
     if (down && !lastWasLost) this.emitEvent(session.run.id, session.addEvent({ type: 'source-lost', t, reason: status.message ?? status.state }));
     if (status.state === 'receiving' && lastWasLost) this.emitEvent(session.run.id, session.addEvent({ type: 'source-restored', t }));
   }

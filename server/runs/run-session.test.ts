@@ -181,4 +181,16 @@ describe('a run-session snapshot stored before the vocabulary renames', () => {
     const resumed = new RunSession(run, null, measureConfigFor(run, null), old);
     expect(resumed.clock.state).toEqual(before.clock.state);
   });
+
+  it('resumes with the last run time from the old field name (lastElapsed)', () => { // vocab-rename: keep
+    const run = baseRun({ state: 'recording' });
+    const before = new RunSession(run, null, measureConfigFor(run, null));
+    for (let i = 0; i < 5; i++) before.push({ t: 1000 + i, volts: 12, amps: 2, clock: 'device' });
+    const snapshot = before.snapshot();
+    expect(snapshot.lastElapsedSeconds).toBe(4);
+    const old = JSON.parse(JSON.stringify(snapshot).replace('"lastElapsedSeconds"', '"lastElapsed"')); // vocab-rename: keep
+    const resumed = new RunSession(run, null, measureConfigFor(run, null), old);
+    expect(resumed.lastElapsedSeconds).toBe(4);
+    expect(resumed.snapshot().lastElapsedSeconds).toBe(4);
+  });
 });

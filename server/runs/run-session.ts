@@ -23,7 +23,7 @@ export interface RunSessionSnapshot {
   recoveredAt: number | null;
   cutoffAt: number | null;
   cutoffCause: 'end-voltage' | 'protection' | null;
-  lastElapsed: number | null;
+  lastElapsedSeconds: number | null;
   tempAlarmRaised: boolean;
   /** Run time the discharge last came back after a pause or a protection reconnect (absent in older snapshots). */
   resumedAt?: number | null;
@@ -34,7 +34,7 @@ export interface RunSessionSnapshot {
 type SessionFields = Omit<RunSessionSnapshot, 'pipeline' | 'version'>;
 
 const FRESH_FIELDS: Omit<SessionFields, 'state'> = {
-  nextSeq: 0, nextEventSeq: 0, recoveredAt: null, cutoffAt: null, cutoffCause: null, lastElapsed: null, tempAlarmRaised: false,
+  nextSeq: 0, nextEventSeq: 0, recoveredAt: null, cutoffAt: null, cutoffCause: null, lastElapsedSeconds: null, tempAlarmRaised: false,
 };
 
 /**
@@ -43,10 +43,12 @@ const FRESH_FIELDS: Omit<SessionFields, 'state'> = {
  * over the live pipeline's (totals going back after a second restart).
  */
 function sessionFields(previous: RunSessionSnapshot): SessionFields {
-  const { nextSeq, nextEventSeq, state, recoveredAt, cutoffAt, cutoffCause, lastElapsed, tempAlarmRaised, clock } = previous;
+  const { nextSeq, nextEventSeq, state, recoveredAt, cutoffAt, cutoffCause, tempAlarmRaised, clock } = previous;
+  // A snapshot stored before the rename names the last run time `lastElapsed`. vocab-rename: keep
+  const lastElapsedSeconds = previous.lastElapsedSeconds ?? (previous as { lastElapsed?: number | null }).lastElapsed ?? null; // vocab-rename: keep
   // A snapshot stored before the renames names the clock guard's fields offsetS, lastArrivalS, suspectArrivalS. // vocab-rename: keep
   const current = clock ? (withCurrentKeys(clock) as ClockGuardState) : emptyClockState();
-  return { nextSeq, nextEventSeq, state, recoveredAt, cutoffAt, cutoffCause, lastElapsed, tempAlarmRaised, clock: current };
+  return { nextSeq, nextEventSeq, state, recoveredAt, cutoffAt, cutoffCause, lastElapsedSeconds, tempAlarmRaised, clock: current };
 }
 
 /** One event with its per-run sequence number (its idempotency key in the archive). */
@@ -96,8 +98,8 @@ export class RunSession {
     return this.snap.state;
   }
 
-  get lastElapsed(): number | null {
-    return this.snap.lastElapsed;
+  get lastElapsedSeconds(): number | null {
+    return this.snap.lastElapsedSeconds;
   }
 
   get readingsCount(): number {
@@ -110,7 +112,7 @@ export class RunSession {
     if (!reading) return { reading: null, events: [], stateChanged: false };
     this.pending.push(reading);
     this.snap.nextSeq++;
-    this.snap.lastElapsed = reading.elapsedSeconds;
+    this.snap.lastElapsedSeconds = reading.elapsedSeconds;
     const before = this.snap.state;
     if (before === 'armed') this.setState('recording');
     const out: SequencedEvent[] = [];
@@ -181,14 +183,14 @@ export class RunSession {
         const resumed = s.recoveredAt !== null && (s.resumedAt ?? Number.NEGATIVE_INFINITY) >= s.recoveredAt;
         const tripEnded = s.recoveredAt !== null && (this.run.protectionEndsTest === true || !resumed);
         const from = s.cutoffCause === 'end-voltage' ? s.cutoffAt : tripEnded ? s.recoveredAt : null;
-        return from !== null && s.lastElapsed !== null && s.lastElapsed - from >= wait;
+        return from !== null && s.lastElapsedSeconds !== null && s.lastElapsedSeconds - from >= wait;
       }
     }
   }
 
   /** Marks the run finished or aborted. */
   end(state: 'finished' | 'aborted'): void {
-    this.addEvent({ type: 'run-stop', t: this.snap.lastElapsed ?? 0, note: state });
+    this.addEvent({ type: 'run-stop', t: this.snap.lastElapsedSeconds ?? 0, note: state });
     this.setState(state);
   }
 

@@ -5,7 +5,7 @@ import {
   ImportProgressIdSchema,
   ListRunsQuerySchema,
   PatchRunRequestSchema,
-  SamplesQuerySchema,
+  ReadingsQuerySchema,
   StartRunRequestSchema,
   StopRunRequestSchema,
 } from '../../shared/schemas/api-runs.js';
@@ -23,7 +23,7 @@ import { NotesRepo, type NoteChangeRecord } from './notes-repo.js';
 import { changeNote } from './run-notes.js';
 import { RunsRepo } from './runs-repo.js';
 import { recorderOf } from './runs-services.js';
-import { runSamples } from './samples-service.js';
+import { runReadings } from './readings-service.js';
 import { runReportPdf } from '../reports/run-report.js';
 
 /** /api/runs: everyone signed in reads; technicians start, stop, rename, annotate and import. */
@@ -121,9 +121,10 @@ export function createRunsRouter(ctx: AppContext): Router {
     res.status(201).json({ event: stored });
   });
 
-  router.get('/:id/samples', requireRole('viewer'), async (req, res) => {
+  // `/samples` is the old address of the same history, kept for old clients. vocab-rename: keep
+  router.get(['/:id/readings', '/:id/samples'], requireRole('viewer'), async (req, res) => {
     const run = await runOr404(req.params.id);
-    res.json(await runSamples(ctx.sequelize, run.id, SamplesQuerySchema.parse(req.query), run.summary?.maxGapSeconds ?? run.maxGapSeconds ?? undefined));
+    res.json(await runReadings(ctx.sequelize, run.id, ReadingsQuerySchema.parse(req.query), run.summary?.maxGapSeconds ?? run.maxGapSeconds ?? undefined));
   });
 
   router.get('/:id/report.pdf', requireRole('viewer'), async (req, res) => {

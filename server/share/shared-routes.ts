@@ -1,5 +1,5 @@
 import { Router, type Request } from 'express';
-import { SamplesQuerySchema } from '../../shared/schemas/api-runs.js';
+import { ReadingsQuerySchema } from '../../shared/schemas/api-runs.js';
 import type { ShareOpeningWhat } from '../../shared/schemas/share.js';
 import type { AppContext } from '../app-context.js';
 import { HttpError } from '../http/http-error.js';
@@ -9,7 +9,7 @@ import { PhotosRepo } from '../photos/photos-repo.js';
 import { packReportPdf } from '../reports/pack-report.js';
 import { runReportPdf } from '../reports/run-report.js';
 import { RunsRepo } from '../runs/runs-repo.js';
-import { runSamples } from '../runs/samples-service.js';
+import { runReadings } from '../runs/readings-service.js';
 import { ShareRepo, type ActiveLink } from './share-repo.js';
 import { addressHash, isShareToken, shareTokenHash } from './share-token.js';
 import { sharedPackReport, sharedRunReport } from './shared-reports.js';
@@ -56,10 +56,11 @@ export function createSharedRouter(ctx: AppContext): Router {
     res.json({ report });
   });
 
-  router.get('/:token/samples', async (req, res) => {
+  // `/samples` is the old address of the same history, kept for old clients. vocab-rename: keep
+  router.get(['/:token/readings', '/:token/samples'], async (req, res) => {
     const link = await linkOf(req);
     if (link.kind !== 'run') throw gone();
-    res.json(await runSamples(ctx.sequelize, link.targetId, SamplesQuerySchema.parse(req.query)));
+    res.json(await runReadings(ctx.sequelize, link.targetId, ReadingsQuerySchema.parse(req.query)));
   });
 
   // The report as a PDF: the run's (with its sign-off block) or the pack's (its price only when the link says so).

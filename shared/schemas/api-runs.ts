@@ -92,14 +92,14 @@ export const RunResponseSchema = z.object({ run: RunSchema });
 export type RunResponse = z.infer<typeof RunResponseSchema>;
 
 /** GET /api/runs/:id/samples — window in run seconds (elapsedSeconds); maxPoints = buckets. */
-export const SamplesQuerySchema = z.object({
+export const ReadingsQuerySchema = z.object({
   from: z.coerce.number().finite().optional(),
   to: z.coerce.number().finite().optional(),
   maxPoints: z.coerce.number().int().min(10).max(20_000).default(1000),
   /** x axis: run seconds (`t`), delivered Ah (`ah`) or delivered Wh (`wh`); `from`/`to` are in its unit. */
   x: z.enum(['t', 'ah', 'wh']).default('t'),
 });
-export type SamplesQuery = z.infer<typeof SamplesQuerySchema>;
+export type ReadingsQuery = z.infer<typeof ReadingsQuerySchema>;
 
 const column = z.array(z.number().nullable());
 /** min and max of one channel per bucket (equal at full resolution); null = no reading (a gap). */
@@ -109,7 +109,7 @@ export const MinMaxColumnSchema = z.object({ min: column, max: column });
  * Columnar history. `t` = bucket start (or the reading's own time at full resolution),
  * seconds since the run started. Channels: volts, amps, watts and one per temperature.
  */
-export const SamplesResponseSchema = z.object({
+export const ReadingsResponseSchema = z.object({
   runId: z.number().int(),
   /** The x axis of `t`, `from`, `to` and `bucketSeconds`: run seconds, delivered Ah or delivered Wh. */
   x: z.enum(['t', 'ah', 'wh']),
@@ -125,7 +125,7 @@ export const SamplesResponseSchema = z.object({
   watts: MinMaxColumnSchema,
   temps: z.record(z.string(), MinMaxColumnSchema),
 });
-export type SamplesResponse = z.infer<typeof SamplesResponseSchema>;
+export type ReadingsResponse = z.infer<typeof ReadingsResponseSchema>;
 
 /** POST /api/runs/:id/events — an annotation at a run time (technician). */
 /** PATCH /api/runs/:id/events/:eventId: a note's new text (its author or an admin). */

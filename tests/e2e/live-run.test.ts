@@ -76,7 +76,7 @@ describe('a run from start to cutoff, through the real server, simulator and /ws
     console.log(`[figure] live page while streaming: ${perf.fps.toFixed(1)} frames/s, ${perf.longTasks} long tasks (longest ${perf.longestMs.toFixed(0)} ms)`);
 
     // Opened again half-way, the chart gets the archived start of the run, not only the last seconds.
-    const backfill = page.waitForResponse((r) => /\/api\/runs\/\d+\/samples\?/.test(r.url()) && r.status() === 200);
+    const backfill = page.waitForResponse((r) => /\/api\/runs\/\d+\/readings\?/.test(r.url()) && r.status() === 200);
     await page.reload();
     await backfill;
     await page.getByTestId('big-energy-out').filter({ hasText: /^[1-9]/ }).waitFor();
@@ -103,7 +103,7 @@ describe('a run from start to cutoff, through the real server, simulator and /ws
     const over = page.getByTestId('history-chart').locator('.u-over');
     await over.scrollIntoViewIfNeeded();
     const box = (await over.boundingBox())!;
-    const zoomed = page.waitForResponse((r) => /\/samples\?.*from=.*to=/.test(r.url()) && r.status() === 200);
+    const zoomed = page.waitForResponse((r) => /\/readings\?.*from=.*to=/.test(r.url()) && r.status() === 200);
     await page.mouse.move(box.x + box.width * 0.9, box.y + box.height / 2);
     await page.mouse.down();
     await page.mouse.move(box.x + box.width * 0.99, box.y + box.height / 2, { steps: 5 });

@@ -118,7 +118,7 @@ describe('sign off a run and open its share link in a fresh browser with no sess
       expect(pdf).toContain('Comment: Checked against the cell rating');
       const token = shareUrl.split('/s/')[1]!;
       const statusOf = async (path: string) => (await page.request.get(`${t.url}${path}`)).status();
-      for (const path of ['/api/runs', `/api/runs/${runId}`, `/api/runs/${runId}/report.pdf`, `/api/runs/${runId}/samples`, '/api/batteries', '/api/benches', '/api/settings', '/api/auth/me']) {
+      for (const path of ['/api/runs', `/api/runs/${runId}`, `/api/runs/${runId}/report.pdf`, `/api/runs/${runId}/readings`, '/api/batteries', '/api/benches', '/api/settings', '/api/auth/me']) {
         expect([path, await statusOf(path)]).toEqual([path, 401]);
       }
       for (const path of [`/api/shared/${token}/runs`, `/api/shared/${token}/photos/1/thumb`, `/api/shared/${token}/../runs/${runId}`]) {

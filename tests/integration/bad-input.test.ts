@@ -3,6 +3,7 @@ import express from 'express';
 import request from 'supertest';
 import { createTestContext, signInAs, type SignedInAgent, type TestContext } from './helpers/index.js';
 import { createErrorHandler } from '../../server/http/error-handler.js';
+import { quietLogger } from '../../server/log/logger.js';
 
 const BODY_LIMIT_BYTES = 100 * 1024; // testConfig's bodyLimit is 100kb
 const STACK_LINE = /\n\s+at .+\(.+:\d+:\d+\)/;
@@ -91,11 +92,14 @@ describe('the error handler on an unexpected failure', () => {
     app.get('/boom', () => {
       throw new Error('secret detail: db password is hunter2');
     });
-    app.use(createErrorHandler((_message, error) => logged.push(error)));
+    app.use(createErrorHandler({ ...quietLogger, error: (_message, error) => void logged.push(error) }));
     const response = await request(app).get('/boom').expect(500);
     expect(response.body).toEqual({ error: { message: 'Internal server error' } });
     expect(response.text).not.toMatch(/hunter2|secret detail/);
     expect(logged).toHaveLength(1);
+    // The log gets the error object itself, stack and all, not its text.
+    expect(logged[0]).toBeInstanceOf(Error);
+    expect((logged[0] as Error).stack).toMatch(/secret detail[\s\S]*\n\s+at /);
   });
 });
 

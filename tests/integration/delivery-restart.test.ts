@@ -15,6 +15,7 @@ import { getLabSettings } from '../../server/settings/settings-service.js';
 import { createTestContext, dropTestDatabase, signInAs, TEST_USERS, type SignedInAgent, type TestContext } from './helpers/index.js';
 import { browserKeys, decrypt, FakePushService, loopbackCertificate } from './push-kit.js';
 import { batteryAndBench, eventually, ManualFeed, tempSpillDir } from './runs-kit.js';
+import { quietLogger } from '../../server/log/logger.js';
 
 const MAIL_FROM = 'alarms@northgate-cell-lab.test';
 const alarmsConfig = { ...DEFAULT_ALARM_DELIVERY, mailFrom: MAIL_FROM, retryFirstMs: 200, retryMaxMs: 400, maxAttempts: 100 };
@@ -125,7 +126,7 @@ describe('delivery without duplicates after a restart', () => {
     const channels = new AlarmChannels();
     channels.register(dies);
     const doomed = new DeliveryWorker({
-      queue, repo, channels, labSettings: () => getLabSettings(current.ctx.models), publicUrl: () => 'http://kneepoint.test', nowMs: doomedNowMs, log: () => {},
+      queue, repo, channels, labSettings: () => getLabSettings(current.ctx.models), publicUrl: () => 'http://kneepoint.test', nowMs: doomedNowMs, log: quietLogger,
     });
     doomed.kick();
     const mails = () => smtp.received.filter((m) => m.to.includes(TEST_USERS.admin.email) && m.subject.includes('run-finished'));

@@ -79,7 +79,7 @@ describe('an import that fails half-way', () => {
     const orphans = await t.ctx.sequelize.query<{ n: number }>('SELECT COUNT(*) AS n FROM run_sample_chunks c LEFT JOIN runs r ON r.id = c.runId WHERE r.id IS NULL', { type: QueryTypes.SELECT });
     expect(Number(orphans[0]!.n)).toBe(0);
     expect(Number(await chunksOf(keptId))).toBe(keptChunks);
-    const samples = (await tech.get(`/api/runs/${keptId}/samples?maxPoints=1000`).expect(200)).body;
+    const samples = (await tech.get(`/api/runs/${keptId}/readings?maxPoints=1000`).expect(200)).body;
     expect(samples.readingsInWindow).toBe(200_000);
   }, 120_000);
 });
@@ -97,7 +97,7 @@ describe('the import pass', () => {
     expect(reread.summary).toEqual(kept.summary);
     expect(reread.fullSummary).toEqual(kept.fullSummary);
     expect([kept.run.readingsCount, reread.run.readingsCount]).toEqual([50_000, 50_000]);
-    const samples = async (id: number) => ({ ...(await tech.get(`/api/runs/${id}/samples?maxPoints=500`).expect(200)).body, runId: undefined });
+    const samples = async (id: number) => ({ ...(await tech.get(`/api/runs/${id}/readings?maxPoints=500`).expect(200)).body, runId: undefined });
     expect(await samples(reread.run.id)).toEqual(await samples(kept.run.id));
   }, 120_000);
 });

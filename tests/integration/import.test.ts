@@ -52,7 +52,7 @@ describe('POST /api/runs/import', () => {
     expect(s.percentOfRated).toBeCloseTo((s.dischargeAh / 2) * 100, 9);
     expect(res.body.run).toMatchObject({ origin: 'import', state: 'finished', readingsCount: 197, batteryId: battery.id });
     // The imported readings are archived like a live run's.
-    const samples = (await viewer.get(`/api/runs/${res.body.run.id}/samples?maxPoints=1000`).expect(200)).body;
+    const samples = (await viewer.get(`/api/runs/${res.body.run.id}/readings?maxPoints=1000`).expect(200)).body;
     expect(samples.reduced).toBe(false);
     expect(samples.t).toHaveLength(197);
     expect(samples.amps.max[10]).toBeGreaterThan(1.9); // discharge made positive

@@ -1,7 +1,7 @@
 import { formatCharge, formatEnergy, formatPercent, formatTemperature } from '../../shared/units/format.js';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { liveAttachment } from '../../server/live/attach-live.js';
-import { ListRunsResponseSchema, RunEventsResponseSchema, RunResponseSchema, SamplesResponseSchema } from '../../shared/schemas/api-runs.js';
+import { ListRunsResponseSchema, RunEventsResponseSchema, RunResponseSchema, ReadingsResponseSchema } from '../../shared/schemas/api-runs.js';
 import { createTestContext, signInAs, type SignedInAgent, type TestContext } from './helpers/index.js';
 import { batteryAndBench, eventually, ManualFeed, tempSpillDir } from './runs-kit.js';
 
@@ -77,23 +77,32 @@ describe('a live run', () => {
   });
 
   it('serves the history reduced to min/max buckets, and in full for a small window', async () => {
-    const reduced = SamplesResponseSchema.parse((await viewer.get(`/api/runs/${runId}/samples?maxPoints=100`).expect(200)).body);
+    const reduced = ReadingsResponseSchema.parse((await viewer.get(`/api/runs/${runId}/readings?maxPoints=100`).expect(200)).body);
     expect(reduced.reduced).toBe(true);
     expect(reduced.t).toHaveLength(100);
     expect(reduced.volts.max[0]).toBeCloseTo(V0, 9);
     expect(Math.min(...reduced.volts.min.filter((v: number | null) => v !== null))).toBeLessThan(END_VOLTS);
     expect(reduced.temps.cell.max[50]).toBe(25);
-    const full = (await viewer.get(`/api/runs/${runId}/samples?from=100&to=109&maxPoints=50`).expect(200)).body;
+    const full = (await viewer.get(`/api/runs/${runId}/readings?from=100&to=109&maxPoints=50`).expect(200)).body;
     expect(full.reduced).toBe(false);
     expect(full.t).toEqual([100, 101, 102, 103, 104, 105, 106, 107, 108, 109]);
     expect(full.volts.min[0]).toBeCloseTo(volts(100), 12);
-    await viewer.get(`/api/runs/${runId}/samples?from=10&to=5`).expect(400);
+    await viewer.get(`/api/runs/${runId}/readings?from=10&to=5`).expect(400);
     // Ten buckets over ~3,000 readings: served from the stored 64-reading min/max groups.
-    const coarse = (await viewer.get(`/api/runs/${runId}/samples?maxPoints=10`).expect(200)).body;
+    const coarse = (await viewer.get(`/api/runs/${runId}/readings?maxPoints=10`).expect(200)).body;
     const run = (await viewer.get(`/api/runs/${runId}`)).body.run;
     expect(coarse.readingsInWindow).toBe(run.readingsCount);
     expect(coarse.volts.max[0]).toBeCloseTo(V0, 9);
     expect(Math.min(...coarse.volts.min)).toBe(Math.min(...reduced.volts.min.filter((v: number | null) => v !== null)));
+  });
+
+  it('answers the old history address /samples exactly as /readings, for clients written before the rename', async () => {
+    const path = `/api/runs/${runId}/readings?from=100&to=109&maxPoints=50`;
+    const current = (await viewer.get(path).expect(200)).body;
+    const old = (await viewer.get(path.replace('/readings', '/samples')).expect(200)).body; // vocab-rename: keep
+    expect(old).toEqual(current);
+    expect(current.t).toHaveLength(10);
+    await viewer.get(`/api/runs/${runId}/samples?from=10&to=5`).expect(400); // vocab-rename: keep
   });
 
   it('exports every reading as CSV after a metadata block, and as JSON', async () => {
@@ -354,7 +363,7 @@ describe('a meter misbehaving mid-run', () => {
     await eventually(async () => {
       const events = RunEventsResponseSchema.parse((await viewer.get(`/api/runs/${run.id}/events`).expect(200)).body).events.map((e) => e.event);
       expect(events.map((e) => e.type)).toEqual(expect.arrayContaining(['source-lost', 'source-restored', 'gap', 'run-stop']));
-      const samples = SamplesResponseSchema.parse((await viewer.get(`/api/runs/${run.id}/samples?maxPoints=1000`).expect(200)).body);
+      const samples = ReadingsResponseSchema.parse((await viewer.get(`/api/runs/${run.id}/readings?maxPoints=1000`).expect(200)).body);
       expect(samples.readingsInWindow).toBe(40);
       // The restarted clock carries on after the last reading: run time only moves forward.
       expect(samples.t).toEqual([...samples.t].sort((a, b) => a - b));
@@ -371,9 +380,9 @@ describe('history windows a client should not ask for', () => {
     for (let s = 0; s < 100; s++) feed.emit(own.benchId, { t: s, volts: 13, amps: 2, clock: 'device' });
     await tech.post(`/api/runs/${run.id}/stop`).send({}).expect(200);
     await eventually(async () => expect((await viewer.get(`/api/runs/${run.id}`)).body.run.readingsCount).toBe(100));
-    const wide = await viewer.get(`/api/runs/${run.id}/samples?maxPoints=10&from=-1e308&to=1e308`).expect(400);
+    const wide = await viewer.get(`/api/runs/${run.id}/readings?maxPoints=10&from=-1e308&to=1e308`).expect(400);
     expect(wide.body.error.fields).toHaveProperty('to');
-    const inside = SamplesResponseSchema.parse((await viewer.get(`/api/runs/${run.id}/samples?maxPoints=10&from=-1e307&to=1e307`).expect(200)).body);
+    const inside = ReadingsResponseSchema.parse((await viewer.get(`/api/runs/${run.id}/readings?maxPoints=10&from=-1e307&to=1e307`).expect(200)).body);
     expect(inside.readingsInWindow).toBe(100);
   });
 });

@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { SamplesResponseSchema } from '../../shared/schemas/api-runs.js';
+import { ReadingsResponseSchema } from '../../shared/schemas/api-runs.js';
 import { createTestContext, signInAs, type SignedInAgent, type TestContext } from './helpers/index.js';
 import { SECONDS_PER_HOUR } from '../../shared/units/time.js';
 
@@ -33,9 +33,9 @@ afterAll(async () => {
   await t?.close();
 });
 
-describe('GET /api/runs/:id/samples?x=ah', () => {
+describe('GET /api/runs/:id/readings?x=ah', () => {
   it('places each reading at its delivered Ah: analytic check Ah(t) = I·t/3600 at constant current', async () => {
-    const body = SamplesResponseSchema.parse((await viewer.get(`/api/runs/${runId}/samples?x=ah&maxPoints=1000`).expect(200)).body);
+    const body = ReadingsResponseSchema.parse((await viewer.get(`/api/runs/${runId}/readings?x=ah&maxPoints=1000`).expect(200)).body);
     expect(body.x).toBe('ah');
     expect(body.reduced).toBe(false);
     expect(body.t).toHaveLength(STEPS + 1);
@@ -47,24 +47,24 @@ describe('GET /api/runs/:id/samples?x=ah', () => {
   });
 
   it('buckets over Ah and Wh with equal widths up to the delivered total', async () => {
-    const ah = SamplesResponseSchema.parse((await viewer.get(`/api/runs/${runId}/samples?x=ah&maxPoints=20`).expect(200)).body);
+    const ah = ReadingsResponseSchema.parse((await viewer.get(`/api/runs/${runId}/readings?x=ah&maxPoints=20`).expect(200)).body);
     expect(ah.reduced).toBe(true);
     expect(ah.t).toHaveLength(20);
     expect(ah.bucketSeconds).toBeCloseTo(2 / 20, 12);
     expect(ah.volts.max[0]).toBe(13.2);
-    const wh = SamplesResponseSchema.parse((await viewer.get(`/api/runs/${runId}/samples?x=wh&maxPoints=20`).expect(200)).body);
+    const wh = ReadingsResponseSchema.parse((await viewer.get(`/api/runs/${runId}/readings?x=wh&maxPoints=20`).expect(200)).body);
     // Analytic: E = I·∫(V0 − k·t) dt = I·(V0·T − k·T²/2) with k = 0.002 V per 10 s.
     const T = STEPS * STEP_S;
     expect(wh.to).toBeCloseTo((AMPS * (13.2 * T - (0.0002 * T * T) / 2)) / SECONDS_PER_HOUR, 6);
   });
 
   it('takes a window in Ah and refuses an unknown axis or a reversed window', async () => {
-    const part = SamplesResponseSchema.parse((await viewer.get(`/api/runs/${runId}/samples?x=ah&from=0.5&to=1`).expect(200)).body);
+    const part = ReadingsResponseSchema.parse((await viewer.get(`/api/runs/${runId}/readings?x=ah&from=0.5&to=1`).expect(200)).body);
     expect(part.t[0]).toBeGreaterThanOrEqual(0.5);
     expect(part.t.at(-1)).toBeLessThanOrEqual(1);
     expect(part.t).toHaveLength(91); // readings at 900 s … 1800 s
-    await viewer.get(`/api/runs/${runId}/samples?x=kwh`).expect(400);
-    await viewer.get(`/api/runs/${runId}/samples?x=ah&from=1&to=0.5`).expect(400);
-    await viewer.get(`/api/runs/${runId}/samples?x=ah&from=5`).expect(400); // beyond the 2 Ah delivered
+    await viewer.get(`/api/runs/${runId}/readings?x=kwh`).expect(400);
+    await viewer.get(`/api/runs/${runId}/readings?x=ah&from=1&to=0.5`).expect(400);
+    await viewer.get(`/api/runs/${runId}/readings?x=ah&from=5`).expect(400); // beyond the 2 Ah delivered
   });
 });

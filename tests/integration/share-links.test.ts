@@ -7,7 +7,7 @@ import sharp from 'sharp';
 import request from 'supertest';
 import { QueryTypes } from 'sequelize';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { SamplesResponseSchema } from '../../shared/schemas/api-runs.js';
+import { ReadingsResponseSchema } from '../../shared/schemas/api-runs.js';
 import { CreateShareLinkResponseSchema, SharedReportSchema, ShareOpeningsResponseSchema } from '../../shared/schemas/share.js';
 import { createTestContext, signInAs, type SignedInAgent, type TestContext } from './helpers/index.js';
 
@@ -111,13 +111,15 @@ describe('share links', () => {
     expect(report.events.some((e) => e.event.type === 'annotation' && e.event.text === 'lid closed, fan on')).toBe(true);
     expect(report.signoff).toMatchObject({ status: 'signed', signed: { comment: 'Meets the rating', byName: 'Test Admin' } });
     expect(JSON.stringify(report)).not.toContain('Private run of another pack');
-    const samples = SamplesResponseSchema.parse((await stranger().get(`/api/shared/${token}/samples?maxPoints=50`).expect(200)).body);
+    const samples = ReadingsResponseSchema.parse((await stranger().get(`/api/shared/${token}/readings?maxPoints=50`).expect(200)).body);
     expect(samples.runId).toBe(runA);
     // 361 readings at 12 V in at most 50 min/max buckets.
     expect(samples.readingsInWindow).toBe(361);
     expect(samples.reduced).toBe(true);
     expect(samples.t.length).toBeLessThanOrEqual(50);
     expect(samples.volts.max.every((v) => v === null || v === 12)).toBe(true);
+    // The old address answers the same for clients written before the rename. vocab-rename: keep
+    expect((await stranger().get(`/api/shared/${token}/samples?maxPoints=50`).expect(200)).body).toEqual(samples); // vocab-rename: keep
 
     const priced = await share('run', runA, { includePrices: true });
     const withPrice = SharedReportSchema.parse((await stranger().get(`/api/shared/${priced.token}`).expect(200)).body.report);
@@ -160,14 +162,14 @@ describe('share links', () => {
       `/api/shared/${run.token}/events`,
       `/api/shared/${run.token}/export.csv`,
       `/api/shared/${run.token}/photos/${photoA}/thumb`,
-      `/api/shared/${packLink.token}/samples`,
+      `/api/shared/${packLink.token}/readings`,
       `/api/shared/${packLink.token}/batteries/${packB}`,
       `/api/shared/${run.token}/%2e%2e/%2e%2e/runs`,
     ]) {
       noContent(await stranger().get(path).expect(404));
     }
     // The other run's samples are not reachable by asking for its id: the link's own run answers.
-    expect((await stranger().get(`/api/shared/${run.token}/samples?runId=${runB}&id=${runB}`).expect(200)).body.runId).toBe(runA);
+    expect((await stranger().get(`/api/shared/${run.token}/readings?runId=${runB}&id=${runB}`).expect(200)).body.runId).toBe(runA);
     for (const path of ['/api/runs', `/api/runs/${runB}`, `/api/runs/${runA}`, `/api/batteries/${packB}`, `/api/photos/${photoB}/thumb`]) {
       noContent(await stranger().get(path).set('Authorization', `Bearer ${run.token}`).set('Cookie', `share=${run.token}`).expect(401));
       noContent(await stranger().get(`${path}?token=${run.token}`).expect(401));
@@ -187,7 +189,7 @@ describe('share links', () => {
     await t.ctx.sequelize.query('UPDATE share_links SET expiresAt = DATE_SUB(UTC_TIMESTAMP(3), INTERVAL 1 SECOND) WHERE id = ?', { replacements: [expired.link.id] });
     const made = Buffer.alloc(32, 7).toString('base64url');
     for (const token of [revoked.token, expired.token, made, 'short']) {
-      for (const path of [`/api/shared/${token}`, `/api/shared/${token}/samples`, `/api/shared/${token}/photos/${photoA}/thumb`]) {
+      for (const path of [`/api/shared/${token}`, `/api/shared/${token}/readings`, `/api/shared/${token}/photos/${photoA}/thumb`]) {
         const res = await stranger().get(path).expect(404);
         expect(Object.keys(res.body)).toEqual(['error']);
         expect(JSON.stringify(res.body)).not.toMatch(/Shared capacity run|Pack SH-1|Meets the rating/);

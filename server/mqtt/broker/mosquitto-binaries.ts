@@ -1,6 +1,7 @@
 import { accessSync, constants, existsSync } from 'node:fs';
 import { execFileSync } from 'node:child_process';
 import { delimiter, join } from 'node:path';
+import type { Logger } from '../../log/logger.js';
 
 /** The exact command that installs the broker and its command-line clients on Debian. */
 export const MOSQUITTO_INSTALL_COMMAND =
@@ -38,13 +39,13 @@ function find(): MosquittoBinaries | undefined {
  * Finds Mosquitto; when missing and we are root on Debian, installs it with apt-get (saying
  * so), as the provisioner does for MariaDB; otherwise stops with the exact command to run.
  */
-export function ensureMosquittoBinaries(log: (message: string) => void, allowInstall = true): MosquittoBinaries {
+export function ensureMosquittoBinaries(log: Logger, allowInstall = true): MosquittoBinaries {
   const found = find();
   if (found) return found;
   if (!allowInstall || process.getuid?.() !== 0 || !existsSync('/etc/debian_version')) {
     throw new Error(`The MQTT broker (mosquitto, mosquitto_passwd) was not found.\nInstall it as root with:\n  ${MOSQUITTO_INSTALL_COMMAND}`);
   }
-  log(`Mosquitto is not installed: installing it now with\n  ${MOSQUITTO_INSTALL_COMMAND}`);
+  log.warn(`Mosquitto is not installed: installing it now with\n  ${MOSQUITTO_INSTALL_COMMAND}`);
   execFileSync('sh', ['-c', MOSQUITTO_INSTALL_COMMAND], { stdio: 'inherit', env: { ...process.env, DEBIAN_FRONTEND: 'noninteractive' } });
   const installed = find();
   if (!installed) throw new Error(`Mosquitto still missing after: ${MOSQUITTO_INSTALL_COMMAND}`);

@@ -4,6 +4,7 @@ import { connect } from 'node:net';
 import { join } from 'node:path';
 import { aclFileText, brokerConfigText, passwordFileText, writeAtomically, type BrokerAccount, type GatewayGrant } from './broker-files.js';
 import { ensureMosquittoBinaries, type MosquittoBinaries } from './mosquitto-binaries.js';
+import { quietLogger, type Logger } from '../../log/logger.js';
 
 const READY_TIMEOUT_MS = 10_000;
 const READY_POLL_MS = 50;
@@ -36,7 +37,7 @@ export class MosquittoBroker {
   constructor(
     readonly dir: string,
     readonly port: number,
-    private readonly log: (message: string) => void = () => undefined,
+    private readonly log: Logger = quietLogger,
     readonly host = '127.0.0.1',
   ) {
     this.binaries = ensureMosquittoBinaries(log);
@@ -79,7 +80,7 @@ export class MosquittoBroker {
     this.exited = new Promise((resolve) =>
       child.once('exit', (code, signal) => {
         if (this.child === child) this.child = undefined;
-        this.log(`mosquitto stopped (${signal ?? `exit ${code}`})${stderr ? `: ${stderr.trim()}` : ''}`);
+        this.log.warn(`mosquitto stopped (${signal ?? `exit ${code}`})${stderr ? `: ${stderr.trim()}` : ''}`);
         resolve();
       }),
     );
@@ -89,7 +90,7 @@ export class MosquittoBroker {
       if (Date.now() > until) throw new Error(`mosquitto did not listen on ${this.port} within ${READY_TIMEOUT_MS} ms`);
       await new Promise((r) => setTimeout(r, READY_POLL_MS));
     }
-    this.log(`mosquitto listening on ${this.url}`);
+    this.log.info(`mosquitto listening on ${this.url}`);
   }
 
   /** Stops the broker cleanly (it saves its queues first); SIGKILL after a timeout. */

@@ -1,7 +1,7 @@
 import { render } from '@testing-library/react';
 import uPlot from 'uplot';
 import { afterEach, describe, expect, it, vi } from 'vitest';
-import type { SamplesResponse } from '../../../shared/schemas/api-runs';
+import type { ReadingsResponse } from '../../../shared/schemas/api-runs';
 import { HistoryChart } from './history-chart';
 
 // uplot is replaced by the recording stand-in from tests/setup/client.ts.
@@ -14,23 +14,23 @@ afterEach(() => vi.restoreAllMocks());
 describe('HistoryChart', () => {
   it('draws the cell temperature, as the live screens do, when the run also logged ambient', () => {
     // Ambient sorts before cell: the chart must not fall back to alphabetical order.
-    const samples: SamplesResponse = { x: 't',
+    const readings: ReadingsResponse = { x: 't',
       runId: 1, from: 0, to: 2, reduced: false, bucketSeconds: null, readingsInWindow: 3,
       t: [0, 1, 2], volts: col([13.2, 13.1, 13]), amps: col([45, 45, 46]), watts: col([594, 590, 598]),
       temps: { ambient: col([23, 23, 23]), cell: col([23.4, 25.1, 28.6]) },
     };
-    render(<HistoryChart samples={samples} onZoom={() => {}} />);
+    render(<HistoryChart readings={readings} onZoom={() => {}} />);
     const plot = instances[instances.length - 1];
     expect(plot.data[5]).toEqual([23.4, 25.1, 28.6]);
   });
 
   it('leaves a phone-wide chart room to draw: narrower axes, temperature axis hidden (its line stays)', () => {
     vi.spyOn(HTMLElement.prototype, 'clientWidth', 'get').mockReturnValue(358);
-    const samples: SamplesResponse = { x: 't',
+    const readings: ReadingsResponse = { x: 't',
       runId: 1, from: 0, to: 1, reduced: false, bucketSeconds: null, readingsInWindow: 2,
       t: [0, 1], volts: col([13.2, 13.1]), amps: col([45, 45]), watts: col([594, 590]), temps: { cell: col([23.4, 23.5]) },
     };
-    render(<HistoryChart samples={samples} onZoom={() => {}} />);
+    render(<HistoryChart readings={readings} onZoom={() => {}} />);
     const axes = instances[instances.length - 1].opts.axes;
     const temperature = axes.find((a) => a.scale === 'C')!;
     expect(temperature.show).toBe(false);
@@ -41,14 +41,14 @@ describe('HistoryChart', () => {
 
 describe('HistoryChart zoom', () => {
   it('keeps one uPlot instance and zooms with setData and setScale', () => {
-    const whole: SamplesResponse = { x: 't',
+    const whole: ReadingsResponse = { x: 't',
       runId: 1, from: 0, to: 100, reduced: true, bucketSeconds: 50, readingsInWindow: 100,
       t: [0, 50], volts: col([13.2, 13.0]), amps: col([45, 45]), watts: col([594, 585]), temps: {},
     };
-    const zoomed: SamplesResponse = { ...whole, from: 10, to: 20, reduced: false, bucketSeconds: null, t: [10, 20] };
+    const zoomed: ReadingsResponse = { ...whole, from: 10, to: 20, reduced: false, bucketSeconds: null, t: [10, 20] };
     const before = instances.length;
-    const view = render(<HistoryChart samples={whole} onZoom={() => {}} />);
-    view.rerender(<HistoryChart samples={zoomed} onZoom={() => {}} />);
+    const view = render(<HistoryChart readings={whole} onZoom={() => {}} />);
+    view.rerender(<HistoryChart readings={zoomed} onZoom={() => {}} />);
     expect(instances.length).toBe(before + 1);
     const plot = instances[instances.length - 1] as unknown as { data: unknown[][]; setDataCalls: number; scaleCalls: { key: string; limits: unknown }[] };
     expect(plot.setDataCalls).toBe(1);

@@ -1,7 +1,7 @@
 import { useEffect, useRef } from 'react';
 import uPlot from 'uplot';
 import 'uplot/dist/uPlot.min.css';
-import type { SamplesResponse } from '../../../shared/schemas/api-runs';
+import type { ReadingsResponse } from '../../../shared/schemas/api-runs';
 import { pickTempChannel } from '../../lib/live-view';
 import { resolveColor, SIGNAL_COLORS } from '../../lib/palette';
 import { formatAmps, formatElapsedClock, formatTemperature, formatVolts } from '../../lib/units';
@@ -21,7 +21,7 @@ const MARKER_WIDTH_PX = 2;
 const NO_MARKERS: readonly ChartMarker[] = [];
 
 /** The chart's columns; the temperature is the same channel the live screens show (the cell when there is one). */
-function toData(s: SamplesResponse): uPlot.AlignedData {
+function toData(s: ReadingsResponse): uPlot.AlignedData {
   const tempName = pickTempChannel(s.temps);
   const temp = tempName ? s.temps[tempName].max : s.t.map(() => null);
   return [s.t, s.volts.max, s.volts.min, s.amps.max, s.amps.min, temp];
@@ -80,7 +80,7 @@ function buildOptions(width: number, heightPx: number, temperatureUnit: 'C' | 'F
 }
 
 interface Props {
-  samples: SamplesResponse;
+  readings: ReadingsResponse;
   markers?: readonly ChartMarker[];
   onZoom: (from: number, to: number) => void;
   heightPx?: number;
@@ -88,7 +88,7 @@ interface Props {
 }
 
 /** A run's history from min/max buckets; drag across it to zoom (the page fetches again). */
-export function HistoryChart({ samples, markers = NO_MARKERS, onZoom, heightPx = 360, temperatureUnit = 'C' }: Props) {
+export function HistoryChart({ readings, markers = NO_MARKERS, onZoom, heightPx = 360, temperatureUnit = 'C' }: Props) {
   const containerRef = useRef<HTMLDivElement>(null);
   const plotRef = useRef<uPlot | null>(null);
   const zoomRef = useRef(onZoom);
@@ -98,7 +98,7 @@ export function HistoryChart({ samples, markers = NO_MARKERS, onZoom, heightPx =
   const printing = usePrinting();
 
   const markersRef = useRef(markers);
-  const samplesRef = useRef(samples);
+  const readingsRef = useRef(readings);
 
   useEffect(() => {
     zoomRef.current = onZoom;
@@ -111,7 +111,7 @@ export function HistoryChart({ samples, markers = NO_MARKERS, onZoom, heightPx =
     if (!el) return;
     const plot = new uPlot(
       buildOptions(el.clientWidth || width, heightPx, temperatureUnit, () => markersRef.current, (from, to) => zoomRef.current(from, to)),
-      toData(samplesRef.current),
+      toData(readingsRef.current),
       el,
     );
     plotRef.current = plot;
@@ -122,15 +122,15 @@ export function HistoryChart({ samples, markers = NO_MARKERS, onZoom, heightPx =
     // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [heightPx, theme, temperatureUnit, printing]);
 
-  // A zoomed window arrives as new samples: swap the data in and set the x scale to the window.
+  // A zoomed window arrives as new readings: swap the data in and set the x scale to the window.
   useEffect(() => {
-    if (samplesRef.current === samples) return;
-    samplesRef.current = samples;
+    if (readingsRef.current === readings) return;
+    readingsRef.current = readings;
     const plot = plotRef.current;
     if (!plot) return;
-    plot.setData(toData(samples), false);
-    plot.setScale('x', { min: samples.from, max: samples.to });
-  }, [samples]);
+    plot.setData(toData(readings), false);
+    plot.setScale('x', { min: readings.from, max: readings.to });
+  }, [readings]);
 
   useEffect(() => {
     if (markersRef.current === markers) return;

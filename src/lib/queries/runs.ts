@@ -1,36 +1,36 @@
 import { queryOptions } from '@tanstack/react-query';
-import { RunResponseSchema, SamplesResponseSchema } from '../../../shared/schemas/api-runs';
+import { RunResponseSchema, ReadingsResponseSchema } from '../../../shared/schemas/api-runs';
 import { api } from '../api-client';
 import { queryKeys } from './query-keys';
 
 /** The samples' x axis: run seconds, delivered Ah or delivered Wh (the window is in its unit). */
-export type SampleAxis = 't' | 'ah' | 'wh';
+export type ReadingAxis = 't' | 'ah' | 'wh';
 
 /** A window of run time in seconds; null ends mean "from the start" / "to the end". */
-export interface SampleWindow {
+export interface ReadingWindow {
   from: number | null;
   to: number | null;
 }
 
-/** The address of GET /api/runs/:id/samples for a window reduced to about `maxPoints` buckets. */
-export function runSamplesPath(runId: number, window: SampleWindow, maxPoints: number, x: SampleAxis = 't'): string {
+/** The address of GET /api/runs/:id/readings for a window reduced to about `maxPoints` buckets. */
+export function runReadingsPath(runId: number, window: ReadingWindow, maxPoints: number, x: ReadingAxis = 't'): string {
   const params = new URLSearchParams({ maxPoints: String(maxPoints) });
   if (x !== 't') params.set('x', x);
   if (window.from !== null) params.set('from', String(window.from));
   if (window.to !== null) params.set('to', String(window.to));
-  return `/api/runs/${runId}/samples?${params}`;
+  return `/api/runs/${runId}/readings?${params}`;
 }
 
 /** Fetches a window of a run's readings (min/max buckets when reduced). */
-export function fetchRunSamples(runId: number, window: SampleWindow, maxPoints: number, signal?: AbortSignal, x: SampleAxis = 't') {
-  return api(runSamplesPath(runId, window, maxPoints, x), { schema: SamplesResponseSchema, signal });
+export function fetchRunReadings(runId: number, window: ReadingWindow, maxPoints: number, signal?: AbortSignal, x: ReadingAxis = 't') {
+  return api(runReadingsPath(runId, window, maxPoints, x), { schema: ReadingsResponseSchema, signal });
 }
 
-/** GET /api/runs/:id/samples reduced to about `maxPoints` min/max buckets (one per pixel). */
-export const samplesQueryOptions = (runId: number, window: SampleWindow, maxPoints: number, x: SampleAxis = 't') =>
+/** GET /api/runs/:id/readings reduced to about `maxPoints` min/max buckets (one per pixel). */
+export const readingsQueryOptions = (runId: number, window: ReadingWindow, maxPoints: number, x: ReadingAxis = 't') =>
   queryOptions({
-    queryKey: x === 't' ? queryKeys.runs.samples(runId, window.from, window.to, maxPoints) : [...queryKeys.runs.samples(runId, window.from, window.to, maxPoints), x],
-    queryFn: () => fetchRunSamples(runId, window, maxPoints, undefined, x),
+    queryKey: x === 't' ? queryKeys.runs.readings(runId, window.from, window.to, maxPoints) : [...queryKeys.runs.readings(runId, window.from, window.to, maxPoints), x],
+    queryFn: () => fetchRunReadings(runId, window, maxPoints, undefined, x),
   });
 
 /** GET /api/runs/:id: one run with its summary (the live page and the run page). */

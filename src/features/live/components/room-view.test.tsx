@@ -21,7 +21,7 @@ describe('room view', () => {
     stubApi(demoUser('viewer'), (url) => {
       if (url === '/api/benches/1') return { status: 200, body: { bench: { id: 1, name: 'Bench A', source: { kind: 'none' }, enabled: true, notes: '', createdAt: now, updatedAt: now, status } } };
       if (url.startsWith('/api/runs?benchId=1')) return { status: 200, body: { runs: [], total: 0 } };
-      if (url.startsWith('/api/runs/41/samples')) return { status: 404, body: { error: { message: 'Not found' } } };
+      if (url.startsWith('/api/runs/41/readings')) return { status: 404, body: { error: { message: 'Not found' } } };
       return undefined;
     });
     const listeners = new Map<string, (m: ServerMessage) => void>();

@@ -34,12 +34,12 @@ describe('a capacity run page: incremental capacity and run time at other curren
     const { calls } = stubApi(demoUser('viewer'), (url) => {
       if (url === '/api/runs/9') return { status: 200, body: { run } };
       if (url.startsWith('/api/runs/9/events')) return { status: 200, body: { events: [] } };
-      if (url.startsWith('/api/runs/9/samples')) return { status: 200, body: url.includes('x=ah') ? samples : { ...samples, x: 't' } };
+      if (url.startsWith('/api/runs/9/readings')) return { status: 200, body: url.includes('x=ah') ? samples : { ...samples, x: 't' } };
       return undefined;
     });
     renderAt('/runs/9');
     await screen.findByTestId('ic-chart');
-    expect(calls.some((c) => c.url.startsWith('/api/runs/9/samples') && c.url.includes('x=ah'))).toBe(true);
+    expect(calls.some((c) => c.url.startsWith('/api/runs/9/readings') && c.url.includes('x=ah'))).toBe(true);
     await waitFor(() => expect(plots().some((p) => JSON.stringify(p.opts).includes('dQ/dV'))).toBe(true));
     const ic = plots().findLast((p) => JSON.stringify(p.opts).includes('dQ/dV'))!;
     const [volts, dQdV] = ic.data;

@@ -3,7 +3,7 @@ import { useId, useMemo, useState } from 'react';
 import type { RunSummary } from '../../../../shared/schemas/run-summary';
 import { Loading, QueryError } from '../../../components/ui/status';
 import { formatAmps, formatCharge, formatDuration, SECONDS_PER_HOUR } from '../../../lib/units';
-import { samplesQueryOptions } from '../api/get-run-samples';
+import { readingsQueryOptions } from '../api/get-run-readings';
 import { defaultPeukertExponent, runIncrementalCapacity, runtimeEstimates } from './capacity-analysis';
 import { IncrementalCapacityChart } from './incremental-capacity-chart';
 
@@ -21,7 +21,7 @@ const PEUKERT_K_STEP = 0.01;
 export function CapacityAnalysisPanel({ runId, summary }: { runId: number; summary: RunSummary }) {
   const capacityAh = summary.capacityAh;
   const testAmps = summary.meanAmps;
-  const samples = useQuery({ ...samplesQueryOptions(runId, { from: null, to: null }, IC_MAX_POINTS, 'ah'), enabled: capacityAh !== null });
+  const samples = useQuery({ ...readingsQueryOptions(runId, { from: null, to: null }, IC_MAX_POINTS, 'ah'), enabled: capacityAh !== null });
   const ic = useMemo(
     () => (samples.data && capacityAh !== null ? runIncrementalCapacity(samples.data, capacityAh, summary.cellsInSeries) : null),
     [samples.data, capacityAh, summary.cellsInSeries],

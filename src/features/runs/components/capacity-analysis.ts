@@ -1,4 +1,4 @@
-import type { SamplesResponse } from '../../../../shared/schemas/api-runs';
+import type { ReadingsResponse } from '../../../../shared/schemas/api-runs';
 import type { Chemistry } from '../../../../shared/schemas/chemistry';
 import { incrementalCapacity, type VoltChargePoint } from '../../../../shared/measure/incremental-capacity';
 import { peukertRuntimeFromTest, TYPICAL_PEUKERT_EXPONENT } from '../../../../shared/measure/peukert';
@@ -15,7 +15,7 @@ export const IC_MIN_BIN_VOLTS = 0.01;
  * The discharge to the end voltage as volts against delivered Ah, from samples on the Ah axis:
  * each bucket's middle volts at its middle Ah (gaps skipped, nothing past `capacityAh`).
  */
-export function dischargePoints(samples: SamplesResponse, capacityAh: number): VoltChargePoint[] {
+export function dischargePoints(samples: ReadingsResponse, capacityAh: number): VoltChargePoint[] {
   const half = samples.reduced && samples.bucketSeconds ? samples.bucketSeconds / 2 : 0;
   const out: VoltChargePoint[] = [];
   for (let i = 0; i < samples.t.length; i++) {
@@ -29,7 +29,7 @@ export function dischargePoints(samples: SamplesResponse, capacityAh: number): V
 }
 
 /** dQ/dV of a capacity run (Ah per volt against volts), with bins scaled to the cells in series. */
-export function runIncrementalCapacity(samples: SamplesResponse, capacityAh: number, cellsInSeries: number | null): { volts: number[]; dQdV: number[] } {
+export function runIncrementalCapacity(samples: ReadingsResponse, capacityAh: number, cellsInSeries: number | null): { volts: number[]; dQdV: number[] } {
   const binVolts = Math.max(IC_MIN_BIN_VOLTS, IC_BIN_VOLTS_PER_CELL * (cellsInSeries ?? 1));
   return incrementalCapacity(dischargePoints(samples, capacityAh), { binVolts });
 }

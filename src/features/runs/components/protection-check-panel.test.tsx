@@ -39,7 +39,7 @@ describe('a protection-check run page', () => {
     const { calls } = stubApi(demoUser('viewer'), (url) => {
       if (url === '/api/runs/4') return { status: 200, body: { run } };
       if (url.startsWith('/api/runs/4/events')) return { status: 200, body: { events: [] } };
-      if (url.startsWith('/api/runs/4/samples')) return { status: 200, body: samples };
+      if (url.startsWith('/api/runs/4/readings')) return { status: 200, body: samples };
       return undefined;
     });
     const { router } = renderAt('/runs/4');
@@ -55,7 +55,7 @@ describe('a protection-check run page', () => {
     expect(screen.getByText(/chamber -10\.0 °C to 80\.2 °C/)).toBeTruthy();
     await userEvent.click(within(rows[2]!).getByRole('link', { name: 'Show on chart' }));
     await waitFor(() => expect(router.state.location.search).toBe('?from=2000&to=2100'));
-    await waitFor(() => expect(calls.some((c) => c.url.startsWith('/api/runs/4/samples') && c.url.includes('from=2000') && c.url.includes('to=2100'))).toBe(true));
+    await waitFor(() => expect(calls.some((c) => c.url.startsWith('/api/runs/4/readings') && c.url.includes('from=2000') && c.url.includes('to=2100'))).toBe(true));
   });
 
   it('stands in for the verdict in the runs list: how many protections passed and failed, no capacity figure', async () => {
@@ -70,7 +70,7 @@ describe('a protection-check run page', () => {
     stubApi(demoUser('viewer'), (url) => {
       if (url === '/api/runs/6') return { status: 200, body: { run: charge } };
       if (url.startsWith('/api/runs/6/events')) return { status: 200, body: { events: [] } };
-      if (url.startsWith('/api/runs/6/samples')) return { status: 200, body: { ...samples, runId: 6 } };
+      if (url.startsWith('/api/runs/6/readings')) return { status: 200, body: { ...samples, runId: 6 } };
       return undefined;
     });
     renderAt('/runs/6');

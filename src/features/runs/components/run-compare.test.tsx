@@ -36,7 +36,7 @@ function measuredApi(url: string) {
   requested.push(url);
   const one = url.match(/^\/api\/runs\/(\d+)$/);
   if (one) return { status: 200, body: { run: measured.find((r) => r.id === Number(one[1])) } };
-  const s = url.match(/^\/api\/runs\/(\d+)\/samples/);
+  const s = url.match(/^\/api\/runs\/(\d+)\/readings/);
   if (s) return { status: 200, body: samples(Number(s[1])) };
   return undefined;
 }
@@ -52,7 +52,7 @@ function api(url: string) {
   if (url.startsWith('/api/runs?')) return { status: 200, body: { runs, total: runs.length } };
   const one = url.match(/^\/api\/runs\/(\d+)$/);
   if (one) return { status: 200, body: { run: runs.find((r) => r.id === Number(one[1])) } };
-  const s = url.match(/^\/api\/runs\/(\d+)\/samples/);
+  const s = url.match(/^\/api\/runs\/(\d+)\/readings/);
   if (s) return { status: 200, body: samples(Number(s[1])) };
   return undefined;
 }
@@ -110,12 +110,12 @@ describe('compare page', () => {
     stubApi(demoUser('viewer'), measuredApi);
     renderAt('/runs/compare?ids=3,8');
     await screen.findByTestId('compare-chart');
-    expect(requested.filter((u) => u.includes('/samples')).every((u) => u.includes('x=ah'))).toBe(true);
+    expect(requested.filter((u) => u.includes('/readings')).every((u) => u.includes('x=ah'))).toBe(true);
     expect(screen.getByTestId('rating-marker-note').textContent).toMatch(/rated 25(\.\d+)? Ah, 50(\.\d+)? Ah/);
     await userEvent.click(screen.getByRole('radio', { name: 'Wh' }));
-    await waitFor(() => expect(requested.some((u) => u.includes('/api/runs/8/samples') && u.includes('x=wh'))).toBe(true));
+    await waitFor(() => expect(requested.some((u) => u.includes('/api/runs/8/readings') && u.includes('x=wh'))).toBe(true));
     await userEvent.click(screen.getByRole('radio', { name: 'Run time' }));
-    await waitFor(() => expect(requested.some((u) => u.includes('/api/runs/8/samples') && !u.includes('x='))).toBe(true));
+    await waitFor(() => expect(requested.some((u) => u.includes('/api/runs/8/readings') && !u.includes('x='))).toBe(true));
     expect(screen.queryByTestId('rating-marker-note')).toBeNull();
     await userEvent.click(screen.getByRole('radio', { name: '% of rated' }));
     expect(await screen.findByText('Dashed line: 100 % of rated')).toBeTruthy();

@@ -10,7 +10,7 @@ import { useLabSettings } from '../../../lib/lab-settings';
 import { COMPARE_COLORS } from '../../../lib/palette';
 import { formatCharge, formatDuration, formatEnergy, formatNumber, formatVolts } from '../../../lib/units';
 import { runQueryOptions } from '../api/get-run';
-import { samplesQueryOptions, type SampleAxis } from '../api/get-run-samples';
+import { readingsQueryOptions, type ReadingAxis } from '../api/get-run-readings';
 import { VerdictBadge } from './verdict-badge';
 import { formatPercentOfRated } from './summary-wording';
 
@@ -24,7 +24,7 @@ export const MAX_COMPARED_RUNS = 4;
 const FULL_RATING_PERCENT = 100;
 
 /** The samples axis each chart axis is drawn from (% of rated is delivered Ah over rated Ah). */
-const SAMPLE_AXIS: Record<CompareAxis, SampleAxis> = { time: 't', ah: 'ah', wh: 'wh', percent: 'ah' };
+const SAMPLE_AXIS: Record<CompareAxis, ReadingAxis> = { time: 't', ah: 'ah', wh: 'wh', percent: 'ah' };
 /** The axis choices in the order offered. */
 const AXIS_CHOICES: { axis: CompareAxis; label: string }[] = [
   { axis: 'ah', label: 'Ah' },
@@ -61,7 +61,7 @@ export function RunCompare({ runIds, title = 'Compare runs' }: { runIds: readonl
   const [axis, setAxis] = useState<CompareAxis>('ah');
   const [sorting, setSorting] = useState<SortingState>([]);
   const runs = useQueries({ queries: runIds.map((id) => runQueryOptions(id)) });
-  const samples = useQueries({ queries: runIds.map((id) => samplesQueryOptions(id, { from: null, to: null }, COMPARE_MAX_POINTS, SAMPLE_AXIS[axis])) });
+  const samples = useQueries({ queries: runIds.map((id) => readingsQueryOptions(id, { from: null, to: null }, COMPARE_MAX_POINTS, SAMPLE_AXIS[axis])) });
   const failed = [...runs, ...samples].find((q) => q.isError);
   const ready = runs.every((q) => q.data) && samples.every((q) => q.data);
   const sampleData = samples.map((q) => q.data);

@@ -13,7 +13,7 @@ import { NOTE_COLOR, RUN_STATE_COLORS } from '../../../lib/palette';
 import { formatElapsedClock } from '../../../lib/units';
 import { useRun, useRunEvents } from '../api/get-run';
 import { useRunBattery } from '../api/get-run-context';
-import { useRunSamples, type SampleWindow } from '../api/get-run-samples';
+import { useRunReadings, type ReadingWindow } from '../api/get-run-readings';
 import { CapacityAnalysisPanel } from './capacity-analysis-panel';
 import { ImportNoticesPanel } from './import-notices-panel';
 import { RunLabelEditor } from './run-label-editor';
@@ -26,10 +26,10 @@ import { ProtectionCheckPanel, TempChannels } from './protection-check-panel';
 
 /** About one bucket per horizontal pixel of a wide chart. */
 const CHART_MAX_POINTS = 1000;
-const FULL_WINDOW: SampleWindow = { from: null, to: null };
+const FULL_WINDOW: ReadingWindow = { from: null, to: null };
 
 /** The chart's window lives in the address (`?from=&to=`, run seconds), so a link can open the run zoomed to a stretch. */
-function windowFrom(params: URLSearchParams): SampleWindow {
+function windowFrom(params: URLSearchParams): ReadingWindow {
   const read = (key: string) => {
     const raw = params.get(key);
     const n = raw === null || raw.trim() === '' ? NaN : Number(raw);
@@ -55,8 +55,8 @@ export function RunDetail({ runId, canEdit = false, viewer = null }: { runId: nu
   const settings = useLabSettings();
   const pack = useRunBattery(run.data?.batteryId ?? null);
   const [params, setParams] = useSearchParams();
-  const sampleWindow = useMemo(() => windowFrom(params), [params]);
-  const setWindow = (w: SampleWindow) => {
+  const readingWindow = useMemo(() => windowFrom(params), [params]);
+  const setWindow = (w: ReadingWindow) => {
     const next = new URLSearchParams(params);
     for (const key of ['from', 'to'] as const) {
       const v = w[key];
@@ -65,7 +65,7 @@ export function RunDetail({ runId, canEdit = false, viewer = null }: { runId: nu
     }
     setParams(next, { replace: true });
   };
-  const samples = useRunSamples(runId, sampleWindow, CHART_MAX_POINTS);
+  const readings = useRunReadings(runId, readingWindow, CHART_MAX_POINTS);
   const [editing, setEditing] = useState(false);
   // Stable between renders so the chart is not rebuilt for nothing.
   const markers = useMemo(
@@ -78,7 +78,7 @@ export function RunDetail({ runId, canEdit = false, viewer = null }: { runId: nu
   const r = run.data;
   const stored = events.data?.map((e) => e.event) ?? [];
   const live = LIVE_RUN_STATES.includes(r.state);
-  const zoomed = sampleWindow.from !== null || sampleWindow.to !== null;
+  const zoomed = readingWindow.from !== null || readingWindow.to !== null;
 
   return (
     <>
@@ -155,10 +155,10 @@ export function RunDetail({ runId, canEdit = false, viewer = null }: { runId: nu
           <div className="mb-3 flex flex-wrap items-center justify-between gap-2">
             <h2 className="font-semibold">
               Volts and amps{' '}
-              {samples.data && (
+              {readings.data && (
                 <span className="num text-sm font-normal text-ink-muted">
-                  {formatElapsedClock(samples.data.from)} – {formatElapsedClock(samples.data.to)} ·{' '}
-                  {samples.data.reduced ? `min/max of ${samples.data.bucketSeconds?.toFixed(1)} s buckets` : 'every reading'}
+                  {formatElapsedClock(readings.data.from)} – {formatElapsedClock(readings.data.to)} ·{' '}
+                  {readings.data.reduced ? `min/max of ${readings.data.bucketSeconds?.toFixed(1)} s buckets` : 'every reading'}
                 </span>
               )}
             </h2>
@@ -169,12 +169,12 @@ export function RunDetail({ runId, canEdit = false, viewer = null }: { runId: nu
               </Button>
             </div>
           </div>
-          {samples.isPending ? (
+          {readings.isPending ? (
             <Loading label="Loading readings…" />
-          ) : samples.isError ? (
-            <QueryError error={samples.error} what="Readings" />
+          ) : readings.isError ? (
+            <QueryError error={readings.error} what="Readings" />
           ) : (
-            <HistoryChart samples={samples.data} markers={markers} onZoom={(from, to) => setWindow({ from, to })} temperatureUnit={settings.temperatureUnit} />
+            <HistoryChart readings={readings.data} markers={markers} onZoom={(from, to) => setWindow({ from, to })} temperatureUnit={settings.temperatureUnit} />
           )}
         </Card>
         {r.kind === 'capacity-discharge' && !live && r.summary?.capacityAh ? (

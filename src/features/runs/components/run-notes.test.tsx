@@ -19,7 +19,7 @@ function serve(eventsBody: () => unknown) {
     if (url === '/api/runs/5') return { status: 200, body: { run } };
     if (url === '/api/runs/5/events') return { status: 200, body: eventsBody() };
     if (url === '/api/runs/5/note-history') return { status: 200, body: { revisions: [] } };
-    if (url.startsWith('/api/runs/5/samples')) return { status: 200, body: { runId: 5, from: 0, to: 0, reduced: false, bucketSeconds: null, readingsInWindow: 0, t: [], volts: { min: [], max: [] }, amps: { min: [], max: [] }, watts: { min: [], max: [] }, temps: {} } };
+    if (url.startsWith('/api/runs/5/readings')) return { status: 200, body: { runId: 5, from: 0, to: 0, reduced: false, bucketSeconds: null, readingsInWindow: 0, t: [], volts: { min: [], max: [] }, amps: { min: [], max: [] }, watts: { min: [], max: [] }, temps: {} } };
     if (url === '/api/runs/5/events/41' && init?.method === 'PATCH') return { status: 200, body: { event: { id: 41 } } };
     return undefined;
   });

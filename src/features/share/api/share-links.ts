@@ -1,5 +1,5 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import { SamplesResponseSchema } from '../../../../shared/schemas/api-runs';
+import { ReadingsResponseSchema } from '../../../../shared/schemas/api-runs';
 import {
   CreateShareLinkResponseSchema, EmailShareLinkResponseSchema, ShareLinkMailsResponseSchema, ShareLinksResponseSchema, SharedReportSchema,
   type CreateShareLinkRequest, type EmailShareLinkRequest, type ShareTargetKind,
@@ -67,11 +67,11 @@ export function useSharedReport(token: string) {
 }
 
 /** The shared run's chart data: min/max buckets through the token. */
-export function useSharedSamples(token: string, span: { from: number | null; to: number | null }, maxPoints: number) {
+export function useSharedReadings(token: string, span: { from: number | null; to: number | null }, maxPoints: number) {
   const range = span.from !== null && span.to !== null ? `&from=${span.from}&to=${span.to}` : '';
   return useQuery({
-    queryKey: [...queryKeys.shared(token), 'samples', span.from, span.to, maxPoints],
-    queryFn: () => api(`/api/shared/${token}/samples?maxPoints=${maxPoints}${range}`, { schema: SamplesResponseSchema }),
+    queryKey: [...queryKeys.shared(token), 'readings', span.from, span.to, maxPoints],
+    queryFn: () => api(`/api/shared/${token}/readings?maxPoints=${maxPoints}${range}`, { schema: ReadingsResponseSchema }),
     retry: false,
   });
 }

@@ -9,7 +9,7 @@ import { SignoffBlockView } from '../../../components/ui/signoff-block';
 import { Loading, QueryError } from '../../../components/ui/status';
 import { formatLabTime } from '../../../lib/lab-settings';
 import { formatCharge, formatEnergy, formatNumber, formatPercent } from '../../../lib/units';
-import { useSharedReport, useSharedSamples } from '../api/share-links';
+import { useSharedReport, useSharedReadings } from '../api/share-links';
 
 /** About one bucket per horizontal pixel of a phone-to-desktop chart. */
 const SHARED_CHART_MAX_POINTS = 800;
@@ -29,7 +29,7 @@ function Spec({ label, value }: { label: string; value: string | number | null }
 
 function RunReport({ token, report, renderSummary }: { token: string; report: SharedRunReport; renderSummary: RenderSummary }) {
   const [chartWindow, setChartWindow] = useState<{ from: number | null; to: number | null }>({ from: null, to: null });
-  const samples = useSharedSamples(token, chartWindow, SHARED_CHART_MAX_POINTS);
+  const readings = useSharedReadings(token, chartWindow, SHARED_CHART_MAX_POINTS);
   const time = (iso: string | null) => formatLabTime(iso, report.lab.timeZone);
   return (
     <>
@@ -42,12 +42,12 @@ function RunReport({ token, report, renderSummary }: { token: string; report: Sh
       {report.summary ? <Card className="p-6">{renderSummary(report.summary, report)}</Card> : <Card>No summary: the run had not ended when it was shared.</Card>}
       <Card>
         <h2 className="mb-3 font-semibold">Volts and amps</h2>
-        {samples.isPending ? (
+        {readings.isPending ? (
           <Loading label="Loading readings…" />
-        ) : samples.isError ? (
-          <QueryError error={samples.error} what="Readings" />
+        ) : readings.isError ? (
+          <QueryError error={readings.error} what="Readings" />
         ) : (
-          <HistoryChart samples={samples.data} onZoom={(from, to) => setChartWindow({ from, to })} temperatureUnit={report.lab.temperatureUnit} />
+          <HistoryChart readings={readings.data} onZoom={(from, to) => setChartWindow({ from, to })} temperatureUnit={report.lab.temperatureUnit} />
         )}
       </Card>
       <Card>

@@ -1,5 +1,5 @@
 import type { Sequelize } from 'sequelize';
-import type { SamplesQuery, SamplesResponse } from '../../shared/schemas/api-runs.js';
+import type { ReadingsQuery, ReadingsResponse } from '../../shared/schemas/api-runs.js';
 import { chunkExtent, readChunks, readStats, reduceOverDischarge, reduceReadings, reduceStats, STATS_GROUP_READINGS } from '../archive/archive-reader.js';
 import { InvalidInputError } from '../domain/domain-errors.js';
 
@@ -13,7 +13,7 @@ const GROUPS_PER_BUCKET = 4;
  * the whole run) as min/max buckets, or every reading when few enough. With `x` = `ah` or
  * `wh` the axis is the delivered discharge so far (see dischargeReadings).
  */
-export async function runSamples(sequelize: Sequelize, runId: number, q: SamplesQuery, maxGapSeconds?: number): Promise<SamplesResponse> {
+export async function runReadings(sequelize: Sequelize, runId: number, q: ReadingsQuery, maxGapSeconds?: number): Promise<ReadingsResponse> {
   if (q.x !== 't') return dischargeReadings(sequelize, runId, q, q.x, maxGapSeconds);
   const x = 't' as const;
   const extent = await chunkExtent(sequelize, runId);
@@ -39,7 +39,7 @@ export async function runSamples(sequelize: Sequelize, runId: number, q: Samples
  * needs the run from its start), integrated by the core's step with the run's gap limit,
  * then bucketed over [from, to] in Ah or Wh (default 0 to the delivered total).
  */
-async function dischargeReadings(sequelize: Sequelize, runId: number, q: SamplesQuery, x: 'ah' | 'wh', maxGapSeconds?: number): Promise<SamplesResponse> {
+async function dischargeReadings(sequelize: Sequelize, runId: number, q: ReadingsQuery, x: 'ah' | 'wh', maxGapSeconds?: number): Promise<ReadingsResponse> {
   const extent = await chunkExtent(sequelize, runId);
   const parts = extent ? await readChunks(sequelize, runId, extent.from, extent.to, CHART_COLUMNS) : [];
   if (q.from !== undefined && q.to !== undefined && q.to < q.from) throw new InvalidInputError('`to` must not be before `from`', { to: ['must be >= from'] });
