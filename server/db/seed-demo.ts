@@ -45,6 +45,9 @@ export const DEMO_BATTERIES: BatteryInput[] = [
       { protection: 'low-voltage', thresholdValue: 40, delaySeconds: 2, releaseValue: 40.8, thresholdTolerance: null, delayToleranceSeconds: null },
       { protection: 'over-current', thresholdValue: 60, delaySeconds: 1, releaseValue: null, thresholdTolerance: null, delayToleranceSeconds: null },
     ] },
+  { label: 'Wren 12 V bench pack', brand: 'Ferrowatt', model: 'Cellgrid 12-20', chemistry: 'lfp', cellsInSeries: 4, cellsInParallel: 1,
+    ratedAh: 20, ratedWh: 256, bmsRatedAmps: 40, massKg: 2.7, price: 139, priceCurrency: 'EUR', serialNumber: 'FW-C12-2044',
+    sender: null, notes: 'The pack on the simulated Bench C: run the demo full capacity programme on it.' },
 ];
 
 /** Result of seeding: whether anything was written. */
@@ -53,7 +56,7 @@ export interface SeedResult {
 }
 
 /**
- * Seeds the demo lab (settings, three accounts, five packs) when the database has no users yet,
+ * Seeds the demo lab (settings, three accounts, six packs) when the database has no users yet,
  * or regardless with `force` (tests that already created their own users). With
  * `instrumentLinkDir`, also the bench with a controllable load and supply and the demo programme.
  */
