@@ -1,8 +1,11 @@
+import { QueryTypes } from 'sequelize';
 import { afterAll, beforeAll, expect, it } from 'vitest';
 import { attachBenchManager } from '../../server/benches/attach-bench-manager.js';
 import { DEMO_BENCHES, DEMO_CONTROLLED_BENCH_NAME, seedDemoBenches } from '../../server/benches/seed-demo-benches.js';
 import { BenchInstrumentsRepo } from '../../server/programmes/bench-instruments-repo.js';
 import { StoredBenchInstruments } from '../../server/programmes/bench-instruments-provider.js';
+import { attachProgrammes } from '../../server/programmes/attach-programmes.js';
+import { attachRecording } from '../../server/compose/recording-root.js';
 import { SIM_LOAD_SPEC, SIM_SUPPLY_SPEC } from '../../simulator/index.js';
 import { DEMO_ACCOUNTS } from '../../server/db/seed-demo.js';
 import { startServer, type RunningServer } from '../../server/server.js';
@@ -19,7 +22,7 @@ beforeAll(async () => {
     database,
     port: 0,
     seedDemo: true,
-    attachments: [attachBenchManager],
+    attachments: [attachBenchManager, attachRecording, attachProgrammes],
     log: { info: () => {}, warn: (m) => console.warn(m), error: (m, e) => console.error(m, e) },
   });
 });
@@ -63,4 +66,15 @@ it('the controlled demo bench has a load and a supply that answer SCPI through i
   } finally {
     await provider.close();
   }
+});
+
+it('a fresh simulated pack on the controlled bench makes new instrument links, and the next programme reopens them', async () => {
+  const manager = server.ctx.services.benchManager!;
+  const provider = server.ctx.services.benchInstruments!;
+  const [bench] = await server.ctx.sequelize.query<{ id: number }>('SELECT id FROM benches WHERE name = ?', { replacements: [DEMO_CONTROLLED_BENCH_NAME], type: QueryTypes.SELECT });
+  const identify = async () => (await provider.forBench(bench!.id))!.load!.identify();
+  await expect.poll(() => identify().catch(() => null), { timeout: 10_000 }).toBe(SIM_LOAD_SPEC.idn);
+  expect(await manager.freshSimulation(bench!.id)).toBe(true);
+  // The old links are gone with their socat; the provider was told to let go, so this opens the new ones.
+  await expect.poll(() => identify().catch(() => null), { timeout: 10_000 }).toBe(SIM_LOAD_SPEC.idn);
 });

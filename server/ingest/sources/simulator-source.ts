@@ -9,6 +9,9 @@ import { MS_PER_S } from '../../../shared/units/time.js';
 
 type Player = ReturnType<Simulation['play']>;
 
+/** How a simulator source's status begins when it (re)starts its simulated instruments: their links are new, so whoever held them open must reopen them. */
+export const SIMULATED_INSTRUMENTS_STARTING = 'starting the simulated load and supply';
+
 /**
  * A simulator scenario played in-process at the bench's speed: frames carry the
  * simulated device clock (t from 0 at start). Samples the simulated meter loses (drops,
@@ -39,7 +42,7 @@ export class SimulatorSource implements Source {
     if (!this.config.instruments) return this.play();
     const links = this.config.instruments;
     const generation = ++this.generation;
-    this.tracker.connected(`starting the simulated load and supply on ${links.loadLinkPath} and ${links.supplyLinkPath}`);
+    this.tracker.connected(`${SIMULATED_INSTRUMENTS_STARTING} on ${links.loadLinkPath} and ${links.supplyLinkPath}`);
     startSimulatedInstruments(links, this.clock).then(
       async (instruments) => {
         // Stopped while socat was starting: nothing may stay behind.
