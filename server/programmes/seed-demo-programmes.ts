@@ -7,22 +7,27 @@ import { DEMO_CONTROLLED_BENCH_NAME } from '../benches/seed-demo-benches.js';
 import { BenchInstrumentsRepo } from './bench-instruments-repo.js';
 import { ProgrammesRepo } from './programmes-repo.js';
 
+/** The demo's rests, s of the server's clock (at 60× half an hour of the simulated pack). */
+const DEMO_REST_SECONDS = 30;
+
 /**
  * The demo's full capacity programme for the controlled bench's pack (a fictional 12.8 V 20 Ah
  * LFP, four cells): charge CC-CV, rest, discharge at 1C to the end voltage, rest, recharge.
- * The figures are the demo's own, within the LFP limits of docs/programmes.md.
+ * The figures are the demo's own, within the LFP limits of docs/programmes.md. A step's time runs
+ * on the server's clock (a real bench's rest is wall-clock time), so the rests are short: at the
+ * demo's 60× each half minute is half an hour of the simulated pack's rest.
  */
 export const DEMO_PROGRAMME: ProgrammeInput = ProgrammeInputSchema.parse({
   name: 'Demo: 12.8 V 20 Ah full capacity (1C)',
-  description: 'Charge to 14.2 V at 20 A until 2 A, rest 10 min, discharge 20 A to 11.2 V, rest 10 min, recharge. For Bench C.',
+  description: 'Charge to 14.2 V at 20 A until 2 A, rest 30 s, discharge 20 A to 11.2 V, rest 30 s, recharge. For the simulated Bench C: short rests keep the demo to minutes.',
   chemistry: 'lfp',
   cellsInSeries: 4,
   maxCurrentAmps: 25,
   steps: [
     { kind: 'charge', volts: 14.2, currentAmps: 20, taperAmps: 2, maxSeconds: 3 * 3600 },
-    { kind: 'rest', maxSeconds: 600 },
+    { kind: 'rest', maxSeconds: DEMO_REST_SECONDS },
     { kind: 'discharge', mode: 'cc', value: 20, endVolts: 11.2 },
-    { kind: 'rest', maxSeconds: 600 },
+    { kind: 'rest', maxSeconds: DEMO_REST_SECONDS },
     { kind: 'charge', volts: 14.2, currentAmps: 20, taperAmps: 2, maxSeconds: 3 * 3600 },
   ],
 });
