@@ -7,6 +7,7 @@ import { isPortFree } from './db/mariadb-process.js';
 import { createSequelize } from './db/sequelize.js';
 import { migrate } from './db/migrate.js';
 import { seedDemo } from './db/seed-demo.js';
+import { demoInstrumentLinkDir } from './benches/seed-demo-benches.js';
 import { consoleLogger, createAppContext, type AppContext, type Logger } from './app-context.js';
 import { redactingLogger } from './http/redact-tokens.js';
 import { createApp } from './app.js';
@@ -126,7 +127,7 @@ export async function startServer(options: StartServerOptions = {}): Promise<Run
     ctx.services.databaseHealth = health;
     guardQueries(sequelize, health);
     watch = watchDatabase({ health, probe: createPingProbe(database), server: mariadb, log: createLogger('mariadb', log) });
-    const demoSeeded = options.seedDemo ? (await seedDemo(ctx.models, config.demoPassword)).seeded : false;
+    const demoSeeded = options.seedDemo ? (await seedDemo(ctx.models, config.demoPassword, { instrumentLinkDir: demoInstrumentLinkDir(config.dataDir) })).seeded : false;
     const app = createApp(ctx);
     httpServer = createServer(app);
     // Attachments first, then listen: no request is answered before live runs have resumed

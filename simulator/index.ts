@@ -34,3 +34,5 @@ export type { SimInstrumentSpec, SimFault, TruthSegment, SimInstrumentEvent } fr
 export { SIM_LOAD_SPEC, SIM_SUPPLY_SPEC } from './instruments/instrument-specs.js';
 export { instrumentsDrive } from './instruments/drive.js';
 export type { ExternalDrive } from './engine/external-drive.js';
+export { startSimulatedInstruments } from './instruments/simulated-instruments.js';
+export type { SimulatedInstruments } from './instruments/simulated-instruments.js';

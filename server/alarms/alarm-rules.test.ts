@@ -8,6 +8,11 @@ describe('alarm rules', () => {
     expect(alarmActionFor({ type: 'alarm', t: 1, level: 'warning', code: 'over-temperature', message: 'hot' })).toMatchObject({ type: 'raise', kind: 'over-temperature' });
     expect(alarmActionFor({ type: 'milestone', t: 1, milestone: 'near-end-voltage', volts: 12.1, dischargeWh: 1, dischargeAh: 1 })).toMatchObject({ type: 'raise', kind: 'near-end' });
     expect(alarmActionFor({ type: 'source-restored', t: 1 })).toEqual({ type: 'clear', kind: 'source-lost' });
+    // A programme failing safe calls a person; its other step changes do not.
+    expect(alarmActionFor({ type: 'programme-step', t: 5, phase: 'fail', index: 2, label: 'Discharge 20 A to 11.2 V', reason: 'meter silent for 2 s' }))
+      .toEqual({ type: 'raise', kind: 'programme-failed', message: 'Programme failed safe at step 3 (Discharge 20 A to 11.2 V): meter silent for 2 s. Outputs switched off.' });
+    expect(alarmActionFor({ type: 'programme-step', t: 5, phase: 'end', index: 2, label: 'Discharge' })).toBeNull();
+    expect(alarmActionFor({ type: 'programme-step', t: 5, phase: 'abort', index: 2, label: 'Discharge', reason: 'aborted by a technician' })).toBeNull();
     // A reconnect after a cutoff clears nothing: the cutoff alarm latches until acknowledged.
     expect(alarmActionFor({ type: 'recovery', t: 2, cutoffT: 1, recoverySeconds: 1, volts: 13 })).toBeNull();
   });

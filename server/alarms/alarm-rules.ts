@@ -15,13 +15,15 @@ export const ALARM_PRIORITY: Record<AlarmKind, AlarmPriority> = {
   'near-end': 'warning',
   'source-lost': 'warning',
   'run-finished': 'info',
+  // The safety net switched every output off mid-programme: the test is not finished and a person must look.
+  'programme-failed': 'critical',
 };
 
 /**
  * Kinds that latch: they stay active after the condition returns to normal (a pack that
  * reconnects after its cutoff) until a person acknowledges them (ISA-18.2 "latching alarm").
  */
-export const LATCHING_KINDS: ReadonlySet<AlarmKind> = new Set(['cutoff', 'protection-trip']);
+export const LATCHING_KINDS: ReadonlySet<AlarmKind> = new Set(['cutoff', 'protection-trip', 'programme-failed']);
 
 /** Maps one run event to its alarm action, if any. Pure: the service does the rest. */
 export function alarmActionFor(event: RunEvent): AlarmAction | null {
@@ -41,6 +43,10 @@ export function alarmActionFor(event: RunEvent): AlarmAction | null {
       return event.milestone === 'near-end-voltage' ? { type: 'raise', kind: 'near-end', message: `Near the end voltage: ${event.volts.toFixed(3)} V` } : null;
     case 'source-restored':
       return { type: 'clear', kind: 'source-lost' };
+    case 'programme-step':
+      return event.phase === 'fail'
+        ? { type: 'raise', kind: 'programme-failed', message: `Programme failed safe at step ${event.index + 1}${event.label ? ` (${event.label})` : ''}: ${event.reason ?? 'reason not given'}. Outputs switched off.` }
+        : null;
     default:
       return null;
   }

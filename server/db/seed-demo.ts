@@ -7,6 +7,7 @@ import { hashPassword } from '../auth/password.js';
 import { saveLabSettings } from '../settings/settings-service.js';
 import { seedDemoBenches } from '../benches/seed-demo-benches.js';
 import { seedDemoInstruments } from '../instruments/seed-demo-instruments.js';
+import { seedDemoProgrammes } from '../programmes/seed-demo-programmes.js';
 
 /** The fictional lab's name. */
 export const DEMO_LAB_NAME = 'Northgate Cell Lab';
@@ -44,6 +45,9 @@ export const DEMO_BATTERIES: BatteryInput[] = [
       { protection: 'low-voltage', thresholdValue: 40, delaySeconds: 2, releaseValue: 40.8, thresholdTolerance: null, delayToleranceSeconds: null },
       { protection: 'over-current', thresholdValue: 60, delaySeconds: 1, releaseValue: null, thresholdTolerance: null, delayToleranceSeconds: null },
     ] },
+  { label: 'Wren 12 V bench pack', brand: 'Ferrowatt', model: 'Cellgrid 12-20', chemistry: 'lfp', cellsInSeries: 4, cellsInParallel: 1,
+    ratedAh: 20, ratedWh: 256, bmsRatedAmps: 40, massKg: 2.7, price: 139, priceCurrency: 'EUR', serialNumber: 'FW-C12-2044',
+    sender: null, notes: 'The pack on the simulated Bench C: run the demo full capacity programme on it.' },
 ];
 
 /** Result of seeding: whether anything was written. */
@@ -52,10 +56,11 @@ export interface SeedResult {
 }
 
 /**
- * Seeds the demo lab (settings, three accounts, five packs) when the database has no users yet,
- * or regardless with `force` (tests that already created their own users).
+ * Seeds the demo lab (settings, three accounts, six packs) when the database has no users yet,
+ * or regardless with `force` (tests that already created their own users). With
+ * `instrumentLinkDir`, also the bench with a controllable load and supply and the demo programme.
  */
-export async function seedDemo(models: CoreModels, demoPassword: string, options: { force?: boolean } = {}): Promise<SeedResult> {
+export async function seedDemo(models: CoreModels, demoPassword: string, options: { force?: boolean; instrumentLinkDir?: string } = {}): Promise<SeedResult> {
   if (!options.force && (await models.User.count()) > 0) return { seeded: false };
   const passwordHash = await hashPassword(demoPassword);
   await models.User.sequelize!.transaction(async (transaction) => {
@@ -67,7 +72,8 @@ export async function seedDemo(models: CoreModels, demoPassword: string, options
     );
   });
   await saveLabSettings(models, LabSettingsSchema.parse({ labName: DEMO_LAB_NAME }), null);
-  await seedDemoBenches(models.User.sequelize!);
+  await seedDemoBenches(models.User.sequelize!, options.instrumentLinkDir);
   await seedDemoInstruments(models.User.sequelize!);
+  await seedDemoProgrammes(models.User.sequelize!);
   return { seeded: true };
 }

@@ -34,8 +34,8 @@ export class ProgrammesRepo {
     return row ? toProgramme(row) : null;
   }
 
-  /** Stores a new programme. */
-  async create(input: ProgrammeInput, userId: number): Promise<Programme> {
+  /** Stores a new programme (userId null: the demo seed's own). */
+  async create(input: ProgrammeInput, userId: number | null): Promise<Programme> {
     const now = utcDateTime(new Date());
     const [id] = await this.sequelize.query('INSERT INTO programmes (name, body, createdById, createdAt, updatedAt) VALUES (?, ?, ?, ?, ?)', {
       replacements: [input.name, JSON.stringify(input), userId, now, now],

@@ -4,6 +4,7 @@ import { labelText } from './text.js';
 /** What an alarm is about. Each kind is raised from the run's own events (see server/alarms/alarm-rules.ts). */
 export const AlarmKindSchema = z.enum([
   'cutoff', 'protection-trip', 'over-temperature', 'under-temperature', 'near-end', 'source-lost', 'run-finished',
+  'programme-failed',
 ]);
 export type AlarmKind = z.infer<typeof AlarmKindSchema>;
 /** Every alarm kind, in the order screens list them. */

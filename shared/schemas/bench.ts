@@ -168,6 +168,13 @@ export const SerialSourceConfigSchema = z.object({
   limits: FrameLimitsSchema.prefault({}),
 });
 
+/** Where a simulated bench's load and supply answer: absolute pseudo-terminal link paths. */
+export const SimulatedInstrumentLinksSchema = z.object({
+  loadLinkPath: z.string().min(1).max(255).regex(/^\//, { message: 'path must be absolute' }),
+  supplyLinkPath: z.string().min(1).max(255).regex(/^\//, { message: 'path must be absolute' }),
+}).refine((l) => l.loadLinkPath !== l.supplyLinkPath, { message: 'The load and the supply need their own links', path: ['supplyLinkPath'] });
+export type SimulatedInstrumentLinks = z.infer<typeof SimulatedInstrumentLinksSchema>;
+
 /** A simulator scenario run in-process (or through a pty with `format`) at `speed`× real time. */
 export const SimulatorSourceConfigSchema = z.object({
   kind: z.literal('simulator'),
@@ -178,6 +185,11 @@ export const SimulatorSourceConfigSchema = z.object({
   format: z.enum(['csv', 'jsonl', 'scpi', 'modbus']).optional(),
   staleAfterSeconds: z.number().min(1).max(3600).default(DEFAULT_STALE_AFTER_S),
   limits: FrameLimitsSchema.prefault({}),
+  /**
+   * The simulated electronic load and supply on this pack, each answering SCPI on a socat
+   * pseudo-terminal at its link (under /tmp or .data/); the bench's instruments open these links.
+   */
+  instruments: SimulatedInstrumentLinksSchema.optional(),
 });
 
 export const NoSourceConfigSchema = z.object({ kind: z.literal('none') });

@@ -5,6 +5,7 @@ import type { AppConfig } from '../../../server/config/config.js';
 import type { AppContext, Logger } from '../../../server/app-context.js';
 import { startServer, type Attachment, type RunningServer } from '../../../server/server.js';
 import { seedDemo } from '../../../server/db/seed-demo.js';
+import { demoInstrumentLinkDir } from '../../../server/benches/seed-demo-benches.js';
 import { hashPassword } from '../../../server/auth/password.js';
 import type { Role } from '../../../shared/schemas/user.js';
 import { createTestDatabase, dropTestDatabase } from './test-database.js';
@@ -75,7 +76,7 @@ export async function createTestContext(options: TestContextOptions = {}): Promi
     const passwordHash = await hashPassword(TEST_PASSWORD);
     await models.User.bulkCreate(Object.values(TEST_USERS).map((user) => ({ ...user, passwordHash })));
   }
-  if (options.demo) await seedDemo(models, server.ctx.config.demoPassword, { force: true });
+  if (options.demo) await seedDemo(models, server.ctx.config.demoPassword, { force: true, instrumentLinkDir: demoInstrumentLinkDir(server.ctx.config.dataDir) });
   return {
     url: server.url,
     app: server.app,

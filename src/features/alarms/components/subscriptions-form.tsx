@@ -17,6 +17,7 @@ export const KIND_LABEL: Record<AlarmKind, string> = {
   'near-end': 'Near the end',
   'source-lost': 'Meter silent',
   'run-finished': 'Run finished',
+  'programme-failed': 'Programme failed safe',
 };
 const CHANNEL_LABEL: Record<AlarmChannelName, string> = { 'in-app': 'In the app', 'email': 'E-mail', 'push': 'Push to this browser' };
 const selectClass = 'rounded-lg border border-line bg-surface px-2 py-1.5';
