@@ -1,4 +1,4 @@
-import { Router, type Request } from 'express';
+import { Router, type Request, type Response } from 'express';
 import {
   AnnotateRequestSchema,
   EditNoteRequestSchema,
@@ -122,10 +122,12 @@ export function createRunsRouter(ctx: AppContext): Router {
   });
 
   // `/samples` is the old address of the same history, kept for old clients. vocab-rename: keep
-  router.get(['/:id/readings', '/:id/samples'], requireRole('viewer'), async (req, res) => {
+  const readings = async (req: Request<{ id: string }>, res: Response) => {
     const run = await runOr404(req.params.id);
     res.json(await runReadings(ctx.sequelize, run.id, ReadingsQuerySchema.parse(req.query), run.summary?.maxGapSeconds ?? run.maxGapSeconds ?? undefined));
-  });
+  };
+  router.get('/:id/readings', requireRole('viewer'), readings);
+  router.get('/:id/samples', requireRole('viewer'), readings);
 
   router.get('/:id/report.pdf', requireRole('viewer'), async (req, res) => {
     const run = live(await runOr404(req.params.id));

@@ -1,4 +1,4 @@
-import { Router, type Request } from 'express';
+import { Router, type Request, type Response } from 'express';
 import { ReadingsQuerySchema } from '../../shared/schemas/api-runs.js';
 import type { ShareOpeningWhat } from '../../shared/schemas/share.js';
 import type { AppContext } from '../app-context.js';
@@ -57,11 +57,13 @@ export function createSharedRouter(ctx: AppContext): Router {
   });
 
   // `/samples` is the old address of the same history, kept for old clients. vocab-rename: keep
-  router.get(['/:token/readings', '/:token/samples'], async (req, res) => {
+  const sharedReadings = async (req: Request, res: Response) => {
     const link = await linkOf(req);
     if (link.kind !== 'run') throw gone();
     res.json(await runReadings(ctx.sequelize, link.targetId, ReadingsQuerySchema.parse(req.query)));
-  });
+  };
+  router.get('/:token/readings', sharedReadings);
+  router.get('/:token/samples', sharedReadings);
 
   // The report as a PDF: the run's (with its sign-off block) or the pack's (its price only when the link says so).
   router.get('/:token/report.pdf', async (req, res) => {

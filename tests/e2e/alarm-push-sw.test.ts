@@ -69,11 +69,19 @@ describe('the alarm service worker in Chromium', () => {
     const shown = () => page.evaluate(`navigator.serviceWorker.ready.then((r) => r.getNotifications()).then((ns) => ns.map((n) => ({ title: n.title, tag: n.tag, renotify: n.renotify, actions: n.actions.map((a) => a.title), data: n.data })))`) as Promise<ShownNotification[]>;
 
     await deliver(payload(0));
+    // On a busy machine the worker can still be starting when the first push is handed over, and
+    // Chromium then drops it; a push service delivers again, so this does too (a repeat of the
+    // same step replaces the notification, as checked below).
     const [first] = await eventually(async () => {
-      const list = await shown();
+      let list = await shown();
+      if (list.length === 0) {
+        await deliver(payload(0));
+        await new Promise((ok) => setTimeout(ok, 500));
+        list = await shown();
+      }
       expect(list).toHaveLength(1);
       return list;
-    });
+    }, 30_000, 200);
     expect(first).toMatchObject({ title: `CRITICAL cutoff: ${bench.name}`, tag: `alarm-${alarm.id}`, renotify: false, actions: ['Acknowledge', 'Open the run'], data: { alarmId: alarm.id, step: 0 } });
     // The same step again (a server sends at least once): still one notification, not alerting again.
     await deliver(payload(0));
