@@ -28,9 +28,9 @@ export const IMPORT_ZONES = [
     message: 'Features do not import each other: move what two features need to src/components or src/lib.',
   })),
   {
-    // Domain code (everything but the HTTP layer, sign-in, the composition root and the route
-    // files, which are HTTP adapters) throws domain errors and knows no HTTP.
-    target: './server/!(http|auth|compose)/**/!(*-routes|*-route).ts',
+    // Domain code (everything but the HTTP layer with its route files in server/http/routes,
+    // sign-in middleware and the composition root) throws domain errors and knows no HTTP.
+    target: './server/!(http|auth|compose)/**/*.ts',
     from: ['./server/http', './node_modules/express', './node_modules/@types/express', './node_modules/multer'],
     message: 'Domain code knows no HTTP: throw an error from server/domain/domain-errors.ts; server/http maps it to a status.',
   },

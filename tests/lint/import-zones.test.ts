@@ -38,6 +38,7 @@ describe('ESLint import zones (the lint fails on a forbidden import)', () => {
     ['one feature importing another', 'src/features/runs/zone-fixture.ts', `import * as other from '${otherFeatureModule()}';\nexport const used = other;\n`],
     ['domain code importing server/http', 'server/runs/zone-fixture.ts', use('{ HttpError }', '../http/http-error.js')],
     ['domain code importing express', 'server/benches/zone-fixture.ts', use('express', 'express')],
+    ['a route file in a domain folder (routes live in server/http/routes)', 'server/runs/zone-fixture-routes.ts', use('{ Router }', 'express')],
     ["runs/ importing the archive's encoding", 'server/runs/zone-fixture.ts', use('{ encodeChunk }', '../archive/chunk-encode.js')],
     ['the recorder publishing into live/', 'server/runs/zone-fixture.ts', use('{ LiveHub }', '../live/live-hub.js')],
     ['the live hub knowing the recorder', 'server/live/zone-fixture.ts', use('{ RunRecorder }', '../runs/run-recorder.js')],
@@ -48,7 +49,7 @@ describe('ESLint import zones (the lint fails on a forbidden import)', () => {
   }, LINT_TIMEOUT_MS);
 
   it.each([
-    ['a route file using server/http', 'server/runs/zone-fixture-routes.ts', use('{ HttpError }', '../http/http-error.js')],
+    ['a route file using server/http', 'server/http/routes/zone-fixture-routes.ts', use('{ HttpError }', '../http-error.js')],
     ["runs/ using the archive's sink and reader", 'server/runs/zone-fixture.ts', `${use('{ writeRunBatch }', '../archive/run-archive.js')}import { readChunks } from '../archive/archive-reader.js';\nexport const r = readChunks;\n`],
     ['domain code throwing domain errors', 'server/benches/zone-fixture.ts', use('{ ConflictError }', '../domain/domain-errors.js')],
     ['a feature using src/lib', 'src/features/runs/zone-fixture.ts', use('{ queryKeys }', '../../lib/queries/query-keys')],

@@ -1,18 +1,18 @@
 import { Router, type Request, type Response } from 'express';
-import { ReadingsQuerySchema } from '../../shared/schemas/api-runs.js';
-import type { ShareOpeningWhat } from '../../shared/schemas/share.js';
-import type { AppContext } from '../app-context.js';
-import { HttpError } from '../http/http-error.js';
-import { parseIdParam } from '../http/validate.js';
-import { PhotoFiles } from '../photos/photo-files.js';
-import { PhotosRepo } from '../photos/photos-repo.js';
-import { packReportPdf } from '../reports/pack-report.js';
-import { runReportPdf } from '../reports/run-report.js';
-import { RunsRepo } from '../runs/runs-repo.js';
-import { runReadings } from '../runs/readings-service.js';
-import { ShareRepo, type ActiveLink } from './share-repo.js';
-import { addressHash, isShareToken, shareTokenHash } from './share-token.js';
-import { sharedPackReport, sharedRunReport } from './shared-reports.js';
+import { ReadingsQuerySchema } from '../../../shared/schemas/api-runs.js';
+import type { ShareOpeningWhat } from '../../../shared/schemas/share.js';
+import type { AppContext } from '../../app-context.js';
+import { HttpError } from '../http-error.js';
+import { parseIdParam } from '../validate.js';
+import { PhotoFiles } from '../../photos/photo-files.js';
+import { PhotosRepo } from '../../photos/photos-repo.js';
+import { packReportPdf } from '../../reports/pack-report.js';
+import { runReportPdf } from '../../reports/run-report.js';
+import { RunsRepo } from '../../runs/runs-repo.js';
+import { runReadings } from '../../runs/readings-service.js';
+import { ShareRepo, type ActiveLink } from '../../share/share-repo.js';
+import { addressHash, isShareToken, shareTokenHash } from '../../share/share-token.js';
+import { sharedPackReport, sharedRunReport } from '../../share/shared-reports.js';
 
 /** Longest user agent kept in the openings log. */
 const USER_AGENT_MAX_CHARS = 400;

@@ -5,13 +5,13 @@ import {
   InspectionItemPatchSchema,
   type InspectionEntry,
   type InspectionResponse,
-} from '../../shared/schemas/inspection.js';
-import type { AppContext } from '../app-context.js';
-import { requireRole } from '../auth/guards.js';
-import { HttpError, notFound } from '../http/http-error.js';
-import { parseBody, parseIdParam } from '../http/validate.js';
-import { PhotosRepo, toApiPhoto } from '../photos/photos-repo.js';
-import { InspectionRepo } from './inspection-repo.js';
+} from '../../../shared/schemas/inspection.js';
+import type { AppContext } from '../../app-context.js';
+import { requireRole } from '../../auth/guards.js';
+import { HttpError, notFound } from '../http-error.js';
+import { parseBody, parseIdParam } from '../validate.js';
+import { PhotosRepo, toApiPhoto } from '../../photos/photos-repo.js';
+import { InspectionRepo } from '../../inspection/inspection-repo.js';
 
 /**
  * The teardown checklist (/api/inspection-items: everyone reads, admins edit) and each pack's

@@ -1,10 +1,10 @@
 import { Router } from 'express';
-import type { AppContext } from '../app-context.js';
-import { CreateUserRequestSchema, UpdateUserRequestSchema } from '../../shared/schemas/user.js';
-import { requireRole } from '../auth/guards.js';
-import { endUserSessions } from '../auth/end-sessions.js';
-import { parseBody, parseIdParam } from '../http/validate.js';
-import { createUser, listUsers, updateUser } from './users-service.js';
+import type { AppContext } from '../../app-context.js';
+import { CreateUserRequestSchema, UpdateUserRequestSchema } from '../../../shared/schemas/user.js';
+import { requireRole } from '../../auth/guards.js';
+import { endUserSessions } from '../../auth/end-sessions.js';
+import { parseBody, parseIdParam } from '../validate.js';
+import { createUser, listUsers, updateUser } from '../../users/users-service.js';
 
 /** /api/users: admin only (list, create, set role, rename, disable). */
 export function createUsersRouter(ctx: AppContext): Router {

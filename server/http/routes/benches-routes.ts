@@ -1,13 +1,13 @@
 import { Router } from 'express';
-import { CreateBenchRequestSchema, UpdateBenchRequestSchema } from '../../shared/schemas/bench.js';
-import type { AppContext } from '../app-context.js';
-import { requireRole } from '../auth/guards.js';
-import { HttpError, notFound } from '../http/http-error.js';
-import { parseBody, parseIdParam } from '../http/validate.js';
-import { benchManagerOf } from './bench-services.js';
-import { createBenchService, withStatus } from './bench-service.js';
-import { listSerialPorts } from './list-serial-ports.js';
-import { assertNoLiveRun } from './live-run-guard.js';
+import { CreateBenchRequestSchema, UpdateBenchRequestSchema } from '../../../shared/schemas/bench.js';
+import type { AppContext } from '../../app-context.js';
+import { requireRole } from '../../auth/guards.js';
+import { HttpError, notFound } from '../http-error.js';
+import { parseBody, parseIdParam } from '../validate.js';
+import { benchManagerOf } from '../../benches/bench-services.js';
+import { createBenchService, withStatus } from '../../benches/bench-service.js';
+import { listSerialPorts } from '../../benches/list-serial-ports.js';
+import { assertNoLiveRun } from '../../benches/live-run-guard.js';
 
 /** /api/benches: everyone signed in reads benches with live status; admins configure them. */
 export function createBenchesRouter(ctx: AppContext): Router {

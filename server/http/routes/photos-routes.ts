@@ -1,16 +1,16 @@
 import { basename } from 'node:path';
 import { Router, type RequestHandler } from 'express';
 import multer from 'multer';
-import { PhotoUploadFieldsSchema } from '../../shared/schemas/inspection.js';
-import type { AppContext } from '../app-context.js';
-import { requireRole } from '../auth/guards.js';
-import { HttpError, notFound } from '../http/http-error.js';
-import { parseIdParam } from '../http/validate.js';
-import { InspectionRepo } from '../inspection/inspection-repo.js';
-import { PHOTO_CONTENT_TYPE, PHOTO_VARIANTS, PhotoFiles, variantFormat, type PhotoVariant } from './photo-files.js';
-import { displayFileName } from './photo-name.js';
-import { PhotoRejectedError, processPhoto } from './photo-processing.js';
-import { PhotosRepo, toApiPhoto } from './photos-repo.js';
+import { PhotoUploadFieldsSchema } from '../../../shared/schemas/inspection.js';
+import type { AppContext } from '../../app-context.js';
+import { requireRole } from '../../auth/guards.js';
+import { HttpError, notFound } from '../http-error.js';
+import { parseIdParam } from '../validate.js';
+import { InspectionRepo } from '../../inspection/inspection-repo.js';
+import { PHOTO_CONTENT_TYPE, PHOTO_VARIANTS, PhotoFiles, variantFormat, type PhotoVariant } from '../../photos/photo-files.js';
+import { displayFileName } from '../../photos/photo-name.js';
+import { PhotoRejectedError, processPhoto } from '../../photos/photo-processing.js';
+import { PhotosRepo, toApiPhoto } from '../../photos/photos-repo.js';
 
 /** Largest photo accepted, bytes (20 MB). */
 export const PHOTO_MAX_BYTES = 20 * 1024 * 1024;

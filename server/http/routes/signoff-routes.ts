@@ -1,10 +1,10 @@
 import { Router, type ErrorRequestHandler, type Request } from 'express';
-import { MarkReadyRequestSchema, SignRequestSchema } from '../../shared/schemas/signoff.js';
-import type { AppContext } from '../app-context.js';
-import { requireRole } from '../auth/guards.js';
-import { HttpError, notFound } from '../http/http-error.js';
-import { parseBody, parseIdParam } from '../http/validate.js';
-import { SignoffError, SignoffService, type RunReview } from './signoff-service.js';
+import { MarkReadyRequestSchema, SignRequestSchema } from '../../../shared/schemas/signoff.js';
+import type { AppContext } from '../../app-context.js';
+import { requireRole } from '../../auth/guards.js';
+import { HttpError, notFound } from '../http-error.js';
+import { parseBody, parseIdParam } from '../validate.js';
+import { SignoffError, SignoffService, type RunReview } from '../../signoff/signoff-service.js';
 
 const STATUS_OF: Record<SignoffError['reason'], number> = { 'no-run': 404, live: 409, 'not-ready': 409, changed: 409, already: 409 };
 

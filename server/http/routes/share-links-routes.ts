@@ -1,16 +1,16 @@
 import { Router } from 'express';
-import { CreateShareLinkRequestSchema, EmailShareLinkRequestSchema, ShareTargetKindSchema, type ShareTargetKind } from '../../shared/schemas/share.js';
-import type { AppContext } from '../app-context.js';
-import { requireRole } from '../auth/guards.js';
-import { HttpError, notFound } from '../http/http-error.js';
-import { parseBody, parseIdParam } from '../http/validate.js';
-import { checkedAddress } from '../alarms/mail-message.js';
-import { outboundMailOf } from '../mail/mail-services.js';
-import { RunsRepo } from '../runs/runs-repo.js';
-import { getLabSettings } from '../settings/settings-service.js';
-import { buildShareMail } from './share-mail.js';
-import { ShareRepo } from './share-repo.js';
-import { isShareToken, newShareToken, shareTokenHash } from './share-token.js';
+import { CreateShareLinkRequestSchema, EmailShareLinkRequestSchema, ShareTargetKindSchema, type ShareTargetKind } from '../../../shared/schemas/share.js';
+import type { AppContext } from '../../app-context.js';
+import { requireRole } from '../../auth/guards.js';
+import { HttpError, notFound } from '../http-error.js';
+import { parseBody, parseIdParam } from '../validate.js';
+import { checkedAddress } from '../../alarms/mail-message.js';
+import { outboundMailOf } from '../../mail/mail-services.js';
+import { RunsRepo } from '../../runs/runs-repo.js';
+import { getLabSettings } from '../../settings/settings-service.js';
+import { buildShareMail } from '../../share/share-mail.js';
+import { ShareRepo } from '../../share/share-repo.js';
+import { isShareToken, newShareToken, shareTokenHash } from '../../share/share-token.js';
 
 const DAY_MS = 86_400_000;
 const HOUR_MS = 3_600_000;

@@ -1,14 +1,14 @@
 import { Router, type RequestHandler } from 'express';
-import { roleAtLeast } from '../../shared/schemas/user.js';
-import { PushAcknowledgeSchema, PushSubscriptionInputSchema, PushUnsubscribeSchema } from '../../shared/schemas/push.js';
-import type { AppContext } from '../app-context.js';
-import { alarmsOf } from '../alarms/alarms-services.js';
-import { requireRole } from '../auth/guards.js';
-import { HttpError } from '../http/http-error.js';
-import { parseBody } from '../http/validate.js';
-import { verifyAckToken } from './ack-token.js';
-import { PushSubscriptionRepo } from './push-subscription-repo.js';
-import { pushOf } from './push-services.js';
+import { roleAtLeast } from '../../../shared/schemas/user.js';
+import { PushAcknowledgeSchema, PushSubscriptionInputSchema, PushUnsubscribeSchema } from '../../../shared/schemas/push.js';
+import type { AppContext } from '../../app-context.js';
+import { alarmsOf } from '../../alarms/alarms-services.js';
+import { requireRole } from '../../auth/guards.js';
+import { HttpError } from '../http-error.js';
+import { parseBody } from '../validate.js';
+import { verifyAckToken } from '../../push/ack-token.js';
+import { PushSubscriptionRepo } from '../../push/push-subscription-repo.js';
+import { pushOf } from '../../push/push-services.js';
 
 /**
  * /api/push (session and CSRF like every route): the server's VAPID public key, and the

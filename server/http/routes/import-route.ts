@@ -4,14 +4,14 @@ import { join } from 'node:path';
 import type { RequestHandler } from 'express';
 import multer from 'multer';
 import type { z } from 'zod';
-import { ImportColumnMapSchema, ImportFieldsSchema, RunTagsSchema, type ImportProgress } from '../../shared/schemas/api-runs.js';
-import type { AppContext } from '../app-context.js';
-import { HttpError } from '../http/http-error.js';
-import { getLabSettings } from '../settings/settings-service.js';
-import type { ImportProgressBoard } from './import-progress.js';
-import { importRun } from './import-service.js';
-import type { BatteryFacts } from './measure-config.js';
-import type { RunsRepo } from './runs-repo.js';
+import { ImportColumnMapSchema, ImportFieldsSchema, RunTagsSchema, type ImportProgress } from '../../../shared/schemas/api-runs.js';
+import type { AppContext } from '../../app-context.js';
+import { HttpError } from '../http-error.js';
+import { getLabSettings } from '../../settings/settings-service.js';
+import type { ImportProgressBoard } from '../../runs/import-progress.js';
+import { importRun } from '../../runs/import-service.js';
+import type { BatteryFacts } from '../../runs/measure-config.js';
+import type { RunsRepo } from '../../runs/runs-repo.js';
 
 /** Largest log accepted: a million rows of a wide logger fit well below this. */
 export const IMPORT_MAX_BYTES = 512 * 1024 * 1024;

@@ -1,10 +1,10 @@
 import { Router } from 'express';
 import { z } from 'zod';
-import type { AppContext } from '../app-context.js';
-import { LabSettingsInputSchema } from '../../shared/schemas/lab-settings.js';
-import { requireRole } from '../auth/guards.js';
-import { parseBody } from '../http/validate.js';
-import { getLabSettings, saveLabSettings } from './settings-service.js';
+import type { AppContext } from '../../app-context.js';
+import { LabSettingsInputSchema } from '../../../shared/schemas/lab-settings.js';
+import { requireRole } from '../../auth/guards.js';
+import { parseBody } from '../validate.js';
+import { getLabSettings, saveLabSettings } from '../../settings/settings-service.js';
 
 const PatchObjectSchema = z.record(z.string(), z.unknown());
 

@@ -1,16 +1,16 @@
 import { Router } from 'express';
 import { z } from 'zod';
-import { programmeProblems } from '../../shared/measure/programme-limits.js';
-import { ProgrammeInputSchema, type ProgrammeInput } from '../../shared/schemas/programme.js';
-import { ProgrammeControlRequestSchema, StartProgrammeRequestSchema } from '../../shared/schemas/programme-run.js';
-import type { AppContext } from '../app-context.js';
-import { requireRole } from '../auth/guards.js';
-import { HttpError, notFound } from '../http/http-error.js';
-import { parseBody, parseIdParam } from '../http/validate.js';
-import { BenchInstrumentsSchema } from '../../shared/schemas/bench-instruments.js';
-import { BenchInstrumentsRepo } from './bench-instruments-repo.js';
-import { ProgrammesRepo } from './programmes-repo.js';
-import type { ProgrammeRunner } from './programme-runner.js';
+import { programmeProblems } from '../../../shared/measure/programme-limits.js';
+import { ProgrammeInputSchema, type ProgrammeInput } from '../../../shared/schemas/programme.js';
+import { ProgrammeControlRequestSchema, StartProgrammeRequestSchema } from '../../../shared/schemas/programme-run.js';
+import type { AppContext } from '../../app-context.js';
+import { requireRole } from '../../auth/guards.js';
+import { HttpError, notFound } from '../http-error.js';
+import { parseBody, parseIdParam } from '../validate.js';
+import { BenchInstrumentsSchema } from '../../../shared/schemas/bench-instruments.js';
+import { BenchInstrumentsRepo } from '../../programmes/bench-instruments-repo.js';
+import { ProgrammesRepo } from '../../programmes/programmes-repo.js';
+import type { ProgrammeRunner } from '../../programmes/programme-runner.js';
 
 /** Most command-log rows one request returns. */
 const COMMAND_PAGE_MAX = 1000;

@@ -2,15 +2,15 @@ import { Router } from 'express';
 import { z } from 'zod';
 import {
   AlarmSettingsSchema, AlarmSubscriptionsInputSchema, OnCallInputSchema, ShelveInputSchema,
-} from '../../shared/schemas/alarm.js';
-import type { AppContext } from '../app-context.js';
-import { requireRole } from '../auth/guards.js';
-import { HttpError, notFound } from '../http/http-error.js';
-import { parseBody, parseIdParam } from '../http/validate.js';
-import { AlarmRepo } from './alarm-repo.js';
-import { alarmsOf } from './alarms-services.js';
-import { DeliveryQueue } from './delivery-queue.js';
-import { MS_PER_MINUTE } from '../../shared/units/time.js';
+} from '../../../shared/schemas/alarm.js';
+import type { AppContext } from '../../app-context.js';
+import { requireRole } from '../../auth/guards.js';
+import { HttpError, notFound } from '../http-error.js';
+import { parseBody, parseIdParam } from '../validate.js';
+import { AlarmRepo } from '../../alarms/alarm-repo.js';
+import { alarmsOf } from '../../alarms/alarms-services.js';
+import { DeliveryQueue } from '../../alarms/delivery-queue.js';
+import { MS_PER_MINUTE } from '../../../shared/units/time.js';
 
 /** Most alarms the in-app list returns. */
 const INBOX_LIMIT = 100;

@@ -1,14 +1,14 @@
 import { Router } from 'express';
-import type { AppContext } from '../app-context.js';
-import { ChangePasswordRequestSchema, LoginRequestSchema, type PublicUser } from '../../shared/schemas/user.js';
-import { HttpError } from '../http/http-error.js';
-import { issueCsrfToken } from '../http/csrf.js';
-import { parseBody } from '../http/validate.js';
-import { endUserSessions } from './end-sessions.js';
-import { createLoginRateLimit, createPasswordChangeLimit } from './login-rate-limit.js';
-import { requireSignedIn } from './guards.js';
-import { hashPassword, verifyPassword } from './password.js';
-import { SESSION_COOKIE } from './session.js';
+import type { AppContext } from '../../app-context.js';
+import { ChangePasswordRequestSchema, LoginRequestSchema, type PublicUser } from '../../../shared/schemas/user.js';
+import { HttpError } from '../http-error.js';
+import { issueCsrfToken } from '../csrf.js';
+import { parseBody } from '../validate.js';
+import { endUserSessions } from '../../auth/end-sessions.js';
+import { createLoginRateLimit, createPasswordChangeLimit } from '../../auth/login-rate-limit.js';
+import { requireSignedIn } from '../../auth/guards.js';
+import { hashPassword, verifyPassword } from '../../auth/password.js';
+import { SESSION_COOKIE } from '../../auth/session.js';
 
 /** /api/auth: csrf, login, logout, me, password. */
 export function createAuthRouter(ctx: AppContext): Router {

@@ -1,15 +1,15 @@
 import { Router, type RequestHandler } from 'express';
 import multer from 'multer';
 import { QueryTypes } from 'sequelize';
-import { InstrumentInputSchema } from '../../shared/schemas/instrument.js';
-import type { AppContext } from '../app-context.js';
-import { requireRole } from '../auth/guards.js';
-import { HttpError, notFound } from '../http/http-error.js';
-import { parseBody, parseIdParam } from '../http/validate.js';
-import { displayFileName } from '../photos/photo-name.js';
-import { CERTIFICATE_MAX_BYTES, CertificateFiles, certificateType } from './certificate-files.js';
-import './instruments-services.js';
-import { InstrumentsRepo } from './instruments-repo.js';
+import { InstrumentInputSchema } from '../../../shared/schemas/instrument.js';
+import type { AppContext } from '../../app-context.js';
+import { requireRole } from '../../auth/guards.js';
+import { HttpError, notFound } from '../http-error.js';
+import { parseBody, parseIdParam } from '../validate.js';
+import { displayFileName } from '../../photos/photo-name.js';
+import { CERTIFICATE_MAX_BYTES, CertificateFiles, certificateType } from '../../instruments/certificate-files.js';
+import '../../instruments/instruments-services.js';
+import { InstrumentsRepo } from '../../instruments/instruments-repo.js';
 
 const MAX_FIELDS = 2;
 

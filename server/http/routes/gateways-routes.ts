@@ -1,10 +1,10 @@
 import { Router } from 'express';
-import { AssignBenchesRequestSchema, CreateGatewayRequestSchema } from '../../shared/schemas/gateway.js';
-import type { AppContext } from '../app-context.js';
-import { requireRole } from '../auth/guards.js';
-import { HttpError, notFound } from '../http/http-error.js';
-import { parseBody, parseIdParam } from '../http/validate.js';
-import { GatewayNameTakenError, UnknownBenchError } from './gateway-service.js';
+import { AssignBenchesRequestSchema, CreateGatewayRequestSchema } from '../../../shared/schemas/gateway.js';
+import type { AppContext } from '../../app-context.js';
+import { requireRole } from '../../auth/guards.js';
+import { HttpError, notFound } from '../http-error.js';
+import { parseBody, parseIdParam } from '../validate.js';
+import { GatewayNameTakenError, UnknownBenchError } from '../../mqtt/gateway-service.js';
 
 const notConfigured = () => new HttpError(409, 'MQTT is not configured: set KNEEPOINT_MQTT=local or KNEEPOINT_MQTT_URL (see docs/scale-out.md)');
 

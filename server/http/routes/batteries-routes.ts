@@ -1,15 +1,15 @@
 import { Router } from 'express';
-import type { AppContext } from '../app-context.js';
-import { BatteryInputSchema, BatteryPatchSchema } from '../../shared/schemas/battery.js';
-import { requireRole } from '../auth/guards.js';
-import { HttpError, notFound } from '../http/http-error.js';
-import { parseBody, parseIdParam } from '../http/validate.js';
-import { BATTERY_OPTIONAL_DEFAULTS, toApiBattery } from '../db/models/battery.js';
-import { linkRunToBattery, RunLinkError } from '../runs/run-battery-link.js';
-import { batteriesCsv } from './batteries-csv.js';
-import { protectionRecord } from './protection-record.js';
-import { packReportPdf } from '../reports/pack-report.js';
-import type { Run } from '../../shared/schemas/run.js';
+import type { AppContext } from '../../app-context.js';
+import { BatteryInputSchema, BatteryPatchSchema } from '../../../shared/schemas/battery.js';
+import { requireRole } from '../../auth/guards.js';
+import { HttpError, notFound } from '../http-error.js';
+import { parseBody, parseIdParam } from '../validate.js';
+import { BATTERY_OPTIONAL_DEFAULTS, toApiBattery } from '../../db/models/battery.js';
+import { linkRunToBattery, RunLinkError } from '../../runs/run-battery-link.js';
+import { batteriesCsv } from '../../batteries/batteries-csv.js';
+import { protectionRecord } from '../../batteries/protection-record.js';
+import { packReportPdf } from '../../reports/pack-report.js';
+import type { Run } from '../../../shared/schemas/run.js';
 
 /** /api/batteries: everyone signed in reads; technicians and admins write. */
 export function createBatteriesRouter(ctx: AppContext): Router {

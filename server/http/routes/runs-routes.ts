@@ -8,23 +8,23 @@ import {
   ReadingsQuerySchema,
   StartRunRequestSchema,
   StopRunRequestSchema,
-} from '../../shared/schemas/api-runs.js';
-import type { Run } from '../../shared/schemas/run.js';
-import type { AppContext } from '../app-context.js';
-import { requireRole } from '../auth/guards.js';
-import { notFound } from '../http/http-error.js';
-import { parseBody, parseIdParam } from '../http/validate.js';
-import { batteryLookup } from './battery-facts.js';
-import { exportMeta } from './export-meta.js';
-import { streamCsvExport, streamJsonExport } from './export-stream.js';
-import { ImportProgressBoard } from './import-progress.js';
+} from '../../../shared/schemas/api-runs.js';
+import type { Run } from '../../../shared/schemas/run.js';
+import type { AppContext } from '../../app-context.js';
+import { requireRole } from '../../auth/guards.js';
+import { notFound } from '../http-error.js';
+import { parseBody, parseIdParam } from '../validate.js';
+import { batteryLookup } from '../../runs/battery-facts.js';
+import { exportMeta } from '../../runs/export-meta.js';
+import { streamCsvExport, streamJsonExport } from '../../runs/export-stream.js';
+import { ImportProgressBoard } from '../../runs/import-progress.js';
 import { createImportHandler } from './import-route.js';
-import { NotesRepo, type NoteChangeRecord } from './notes-repo.js';
-import { changeNote } from './run-notes.js';
-import { RunsRepo } from './runs-repo.js';
-import { recorderOf } from './runs-services.js';
-import { runReadings } from './readings-service.js';
-import { runReportPdf } from '../reports/run-report.js';
+import { NotesRepo, type NoteChangeRecord } from '../../runs/notes-repo.js';
+import { changeNote } from '../../runs/run-notes.js';
+import { RunsRepo } from '../../runs/runs-repo.js';
+import { recorderOf } from '../../runs/runs-services.js';
+import { runReadings } from '../../runs/readings-service.js';
+import { runReportPdf } from '../../reports/run-report.js';
 
 /** /api/runs: everyone signed in reads; technicians start, stop, rename, annotate and import. */
 export function createRunsRouter(ctx: AppContext): Router {
