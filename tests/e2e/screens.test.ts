@@ -34,6 +34,8 @@ beforeAll(async () => {
     runIds.push(res.body.run.id as number);
   }
   const benchId = ((await tech.get('/api/benches').expect(200)).body.benches as { id: number }[])[0].id;
+  // A pack of our own for the pack page (fictional brand, demo data).
+  const pack = await tech.post('/api/batteries').send({ label: 'Screens check pack', brand: 'Voltara', chemistry: 'lfp', cellsInSeries: 4, ratedAh: 20 }).expect(201);
   paths = [
     '/',
     `/benches/${benchId}`,
@@ -45,7 +47,10 @@ beforeAll(async () => {
     `/runs/compare?ids=${runIds.join(',')}`,
     '/runs/compare?packs=',
     '/batteries',
+    `/batteries/${pack.body.battery.id as number}`,
+    '/programmes',
     '/instruments',
+    '/alarms',
     '/users',
     '/settings',
     '/account',

@@ -12,7 +12,7 @@ import { benchesQueryOptions } from '../../../lib/queries/benches';
 import { queryKeys } from '../../../lib/queries/query-keys';
 import { KIND_LABEL } from './subscriptions-form';
 
-const inputClass = 'rounded-lg border border-line bg-surface px-2 py-1.5';
+const inputClass = 'min-h-11 max-w-full rounded-lg border border-line bg-surface px-2 py-1.5';
 const errorText = (err: unknown) => (err instanceof Error ? err.message : 'Not saved');
 
 function SettingsCard({ initial }: { initial: AlarmSettings }) {

@@ -20,7 +20,7 @@ export const KIND_LABEL: Record<AlarmKind, string> = {
   'programme-failed': 'Programme failed safe',
 };
 const CHANNEL_LABEL: Record<AlarmChannelName, string> = { 'in-app': 'In the app', 'email': 'E-mail', 'push': 'Push to this browser' };
-const selectClass = 'rounded-lg border border-line bg-surface px-2 py-1.5';
+const selectClass = 'min-h-11 max-w-full rounded-lg border border-line bg-surface px-2 py-1.5';
 
 function Rows({ initial, channels }: { initial: AlarmSubscription[]; channels: AlarmChannelName[] }) {
   const benches = useQuery(benchesQueryOptions());
