@@ -53,10 +53,8 @@ export function createApp(ctx: AppContext): Express {
   app.use('/api/users', createUsersRouter(ctx));
   app.use('/api/batteries', createBatteriesRouter(ctx));
   app.use('/api/settings', createSettingsRouter(ctx));
-  // ── ROUTER MOUNTS: other areas add one line each here, e.g. ──
-  //   app.use('/api/benches', createBenchesRouter(ctx));   (ingest)
-  //   app.use('/api/runs', createRunsRouter(ctx));         (live)
-  // Guard every route with requireRole(...) from ./auth/guards.js; CSRF is already enforced above.
+  // Each area's router lives in server/http/routes; every route is guarded with requireRole(...)
+  // from ./auth/guards.js, and CSRF is already enforced above.
   app.use('/api/benches', createBenchesRouter(ctx));
   app.use('/api/runs', createRunsRouter(ctx));
   app.use('/api', createInspectionRouter(ctx));
@@ -68,7 +66,6 @@ export function createApp(ctx: AppContext): Express {
   app.use('/api', createProgrammesRouter(ctx));
   app.use('/api', createInstrumentsRouter(ctx));
   app.use('/api/gateways', createGatewaysRouter(ctx));
-  // ── end of router mounts ──
 
   app.use('/api', apiNotFound);
   serveClient(app, ctx.config.clientDir, [ctx.sessionMiddleware, ctx.passport.initialize(), ctx.passport.session(), requireSignedIn]);

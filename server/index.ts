@@ -1,13 +1,7 @@
 import { ConfigError, loadConfig } from './config/config.js';
 import { DEMO_ACCOUNTS, DEMO_LAB_NAME } from './db/seed-demo.js';
-import { ATTACHMENTS, startServer, type Attachment } from './server.js';
+import { ATTACHMENTS, startServer } from './server.js';
 import { createLogger } from './log/logger.js';
-
-/**
- * ── DEMO BENCH: attachments that run only in demo mode (ingest adds the simulator-backed demo
- * bench here with one line, e.g. `startDemoBench,`). ──
- */
-const DEMO_ATTACHMENTS: Attachment[] = [];
 
 /** Entry point of `npm start`: provision → migrate → seed demo when empty → listen → print. */
 async function main(): Promise<void> {
@@ -16,7 +10,7 @@ async function main(): Promise<void> {
   const server = await startServer({
     config,
     seedDemo: demo,
-    attachments: demo ? [...ATTACHMENTS, ...DEMO_ATTACHMENTS] : ATTACHMENTS,
+    attachments: ATTACHMENTS,
   });
   console.log(`\nKneepoint is serving ${server.url}`);
   if (demo) {

@@ -6,7 +6,7 @@ import { provisionMariaDb, type ProvisionedMariaDb } from './db/provisioner.js';
 import { isPortFree } from './db/mariadb-process.js';
 import { createSequelize } from './db/sequelize.js';
 import { migrate } from './db/migrate.js';
-import { seedDemo } from './db/seed-demo.js';
+import { seedDemo, seedDemoLabHistory } from './db/seed-demo.js';
 import { demoInstrumentLinkDir } from './benches/seed-demo-benches.js';
 import { consoleLogger, createAppContext, type AppContext, type Logger } from './app-context.js';
 import { redactingLogger } from './http/redact-tokens.js';
@@ -50,6 +50,8 @@ export interface StartServerOptions {
   migrate?: boolean;
   /** Seed the demo lab when the database has no users (default false). */
   seedDemo?: boolean;
+  /** With seedDemo on a fresh database: also import the demo lab's past runs (default true). */
+  demoHistory?: boolean;
   /** Default: ATTACHMENTS. */
   attachments?: Attachment[];
   log?: Logger;
@@ -128,6 +130,7 @@ export async function startServer(options: StartServerOptions = {}): Promise<Run
     guardQueries(sequelize, health);
     watch = watchDatabase({ health, probe: createPingProbe(database), server: mariadb, log: createLogger('mariadb', log) });
     const demoSeeded = options.seedDemo ? (await seedDemo(ctx.models, config.demoPassword, { instrumentLinkDir: demoInstrumentLinkDir(config.dataDir) })).seeded : false;
+    if (demoSeeded && (options.demoHistory ?? true)) await seedDemoLabHistory(ctx);
     const app = createApp(ctx);
     httpServer = createServer(app);
     // Attachments first, then listen: no request is answered before live runs have resumed

@@ -4,7 +4,11 @@ import type { Role } from '../../shared/schemas/user.js';
 import { LabSettingsSchema } from '../../shared/schemas/lab-settings.js';
 import { BATTERY_OPTIONAL_DEFAULTS } from './models/battery.js';
 import { hashPassword } from '../auth/password.js';
-import { saveLabSettings } from '../settings/settings-service.js';
+import { getLabSettings, saveLabSettings } from '../settings/settings-service.js';
+import type { AppContext } from '../app-context.js';
+import { batteryLookup } from '../runs/battery-facts.js';
+import { RunsRepo } from '../runs/runs-repo.js';
+import { seedDemoHistory } from '../runs/seed-demo-history.js';
 import { seedDemoBenches } from '../benches/seed-demo-benches.js';
 import { seedDemoInstruments } from '../instruments/seed-demo-instruments.js';
 import { seedDemoProgrammes } from '../programmes/seed-demo-programmes.js';
@@ -76,4 +80,26 @@ export async function seedDemo(models: CoreModels, demoPassword: string, options
   await seedDemoInstruments(models.User.sequelize!);
   await seedDemoProgrammes(models.User.sequelize!);
   return { seeded: true };
+}
+
+/**
+ * The demo lab's past runs (server/runs/seed-demo-history.ts), imported once when the demo is
+ * first seeded, so that runs, pack trends, compare and reports have something to show.
+ */
+export async function seedDemoLabHistory(ctx: AppContext): Promise<number[]> {
+  const technician = await ctx.models.User.findOne({ where: { role: 'technician' }, order: [['id', 'ASC']] });
+  if (!technician) return [];
+  const lab = await getLabSettings(ctx.models);
+  const facts = batteryLookup(ctx);
+  return seedDemoHistory({
+    sequelize: ctx.sequelize,
+    repo: new RunsRepo(ctx.sequelize),
+    batteryByLabel: async (label) => {
+      const row = await ctx.models.Battery.findOne({ where: { label } });
+      return row ? facts(row.id) : null;
+    },
+    technician: { id: technician.id, name: technician.name },
+    acceptancePercent: lab.acceptancePercent,
+    timeZone: lab.timeZone,
+  });
 }
