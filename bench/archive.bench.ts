@@ -81,9 +81,9 @@ async function blocks(sequelize: Sequelize, readings: Reading[], runId: number) 
   const r0 = performance.now();
   const parts = await readChunks(sequelize, runId, -Number.MAX_VALUE, Number.MAX_VALUE);
   const readSeconds = (performance.now() - r0) / 1000;
-  const n = parts.reduce((s, p) => s + p.elapsed!.length, 0);
+  const n = parts.reduce((s, p) => s + p.elapsedSeconds!.length, 0);
   if (n !== readings.length) throw new Error(`blocks: read ${n}`);
-  return { writeSeconds, readSeconds, bytes: await tableBytes(sequelize, 'run_sample_chunks') };
+  return { writeSeconds, readSeconds, bytes: await tableBytes(sequelize, 'run_reading_chunks') };
 }
 
 /** Prints and returns the archive figures. */

@@ -16,10 +16,11 @@ export type LiveReading = Frame | Reading;
 
 /**
  * Fixed channels every stored reading has; temperatures and aux channels add `temp:`/`aux:` columns.
- * These are the names inside stored archive blocks, so they stay as stored: `elapsed` is a
- * Reading's `elapsedSeconds` (run time, s) and `t` its source time (the meter's own clock).
+ * These are the names inside archive blocks written from now on: `elapsedSeconds` is the run
+ * time (s) and `t` the source time (the meter's own clock). Blocks stored before the rename
+ * name the run time `elapsed`; the archive maps it when it decodes (server/archive/column-block.ts).
  */
-export const BASE_COLUMNS = ['t', 'elapsed', 'volts', 'amps', 'dischargeWh', 'dischargeAh', 'chargeWh', 'chargeAh'] as const;
+export const BASE_COLUMNS = ['t', 'elapsedSeconds', 'volts', 'amps', 'dischargeWh', 'dischargeAh', 'chargeWh', 'chargeAh'] as const;
 /** Prefix of a stored temperature column (`temp:cell`). */
 export const TEMP_PREFIX = 'temp:';
 /** Prefix of a stored auxiliary column (`aux:soc`). */
@@ -79,7 +80,7 @@ export function readingsToColumns(readings: readonly Reading[]): Columns {
   for (let i = 0; i < n; i++) {
     const r = readings[i]!;
     cols.t![i] = r.t;
-    cols.elapsed![i] = r.elapsedSeconds;
+    cols.elapsedSeconds![i] = r.elapsedSeconds;
     cols.volts![i] = r.volts;
     cols.amps![i] = r.amps;
     cols.dischargeWh![i] = r.dischargeWh;
@@ -106,7 +107,7 @@ export function readingAt(cols: Columns, i: number): Reading {
   const amps = cols.amps![i]!;
   return {
     t: cols.t![i]!,
-    elapsedSeconds: cols.elapsed![i]!,
+    elapsedSeconds: cols.elapsedSeconds![i]!,
     volts,
     amps,
     watts: volts * amps,

@@ -68,7 +68,7 @@ function normaliseUnit(raw: string): string | null {
 }
 
 /** Common English names, and the German ones a lab's loggers often write (Zeit, Datum, Spannung, Strom). */
-const TIME_NAMES = /^(t|time|elapsed|elapsed time|test time|timestamp|date ?time|datetime|seconds|secs?|clock|date and time|zeit|uhrzeit|datum ?zeit)$/;
+const TIME_NAMES = /^(t|time|elapsed|elapsed ?seconds|elapsed time|test time|timestamp|date ?time|datetime|seconds|secs?|clock|date and time|zeit|uhrzeit|datum ?zeit)$/;
 /** A date column: the time column only when no other is there (a "Date" beside a "Time" holds the day, not the instant). */
 const DATE_NAMES = /^(date|datum)$/;
 const VOLT_NAMES = /^(v|u|volt|volts|voltage|pack voltage|battery voltage|terminal voltage|voltage measured|spannung)$/;

@@ -80,7 +80,7 @@ describe('backup and restore', () => {
     const before = await snapshot(s.url);
     expect(before.runs.runs).toHaveLength(2);
     expect(before.users.users.length).toBeGreaterThanOrEqual(3);
-    const chunksBefore = await adminQuery(`SELECT runId, firstSeq, count, HEX(data) AS d FROM \`${database.database}\`.run_sample_chunks ORDER BY runId, firstSeq`);
+    const chunksBefore = await adminQuery(`SELECT runId, firstSeq, count, HEX(data) AS d FROM \`${database.database}\`.run_reading_chunks ORDER BY runId, firstSeq`);
     expect((chunksBefore as unknown[]).length).toBeGreaterThan(2);
 
     // Three backups with retention 2: the oldest goes; the newest is complete.
@@ -103,7 +103,7 @@ describe('backup and restore', () => {
     expect(after.users).toEqual(before.users);
     expect(after.runs).toEqual(before.runs);
     expect(after.exports).toEqual(before.exports);
-    expect(await adminQuery(`SELECT runId, firstSeq, count, HEX(data) AS d FROM \`${database.database}\`.run_sample_chunks ORDER BY runId, firstSeq`)).toEqual(chunksBefore);
+    expect(await adminQuery(`SELECT runId, firstSeq, count, HEX(data) AS d FROM \`${database.database}\`.run_reading_chunks ORDER BY runId, firstSeq`)).toEqual(chunksBefore);
     expect(readFileSync(join(dataDir, 'uploads', 'runs', '2', 'teardown.jpg')).equals(photo)).toBe(true);
     expect(readdirSync(join(dataDir, 'uploads'))).toEqual(['runs']);
     // Users can still sign in with their passwords.
