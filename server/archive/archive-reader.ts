@@ -4,6 +4,6 @@
  */
 export { chunkExtent, forEachChunk, readChunks, readStats, runColumnNames } from './chunk-store.js';
 export { STATS_GROUP_READINGS } from './chunk-stats.js';
-export { reduceReadings, reduceStats } from './sample-reducer.js';
+export { reduceReadings, reduceStats } from './reading-reducer.js';
 export { reduceOverDischarge } from './axis-reducer.js';
 export type { Columns } from '../readings/reading-columns.js';

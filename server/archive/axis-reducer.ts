@@ -1,6 +1,6 @@
 import { concatColumns, type Columns } from './column-block.js';
 import { cumulativeDischarge } from '../../shared/measure/cumulative-discharge.js';
-import { reduceReadings, type ReducedReadings } from './sample-reducer.js';
+import { reduceReadings, type ReducedReadings } from './reading-reducer.js';
 
 /** A chart's x axis: run seconds, or delivered Ah or Wh so far. */
 export type ReadingAxis = 't' | 'ah' | 'wh';

@@ -28,11 +28,11 @@ export const AUX_PREFIX = 'aux:';
 
 const isReading = (s: LiveReading): s is Reading => 'elapsedSeconds' in s;
 
-/** Every channel name of one kind (temps or aux) that any of the samples at `idx` has, in first-seen order. */
-function channelsOf(samples: readonly LiveReading[], idx: Iterable<number>, kind: 'temps' | 'aux'): string[] {
+/** Every channel name of one kind (temps or aux) that any of the readings at `idx` has, in first-seen order. */
+function channelsOf(readings: readonly LiveReading[], idx: Iterable<number>, kind: 'temps' | 'aux'): string[] {
   const channels = new Set<string>();
   for (const i of idx) {
-    const s = samples[i]!;
+    const s = readings[i]!;
     const values = kind === 'temps' ? s.temps : s.aux;
     if (values) for (const ch of Object.keys(values)) channels.add(ch);
   }
@@ -42,18 +42,18 @@ function channelsOf(samples: readonly LiveReading[], idx: Iterable<number>, kind
 const allIndices = (n: number): number[] => Array.from({ length: n }, (_, i) => i);
 
 /**
- * Columns of the samples at `indices` (all when omitted), in the WebSocket's shape. For
+ * Columns of the readings at `indices` (all when omitted), in the WebSocket's shape. For
  * run readings `t` is the run time and the totals are included.
  */
-export function toReadingColumns(samples: readonly LiveReading[], indices?: readonly number[]): ReadingColumns {
-  const idx = indices ?? allIndices(samples.length);
-  const withTotals = samples.length > 0 && isReading(samples[0]!);
+export function toReadingColumns(readings: readonly LiveReading[], indices?: readonly number[]): ReadingColumns {
+  const idx = indices ?? allIndices(readings.length);
+  const withTotals = readings.length > 0 && isReading(readings[0]!);
   const cols: ReadingColumns = { t: [], volts: [], amps: [], watts: [], temps: {} };
   if (withTotals) Object.assign(cols, { dischargeWh: [], dischargeAh: [], chargeWh: [], chargeAh: [] });
-  const channels = channelsOf(samples, idx, 'temps');
+  const channels = channelsOf(readings, idx, 'temps');
   for (const ch of channels) cols.temps[ch] = [];
   for (const i of idx) {
-    const s = samples[i]!;
+    const s = readings[i]!;
     cols.t.push(isReading(s) ? s.elapsedSeconds : s.t);
     cols.volts.push(s.volts);
     cols.amps.push(s.amps);

@@ -74,7 +74,7 @@ describe('planColumns', () => {
     }
     // Kneepoint's own export names its channels temp_<label>_c, and its run time column
     // elapsedSeconds (`elapsed` in files exported before the rename): both are the time, not `t`.
-    for (const runTime of ['elapsedSeconds', 'elapsed']) {
+    for (const runTime of ['elapsedSeconds', 'elapsed']) { // vocab-rename: keep
       const own = planColumns([runTime, 't', 'volts', 'amps', 'temp_cell_c'], ['0', '0', '13', '5', '20']);
       expect(own.temp, runTime).toMatchObject({ index: 4, unit: 'C' });
       expect(own.time.index, runTime).toBe(0);

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { reduceReadings, reduceStats } from './sample-reducer.js';
+import { reduceReadings, reduceStats } from './reading-reducer.js';
 
 const cols = (elapsed: number[], volts: number[], amps?: number[]) => ({
   elapsedSeconds: Float64Array.from(elapsed),
