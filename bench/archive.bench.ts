@@ -1,7 +1,7 @@
 /**
  * Archive benchmark (issue 5): a 24-hour run at 10 Hz (864,000 readings) written and read
  * back two ways — plain rows (multi-row INSERT, PRIMARY KEY (runId, t)) and chunked gzip'd
- * Float64 column blocks (the layout the product uses) — then `samples` for a 1,000-pixel
+ * Float64 column blocks (the layout the product uses) — then `readings` for a 1,000-pixel
  * chart and a full CSV export from the block layout. Figures go to docs/archive.md.
  */
 import { performance } from 'node:perf_hooks';
@@ -22,7 +22,7 @@ const HZ = 10;
 const HOURS = 24;
 const READINGS = HOURS * 3600 * HZ;
 const ROWS_PER_INSERT = 2000;
-const SAMPLE_ROUNDS = 5;
+const READINGS_ROUNDS = 5;
 
 /** A plausible day-long discharge with a little noise, through the real pipeline. */
 function makeReadings(): Reading[] {
@@ -81,9 +81,9 @@ async function blocks(sequelize: Sequelize, readings: Reading[], runId: number) 
   const r0 = performance.now();
   const parts = await readChunks(sequelize, runId, -Number.MAX_VALUE, Number.MAX_VALUE);
   const readSeconds = (performance.now() - r0) / 1000;
-  const n = parts.reduce((s, p) => s + p.elapsed!.length, 0);
+  const n = parts.reduce((s, p) => s + p.elapsedSeconds!.length, 0);
   if (n !== readings.length) throw new Error(`blocks: read ${n}`);
-  return { writeSeconds, readSeconds, bytes: await tableBytes(sequelize, 'run_sample_chunks') };
+  return { writeSeconds, readSeconds, bytes: await tableBytes(sequelize, 'run_reading_chunks') };
 }
 
 /** Prints and returns the archive figures. */
@@ -100,15 +100,15 @@ export async function run(): Promise<Record<string, string | number>> {
     console.log(`column blocks: write ${blk.writeSeconds.toFixed(2)} s (${Math.round(READINGS / blk.writeSeconds)}/s), read ${blk.readSeconds.toFixed(2)} s, ${(blk.bytes / 1e6).toFixed(1)} MB`);
 
     const times: number[] = [];
-    for (let i = 0; i < SAMPLE_ROUNDS; i++) {
+    for (let i = 0; i < READINGS_ROUNDS; i++) {
       const s0 = performance.now();
       const res = await runReadings(db.sequelize, runId, { maxPoints: 1000, x: 't' });
       times.push(performance.now() - s0);
-      if (res.t.length !== 1000) throw new Error('samples: wrong bucket count');
+      if (res.t.length !== 1000) throw new Error('readings: wrong bucket count');
     }
     times.sort((a, b) => a - b);
-    const samplesMs = times[Math.floor(times.length / 2)]!;
-    console.log(`samples (1,000 px over 864k readings): median ${samplesMs.toFixed(0)} ms of ${SAMPLE_ROUNDS}`);
+    const readingsMs = times[Math.floor(times.length / 2)]!;
+    console.log(`readings (1,000 px over 864k readings): median ${readingsMs.toFixed(0)} ms of ${READINGS_ROUNDS}`);
 
     let bytes = 0;
     const sink = new Writable({ write: (chunk: Buffer, _e, cb) => ((bytes += chunk.length), cb()) });
@@ -127,7 +127,7 @@ export async function run(): Promise<Record<string, string | number>> {
       blocksPerS: Math.round(READINGS / blk.writeSeconds),
       blocksReadSeconds: +blk.readSeconds.toFixed(2),
       blocksMB: +(blk.bytes / 1e6).toFixed(1),
-      samples1000pxMs: Math.round(samplesMs),
+      readings1000pxMs: Math.round(readingsMs),
       exportCsvSeconds: +exportSeconds.toFixed(2),
       exportCsvMB: +(bytes / 1e6).toFixed(1),
     };

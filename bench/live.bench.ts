@@ -134,7 +134,7 @@ export async function run(): Promise<Record<string, string | number>> {
     // written; only then is the count comparable with the frames sent.
     closed = true;
     await server.close();
-    const archivedReadings = Number(((await db.sequelize.query('SELECT SUM(count) AS n FROM run_sample_chunks', { plain: true })) as { n: number } | null)?.n ?? 0);
+    const archivedReadings = Number(((await db.sequelize.query('SELECT SUM(count) AS n FROM run_reading_chunks', { plain: true })) as { n: number } | null)?.n ?? 0);
     const first = memory[0]!;
     const last = memory[memory.length - 1]!;
     const figures = {

@@ -2,7 +2,7 @@
  * Run report PDF benchmark (issue 14): a 24-hour run at 10 Hz (864,000 readings) made by the
  * real run pipeline and archived through the real block path (encodeChunk + writeBatch), then
  * its report made as GET /api/runs/:id/report.pdf makes it: the run, 600 min/max buckets from
- * the samples service, its events, its review history, the lab settings, pdfkit (server/reports/run-report.ts).
+ * the readings service, its events, its review history, the lab settings, pdfkit (server/reports/run-report.ts).
  * Target: under 2 s. Then the pack report as GET /api/batteries/:id/report.pdf makes it, for a pack
  * with PACK_RUNS capacity runs and PACK_PHOTOS teardown photos (thumbnails from sharp, as uploads store
  * them). Figures go to docs/benchmarks.md.

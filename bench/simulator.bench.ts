@@ -1,6 +1,6 @@
 /**
  * Simulator figures: how fast the physics runs (simulated seconds per real second) and how
- * fast each encoder turns samples into bytes. Prints and returns; asserts nothing.
+ * fast each encoder turns readings into bytes. Prints and returns; asserts nothing.
  */
 import { performance } from 'node:perf_hooks';
 import { createMeterDevice } from '../simulator/meter/device.js';
@@ -17,26 +17,26 @@ export async function run(): Promise<Record<string, string | number>> {
   const scenario = loadScenario(SCENARIO);
   const started = performance.now();
   const sim = createSimulation(scenario, { seed: 1 });
-  const samples: SimReading[] = [];
-  for (let s = sim.step(); s; s = sim.step()) samples.push(s);
+  const readings: SimReading[] = [];
+  for (let s = sim.step(); s; s = sim.step()) readings.push(s);
   const physicsMs = performance.now() - started;
   const figures: Record<string, string | number> = {
     scenario: SCENARIO,
-    samples: samples.length,
+    readings: readings.length,
     physicsMs: Math.round(physicsMs),
-    simulatedSecondsPerRealSecond: Math.round(samples.at(-1)!.t / (physicsMs / 1000)),
+    simulatedSecondsPerRealSecond: Math.round(readings.at(-1)!.t / (physicsMs / 1000)),
   };
   for (const format of ['csv', 'jsonl', 'scpi', 'modbus'] as const) {
     const device = createMeterDevice({ format, meter: sim.meter, seed: 1 });
     let bytes = 0;
     const t0 = performance.now();
-    for (const s of samples) {
+    for (const s of readings) {
       for (const chunk of device.sample(s)) bytes += chunk.length;
       if (format === 'scpi') for (const r of device.receive(SCPI_FETCH)) bytes += r.length;
       if (format === 'modbus') for (const r of device.receive(MODBUS_READ_12)) bytes += r.length;
     }
     const ms = performance.now() - t0;
-    figures[`${format}SamplesPerS`] = Math.round(samples.length / (ms / 1000));
+    figures[`${format}SamplesPerS`] = Math.round(readings.length / (ms / 1000));
     figures[`${format}Bytes`] = bytes;
   }
   for (const [key, value] of Object.entries(figures)) console.log(`${key}: ${value}`);

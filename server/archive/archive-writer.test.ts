@@ -19,7 +19,7 @@ async function tempDir(): Promise<string> {
 const batch = (runId: number, firstSeq: number): ArchiveBatch => ({
   runId,
   block: {
-    firstSeq, count: 1, firstElapsed: firstSeq, lastElapsed: firstSeq, layout: { endian: 'le', count: 1, columns: [] }, data: Buffer.alloc(4000, firstSeq % 256),
+    firstSeq, count: 1, firstElapsedSeconds: firstSeq, lastElapsedSeconds: firstSeq, layout: { endian: 'le', count: 1, columns: [] }, data: Buffer.alloc(4000, firstSeq % 256),
     statsLayout: { endian: 'le', count: 1, columns: [] }, stats: Buffer.alloc(8, 1),
   },
   events: [],

@@ -8,7 +8,7 @@ import { SECONDS_PER_HOUR } from '../../shared/units/time.js';
 function constantCurrent(amps: number, seconds: number, v0: number, voltsPerSecond: number) {
   const elapsed = Array.from({ length: seconds + 1 }, (_, i) => i);
   return {
-    elapsed: Float64Array.from(elapsed),
+    elapsedSeconds: Float64Array.from(elapsed),
     volts: Float64Array.from(elapsed, (t) => v0 - voltsPerSecond * t),
     amps: Float64Array.from(elapsed, () => amps),
   };
@@ -34,7 +34,7 @@ describe('delivered-discharge axis', () => {
 
   it('ends at the total the core integrator gives for the same columns', () => {
     const c = constantCurrent(7.5, 2000, 12.8, 0.001);
-    const core = integrateColumns(c.elapsed, c.volts, c.amps);
+    const core = integrateColumns(c.elapsedSeconds, c.volts, c.amps);
     expect(dischargeAxis([c], 'ah').x[2000]).toBe(core.dischargeAh);
     expect(dischargeAxis([c], 'wh').x[2000]).toBe(core.dischargeWh);
   });
@@ -57,7 +57,7 @@ describe('delivered-discharge axis', () => {
 
   it('a rest after the load adds no Ah: the recovering volts stay at the delivered total', () => {
     const c = constantCurrent(10, 360, 13, 0.001); // 1 Ah
-    const rest = { elapsed: Float64Array.from([361, 362, 363]), volts: Float64Array.from([12.8, 12.9, 13.0]), amps: Float64Array.from([0, 0, 0]) };
+    const rest = { elapsedSeconds: Float64Array.from([361, 362, 363]), volts: Float64Array.from([12.8, 12.9, 13.0]), amps: Float64Array.from([0, 0, 0]) };
     const r = reduceOverDischarge([c, rest], 'ah', { from: 0.99, to: 1.01 }, 100);
     expect(r.reduced).toBe(false);
     // Ah after the load ramps from 10 A to 0 over one second: 1 Ah + 5 As.
@@ -67,7 +67,7 @@ describe('delivered-discharge axis', () => {
 
   it('does not integrate across a gap longer than the limit', () => {
     const before = constantCurrent(10, 10, 13, 0);
-    const after = { elapsed: Float64Array.from([1000, 1001]), volts: Float64Array.from([13, 13]), amps: Float64Array.from([10, 10]) };
+    const after = { elapsedSeconds: Float64Array.from([1000, 1001]), volts: Float64Array.from([13, 13]), amps: Float64Array.from([10, 10]) };
     const { x } = dischargeAxis([before, after], 'ah', 30);
     expect(x[11]).toBe(x[10]); // the reading after the gap restarts integration
     expect(x[12]).toBe(x[10] + 10 / SECONDS_PER_HOUR);

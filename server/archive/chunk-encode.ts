@@ -5,21 +5,21 @@ import { computeStats } from './chunk-stats.js';
 export interface EncodedChunk {
   firstSeq: number;
   count: number;
-  /** Run time (s) of the first and last reading, under the names of run_sample_chunks' columns (storage). */
-  firstElapsed: number;
-  lastElapsed: number;
+  /** Run time (s) of the first and last reading, as stored in run_reading_chunks. */
+  firstElapsedSeconds: number;
+  lastElapsedSeconds: number;
   layout: BlockLayout;
   data: Buffer;
   statsLayout: BlockLayout;
   stats: Buffer;
 }
 
-/** Encodes reading columns (which must have `elapsed`) starting at reading number `firstSeq`. */
+/** Encodes reading columns (which must have `elapsedSeconds`) starting at reading number `firstSeq`. */
 export function encodeChunk(firstSeq: number, cols: Columns): EncodedChunk {
   const count = columnLength(cols);
-  const e = cols.elapsed!;
+  const e = cols.elapsedSeconds!;
   const block = encodeBlock(cols);
   // The min/max groups are about 1/60 of the readings: stored raw, they are read without inflating.
   const stats = encodeBlock(computeStats(cols), 'raw');
-  return { firstSeq, count, firstElapsed: e[0]!, lastElapsed: e[count - 1]!, ...block, statsLayout: stats.layout, stats: stats.data };
+  return { firstSeq, count, firstElapsedSeconds: e[0]!, lastElapsedSeconds: e[count - 1]!, ...block, statsLayout: stats.layout, stats: stats.data };
 }

@@ -11,7 +11,7 @@ export const STATS_GROUP_READINGS = 64;
  * volts, amps, watts and each `temp:<name>`.
  */
 export function computeStats(cols: Columns, groupSize = STATS_GROUP_READINGS): Columns {
-  const e = cols.elapsed!;
+  const e = cols.elapsedSeconds!;
   const n = e.length;
   const groups = Math.ceil(n / groupSize);
   const channels: [string, (i: number) => number][] = [

@@ -2,7 +2,7 @@ import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
 import type { ArchiveBatch } from './archive-batch.js';
 import { encodeChunk, type EncodedChunk } from './chunk-encode.js';
 import { computeStats } from './chunk-stats.js';
-import { concatColumns, decodeBlock, type BlockLayout, type Columns } from './column-block.js';
+import { concatColumns, currentColumnName, decodeBlock, type BlockLayout, type Columns } from './column-block.js';
 import { utcDateTime } from '../db/utc-datetime.js';
 
 /** Small chunks are merged once this many readings sit in them (about 7 minutes at 10 Hz). */
@@ -11,8 +11,8 @@ export const COMPACT_READINGS = 4096;
 interface ChunkRow {
   firstSeq: number;
   count: number;
-  firstElapsed: number;
-  lastElapsed: number;
+  firstElapsedSeconds: number;
+  lastElapsedSeconds: number;
   layout: string;
   data: Buffer;
 }
@@ -23,8 +23,8 @@ export async function writeBatch(sequelize: Sequelize, batch: ArchiveBatch): Pro
     const b = batch.block;
     if (b) {
       await sequelize.query(
-        'INSERT IGNORE INTO run_sample_chunks (runId, firstSeq, count, firstElapsed, lastElapsed, layout, data, statsLayout, stats) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)',
-        { replacements: [batch.runId, b.firstSeq, b.count, b.firstElapsed, b.lastElapsed, JSON.stringify(b.layout), b.data, JSON.stringify(b.statsLayout), b.stats], transaction },
+        'INSERT IGNORE INTO run_reading_chunks (runId, firstSeq, count, firstElapsedSeconds, lastElapsedSeconds, layout, data, statsLayout, stats) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)',
+        { replacements: [batch.runId, b.firstSeq, b.count, b.firstElapsedSeconds, b.lastElapsedSeconds, JSON.stringify(b.layout), b.data, JSON.stringify(b.statsLayout), b.stats], transaction },
       );
     }
     for (const { eventSeq, event } of batch.events) {
@@ -46,9 +46,9 @@ export async function writeBlocks(sequelize: Sequelize, runId: number, blocks: r
   await sequelize.transaction(async (transaction) => {
     if (blocks.length > 0) {
       const replacements: unknown[] = [];
-      for (const b of blocks) replacements.push(runId, b.firstSeq, b.count, b.firstElapsed, b.lastElapsed, JSON.stringify(b.layout), b.data, JSON.stringify(b.statsLayout), b.stats);
+      for (const b of blocks) replacements.push(runId, b.firstSeq, b.count, b.firstElapsedSeconds, b.lastElapsedSeconds, JSON.stringify(b.layout), b.data, JSON.stringify(b.statsLayout), b.stats);
       await sequelize.query(
-        `INSERT IGNORE INTO run_sample_chunks (runId, firstSeq, count, firstElapsed, lastElapsed, layout, data, statsLayout, stats) VALUES ${blocks.map(() => '(?, ?, ?, ?, ?, ?, ?, ?, ?)').join(', ')}`,
+        `INSERT IGNORE INTO run_reading_chunks (runId, firstSeq, count, firstElapsedSeconds, lastElapsedSeconds, layout, data, statsLayout, stats) VALUES ${blocks.map(() => '(?, ?, ?, ?, ?, ?, ?, ?, ?)').join(', ')}`,
         { replacements, transaction },
       );
     }
@@ -82,7 +82,7 @@ async function patchRun(sequelize: Sequelize, batch: ArchiveBatch, transaction: 
  */
 export async function compactRun(sequelize: Sequelize, runId: number, all = false): Promise<number> {
   const small = await sequelize.query<ChunkRow>(
-    'SELECT firstSeq, count, firstElapsed, lastElapsed, layout, data FROM run_sample_chunks WHERE runId = ? AND count < ? ORDER BY firstSeq',
+    'SELECT firstSeq, count, firstElapsedSeconds, lastElapsedSeconds, layout, data FROM run_reading_chunks WHERE runId = ? AND count < ? ORDER BY firstSeq',
     { replacements: [runId, COMPACT_READINGS], type: QueryTypes.SELECT },
   );
   let merged = 0;
@@ -113,13 +113,13 @@ async function mergeGroup(sequelize: Sequelize, runId: number, group: ChunkRow[]
   const last = group[group.length - 1]!;
   const c = encodeChunk(first.firstSeq, concatColumns(group.map((r) => decodeBlock(JSON.parse(r.layout) as BlockLayout, r.data))));
   await sequelize.transaction(async (transaction) => {
-    await sequelize.query('DELETE FROM run_sample_chunks WHERE runId = ? AND firstSeq >= ? AND firstSeq <= ?', {
+    await sequelize.query('DELETE FROM run_reading_chunks WHERE runId = ? AND firstSeq >= ? AND firstSeq <= ?', {
       replacements: [runId, first.firstSeq, last.firstSeq],
       transaction,
     });
     await sequelize.query(
-      'INSERT INTO run_sample_chunks (runId, firstSeq, count, firstElapsed, lastElapsed, layout, data, statsLayout, stats) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)',
-      { replacements: [runId, c.firstSeq, c.count, c.firstElapsed, c.lastElapsed, JSON.stringify(c.layout), c.data, JSON.stringify(c.statsLayout), c.stats], transaction },
+      'INSERT INTO run_reading_chunks (runId, firstSeq, count, firstElapsedSeconds, lastElapsedSeconds, layout, data, statsLayout, stats) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)',
+      { replacements: [runId, c.firstSeq, c.count, c.firstElapsedSeconds, c.lastElapsedSeconds, JSON.stringify(c.layout), c.data, JSON.stringify(c.statsLayout), c.stats], transaction },
     );
   });
 }
@@ -133,13 +133,13 @@ export async function readChunks(
   wanted?: readonly string[],
 ): Promise<Columns[]> {
   const rows = await sequelize.query<Pick<ChunkRow, 'layout' | 'data'>>(
-    'SELECT layout, data FROM run_sample_chunks WHERE runId = ? AND lastElapsed >= ? AND firstElapsed <= ? ORDER BY firstSeq',
+    'SELECT layout, data FROM run_reading_chunks WHERE runId = ? AND lastElapsedSeconds >= ? AND firstElapsedSeconds <= ? ORDER BY firstSeq',
     { replacements: [runId, from, to], type: QueryTypes.SELECT },
   );
   return rows.map((r) => {
     const layout = JSON.parse(r.layout) as BlockLayout;
     // Temperature columns are wanted by prefix: list them from the layout.
-    const names = wanted ? layout.columns.map((c) => c.name).filter((n) => wanted.includes(n) || (wanted.includes('temp:*') && n.startsWith('temp:'))) : undefined;
+    const names = wanted ? layout.columns.map((c) => currentColumnName(c.name)).filter((n) => wanted.includes(n) || (wanted.includes('temp:*') && n.startsWith('temp:'))) : undefined;
     return decodeBlock(layout, r.data, names);
   });
 }
@@ -148,7 +148,7 @@ export async function readChunks(
 export async function readStats(sequelize: Sequelize, runId: number, from: number, to: number): Promise<Columns[]> {
   // Only the small stats column is read: selecting `data` at all would pull every reading off disk.
   const rows = await sequelize.query<{ firstSeq: number; statsLayout: string | null; stats: Buffer | null }>(
-    'SELECT firstSeq, statsLayout, stats FROM run_sample_chunks WHERE runId = ? AND lastElapsed >= ? AND firstElapsed <= ? ORDER BY firstSeq',
+    'SELECT firstSeq, statsLayout, stats FROM run_reading_chunks WHERE runId = ? AND lastElapsedSeconds >= ? AND firstElapsedSeconds <= ? ORDER BY firstSeq',
     { replacements: [runId, from, to], type: QueryTypes.SELECT },
   );
   const out: Columns[] = [];
@@ -157,7 +157,7 @@ export async function readStats(sequelize: Sequelize, runId: number, from: numbe
       out.push(decodeBlock(JSON.parse(r.statsLayout) as BlockLayout, r.stats));
       continue;
     }
-    const [raw] = await sequelize.query<{ layout: string; data: Buffer }>('SELECT layout, data FROM run_sample_chunks WHERE runId = ? AND firstSeq = ?', {
+    const [raw] = await sequelize.query<{ layout: string; data: Buffer }>('SELECT layout, data FROM run_reading_chunks WHERE runId = ? AND firstSeq = ?', {
       replacements: [runId, r.firstSeq],
       type: QueryTypes.SELECT,
     });
@@ -168,13 +168,13 @@ export async function readStats(sequelize: Sequelize, runId: number, from: numbe
 
 /** Calls `each` with every chunk of a run in order, one at a time (bounded memory for export). */
 export async function forEachChunk(sequelize: Sequelize, runId: number, each: (cols: Columns) => Promise<void> | void): Promise<void> {
-  const keys = await sequelize.query<{ firstSeq: number }>('SELECT firstSeq FROM run_sample_chunks WHERE runId = ? ORDER BY firstSeq', {
+  const keys = await sequelize.query<{ firstSeq: number }>('SELECT firstSeq FROM run_reading_chunks WHERE runId = ? ORDER BY firstSeq', {
     replacements: [runId],
     type: QueryTypes.SELECT,
   });
   for (const { firstSeq } of keys) {
     const rows = await sequelize.query<Pick<ChunkRow, 'layout' | 'data'>>(
-      'SELECT layout, data FROM run_sample_chunks WHERE runId = ? AND firstSeq = ?',
+      'SELECT layout, data FROM run_reading_chunks WHERE runId = ? AND firstSeq = ?',
       { replacements: [runId, firstSeq], type: QueryTypes.SELECT },
     );
     const row = rows[0];
@@ -182,10 +182,21 @@ export async function forEachChunk(sequelize: Sequelize, runId: number, each: (c
   }
 }
 
+/** Every column name (current names) that any of a run's blocks holds, for an export's header. */
+export async function runColumnNames(sequelize: Sequelize, runId: number): Promise<Set<string>> {
+  const layouts = await sequelize.query<{ layout: string }>('SELECT layout FROM run_reading_chunks WHERE runId = ?', {
+    replacements: [runId],
+    type: QueryTypes.SELECT,
+  });
+  const names = new Set<string>();
+  for (const { layout } of layouts) for (const c of (JSON.parse(layout) as BlockLayout).columns) names.add(currentColumnName(c.name));
+  return names;
+}
+
 /** Time span and count of a run's stored readings. */
 export async function chunkExtent(sequelize: Sequelize, runId: number): Promise<{ from: number; to: number; count: number } | null> {
   const [row] = await sequelize.query<{ f: number | null; l: number | null; n: number | null }>(
-    'SELECT MIN(firstElapsed) AS f, MAX(lastElapsed) AS l, SUM(count) AS n FROM run_sample_chunks WHERE runId = ?',
+    'SELECT MIN(firstElapsedSeconds) AS f, MAX(lastElapsedSeconds) AS l, SUM(count) AS n FROM run_reading_chunks WHERE runId = ?',
     { replacements: [runId], type: QueryTypes.SELECT },
   );
   if (!row || row.f === null || row.l === null) return null;

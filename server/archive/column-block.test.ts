@@ -37,7 +37,21 @@ describe('column blocks', () => {
 
   it('inflates only the wanted columns', () => {
     const { layout, data } = encodeBlock(readingsToColumns([reading(0), reading(1)]));
-    expect(Object.keys(decodeBlock(layout, data, ['elapsed', 'volts'])).sort()).toEqual(['elapsed', 'volts']);
+    expect(Object.keys(decodeBlock(layout, data, ['elapsedSeconds', 'volts'])).sort()).toEqual(['elapsedSeconds', 'volts']);
+  });
+
+  it('reads a block stored before the rename (run time column `elapsed`) back identically, under the new name', () => {
+    const readings = [reading(0, { cell: 21.5 }), reading(1), reading(2, { cell: 22 })];
+    const { elapsedSeconds, ...rest } = readingsToColumns(readings);
+    // The block exactly as the archive wrote it before migration 1780: same bytes, old column name.
+    const old = encodeBlock({ t: rest.t!, elapsed: elapsedSeconds!, ...rest }); // vocab-rename: keep
+    const current = encodeBlock(readingsToColumns(readings));
+    expect(old.layout.columns.map((c) => c.name)).toContain('elapsed'); // vocab-rename: keep
+    expect(old.data.equals(current.data)).toBe(true);
+    const back = decodeBlock(old.layout, old.data);
+    expect(back).toEqual(decodeBlock(current.layout, current.data));
+    for (let i = 0; i < readings.length; i++) expect(readingAt(back, i)).toEqual(readings[i]);
+    expect(Object.keys(decodeBlock(old.layout, old.data, ['elapsedSeconds']))).toEqual(['elapsedSeconds']);
   });
 
   it('decodes small blocks into columns that own only their own bytes (no 16 KiB zlib buffer pinned per column)', () => {
@@ -65,7 +79,7 @@ describe('column blocks', () => {
     const a = readingsToColumns([reading(0, { cell: 20 })]);
     const b = readingsToColumns([reading(1)]);
     const c = concatColumns([a, b]);
-    expect(Array.from(c.elapsed!)).toEqual([0, 1]);
+    expect(Array.from(c.elapsedSeconds!)).toEqual([0, 1]);
     expect(Number.isNaN(c['temp:cell']![1]!)).toBe(true);
   });
 });

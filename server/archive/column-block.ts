@@ -61,11 +61,26 @@ export function encodeBlock(columns: Columns, encoding: 'gzip' | 'raw' = 'gzip')
   return { layout: { endian: 'le', ...(encoding === 'raw' ? { encoding } : {}), count, columns: entries }, data: Buffer.concat(parts) };
 }
 
-/** Inflates the named columns of a block (all when `wanted` is omitted); missing names are skipped. */
+/**
+ * Names a block stored before a rename gave its columns, and their names now. Blocks are
+ * never rewritten for a rename (a compaction rewrites them under the new names anyway), so
+ * this is the one place an old name is read; everything past decodeBlock sees only new names.
+ */
+const STORED_COLUMN_RENAMES: Readonly<Record<string, string>> = {
+  elapsed: 'elapsedSeconds', // before migration 1780: the run time column. vocab-rename: keep
+};
+
+/** The current name of a column as a block stores it (an old block may use a name from before a rename). */
+export function currentColumnName(stored: string): string {
+  return STORED_COLUMN_RENAMES[stored] ?? stored;
+}
+
+/** Inflates the named columns of a block (all when `wanted` is omitted, current names); missing names are skipped. */
 export function decodeBlock(layout: BlockLayout, data: Buffer, wanted?: readonly string[]): Columns {
   const out: Columns = {};
   for (const entry of layout.columns) {
-    if (wanted && !wanted.includes(entry.name)) continue;
+    const name = currentColumnName(entry.name);
+    if (wanted && !wanted.includes(name)) continue;
     const slice = data.subarray(entry.offset, entry.offset + entry.bytes);
     let view: Float64Array;
     try {
@@ -73,7 +88,7 @@ export function decodeBlock(layout: BlockLayout, data: Buffer, wanted?: readonly
     } catch {
       throw new Error(`column ${entry.name} is corrupt`);
     }
-    out[entry.name] = view;
+    out[name] = view;
   }
   return out;
 }

@@ -21,7 +21,7 @@ const batch = (firstSeq: number, n: number): RunBatch => ({
 describe('the archive as a sink of runs', () => {
   it('encodes a batch of readings into its own block, numbered from the batch, that decodes to the same readings', () => {
     const stored = toArchiveBatch(batch(40, 6));
-    expect([stored.block!.firstSeq, stored.block!.count, stored.block!.firstElapsed, stored.block!.lastElapsed]).toEqual([40, 6, 40, 45]);
+    expect([stored.block!.firstSeq, stored.block!.count, stored.block!.firstElapsedSeconds, stored.block!.lastElapsedSeconds]).toEqual([40, 6, 40, 45]);
     const cols = decodeBlock(stored.block!.layout, stored.block!.data);
     expect(Array.from({ length: 6 }, (_, i) => readingAt(cols, i))).toEqual(batch(40, 6).readings);
   });

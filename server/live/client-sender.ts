@@ -86,10 +86,10 @@ export class ClientSender {
 
   /**
    * Sends a batch of readings, thinned to what this socket can take. `seq` is the topic's
-   * number of the last reading in `samples`; `shared` is the unthinned payload for clients
+   * number of the last reading in `readings`; `shared` is the unthinned payload for clients
    * that keep up and have nothing dropped to report.
    */
-  sendBatch(topic: Topic, seq: number, samples: readonly LiveReading[], shared: () => string): void {
+  sendBatch(topic: Topic, seq: number, readings: readonly LiveReading[], shared: () => string): void {
     if (!this.isOpen) return;
     const key = topicKey(topic);
     const buffered = this.socket.bufferedAmount;
@@ -97,16 +97,16 @@ export class ClientSender {
     const keepEvery = keepEveryFor(buffered, this.thinning);
     const owed = this.dropped.get(key) ?? 0;
     if (keepEvery === 1 && owed === 0) return this.sendPayload(shared());
-    const { keep, phase } = thinIndices(samples.length, keepEvery, this.phase.get(key) ?? 0);
+    const { keep, phase } = thinIndices(readings.length, keepEvery, this.phase.get(key) ?? 0);
     this.phase.set(key, phase);
-    const droppedNow = samples.length - keep.length;
+    const droppedNow = readings.length - keep.length;
     this.droppedTotal += droppedNow;
     if (keep.length === 0) {
       this.dropped.set(key, owed + droppedNow);
       return;
     }
     this.dropped.set(key, 0);
-    this.send({ type: 'batch', seq, topic, readings: toReadingColumns(samples, keep), dropped: owed + droppedNow });
+    this.send({ type: 'batch', seq, topic, readings: toReadingColumns(readings, keep), dropped: owed + droppedNow });
   }
 
   /** Forgets a topic's thinning counters (after an unsubscribe). */

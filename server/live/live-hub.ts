@@ -159,14 +159,14 @@ export class LiveHub {
   }
 
   /** A bench frame or a run reading arrived. */
-  publishReading(topic: Topic, sample: LiveReading): void {
+  publishReading(topic: Topic, reading: LiveReading): void {
     const state = this.state(topic);
-    state.recent.push(sample);
+    state.recent.push(reading);
     state.seq++;
     state.recentJson = null;
     if (state.recent.length > 2 * RESUME_READINGS) state.recent.splice(0, state.recent.length - RESUME_READINGS);
     if (state.subscribers.size === 0) return;
-    state.pending.push(sample);
+    state.pending.push(reading);
     if (state.timer !== null) return;
     const wait = state.lastFlushMs + MIN_BATCH_INTERVAL_MS - this.now();
     if (wait <= 0) this.flush(state);
@@ -251,11 +251,11 @@ export class LiveHub {
     if (state.timer !== null) this.clearTimer(state.timer);
     state.timer = null;
     if (state.pending.length === 0) return;
-    const samples = state.pending;
+    const readings = state.pending;
     state.pending = [];
     state.lastFlushMs = this.now();
     let shared: string | null = null;
-    const build = () => (shared ??= JSON.stringify({ type: 'batch', seq: state.seq, topic: state.topic, readings: toReadingColumns(samples), dropped: 0 }));
-    for (const c of state.subscribers) c.sendBatch(state.topic, state.seq, samples, build);
+    const build = () => (shared ??= JSON.stringify({ type: 'batch', seq: state.seq, topic: state.topic, readings: toReadingColumns(readings), dropped: 0 }));
+    for (const c of state.subscribers) c.sendBatch(state.topic, state.seq, readings, build);
   }
 }

@@ -16,10 +16,11 @@ export type LiveReading = Frame | Reading;
 
 /**
  * Fixed channels every stored reading has; temperatures and aux channels add `temp:`/`aux:` columns.
- * These are the names inside stored archive blocks, so they stay as stored: `elapsed` is a
- * Reading's `elapsedSeconds` (run time, s) and `t` its source time (the meter's own clock).
+ * These are the names inside archive blocks written from now on: `elapsedSeconds` is the run
+ * time (s) and `t` the source time (the meter's own clock). Blocks stored before the rename
+ * name the run time `elapsed`; the archive maps it when it decodes (server/archive/column-block.ts).
  */
-export const BASE_COLUMNS = ['t', 'elapsed', 'volts', 'amps', 'dischargeWh', 'dischargeAh', 'chargeWh', 'chargeAh'] as const;
+export const BASE_COLUMNS = ['t', 'elapsedSeconds', 'volts', 'amps', 'dischargeWh', 'dischargeAh', 'chargeWh', 'chargeAh'] as const;
 /** Prefix of a stored temperature column (`temp:cell`). */
 export const TEMP_PREFIX = 'temp:';
 /** Prefix of a stored auxiliary column (`aux:soc`). */
@@ -27,11 +28,11 @@ export const AUX_PREFIX = 'aux:';
 
 const isReading = (s: LiveReading): s is Reading => 'elapsedSeconds' in s;
 
-/** Every channel name of one kind (temps or aux) that any of the samples at `idx` has, in first-seen order. */
-function channelsOf(samples: readonly LiveReading[], idx: Iterable<number>, kind: 'temps' | 'aux'): string[] {
+/** Every channel name of one kind (temps or aux) that any of the readings at `idx` has, in first-seen order. */
+function channelsOf(readings: readonly LiveReading[], idx: Iterable<number>, kind: 'temps' | 'aux'): string[] {
   const channels = new Set<string>();
   for (const i of idx) {
-    const s = samples[i]!;
+    const s = readings[i]!;
     const values = kind === 'temps' ? s.temps : s.aux;
     if (values) for (const ch of Object.keys(values)) channels.add(ch);
   }
@@ -41,18 +42,18 @@ function channelsOf(samples: readonly LiveReading[], idx: Iterable<number>, kind
 const allIndices = (n: number): number[] => Array.from({ length: n }, (_, i) => i);
 
 /**
- * Columns of the samples at `indices` (all when omitted), in the WebSocket's shape. For
+ * Columns of the readings at `indices` (all when omitted), in the WebSocket's shape. For
  * run readings `t` is the run time and the totals are included.
  */
-export function toReadingColumns(samples: readonly LiveReading[], indices?: readonly number[]): ReadingColumns {
-  const idx = indices ?? allIndices(samples.length);
-  const withTotals = samples.length > 0 && isReading(samples[0]!);
+export function toReadingColumns(readings: readonly LiveReading[], indices?: readonly number[]): ReadingColumns {
+  const idx = indices ?? allIndices(readings.length);
+  const withTotals = readings.length > 0 && isReading(readings[0]!);
   const cols: ReadingColumns = { t: [], volts: [], amps: [], watts: [], temps: {} };
   if (withTotals) Object.assign(cols, { dischargeWh: [], dischargeAh: [], chargeWh: [], chargeAh: [] });
-  const channels = channelsOf(samples, idx, 'temps');
+  const channels = channelsOf(readings, idx, 'temps');
   for (const ch of channels) cols.temps[ch] = [];
   for (const i of idx) {
-    const s = samples[i]!;
+    const s = readings[i]!;
     cols.t.push(isReading(s) ? s.elapsedSeconds : s.t);
     cols.volts.push(s.volts);
     cols.amps.push(s.amps);
@@ -79,7 +80,7 @@ export function readingsToColumns(readings: readonly Reading[]): Columns {
   for (let i = 0; i < n; i++) {
     const r = readings[i]!;
     cols.t![i] = r.t;
-    cols.elapsed![i] = r.elapsedSeconds;
+    cols.elapsedSeconds![i] = r.elapsedSeconds;
     cols.volts![i] = r.volts;
     cols.amps![i] = r.amps;
     cols.dischargeWh![i] = r.dischargeWh;
@@ -106,7 +107,7 @@ export function readingAt(cols: Columns, i: number): Reading {
   const amps = cols.amps![i]!;
   return {
     t: cols.t![i]!,
-    elapsedSeconds: cols.elapsed![i]!,
+    elapsedSeconds: cols.elapsedSeconds![i]!,
     volts,
     amps,
     watts: volts * amps,

@@ -16,7 +16,7 @@ const CHART_LINE_PT = 0.6;
 /** What a run report shows. */
 export interface RunReportInput {
   run: Run;
-  samples: ReadingsResponse;
+  readings: ReadingsResponse;
   events: readonly StoredRunEvent[];
   settings: LabSettings;
   /** The run's review history (sign-offs), judged against the run as it is now. */
@@ -60,23 +60,23 @@ export function verdictText(run: Run, settings: LabSettings): string {
 }
 
 /** Volts against run time as vector lines from the min/max buckets (a bucket draws its min–max span). */
-function drawVoltsChart(doc: PDFKit.PDFDocument, samples: ReadingsResponse): void {
+function drawVoltsChart(doc: PDFKit.PDFDocument, readings: ReadingsResponse): void {
   const x0 = MARGIN_PT;
   const y0 = doc.y;
   const width = doc.page.width - 2 * MARGIN_PT;
   doc.rect(x0, y0, width, CHART_HEIGHT_PT).lineWidth(CHART_LINE_PT).stroke();
-  const vals = [...samples.volts.min, ...samples.volts.max].filter((v): v is number => v !== null);
-  if (vals.length > 0 && samples.t.length > 0) {
+  const vals = [...readings.volts.min, ...readings.volts.max].filter((v): v is number => v !== null);
+  if (vals.length > 0 && readings.t.length > 0) {
     const [vMin, vMax] = [Math.min(...vals), Math.max(...vals)];
     const span = vMax - vMin || 1;
-    const tMin = samples.from;
-    const tSpan = samples.to - samples.from || 1;
+    const tMin = readings.from;
+    const tSpan = readings.to - readings.from || 1;
     const px = (t: number) => x0 + ((t - tMin) / tSpan) * width;
     const py = (v: number) => y0 + CHART_HEIGHT_PT - ((v - vMin) / span) * CHART_HEIGHT_PT;
     let pen = false;
-    samples.t.forEach((t, i) => {
-      const lo = samples.volts.min[i];
-      const hi = samples.volts.max[i];
+    readings.t.forEach((t, i) => {
+      const lo = readings.volts.min[i];
+      const hi = readings.volts.max[i];
       if (lo == null || hi == null) return void (pen = false);
       if (pen) doc.lineTo(px(t), py(lo));
       else doc.moveTo(px(t), py(lo));
@@ -84,7 +84,7 @@ function drawVoltsChart(doc: PDFKit.PDFDocument, samples: ReadingsResponse): voi
       pen = true;
     });
     doc.lineWidth(CHART_LINE_PT).stroke();
-    doc.fontSize(BODY_FONT_PT - 2).text(`${formatVolts(vMax)} top, ${formatVolts(vMin)} bottom; ${formatElapsedClock(samples.from)} to ${formatElapsedClock(samples.to)}`, x0, y0 + CHART_HEIGHT_PT + 4);
+    doc.fontSize(BODY_FONT_PT - 2).text(`${formatVolts(vMax)} top, ${formatVolts(vMin)} bottom; ${formatElapsedClock(readings.from)} to ${formatElapsedClock(readings.to)}`, x0, y0 + CHART_HEIGHT_PT + 4);
   }
   doc.x = MARGIN_PT;
   doc.y = y0 + CHART_HEIGHT_PT + 20;
@@ -122,7 +122,7 @@ export async function renderRunReportPdf(input: RunReportInput): Promise<Buffer>
     for (const line of programmeReportLines(input.programme)) doc.text(line);
   }
   heading(doc, 'Volts over the run');
-  drawVoltsChart(doc, input.samples);
+  drawVoltsChart(doc, input.readings);
   const protections = run.summary?.protections ?? [];
   if (protections.length > 0) {
     heading(doc, 'Protection results');

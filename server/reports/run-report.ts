@@ -10,7 +10,7 @@ import { renderRunReportPdf } from './run-report-pdf.js';
 import { RunProgrammesRepo } from '../programmes/run-programmes-repo.js';
 import { InstrumentsRepo } from '../instruments/instruments-repo.js';
 
-/** Points the report's chart is drawn from (min/max buckets of the samples service). */
+/** Points the report's chart is drawn from (min/max buckets of the readings service). */
 export const REPORT_CHART_BUCKETS = 600;
 
 /** What a report reads. */
@@ -21,7 +21,7 @@ export interface ReportDeps {
 
 /** The run's report as PDF bytes: its chart buckets, events and notes, review history, test programme, instruments and the lab's settings, read now. */
 export async function runReportPdf(deps: ReportDeps, run: Run, madeAt: Date): Promise<Buffer> {
-  const [samples, events, settings, review, programme, instruments] = await Promise.all([
+  const [readings, events, settings, review, programme, instruments] = await Promise.all([
     runReadings(deps.sequelize, run.id, ReadingsQuerySchema.parse({ maxPoints: REPORT_CHART_BUCKETS })),
     new RunsRepo(deps.sequelize).events(run.id),
     getLabSettings(deps.models),
@@ -29,5 +29,5 @@ export async function runReportPdf(deps: ReportDeps, run: Run, madeAt: Date): Pr
     new RunProgrammesRepo(deps.sequelize).get(run.id, madeAt.getTime()),
     new InstrumentsRepo(deps.sequelize).ofRun(run.id),
   ]);
-  return renderRunReportPdf({ run, samples, events, settings, review, madeAt, programme, instruments });
+  return renderRunReportPdf({ run, readings, events, settings, review, madeAt, programme, instruments });
 }

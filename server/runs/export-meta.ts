@@ -1,6 +1,7 @@
 import { QueryTypes, type Sequelize } from 'sequelize';
 import type { Run } from '../../shared/schemas/run.js';
 import { EXPORT_DECIMALS } from '../../shared/units/export-number.js';
+import { runColumnNames } from '../archive/archive-reader.js';
 import type { BatteryFacts } from './measure-config.js';
 
 /** Everything an export says about a run before its readings. */
@@ -9,13 +10,16 @@ export interface ExportMeta {
   battery: BatteryFacts | null;
   bench: { id: number; name: string } | null;
   units: Record<string, string>;
-  /** Stored column names (t, elapsed, volts, …, temp:cell, aux:heaterAmps), in export order. */
+  /** Stored column names (elapsedSeconds, t, volts, …, temp:cell, aux:heaterAmps), in export order. */
   columns: string[];
 }
 
-/** Units of every exported column; positive amps = discharge. */
+/**
+ * Units of every exported column; positive amps = discharge. The run time column is
+ * `elapsedSeconds` (files exported before the rename call it `elapsed`; both import back).
+ */
 export const EXPORT_UNITS: Record<string, string> = {
-  elapsed: 's since run start',
+  elapsedSeconds: 's since run start',
   t: 's (source clock)',
   volts: 'V',
   amps: 'A (positive = discharge)',
@@ -36,7 +40,7 @@ export function exportColumnName(name: string): string {
 }
 
 const DECIMALS_BY_COLUMN: Record<string, number> = {
-  elapsed: EXPORT_DECIMALS.time,
+  elapsedSeconds: EXPORT_DECIMALS.time,
   t: EXPORT_DECIMALS.time,
   volts: EXPORT_DECIMALS.volts,
   amps: EXPORT_DECIMALS.amps,
@@ -52,7 +56,7 @@ export function exportDecimals(name: string): number {
   return DECIMALS_BY_COLUMN[name] ?? (name.startsWith('temp:') ? EXPORT_DECIMALS.temperature : EXPORT_DECIMALS.other);
 }
 
-const FIXED = ['elapsed', 't', 'volts', 'amps', 'watts', 'dischargeWh', 'dischargeAh', 'chargeWh', 'chargeAh'];
+const FIXED = ['elapsedSeconds', 't', 'volts', 'amps', 'watts', 'dischargeWh', 'dischargeAh', 'chargeWh', 'chargeAh'];
 
 /** Gathers the metadata block of an export, including every channel any chunk holds. */
 export async function exportMeta(
@@ -60,14 +64,7 @@ export async function exportMeta(
   run: Run,
   getBattery: (id: number) => Promise<BatteryFacts | null>,
 ): Promise<ExportMeta> {
-  const layouts = await sequelize.query<{ layout: string }>('SELECT layout FROM run_sample_chunks WHERE runId = ?', {
-    replacements: [run.id],
-    type: QueryTypes.SELECT,
-  });
-  const extra = new Set<string>();
-  for (const { layout } of layouts) {
-    for (const c of (JSON.parse(layout) as { columns: { name: string }[] }).columns) if (!FIXED.includes(c.name)) extra.add(c.name);
-  }
+  const extra = [...(await runColumnNames(sequelize, run.id))].filter((name) => !FIXED.includes(name));
   const battery = run.batteryId ? await getBattery(run.batteryId) : null;
   let bench: ExportMeta['bench'] = null;
   if (run.benchId) {
@@ -78,5 +75,5 @@ export async function exportMeta(
     }).catch(() => []);
     bench = rows[0] ?? { id: run.benchId, name: `bench ${run.benchId}` };
   }
-  return { run, battery, bench, units: EXPORT_UNITS, columns: [...FIXED, ...[...extra].sort()] };
+  return { run, battery, bench, units: EXPORT_UNITS, columns: [...FIXED, ...extra.sort()] };
 }

@@ -85,7 +85,7 @@ async function writeCsv(out: Writable, sequelize: Sequelize, meta: ExportMeta): 
   await put(out, metaLines(meta).join('\n') + '\n' + meta.columns.map((c) => csvField(exportColumnName(c))).join(',') + '\n');
   const decimals = meta.columns.map(exportDecimals);
   await forEachChunk(sequelize, meta.run.id, async (cols) => {
-    const n = cols.elapsed!.length;
+    const n = cols.elapsedSeconds!.length;
     const rows: string[] = new Array(n);
     for (let i = 0; i < n; i++) {
       let line = '';
@@ -115,7 +115,7 @@ async function writeJson(out: Writable, sequelize: Sequelize, meta: ExportMeta):
   await put(out, JSON.stringify(head, roundMeta).slice(0, -1) + ',"rows":[');
   let first = true;
   await forEachChunk(sequelize, meta.run.id, async (cols) => {
-    const n = cols.elapsed!.length;
+    const n = cols.elapsedSeconds!.length;
     const rows: string[] = new Array(n);
     for (let i = 0; i < n; i++) {
       rows[i] = '[' + meta.columns.map((name, c) => formatExportNumber(value(cols, name, i), decimals[c]!) || 'null').join(',') + ']';

@@ -72,8 +72,13 @@ describe('planColumns', () => {
       expect(p.temp, header).toMatchObject({ index: 3, unit, source: 'header', column: header });
       expect(p.time.index, header).toBe(0);
     }
-    // Kneepoint's own export names its channels temp_<label>_c.
-    expect(planColumns(['elapsed', 't', 'volts', 'amps', 'temp_cell_c'], ['0', '0', '13', '5', '20']).temp).toMatchObject({ index: 4, unit: 'C' });
+    // Kneepoint's own export names its channels temp_<label>_c, and its run time column
+    // elapsedSeconds (`elapsed` in files exported before the rename): both are the time, not `t`.
+    for (const runTime of ['elapsedSeconds', 'elapsed']) { // vocab-rename: keep
+      const own = planColumns([runTime, 't', 'volts', 'amps', 'temp_cell_c'], ['0', '0', '13', '5', '20']);
+      expect(own.temp, runTime).toMatchObject({ index: 4, unit: 'C' });
+      expect(own.time.index, runTime).toBe(0);
+    }
     const bareT = planColumns(['t', 'v', 'i', 'T[°C]'], ['0', '13', '5', '20']);
     expect(bareT.time.index).toBe(0);
     expect(bareT.temp?.index).toBe(3);

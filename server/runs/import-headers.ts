@@ -68,7 +68,7 @@ function normaliseUnit(raw: string): string | null {
 }
 
 /** Common English names, and the German ones a lab's loggers often write (Zeit, Datum, Spannung, Strom). */
-const TIME_NAMES = /^(t|time|elapsed|elapsed time|test time|timestamp|date ?time|datetime|seconds|secs?|clock|date and time|zeit|uhrzeit|datum ?zeit)$/;
+const TIME_NAMES = /^(t|time|elapsed|elapsed ?seconds|elapsed time|test time|timestamp|date ?time|datetime|seconds|secs?|clock|date and time|zeit|uhrzeit|datum ?zeit)$/;
 /** A date column: the time column only when no other is there (a "Date" beside a "Time" holds the day, not the instant). */
 const DATE_NAMES = /^(date|datum)$/;
 const VOLT_NAMES = /^(v|u|volt|volts|voltage|pack voltage|battery voltage|terminal voltage|voltage measured|spannung)$/;
@@ -116,7 +116,7 @@ const AMP_SCALE: Record<string, number> = { a: 1, ma: 1e-3 };
 const TEMP_UNIT: Record<string, TempUnit> = { c: 'C', f: 'F', k: 'K' };
 const DEGREES: Record<TempUnit, string> = { C: '°C', F: '°F', K: 'K' };
 
-function planTime(time: Found, sample: string | null, overrides: ColumnOverrides): ColumnPlan['time'] | string {
+function planTime(time: Found, firstValue: string | null, overrides: ColumnOverrides): ColumnPlan['time'] | string {
   const base = { index: time.index, column: time.column };
   if (overrides.timeFormat) return { ...base, format: overrides.timeFormat, source: 'chosen' };
   if (time.unit !== null) {
@@ -124,7 +124,7 @@ function planTime(time: Found, sample: string | null, overrides: ColumnOverrides
     return format ? { ...base, format, source: 'header' } : `time unit "${time.unit}"`;
   }
   if (/^(seconds|secs?)$/.test(normalise(splitHeader(time.column).base))) return { ...base, format: 's', source: 'header' };
-  return { ...base, format: sample === null ? 's' : inferTimeFormat(sample, time.column), source: 'inferred' };
+  return { ...base, format: firstValue === null ? 's' : inferTimeFormat(firstValue, time.column), source: 'inferred' };
 }
 
 function planTemp(temp: Found, overrides: ColumnOverrides): ColumnPlan['temp'] | string {

@@ -113,14 +113,14 @@ const askFormat = (message: string) => new InvalidInputError(message, { timeForm
  * month-first date cannot (03.04.2026), so the importer asks. A bare number is seconds for
  * now; checkTimeSteps refuses it later if its steps could as well be milliseconds.
  */
-export function inferTimeFormat(sample: string, column: string): TimeFormat {
-  if (HMS.test(sample)) return 'hms';
-  if (ISO_DATE.test(sample)) return 'iso';
-  if (NUMERIC_DATE.test(sample)) throw askFormat(`line 2: time "${sample}" in column "${column}" is a date that can be day-first or month-first; choose the time format (dd.mm.yyyy or mm/dd/yyyy)`);
-  const v = parseDecimal(sample, sample.includes(',') && !sample.includes('.'));
+export function inferTimeFormat(firstValue: string, column: string): TimeFormat {
+  if (HMS.test(firstValue)) return 'hms';
+  if (ISO_DATE.test(firstValue)) return 'iso';
+  if (NUMERIC_DATE.test(firstValue)) throw askFormat(`line 2: time "${firstValue}" in column "${column}" is a date that can be day-first or month-first; choose the time format (dd.mm.yyyy or mm/dd/yyyy)`);
+  const v = parseDecimal(firstValue, firstValue.includes(',') && !firstValue.includes('.'));
   if (Number.isFinite(v) && v >= MIN_EPOCH_MS && v < MAX_EPOCH_SECONDS * MS_PER_S) return 'ms';
-  if (Number.isFinite(v) || sample === '') return 's';
-  throw askFormat(`line 2: time "${sample.slice(0, 40)}" in column "${column}" is in no format Kneepoint recognises by itself; choose the time format`);
+  if (Number.isFinite(v) || firstValue === '') return 's';
+  throw askFormat(`line 2: time "${firstValue.slice(0, 40)}" in column "${column}" is in no format Kneepoint recognises by itself; choose the time format`);
 }
 
 /** Longest log accepted: a capacity or protection test runs hours to weeks (common practice); a year covers float tests. */

@@ -4,7 +4,7 @@ import { chunkExtent, readChunks, readStats, reduceOverDischarge, reduceReadings
 import { InvalidInputError } from '../domain/domain-errors.js';
 
 /** Channels the chart needs; totals and aux columns stay compressed. */
-const CHART_COLUMNS = ['elapsed', 'volts', 'amps', 'temp:*'] as const;
+const CHART_COLUMNS = ['elapsedSeconds', 'volts', 'amps', 'temp:*'] as const;
 /** Use the pre-computed groups when a bucket would span at least this many of them. */
 const GROUPS_PER_BUCKET = 4;
 

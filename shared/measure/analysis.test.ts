@@ -13,11 +13,11 @@ describe('internal resistance from load steps (Ohm\'s law, R = −ΔV/ΔI; DC me
   it('recovers 20 mΩ from a noisy 5 → 15 → 5 A step trace', () => {
     const n = noise(21);
     const R = 0.02;
-    const samples = Array.from({ length: 300 }, (_, t) => {
+    const readings = Array.from({ length: 300 }, (_, t) => {
       const amps = t >= 100 && t < 200 ? 15 : 5;
       return { t, amps: amps + n(0.02), volts: 26.4 - t * 0.0005 - amps * R + n(0.002) };
     });
-    const { steps, medianOhms } = internalResistanceFromSteps(samples, { minStepAmps: 2, windowReadings: 5 });
+    const { steps, medianOhms } = internalResistanceFromSteps(readings, { minStepAmps: 2, windowReadings: 5 });
     expect(steps).toHaveLength(2);
     expect(medianOhms!).toBeGreaterThan(R * 0.95);
     expect(medianOhms!).toBeLessThan(R * 1.05);
@@ -73,8 +73,8 @@ describe('internal resistance: load steps told apart from meter noise (issue 11,
   it('±0.6 A of meter noise at 100 A gives no steps (was 100 "steps", median −0.10 mΩ)', () => {
     for (const seed of [1, 2, 3]) {
       const n = noise(seed);
-      const samples = Array.from({ length: 20_000 }, (_, t) => ({ t, amps: 100 + n(0.6), volts: 51.2 - 0.002 * 100 + n(0.01) }));
-      expect(internalResistanceFromSteps(samples)).toEqual({ steps: [], medianOhms: null });
+      const readings = Array.from({ length: 20_000 }, (_, t) => ({ t, amps: 100 + n(0.6), volts: 51.2 - 0.002 * 100 + n(0.01) }));
+      expect(internalResistanceFromSteps(readings)).toEqual({ steps: [], medianOhms: null });
     }
   });
 
@@ -84,11 +84,11 @@ describe('internal resistance: load steps told apart from meter noise (issue 11,
     // Ohm's law: R = −ΔV/ΔI = 2 mΩ (common-practice DC method); 0.6 A and 10 mV of noise.
     const n = noise(9);
     const R = 0.002;
-    const samples = Array.from({ length: 600 }, (_, t) => {
+    const readings = Array.from({ length: 600 }, (_, t) => {
       const amps = t >= 300 ? 150 : 100;
       return { t, amps: amps + n(0.6), volts: 53 - amps * R + n(0.01) };
     });
-    const { steps, medianOhms } = internalResistanceFromSteps(samples);
+    const { steps, medianOhms } = internalResistanceFromSteps(readings);
     expect(steps).toHaveLength(1);
     expect(steps[0]!.t).toBe(300);
     expect(Math.abs(medianOhms! - R)).toBeLessThan(0.0005);

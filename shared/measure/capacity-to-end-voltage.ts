@@ -4,7 +4,7 @@ import { DEFAULT_MAX_GAP_SECONDS, integrateStep, type ReadingPoint } from './int
 
 /**
  * Where a discharge ends for capacity purposes:
- * - `first-below`: through the first sample whose voltage is below the end voltage (the
+ * - `first-below`: through the first reading whose voltage is below the end voltage (the
  *   convention that reproduces the NASA PCoE B0005 capacity figures);
  * - `interpolated`: to the linearly interpolated instant the voltage crosses the end voltage.
  */
@@ -17,17 +17,17 @@ export interface CapacityToEndVoltage extends RunTotals {
   endT: number;
 }
 
-/** Integrates samples from the first up to the end voltage, by the chosen convention. */
+/** Integrates readings from the first up to the end voltage, by the chosen convention. */
 export function capacityToEndVoltage(
-  samples: ArrayLike<ReadingPoint>,
+  readings: ArrayLike<ReadingPoint>,
   endVolts: number,
   convention: EndOfDischargeConvention = 'first-below',
   maxGapSeconds = DEFAULT_MAX_GAP_SECONDS,
 ): CapacityToEndVoltage {
   const s = createIntegratorState();
   let prev: ReadingPoint | null = null;
-  for (let i = 0; i < samples.length; i++) {
-    const x = samples[i]!;
+  for (let i = 0; i < readings.length; i++) {
+    const x = readings[i]!;
     if (x.volts < endVolts && prev !== null && convention === 'interpolated' && prev.volts >= endVolts) {
       const f = (prev.volts - endVolts) / (prev.volts - x.volts);
       const t = prev.t + f * (x.t - prev.t);

@@ -21,10 +21,10 @@ const readingStream = (minAmps: number): fc.Arbitrary<ReadingPoint[]> =>
 describe('integrator properties', () => {
   it('energy and charge never decrease during a discharge', () => {
     fc.assert(
-      fc.property(readingStream(0), (samples) => {
+      fc.property(readingStream(0), (readings) => {
         const s = createIntegratorState();
         let last = integratorTotals(s);
-        for (const x of samples) {
+        for (const x of readings) {
           integrateStep(s, x.t, x.volts, x.amps);
           const now = integratorTotals(s);
           expect(now.dischargeWh).toBeGreaterThanOrEqual(last.dischargeWh);
@@ -38,12 +38,12 @@ describe('integrator properties', () => {
 
   it('feeding a stream in chunks (through a JSON snapshot) gives the same totals as one pass', () => {
     fc.assert(
-      fc.property(readingStream(-200), fc.array(fc.nat({ max: 300 }), { maxLength: 6 }), (samples, cuts) => {
-        const whole = integrateReadings(samples);
-        const bounds = [...new Set([0, ...cuts.map((c) => c % (samples.length + 1)), samples.length])].sort((a, b) => a - b);
+      fc.property(readingStream(-200), fc.array(fc.nat({ max: 300 }), { maxLength: 6 }), (readings, cuts) => {
+        const whole = integrateReadings(readings);
+        const bounds = [...new Set([0, ...cuts.map((c) => c % (readings.length + 1)), readings.length])].sort((a, b) => a - b);
         let state = createIntegratorState();
         for (let i = 1; i < bounds.length; i++) {
-          const part = integrateReadings(samples.slice(bounds[i - 1], bounds[i]), { from: state });
+          const part = integrateReadings(readings.slice(bounds[i - 1], bounds[i]), { from: state });
           state = JSON.parse(JSON.stringify(part.state)) as typeof state;
         }
         expect(integratorTotals(state)).toEqual(integratorTotals(whole.state));

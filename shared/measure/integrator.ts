@@ -86,19 +86,19 @@ export interface IntegrateOptions extends GapLimitInput {
   from?: IntegratorState;
 }
 
-/** One sample as the array form takes it (a Frame fits). */
+/** One reading as the array form takes it (a Frame fits). */
 export interface ReadingPoint {
   t: number;
   volts: number;
   amps: number;
 }
 
-/** Integrates an array of samples in one pass; returns the totals and the final state. */
-export function integrateReadings(samples: ArrayLike<ReadingPoint>, options: IntegrateOptions = {}): RunTotals & { state: IntegratorState } {
+/** Integrates an array of readings in one pass; returns the totals and the final state. */
+export function integrateReadings(readings: ArrayLike<ReadingPoint>, options: IntegrateOptions = {}): RunTotals & { state: IntegratorState } {
   const s = options.from ? IntegratorStateSchema.parse(structuredClone(options.from)) : createIntegratorState();
   const gapSeconds = resolveGapLimit(options).seconds;
-  for (let i = 0; i < samples.length; i++) {
-    const x = samples[i]!;
+  for (let i = 0; i < readings.length; i++) {
+    const x = readings[i]!;
     integrateStep(s, x.t, x.volts, x.amps, gapSeconds);
   }
   return { ...integratorTotals(s), state: s };

@@ -1,6 +1,6 @@
 import { z } from 'zod';
 
-/** One sample for resistance and dQ/dV work (a Reading fits). */
+/** One reading for resistance and dQ/dV work (a Reading fits). */
 export interface VoltAmpReading {
   t: number;
   volts: number;
@@ -103,7 +103,7 @@ function holds(xs: readonly number[], start: number, from: number, to: number, o
  * or (2); a ramp (a taper, a sag) fails (2); each step is found once, at its edge. A window
  * with a collapsed voltage (a protection opening) is no step. `gap` empties the window.
  */
-export function trackLoadSteps(s: LoadStepState, sample: VoltAmpReading, gap: boolean, options: LoadStepOptions = {}): LoadStep | null {
+export function trackLoadSteps(s: LoadStepState, reading: VoltAmpReading, gap: boolean, options: LoadStepOptions = {}): LoadStep | null {
   const w = options.windowReadings ?? DEFAULT_WINDOW_READINGS;
   const size = 2 * w;
   if (gap || s.amps.length !== size) {
@@ -118,11 +118,11 @@ export function trackLoadSteps(s: LoadStepState, sample: VoltAmpReading, gap: bo
     // The oldest reading leaves the older half; the oldest of the newer half moves into it.
     const moving = s.amps[(s.next + w) % size]!;
     s.sumBefore += moving - s.amps[s.next]!;
-    s.sumAfter += sample.amps - moving;
+    s.sumAfter += reading.amps - moving;
   }
-  s.volts[s.next] = sample.volts;
-  s.amps[s.next] = sample.amps;
-  s.t[s.next] = sample.t;
+  s.volts[s.next] = reading.volts;
+  s.amps[s.next] = reading.amps;
+  s.t[s.next] = reading.t;
   s.next = (s.next + 1) % size;
   if (!full) {
     s.held++;
@@ -164,11 +164,11 @@ export function medianStepOhms(s: LoadStepState): number | null {
 }
 
 /** Finds the load steps of a whole array (see trackLoadSteps) and their median resistance. */
-export function internalResistanceFromSteps(samples: ArrayLike<VoltAmpReading>, options: LoadStepOptions = {}): { steps: LoadStep[]; medianOhms: number | null } {
+export function internalResistanceFromSteps(readings: ArrayLike<VoltAmpReading>, options: LoadStepOptions = {}): { steps: LoadStep[]; medianOhms: number | null } {
   const s = createLoadStepState();
   const steps: LoadStep[] = [];
-  for (let i = 0; i < samples.length; i++) {
-    const step = trackLoadSteps(s, samples[i]!, false, options);
+  for (let i = 0; i < readings.length; i++) {
+    const step = trackLoadSteps(s, readings[i]!, false, options);
     if (step) steps.push(step);
   }
   return { steps, medianOhms: medianStepOhms(s) };

@@ -91,7 +91,7 @@ export type ListRunsResponse = z.infer<typeof ListRunsResponseSchema>;
 export const RunResponseSchema = z.object({ run: RunSchema });
 export type RunResponse = z.infer<typeof RunResponseSchema>;
 
-/** GET /api/runs/:id/samples — window in run seconds (elapsedSeconds); maxPoints = buckets. */
+/** GET /api/runs/:id/readings — window in run seconds (elapsedSeconds); maxPoints = buckets. */
 export const ReadingsQuerySchema = z.object({
   from: z.coerce.number().finite().optional(),
   to: z.coerce.number().finite().optional(),

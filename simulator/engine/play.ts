@@ -2,7 +2,7 @@ import type { Clock } from './clock.js';
 import type { SimReading } from './simulation.js';
 import { MS_PER_S } from '../../shared/units/time.js';
 
-/** Never wake more often than this: at high speeds several samples go out per wake-up. */
+/** Never wake more often than this: at high speeds several readings go out per wake-up. */
 const MIN_WAKE_MS = 5;
 
 /** A running real-time player. */
@@ -13,7 +13,7 @@ export interface Player {
 }
 
 /**
- * Releases samples at their due real time: sample k at start + k·period/speed.
+ * Releases readings at their due real time: reading k at start + k·period/speed.
  * Late wake-ups catch up at once, so a busy event loop never stretches simulated time.
  */
 export function playReadings(
@@ -21,11 +21,11 @@ export function playReadings(
   readingPeriodSeconds: number,
   speed: number,
   clock: Clock,
-  onReading: (sample: SimReading) => void,
+  onReading: (reading: SimReading) => void,
 ): Player {
   if (!(speed > 0)) throw new Error(`speed must be a positive number, got ${speed}`);
   const startMs = clock.nowMs();
-  // Multiply before dividing so that sample 60 at 60× is due at exactly 1000 ms.
+  // Multiply before dividing so that reading 60 at 60× is due at exactly 1000 ms.
   const dueAtMs = (k: number): number => startMs + (k * readingPeriodSeconds * MS_PER_S) / speed;
   let index = 0;
   let handle: unknown;

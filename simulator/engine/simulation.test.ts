@@ -9,9 +9,9 @@ const SLOW_SCENARIO_TIMEOUT_MS = 60_000;
 const IDEAL_METER = { voltsNoise: 0, ampsNoise: 0, tempNoise: 0, dropProbability: 0, corruptProbability: 0, unplugs: [] };
 
 function runToEnd(sim: Simulation) {
-  const samples = [];
-  for (let s = sim.step(); s; s = sim.step()) samples.push(s);
-  return samples;
+  const readings = [];
+  for (let s = sim.step(); s; s = sim.step()) readings.push(s);
+  return readings;
 }
 
 describe('energy balance against the measurement core', () => {
@@ -60,7 +60,7 @@ describe('scenarios behave as their titles promise', () => {
   it('the cold scenario turns the heater on below its on threshold, off near its off threshold, and blocks charging while cold', () => {
     const scenario = loadScenario('lfp-48v-30ah-pwm-heater');
     const sim = createSimulation(scenario, { seed: 2 });
-    const samples = runToEnd(sim);
+    const readings = runToEnd(sim);
     const heater = scenario.pack.heater!;
     const ons = sim.bench.events.filter((e) => e.kind === 'heater-on');
     const offs = sim.bench.events.filter((e) => e.kind === 'heater-off');
@@ -71,25 +71,25 @@ describe('scenarios behave as their titles promise', () => {
     const inhibit = sim.bench.events.find((e) => e.kind === 'bms-trip' && e.protection === 'cold-charge');
     expect(inhibit?.t).toBe(scenario.bms!.coldChargeDelaySeconds);
     // While inhibited, the meter sees only the heater's current; after release the cells charge too.
-    const blocked = samples.find((s) => s.t === 60)!.frame;
+    const blocked = readings.find((s) => s.t === 60)!.frame;
     expect(blocked.amps).toBeCloseTo(-blocked.aux!.heaterAmps, 1);
     const release = sim.bench.events.find((e) => e.kind === 'bms-release' && e.protection === 'cold-charge')!;
-    const charging = samples.find((s) => s.t > release.t + 5)!.frame;
+    const charging = readings.find((s) => s.t > release.t + 5)!.frame;
     expect(charging.amps).toBeLessThan(-5);
   }, SLOW_SCENARIO_TIMEOUT_MS);
 
   it('the recovery scenario reconnects after its configured recovery time', () => {
     const scenario = loadScenario('lfp-12v-100ah-cp-cutoff');
     const sim = createSimulation(scenario, { seed: 4 });
-    const samples = runToEnd(sim);
+    const readings = runToEnd(sim);
     const trip = sim.bench.events.find((e) => e.kind === 'bms-trip')!;
     const release = sim.bench.events.find((e) => e.kind === 'bms-release')!;
     expect(trip.protection).toBe('under-voltage');
     expect(release.t - trip.t).toBeCloseTo(scenario.bms!.underVoltRecoverySeconds, 6);
     // On the wire: 0 V while open, the pack's voltage again once it reconnects, relaxing upwards.
-    const open = samples.filter((s) => s.t > trip.t && s.t < release.t);
+    const open = readings.filter((s) => s.t > trip.t && s.t < release.t);
     expect(open.every((s) => s.frame.volts < 0.1)).toBe(true);
-    const after = samples.filter((s) => s.t > release.t).map((s) => s.frame.volts);
+    const after = readings.filter((s) => s.t > release.t).map((s) => s.frame.volts);
     expect(after[0]).toBeGreaterThan(10);
     expect(after[after.length - 1]).toBeGreaterThan(after[0]);
     // Rated 100 Ah at 600 W: about two hours to cutoff (12.8 V × 100 Ah / 600 W ≈ 2.1 h).
@@ -101,12 +101,12 @@ describe('scenarios behave as their titles promise', () => {
     const scenario = loadScenario('lfp-12v-hot-cutoff');
     // An unrounded thermometer, so the first reading over the limit is the true crossing.
     const sim = createSimulation(scenario, { seed: 5, meter: { ...IDEAL_METER, tempStep: 0 } });
-    const samples = runToEnd(sim);
+    const readings = runToEnd(sim);
     const trip = sim.bench.events.find((e) => e.kind === 'bms-trip')!;
     const release = sim.bench.events.find((e) => e.kind === 'bms-release')!;
     expect(trip.protection).toBe('over-temperature');
     expect(trip.tempCelsius!).toBeGreaterThan(scenario.bms!.overTempCelsius);
-    const firstHot = samples.find((s) => s.frame.temps!.cell > scenario.bms!.overTempCelsius)!;
+    const firstHot = readings.find((s) => s.frame.temps!.cell > scenario.bms!.overTempCelsius)!;
     expect(trip.t - firstHot.t).toBeGreaterThanOrEqual(scenario.bms!.overTempDelaySeconds - 1);
     expect(trip.t - firstHot.t).toBeLessThanOrEqual(scenario.bms!.overTempDelaySeconds);
     expect(release.tempCelsius!).toBeLessThanOrEqual(scenario.bms!.overTempReleaseCelsius);
@@ -114,10 +114,10 @@ describe('scenarios behave as their titles promise', () => {
 
   it('the lead-acid reserve test stops at 10.5 V with no BMS, after a plausible reserve time', () => {
     const sim = createSimulation(loadScenario('lead-acid-12v-reserve'), { seed: 6, meter: IDEAL_METER });
-    const samples = runToEnd(sim);
+    const readings = runToEnd(sim);
     const end = sim.bench.events.find((e) => e.kind === 'step-end' && e.reason === 'end-volts')!;
     expect(sim.bench.events.some((e) => e.kind === 'bms-trip')).toBe(false);
-    const lastLoaded = samples.filter((s) => s.frame.amps > 1).at(-1)!;
+    const lastLoaded = readings.filter((s) => s.frame.amps > 1).at(-1)!;
     expect(lastLoaded.frame.volts).toBeGreaterThanOrEqual(10.49);
     expect(lastLoaded.frame.volts).toBeLessThan(10.6);
     // A 100 Ah (C/20) battery has a reserve capacity of roughly 150-200 min (trade tables, from memory).
@@ -127,13 +127,13 @@ describe('scenarios behave as their titles promise', () => {
 
   it('the noisy meter loses frames, garbles some, and is silent while unplugged', () => {
     const sim = createSimulation(loadScenario('noisy-meter-unplug'), { seed: 8 });
-    const samples = runToEnd(sim);
+    const readings = runToEnd(sim);
     const unplug = sim.meter.unplugs[0];
-    const during = samples.filter((s) => s.t >= unplug.atSeconds && s.t < unplug.atSeconds + unplug.forSeconds);
+    const during = readings.filter((s) => s.t >= unplug.atSeconds && s.t < unplug.atSeconds + unplug.forSeconds);
     expect(during.length).toBe(unplug.forSeconds);
     expect(during.every((s) => s.lost === 'unplugged')).toBe(true);
-    const dropped = samples.filter((s) => s.lost === 'dropped').length / samples.length;
-    const corrupt = samples.filter((s) => s.corrupt).length / samples.length;
+    const dropped = readings.filter((s) => s.lost === 'dropped').length / readings.length;
+    const corrupt = readings.filter((s) => s.corrupt).length / readings.length;
     expect(dropped).toBeGreaterThan(0.005);
     expect(dropped).toBeLessThan(0.04);
     expect(corrupt).toBeGreaterThan(0);

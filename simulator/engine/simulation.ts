@@ -24,14 +24,14 @@ export interface SimulationOptions {
   drive?: ExternalDrive;
 }
 
-/** One sample of the meter: what it measured, whether it reached the wire, and the truth behind it. */
+/** One reading of the meter: what it measured, whether it reached the wire, and the truth behind it. */
 export interface SimReading {
   seq: number;
   t: number;
   frame: Frame;
-  /** Set when the sample never leaves the meter (dropped, or the cable is out). */
+  /** Set when the reading never leaves the meter (dropped, or the cable is out). */
   lost?: 'dropped' | 'unplugged';
-  /** The bytes of this sample get damaged on the wire (encoders garble them). */
+  /** The bytes of this reading get damaged on the wire (encoders garble them). */
   corrupt: boolean;
   plugged: boolean;
 }
@@ -42,12 +42,12 @@ export interface Simulation {
   readonly seed: number;
   readonly bench: Bench;
   readonly done: boolean;
-  /** The next sample (the first is at t = 0), or undefined once the program has ended. */
+  /** The next reading (the first is at t = 0), or undefined once the program has ended. */
   step(): SimReading | undefined;
   /** Every frame that reaches the wire intact, to the end of the program. */
   frames(): Generator<Frame>;
-  /** Plays the samples in real time at the chosen speed; resolves when done or stopped. */
-  play(onReading: (sample: SimReading) => void): Player;
+  /** Plays the readings in real time at the chosen speed; resolves when done or stopped. */
+  play(onReading: (reading: SimReading) => void): Player;
 }
 
 /** Creates a seeded simulation of a scenario (validated with zod), stepped by the caller or played. */
@@ -63,7 +63,7 @@ export function createSimulation(input: Scenario | ScenarioInput, options: Simul
   let seq = 0;
   let wasPlugged = true;
 
-  const sample = (): SimReading => {
+  const nextReading = (): SimReading => {
     const t = Number((seq * meter.readingPeriodSeconds).toFixed(6));
     const p = bench.point();
     const truth = {
@@ -87,10 +87,10 @@ export function createSimulation(input: Scenario | ScenarioInput, options: Simul
       return seq > 0 && bench.done;
     },
     step() {
-      if (seq === 0) return sample();
+      if (seq === 0) return nextReading();
       if (bench.done) return undefined;
       for (let i = 0; i < substeps; i += 1) bench.advance(dtSeconds);
-      return sample();
+      return nextReading();
     },
     *frames() {
       for (let s = simulation.step(); s; s = simulation.step()) if (!s.lost && !s.corrupt) yield s.frame;

@@ -24,8 +24,8 @@ export interface MeterDeviceOptions {
 /** The bytes side of a simulated meter: what it sends on its own and what it answers. */
 export interface MeterDevice {
   readonly format: MeterFormat;
-  /** Bytes the meter pushes for a new sample (streaming formats; a header after power-up). */
-  sample(sample: SimReading): Uint8Array[];
+  /** Bytes the meter pushes for a new reading (streaming formats; a header after power-up). */
+  sample(reading: SimReading): Uint8Array[];
   /** Replies to bytes from the master (query formats); streaming meters ignore input. */
   receive(bytes: Uint8Array): Uint8Array[];
 }

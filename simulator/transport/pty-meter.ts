@@ -27,7 +27,7 @@ export interface PtyMeter {
   readonly simulation: ReturnType<typeof createSimulation>;
   /** Resolves when the scenario's program has ended (autoplay) or the meter stopped. */
   readonly finished: Promise<void>;
-  /** Advances one sample by hand and sends it (with autoplay off); undefined at the end. */
+  /** Advances one reading by hand and sends it (with autoplay off); undefined at the end. */
   tick(): Promise<SimReading | undefined>;
   /** Pulls the cable: socat stops, the link disappears, the gateway's port closes. */
   unplug(): Promise<void>;
@@ -60,7 +60,7 @@ export async function startPtyMeter(options: PtyMeterOptions): Promise<PtyMeter>
   const plugIn = async (): Promise<void> => {
     const opening = await openPtyPair(options.linkPath);
     pair = opening;
-    // socat dying on its own (killed from outside) is an unplug; the next sample plugs back in.
+    // socat dying on its own (killed from outside) is an unplug; the next reading plugs back in.
     opening.process.once('exit', () => {
       if (pair !== opening) return;
       const orphan = port;
@@ -82,10 +82,10 @@ export async function startPtyMeter(options: PtyMeterOptions): Promise<PtyMeter>
     pair = undefined;
     if (closing?.isOpen) await new Promise<void>((done) => closing.close(() => done()));
   };
-  const deliver = (sample: SimReading): void => {
-    if (!sample.plugged && port) void serial(pullOut);
-    if (sample.plugged && !port && !stopped && !heldOut) void serial(plugIn);
-    void serial(async () => write(device.sample(sample)));
+  const deliver = (reading: SimReading): void => {
+    if (!reading.plugged && port) void serial(pullOut);
+    if (reading.plugged && !port && !stopped && !heldOut) void serial(plugIn);
+    void serial(async () => write(device.sample(reading)));
   };
 
   await serial(plugIn);
@@ -99,11 +99,11 @@ export async function startPtyMeter(options: PtyMeterOptions): Promise<PtyMeter>
       return port !== undefined;
     },
     async tick() {
-      const sample = simulation.step();
-      if (sample) deliver(sample);
-      // By hand, a sample counts as sent once its bytes have left for the pseudo-terminal.
+      const reading = simulation.step();
+      if (reading) deliver(reading);
+      // By hand, a reading counts as sent once its bytes have left for the pseudo-terminal.
       await serial(() => new Promise<void>((done) => (port?.isOpen ? port.drain(() => done()) : done())));
-      return sample;
+      return reading;
     },
     unplug() {
       heldOut = true;

@@ -32,9 +32,9 @@ export function startStreamMeter(options: StreamMeterOptions): { finished: Promi
   options.input?.on('data', onInput);
   // A reader that goes away (a closed pipe) ends the meter instead of crashing it.
   options.output.on('error', () => player.stop());
-  const player = simulation.play((sample) => {
-    plugged = sample.plugged;
-    write(device.sample(sample));
+  const player = simulation.play((reading) => {
+    plugged = reading.plugged;
+    write(device.sample(reading));
   });
   const finished = player.finished.then(() => {
     options.input?.off('data', onInput);

@@ -37,7 +37,7 @@ export const EMPTY_LIVE_VIEW: LiveView = {
   run: null, status: null, events: [], droppedReadings: 0, error: null, dataVersion: 0, receivedAtMs: null,
 };
 
-/** Archived history as the samples API answers it: min/max per bucket (equal at full resolution). */
+/** Archived history as the readings API answers it: min/max per bucket (equal at full resolution). */
 export interface HistoryColumns {
   t: number[];
   bucketSeconds: number | null;

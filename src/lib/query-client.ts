@@ -7,7 +7,7 @@ const HTTP_UNAUTHORIZED = 401;
 const STALE_MS = 30_000;
 const MAX_RETRIES = 2;
 
-/** One QueryClient for the app: low-rate data only (live samples never go through it). */
+/** One QueryClient for the app: low-rate data only (live readings never go through it). */
 export function createQueryClient(): QueryClient {
   // A 401 anywhere means the session ended (expired, signed out elsewhere): forget the user,
   // and the route guard sends the person to sign-in instead of showing broken pages.

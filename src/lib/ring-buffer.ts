@@ -1,5 +1,5 @@
 /**
- * A preallocated columnar ring buffer for live samples, kept outside React.
+ * A preallocated columnar ring buffer for live readings, kept outside React.
  * One Float64Array per column; a gap is stored as NaN and read back as null, which uPlot
  * draws as a break in the line (never a straight line across an outage).
  */

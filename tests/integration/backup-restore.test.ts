@@ -6,6 +6,7 @@ import mariadb from 'mariadb';
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import { createBackup, listBackups, restoreBackup } from '../../server/backup/backup-service.js';
 import { backupAttachment } from '../../server/backup/attach-backups.js';
+import { createMigrator } from '../../server/db/migrate.js';
 import { hashPassword } from '../../server/auth/password.js';
 import { startServer, type RunningServer } from '../../server/server.js';
 import type { DatabaseConfig } from '../../server/config/config.js';
@@ -80,7 +81,7 @@ describe('backup and restore', () => {
     const before = await snapshot(s.url);
     expect(before.runs.runs).toHaveLength(2);
     expect(before.users.users.length).toBeGreaterThanOrEqual(3);
-    const chunksBefore = await adminQuery(`SELECT runId, firstSeq, count, HEX(data) AS d FROM \`${database.database}\`.run_sample_chunks ORDER BY runId, firstSeq`);
+    const chunksBefore = await adminQuery(`SELECT runId, firstSeq, count, HEX(data) AS d FROM \`${database.database}\`.run_reading_chunks ORDER BY runId, firstSeq`);
     expect((chunksBefore as unknown[]).length).toBeGreaterThan(2);
 
     // Three backups with retention 2: the oldest goes; the newest is complete.
@@ -103,7 +104,7 @@ describe('backup and restore', () => {
     expect(after.users).toEqual(before.users);
     expect(after.runs).toEqual(before.runs);
     expect(after.exports).toEqual(before.exports);
-    expect(await adminQuery(`SELECT runId, firstSeq, count, HEX(data) AS d FROM \`${database.database}\`.run_sample_chunks ORDER BY runId, firstSeq`)).toEqual(chunksBefore);
+    expect(await adminQuery(`SELECT runId, firstSeq, count, HEX(data) AS d FROM \`${database.database}\`.run_reading_chunks ORDER BY runId, firstSeq`)).toEqual(chunksBefore);
     expect(readFileSync(join(dataDir, 'uploads', 'runs', '2', 'teardown.jpg')).equals(photo)).toBe(true);
     expect(readdirSync(join(dataDir, 'uploads'))).toEqual(['runs']);
     // Users can still sign in with their passwords.
@@ -116,6 +117,56 @@ describe('backup and restore', () => {
     expect(readdirSync(backupDir)).toEqual(before);
     await expect(restoreBackup({ db: database, dataDir, backupPath: dataDir })).rejects.toThrow(/not a complete Kneepoint backup/);
   });
+
+  it('restores a backup made before the storage rename (migration 1780), then migrates it: every run, reading and export is there', async () => {
+    const old = await createTestDatabase();
+    const oldDataDir = mkdtempSync(join(tmpdir(), 'kp-backup-old-'));
+    const oldBackupDir = mkdtempSync(join(tmpdir(), 'kp-backups-old-'));
+    const quiet = { info: () => {}, warn: () => {}, error: (m: string, e?: unknown) => console.error(m, e) };
+    const serve = () => startServer({ config: testConfig(old, { dataDir: oldDataDir }), database: old, port: 0, attachments: [], log: quiet });
+    let s: RunningServer | undefined;
+    try {
+      s = await serve();
+      const passwordHash = await hashPassword(TEST_PASSWORD);
+      await s.ctx.models.User.bulkCreate(Object.values(TEST_USERS).map((user) => ({ ...user, passwordHash })));
+      const tech = await signInAs(s.url, 'technician');
+      const battery = (await tech.post('/api/batteries').send({ label: 'Old cell', brand: 'Hollis Power', chemistry: 'nca', cellsInSeries: 1, ratedAh: 2 }).expect(201)).body.battery;
+      const runId = (await tech.post('/api/runs/import').field('name', 'Before the rename').field('batteryId', String(battery.id)).attach('file', NASA_CSV).expect(201)).body.run.id as number;
+      const before = await snapshot(s.url);
+      const readingsBefore = (await tech.get(`/api/runs/${runId}/readings?maxPoints=1000`).expect(200)).body;
+      expect(readingsBefore.t).toHaveLength(197);
+
+      // Back to the storage as it was before 1780: the old table and columns, and blocks that
+      // name their run time column `elapsed`, as the archive wrote them then.
+      await createMigrator(s.ctx.sequelize).down({ to: '1780-run-reading-chunks' });
+      await s.close();
+      s = undefined;
+      const table = `\`${old.database}\`.run_sample_chunks`; // vocab-rename: keep
+      await adminQuery(`UPDATE ${table} SET layout = REPLACE(layout, '"name":"elapsedSeconds"', '"name":"elapsed"')`); // vocab-rename: keep
+      const oldChunks = (await adminQuery(`SELECT firstElapsed, lastElapsed, layout FROM ${table}`)) as { layout: string }[]; // vocab-rename: keep
+      expect(oldChunks.length).toBeGreaterThan(0);
+      for (const c of oldChunks) expect(JSON.parse(c.layout).columns.map((col: { name: string }) => col.name)).toContain('elapsed'); // vocab-rename: keep
+
+      const backupPath = await createBackup({ db: old, dataDir: oldDataDir, backupDir: oldBackupDir, keep: 1 });
+      await adminQuery(`DROP DATABASE \`${old.database}\``);
+      await restoreBackup({ db: old, dataDir: oldDataDir, backupPath });
+
+      s = await serve(); // migrates the restored database
+      const migrations = (await adminQuery(`SELECT name FROM \`${old.database}\`.schema_migrations`)) as { name: string }[];
+      expect(migrations.map((m) => m.name)).toContain('1780-run-reading-chunks');
+      const after = await snapshot(s.url);
+      expect(after.runs).toEqual(before.runs);
+      expect(after.exports).toEqual(before.exports);
+      expect(after.exports[runId]).toMatch(/^elapsedSeconds,t,volts,/m);
+      const viewer = await signInAs(s.url, 'viewer');
+      expect((await viewer.get(`/api/runs/${runId}/readings?maxPoints=1000`).expect(200)).body).toEqual(readingsBefore);
+    } finally {
+      await s?.close();
+      await dropTestDatabase(old.database);
+      rmSync(oldDataDir, { recursive: true, force: true });
+      rmSync(oldBackupDir, { recursive: true, force: true });
+    }
+  }, 120_000);
 
   it('backs up on a schedule into the configured folder, keeping the newest N', async () => {
     const scheduledDir = mkdtempSync(join(tmpdir(), 'kp-scheduled-'));

@@ -61,7 +61,7 @@ describe('an import that fails half-way', () => {
     const kept = await tech.post('/api/runs/import').field('name', 'kept before').attach('file', path).expect(201);
     const keptId = kept.body.run.id as number;
     const chunksOf = async (runId: number) =>
-      (await t.ctx.sequelize.query<{ n: number }>('SELECT COUNT(*) AS n FROM run_sample_chunks WHERE runId = ?', { replacements: [runId], type: QueryTypes.SELECT }))[0]!.n;
+      (await t.ctx.sequelize.query<{ n: number }>('SELECT COUNT(*) AS n FROM run_reading_chunks WHERE runId = ?', { replacements: [runId], type: QueryTypes.SELECT }))[0]!.n;
     const keptChunks = Number(await chunksOf(keptId));
     expect(keptChunks).toBeGreaterThan(0);
     const runsBefore = (await tech.get('/api/runs')).body.total as number;
@@ -76,7 +76,7 @@ describe('an import that fails half-way', () => {
     const names = ((await tech.get('/api/runs')).body.runs as { name: string }[]).map((r) => r.name);
     expect(names).not.toContain('fails half-way');
     expect((await tech.get('/api/runs')).body.total).toBe(runsBefore);
-    const orphans = await t.ctx.sequelize.query<{ n: number }>('SELECT COUNT(*) AS n FROM run_sample_chunks c LEFT JOIN runs r ON r.id = c.runId WHERE r.id IS NULL', { type: QueryTypes.SELECT });
+    const orphans = await t.ctx.sequelize.query<{ n: number }>('SELECT COUNT(*) AS n FROM run_reading_chunks c LEFT JOIN runs r ON r.id = c.runId WHERE r.id IS NULL', { type: QueryTypes.SELECT });
     expect(Number(orphans[0]!.n)).toBe(0);
     expect(Number(await chunksOf(keptId))).toBe(keptChunks);
     const samples = (await tech.get(`/api/runs/${keptId}/readings?maxPoints=1000`).expect(200)).body;

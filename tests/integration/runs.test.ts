@@ -113,7 +113,7 @@ describe('a live run', () => {
     expect(meta.join('\n')).toMatch(/battery: Voltara Pack A-12 \(lfp, 4S, rated 10 Ah\)/);
     expect(meta.join('\n')).toMatch(/units: .*amps A \(positive = discharge\)/);
     const header = lines[meta.length]!.split(',');
-    expect(header).toEqual(['elapsed', 't', 'volts', 'amps', 'watts', 'dischargeWh', 'dischargeAh', 'chargeWh', 'chargeAh', 'temp_cell_c']);
+    expect(header).toEqual(['elapsedSeconds', 't', 'volts', 'amps', 'watts', 'dischargeWh', 'dischargeAh', 'chargeWh', 'chargeAh', 'temp_cell_c']);
     const rows = lines.slice(meta.length + 1);
     expect(rows).toHaveLength(run.readingsCount);
     expect(Number(rows[10]!.split(',')[2])).toBe(volts(10));

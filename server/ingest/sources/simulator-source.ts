@@ -67,7 +67,7 @@ export class SimulatorSource implements Source {
         drive: this.instruments?.drive,
       });
       this.tracker.connected(`simulating ${this.config.scenario} at ${this.config.speed}×`);
-      const player = simulation.play((sample) => this.onReading(sample));
+      const player = simulation.play((reading) => this.onReading(reading));
       this.player = player;
       void player.finished.then(() => {
         if (this.running && this.player === player) this.tracker.idle(`scenario ${this.config.scenario} finished`);
@@ -96,13 +96,13 @@ export class SimulatorSource implements Source {
     return this.tracker.snapshot();
   }
 
-  private onReading(sample: SimReading): void {
-    if (!this.running || sample.lost) return;
-    if (sample.corrupt) {
-      this.tracker.rejected(`frame ${sample.seq} corrupted on the (simulated) wire`);
+  private onReading(reading: SimReading): void {
+    if (!this.running || reading.lost) return;
+    if (reading.corrupt) {
+      this.tracker.rejected(`frame ${reading.seq} corrupted on the (simulated) wire`);
       return;
     }
-    const frame: Frame = { ...sample.frame, clock: 'device' };
+    const frame: Frame = { ...reading.frame, clock: 'device' };
     const outside = frameRejection(frame, this.config.limits);
     if (outside) return this.tracker.rejected(outside);
     this.tracker.frameOk();

@@ -3,7 +3,7 @@ import { RunResponseSchema, ReadingsResponseSchema } from '../../../shared/schem
 import { api } from '../api-client';
 import { queryKeys } from './query-keys';
 
-/** The samples' x axis: run seconds, delivered Ah or delivered Wh (the window is in its unit). */
+/** The readings' x axis: run seconds, delivered Ah or delivered Wh (the window is in its unit). */
 export type ReadingAxis = 't' | 'ah' | 'wh';
 
 /** A window of run time in seconds; null ends mean "from the start" / "to the end". */

@@ -93,7 +93,7 @@ async function recordThrough(name: string, outage: () => Promise<Outage>) {
   // The export writes run time to the millisecond (docs/api.md, export rounding); the stream sends it unrounded.
   const toExportMs = (t: number) => Number(t.toFixed(3));
   const viewerT = viewer.t.map(toExportMs);
-  expect(viewerT).toEqual(cols.elapsed!.filter((e) => e >= viewerT[0]!));
+  expect(viewerT).toEqual(cols.elapsedSeconds!.filter((e) => e >= viewerT[0]!));
 
   // Totals never decrease: in the archive, on the live stream, and in every answer of the API.
   expect(neverDecreases(cols.dischargeWh!)).toBe(true);

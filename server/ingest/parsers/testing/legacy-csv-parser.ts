@@ -5,7 +5,7 @@ import type { Frame } from '../../../../shared/schemas/frame.js';
 import { clip, reject, type LineParser, type ParseResult } from '../parse-result.js';
 import { parseStrictNumber, timeToSeconds, toAmps, toCelsius, toVolts } from './legacy-units.js';
 
-const MS_PER_S = 1000;
+const MS_PER_S = 1000; // vocab-rename: keep (the oracle keeps its own constants as they were)
 
 /**
  * Parses one CSV line against the column map. Pure: `isFirstLine`, `seenFrame` and

@@ -1,7 +1,7 @@
 // Unit helpers as they were before the one-parser rewrite (regex number check): the oracle's own.
 import type { CurrentSign } from '../../../../shared/schemas/bench.js';
 
-const MS_PER_S = 1000;
+const MS_PER_S = 1000; // vocab-rename: keep (the oracle keeps its own constants as they were)
 const MILLI = 1000;
 const KELVIN_OFFSET = 273.15;
 const FAHRENHEIT_OFFSET = 32;

@@ -21,10 +21,10 @@ const PEUKERT_K_STEP = 0.01;
 export function CapacityAnalysisPanel({ runId, summary }: { runId: number; summary: RunSummary }) {
   const capacityAh = summary.capacityAh;
   const testAmps = summary.meanAmps;
-  const samples = useQuery({ ...readingsQueryOptions(runId, { from: null, to: null }, IC_MAX_POINTS, 'ah'), enabled: capacityAh !== null });
+  const readings = useQuery({ ...readingsQueryOptions(runId, { from: null, to: null }, IC_MAX_POINTS, 'ah'), enabled: capacityAh !== null });
   const ic = useMemo(
-    () => (samples.data && capacityAh !== null ? runIncrementalCapacity(samples.data, capacityAh, summary.cellsInSeries) : null),
-    [samples.data, capacityAh, summary.cellsInSeries],
+    () => (readings.data && capacityAh !== null ? runIncrementalCapacity(readings.data, capacityAh, summary.cellsInSeries) : null),
+    [readings.data, capacityAh, summary.cellsInSeries],
   );
   if (capacityAh === null || !(capacityAh > 0) || testAmps === null || !(testAmps > 0)) return null;
   return (
@@ -35,10 +35,10 @@ export function CapacityAnalysisPanel({ runId, summary }: { runId: number; summa
           Ah delivered per volt of terminal voltage, to the end voltage. Peaks are the plateaus of the discharge; on a later
           test of the same pack a lower or shifted peak shows lost capacity.
         </p>
-        {samples.isPending ? (
+        {readings.isPending ? (
           <Loading label="Loading readings…" />
-        ) : samples.isError ? (
-          <QueryError error={samples.error} what="Readings" />
+        ) : readings.isError ? (
+          <QueryError error={readings.error} what="Readings" />
         ) : ic && ic.volts.length > 0 ? (
           <IncrementalCapacityChart volts={ic.volts} dQdV={ic.dQdV} />
         ) : (

@@ -12,16 +12,16 @@ export const IC_BIN_VOLTS_PER_CELL = 0.005;
 export const IC_MIN_BIN_VOLTS = 0.01;
 
 /**
- * The discharge to the end voltage as volts against delivered Ah, from samples on the Ah axis:
+ * The discharge to the end voltage as volts against delivered Ah, from readings on the Ah axis:
  * each bucket's middle volts at its middle Ah (gaps skipped, nothing past `capacityAh`).
  */
-export function dischargePoints(samples: ReadingsResponse, capacityAh: number): VoltChargePoint[] {
-  const half = samples.reduced && samples.bucketSeconds ? samples.bucketSeconds / 2 : 0;
+export function dischargePoints(readings: ReadingsResponse, capacityAh: number): VoltChargePoint[] {
+  const half = readings.reduced && readings.bucketSeconds ? readings.bucketSeconds / 2 : 0;
   const out: VoltChargePoint[] = [];
-  for (let i = 0; i < samples.t.length; i++) {
-    const lo = samples.volts.min[i];
-    const hi = samples.volts.max[i];
-    const ah = samples.t[i]! + half;
+  for (let i = 0; i < readings.t.length; i++) {
+    const lo = readings.volts.min[i];
+    const hi = readings.volts.max[i];
+    const ah = readings.t[i]! + half;
     if (lo === null || hi === null || lo === undefined || hi === undefined || ah > capacityAh) continue;
     out.push({ dischargeAh: ah, volts: (lo + hi) / 2 });
   }
@@ -29,9 +29,9 @@ export function dischargePoints(samples: ReadingsResponse, capacityAh: number): 
 }
 
 /** dQ/dV of a capacity run (Ah per volt against volts), with bins scaled to the cells in series. */
-export function runIncrementalCapacity(samples: ReadingsResponse, capacityAh: number, cellsInSeries: number | null): { volts: number[]; dQdV: number[] } {
+export function runIncrementalCapacity(readings: ReadingsResponse, capacityAh: number, cellsInSeries: number | null): { volts: number[]; dQdV: number[] } {
   const binVolts = Math.max(IC_MIN_BIN_VOLTS, IC_BIN_VOLTS_PER_CELL * (cellsInSeries ?? 1));
-  return incrementalCapacity(dischargePoints(samples, capacityAh), { binVolts });
+  return incrementalCapacity(dischargePoints(readings, capacityAh), { binVolts });
 }
 
 /** Multiples of the rated capacity (C-rates) the run-time table estimates at. */

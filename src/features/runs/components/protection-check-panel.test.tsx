@@ -32,14 +32,14 @@ const run: Run = {
   endVolts: null, acceptancePercent: 95, alarms: { onCutoff: true }, stopWhen: 'manual', targetAh: null, targetWh: null, afterRecoverySeconds: 0,
   readingsCount: 3600, summary, startedAt: now, endedAt: now, createdBy: 1, createdAt: now, updatedAt: now,
 };
-const samples = { runId: 4, from: 0, to: 2, reduced: false, bucketSeconds: null, readingsInWindow: 3, t: [0, 1, 2], volts: { min: [13, 13, 13], max: [13, 13, 13] }, amps: { min: [-5, -5, -5], max: [-5, -5, -5] }, watts: { min: [-65, -65, -65], max: [-65, -65, -65] }, temps: {} };
+const readings = { runId: 4, from: 0, to: 2, reduced: false, bucketSeconds: null, readingsInWindow: 3, t: [0, 1, 2], volts: { min: [13, 13, 13], max: [13, 13, 13] }, amps: { min: [-5, -5, -5], max: [-5, -5, -5] }, watts: { min: [-65, -65, -65], max: [-65, -65, -65] }, temps: {} };
 
 describe('a protection-check run page', () => {
   it('shows the per-protection table instead of a capacity verdict, the charge put in, each channel by name, and links to each stretch', async () => {
     const { calls } = stubApi(demoUser('viewer'), (url) => {
       if (url === '/api/runs/4') return { status: 200, body: { run } };
       if (url.startsWith('/api/runs/4/events')) return { status: 200, body: { events: [] } };
-      if (url.startsWith('/api/runs/4/readings')) return { status: 200, body: samples };
+      if (url.startsWith('/api/runs/4/readings')) return { status: 200, body: readings };
       return undefined;
     });
     const { router } = renderAt('/runs/4');
@@ -70,7 +70,7 @@ describe('a protection-check run page', () => {
     stubApi(demoUser('viewer'), (url) => {
       if (url === '/api/runs/6') return { status: 200, body: { run: charge } };
       if (url.startsWith('/api/runs/6/events')) return { status: 200, body: { events: [] } };
-      if (url.startsWith('/api/runs/6/readings')) return { status: 200, body: { ...samples, runId: 6 } };
+      if (url.startsWith('/api/runs/6/readings')) return { status: 200, body: { ...readings, runId: 6 } };
       return undefined;
     });
     renderAt('/runs/6');

@@ -37,12 +37,12 @@ function measuredApi(url: string) {
   const one = url.match(/^\/api\/runs\/(\d+)$/);
   if (one) return { status: 200, body: { run: measured.find((r) => r.id === Number(one[1])) } };
   const s = url.match(/^\/api\/runs\/(\d+)\/readings/);
-  if (s) return { status: 200, body: samples(Number(s[1])) };
+  if (s) return { status: 200, body: readings(Number(s[1])) };
   return undefined;
 }
 const namesInOrder = () => screen.getAllByTestId('compare-row').map((tr) => within(tr).getByRole('link').textContent);
 
-const samples = (id: number) => ({
+const readings = (id: number) => ({
   runId: id, x: 't', from: 0, to: 2, reduced: false, bucketSeconds: null, readingsInWindow: 3, t: [0, 1, 2],
   volts: { min: [13.2, 13.1, 12.9], max: [13.2, 13.1, 12.9] }, amps: { min: [5, 5, 5], max: [5, 5, 5] },
   watts: { min: [66, 65, 64], max: [66, 65, 64] }, temps: {},
@@ -53,7 +53,7 @@ function api(url: string) {
   const one = url.match(/^\/api\/runs\/(\d+)$/);
   if (one) return { status: 200, body: { run: runs.find((r) => r.id === Number(one[1])) } };
   const s = url.match(/^\/api\/runs\/(\d+)\/readings/);
-  if (s) return { status: 200, body: samples(Number(s[1])) };
+  if (s) return { status: 200, body: readings(Number(s[1])) };
   return undefined;
 }
 

@@ -23,8 +23,8 @@ export const MAX_COMPARED_RUNS = 4;
 /** The rating as a share of itself, %. */
 const FULL_RATING_PERCENT = 100;
 
-/** The samples axis each chart axis is drawn from (% of rated is delivered Ah over rated Ah). */
-const SAMPLE_AXIS: Record<CompareAxis, ReadingAxis> = { time: 't', ah: 'ah', wh: 'wh', percent: 'ah' };
+/** The readings axis each chart axis is drawn from (% of rated is delivered Ah over rated Ah). */
+const READINGS_AXIS: Record<CompareAxis, ReadingAxis> = { time: 't', ah: 'ah', wh: 'wh', percent: 'ah' };
 /** The axis choices in the order offered. */
 const AXIS_CHOICES: { axis: CompareAxis; label: string }[] = [
   { axis: 'ah', label: 'Ah' },
@@ -61,18 +61,18 @@ export function RunCompare({ runIds, title = 'Compare runs' }: { runIds: readonl
   const [axis, setAxis] = useState<CompareAxis>('ah');
   const [sorting, setSorting] = useState<SortingState>([]);
   const runs = useQueries({ queries: runIds.map((id) => runQueryOptions(id)) });
-  const samples = useQueries({ queries: runIds.map((id) => readingsQueryOptions(id, { from: null, to: null }, COMPARE_MAX_POINTS, SAMPLE_AXIS[axis])) });
-  const failed = [...runs, ...samples].find((q) => q.isError);
-  const ready = runs.every((q) => q.data) && samples.every((q) => q.data);
-  const sampleData = samples.map((q) => q.data);
+  const readings = useQueries({ queries: runIds.map((id) => readingsQueryOptions(id, { from: null, to: null }, COMPARE_MAX_POINTS, READINGS_AXIS[axis])) });
+  const failed = [...runs, ...readings].find((q) => q.isError);
+  const ready = runs.every((q) => q.data) && readings.every((q) => q.data);
+  const readingsData = readings.map((q) => q.data);
   const runData = runs.map((q) => q.data);
   // Rebuild the chart only when an answer changed, not on every render.
-  const version = [...runs, ...samples].map((q) => q.dataUpdatedAt).join(',') + axis;
+  const version = [...runs, ...readings].map((q) => q.dataUpdatedAt).join(',') + axis;
 
   const series: CompareSeries[] = useMemo(
     () =>
       ready
-        ? sampleData.map((s, i) => {
+        ? readingsData.map((s, i) => {
             const r = runData[i]!;
             const t = axis === 'percent' ? toPercentOfRated(s!.t, r.summary?.ratedAh) : s!.t;
             // The lower edge of each bucket: the knee and the cutoff are what a comparison is about.

@@ -62,14 +62,14 @@ function toMinMax(acc: Acc): MinMax {
 const accRecord = (r: Record<string, Acc>): Record<string, MinMax> => Object.fromEntries(Object.entries(r).map(([k, v]) => [k, toMinMax(v)]));
 
 /**
- * Reduces time-ordered column parts (each with `elapsed`, `volts`, `amps`, optional
+ * Reduces time-ordered column parts (each with `elapsedSeconds`, `volts`, `amps`, optional
  * `temp:*`) over [from, to] to at most `maxPoints` min/max buckets. When the window
  * holds no more readings than `maxPoints`, every reading is returned as it is. A spike
  * survives because a bucket keeps its extremes, never an average.
  */
 export function reduceReadings(parts: readonly Columns[], from: number, to: number, maxPoints: number): ReducedReadings {
   const ranges = parts.map((p) => {
-    const e = p.elapsed!;
+    const e = p.elapsedSeconds!;
     return { p, start: lowerBound(e, from), end: upperBound(e, to) };
   });
   const inWindow = ranges.reduce((s, r) => s + Math.max(0, r.end - r.start), 0);
@@ -85,7 +85,7 @@ export function reduceReadings(parts: readonly Columns[], from: number, to: numb
       for (let i = start; i < end; i++) {
         const v = p.volts![i]!;
         const a = p.amps![i]!;
-        t.push(p.elapsed![i]!);
+        t.push(p.elapsedSeconds![i]!);
         cols.volts.push(finiteOrNull(v));
         cols.amps.push(finiteOrNull(a));
         cols.watts.push(finiteOrNull(v * a));
@@ -111,7 +111,7 @@ export function reduceReadings(parts: readonly Columns[], from: number, to: numb
   const { bucketSeconds, t, volts, amps, watts, temps } = emptyBuckets(from, to, buckets);
   for (const name of tempNames) temps[name.slice(TEMP_PREFIX.length)] = emptyAcc(buckets);
   for (const { p, start, end } of ranges) {
-    const e = p.elapsed!;
+    const e = p.elapsedSeconds!;
     const vCol = p.volts!;
     const aCol = p.amps!;
     const tempCols = [...tempNames].filter((n) => p[n]).map((n) => [temps[n.slice(TEMP_PREFIX.length)]!, p[n]!] as const);

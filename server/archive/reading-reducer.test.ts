@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest';
-import { reduceReadings, reduceStats } from './sample-reducer.js';
+import { reduceReadings, reduceStats } from './reading-reducer.js';
 
 const cols = (elapsed: number[], volts: number[], amps?: number[]) => ({
-  elapsed: Float64Array.from(elapsed),
+  elapsedSeconds: Float64Array.from(elapsed),
   volts: Float64Array.from(volts),
   amps: Float64Array.from(amps ?? volts.map(() => 1)),
 });
@@ -57,7 +57,7 @@ describe('reduceStats', () => {
     const volts = Float64Array.from({ length: n }, (_, i) => 13 - i * 1e-4 + Math.sin(i) * 0.01);
     volts[12_345] = 2.2; // a one-reading collapse
     const amps = Float64Array.from({ length: n }, () => 4);
-    const part = { elapsed, volts, amps, 'temp:cell': Float64Array.from({ length: n }, (_, i) => 20 + i / 1000) };
+    const part = { elapsedSeconds: elapsed, volts, amps, 'temp:cell': Float64Array.from({ length: n }, (_, i) => 20 + i / 1000) };
     const exact = reduceReadings([part], 0, elapsed[n - 1]!, 50);
     const fast = reduceStats([computeStats(part)], 0, elapsed[n - 1]!, 50);
     expect(fast.readingsInWindow).toBe(n);
