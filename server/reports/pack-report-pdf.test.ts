@@ -6,6 +6,8 @@ import { pdfText } from '../../tests/integration/helpers/pdf-text.js';
 import { renderPackReportPdf } from './pack-report-pdf.js';
 
 const RUNS = 300;
+/** Laying out and reading back 300 runs' tables takes about 5 s on a busy 2-core machine. */
+const LONG_PDF_TIMEOUT_MS = 30_000;
 const battery = BatterySchema.parse({
   id: 1, label: 'NG-0300', brand: 'Corvane', model: null, chemistry: 'lfp', cellsInSeries: 4, cellsInParallel: 1, ratedAh: 100, ratedWh: null, bmsRatedAmps: null, massKg: null,
   price: null, priceCurrency: null, serialNumber: null, sender: null, notes: null, receivedOn: null, owner: null, lengthMm: null, widthMm: null, heightMm: null,
@@ -18,7 +20,7 @@ const runs = Array.from({ length: RUNS }, (_, i) => {
 }).reverse();
 
 describe('the pack report PDF', () => {
-  it('breaks long tables across pages without losing a row, numbering every page', async () => {
+  it('breaks long tables across pages without losing a row, numbering every page', { timeout: LONG_PDF_TIMEOUT_MS }, async () => {
     const pdf = await renderPackReportPdf({ battery, includePrices: false, runs, protectionRows: [], inspection: [], otherPhotos: [], settings: LabSettingsSchema.parse({}), madeAt: new Date('2026-12-02T08:00:00Z') });
     const text = await pdfText(pdf);
     const pages = text.split('\n');
