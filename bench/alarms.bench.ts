@@ -14,7 +14,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import type { BenchStatus } from '../shared/schemas/bench.js';
 import type { Frame } from '../shared/schemas/frame.js';
-import { DEFAULT_ALARM_DELIVERY, attachAlarms } from '../server/alarms/attach-alarms.js';
+import { DEFAULT_ALARM_DELIVERY, attachAlarms } from '../server/compose/alarms-root.js';
 import { hashPassword } from '../server/auth/password.js';
 import { BATTERY_OPTIONAL_DEFAULTS } from '../server/db/models/battery.js';
 import { liveAttachment } from '../server/live/attach-live.js';
