@@ -47,6 +47,16 @@ export const IMPORT_ZONES = [
     message: 'The live hub is a sink: it knows readings, not the recorder, the archive or the journal (server/compose wires them).',
   },
   {
+    target: './server/benches',
+    from: ['./server/runs/run-recorder.ts', './server/runs/run-session.ts', './server/live', './server/mqtt', './server/alarms'],
+    message: 'The benches area stores benches and exposes factories: server/compose builds the bench manager and connects its frames to the recorder and the hub.',
+  },
+  {
+    target: './server/alarms',
+    from: ['./server/runs/run-recorder.ts', './server/runs/run-session.ts', './server/live', './server/mail', './server/ingest/bench-manager.ts'],
+    message: 'The alarms are a sink: they expose a factory and sink functions, and server/compose connects them to the recorder and to outbound mail.',
+  },
+  {
     // Only server.ts (and the old live/attach-live.ts alias) take the composition root; the areas it wires never do.
     target: ['./server/!(compose|live)/**/*.ts', './server/live/!(attach-live).ts'],
     from: './server/compose',

@@ -14,7 +14,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import type { BenchStatus } from '../shared/schemas/bench.js';
 import type { Frame } from '../shared/schemas/frame.js';
-import { DEFAULT_ALARM_DELIVERY, attachAlarms } from '../server/alarms/attach-alarms.js';
+import { DEFAULT_ALARM_DELIVERY, attachAlarms } from '../server/compose/alarms-root.js';
 import { hashPassword } from '../server/auth/password.js';
 import { BATTERY_OPTIONAL_DEFAULTS } from '../server/db/models/battery.js';
 import { liveAttachment } from '../server/live/attach-live.js';
@@ -22,7 +22,8 @@ import { benchModel } from '../server/benches/bench-model.js';
 import { startServer } from '../server/server.js';
 import { testConfig } from '../tests/integration/helpers/test-config.js';
 import { openBenchDb } from './bench-db.js';
-import { wallMs, type FromViewers, type ToViewers } from './live-viewers.js';
+import { wallMs } from './delay-histogram.js';
+import type { FromViewers, ToViewers } from './live-viewers.js';
 
 const BENCHES = 20;
 const HZ = 10;

@@ -12,7 +12,7 @@ import { loadavg, tmpdir } from 'node:os';
 import { monitorEventLoopDelay } from 'node:perf_hooks';
 import { join } from 'node:path';
 import { hashPassword } from '../server/auth/password.js';
-import { attachBenchManager } from '../server/benches/attach-bench-manager.js';
+import { attachBenchManager } from '../server/compose/bench-root.js';
 import { benchModel } from '../server/benches/bench-model.js';
 import { BATTERY_OPTIONAL_DEFAULTS } from '../server/db/models/battery.js';
 import { liveAttachment } from '../server/live/attach-live.js';

@@ -5,9 +5,9 @@
  * from a frame being handed to the hub (its `t` carries the send time, in ms since a shared
  * epoch on the wall clock) to the batch holding it being parsed here.
  */
-import { performance } from 'node:perf_hooks';
 import WebSocket from 'ws';
 import type { ServerMessage } from '../shared/schemas/ws.js';
+import { DelayHistogram, wallMs } from './delay-histogram.js';
 
 /** Parent → child. */
 export type ToViewers =
@@ -19,36 +19,12 @@ export type FromViewers =
   | { type: 'ready' }
   | { type: 'report'; received: number; p50Ms: number; p99Ms: number; maxMs: number; rssStartMB: number; rssMB: number; heapMB: number };
 
-/** Delays go into a fixed histogram (0.1 ms steps up to 10 s), so a long soak measures without growing. */
-const HIST_STEP_MS = 0.1;
-const HIST_SLOTS = 100_000;
-export class Histogram {
-  private readonly counts = new Uint32Array(HIST_SLOTS + 1);
-  n = 0;
-  max = 0;
-  add(ms: number): void {
-    this.counts[Math.min(HIST_SLOTS, Math.max(0, Math.floor(ms / HIST_STEP_MS)))]!++;
-    this.n++;
-    if (ms > this.max) this.max = ms;
-  }
-  /** Upper edge of the slot holding the p-quantile. */
-  quantile(p: number): number {
-    const want = Math.ceil(this.n * p);
-    let seen = 0;
-    for (let i = 0; i <= HIST_SLOTS; i++) {
-      seen += this.counts[i]!;
-      if (seen >= want) return (i + 1) * HIST_STEP_MS;
-    }
-    return Number.NaN;
-  }
-}
-
-/** Wall-clock milliseconds with sub-millisecond resolution (comparable across processes). */
-export const wallMs = () => performance.timeOrigin + performance.now();
+/** The viewers' delays stay well under this on a loopback socket; a longer one counts as this long (its maximum is kept). */
+const DELAY_RANGE_MS = 10_000;
 const mb = (b: number) => +(b / 1e6).toFixed(1);
 
 async function main(): Promise<void> {
-  const delays = new Histogram();
+  const delays = new DelayHistogram(DELAY_RANGE_MS);
   const sockets: WebSocket[] = [];
   let measuring = false;
   let received = 0;

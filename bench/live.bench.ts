@@ -20,7 +20,8 @@ import { benchModel } from '../server/benches/bench-model.js';
 import { startServer } from '../server/server.js';
 import { testConfig } from '../tests/integration/helpers/test-config.js';
 import { openBenchDb } from './bench-db.js';
-import { wallMs, type FromViewers, type ToViewers } from './live-viewers.js';
+import { wallMs } from './delay-histogram.js';
+import type { FromViewers, ToViewers } from './live-viewers.js';
 
 const BENCHES = 20;
 const HZ = 10;

@@ -15,10 +15,10 @@ import { DatabaseHealth } from './db/database-health.js';
 import { createPingProbe } from './db/database-probe.js';
 import { watchDatabase, type DatabaseWatch } from './db/database-watch.js';
 import { guardQueries } from './db/query-guard.js';
-import { attachBenchManager } from './benches/attach-bench-manager.js';
+import { attachBenchManager } from './compose/bench-root.js';
 import { attachRecording } from './compose/recording-root.js';
 import { backupAttachment } from './backup/attach-backups.js';
-import { attachAlarms } from './alarms/attach-alarms.js';
+import { attachAlarms } from './compose/alarms-root.js';
 import { attachPush } from './push/attach-push.js';
 import { attachProgrammes } from './programmes/attach-programmes.js';
 import { attachInstruments } from './instruments/attach-instruments.js';
@@ -33,7 +33,7 @@ export type Attachment = (httpServer: Server, ctx: AppContext) => Promise<Detach
 /**
  * ── ATTACHMENTS: other areas add one line each here (they run in this order before listen,
  * and are detached in reverse order on close), e.g. ──
- *   attachBenchManager,   (ingest, from ./benches/...)
+ *   attachBenchManager,   (the bench manager's composition root, from ./compose/...)
  *   attachRecording,      (the composition root of recording, from ./compose/...)
  */
 export const ATTACHMENTS: Attachment[] = [mqttAttachment(), attachBenchManager, attachRecording, attachInstruments, attachProgrammes, attachAlarms, attachPush, backupAttachment()];

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { alarmActionFor, alarmState, lastEscalationStep, retryDelayMs } from './alarm-rules.js';
+import { alarmActionFor, alarmState, lastEscalationStep } from './alarm-rules.js';
+import { retryDelayMs } from '../queue/retry-policy.js';
 
 describe('alarm rules', () => {
   it('maps the run\'s events to alarm kinds', () => {

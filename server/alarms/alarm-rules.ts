@@ -70,8 +70,3 @@ export function escalationDueMs(raisedAtMs: number, step: number, everyMs: numbe
 export function lastEscalationStep(onCallCount: number): number {
   return Math.max(1, onCallCount);
 }
-
-/** Wait before retry number `attempts` (1 = the first retry): doubling from `firstMs`, capped at `maxMs`. */
-export function retryDelayMs(attempts: number, firstMs: number, maxMs: number): number {
-  return Math.min(maxMs, firstMs * 2 ** Math.max(0, attempts - 1));
-}

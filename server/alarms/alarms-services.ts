@@ -7,7 +7,7 @@ import type { FakeSmtpServer } from './fake-smtp.js';
 
 declare module '../app-context.js' {
   interface AppServices {
-    /** Raises, acknowledges and escalates alarms; set by attachAlarms. */
+    /** Raises, acknowledges and escalates alarms; set by the alarms root (server/compose/alarms-root.ts). */
     alarms: AlarmService;
     /** The channels alarms are delivered by: a Web Push channel registers itself here. */
     alarmChannels: AlarmChannels;

@@ -1,15 +1,14 @@
-import { randomUUID } from 'node:crypto';
 import { QueryTypes, type Sequelize } from 'sequelize';
 import type { AlarmChannelName } from '../../shared/schemas/alarm.js';
 import { utcDateTime } from '../db/utc-datetime.js';
-import { retryDelayMs } from './alarm-rules.js';
+import { claimLeased, IN_DOUBT_ERROR, MAX_ERROR_CHARS, RELEASE_CLAIM, type LeasedRow } from '../queue/lease-claim.js';
+import { afterFailure, type RetryPolicy } from '../queue/retry-policy.js';
+
+/** The in-doubt note, where the alarm queue's callers have always found it. */
+export { IN_DOUBT_ERROR };
 
 /** A queue row's state: `cancelled` = its alarm was acknowledged before it went out. */
 export type DeliveryStatus = 'pending' | 'sent' | 'failed' | 'cancelled';
-/** Longest error text kept on a row. */
-const MAX_ERROR_CHARS = 1000;
-/** Noted on a row taken again after its claim ran out with no result (see claimDue). */
-export const IN_DOUBT_ERROR = 'the previous attempt ended without a result (server stopped while sending?): sent again';
 
 /** One row to add: this alarm, to this person, by this channel, at this escalation step. */
 export interface DeliveryKey {
@@ -20,12 +19,7 @@ export interface DeliveryKey {
 }
 
 /** A claimed row, with the token that proves this worker holds it. */
-export interface ClaimedDelivery extends DeliveryKey {
-  id: number;
-  /** Attempts started, this one included. */
-  attempts: number;
-  claimToken: string;
-}
+export interface ClaimedDelivery extends DeliveryKey, LeasedRow {}
 
 /** One row as the API shows it (the admin's delivery log). */
 export interface DeliveryRow extends DeliveryKey {
@@ -35,13 +29,6 @@ export interface DeliveryRow extends DeliveryKey {
   lastError: string | null;
   nextAttemptAt: string;
   sentAt: string | null;
-}
-
-/** Retry policy: first wait, longest wait, attempts before giving up. */
-export interface RetryPolicy {
-  firstMs: number;
-  maxMs: number;
-  maxAttempts: number;
 }
 
 /**
@@ -70,44 +57,28 @@ export class DeliveryQueue {
     return added;
   }
 
-  /** Claims up to `limit` due rows of these channels for `leaseMs`. */
+  /** Claims up to `limit` due rows of these channels for `leaseMs` (server/queue/lease-claim.ts: attempts, in-doubt note). */
   async claimDue(channels: readonly AlarmChannelName[], now: Date, leaseMs: number, limit: number): Promise<ClaimedDelivery[]> {
     if (channels.length === 0) return [];
-    const token = randomUUID();
-    const at = utcDateTime(now);
-    // The attempt is counted when it is claimed, so a server that dies mid-send has used one.
-    // A claim token still set when the lease ran out means its holder never reported back
-    // (it stopped between handing the message over and marking it): the outcome is unknown,
-    // the row goes out again and says so. MariaDB applies SET left to right, so lastError
-    // reads the old token.
-    const claimed = await this.exec(
-      `UPDATE alarm_deliveries SET attempts = attempts + 1,
-         lastError = CASE WHEN claimToken IS NOT NULL THEN ? ELSE lastError END,
-         claimToken = ?, claimedUntil = ?
-       WHERE status = 'pending' AND channel IN (?) AND nextAttemptAt <= ? AND (claimedUntil IS NULL OR claimedUntil <= ?)
-       ORDER BY id LIMIT ${Math.max(1, Math.floor(limit))}`,
-      [IN_DOUBT_ERROR, token, utcDateTime(new Date(now.getTime() + leaseMs)), channels, at, at]);
-    if (claimed === 0) return [];
-    return this.sequelize.query<ClaimedDelivery>(
-      `SELECT id, alarmId, userId, channel, step, attempts, claimToken FROM alarm_deliveries WHERE claimToken = ? AND status = 'pending' ORDER BY id`,
-      { replacements: [token], type: QueryTypes.SELECT });
+    return claimLeased<ClaimedDelivery>(this.sequelize, {
+      table: 'alarm_deliveries', columns: 'id, alarmId, userId, channel, step, attempts, claimToken',
+      where: { sql: 'channel IN (?)', replacements: [channels] },
+    }, now, leaseMs, limit);
   }
 
   /** The row went out. */
   async markSent(row: ClaimedDelivery, now: Date): Promise<void> {
     // An in-doubt note stays on the sent row: the admin's log then shows it may have gone twice.
-    await this.exec(`UPDATE alarm_deliveries SET status = 'sent', sentAt = ?, lastError = CASE WHEN lastError = ? THEN lastError ELSE NULL END, claimToken = NULL, claimedUntil = NULL WHERE id = ? AND claimToken = ?`,
+    await this.exec(`UPDATE alarm_deliveries SET status = 'sent', sentAt = ?, lastError = CASE WHEN lastError = ? THEN lastError ELSE NULL END, ${RELEASE_CLAIM}`,
       [utcDateTime(now), IN_DOUBT_ERROR, row.id, row.claimToken]);
   }
 
   /** The attempt failed: retry later with back-off, or give up (`permanent`, or out of attempts). */
   async markFailed(row: ClaimedDelivery, error: string, now: Date, permanent = false): Promise<DeliveryStatus> {
-    const { attempts } = row;
-    const status: DeliveryStatus = permanent || attempts >= this.policy.maxAttempts ? 'failed' : 'pending';
-    const next = new Date(now.getTime() + retryDelayMs(attempts, this.policy.firstMs, this.policy.maxMs));
+    const { status, nextAttemptAt } = afterFailure(this.policy, row.attempts, now, permanent);
     // A row cancelled while this attempt ran stays cancelled.
-    await this.exec(`UPDATE alarm_deliveries SET status = CASE WHEN status = 'cancelled' THEN status ELSE ? END, lastError = ?, nextAttemptAt = ?, claimToken = NULL, claimedUntil = NULL WHERE id = ? AND claimToken = ?`,
-      [status, error.slice(0, MAX_ERROR_CHARS), utcDateTime(next), row.id, row.claimToken]);
+    await this.exec(`UPDATE alarm_deliveries SET status = CASE WHEN status = 'cancelled' THEN status ELSE ? END, lastError = ?, nextAttemptAt = ?, ${RELEASE_CLAIM}`,
+      [status, error.slice(0, MAX_ERROR_CHARS), utcDateTime(nextAttemptAt), row.id, row.claimToken]);
     return status;
   }
 

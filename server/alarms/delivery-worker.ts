@@ -4,6 +4,7 @@ import type { AlarmRepo } from './alarm-repo.js';
 import type { ClaimedDelivery, DeliveryQueue } from './delivery-queue.js';
 import { BadAddressError } from './mail-message.js';
 import type { Logger } from '../log/logger.js';
+import { LeaseWorker } from '../queue/lease-worker.js';
 
 /** How often the worker looks for due rows when nothing kicked it. */
 export const DELIVERY_POLL_MS = 500;
@@ -11,6 +12,8 @@ export const DELIVERY_POLL_MS = 500;
 export const DELIVERY_LEASE_MS = 60_000;
 /** Rows claimed per turn. */
 const CLAIM_BATCH = 50;
+/** The channels in the order a turn asks for them. */
+const CHANNEL_NAMES = ['in-app', 'email', 'push'] as const;
 
 /** What the worker needs. */
 export interface DeliveryWorkerDeps {
@@ -26,101 +29,52 @@ export interface DeliveryWorkerDeps {
 }
 
 /**
- * Takes due rows from the queue and hands each to its channel, off the recording path:
- * it runs on its own timer, and kick() only schedules a turn. A failure is recorded on the
- * row and retried with back-off; one failing row never stops the others.
+ * Takes due rows from the queue and hands each to its channel, off the recording path, as a
+ * lease worker (server/queue/lease-worker.ts): it runs on its own timer, and kick() only
+ * schedules a turn. A failure is recorded on the row and retried with back-off; one failing
+ * row never stops the others.
  */
-export class DeliveryWorker {
-  private timer: NodeJS.Timeout | null = null;
-  private running: Promise<void> | null = null;
-  private again = false;
-  private stopped = false;
-
-  constructor(private readonly deps: DeliveryWorkerDeps) {}
-
-  /** Starts the poll timer. */
-  start(): void {
-    this.stopped = false;
-    this.timer = setInterval(() => this.kick(), DELIVERY_POLL_MS);
-    this.timer.unref();
-    this.kick();
+export class DeliveryWorker extends LeaseWorker<ClaimedDelivery> {
+  constructor(deps: DeliveryWorkerDeps) {
+    const { queue, channels } = deps;
+    super({
+      name: 'alarm delivery',
+      claim: (now, leaseMs, limit) => queue.claimDue(CHANNEL_NAMES.filter((n) => channels.has(n)), now, leaseMs, limit),
+      handle: async (row) => {
+        const delivery = await describeDelivery(deps, row);
+        if (!delivery) return { error: 'the alarm, its run or the person no longer exists', permanent: true };
+        const channel = channels.get(row.channel);
+        if (!channel) return { error: `no ${row.channel} channel on this server`, permanent: false };
+        await channel.deliver(delivery);
+      },
+      markSent: (row, now) => queue.markSent(row, now),
+      markFailed: (row, error, now, permanent) => queue.markFailed(row, error, now, permanent),
+      isPermanent: (err) => err instanceof BadAddressError,
+      describe: (row) => `alarm delivery ${row.id} (${row.channel})`,
+      pollMs: DELIVERY_POLL_MS, leaseMs: DELIVERY_LEASE_MS, claimBatch: CLAIM_BATCH,
+      nowMs: deps.nowMs, log: deps.log,
+    });
   }
+}
 
-  /** Runs a turn soon (after a row was added); turns never overlap. */
-  kick(): void {
-    if (this.stopped) return;
-    if (this.running) {
-      this.again = true;
-      return;
-    }
-    this.running = this.turn()
-      .catch((err: unknown) => this.deps.log.error('alarm delivery pass failed', err))
-      .finally(() => {
-        this.running = null;
-        if (this.again) {
-          this.again = false;
-          this.kick();
-        }
-      });
-  }
-
-  /** Stops the timer and waits for the sends under way. */
-  async stop(): Promise<void> {
-    this.stopped = true;
-    if (this.timer) clearInterval(this.timer);
-    this.timer = null;
-    await this.running;
-  }
-
-  private now(): Date {
-    return new Date((this.deps.nowMs ?? Date.now)());
-  }
-
-  private async turn(): Promise<void> {
-    const names = (['in-app', 'email', 'push'] as const).filter((n) => this.deps.channels.has(n));
-    for (;;) {
-      const rows = await this.deps.queue.claimDue(names, this.now(), DELIVERY_LEASE_MS, CLAIM_BATCH);
-      if (rows.length === 0) return;
-      await Promise.all(rows.map((row) => this.deliverOne(row)));
-      if (this.stopped) return;
-    }
-  }
-
-  private async deliverOne(row: ClaimedDelivery): Promise<void> {
-    const { queue } = this.deps;
-    try {
-      const delivery = await this.describe(row);
-      if (!delivery) return void (await queue.markFailed(row, 'the alarm, its run or the person no longer exists', this.now(), true));
-      const channel = this.deps.channels.get(row.channel);
-      if (!channel) return void (await queue.markFailed(row, `no ${row.channel} channel on this server`, this.now()));
-      await channel.deliver(delivery);
-      await queue.markSent(row, this.now());
-    } catch (err) {
-      const message = err instanceof Error ? err.message : String(err);
-      const status = await queue.markFailed(row, message, this.now(), err instanceof BadAddressError);
-      this.deps.log.warn(`alarm delivery ${row.id} (${row.channel}) failed, ${status === 'failed' ? 'given up' : 'will retry'}`, err);
-    }
-  }
-
-  /** Everything a channel needs for one row, or null when something it names is gone. */
-  private async describe(row: ClaimedDelivery): Promise<AlarmDelivery | null> {
-    const { repo } = this.deps;
-    const alarm = await repo.get(row.alarmId);
-    if (!alarm) return null;
-    const [context, users, lab] = await Promise.all([repo.runContext(alarm.runId), repo.users([row.userId]), this.deps.labSettings()]);
-    const user = users.get(row.userId);
-    if (!context || !user) return null;
-    const base = this.deps.publicUrl();
-    return {
-      deliveryId: row.id, step: row.step, user, alarm,
-      run: { id: context.runId, name: context.runName },
-      bench: context.benchId !== null ? { id: context.benchId, name: context.benchName ?? `Bench ${context.benchId}` } : null,
-      pack: context.packLabel !== null ? { label: context.packLabel, brand: context.packBrand } : null,
-      units: { temperatureUnit: lab.temperatureUnit, energyUnit: lab.energyUnit },
-      labName: lab.labName,
-      runUrl: `${base}/runs/${alarm.runId}`,
-      ackUrl: `${base}/alarms/${alarm.id}`,
-      ackApiUrl: `${base}/api/alarms/${alarm.id}/acknowledge`,
-    };
-  }
+/** Everything a channel needs for one row, or null when something it names is gone. */
+async function describeDelivery(deps: DeliveryWorkerDeps, row: ClaimedDelivery): Promise<AlarmDelivery | null> {
+  const { repo } = deps;
+  const alarm = await repo.get(row.alarmId);
+  if (!alarm) return null;
+  const [context, users, lab] = await Promise.all([repo.runContext(alarm.runId), repo.users([row.userId]), deps.labSettings()]);
+  const user = users.get(row.userId);
+  if (!context || !user) return null;
+  const base = deps.publicUrl();
+  return {
+    deliveryId: row.id, step: row.step, user, alarm,
+    run: { id: context.runId, name: context.runName },
+    bench: context.benchId !== null ? { id: context.benchId, name: context.benchName ?? `Bench ${context.benchId}` } : null,
+    pack: context.packLabel !== null ? { label: context.packLabel, brand: context.packBrand } : null,
+    units: { temperatureUnit: lab.temperatureUnit, energyUnit: lab.energyUnit },
+    labName: lab.labName,
+    runUrl: `${base}/runs/${alarm.runId}`,
+    ackUrl: `${base}/alarms/${alarm.id}`,
+    ackApiUrl: `${base}/api/alarms/${alarm.id}/acknowledge`,
+  };
 }

@@ -11,6 +11,11 @@ export function toManaged(row: BenchRow): ManagedBench {
   return { id: row.id, source: readSource(row).source, enabled: row.enabled, gatewayId: row.gatewayId ?? null };
 }
 
+/** Every stored bench as the manager wants it, for its start. */
+export async function storedBenches(sequelize: Sequelize): Promise<ManagedBench[]> {
+  return (await benchModel(sequelize).findAll()).map(toManaged);
+}
+
 /** A bench with its live status (or why it has none). */
 export function withStatus(row: BenchRow, manager: BenchManager | undefined): BenchWithStatus {
   const bench: Bench = toApiBench(row);

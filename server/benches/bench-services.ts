@@ -3,7 +3,7 @@ import type { BenchManager } from '../ingest/bench-manager.js';
 
 declare module '../app-context.js' {
   interface AppServices {
-    /** Runs one source per bench; set by attachBenchManager once the server listens. */
+    /** Runs one source per bench; set by the bench root (server/compose/bench-root.ts) before the server listens. */
     benchManager: BenchManager;
   }
 }

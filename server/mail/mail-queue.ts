@@ -1,13 +1,8 @@
 import { randomUUID } from 'node:crypto';
 import { QueryTypes, type Sequelize } from 'sequelize';
-import { retryDelayMs } from '../alarms/alarm-rules.js';
-import type { RetryPolicy } from '../alarms/delivery-queue.js';
 import { utcDateTime } from '../db/utc-datetime.js';
-
-/** Longest error text kept on a row. */
-const MAX_ERROR_CHARS = 1000;
-/** Noted on a row taken again after its claim ran out with no result. */
-export const MAIL_IN_DOUBT_ERROR = 'the previous attempt ended without a result (server stopped while sending?): sent again';
+import { claimLeased, IN_DOUBT_ERROR, MAX_ERROR_CHARS, RELEASE_CLAIM, type LeasedRow } from '../queue/lease-claim.js';
+import { afterFailure, type RetryPolicy } from '../queue/retry-policy.js';
 /**
  * Stands in the stored text for the one secret a message may carry (a share link's token):
  * it holds a NUL, which no text a person typed can reach (the schemas refuse control characters).
@@ -31,10 +26,7 @@ export interface NewMail {
 }
 
 /** A claimed row with its message. */
-export interface ClaimedMail {
-  id: number;
-  attempts: number;
-  claimToken: string;
+export interface ClaimedMail extends LeasedRow {
   toAddress: string;
   replyTo: string | null;
   subject: string;
@@ -98,35 +90,24 @@ export class MailQueue {
     });
   }
 
-  /** Claims up to `limit` due rows for `leaseMs` (see DeliveryQueue.claimDue for the in-doubt note). */
+  /** Claims up to `limit` due rows for `leaseMs` (server/queue/lease-claim.ts: attempts, in-doubt note). */
   async claimDue(now: Date, leaseMs: number, limit: number): Promise<ClaimedMail[]> {
-    const token = randomUUID();
-    const at = utcDateTime(now);
-    const claimed = await this.exec(
-      `UPDATE mail_queue SET attempts = attempts + 1,
-         lastError = CASE WHEN claimToken IS NOT NULL THEN ? ELSE lastError END,
-         claimToken = ?, claimedUntil = ?
-       WHERE status = 'pending' AND nextAttemptAt <= ? AND (claimedUntil IS NULL OR claimedUntil <= ?)
-       ORDER BY id LIMIT ${Math.max(1, Math.floor(limit))}`,
-      [MAIL_IN_DOUBT_ERROR, token, utcDateTime(new Date(now.getTime() + leaseMs)), at, at]);
-    if (claimed === 0) return [];
-    return this.sequelize.query<ClaimedMail>(
-      `SELECT id, attempts, claimToken, toAddress, replyTo, subject, textBody, htmlBody, messageId, sealedSecret FROM mail_queue WHERE claimToken = ? AND status = 'pending' ORDER BY id`,
-      { replacements: [token], type: QueryTypes.SELECT });
+    return claimLeased<ClaimedMail>(this.sequelize, {
+      table: 'mail_queue', columns: 'id, attempts, claimToken, toAddress, replyTo, subject, textBody, htmlBody, messageId, sealedSecret',
+    }, now, leaseMs, limit);
   }
 
   /** The message went out: the secret is wiped. */
   async markSent(row: ClaimedMail, now: Date): Promise<void> {
-    await this.exec(`UPDATE mail_queue SET status = 'sent', sentAt = ?, sealedSecret = NULL, lastError = CASE WHEN lastError = ? THEN lastError ELSE NULL END, claimToken = NULL, claimedUntil = NULL WHERE id = ? AND claimToken = ?`,
-      [utcDateTime(now), MAIL_IN_DOUBT_ERROR, row.id, row.claimToken]);
+    await this.exec(`UPDATE mail_queue SET status = 'sent', sentAt = ?, sealedSecret = NULL, lastError = CASE WHEN lastError = ? THEN lastError ELSE NULL END, ${RELEASE_CLAIM}`,
+      [utcDateTime(now), IN_DOUBT_ERROR, row.id, row.claimToken]);
   }
 
   /** The attempt failed: retry later with back-off, or give up (`permanent`, or out of attempts; the secret is then wiped). */
   async markFailed(row: ClaimedMail, error: string, now: Date, permanent = false): Promise<'pending' | 'failed'> {
-    const status = permanent || row.attempts >= this.policy.maxAttempts ? 'failed' : 'pending';
-    const next = new Date(now.getTime() + retryDelayMs(row.attempts, this.policy.firstMs, this.policy.maxMs));
-    await this.exec(`UPDATE mail_queue SET status = ?, lastError = ?, nextAttemptAt = ?, sealedSecret = CASE WHEN ? = 'failed' THEN NULL ELSE sealedSecret END, claimToken = NULL, claimedUntil = NULL WHERE id = ? AND claimToken = ?`,
-      [status, error.slice(0, MAX_ERROR_CHARS), utcDateTime(next), status, row.id, row.claimToken]);
+    const { status, nextAttemptAt } = afterFailure(this.policy, row.attempts, now, permanent);
+    await this.exec(`UPDATE mail_queue SET status = ?, lastError = ?, nextAttemptAt = ?, sealedSecret = CASE WHEN ? = 'failed' THEN NULL ELSE sealedSecret END, ${RELEASE_CLAIM}`,
+      [status, error.slice(0, MAX_ERROR_CHARS), utcDateTime(nextAttemptAt), status, row.id, row.claimToken]);
     return status;
   }
 

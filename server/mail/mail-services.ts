@@ -17,7 +17,7 @@ export interface OutboundMail {
 
 declare module '../app-context.js' {
   interface AppServices {
-    /** Outbound mail (share links to clients) through the durable queue; set by attachAlarms when SMTP is set up. */
+    /** Outbound mail (share links to clients) through the durable queue; set by the alarms root (server/compose/alarms-root.ts) when SMTP is set up. */
     outboundMail: OutboundMail;
   }
 }

@@ -2,7 +2,7 @@ import { createHash } from 'node:crypto';
 import type { Server } from 'node:http';
 import type { Agent } from 'node:https';
 import type { AppContext } from '../app-context.js';
-import { DEFAULT_ALARM_DELIVERY } from '../alarms/attach-alarms.js';
+import { DEFAULT_ALARM_DELIVERY } from '../alarms/alarm-system.js';
 import { pushChannel } from './push-channel.js';
 import './push-services.js';
 import { PushSendLog } from './push-send-log.js';

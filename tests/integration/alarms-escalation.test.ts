@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { alarmsAttachment, DEFAULT_ALARM_DELIVERY } from '../../server/alarms/attach-alarms.js';
+import { alarmsAttachment, DEFAULT_ALARM_DELIVERY } from '../../server/compose/alarms-root.js';
 import { ALARM_TICK_MS } from '../../server/alarms/alarm-service.js';
 import { FakeSmtpServer, type ReceivedMail } from '../../server/alarms/fake-smtp.js';
 import { liveAttachment } from '../../server/live/attach-live.js';

@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { attachAlarms, DEFAULT_ALARM_DELIVERY } from '../../server/alarms/attach-alarms.js';
+import { attachAlarms, DEFAULT_ALARM_DELIVERY } from '../../server/compose/alarms-root.js';
 import { FakeSmtpServer } from '../../server/alarms/fake-smtp.js';
 import { liveAttachment } from '../../server/live/attach-live.js';
 import { createTestContext, signInAs, TEST_USERS, type SignedInAgent, type TestContext } from './helpers/index.js';

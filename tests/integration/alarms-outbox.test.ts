@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { OutboxMessageSchema } from '../../shared/schemas/alarm.js';
-import { attachAlarms } from '../../server/alarms/attach-alarms.js';
+import { attachAlarms } from '../../server/compose/alarms-root.js';
 import { liveAttachment } from '../../server/live/attach-live.js';
 import { createTestContext, signInAs, TEST_USERS, type SignedInAgent, type TestContext } from './helpers/index.js';
 import { batteryAndBench, eventually, ManualFeed, tempSpillDir } from './runs-kit.js';

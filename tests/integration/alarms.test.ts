@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { AlarmSchema } from '../../shared/schemas/alarm.js';
-import { attachAlarms, DEFAULT_ALARM_DELIVERY } from '../../server/alarms/attach-alarms.js';
+import { attachAlarms, DEFAULT_ALARM_DELIVERY } from '../../server/compose/alarms-root.js';
 import { FakeSmtpServer, type ReceivedMail } from '../../server/alarms/fake-smtp.js';
 import { liveAttachment } from '../../server/live/attach-live.js';
 import { startServer, type RunningServer } from '../../server/server.js';

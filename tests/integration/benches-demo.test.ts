@@ -1,6 +1,6 @@
 import { QueryTypes } from 'sequelize';
 import { afterAll, beforeAll, expect, it } from 'vitest';
-import { attachBenchManager } from '../../server/benches/attach-bench-manager.js';
+import { attachBenchManager } from '../../server/compose/bench-root.js';
 import { DEMO_BENCHES, DEMO_CONTROLLED_BENCH_NAME, seedDemoBenches } from '../../server/benches/seed-demo-benches.js';
 import { BenchInstrumentsRepo } from '../../server/programmes/bench-instruments-repo.js';
 import { StoredBenchInstruments } from '../../server/programmes/bench-instruments-provider.js';

@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Frame } from '../../shared/schemas/frame.js';
-import { attachBenchManager } from '../../server/benches/attach-bench-manager.js';
+import { attachBenchManager } from '../../server/compose/bench-root.js';
 import { createTestContext, signInAs, type SignedInAgent, type TestContext } from './helpers/index.js';
 
 let t: TestContext;

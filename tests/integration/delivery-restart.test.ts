@@ -2,7 +2,7 @@ import { Agent } from 'node:https';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { AlarmChannels, type AlarmChannel } from '../../server/alarms/alarm-channel.js';
 import { AlarmRepo } from '../../server/alarms/alarm-repo.js';
-import { attachAlarms, DEFAULT_ALARM_DELIVERY } from '../../server/alarms/attach-alarms.js';
+import { attachAlarms, DEFAULT_ALARM_DELIVERY } from '../../server/compose/alarms-root.js';
 import { DeliveryQueue, IN_DOUBT_ERROR } from '../../server/alarms/delivery-queue.js';
 import { DELIVERY_LEASE_MS, DeliveryWorker } from '../../server/alarms/delivery-worker.js';
 import { createSmtpTransport, emailChannel } from '../../server/alarms/email-channel.js';

@@ -3,7 +3,7 @@ import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { connectAsync } from 'mqtt';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { attachBenchManager } from '../../server/benches/attach-bench-manager.js';
+import { attachBenchManager } from '../../server/compose/bench-root.js';
 import { liveAttachment } from '../../server/live/attach-live.js';
 import { mqttAttachment } from '../../server/mqtt/attach-mqtt.js';
 import type { MosquittoBroker } from '../../server/mqtt/broker/mosquitto-broker.js';

@@ -1,7 +1,7 @@
 import { closeSync, openSync, writeSync } from 'node:fs';
 import { QueryTypes } from 'sequelize';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { attachBenchManager } from '../../server/benches/attach-bench-manager.js';
+import { attachBenchManager } from '../../server/compose/bench-root.js';
 import { liveAttachment } from '../../server/live/attach-live.js';
 import { RunsRepo } from '../../server/runs/runs-repo.js';
 import { openPtyPair, type PtyPair } from '../../simulator/transport/socat.js';

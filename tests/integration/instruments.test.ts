@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { attachBenchManager } from '../../server/benches/attach-bench-manager.js';
+import { attachBenchManager } from '../../server/compose/bench-root.js';
 import { attachInstruments } from '../../server/instruments/attach-instruments.js';
 import { localToday } from '../../server/instruments/instruments-repo.js';
 import { liveAttachment } from '../../server/live/attach-live.js';

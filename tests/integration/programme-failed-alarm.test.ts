@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, expect, it } from 'vitest';
-import { attachAlarms, DEFAULT_ALARM_DELIVERY } from '../../server/alarms/attach-alarms.js';
+import { attachAlarms, DEFAULT_ALARM_DELIVERY } from '../../server/compose/alarms-root.js';
 import { FakeSmtpServer } from '../../server/alarms/fake-smtp.js';
 import { FakeBench, type FakePackSpec } from '../../server/control/testing/fake-bench.js';
 import { FakeInstrument } from '../../server/control/testing/fake-instrument.js';

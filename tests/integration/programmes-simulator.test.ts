@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { attachBenchManager } from '../../server/benches/attach-bench-manager.js';
+import { attachBenchManager } from '../../server/compose/bench-root.js';
 import { liveAttachment } from '../../server/live/attach-live.js';
 import { attachProgrammes } from '../../server/programmes/attach-programmes.js';
 import { WATCHDOG_SECONDS } from '../../server/control/programme-executor.js';

@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Frame } from '../../shared/schemas/frame.js';
 import type { ProtectionRequest, ProtectionResult, ProtectionSpecInput } from '../../shared/schemas/protection-check.js';
 import { PROTECTION_TRAITS } from '../../shared/schemas/protection-check.js';
-import { attachBenchManager } from '../../server/benches/attach-bench-manager.js';
+import { attachBenchManager } from '../../server/compose/bench-root.js';
 import { liveAttachment } from '../../server/live/attach-live.js';
 import { ScenarioSchema, startPtyMeter, type Scenario, type SimEvent } from '../../simulator/index.js';
 import {

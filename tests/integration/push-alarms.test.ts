@@ -3,7 +3,7 @@ import { Agent } from 'node:https';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { OutboxMessage } from '../../shared/schemas/alarm.js';
-import { attachAlarms, DEFAULT_ALARM_DELIVERY } from '../../server/alarms/attach-alarms.js';
+import { attachAlarms, DEFAULT_ALARM_DELIVERY } from '../../server/compose/alarms-root.js';
 import { liveAttachment } from '../../server/live/attach-live.js';
 import { pushAttachment } from '../../server/push/attach-push.js';
 import { VAPID_FILE } from '../../server/push/vapid-keys.js';

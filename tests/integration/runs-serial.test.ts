@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { attachBenchManager } from '../../server/benches/attach-bench-manager.js';
+import { attachBenchManager } from '../../server/compose/bench-root.js';
 import { liveAttachment } from '../../server/live/attach-live.js';
 import { loadScenario, startPtyMeter, type PtyMeter } from '../../simulator/index.js';
 import { createTestContext, signInAs, type SignedInAgent, type TestContext } from './helpers/index.js';

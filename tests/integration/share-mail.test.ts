@@ -1,6 +1,6 @@
 import supertest from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { attachAlarms, DEFAULT_ALARM_DELIVERY } from '../../server/alarms/attach-alarms.js';
+import { attachAlarms, DEFAULT_ALARM_DELIVERY } from '../../server/compose/alarms-root.js';
 import { FakeSmtpServer, type ReceivedMail } from '../../server/alarms/fake-smtp.js';
 import { SHARE_MAILS_PER_HOUR } from '../../server/http/routes/share-links-routes.js';
 import { createTestContext, signInAs, TEST_USERS, type SignedInAgent, type TestContext } from './helpers/index.js';

@@ -44,6 +44,12 @@ describe('ESLint import zones (the lint fails on a forbidden import)', () => {
     ['the live hub knowing the recorder', 'server/live/zone-fixture.ts', use('{ RunRecorder }', '../runs/run-recorder.js')],
     ['an area importing the composition root', 'server/runs/zone-fixture.ts', use('{ attachRecording }', '../compose/recording-root.js')],
     ['the live hub importing the composition root', 'server/live/zone-fixture.ts', use('{ attachRecording }', '../compose/recording-root.js')],
+    ['the benches reaching for the recorder', 'server/benches/zone-fixture.ts', use('{ RunRecorder }', '../runs/run-recorder.js')],
+    ['the benches building gateway sources themselves', 'server/benches/zone-fixture.ts', use('{ GatewaySource }', '../mqtt/gateway-source.js')],
+    ['the benches publishing into live/', 'server/benches/zone-fixture.ts', use('{ LiveHub }', '../live/live-hub.js')],
+    ['the alarms reaching for the recorder', 'server/alarms/zone-fixture.ts', use('{ RunRecorder }', '../runs/run-recorder.js')],
+    ['the alarms importing the live hub', 'server/alarms/zone-fixture.ts', use('{ LiveHub }', '../live/live-hub.js')],
+    ['the alarms building outbound mail', 'server/alarms/zone-fixture.ts', use('{ MailWorker }', '../mail/mail-worker.js')],
   ])('refuses %s', async (_what, filePath, code) => {
     expect(await ruleIds(filePath, code)).toContain(ZONES);
   }, LINT_TIMEOUT_MS);
@@ -54,6 +60,10 @@ describe('ESLint import zones (the lint fails on a forbidden import)', () => {
     ['domain code throwing domain errors', 'server/benches/zone-fixture.ts', use('{ ConflictError }', '../domain/domain-errors.js')],
     ['a feature using src/lib', 'src/features/runs/zone-fixture.ts', use('{ queryKeys }', '../../lib/queries/query-keys')],
     ['the server using shared/', 'server/runs/zone-fixture.ts', use('{ FrameSchema }', '../../shared/schemas/frame.js')],
+    ['the benches reading runs through the repo', 'server/benches/zone-fixture.ts', use('{ RunsRepo }', '../runs/runs-repo.js')],
+    ['the alarms using the shared lease worker', 'server/alarms/zone-fixture.ts', use('{ LeaseWorker }', '../queue/lease-worker.js')],
+    ['the composition root wiring recorder, benches, alarms and mail', 'server/compose/zone-fixture.ts',
+      `${use('{ RunRecorder }', '../runs/run-recorder.js')}import { alarmSink } from '../alarms/alarm-sink.js';\nimport { createOutboundMail } from '../mail/outbound-mail.js';\nimport { GatewaySource } from '../mqtt/gateway-source.js';\nexport const wired = [alarmSink, createOutboundMail, GatewaySource];\n`],
   ])('allows %s', async (_what, filePath, code) => {
     expect(await ruleIds(filePath, code)).toEqual([]);
   }, LINT_TIMEOUT_MS);
