@@ -31,10 +31,9 @@ export type Detach = () => Promise<void> | void;
 export type Attachment = (httpServer: Server, ctx: AppContext) => Promise<Detach | void> | Detach | void;
 
 /**
- * ── ATTACHMENTS: other areas add one line each here (they run in this order before listen,
- * and are detached in reverse order on close), e.g. ──
- *   attachBenchManager,   (the bench manager's composition root, from ./compose/...)
- *   attachRecording,      (the composition root of recording, from ./compose/...)
+ * What runs before listen, in this order (detached in reverse on close): the MQTT link; the
+ * bench manager, the recording and the alarms from the composition roots in server/compose;
+ * instruments, programmes, Web Push and scheduled backups.
  */
 export const ATTACHMENTS: Attachment[] = [mqttAttachment(), attachBenchManager, attachRecording, attachInstruments, attachProgrammes, attachAlarms, attachPush, backupAttachment()];
 
