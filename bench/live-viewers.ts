@@ -7,7 +7,7 @@
  */
 import { performance } from 'node:perf_hooks';
 import WebSocket from 'ws';
-import type { ServerMessage } from '../shared/schemas/ws.js';
+import { timeColumn, type ServerMessage } from '../shared/schemas/ws.js';
 
 /** Parent → child. */
 export type ToViewers =
@@ -72,7 +72,7 @@ async function main(): Promise<void> {
           const now = wallMs() - m.epochMs;
           const msg = JSON.parse(String(data)) as ServerMessage;
           if (msg.type !== 'batch') return;
-          for (const t of msg.readings.t) {
+          for (const t of timeColumn(msg.readings)) {
             received++;
             if (measuring) delays.add(now - t * 1000);
           }

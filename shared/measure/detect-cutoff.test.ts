@@ -20,13 +20,13 @@ describe('end-voltage cutoff', () => {
     expect(cutoffs).toHaveLength(1);
     const c = cutoffs[0]!;
     expect(c.cause).toBe('end-voltage');
-    expect(Math.abs(c.t - 857.14)).toBeLessThan(6); // noise 0.03 V at 0.007 V/s moves it ≤ 4.3 s, + one sample
+    expect(Math.abs(c.elapsedSeconds - 857.14)).toBeLessThan(6); // noise 0.03 V at 0.007 V/s moves it ≤ 4.3 s, + one sample
     // Interpolated between the readings either side of the crossing: Ah between their totals.
-    const before = readings.filter((r) => r.elapsedSeconds <= c.t).at(-1)!;
-    const after = readings.find((r) => r.elapsedSeconds > c.t)!;
+    const before = readings.filter((r) => r.elapsedSeconds <= c.elapsedSeconds).at(-1)!;
+    const after = readings.find((r) => r.elapsedSeconds > c.elapsedSeconds)!;
     expect(c.dischargeAh).toBeGreaterThanOrEqual(before.dischargeAh);
     expect(c.dischargeAh).toBeLessThanOrEqual(after.dischargeAh);
-    expect(c.dischargeAh).toBeCloseTo((10 * c.t) / 3600, 2);
+    expect(c.dischargeAh).toBeCloseTo((10 * c.elapsedSeconds) / 3600, 2);
     expect(c.volts).toBe(20);
     expect(types(events)).toContain('milestone:near-end-voltage');
   });

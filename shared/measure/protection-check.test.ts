@@ -40,7 +40,7 @@ describe('protection checks', () => {
     expect(Math.abs(row!.measuredValue! - -0.1)).toBeLessThanOrEqual(0.03);
     expect(Math.abs(row!.releaseValue! - 3)).toBeLessThanOrEqual(0.03);
     expect(Math.abs(row!.resumeSeconds! - 545)).toBeLessThanOrEqual(1);
-    expect(events.some((e) => e.type === 'protection-check-release' && e.t === 750)).toBe(true);
+    expect(events.some((e) => e.type === 'protection-check-release' && e.elapsedSeconds === 750)).toBe(true);
     expect(row!.window!.fromSeconds).toBeLessThanOrEqual(200);
     expect(row!.window!.toSeconds).toBeGreaterThanOrEqual(750);
   });

@@ -15,7 +15,7 @@ describe('run pipeline', () => {
     const { events, readings } = createRunPipeline(PACK).pushMany(frames);
     const ms = events.filter((e) => e.type === 'milestone');
     expect(ms.map((e) => e.milestone).sort()).toEqual(['half-rated-ah', 'half-rated-wh', 'rated-ah', 'rated-wh']);
-    const at = (k: string): number => ms.find((e) => e.milestone === k)!.t;
+    const at = (k: string): number => ms.find((e) => e.milestone === k)!.elapsedSeconds;
     expect(Math.abs(at('half-rated-ah') - 9000)).toBeLessThanOrEqual(2); // 25 Ah at 10 A = 9000 s
     expect(Math.abs(at('rated-ah') - 18000)).toBeLessThanOrEqual(2); // 50 Ah at 10 A = 18000 s
     expect(Math.abs(at('rated-wh') - 18000)).toBeLessThanOrEqual(2); // 1280 Wh at 256 W = 18000 s

@@ -79,7 +79,7 @@ describe('a live run', () => {
   it('serves the history reduced to min/max buckets, and in full for a small window', async () => {
     const reduced = ReadingsResponseSchema.parse((await viewer.get(`/api/runs/${runId}/readings?maxPoints=100`).expect(200)).body);
     expect(reduced.reduced).toBe(true);
-    expect(reduced.t).toHaveLength(100);
+    expect(reduced.x).toHaveLength(100);
     expect(reduced.volts.max[0]).toBeCloseTo(V0, 9);
     expect(Math.min(...reduced.volts.min.filter((v: number | null) => v !== null))).toBeLessThan(END_VOLTS);
     expect(reduced.temps.cell.max[50]).toBe(25);
@@ -366,8 +366,8 @@ describe('a meter misbehaving mid-run', () => {
       const samples = ReadingsResponseSchema.parse((await viewer.get(`/api/runs/${run.id}/readings?maxPoints=1000`).expect(200)).body);
       expect(samples.readingsInWindow).toBe(40);
       // The restarted clock carries on after the last reading: run time only moves forward.
-      expect(samples.t).toEqual([...samples.t].sort((a, b) => a - b));
-      expect(samples.t.at(-1)).toBeGreaterThan(89);
+      expect(samples.x).toEqual([...samples.x].sort((a, b) => a - b));
+      expect(samples.x.at(-1)).toBeGreaterThan(89);
     });
   });
 });

@@ -18,10 +18,10 @@ export const IC_MIN_BIN_VOLTS = 0.01;
 export function dischargePoints(samples: ReadingsResponse, capacityAh: number): VoltChargePoint[] {
   const half = samples.reduced && samples.bucketSeconds ? samples.bucketSeconds / 2 : 0;
   const out: VoltChargePoint[] = [];
-  for (let i = 0; i < samples.t.length; i++) {
+  for (let i = 0; i < samples.x.length; i++) {
     const lo = samples.volts.min[i];
     const hi = samples.volts.max[i];
-    const ah = samples.t[i]! + half;
+    const ah = samples.x[i]! + half;
     if (lo === null || hi === null || lo === undefined || hi === undefined || ah > capacityAh) continue;
     out.push({ dischargeAh: ah, volts: (lo + hi) / 2 });
   }
