@@ -78,11 +78,13 @@ describe('LiveHub', () => {
     expect(sock.sent.filter((m) => m.type === 'event')).toHaveLength(1);
     // Once it drains it hears how many readings it missed.
     sock.bufferedAmount = 0;
-    hub.publishReading({ kind: 'run', id: 9 }, { ...reading, t: 1, elapsedSeconds: 1 });
+    hub.publishReading({ kind: 'run', id: 9 }, { ...reading, t: 1001, elapsedSeconds: 1 });
     hub.publishEvent(9, { type: 'annotation', elapsedSeconds: 1, text: 'flush' }, 6);
-    const batch = sock.sent.find((m) => m.type === 'batch') as { dropped: number; readings: { t: number[] } };
+    const batch = sock.sent.find((m) => m.type === 'batch') as { dropped: number; readings: { elapsedSeconds: number[]; t?: number[] } };
     expect(batch.dropped).toBe(1);
-    expect(batch.readings.t).toEqual([1]);
+    // A run topic's time column is run time; the source time `t` is not sent.
+    expect(batch.readings.elapsedSeconds).toEqual([1]);
+    expect(batch.readings.t).toBeUndefined();
   });
 
   it('stops sending to a client that unsubscribed or left', async () => {

@@ -46,7 +46,7 @@ describe('end-voltage cutoff', () => {
     const cutoffs = events.filter((e) => e.type === 'cutoff');
     expect(cutoffs).toHaveLength(1);
     // The reading at exactly 20.0 V (t = 50) has reached the end voltage (≤, not <).
-    expect(cutoffs[0]).toMatchObject({ cause: 'end-voltage', t: 50 });
+    expect(cutoffs[0]).toMatchObject({ cause: 'end-voltage', elapsedSeconds: 50 });
   });
 
   it('the operator switching the load off (aux.loadOn = 0) is not a cutoff', () => {
@@ -65,10 +65,10 @@ describe('protection cutoff and recovery', () => {
     });
     const { events } = createRunPipeline(LFP_8S).pushMany(frames);
     const cutoff = events.find((e) => e.type === 'cutoff')!;
-    expect(cutoff).toMatchObject({ cause: 'protection', signal: 'voltage-collapse', t: 500 });
+    expect(cutoff).toMatchObject({ cause: 'protection', signal: 'voltage-collapse', elapsedSeconds: 500 });
     expect(cutoff.volts).toBeCloseTo(24.701, 1);
     const rec = events.find((e) => e.type === 'recovery')!;
-    expect(rec).toMatchObject({ cutoffT: 500, t: 620 });
+    expect(rec).toMatchObject({ cutoffElapsedSeconds: 500, elapsedSeconds: 620 });
     expect(rec.recoverySeconds).toBe(120);
     expect(events.filter((e) => e.type === 'cutoff')).toHaveLength(1);
   });
@@ -83,7 +83,7 @@ describe('protection cutoff and recovery', () => {
     const { events } = createRunPipeline(LFP_8S).pushMany(frames);
     // The discharge goes on after the reconnect: said with a load-on, so the trip did not end the test.
     expect(types(events)).toEqual(['cutoff', 'recovery', 'load-on']);
-    expect(events[0]).toMatchObject({ cause: 'protection', signal: 'current-zero', t: 300 });
+    expect(events[0]).toMatchObject({ cause: 'protection', signal: 'current-zero', elapsedSeconds: 300 });
     expect(events[1]).toMatchObject({ recoverySeconds: 100 });
   });
 

@@ -19,7 +19,7 @@ describe('temperature protection trip delay', () => {
     const p = createRunPipeline({ tempProtections: [{ kind: 'low-temp-charge', channel: 'cell', limitCelsius: 0, direction: 'below', current: 'charge' }] });
     const trips = p.pushMany(frames).events.filter((e) => e.type === 'protection-trip');
     expect(trips).toHaveLength(1);
-    expect(trips[0]).toMatchObject({ kind: 'low-temp-charge', channel: 'cell', t: 360 });
+    expect(trips[0]).toMatchObject({ kind: 'low-temp-charge', channel: 'cell', elapsedSeconds: 360 });
     expect(Math.abs(trips[0]!.crossedElapsedSeconds - 300)).toBeLessThanOrEqual(1);
     expect(Math.abs(trips[0]!.delaySeconds - 60)).toBeLessThanOrEqual(1);
   });
@@ -55,8 +55,8 @@ describe('temperature protection already holding at the start', () => {
     const p = createRunPipeline({ tempProtections: [{ kind: 'low-temp-charge', channel: 'cell', limitCelsius: 0, direction: 'below', current: 'charge' }] });
     const ev = p.pushMany(frames).events.filter((e) => e.type === 'protection-trip' || e.type === 'protection-reset');
     expect(ev.map((e) => e.type)).toEqual(['protection-trip', 'protection-reset']);
-    expect(ev[0]).toMatchObject({ t: 0, tempCelsius: -4, beyondAtStart: true });
-    expect(ev[1]).toMatchObject({ t: 350, tempCelsius: 3 });
+    expect(ev[0]).toMatchObject({ elapsedSeconds: 0, tempCelsius: -4, beyondAtStart: true });
+    expect(ev[1]).toMatchObject({ elapsedSeconds: 350, tempCelsius: 3 });
   });
 });
 

@@ -30,7 +30,7 @@ describe('run pipeline', () => {
     expect(p.push({ t: 2, volts: Number.NaN, amps: 1, clock: 'device' })).toMatchObject({ reading: null, outcome: 'non-finite' });
     expect(p.push({ t: 0.5, volts: 12, amps: 1, clock: 'device' }).outcome).toBe('backwards');
     const gap = p.push({ t: 100, volts: 12, amps: 1, clock: 'device' });
-    expect(gap.events).toEqual([{ type: 'gap', t: 1, endT: 100, gapSeconds: 99 }]);
+    expect(gap.events).toEqual([{ type: 'gap', elapsedSeconds: 1, endElapsedSeconds: 100, gapSeconds: 99 }]);
     expect(p.totals().dischargeAh).toBeCloseTo(1 / 3600, 15);
   });
 
