@@ -7,7 +7,7 @@ import { LiveStore } from '../../lib/live-store';
 import { CutoffAlarm } from './cutoff-alarm';
 
 const topic = { kind: 'run', id: 12 } as const;
-const emptyColumns = { t: [], volts: [], amps: [], watts: [], temps: {} };
+const emptyColumns = { elapsedSeconds: [], volts: [], amps: [], watts: [], temps: {} };
 
 function run(state: Run['state']): Run {
   return {
@@ -75,7 +75,7 @@ describe('cutoff alarm', () => {
   it('acknowledges the run\'s open alarms on the server with the A key, then goes quiet', async () => {
     const posted: string[] = [];
     const alarm = (state: string) => ({
-      id: 7, runId: 12, benchId: 2, kind: 'protection-trip', priority: 'critical', state, message: 'Pack protection opened', t: 18_000,
+      id: 7, runId: 12, benchId: 2, kind: 'protection-trip', priority: 'critical', state, message: 'Pack protection opened', elapsedSeconds: 18_000,
       values: { volts: 20.01, amps: 19.8, dischargeWh: 2480.5, dischargeAh: 98.4, tempCelsius: null, runSeconds: 18_000 }, shelved: false,
       raisedAt: '2026-12-01T20:00:00.000Z', acknowledgedAt: null, acknowledgedBy: null, clearedAt: null, escalationStep: 0,
     });

@@ -34,7 +34,7 @@ describe('a capacity run page: incremental capacity and run time at other curren
     const { calls } = stubApi(demoUser('viewer'), (url) => {
       if (url === '/api/runs/9') return { status: 200, body: { run } };
       if (url.startsWith('/api/runs/9/events')) return { status: 200, body: { events: [] } };
-      if (url.startsWith('/api/runs/9/readings')) return { status: 200, body: url.includes('x=ah') ? samples : { ...samples, x: 't' } };
+      if (url.startsWith('/api/runs/9/readings')) return { status: 200, body: url.includes('x=ah') ? samples : { ...samples, axis: 'elapsedSeconds' } };
       return undefined;
     });
     renderAt('/runs/9');
