@@ -132,12 +132,13 @@ export class LiveStore {
         message.events.forEach((e) => this.eventListeners.forEach((l) => l(e, false)));
         if (message.resume !== 'resumed') this.snapshotListeners.forEach((l) => l(timeColumn(message.recent)[0] ?? null));
         break;
-      case 'batch':
+      case 'batch': {
         this.appendReadings(message.readings, false);
         const received = timeColumn(message.readings).length;
         if (received > 0) this.update({ receivedAtMs: this.nowMs(), status: this.countFrames(received + message.dropped) });
         if (message.dropped > 0) this.update({ droppedReadings: this.next.droppedReadings + message.dropped });
         break;
+      }
       case 'event':
         this.update({ events: [...this.next.events, message.event] });
         this.eventListeners.forEach((l) => l(message.event, true));
