@@ -45,6 +45,29 @@ describe('run pipeline', () => {
     expect(second.readings.at(-1)).toEqual(one.readings.at(-1));
   });
 
+  it('restores a cutoff state stored before the rename (run time as `t`, `cutoffT`) with the same events as one pass', () => {
+    // 10 A with the volts falling linearly from 25.6 V to 19 V over 2 h: it crosses the 20 V end voltage (8 × 2.5 V).
+    const falling = trace(0, 7200, (t) => ({ volts: 25.6 - (6.6 * t) / 7200, amps: 10, temps: { cell: 25 } }));
+    const one = createRunPipeline(PACK).pushMany(falling);
+    expect(one.events.some((e) => e.type === 'cutoff')).toBe(true);
+    const a = createRunPipeline(PACK);
+    // Stop while a cutoff waits for its confirmation: the candidate's run time is then in the stored state.
+    const before: RunEvent[] = [];
+    let split = 0;
+    while (split < falling.length && (a.snapshot().detector.cutoff.candidate ?? null) === null) before.push(...a.push(falling[split++]!).events);
+    expect(split).toBeLessThan(falling.length);
+    const stored = JSON.parse(JSON.stringify(a.snapshot())) as { detector: { cutoff: Record<string, unknown> & { candidate: Record<string, unknown>; prev: Record<string, unknown> } } };
+    const cutoff = stored.detector.cutoff;
+    const old = (o: Record<string, unknown>, from: string, to: string) => { o[to] = o[from]; delete o[from]; }; // vocab-rename: keep
+    old(cutoff.candidate, 'elapsedSeconds', 't'); // vocab-rename: keep
+    old(cutoff.prev, 'elapsedSeconds', 't'); // vocab-rename: keep
+    old(cutoff, 'cutoffElapsedSeconds', 'cutoffT'); // vocab-rename: keep
+    const b = createRunPipeline(PACK, stored);
+    const rest = b.pushMany(falling.slice(split));
+    expect([...before, ...rest.events]).toEqual(one.events);
+    expect(b.totals()).toEqual(totalsOf(one.readings.at(-1)!));
+  });
+
   it('refuses a corrupt snapshot with a clear error', () => {
     expect(() => createRunPipeline(PACK, { version: 1, config: {} })).toThrow();
   });
