@@ -6,7 +6,7 @@
  * link, hub, socket.
  */
 import WebSocket from 'ws';
-import type { ServerMessage } from '../shared/schemas/ws.js';
+import { timeColumn, type ServerMessage } from '../shared/schemas/ws.js';
 import { DelayHistogram, wallMs } from './delay-histogram.js';
 import { MS_PER_S } from '../shared/units/time.js';
 
@@ -41,7 +41,7 @@ function onMessage(data: string): void {
   if (msg.type !== 'batch' || msg.topic.kind !== 'bench') return;
   dropped += msg.dropped;
   const epoch = epochs.get(msg.topic.id);
-  for (const t of msg.readings.t) {
+  for (const t of timeColumn(msg.readings)) {
     received++;
     if (measuring && epoch !== undefined) delays.add(now - (epoch + (t * MS_PER_S) / speed));
   }

@@ -6,7 +6,7 @@
  * epoch on the wall clock) to the batch holding it being parsed here.
  */
 import WebSocket from 'ws';
-import type { ServerMessage } from '../shared/schemas/ws.js';
+import { timeColumn, type ServerMessage } from '../shared/schemas/ws.js';
 import { DelayHistogram, wallMs } from './delay-histogram.js';
 
 /** Parent → child. */
@@ -48,7 +48,7 @@ async function main(): Promise<void> {
           const now = wallMs() - m.epochMs;
           const msg = JSON.parse(String(data)) as ServerMessage;
           if (msg.type !== 'batch') return;
-          for (const t of msg.readings.t) {
+          for (const t of timeColumn(msg.readings)) {
             received++;
             if (measuring) delays.add(now - t * 1000);
           }

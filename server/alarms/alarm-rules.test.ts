@@ -4,18 +4,18 @@ import { retryDelayMs } from '../queue/retry-policy.js';
 
 describe('alarm rules', () => {
   it('maps the run\'s events to alarm kinds', () => {
-    expect(alarmActionFor({ type: 'cutoff', t: 1, cause: 'end-voltage', volts: 12, amps: 10, dischargeWh: 1, dischargeAh: 1 })).toMatchObject({ type: 'raise', kind: 'cutoff' });
-    expect(alarmActionFor({ type: 'cutoff', t: 1, cause: 'protection', signal: 'voltage-collapse', volts: 2, amps: 10, dischargeWh: 1, dischargeAh: 1 })).toMatchObject({ type: 'raise', kind: 'protection-trip' });
-    expect(alarmActionFor({ type: 'alarm', t: 1, level: 'warning', code: 'over-temperature', message: 'hot' })).toMatchObject({ type: 'raise', kind: 'over-temperature' });
-    expect(alarmActionFor({ type: 'milestone', t: 1, milestone: 'near-end-voltage', volts: 12.1, dischargeWh: 1, dischargeAh: 1 })).toMatchObject({ type: 'raise', kind: 'near-end' });
-    expect(alarmActionFor({ type: 'source-restored', t: 1 })).toEqual({ type: 'clear', kind: 'source-lost' });
+    expect(alarmActionFor({ type: 'cutoff', elapsedSeconds: 1, cause: 'end-voltage', volts: 12, amps: 10, dischargeWh: 1, dischargeAh: 1 })).toMatchObject({ type: 'raise', kind: 'cutoff' });
+    expect(alarmActionFor({ type: 'cutoff', elapsedSeconds: 1, cause: 'protection', signal: 'voltage-collapse', volts: 2, amps: 10, dischargeWh: 1, dischargeAh: 1 })).toMatchObject({ type: 'raise', kind: 'protection-trip' });
+    expect(alarmActionFor({ type: 'alarm', elapsedSeconds: 1, level: 'warning', code: 'over-temperature', message: 'hot' })).toMatchObject({ type: 'raise', kind: 'over-temperature' });
+    expect(alarmActionFor({ type: 'milestone', elapsedSeconds: 1, milestone: 'near-end-voltage', volts: 12.1, dischargeWh: 1, dischargeAh: 1 })).toMatchObject({ type: 'raise', kind: 'near-end' });
+    expect(alarmActionFor({ type: 'source-restored', elapsedSeconds: 1 })).toEqual({ type: 'clear', kind: 'source-lost' });
     // A programme failing safe calls a person; its other step changes do not.
-    expect(alarmActionFor({ type: 'programme-step', t: 5, phase: 'fail', index: 2, label: 'Discharge 20 A to 11.2 V', reason: 'meter silent for 2 s' }))
+    expect(alarmActionFor({ type: 'programme-step', elapsedSeconds: 5, phase: 'fail', index: 2, label: 'Discharge 20 A to 11.2 V', reason: 'meter silent for 2 s' }))
       .toEqual({ type: 'raise', kind: 'programme-failed', message: 'Programme failed safe at step 3 (Discharge 20 A to 11.2 V): meter silent for 2 s. Outputs switched off.' });
-    expect(alarmActionFor({ type: 'programme-step', t: 5, phase: 'end', index: 2, label: 'Discharge' })).toBeNull();
-    expect(alarmActionFor({ type: 'programme-step', t: 5, phase: 'abort', index: 2, label: 'Discharge', reason: 'aborted by a technician' })).toBeNull();
+    expect(alarmActionFor({ type: 'programme-step', elapsedSeconds: 5, phase: 'end', index: 2, label: 'Discharge' })).toBeNull();
+    expect(alarmActionFor({ type: 'programme-step', elapsedSeconds: 5, phase: 'abort', index: 2, label: 'Discharge', reason: 'aborted by a technician' })).toBeNull();
     // A reconnect after a cutoff clears nothing: the cutoff alarm latches until acknowledged.
-    expect(alarmActionFor({ type: 'recovery', t: 2, cutoffT: 1, recoverySeconds: 1, volts: 13 })).toBeNull();
+    expect(alarmActionFor({ type: 'recovery', elapsedSeconds: 2, cutoffElapsedSeconds: 1, recoverySeconds: 1, volts: 13 })).toBeNull();
   });
 
   it('names the four lifecycle states of ISA-18.2 (unacknowledged, acknowledged, return to normal unacknowledged, normal)', () => {

@@ -103,7 +103,7 @@ export class AlarmService {
   onRunEvent(runId: number, event: RunEvent): void {
     const action = alarmActionFor(event);
     if (!action) return;
-    if (action.type === 'raise') this.serial(runId, () => this.raise(runId, action.kind, action.message, event.t, event));
+    if (action.type === 'raise') this.serial(runId, () => this.raise(runId, action.kind, action.message, event.elapsedSeconds, event));
     else this.serial(runId, async () => void (await this.clear(runId, action.kind)));
   }
 
@@ -183,7 +183,7 @@ export class AlarmService {
     const settings = await repo.settings();
     const escalates = priority === 'critical' && !shelved;
     const alarm = await repo.insert({
-      runId, benchId: context.benchId, kind, priority, message, t, values: this.values(runId, t, event), shelved, raisedAt: now,
+      runId, benchId: context.benchId, kind, priority, message, elapsedSeconds: t, values: this.values(runId, t, event), shelved, raisedAt: now,
       nextEscalationAt: escalates ? new Date(now.getTime() + settings.escalateAfterMinutes * MS_PER_MINUTE) : null,
     });
     // A notice of something that has already happened (run finished) has no condition to return from.
@@ -256,8 +256,8 @@ export class AlarmService {
     const at = this.now();
     if (!(await repo.acknowledge(alarmId, user.id, at, LATCHING_KINDS.has(alarm.kind)))) return alarm;
     await this.deps.queue.cancelForAlarm(alarmId);
-    const t = this.live.get(alarm.runId)?.reading.elapsedSeconds ?? alarm.t;
-    await this.deps.recordRunEvent(alarm.runId, { type: 'alarm-ack', t, alarmId, code: alarm.kind, by: user.name, at: at.toISOString() }, user.id);
+    const elapsedSeconds = this.live.get(alarm.runId)?.reading.elapsedSeconds ?? alarm.elapsedSeconds;
+    await this.deps.recordRunEvent(alarm.runId, { type: 'alarm-ack', elapsedSeconds, alarmId, code: alarm.kind, by: user.name, at: at.toISOString() }, user.id);
     const updated = (await repo.get(alarmId))!;
     this.changes.emit(updated);
     return updated;

@@ -14,7 +14,7 @@ function delivery(over: Partial<AlarmDelivery> = {}): AlarmDelivery {
     user: { id: 3, name: INJECTED, email: 'pat@northgate.example' },
     alarm: {
       id: 11, runId: 5, benchId: 2, kind: 'cutoff', priority: 'critical', state: 'unacknowledged',
-      message: 'End voltage reached\r\nSubject: forged', t: 1200,
+      message: 'End voltage reached\r\nSubject: forged', elapsedSeconds: 1200,
       values: { volts: 12, amps: 10, dischargeWh: 42, dischargeAh: 10 / 3, tempCelsius: 25, runSeconds: 1200 },
       shelved: false, raisedAt: '2026-01-01T00:00:00.000Z', acknowledgedAt: null, acknowledgedBy: null, clearedAt: null, escalationStep: 0,
     },

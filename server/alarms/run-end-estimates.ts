@@ -37,7 +37,7 @@ export class RunEndEstimates {
       entry = { estimator: new EndEstimator(ratedWhOfConfig(facts.config)), minutes: null };
       this.runs.set(runId, entry);
     }
-    const estimate = entry.estimator.push({ t: reading.elapsedSeconds, volts: reading.volts, amps: reading.amps, dischargeWh: reading.dischargeWh });
+    const estimate = entry.estimator.push({ elapsedSeconds: reading.elapsedSeconds, volts: reading.volts, amps: reading.amps, dischargeWh: reading.dischargeWh });
     entry.minutes = estimate.secondsToEnd === null ? null : estimate.secondsToEnd / SECONDS_PER_MINUTE;
   }
 

@@ -1,5 +1,8 @@
 import { mkdir, readdir, readFile, rename, unlink, writeFile } from 'node:fs/promises';
 import { join } from 'node:path';
+import { eventWithCurrentKeys, summaryWithCurrentKeys } from '../../shared/schemas/legacy-keys.js';
+import type { RunEvent } from '../../shared/schemas/run-event.js';
+import type { RunSummary } from '../../shared/schemas/run-summary.js';
 import type { ArchiveBatch } from './archive-batch.js';
 
 const SPILL_SUFFIX = '.batch.json';
@@ -85,8 +88,11 @@ export class SpillStore {
     return {
       ...s,
       block: s.block ? { ...s.block, data: Buffer.from(s.block.data, 'base64'), stats: Buffer.from(s.block.stats, 'base64') } : null,
+      // A batch spilled by a server from before the run-time rename says `t`, `endT`, ...: read them as the current names.
+      events: s.events.map(({ eventSeq, event }) => ({ eventSeq, event: eventWithCurrentKeys(event) as RunEvent })),
       patch: {
         ...s.patch,
+        ...(s.patch.summary ? { summary: summaryWithCurrentKeys(s.patch.summary) as RunSummary } : {}),
         startedAt: s.patch.startedAt ? new Date(s.patch.startedAt) : undefined,
         endedAt: s.patch.endedAt ? new Date(s.patch.endedAt) : undefined,
       },

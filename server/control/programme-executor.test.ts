@@ -60,12 +60,12 @@ describe('programme executor: charge, rest, discharge, rest on a fake bench', ()
     expect(Math.abs(charge!.chargeAh - r.bench.truthChargeAh) / r.bench.truthChargeAh).toBeLessThan(0.005);
     expect(Math.abs(discharge!.dischargeAh - r.bench.truthDischargeAh) / r.bench.truthDischargeAh).toBeLessThan(0.005);
     // A 5 A constant-current discharge: Ah = A × h over the step's own duration.
-    expect(discharge!.dischargeAh).toBeCloseTo((5 * (discharge!.endT - discharge!.startT)) / HOUR_S, 2);
+    expect(discharge!.dischargeAh).toBeCloseTo((5 * (discharge!.endElapsedSeconds - discharge!.startElapsedSeconds)) / HOUR_S, 2);
     // At rest nothing flows; the only Ah is the trapezoid's share of the panel across the switch-off (under one reading's worth).
     expect(rest!.chargeAh + rest!.dischargeAh).toBeLessThan((0.5 * 1) / HOUR_S);
-    expect(rest!.endT - rest!.startT).toBeGreaterThanOrEqual(59);
+    expect(rest!.endElapsedSeconds - rest!.startElapsedSeconds).toBeGreaterThanOrEqual(59);
     // Settled: at rest the model's voltage is flat, so one window (60 s) after the step began.
-    expect(lastRest!.endT - lastRest!.startT).toBeLessThan(70);
+    expect(lastRest!.endElapsedSeconds - lastRest!.startElapsedSeconds).toBeLessThan(70);
     expect(discharge!.endVolts).toBeLessThanOrEqual(24.5);
     expect(r.load.outputOn).toBe(false);
     expect(r.supply.outputOn).toBe(false);

@@ -240,7 +240,7 @@ export class ProgrammeExecutor {
     const totals = start && this.latest ? stepTotals(start, this.latest) : { chargeAh: 0, chargeWh: 0, dischargeAh: 0, dischargeWh: 0 };
     this.results.push({
       index: planned.index, label: planned.label, kind: planned.step.kind, outcome, cause, reason,
-      startT: start?.elapsedSeconds ?? 0, endT: this.latest?.elapsedSeconds ?? 0, ...totals, endVolts: this.latest?.volts ?? null,
+      startElapsedSeconds: start?.elapsedSeconds ?? 0, endElapsedSeconds: this.latest?.elapsedSeconds ?? 0, ...totals, endVolts: this.latest?.volts ?? null,
     });
   }
 
@@ -276,7 +276,7 @@ export class ProgrammeExecutor {
   private emit(phase: ProgrammeStepEvent['phase'], reason?: string): void {
     const index = this.index ?? 0;
     const label = this.deps.plan[index]?.label ?? '';
-    this.deps.onStepEvent({ type: 'programme-step', t: this.latest?.elapsedSeconds ?? 0, phase, index, label, ...(reason ? { reason } : {}) });
+    this.deps.onStepEvent({ type: 'programme-step', elapsedSeconds: this.latest?.elapsedSeconds ?? 0, phase, index, label, ...(reason ? { reason } : {}) });
   }
 
   private schedule(): void {

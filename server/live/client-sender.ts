@@ -106,7 +106,7 @@ export class ClientSender {
       return;
     }
     this.dropped.set(key, 0);
-    this.send({ type: 'batch', seq, topic, readings: toReadingColumns(readings, keep), dropped: owed + droppedNow });
+    this.send({ type: 'batch', seq, topic, readings: toReadingColumns(topic.kind, readings, keep), dropped: owed + droppedNow });
   }
 
   /** Forgets a topic's thinning counters (after an unsubscribe). */

@@ -73,16 +73,18 @@ describe('LiveHub', () => {
     sock.bufferedAmount = READINGS_STOP_BYTES * 2;
     const reading = { ...frame(0), elapsedSeconds: 0, watts: 12, dischargeWh: 0, dischargeAh: 0, chargeWh: 0, chargeAh: 0 };
     hub.publishReading({ kind: 'run', id: 9 }, reading);
-    hub.publishEvent(9, { type: 'annotation', t: 0, text: 'note' }, 5);
+    hub.publishEvent(9, { type: 'annotation', elapsedSeconds: 0, text: 'note' }, 5);
     expect(sock.sent.filter((m) => m.type === 'batch')).toHaveLength(0);
     expect(sock.sent.filter((m) => m.type === 'event')).toHaveLength(1);
     // Once it drains it hears how many readings it missed.
     sock.bufferedAmount = 0;
-    hub.publishReading({ kind: 'run', id: 9 }, { ...reading, t: 1, elapsedSeconds: 1 });
-    hub.publishEvent(9, { type: 'annotation', t: 1, text: 'flush' }, 6);
-    const batch = sock.sent.find((m) => m.type === 'batch') as { dropped: number; readings: { t: number[] } };
+    hub.publishReading({ kind: 'run', id: 9 }, { ...reading, t: 1001, elapsedSeconds: 1 });
+    hub.publishEvent(9, { type: 'annotation', elapsedSeconds: 1, text: 'flush' }, 6);
+    const batch = sock.sent.find((m) => m.type === 'batch') as { dropped: number; readings: { elapsedSeconds: number[]; t?: number[] } };
     expect(batch.dropped).toBe(1);
-    expect(batch.readings.t).toEqual([1]);
+    // A run topic's time column is run time; the source time `t` is not sent.
+    expect(batch.readings.elapsedSeconds).toEqual([1]);
+    expect(batch.readings.t).toBeUndefined();
   });
 
   it('stops sending to a client that unsubscribed or left', async () => {
@@ -188,10 +190,10 @@ describe('LiveHub: a byte budget per client for every message type', () => {
     (hub as unknown as { opts: { source: { run: unknown } } }).opts.source.run = async () => ({ run: null, events: [] });
     await hub.subscribe(c, { kind: 'run', id: 2 });
     sock.bufferedAmount = CLIENT_BUDGET_BYTES;
-    for (let i = 0; i < 5; i++) hub.publishEvent(2, { type: 'annotation', t: i, text: `n${i}` }, i);
+    for (let i = 0; i < 5; i++) hub.publishEvent(2, { type: 'annotation', elapsedSeconds: i, text: `n${i}` }, i);
     expect(sock.sent.filter((m) => m.type === 'event')).toHaveLength(5);
     now = OVER_BUDGET_GRACE_MS;
-    hub.publishEvent(2, { type: 'annotation', t: 9, text: 'late' }, 9);
+    hub.publishEvent(2, { type: 'annotation', elapsedSeconds: 9, text: 'late' }, 9);
     expect(closed).toBe(1);
     expect(c.isOpen).toBe(false);
   });

@@ -107,8 +107,8 @@ export class LiveHub {
     const run = topic.kind === 'bench' ? (this.opts.source.benchRun?.(topic.id) ?? null) : found!.run;
     const resume: SnapshotResume = !after ? 'fresh' : this.missedSince(state, after) ? 'resumed' : 'refetch';
     let recentJson: string;
-    if (resume === 'resumed') recentJson = JSON.stringify(toReadingColumns(this.missedSince(state, after!)!));
-    else recentJson = state.recentJson ??= JSON.stringify(toReadingColumns(state.recent.slice(-RECENT_READINGS)));
+    if (resume === 'resumed') recentJson = JSON.stringify(toReadingColumns(topic.kind, this.missedSince(state, after!)!));
+    else recentJson = state.recentJson ??= JSON.stringify(toReadingColumns(topic.kind, state.recent.slice(-RECENT_READINGS)));
     const head = JSON.stringify({ type: 'snapshot', stream: state.stream, seq: state.seq, resume, topic, status, run });
     client.sendPayload(`${head.slice(0, -1)},"recent":${recentJson},"events":${JSON.stringify(found?.events ?? [])}}`);
   }
@@ -255,7 +255,7 @@ export class LiveHub {
     state.pending = [];
     state.lastFlushMs = this.now();
     let shared: string | null = null;
-    const build = () => (shared ??= JSON.stringify({ type: 'batch', seq: state.seq, topic: state.topic, readings: toReadingColumns(readings), dropped: 0 }));
+    const build = () => (shared ??= JSON.stringify({ type: 'batch', seq: state.seq, topic: state.topic, readings: toReadingColumns(state.topic.kind, readings), dropped: 0 }));
     for (const c of state.subscribers) c.sendBatch(state.topic, state.seq, readings, build);
   }
 }

@@ -3,6 +3,7 @@ import { planSteps } from '../../shared/measure/programme-plan.js';
 import { programmeRoundTrips } from '../../shared/measure/programme-round-trip.js';
 import { ProgrammeInputSchema, type ProgrammeInput } from '../../shared/schemas/programme.js';
 import { StepResultSchema, type CommandLogRow, type ProgrammeRunState, type RunProgramme, type StepResult } from '../../shared/schemas/programme-run.js';
+import { LEGACY_RUN_TIME_KEYS, withCurrentKeys } from '../../shared/schemas/legacy-keys.js';
 import { utcDateTime } from '../db/utc-datetime.js';
 
 interface RunProgrammeRow {
@@ -58,7 +59,7 @@ export class RunProgrammesRepo {
     const [row] = await this.sequelize.query<RunProgrammeRow>('SELECT * FROM run_programmes WHERE runId = ?', { replacements: [runId], type: QueryTypes.SELECT });
     if (!row) return null;
     const programme = ProgrammeInputSchema.parse(json(row.programme));
-    const results = StepResultSchema.array().parse(json(row.results));
+    const results = StepResultSchema.array().parse(withCurrentKeys(json(row.results), LEGACY_RUN_TIME_KEYS));
     return {
       runId: row.runId, programmeId: row.programmeId, programme, stepLabels: planSteps(programme.steps).map((s) => s.label),
       state: row.state, currentIndex: row.currentIndex, stepStartedAtMs: row.stepStartedAtMs === null ? null : Number(row.stepStartedAtMs),

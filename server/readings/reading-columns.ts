@@ -1,6 +1,6 @@
 import type { Frame } from '../../shared/schemas/frame.js';
 import type { Reading } from '../../shared/schemas/reading.js';
-import type { ReadingColumns } from '../../shared/schemas/ws.js';
+import type { ReadingColumns, Topic } from '../../shared/schemas/ws.js';
 
 /**
  * The one place readings become columns, for both sinks: the live hub sends them to
@@ -42,19 +42,22 @@ function channelsOf(readings: readonly LiveReading[], idx: Iterable<number>, kin
 const allIndices = (n: number): number[] => Array.from({ length: n }, (_, i) => i);
 
 /**
- * Columns of the readings at `indices` (all when omitted), in the WebSocket's shape. For
- * run readings `t` is the run time and the totals are included.
+ * Columns of the readings at `indices` (all when omitted), in the WebSocket's shape. A run
+ * topic's time column is `elapsedSeconds` (run time) and its totals are included; a bench
+ * topic's is `t` (the frame's source time). The topic decides, so an empty batch has the right one.
  */
-export function toReadingColumns(readings: readonly LiveReading[], indices?: readonly number[]): ReadingColumns {
+export function toReadingColumns(topicKind: Topic['kind'], readings: readonly LiveReading[], indices?: readonly number[]): ReadingColumns {
   const idx = indices ?? allIndices(readings.length);
   const withTotals = readings.length > 0 && isReading(readings[0]!);
-  const cols: ReadingColumns = { t: [], volts: [], amps: [], watts: [], temps: {} };
+  const time: number[] = [];
+  const base = { volts: [] as number[], amps: [] as number[], watts: [] as number[], temps: {} as Record<string, (number | null)[]> };
+  const cols: ReadingColumns = topicKind === 'run' ? { elapsedSeconds: time, ...base } : { t: time, ...base };
   if (withTotals) Object.assign(cols, { dischargeWh: [], dischargeAh: [], chargeWh: [], chargeAh: [] });
   const channels = channelsOf(readings, idx, 'temps');
   for (const ch of channels) cols.temps[ch] = [];
   for (const i of idx) {
     const s = readings[i]!;
-    cols.t.push(isReading(s) ? s.elapsedSeconds : s.t);
+    time.push(topicKind === 'run' && isReading(s) ? s.elapsedSeconds : s.t);
     cols.volts.push(s.volts);
     cols.amps.push(s.amps);
     cols.watts.push(s.volts * s.amps);

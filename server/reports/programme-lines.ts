@@ -9,7 +9,7 @@ export function programmeReportLines(p: RunProgramme): string[] {
   const lines = [`${p.programme.name}: ${p.state}${p.failReason ? ` (${p.failReason})` : ''}; cautions acknowledged by ${p.cautionsAcknowledgedBy}`];
   for (const r of p.results)
     lines.push(
-      `${r.label}: ${OUTCOME_WORD[r.outcome]}, ${r.reason}; ${formatDuration(r.endT - r.startT)}; in ${formatCharge(r.chargeAh)}, ${formatEnergy(r.chargeWh)}; out ${formatCharge(r.dischargeAh)}, ${formatEnergy(r.dischargeWh)}; end ${formatVolts(r.endVolts, 3)}`,
+      `${r.label}: ${OUTCOME_WORD[r.outcome]}, ${r.reason}; ${formatDuration(r.endElapsedSeconds - r.startElapsedSeconds)}; in ${formatCharge(r.chargeAh)}, ${formatEnergy(r.chargeWh)}; out ${formatCharge(r.dischargeAh)}, ${formatEnergy(r.dischargeWh)}; end ${formatVolts(r.endVolts, 3)}`,
     );
   for (const t of p.roundTrips)
     lines.push(`Round trip ${p.stepLabels[t.dischargeIndex]} to ${p.stepLabels[t.chargeIndex]}: energy ${formatPercent(t.energyEfficiency * PERCENT)}, charge ${formatPercent(t.coulombicEfficiency * PERCENT)}`);

@@ -66,7 +66,7 @@ function drawVoltsChart(doc: PDFKit.PDFDocument, readings: ReadingsResponse): vo
   const width = doc.page.width - 2 * MARGIN_PT;
   doc.rect(x0, y0, width, CHART_HEIGHT_PT).lineWidth(CHART_LINE_PT).stroke();
   const vals = [...readings.volts.min, ...readings.volts.max].filter((v): v is number => v !== null);
-  if (vals.length > 0 && readings.t.length > 0) {
+  if (vals.length > 0 && readings.x.length > 0) {
     const [vMin, vMax] = [Math.min(...vals), Math.max(...vals)];
     const span = vMax - vMin || 1;
     const tMin = readings.from;
@@ -74,7 +74,7 @@ function drawVoltsChart(doc: PDFKit.PDFDocument, readings: ReadingsResponse): vo
     const px = (t: number) => x0 + ((t - tMin) / tSpan) * width;
     const py = (v: number) => y0 + CHART_HEIGHT_PT - ((v - vMin) / span) * CHART_HEIGHT_PT;
     let pen = false;
-    readings.t.forEach((t, i) => {
+    readings.x.forEach((t, i) => {
       const lo = readings.volts.min[i];
       const hi = readings.volts.max[i];
       if (lo == null || hi == null) return void (pen = false);
@@ -93,7 +93,7 @@ function drawVoltsChart(doc: PDFKit.PDFDocument, readings: ReadingsResponse): vo
 function eventLine(e: StoredRunEvent): string {
   const ev = e.event;
   const detail = ev.type === 'annotation' ? `note: ${ev.text}` : ev.type;
-  return `${formatElapsedClock(ev.t)}  ${detail}`;
+  return `${formatElapsedClock(ev.elapsedSeconds)}  ${detail}`;
 }
 
 /** Prints the sign-off block: the frozen figures' state, the sign-off that holds, the earlier ones. */

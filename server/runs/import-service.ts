@@ -173,7 +173,7 @@ export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: Impor
       runId: run.id, firstSeq: seq, readings: [], events: events.map((event, eventSeq) => ({ eventSeq, event })),
       patch: { state: 'finished', summary, readingsCount: seq, endedAt: new Date() },
     });
-    const cutoff = summary.capacityEndSeconds !== null ? events.find((e): e is CutoffEvent => e.type === 'cutoff' && e.t === summary.capacityEndSeconds) ?? null : null;
+    const cutoff = summary.capacityEndSeconds !== null ? events.find((e): e is CutoffEvent => e.type === 'cutoff' && e.elapsedSeconds === summary.capacityEndSeconds) ?? null : null;
     const recovery = events.find((e): e is RecoveryEvent => e.type === 'recovery') ?? null;
     const totals = pipeline.totals();
     return {
@@ -182,7 +182,7 @@ export async function importRun(sequelize: Sequelize, repo: RunsRepo, req: Impor
         energyWh: summary.capacityWh ?? totals.dischargeWh,
         dischargeAh: summary.capacityAh ?? totals.dischargeAh,
         durationSeconds: summary.durationSeconds,
-        cutoff: cutoff ? { atSeconds: cutoff.t, volts: cutoff.volts } : null,
+        cutoff: cutoff ? { atSeconds: cutoff.elapsedSeconds, volts: cutoff.volts } : null,
         recoverySeconds: recovery?.recoverySeconds ?? null,
         rows,
         duplicateTimes: duplicates,

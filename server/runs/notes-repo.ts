@@ -1,6 +1,7 @@
 import { QueryTypes, type Sequelize } from 'sequelize';
 import type { NoteRevision } from '../../shared/schemas/api-runs.js';
-import { RunEventSchema, type AnnotationEvent, type RunEvent } from '../../shared/schemas/run-event.js';
+import type { AnnotationEvent, RunEvent } from '../../shared/schemas/run-event.js';
+import { parseStoredRunEvent } from './stored-run-event.js';
 
 /** A stored event with its author, as a note change needs it. */
 export interface StoredEventRow {
@@ -31,7 +32,7 @@ export class NotesRepo {
       { replacements: [eventId, runId], type: QueryTypes.SELECT },
     );
     const row = rows[0];
-    return row ? { id: row.id, runId: row.runId, event: RunEventSchema.parse(JSON.parse(row.data)), createdById: row.createdById } : null;
+    return row ? { id: row.id, runId: row.runId, event: parseStoredRunEvent(row.data), createdById: row.createdById } : null;
   }
 
   /** Writes the change (new text, or removal) and its revision in one transaction. */
@@ -41,7 +42,7 @@ export class NotesRepo {
         `INSERT INTO run_note_revisions (runId, eventId, action, previousText, newText, t, changedById, changedByName, changedAt)
          VALUES (?, ?, ?, ?, ?, ?, ?, ?, NOW(3))`,
         {
-          replacements: [change.runId, change.eventId, change.next ? 'edited' : 'removed', change.previous.text, change.next?.text ?? null, change.previous.t, change.changedById, change.changedByName],
+          replacements: [change.runId, change.eventId, change.next ? 'edited' : 'removed', change.previous.text, change.next?.text ?? null, change.previous.elapsedSeconds, change.changedById, change.changedByName],
           type: QueryTypes.INSERT,
           transaction,
         },
@@ -61,7 +62,7 @@ export class NotesRepo {
       changedById: number | null; changedByName: string; changedAt: Date | string;
     }>('SELECT * FROM run_note_revisions WHERE runId = ? ORDER BY id', { replacements: [runId], type: QueryTypes.SELECT });
     return rows.map((r) => ({
-      id: r.id, runId: r.runId, eventId: r.eventId, action: r.action === 'removed' ? 'removed' : 'edited', t: r.t,
+      id: r.id, runId: r.runId, eventId: r.eventId, action: r.action === 'removed' ? 'removed' : 'edited', elapsedSeconds: r.t,
       previousText: r.previousText, newText: r.newText, changedBy: r.changedById, changedByName: r.changedByName,
       changedAt: new Date(r.changedAt).toISOString(),
     }));

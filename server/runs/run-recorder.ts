@@ -168,7 +168,7 @@ export class RunRecorder {
     });
     const session = new RunSession(run, battery, measureConfigFor(config, battery, source));
     this.register(session);
-    this.emitEvent(run.id, session.addEvent({ type: 'run-start', t: 0 }));
+    this.emitEvent(run.id, session.addEvent({ type: 'run-start', elapsedSeconds: 0 }));
     this.deps.archive.enqueue(session.takeBatch());
     this.runChanges.emit(run);
     return run;
@@ -221,18 +221,18 @@ export class RunRecorder {
   }
 
   /** Adds an annotation at a run time (default: the latest reading) and tells every viewer. */
-  async annotate(runId: number, text: string, t: number | undefined, author: { id: number; name: string }): Promise<StoredRunEvent> {
+  async annotate(runId: number, text: string, elapsedSeconds: number | undefined, author: { id: number; name: string }): Promise<StoredRunEvent> {
     const session = this.sessions.get(runId);
     const stored = session ? null : await this.deps.repo.get(runId);
     if (!session && !stored) throw notFound(`Run ${runId}`);
     // A note belongs within the run: up to its latest reading (live), or its length (ended).
     const lengthSeconds = session ? (session.lastElapsedSeconds ?? 0) + NOTE_AHEAD_OF_LIVE_S : (stored?.summary?.durationSeconds ?? null);
-    if (t !== undefined && lengthSeconds !== null && t > lengthSeconds) {
+    if (elapsedSeconds !== undefined && lengthSeconds !== null && elapsedSeconds > lengthSeconds) {
       const what = session ? 'the latest reading' : 'the end of the run';
-      throw new InvalidInputError(`The note's time (${t} s) is after ${what} (${lengthSeconds.toFixed(1)} s)`, { t: [`at most ${lengthSeconds.toFixed(1)} s`] });
+      throw new InvalidInputError(`The note's time (${elapsedSeconds} s) is after ${what} (${lengthSeconds.toFixed(1)} s)`, { elapsedSeconds: [`at most ${lengthSeconds.toFixed(1)} s`] });
     }
-    const at = t ?? session?.lastElapsedSeconds ?? 0;
-    const note = await this.deps.repo.insertEvent(runId, { type: 'annotation', t: at, text, author: author.name }, author.id);
+    const at = elapsedSeconds ?? session?.lastElapsedSeconds ?? 0;
+    const note = await this.deps.repo.insertEvent(runId, { type: 'annotation', elapsedSeconds: at, text, author: author.name }, author.id);
     session?.events.push(note.event);
     this.events.emit(runId, note);
     return note;
@@ -242,7 +242,7 @@ export class RunRecorder {
   noteChanged(change: NoteChangeRecord): void {
     const events = this.sessions.get(change.runId)?.events;
     if (events) {
-      const i = events.findIndex((e) => e.type === 'annotation' && e.t === change.previous.t && e.text === change.previous.text && e.author === change.previous.author);
+      const i = events.findIndex((e) => e.type === 'annotation' && e.elapsedSeconds === change.previous.elapsedSeconds && e.text === change.previous.text && e.author === change.previous.author);
       if (i >= 0) {
         if (change.next) events[i] = change.next;
         else events.splice(i, 1);
@@ -347,8 +347,8 @@ export class RunRecorder {
     const down = SOURCE_DOWN_STATES.has(status.state);
     const lastWasLost = [...session.events].reverse().find((e) => e.type === 'source-lost' || e.type === 'source-restored')?.type === 'source-lost';
     const t = session.lastElapsedSeconds ?? 0;
-    if (down && !lastWasLost) this.emitEvent(session.run.id, session.addEvent({ type: 'source-lost', t, reason: status.message ?? status.state }));
-    if (status.state === 'receiving' && lastWasLost) this.emitEvent(session.run.id, session.addEvent({ type: 'source-restored', t }));
+    if (down && !lastWasLost) this.emitEvent(session.run.id, session.addEvent({ type: 'source-lost', elapsedSeconds: t, reason: status.message ?? status.state }));
+    if (status.state === 'receiving' && lastWasLost) this.emitEvent(session.run.id, session.addEvent({ type: 'source-restored', elapsedSeconds: t }));
   }
 
   private async endSession(session: RunSession, state: 'finished' | 'aborted'): Promise<Run> {

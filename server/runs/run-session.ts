@@ -119,9 +119,9 @@ export class RunSession {
     for (const event of events) {
       out.push(this.addEvent(event));
       if (event.type === 'cutoff') this.onCutoff(event, out);
-      if (event.type === 'load-on') this.snap.resumedAt = event.t;
+      if (event.type === 'load-on') this.snap.resumedAt = event.elapsedSeconds;
       if (event.type === 'recovery' && this.snap.state === 'cutoff') {
-        this.snap.recoveredAt = event.t;
+        this.snap.recoveredAt = event.elapsedSeconds;
         this.setState('recovered');
       }
     }
@@ -134,7 +134,7 @@ export class RunSession {
       if (hot || cold) {
         this.snap.tempAlarmRaised = true;
         const message = hot ? `Temperature reached ${high} °C` : `Temperature fell to ${low} °C`;
-        out.push(this.addEvent({ type: 'alarm', t: reading.elapsedSeconds, level: 'warning', code: hot ? 'over-temperature' : 'under-temperature', message }));
+        out.push(this.addEvent({ type: 'alarm', elapsedSeconds: reading.elapsedSeconds, level: 'warning', code: hot ? 'over-temperature' : 'under-temperature', message }));
       }
     }
     return { reading, events: out, stateChanged: this.snap.state !== before };
@@ -149,11 +149,11 @@ export class RunSession {
     const first = this.snap.cutoffAt === null;
     const endAfterTrip = !first && event.cause === 'end-voltage' && this.snap.cutoffCause !== 'end-voltage';
     if (!first && !endAfterTrip && this.snap.state !== 'recovered') return;
-    this.snap.cutoffAt = event.t;
+    this.snap.cutoffAt = event.elapsedSeconds;
     if (this.snap.cutoffCause !== 'end-voltage') this.snap.cutoffCause = event.cause;
     this.setState('cutoff');
     if ((first || endAfterTrip) && this.run.alarms.onCutoff)
-      out.push(this.addEvent({ type: 'alarm', t: event.t, level: 'critical', code: 'cutoff', message: `Cutoff (${event.cause}) at ${event.volts.toFixed(3)} V` }));
+      out.push(this.addEvent({ type: 'alarm', elapsedSeconds: event.elapsedSeconds, level: 'critical', code: 'cutoff', message: `Cutoff (${event.cause}) at ${event.volts.toFixed(3)} V` }));
   }
 
   /** Adds an event of the recorder's own (source lost, run start/stop) with the next sequence number. */
@@ -190,7 +190,7 @@ export class RunSession {
 
   /** Marks the run finished or aborted. */
   end(state: 'finished' | 'aborted'): void {
-    this.addEvent({ type: 'run-stop', t: this.snap.lastElapsedSeconds ?? 0, note: state });
+    this.addEvent({ type: 'run-stop', elapsedSeconds: this.snap.lastElapsedSeconds ?? 0, note: state });
     this.setState(state);
   }
 

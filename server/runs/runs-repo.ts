@@ -1,8 +1,10 @@
 import { QueryTypes, type Sequelize } from 'sequelize';
 import { z } from 'zod';
 import type { ListRunsQuery, StoredRunEvent } from '../../shared/schemas/api-runs.js';
-import { RunEventSchema, type RunEvent } from '../../shared/schemas/run-event.js';
+import type { RunEvent } from '../../shared/schemas/run-event.js';
 import { RunSummarySchema, type RunSummary } from '../../shared/schemas/run-summary.js';
+import { summaryWithCurrentKeys } from '../../shared/schemas/legacy-keys.js';
+import { parseStoredRunEvent } from './stored-run-event.js';
 import { TempProtectionSchema } from '../../shared/schemas/measure-config.js';
 import { ProtectionExpectationSchema } from '../../shared/schemas/protection-check.js';
 import { EndVoltsSchema, RunAlarmsSchema, RunKindSchema, StopWhenSchema, LIVE_RUN_STATES, type Run, type RunState } from '../../shared/schemas/run.js';
@@ -62,7 +64,7 @@ const iso = (d: Date | string | null): string | null => (d === null ? null : new
 function storedSummary(text: string | null): RunSummary | null {
   if (!text) return null;
   try {
-    const parsed = RunSummarySchema.safeParse(JSON.parse(text));
+    const parsed = RunSummarySchema.safeParse(summaryWithCurrentKeys(JSON.parse(text)));
     return parsed.success ? parsed.data : null;
   } catch {
     return null;
@@ -229,14 +231,14 @@ export class RunsRepo {
       'SELECT id, runId, data, createdAt, createdById FROM run_events WHERE runId = ? ORDER BY t, id',
       { replacements: [runId], type: QueryTypes.SELECT },
     );
-    return rows.map((r) => ({ id: r.id, runId: r.runId, event: RunEventSchema.parse(JSON.parse(r.data)), createdAt: iso(r.createdAt)!, createdBy: r.createdById }));
+    return rows.map((r) => ({ id: r.id, runId: r.runId, event: parseStoredRunEvent(r.data), createdAt: iso(r.createdAt)!, createdBy: r.createdById }));
   }
 
   /** Stores an event outside the recorder's batches (annotations); returns it with its id. */
   async insertEvent(runId: number, event: RunEvent, createdById: number | null): Promise<StoredRunEvent> {
     const [id] = await this.sequelize.query(
       'INSERT INTO run_events (runId, eventSeq, type, t, data, createdById, createdAt) VALUES (?, NULL, ?, ?, ?, ?, NOW(3))',
-      { replacements: [runId, event.type, event.t, JSON.stringify(event), createdById], type: QueryTypes.INSERT },
+      { replacements: [runId, event.type, event.elapsedSeconds, JSON.stringify(event), createdById], type: QueryTypes.INSERT },
     );
     const rows = await this.sequelize.query<{ createdAt: Date | string }>('SELECT createdAt FROM run_events WHERE id = ?', { replacements: [id], type: QueryTypes.SELECT });
     return { id: Number(id), runId, event, createdAt: iso(rows[0]?.createdAt ?? new Date())!, createdBy: createdById };

@@ -131,7 +131,7 @@ export async function seedDemoHistory(deps: DemoHistoryDeps, runs: readonly Demo
         currentSign: 'discharge-positive', columns: {}, userId: deps.technician.id, timeZone: deps.timeZone,
         acceptancePercent: deps.acceptancePercent, electrolyteTempCelsius: run.electrolyteTempCelsius,
       });
-      await deps.repo.insertEvent(result.run.id, { type: 'annotation', t: run.note.elapsedSeconds, text: run.note.text, author: deps.technician.name }, deps.technician.id);
+      await deps.repo.insertEvent(result.run.id, { type: 'annotation', elapsedSeconds: run.note.elapsedSeconds, text: run.note.text, author: deps.technician.name }, deps.technician.id);
       ids.push(result.run.id);
     }
   } finally {

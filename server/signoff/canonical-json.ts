@@ -16,5 +16,10 @@ function sortKeys(value: unknown): unknown {
 
 /** SHA-256 (hex) of the canonical JSON of `value`. */
 export function contentHash(value: unknown): string {
-  return createHash('sha256').update(canonicalJson(value), 'utf8').digest('hex');
+  return textHash(canonicalJson(value));
+}
+
+/** SHA-256 (hex) of stored text as it is (a frozen snapshot is checked over its stored bytes, never re-serialised). */
+export function textHash(text: string): string {
+  return createHash('sha256').update(text, 'utf8').digest('hex');
 }

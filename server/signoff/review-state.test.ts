@@ -46,4 +46,12 @@ describe('review state of a run', () => {
     expect(state.status).toBe('superseded');
     expect(state.entries.every((e) => e.state === 'superseded')).toBe(true);
   });
+
+  it('holds a sign-off frozen in the spelling before a rename while the same content hashes so', () => {
+    // A = the run now, B = the same run in the old spelling (what the entry froze).
+    const history = [entry('ready', B), entry('signed', B)];
+    expect(reviewState(history, A, B)).toMatchObject({ status: 'signed', signed: { contentHash: B } });
+    // Without the old spelling's hash it would look changed.
+    expect(reviewState(history, A).status).toBe('superseded');
+  });
 });

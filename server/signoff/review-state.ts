@@ -15,14 +15,16 @@ export interface ReviewState {
  * while it is the latest one and the run still hashes the same; a ready mark holds while no
  * sign-off followed it, no newer mark replaced it and the run is unchanged. Anything else is
  * superseded, and a run signed once but changed since is `superseded` until signed again.
+ * `legacyHash` is the hash of the same content in the spelling of entries frozen before a
+ * rename of the snapshot's keys; such an entry holds as well.
  */
-export function reviewState(history: StoredSignoff[], currentHash: string): ReviewState {
+export function reviewState(history: StoredSignoff[], currentHash: string, legacyHash: string = currentHash): ReviewState {
   const lastIndex = (action: StoredSignoff['action']) => history.findLastIndex((e) => e.action === action);
   const signedAt = lastIndex('signed');
   const readyAt = lastIndex('ready');
   const holds = (index: number) => {
     const entry = history[index]!;
-    if (entry.contentHash !== currentHash) return false;
+    if (entry.contentHash !== currentHash && entry.contentHash !== legacyHash) return false;
     return entry.action === 'signed' ? index === signedAt : index === readyAt && readyAt > signedAt;
   };
   const entries: SignoffEntry[] = history.map((e, i) => ({ ...e, state: holds(i) ? 'current' : 'superseded' }));

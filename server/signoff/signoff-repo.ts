@@ -1,5 +1,7 @@
 import { QueryTypes, type Sequelize } from 'sequelize';
+import { snapshotWithCurrentKeys } from '../../shared/schemas/legacy-keys.js';
 import { RunSnapshotSchema, type RunSnapshot, type SignoffAction } from '../../shared/schemas/signoff.js';
+import { textHash } from './canonical-json.js';
 
 /** One stored row of a run's review history. */
 export interface StoredSignoff {
@@ -51,13 +53,19 @@ export class SignoffRepo {
     return rows.map(toStored);
   }
 
-  /** One entry with its frozen snapshot, or null. */
-  async get(runId: number, id: number): Promise<{ entry: StoredSignoff; snapshot: RunSnapshot } | null> {
+  /**
+   * One entry with its frozen snapshot, or null. `verified`: the stored bytes still hash to the
+   * entry's `contentHash`. The snapshot is shown with current keys (one frozen before a rename
+   * says `t` for run time); the hash is checked over the bytes as stored, never over that copy.
+   */
+  async get(runId: number, id: number): Promise<{ entry: StoredSignoff; snapshot: RunSnapshot; verified: boolean } | null> {
     const [row] = await this.sequelize.query<SignoffRow>('SELECT * FROM run_signoffs WHERE runId = ? AND id = ?', {
       replacements: [runId, id],
       type: QueryTypes.SELECT,
     });
-    return row ? { entry: toStored(row), snapshot: RunSnapshotSchema.parse(JSON.parse(row.snapshot)) } : null;
+    if (!row) return null;
+    const snapshot = RunSnapshotSchema.parse(snapshotWithCurrentKeys(JSON.parse(row.snapshot)));
+    return { entry: toStored(row), snapshot, verified: textHash(row.snapshot) === row.contentHash };
   }
 
   /** Appends an entry. */

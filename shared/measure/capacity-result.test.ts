@@ -87,7 +87,7 @@ describe('item 3: pauses and protection trips on the way do not end the test', (
     expect(summary.verdict).toBe('fail');
     expect(summary.protectionTripCount).toBe(1);
     expect(summary.protectionTrips[0]).toMatchObject({ signal: 'voltage-collapse' });
-    expect(summary.protectionTrips[0]!.t).toBeCloseTo(3600, 3);
+    expect(summary.protectionTrips[0]!.elapsedSeconds).toBeCloseTo(3600, 3);
     expect(summary.protectionTrips[0]!.recoverySeconds!).toBeCloseTo(120, 3);
     expect(summary.protectionTrips[0]!.dischargeAh).toBeCloseTo(10, 2);
   });

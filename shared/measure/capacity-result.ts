@@ -48,21 +48,21 @@ export function capacityResult(input: CapacityInput): CapacityResult {
   const recoveries = input.events.filter((e): e is RecoveryEvent => e.type === 'recovery');
   const protections = cutoffs.filter((c) => c.cause === 'protection');
   const trips: ProtectionTrip[] = protections.slice(0, MAX_TRIPS_LISTED).map((c) => ({
-    t: c.t, volts: c.volts, amps: c.amps, dischargeAh: c.dischargeAh, dischargeWh: c.dischargeWh,
+    elapsedSeconds: c.elapsedSeconds, volts: c.volts, amps: c.amps, dischargeAh: c.dischargeAh, dischargeWh: c.dischargeWh,
     signal: c.signal ?? 'voltage-collapse',
-    recoverySeconds: recoveries.find((r) => r.cutoffT === c.t)?.recoverySeconds ?? null,
+    recoverySeconds: recoveries.find((r) => r.cutoffElapsedSeconds === c.elapsedSeconds)?.recoverySeconds ?? null,
   }));
   const base = { trips, tripCount: protections.length };
   const endCut = cutoffs.find((c) => c.cause === 'end-voltage') ?? null;
-  const at = (c: CutoffEvent, endedBy: CapacityEndedBy): CapacityResult => ({ ...base, endedBy, capacityAh: c.dischargeAh, capacityWh: c.dischargeWh, endSeconds: c.t, cutoff: c });
+  const at = (c: CutoffEvent, endedBy: CapacityEndedBy): CapacityResult => ({ ...base, endedBy, capacityAh: c.dischargeAh, capacityWh: c.dischargeWh, endSeconds: c.elapsedSeconds, cutoff: c });
   const none = (endedBy: CapacityEndedBy): CapacityResult => ({ ...base, endedBy, capacityAh: null, capacityWh: null, endSeconds: null, cutoff: null });
 
   const firstTrip = protections[0];
-  if (input.protectionEndsTest && firstTrip && (endCut === null || firstTrip.t < endCut.t)) return at(firstTrip, 'protection');
+  if (input.protectionEndsTest && firstTrip && (endCut === null || firstTrip.elapsedSeconds < endCut.elapsedSeconds)) return at(firstTrip, 'protection');
   if (endCut) return endCut.startedBelowEndVoltage ? none('started-below-end-voltage') : at(endCut, 'end-voltage');
   // The last trip ended the test unless the discharge went on after it (a `load-on` after the trip).
   const lastTrip = protections.at(-1);
-  if (lastTrip && !input.events.some((e) => e.type === 'load-on' && e.t > lastTrip.t)) return at(lastTrip, 'protection');
+  if (lastTrip && !input.events.some((e) => e.type === 'load-on' && e.elapsedSeconds > lastTrip.elapsedSeconds)) return at(lastTrip, 'protection');
   if (!input.sawLoad) return none('no-discharge');
   if (!input.ended) return none('in-progress');
   if (input.endVolts === null) {

@@ -20,13 +20,13 @@ describe('end-voltage cutoff', () => {
     expect(cutoffs).toHaveLength(1);
     const c = cutoffs[0]!;
     expect(c.cause).toBe('end-voltage');
-    expect(Math.abs(c.t - 857.14)).toBeLessThan(6); // noise 0.03 V at 0.007 V/s moves it ≤ 4.3 s, + one sample
+    expect(Math.abs(c.elapsedSeconds - 857.14)).toBeLessThan(6); // noise 0.03 V at 0.007 V/s moves it ≤ 4.3 s, + one sample
     // Interpolated between the readings either side of the crossing: Ah between their totals.
-    const before = readings.filter((r) => r.elapsedSeconds <= c.t).at(-1)!;
-    const after = readings.find((r) => r.elapsedSeconds > c.t)!;
+    const before = readings.filter((r) => r.elapsedSeconds <= c.elapsedSeconds).at(-1)!;
+    const after = readings.find((r) => r.elapsedSeconds > c.elapsedSeconds)!;
     expect(c.dischargeAh).toBeGreaterThanOrEqual(before.dischargeAh);
     expect(c.dischargeAh).toBeLessThanOrEqual(after.dischargeAh);
-    expect(c.dischargeAh).toBeCloseTo((10 * c.t) / 3600, 2);
+    expect(c.dischargeAh).toBeCloseTo((10 * c.elapsedSeconds) / 3600, 2);
     expect(c.volts).toBe(20);
     expect(types(events)).toContain('milestone:near-end-voltage');
   });
@@ -46,7 +46,7 @@ describe('end-voltage cutoff', () => {
     const cutoffs = events.filter((e) => e.type === 'cutoff');
     expect(cutoffs).toHaveLength(1);
     // The reading at exactly 20.0 V (t = 50) has reached the end voltage (≤, not <).
-    expect(cutoffs[0]).toMatchObject({ cause: 'end-voltage', t: 50 });
+    expect(cutoffs[0]).toMatchObject({ cause: 'end-voltage', elapsedSeconds: 50 });
   });
 
   it('the operator switching the load off (aux.loadOn = 0) is not a cutoff', () => {
@@ -65,10 +65,10 @@ describe('protection cutoff and recovery', () => {
     });
     const { events } = createRunPipeline(LFP_8S).pushMany(frames);
     const cutoff = events.find((e) => e.type === 'cutoff')!;
-    expect(cutoff).toMatchObject({ cause: 'protection', signal: 'voltage-collapse', t: 500 });
+    expect(cutoff).toMatchObject({ cause: 'protection', signal: 'voltage-collapse', elapsedSeconds: 500 });
     expect(cutoff.volts).toBeCloseTo(24.701, 1);
     const rec = events.find((e) => e.type === 'recovery')!;
-    expect(rec).toMatchObject({ cutoffT: 500, t: 620 });
+    expect(rec).toMatchObject({ cutoffElapsedSeconds: 500, elapsedSeconds: 620 });
     expect(rec.recoverySeconds).toBe(120);
     expect(events.filter((e) => e.type === 'cutoff')).toHaveLength(1);
   });
@@ -83,7 +83,7 @@ describe('protection cutoff and recovery', () => {
     const { events } = createRunPipeline(LFP_8S).pushMany(frames);
     // The discharge goes on after the reconnect: said with a load-on, so the trip did not end the test.
     expect(types(events)).toEqual(['cutoff', 'recovery', 'load-on']);
-    expect(events[0]).toMatchObject({ cause: 'protection', signal: 'current-zero', t: 300 });
+    expect(events[0]).toMatchObject({ cause: 'protection', signal: 'current-zero', elapsedSeconds: 300 });
     expect(events[1]).toMatchObject({ recoverySeconds: 100 });
   });
 

@@ -15,7 +15,8 @@ type CandidateKind = 'end-voltage' | 'voltage-collapse' | 'current-zero';
 interface Candidate {
   kind: CandidateKind;
   count: number;
-  t: number;
+  /** Run time of the candidate's reading, s. */
+  elapsedSeconds: number;
   volts: number;
   amps: number;
   dischargeWh: number;
@@ -28,7 +29,7 @@ interface Candidate {
 export interface CutoffState {
   phase: 'idle' | 'discharging' | 'cut-off';
   cause: CutoffEvent['cause'] | null;
-  cutoffT: number;
+  cutoffElapsedSeconds: number;
   sawCollapse: boolean;
   lastLoadVolts: number;
   lastLoadAmps: number;
@@ -45,7 +46,7 @@ export interface CutoffState {
 /** A fresh cutoff state (no discharge seen yet). */
 export function createCutoffState(): CutoffState {
   return {
-    phase: 'idle', cause: null, cutoffT: 0, sawCollapse: false, lastLoadVolts: 0, lastLoadAmps: 0, candidate: null, after: createStreak(),
+    phase: 'idle', cause: null, cutoffElapsedSeconds: 0, sawCollapse: false, lastLoadVolts: 0, lastLoadAmps: 0, candidate: null, after: createStreak(),
     prev: null, sawAboveEnd: false, paused: false,
   };
 }
@@ -62,14 +63,14 @@ function startCandidate(s: CutoffState, kind: CandidateKind, r: Reading, k: Dete
   if (kind === 'end-voltage' && k.endVolts !== null) {
     // Stamped where the voltage crossed the end voltage, interpolated between this reading and the one before.
     const x = crossingPoint(s.prev ?? null, r, k.endVolts, k.gapSeconds);
-    return { kind, count: 0, t: x.t, volts: x.volts, amps: x.amps, dischargeWh: x.dischargeWh, dischargeAh: x.dischargeAh };
+    return { kind, count: 0, elapsedSeconds: x.elapsedSeconds, volts: x.volts, amps: x.amps, dischargeWh: x.dischargeWh, dischargeAh: x.dischargeAh };
   }
   // For a protection cutoff the last voltage *under load* is the one before it opened.
-  return { kind, count: 0, t: r.elapsedSeconds, volts: s.lastLoadVolts, amps: s.lastLoadAmps, dischargeWh: r.dischargeWh, dischargeAh: r.dischargeAh, collapsed: false };
+  return { kind, count: 0, elapsedSeconds: r.elapsedSeconds, volts: s.lastLoadVolts, amps: s.lastLoadAmps, dischargeWh: r.dischargeWh, dischargeAh: r.dischargeAh, collapsed: false };
 }
 
 function fireEndVoltage(s: CutoffState, c: Candidate, out: RunEvent[]): void {
-  const e: CutoffEvent = { type: 'cutoff', t: c.t, cause: 'end-voltage', volts: c.volts, amps: c.amps, dischargeWh: c.dischargeWh, dischargeAh: c.dischargeAh };
+  const e: CutoffEvent = { type: 'cutoff', elapsedSeconds: c.elapsedSeconds, cause: 'end-voltage', volts: c.volts, amps: c.amps, dischargeWh: c.dischargeWh, dischargeAh: c.dischargeAh };
   // No discharge reading above the end voltage: the pack was already below it when the load came on.
   if (s.sawAboveEnd === false) e.startedBelowEndVoltage = true;
   out.push(e);
@@ -78,7 +79,7 @@ function fireEndVoltage(s: CutoffState, c: Candidate, out: RunEvent[]): void {
 
 function fireProtection(s: CutoffState, c: Candidate, out: RunEvent[]): void {
   out.push({
-    type: 'cutoff', t: c.t, cause: 'protection', signal: c.collapsed ? 'voltage-collapse' : 'current-zero',
+    type: 'cutoff', elapsedSeconds: c.elapsedSeconds, cause: 'protection', signal: c.collapsed ? 'voltage-collapse' : 'current-zero',
     volts: c.volts, amps: c.amps, dischargeWh: c.dischargeWh, dischargeAh: c.dischargeAh,
   });
   enterCutOff(s, c, 'protection');
@@ -88,7 +89,7 @@ function fireProtection(s: CutoffState, c: Candidate, out: RunEvent[]): void {
 function enterCutOff(s: CutoffState, c: Candidate, cause: CutoffEvent['cause']): void {
   s.phase = 'cut-off';
   s.cause = cause;
-  s.cutoffT = c.t;
+  s.cutoffElapsedSeconds = c.elapsedSeconds;
   s.sawCollapse = false;
   s.candidate = null;
   resetStreak(s.after);
@@ -96,7 +97,7 @@ function enterCutOff(s: CutoffState, c: Candidate, cause: CutoffEvent['cause']):
 
 /** The current fell to about 0 A with the terminal voltage held and no load signal: a pause, not a protection trip. */
 function firePause(s: CutoffState, c: Candidate, out: RunEvent[]): void {
-  out.push({ type: 'load-off', t: c.t, note: 'current fell to about 0 A with the voltage held: a pause, not counted as a protection trip' });
+  out.push({ type: 'load-off', elapsedSeconds: c.elapsedSeconds, note: 'current fell to about 0 A with the voltage held: a pause, not counted as a protection trip' });
   s.phase = 'idle';
   s.candidate = null;
   s.paused = true;
@@ -155,12 +156,12 @@ function afterCutoff(s: CutoffState, r: Reading, k: DetectorSettings, out: RunEv
     const back = (s.sawCollapse && r.volts >= k.recoveryVolts) || flowing;
     const notBack = r.volts < k.recoveryVolts - k.hysteresisVolts && !flowing;
     if (advanceStreak(s.after, back, notBack, t, r.volts, k.confirmReadings)) {
-      out.push({ type: 'recovery', t: s.after.startT, cutoffT: s.cutoffT, recoverySeconds: Math.max(0, s.after.startT - s.cutoffT), volts: s.after.startValue });
+      out.push({ type: 'recovery', elapsedSeconds: s.after.startT, cutoffElapsedSeconds: s.cutoffElapsedSeconds, recoverySeconds: Math.max(0, s.after.startT - s.cutoffElapsedSeconds), volts: s.after.startValue });
       resetStreak(s.after);
       // Whether the discharge goes on after the reconnect decides whether the trip ended the test: say when it does.
       if (r.amps >= k.loadOnAmps) {
         s.phase = 'discharging';
-        out.push({ type: 'load-on', t, note: RESUMED_NOTE });
+        out.push({ type: 'load-on', elapsedSeconds: t, note: RESUMED_NOTE });
       } else {
         s.phase = 'idle';
         s.paused = true;
@@ -184,7 +185,7 @@ export function detectCutoff(s: CutoffState, r: Reading, k: DetectorSettings, ou
     if (r.amps < -k.zeroAmps) s.sawAboveEnd = false; // a charge: the next discharge is a new test
     if (r.amps >= k.loadOnAmps && r.volts > k.collapseVolts) {
       s.phase = 'discharging';
-      if (s.paused) out.push({ type: 'load-on', t: r.elapsedSeconds, note: RESUMED_NOTE });
+      if (s.paused) out.push({ type: 'load-on', elapsedSeconds: r.elapsedSeconds, note: RESUMED_NOTE });
       s.paused = false;
       trackLoad(s, r, k);
     }

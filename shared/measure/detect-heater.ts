@@ -91,7 +91,7 @@ export function detectHeater(s: HeaterState, r: Reading, k: DetectorSettings, ou
     if (s.highCount >= k.confirmReadings) {
       s.on = true;
       s.highCount = 0;
-      out.push({ type: 'heater-on', t: s.onT, tempCelsius: s.onTemp, heaterAmps: s.onAmps });
+      out.push({ type: 'heater-on', elapsedSeconds: s.onT, tempCelsius: s.onTemp, heaterAmps: s.onAmps });
     }
     return;
   }
@@ -110,7 +110,7 @@ export function detectHeater(s: HeaterState, r: Reading, k: DetectorSettings, ou
   if (s.lowCount >= k.confirmReadings && t - s.lowSinceT > k.heaterPwmOffSeconds) {
     const { ampSeconds, seconds, highSeconds } = s.atLow;
     out.push({
-      type: 'heater-off', t: s.lowSinceT, tempCelsius: s.offTemp,
+      type: 'heater-off', elapsedSeconds: s.lowSinceT, tempCelsius: s.offTemp,
       meanHeaterAmps: seconds > 0 ? ampSeconds / seconds : s.onAmps,
       onSeconds: Math.max(0, s.lowSinceT - s.onT),
       peakHeaterAmps: s.peakAmps,

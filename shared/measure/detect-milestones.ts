@@ -19,7 +19,7 @@ function mark(s: MilestoneState, kind: MilestoneKind, reached: boolean, r: Readi
   // Totals only grow, so each capacity mark fires once and needs no hysteresis.
   if (!reached || s.fired.includes(kind)) return;
   s.fired.push(kind);
-  out.push({ type: 'milestone', t: r.elapsedSeconds, milestone: kind, volts: r.volts, dischargeWh: r.dischargeWh, dischargeAh: r.dischargeAh });
+  out.push({ type: 'milestone', elapsedSeconds: r.elapsedSeconds, milestone: kind, volts: r.volts, dischargeWh: r.dischargeWh, dischargeAh: r.dischargeAh });
 }
 
 /** Advances milestone detection (50 %/100 % of rated Ah and Wh; near end voltage) by one reading. */
@@ -43,7 +43,7 @@ export function detectMilestones(s: MilestoneState, r: Reading, k: DetectorSetti
   const breaks = r.volts > k.warnVolts + k.hysteresisVolts || !underLoad;
   if (advanceStreak(s.warn, holds, breaks, r.elapsedSeconds, r.volts, k.confirmReadings)) {
     s.warned = true;
-    out.push({ type: 'milestone', t: s.warn.startT, milestone: 'near-end-voltage', volts: s.warn.startValue, dischargeWh: r.dischargeWh, dischargeAh: r.dischargeAh });
+    out.push({ type: 'milestone', elapsedSeconds: s.warn.startT, milestone: 'near-end-voltage', volts: s.warn.startValue, dischargeWh: r.dischargeWh, dischargeAh: r.dischargeAh });
     resetStreak(s.warn);
   }
 }

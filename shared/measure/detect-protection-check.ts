@@ -94,7 +94,7 @@ export function detectProtectionCheck(s: ProtectionCheckState, index: number, p:
     if (advanceStreak(s.stopped, !flowing, flowing, t, s.stopped.count === 0 ? prev : value, k.confirmReadings)) {
       s.tripT = s.stopped.startT;
       out.push({
-        type: 'protection-check-trip', t: s.tripT, protection: p.protection, check: index, crossedT: s.crossedT,
+        type: 'protection-check-trip', elapsedSeconds: s.tripT, protection: p.protection, check: index, crossedElapsedSeconds: s.crossedT,
         value: s.stopped.startValue, delaySeconds: s.crossedT === null ? null : Math.max(0, s.tripT - s.crossedT), beyondAtStart: s.beyondAtStart,
       });
       s.phase = 'tripped';
@@ -105,7 +105,7 @@ export function detectProtectionCheck(s: ProtectionCheckState, index: number, p:
   }
   if (s.phase === 'tripped' && advanceStreak(s.flowing, flowing, !flowing, t, value, k.confirmReadings)) {
     out.push({
-      type: 'protection-check-release', t: s.flowing.startT, protection: p.protection, check: index, tripT: s.tripT,
+      type: 'protection-check-release', elapsedSeconds: s.flowing.startT, protection: p.protection, check: index, tripElapsedSeconds: s.tripT,
       value: s.flowing.startValue, resumeSeconds: Math.max(0, s.flowing.startT - s.tripT),
     });
     s.phase = 'watch';

@@ -43,7 +43,7 @@ export function detectTempProtection(s: TempProtectionState, p: TempProtection, 
     // from the start. Recorded (delay unknown, reported as 0 with beyondAtStart) so the reset
     // when current flows again (charging resumes after warming) is an event too.
     if (beyond && !flowing) {
-      out.push({ type: 'protection-trip', t, kind: p.kind, channel: p.channel, limitCelsius: p.limitCelsius, crossedT: t, tempCelsius: temp, delaySeconds: 0, beyondAtStart: true });
+      out.push({ type: 'protection-trip', elapsedSeconds: t, kind: p.kind, channel: p.channel, limitCelsius: p.limitCelsius, crossedElapsedSeconds: t, tempCelsius: temp, delaySeconds: 0, beyondAtStart: true });
       s.phase = 'tripped';
       return;
     }
@@ -63,15 +63,15 @@ export function detectTempProtection(s: TempProtectionState, p: TempProtection, 
     }
     if (advanceStreak(s.zero, zero, flowing, t, temp, k.confirmReadings)) {
       out.push({
-        type: 'protection-trip', t: s.zero.startT, kind: p.kind, channel: p.channel, limitCelsius: p.limitCelsius,
-        crossedT: s.crossedT, tempCelsius: s.zero.startValue, delaySeconds: Math.max(0, s.zero.startT - s.crossedT),
+        type: 'protection-trip', elapsedSeconds: s.zero.startT, kind: p.kind, channel: p.channel, limitCelsius: p.limitCelsius,
+        crossedElapsedSeconds: s.crossedT, tempCelsius: s.zero.startValue, delaySeconds: Math.max(0, s.zero.startT - s.crossedT),
       });
       s.phase = 'tripped';
     }
     return;
   }
   if (inside && flowing) {
-    out.push({ type: 'protection-reset', t, kind: p.kind, channel: p.channel, tempCelsius: temp });
+    out.push({ type: 'protection-reset', elapsedSeconds: t, kind: p.kind, channel: p.channel, tempCelsius: temp });
     s.phase = 'watch';
   }
 }

@@ -19,8 +19,8 @@ describe('temperature protection trip delay', () => {
     const p = createRunPipeline({ tempProtections: [{ kind: 'low-temp-charge', channel: 'cell', limitCelsius: 0, direction: 'below', current: 'charge' }] });
     const trips = p.pushMany(frames).events.filter((e) => e.type === 'protection-trip');
     expect(trips).toHaveLength(1);
-    expect(trips[0]).toMatchObject({ kind: 'low-temp-charge', channel: 'cell', t: 360 });
-    expect(Math.abs(trips[0]!.crossedT - 300)).toBeLessThanOrEqual(1);
+    expect(trips[0]).toMatchObject({ kind: 'low-temp-charge', channel: 'cell', elapsedSeconds: 360 });
+    expect(Math.abs(trips[0]!.crossedElapsedSeconds - 300)).toBeLessThanOrEqual(1);
     expect(Math.abs(trips[0]!.delaySeconds - 60)).toBeLessThanOrEqual(1);
   });
 
@@ -34,10 +34,10 @@ describe('temperature protection trip delay', () => {
     const p = createRunPipeline({ tempProtections: [{ kind: 'high-temp-discharge', channel: 'cell', limitCelsius: 60, direction: 'above', current: 'discharge' }] });
     const ev = p.pushMany(frames).events.filter((e) => e.type === 'protection-trip' || e.type === 'protection-reset');
     expect(ev.map((e) => e.type)).toEqual(['protection-trip', 'protection-reset']);
-    expect(ev[0]!.t).toBe(120);
-    expect(Math.abs((ev[0] as { crossedT: number }).crossedT - 100)).toBeLessThanOrEqual(1);
+    expect(ev[0]!.elapsedSeconds).toBe(120);
+    expect(Math.abs((ev[0] as { crossedElapsedSeconds: number }).crossedElapsedSeconds - 100)).toBeLessThanOrEqual(1);
     expect(Math.abs((ev[0] as { delaySeconds: number }).delaySeconds - 20)).toBeLessThanOrEqual(1);
-    expect(ev[1]!.t).toBe(300);
+    expect(ev[1]!.elapsedSeconds).toBe(300);
   });
 
   it('a temperature hovering at the limit arms once and trips once', () => {
@@ -55,8 +55,8 @@ describe('temperature protection already holding at the start', () => {
     const p = createRunPipeline({ tempProtections: [{ kind: 'low-temp-charge', channel: 'cell', limitCelsius: 0, direction: 'below', current: 'charge' }] });
     const ev = p.pushMany(frames).events.filter((e) => e.type === 'protection-trip' || e.type === 'protection-reset');
     expect(ev.map((e) => e.type)).toEqual(['protection-trip', 'protection-reset']);
-    expect(ev[0]).toMatchObject({ t: 0, tempCelsius: -4, beyondAtStart: true });
-    expect(ev[1]).toMatchObject({ t: 350, tempCelsius: 3 });
+    expect(ev[0]).toMatchObject({ elapsedSeconds: 0, tempCelsius: -4, beyondAtStart: true });
+    expect(ev[1]).toMatchObject({ elapsedSeconds: 350, tempCelsius: 3 });
   });
 });
 
@@ -74,9 +74,9 @@ describe('heater on/off', () => {
     const off = events.filter((e) => e.type === 'heater-off');
     expect(on).toHaveLength(1);
     expect(off).toHaveLength(1);
-    expect(on[0]!.t).toBe(300);
+    expect(on[0]!.elapsedSeconds).toBe(300);
     expect(on[0]!.tempCelsius!).toBeCloseTo(0, 1);
-    expect(off[0]!.t).toBe(800);
+    expect(off[0]!.elapsedSeconds).toBe(800);
     expect(off[0]!.tempCelsius!).toBeCloseTo(5, 1);
     expect(off[0]!.onSeconds).toBe(500);
     expect(off[0]!.meanHeaterAmps).toBeCloseTo(4, 1);
@@ -102,10 +102,10 @@ describe('heater on/off', () => {
     const off = events.filter((e) => e.type === 'heater-off');
     expect(on).toHaveLength(1);
     expect(off).toHaveLength(1);
-    expect(on[0]!.t).toBe(100);
+    expect(on[0]!.elapsedSeconds).toBe(100);
     expect(on[0]!.tempCelsius).toBe(-2);
     // The last on slot is t = 598-599; t = 600 is an off slot and nothing follows: off at 600.
-    expect(off[0]!.t).toBe(600);
+    expect(off[0]!.elapsedSeconds).toBe(600);
     expect(off[0]!.peakHeaterAmps).toBe(6);
     // Trapezoids between 1 Hz samples of a 2-on/1-off square wave: the ramps count half, still 2/3 on average.
     expect(off[0]!.meanHeaterAmps).toBeCloseTo(4, 1);

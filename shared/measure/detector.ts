@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import type { Reading } from '../schemas/reading.js';
 import type { RunEvent } from '../schemas/run-event.js';
+import { LEGACY_RUN_TIME_KEYS, withCurrentKeys } from '../schemas/legacy-keys.js';
 import type { DetectorSettings } from './detector-settings.js';
 import { createCutoffState, detectCutoff, type CutoffState } from './detect-cutoff.js';
 import { createMilestoneState, detectMilestones, type MilestoneState } from './detect-milestones.js';
@@ -26,7 +27,8 @@ export interface DetectorState {
 /** Shape check for a restored detector state (the parts are checked by use; this catches a wrong or truncated blob). */
 export const DetectorStateSchema = z.object({
   version: z.literal(1),
-  cutoff: z.object({ phase: z.enum(['idle', 'discharging', 'cut-off']) }).loose(),
+  // A state stored before the rename keeps run time as `t` and `cutoffT` (candidate, crossing point, cutoff). vocab-rename: keep
+  cutoff: z.preprocess((v) => withCurrentKeys(v, LEGACY_RUN_TIME_KEYS), z.object({ phase: z.enum(['idle', 'discharging', 'cut-off']) }).loose()),
   milestones: z.object({ fired: z.array(z.string()), warned: z.boolean() }).loose(),
   tempProtections: z.array(z.object({ phase: z.enum(['watch', 'armed', 'tripped']) }).loose()),
   heater: z.object({ on: z.boolean() }).loose(),

@@ -3,7 +3,8 @@ import { SECONDS_PER_HOUR } from '../units/time.js';
 
 /** One reading as the crossing needs it (plain JSON, kept in the detector's state). */
 export interface CrossingPoint {
-  t: number;
+  /** Run time, s. */
+  elapsedSeconds: number;
   volts: number;
   amps: number;
   dischargeWh: number;
@@ -12,8 +13,8 @@ export interface CrossingPoint {
 
 /** Copies what the crossing needs from a reading into `into` (reused) or a new point. */
 export function takePoint(r: Reading, into: CrossingPoint | null): CrossingPoint {
-  const p = into ?? { t: 0, volts: 0, amps: 0, dischargeWh: 0, dischargeAh: 0 };
-  p.t = r.elapsedSeconds;
+  const p = into ?? { elapsedSeconds: 0, volts: 0, amps: 0, dischargeWh: 0, dischargeAh: 0 };
+  p.elapsedSeconds = r.elapsedSeconds;
   p.volts = r.volts;
   p.amps = r.amps;
   p.dischargeWh = r.dischargeWh;
@@ -30,13 +31,13 @@ export function takePoint(r: Reading, into: CrossingPoint | null): CrossingPoint
 export function crossingPoint(prev: CrossingPoint | null, r: Reading, endVolts: number, gapSeconds: number): CrossingPoint {
   const here = takePoint(r, null);
   if (prev === null || !(prev.volts > endVolts) || !(r.volts < prev.volts)) return here;
-  const dt = r.elapsedSeconds - prev.t;
+  const dt = r.elapsedSeconds - prev.elapsedSeconds;
   if (!(dt > 0) || dt > gapSeconds || prev.amps <= 0 || r.amps <= 0) return here;
   const f = (prev.volts - endVolts) / (prev.volts - r.volts);
   const amps = prev.amps + f * (r.amps - prev.amps);
   const span = f * dt;
   return {
-    t: prev.t + span,
+    elapsedSeconds: prev.elapsedSeconds + span,
     volts: endVolts,
     amps,
     dischargeAh: prev.dischargeAh + (((prev.amps + amps) / 2) * span) / SECONDS_PER_HOUR,

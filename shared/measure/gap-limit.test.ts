@@ -54,7 +54,7 @@ describe('gap limit: logs at any cadence integrate to the analytic Ah', () => {
     // Analytic: 8 A for 3600 s minus the 600 s hole = 8 × 3000 / 3600 Ah.
     const frames = constantLog(1, HOUR_S, 12.8, 8).filter((f) => f.t <= 1000 || f.t >= 1600);
     const { totals, gaps } = runLog(frames, { cadenceSeconds: 1 });
-    expect(gaps).toEqual([{ type: 'gap', t: 1000, endT: 1600, gapSeconds: 600 }]);
+    expect(gaps).toEqual([{ type: 'gap', elapsedSeconds: 1000, endElapsedSeconds: 1600, gapSeconds: 600 }]);
     expect(relErr(totals.dischargeAh, (8 * 3000) / HOUR_S)).toBeLessThan(REL_TOLERANCE);
   });
 
@@ -62,7 +62,7 @@ describe('gap limit: logs at any cadence integrate to the analytic Ah', () => {
     const missTwo = constantLog(60, HOUR_S, 12, 5).filter((f) => f.t !== 600 && f.t !== 660);
     expect(runLog(missTwo, { cadenceSeconds: 60 }).gaps).toHaveLength(0);
     const missThree = constantLog(60, HOUR_S, 12, 5).filter((f) => f.t < 600 || f.t > 720);
-    expect(runLog(missThree, { cadenceSeconds: 60 }).gaps).toEqual([{ type: 'gap', t: 540, endT: 780, gapSeconds: 240 }]);
+    expect(runLog(missThree, { cadenceSeconds: 60 }).gaps).toEqual([{ type: 'gap', elapsedSeconds: 540, endElapsedSeconds: 780, gapSeconds: 240 }]);
   });
 });
 

@@ -4,7 +4,7 @@ import { programmeRoundTrips } from './programme-round-trip.js';
 
 // Figures of a made-up capacity programme (demo values); the efficiencies are their ratios by definition.
 const step = (index: number, over: Partial<StepResult>): StepResult => ({
-  index, label: `${index + 1}`, kind: 'rest', outcome: 'done', cause: 'time', reason: '', startT: 0, endT: 0,
+  index, label: `${index + 1}`, kind: 'rest', outcome: 'done', cause: 'time', reason: '', startElapsedSeconds: 0, endElapsedSeconds: 0,
   chargeAh: 0, chargeWh: 0, dischargeAh: 0, dischargeWh: 0, endVolts: 13, ...over,
 });
 const fullCharge = (i: number, ah: number, wh: number) => step(i, { kind: 'charge', cause: 'taper', chargeAh: ah, chargeWh: wh });

@@ -40,7 +40,7 @@ describe('protection checks', () => {
     expect(Math.abs(row!.measuredValue! - -0.1)).toBeLessThanOrEqual(0.03);
     expect(Math.abs(row!.releaseValue! - 3)).toBeLessThanOrEqual(0.03);
     expect(Math.abs(row!.resumeSeconds! - 545)).toBeLessThanOrEqual(1);
-    expect(events.some((e) => e.type === 'protection-check-release' && e.t === 750)).toBe(true);
+    expect(events.some((e) => e.type === 'protection-check-release' && e.elapsedSeconds === 750)).toBe(true);
     expect(row!.window!.fromSeconds).toBeLessThanOrEqual(200);
     expect(row!.window!.toSeconds).toBeGreaterThanOrEqual(750);
   });
@@ -51,9 +51,9 @@ describe('protection checks', () => {
     const frames = trace(0, 600, (t) => ({ volts: 13.2, amps: t < 350 ? 0 : -10, temps: { cell: -4 + t / 50 } }));
     const { rows, events } = run(frames, [expect1({ protection: 'cold-charge', thresholdValue: 0, delaySeconds: 5, channel: 'cell' })]);
     const trip = events.find((e) => e.type === 'protection-check-trip');
-    expect(trip).toMatchObject({ t: 0, beyondAtStart: true, crossedT: null, value: -4 });
+    expect(trip).toMatchObject({ elapsedSeconds: 0, beyondAtStart: true, crossedElapsedSeconds: null, value: -4 });
     const release = events.find((e) => e.type === 'protection-check-release');
-    expect(release).toMatchObject({ t: 350, value: 3, resumeSeconds: 350 });
+    expect(release).toMatchObject({ elapsedSeconds: 350, value: 3, resumeSeconds: 350 });
     expect(rows[0]).toMatchObject({ outcome: 'pass', beyondAtStart: true, measuredValue: null, measuredDelaySeconds: null, releaseValue: 3, resumeSeconds: 350 });
     expect(rows[0]!.notes.join(' ')).toMatch(/already past the threshold/i);
   });

@@ -26,7 +26,7 @@ function fromTrips(index: number, events: readonly RunEvent[]): Measured {
   const trips = events.filter((e): e is ProtectionCheckTripEvent => e.type === 'protection-check-trip' && e.check === index);
   const first = trips[0];
   if (!first) return NOTHING;
-  const release = events.find((e): e is ProtectionCheckReleaseEvent => e.type === 'protection-check-release' && e.check === index && e.tripT === first.t);
+  const release = events.find((e): e is ProtectionCheckReleaseEvent => e.type === 'protection-check-release' && e.check === index && e.tripElapsedSeconds === first.elapsedSeconds);
   return {
     ...NOTHING,
     acted: true,
@@ -37,7 +37,7 @@ function fromTrips(index: number, events: readonly RunEvent[]): Measured {
     resumeSeconds: release?.resumeSeconds ?? null,
     beyondAtStart: first.beyondAtStart,
     trips: trips.length,
-    window: windowOf(first.crossedT ?? first.t, release?.t ?? first.t),
+    window: windowOf(first.crossedElapsedSeconds ?? first.elapsedSeconds, release?.elapsedSeconds ?? first.elapsedSeconds),
   };
 }
 
@@ -47,18 +47,18 @@ function fromHeater(p: ProtectionExpectation, events: readonly RunEvent[]): Meas
   const offs = events.filter((e): e is HeaterOffEvent => e.type === 'heater-off');
   const on = ons[0];
   if (!on) return NOTHING;
-  const off = offs.find((e) => e.t >= on.t);
+  const off = offs.find((e) => e.elapsedSeconds >= on.elapsedSeconds);
   const switched = p.protection === 'heater-on' ? on : off;
   if (!switched) return { ...NOTHING, trips: 0 };
   return {
     ...NOTHING,
     acted: true,
     measuredValue: switched.tempCelsius,
-    beyondAtStart: p.protection === 'heater-on' && on.t === 0,
+    beyondAtStart: p.protection === 'heater-on' && on.elapsedSeconds === 0,
     meanHeaterAmps: off?.meanHeaterAmps ?? null,
     peakHeaterAmps: off?.peakHeaterAmps ?? null,
     trips: p.protection === 'heater-on' ? ons.length : offs.length,
-    window: windowOf(switched.t, switched.t),
+    window: windowOf(switched.elapsedSeconds, switched.elapsedSeconds),
   };
 }
 

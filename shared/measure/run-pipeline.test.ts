@@ -15,7 +15,7 @@ describe('run pipeline', () => {
     const { events, readings } = createRunPipeline(PACK).pushMany(frames);
     const ms = events.filter((e) => e.type === 'milestone');
     expect(ms.map((e) => e.milestone).sort()).toEqual(['half-rated-ah', 'half-rated-wh', 'rated-ah', 'rated-wh']);
-    const at = (k: string): number => ms.find((e) => e.milestone === k)!.t;
+    const at = (k: string): number => ms.find((e) => e.milestone === k)!.elapsedSeconds;
     expect(Math.abs(at('half-rated-ah') - 9000)).toBeLessThanOrEqual(2); // 25 Ah at 10 A = 9000 s
     expect(Math.abs(at('rated-ah') - 18000)).toBeLessThanOrEqual(2); // 50 Ah at 10 A = 18000 s
     expect(Math.abs(at('rated-wh') - 18000)).toBeLessThanOrEqual(2); // 1280 Wh at 256 W = 18000 s
@@ -30,7 +30,7 @@ describe('run pipeline', () => {
     expect(p.push({ t: 2, volts: Number.NaN, amps: 1, clock: 'device' })).toMatchObject({ reading: null, outcome: 'non-finite' });
     expect(p.push({ t: 0.5, volts: 12, amps: 1, clock: 'device' }).outcome).toBe('backwards');
     const gap = p.push({ t: 100, volts: 12, amps: 1, clock: 'device' });
-    expect(gap.events).toEqual([{ type: 'gap', t: 1, endT: 100, gapSeconds: 99 }]);
+    expect(gap.events).toEqual([{ type: 'gap', elapsedSeconds: 1, endElapsedSeconds: 100, gapSeconds: 99 }]);
     expect(p.totals().dischargeAh).toBeCloseTo(1 / 3600, 15);
   });
 
@@ -43,6 +43,29 @@ describe('run pipeline', () => {
     expect([...first.events, ...second.events]).toEqual(one.events);
     expect(b.totals()).toEqual(totalsOf(one.readings.at(-1)!));
     expect(second.readings.at(-1)).toEqual(one.readings.at(-1));
+  });
+
+  it('restores a cutoff state stored before the rename (run time as `t`, `cutoffT`) with the same events as one pass', () => {
+    // 10 A with the volts falling linearly from 25.6 V to 19 V over 2 h: it crosses the 20 V end voltage (8 × 2.5 V).
+    const falling = trace(0, 7200, (t) => ({ volts: 25.6 - (6.6 * t) / 7200, amps: 10, temps: { cell: 25 } }));
+    const one = createRunPipeline(PACK).pushMany(falling);
+    expect(one.events.some((e) => e.type === 'cutoff')).toBe(true);
+    const a = createRunPipeline(PACK);
+    // Stop while a cutoff waits for its confirmation: the candidate's run time is then in the stored state.
+    const before: RunEvent[] = [];
+    let split = 0;
+    while (split < falling.length && (a.snapshot().detector.cutoff.candidate ?? null) === null) before.push(...a.push(falling[split++]!).events);
+    expect(split).toBeLessThan(falling.length);
+    const stored = JSON.parse(JSON.stringify(a.snapshot())) as { detector: { cutoff: Record<string, unknown> & { candidate: Record<string, unknown>; prev: Record<string, unknown> } } };
+    const cutoff = stored.detector.cutoff;
+    const old = (o: Record<string, unknown>, from: string, to: string) => { o[to] = o[from]; delete o[from]; }; // vocab-rename: keep
+    old(cutoff.candidate, 'elapsedSeconds', 't'); // vocab-rename: keep
+    old(cutoff.prev, 'elapsedSeconds', 't'); // vocab-rename: keep
+    old(cutoff, 'cutoffElapsedSeconds', 'cutoffT'); // vocab-rename: keep
+    const b = createRunPipeline(PACK, stored);
+    const rest = b.pushMany(falling.slice(split));
+    expect([...before, ...rest.events]).toEqual(one.events);
+    expect(b.totals()).toEqual(totalsOf(one.readings.at(-1)!));
   });
 
   it('refuses a corrupt snapshot with a clear error', () => {

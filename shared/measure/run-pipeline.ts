@@ -66,7 +66,7 @@ const NO_EVENTS: readonly RunEvent[] = Object.freeze([]);
  *   changes nothing; `outcome` says why. Frames should already have passed FrameSchema.
  * - A step in t longer than the gap limit (`maxGapSeconds` if given, else `gapFactor` ×
  *   `cadenceSeconds`, else 30 s) is not integrated; a `gap` event is returned.
- * - Event `t` and `reading.elapsedSeconds` are seconds since the run's origin
+ * - Event `elapsedSeconds` and `reading.elapsedSeconds` are seconds since the run's origin
  *   (`config.originT`, else the first accepted frame's t).
  * - `snapshot()` returns plain JSON; `createRunPipeline(config, snapshot)` or `restore()`
  *   resumes exactly (same totals, same pending detections) after a restart.
@@ -118,7 +118,7 @@ export function createRunPipeline(config: MeasureConfigInput, snapshot?: unknown
     trackLoadSteps(stats.loadSteps, reading, outcome === 'gap', stepOptions);
     // Setting an array's length costs a runtime call even when it is already 0.
     if (scratch.length !== 0) scratch.length = 0;
-    if (outcome === 'gap' && prevT !== null) scratch.push({ type: 'gap', t: prevT - originT, endT: elapsedSeconds, gapSeconds: frame.t - prevT });
+    if (outcome === 'gap' && prevT !== null) scratch.push({ type: 'gap', elapsedSeconds: prevT - originT, endElapsedSeconds: elapsedSeconds, gapSeconds: frame.t - prevT });
     detectStep(det, settings, reading, scratch);
     return { reading, events: scratch.length === 0 ? NO_EVENTS : scratch.slice(), outcome };
   }

@@ -16,8 +16,8 @@ describe('summarizeRun on the NASA B0005 discharge', () => {
     const cutoff = events.find((e) => e.type === 'cutoff')!;
     expect(cutoff).toMatchObject({ cause: 'end-voltage', volts: 2.7 });
     // The crossing lies between the last sample above 2.7 V and the authors' end-of-discharge sample.
-    expect(cutoff.t).toBeGreaterThan(3327.234);
-    expect(cutoff.t).toBeLessThan(3346.937);
+    expect(cutoff.elapsedSeconds).toBeGreaterThan(3327.234);
+    expect(cutoff.elapsedSeconds).toBeLessThan(3346.937);
     // README figure to 6 decimals with the panel's mean current; we interpolate the current too (≤ 1.4e-6 Ah apart).
     expect(Math.abs(cutoff.dischargeAh - 1.849825)).toBeLessThan(5e-6);
     expect(cutoff.dischargeAh).toBeLessThan(1.8564874208181574);

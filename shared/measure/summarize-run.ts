@@ -68,7 +68,7 @@ export function summarizeRun(input: SummarizeRunInput): RunSummary {
   });
   const cutoff = capacity.cutoff;
   const firstTrip = capacity.trips[0];
-  const recovery = firstTrip ? events.find((e): e is RecoveryEvent => e.type === 'recovery' && e.cutoffT === firstTrip.t) ?? null : null;
+  const recovery = firstTrip ? events.find((e): e is RecoveryEvent => e.type === 'recovery' && e.cutoffElapsedSeconds === firstTrip.elapsedSeconds) ?? null : null;
   const deliveredAh = capacity.capacityAh;
   const deliveredWh = capacity.capacityWh;
   const percentRatedAh = known(percentOfRated(deliveredAh, cfg.ratedAh));

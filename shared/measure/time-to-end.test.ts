@@ -6,7 +6,7 @@ import { SECONDS_PER_HOUR } from '../units/time.js';
 
 /** Readings once a second at a constant volts and amps, with the energy integrated exactly (E = V·I·t). */
 function constantPower(volts: number, amps: number, seconds: number, startWh = 0): EstimatorReading[] {
-  return Array.from({ length: seconds + 1 }, (_, t) => ({ t, volts, amps, dischargeWh: startWh + (volts * amps * t) / SECONDS_PER_HOUR }));
+  return Array.from({ length: seconds + 1 }, (_, t) => ({ elapsedSeconds: t, volts, amps, dischargeWh: startWh + (volts * amps * t) / SECONDS_PER_HOUR }));
 }
 
 describe('estimateTimeToEnd', () => {
@@ -20,10 +20,10 @@ describe('estimateTimeToEnd', () => {
   });
 
   it('averages a rippling load: 40 W and 80 W in turn estimate as 60 W (time-weighted mean)', () => {
-    const rs: EstimatorReading[] = [{ t: 0, volts: 10, amps: 4, dischargeWh: 0 }];
+    const rs: EstimatorReading[] = [{ elapsedSeconds: 0, volts: 10, amps: 4, dischargeWh: 0 }];
     for (let t = 1; t <= 600; t++) {
       const watts = t % 2 === 0 ? 80 : 40;
-      rs.push({ t, volts: 10, amps: watts / 10, dischargeWh: rs.at(-1)!.dischargeWh + watts / SECONDS_PER_HOUR });
+      rs.push({ elapsedSeconds: t, volts: 10, amps: watts / 10, dischargeWh: rs.at(-1)!.dischargeWh + watts / SECONDS_PER_HOUR });
     }
     // 600 s at a mean 60 W = 10 Wh, so the same 5400 s as the constant case (hand computed above).
     expect(estimateTimeToEnd(rs, 100).secondsToEnd).toBeCloseTo(5400, 0);
@@ -36,23 +36,23 @@ describe('estimateTimeToEnd', () => {
 
   it('is hidden with no load, keeping % of rated', () => {
     const rs = constantPower(12, 5, 600);
-    rs.push({ t: 601, volts: 12.3, amps: 0, dischargeWh: rs.at(-1)!.dischargeWh });
+    rs.push({ elapsedSeconds: 601, volts: 12.3, amps: 0, dischargeWh: rs.at(-1)!.dischargeWh });
     const e = estimateTimeToEnd(rs, 100);
     expect(e.secondsToEnd).toBeNull();
     expect(e.percentOfRated).toBeCloseTo(10, 9);
   });
 
   it('is hidden while the voltage rises (recovery or charge)', () => {
-    const rs = constantPower(12, 5, 600).map((r) => ({ ...r, volts: 12 + 0.001 * r.t }));
+    const rs = constantPower(12, 5, 600).map((r) => ({ ...r, volts: 12 + 0.001 * r.elapsedSeconds }));
     expect(estimateTimeToEnd(rs, 100).secondsToEnd).toBeNull();
     // A falling voltage is the normal case and is estimated.
-    const falling = constantPower(12, 5, 600).map((r) => ({ ...r, volts: 12 - 0.001 * r.t }));
+    const falling = constantPower(12, 5, 600).map((r) => ({ ...r, volts: 12 - 0.001 * r.elapsedSeconds }));
     expect(estimateTimeToEnd(falling, 100).secondsToEnd).not.toBeNull();
   });
 
   it('is hidden with too few readings or too short a span', () => {
     expect(estimateTimeToEnd(constantPower(12, 5, 5), 100).secondsToEnd).toBeNull();
-    const dense = Array.from({ length: 30 }, (_, i) => ({ t: i * 0.5, volts: 12, amps: 5, dischargeWh: (60 * i * 0.5) / SECONDS_PER_HOUR }));
+    const dense = Array.from({ length: 30 }, (_, i) => ({ elapsedSeconds: i * 0.5, volts: 12, amps: 5, dischargeWh: (60 * i * 0.5) / SECONDS_PER_HOUR }));
     expect(estimateTimeToEnd(dense, 100).secondsToEnd).toBeNull(); // 14.5 s span
     expect(estimateTimeToEnd([], 100)).toEqual({ secondsToEnd: null, percentOfRated: null });
   });
@@ -92,11 +92,11 @@ describe('EndEstimator', () => {
     for (let t = 0; t <= 600; t++) {
       const watts = t <= 300 ? 30 : 60;
       if (t > 0) wh += watts / SECONDS_PER_HOUR;
-      last = est.push({ t, volts: 12, amps: watts / 12, dischargeWh: wh });
+      last = est.push({ elapsedSeconds: t, volts: 12, amps: watts / 12, dischargeWh: wh });
     }
     // Energy: 300 s × 30 W + 300 s × 60 W = 27 000 J = 7.5 Wh; 92.5 Wh left at 60 W = 5550 s (hand computed).
     expect(last.secondsToEnd).toBeCloseTo(5550, 6);
-    expect(est.push({ t: 10, volts: 12, amps: 5, dischargeWh: 0 }).secondsToEnd).toBeCloseTo(5550, 6);
-    expect(est.push({ t: 700, volts: Number.NaN, amps: 5, dischargeWh: 9 }).secondsToEnd).toBeCloseTo(5550, 6);
+    expect(est.push({ elapsedSeconds: 10, volts: 12, amps: 5, dischargeWh: 0 }).secondsToEnd).toBeCloseTo(5550, 6);
+    expect(est.push({ elapsedSeconds: 700, volts: Number.NaN, amps: 5, dischargeWh: 9 }).secondsToEnd).toBeCloseTo(5550, 6);
   });
 });

@@ -25,9 +25,9 @@ export const TIME_TO_END_MAX_SECONDS = 100 * 3600;
 /** Highest % of rated shown; above it the rating is surely wrong for this pack. */
 export const PERCENT_OF_RATED_MAX = 300;
 
-/** One reading as the estimator needs it (seconds, volts, amps positive = discharge, cumulative discharge Wh). */
+/** One reading as the estimator needs it (run time s, volts, amps positive = discharge, cumulative discharge Wh). */
 export interface EstimatorReading {
-  t: number;
+  elapsedSeconds: number;
   volts: number;
   amps: number;
   dischargeWh: number;
@@ -42,13 +42,13 @@ export interface EndEstimate {
 /** Least-squares slope of volts over t (V/s). */
 function voltsSlope(rs: readonly EstimatorReading[]): number {
   const n = rs.length;
-  const meanT = rs.reduce((s, r) => s + r.t, 0) / n;
+  const meanT = rs.reduce((s, r) => s + r.elapsedSeconds, 0) / n;
   const meanV = rs.reduce((s, r) => s + r.volts, 0) / n;
   let num = 0;
   let den = 0;
   for (const r of rs) {
-    num += (r.t - meanT) * (r.volts - meanV);
-    den += (r.t - meanT) ** 2;
+    num += (r.elapsedSeconds - meanT) * (r.volts - meanV);
+    den += (r.elapsedSeconds - meanT) ** 2;
   }
   return den > 0 ? num / den : 0;
 }
@@ -67,9 +67,9 @@ export function estimateTimeToEnd(recent: readonly EstimatorReading[], ratedWh: 
   const percent = percentOfRatedWh(last.dischargeWh, ratedWh);
   const hidden = { secondsToEnd: null, percentOfRated: percent };
   if (ratedWh === null || !(ratedWh > 0)) return hidden;
-  const window = recent.filter((r) => r.t >= last.t - TIME_TO_END_WINDOW_SECONDS);
+  const window = recent.filter((r) => r.elapsedSeconds >= last.elapsedSeconds - TIME_TO_END_WINDOW_SECONDS);
   const first = window[0]!;
-  const spanSeconds = last.t - first.t;
+  const spanSeconds = last.elapsedSeconds - first.elapsedSeconds;
   if (window.length < TIME_TO_END_MIN_READINGS || spanSeconds < TIME_TO_END_MIN_SPAN_SECONDS) return hidden;
   if (last.amps < TIME_TO_END_MIN_LOAD_AMPS) return hidden;
   if (voltsSlope(window) > TIME_TO_END_RISING_VOLTS_PER_SECOND) return hidden;
@@ -89,10 +89,10 @@ export class EndEstimator {
   /** Adds a reading (out-of-order or non-finite ones are ignored) and returns the estimate. */
   push(r: EstimatorReading): EndEstimate {
     const last = this.readings.at(-1);
-    const finite = [r.t, r.volts, r.amps, r.dischargeWh].every(Number.isFinite);
-    if (finite && (!last || r.t > last.t)) {
+    const finite = [r.elapsedSeconds, r.volts, r.amps, r.dischargeWh].every(Number.isFinite);
+    if (finite && (!last || r.elapsedSeconds > last.elapsedSeconds)) {
       this.readings.push(r);
-      while (this.readings.length > 0 && this.readings[0]!.t < r.t - TIME_TO_END_WINDOW_SECONDS) this.readings.shift();
+      while (this.readings.length > 0 && this.readings[0]!.elapsedSeconds < r.elapsedSeconds - TIME_TO_END_WINDOW_SECONDS) this.readings.shift();
     }
     return estimateTimeToEnd(this.readings, this.ratedWh);
   }

@@ -55,7 +55,7 @@ export const AlarmSchema = z.object({
   state: AlarmStateSchema,
   message: z.string(),
   /** Run time of the event that raised it, s. */
-  t: z.number().finite(),
+  elapsedSeconds: z.number().finite(),
   values: AlarmValuesSchema,
   /** True when the kind was shelved on the bench when it was raised: recorded, nobody notified. */
   shelved: z.boolean(),

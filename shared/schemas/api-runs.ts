@@ -9,6 +9,7 @@ import {
   StopWhenSchema,
 } from './run.js';
 import { RunEventSchema } from './run-event.js';
+import { LEGACY_ANNOTATE_KEYS, withCurrentKeys } from './legacy-keys.js';
 import { TempProtectionSchema } from './measure-config.js';
 import { PROTECTIONS, ProtectionRequestSchema } from './protection-check.js';
 import { RunSummarySchema } from './run-summary.js';
@@ -91,13 +92,17 @@ export type ListRunsResponse = z.infer<typeof ListRunsResponseSchema>;
 export const RunResponseSchema = z.object({ run: RunSchema });
 export type RunResponse = z.infer<typeof RunResponseSchema>;
 
-/** GET /api/runs/:id/readings — window in run seconds (elapsedSeconds); maxPoints = buckets. */
+/** The x axis of a readings answer: run time (`elapsedSeconds`), delivered Ah (`ah`) or delivered Wh (`wh`). */
+export const ReadingsAxisSchema = z.enum(['elapsedSeconds', 'ah', 'wh']);
+export type ReadingsAxis = z.infer<typeof ReadingsAxisSchema>;
+
+/** GET /api/runs/:id/readings — window in the unit of the x axis; maxPoints = buckets. */
 export const ReadingsQuerySchema = z.object({
   from: z.coerce.number().finite().optional(),
   to: z.coerce.number().finite().optional(),
   maxPoints: z.coerce.number().int().min(10).max(20_000).default(1000),
-  /** x axis: run seconds (`t`), delivered Ah (`ah`) or delivered Wh (`wh`); `from`/`to` are in its unit. */
-  x: z.enum(['t', 'ah', 'wh']).default('t'),
+  /** x axis; `from`/`to` are in its unit. `x=t` (run time before the rename) is still taken, deprecated. */
+  x: z.preprocess((v) => (v === 't' ? 'elapsedSeconds' : v), ReadingsAxisSchema).default('elapsedSeconds'),
 });
 export type ReadingsQuery = z.infer<typeof ReadingsQuerySchema>;
 
@@ -106,20 +111,21 @@ const column = z.array(z.number().nullable());
 export const MinMaxColumnSchema = z.object({ min: column, max: column });
 
 /**
- * Columnar history. `t` = bucket start (or the reading's own time at full resolution),
- * seconds since the run started. Channels: volts, amps, watts and one per temperature.
+ * Columnar history. `x` = each bucket's start on the x axis (or the reading's own position at
+ * full resolution): run seconds, delivered Ah or delivered Wh as `axis` says. Channels: volts,
+ * amps, watts and one per temperature.
  */
 export const ReadingsResponseSchema = z.object({
   runId: z.number().int(),
-  /** The x axis of `t`, `from`, `to` and `bucketSeconds`: run seconds, delivered Ah or delivered Wh. */
-  x: z.enum(['t', 'ah', 'wh']),
+  /** The x axis of `x`, `from`, `to` and `bucketSeconds`: run seconds, delivered Ah or delivered Wh. */
+  axis: ReadingsAxisSchema,
   from: z.number(),
   to: z.number(),
   /** false = every reading in the window, true = min/max buckets of `bucketSeconds`. */
   reduced: z.boolean(),
   bucketSeconds: z.number().nullable(),
   readingsInWindow: z.number().int(),
-  t: z.array(z.number()),
+  x: z.array(z.number()),
   volts: MinMaxColumnSchema,
   amps: MinMaxColumnSchema,
   watts: MinMaxColumnSchema,
@@ -137,7 +143,8 @@ export const NoteRevisionSchema = z.object({
   runId: z.number().int(),
   eventId: z.number().int(),
   action: z.enum(['edited', 'removed']),
-  t: z.number(),
+  /** Run time of the note, s. */
+  elapsedSeconds: z.number(),
   previousText: z.string(),
   newText: z.string().nullable(),
   changedBy: z.number().int().nullable(),
@@ -148,11 +155,17 @@ export type NoteRevision = z.infer<typeof NoteRevisionSchema>;
 /** GET /api/runs/:id/note-history */
 export const NoteHistoryResponseSchema = z.object({ revisions: z.array(NoteRevisionSchema) });
 
-export const AnnotateRequestSchema = z.object({
-  /** Seconds since the run started; default: the latest reading's time. */
-  t: z.number().finite().nonnegative().optional(),
-  text: noteText(2000, 1),
-});
+/**
+ * POST /api/runs/:id/events body. `elapsedSeconds`: run time of the note, s; default the latest
+ * reading's. Old clients send it as `t` (deprecated): taken as `elapsedSeconds` when that is absent.
+ */
+export const AnnotateRequestSchema = z.preprocess(
+  (body) => withCurrentKeys(body, LEGACY_ANNOTATE_KEYS),
+  z.object({
+    elapsedSeconds: z.number().finite().nonnegative().optional(),
+    text: noteText(2000, 1),
+  }),
+);
 
 /** A stored event: the RunEvent plus its database id and when it was written. */
 export const StoredRunEventSchema = z.object({

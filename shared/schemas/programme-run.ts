@@ -22,8 +22,8 @@ export const StepResultSchema = z.object({
   /** Why it ended, in words (taper current reached, end voltage reached, meter silent, ...). */
   reason: z.string(),
   /** Run time (s) at its start and end. */
-  startT: finite,
-  endT: finite,
+  startElapsedSeconds: finite,
+  endElapsedSeconds: finite,
   chargeAh: nonNeg,
   chargeWh: nonNeg,
   dischargeAh: nonNeg,

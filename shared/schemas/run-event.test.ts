@@ -5,16 +5,16 @@ import { MeasureConfigSchema } from './measure-config.js';
 
 describe('RunEventSchema', () => {
   it('accepts a complete cutoff and rejects one missing its fields', () => {
-    const ok = { type: 'cutoff', t: 10, cause: 'end-voltage', volts: 20, amps: 10, dischargeWh: 5, dischargeAh: 0.25 };
+    const ok = { type: 'cutoff', elapsedSeconds: 10, cause: 'end-voltage', volts: 20, amps: 10, dischargeWh: 5, dischargeAh: 0.25 };
     expect(RunEventSchema.parse(ok)).toEqual(ok);
-    expect(RunEventSchema.safeParse({ type: 'cutoff', t: 10 }).success).toBe(false);
+    expect(RunEventSchema.safeParse({ type: 'cutoff', elapsedSeconds: 10 }).success).toBe(false);
   });
-  it('rejects an unknown type and a non-finite t', () => {
-    expect(RunEventSchema.safeParse({ type: 'explosion', t: 1 }).success).toBe(false);
-    expect(RunEventSchema.safeParse({ type: 'annotation', t: Number.NaN, text: 'x' }).success).toBe(false);
+  it('rejects an unknown type and a non-finite elapsedSeconds', () => {
+    expect(RunEventSchema.safeParse({ type: 'explosion', elapsedSeconds: 1 }).success).toBe(false);
+    expect(RunEventSchema.safeParse({ type: 'annotation', elapsedSeconds: Number.NaN, text: 'x' }).success).toBe(false);
   });
   it('accepts run marks', () => {
-    expect(RunEventSchema.parse({ type: 'load-on', t: 3 }).type).toBe('load-on');
+    expect(RunEventSchema.parse({ type: 'load-on', elapsedSeconds: 3 }).type).toBe('load-on');
   });
 });
 

@@ -1,8 +1,8 @@
 import { z } from 'zod';
 import { ProtectionSchema } from './protection-check.js';
 
-/** Every event carries `t`: seconds since the run started (same clock as Reading.elapsedSeconds). */
-const base = { t: z.number().finite() };
+/** Every event carries `elapsedSeconds`: run time, seconds since the run's origin (the clock of Reading.elapsedSeconds). */
+const base = { elapsedSeconds: z.number().finite() };
 const finite = z.number().finite();
 const nonNeg = z.number().finite().nonnegative();
 
@@ -18,7 +18,7 @@ export const CutoffEventSchema = z.object({
   /** Present when cause = protection. */
   signal: ProtectionSignalSchema.optional(),
   /**
-   * End voltage: the interpolated crossing (volts = the end voltage; t, amps, Wh, Ah at that
+   * End voltage: the interpolated crossing (volts = the end voltage; elapsedSeconds, amps, Wh, Ah at that
    * instant). Protection: the last voltage and current under load before it opened.
    */
   volts: finite,
@@ -32,8 +32,8 @@ export const CutoffEventSchema = z.object({
 export const RecoveryEventSchema = z.object({
   ...base,
   type: z.literal('recovery'),
-  /** t of the protection cutoff this recovery follows. */
-  cutoffT: finite,
+  /** Run time of the protection cutoff this recovery follows. */
+  cutoffElapsedSeconds: finite,
   recoverySeconds: nonNeg,
   volts: finite,
 });
@@ -67,12 +67,12 @@ export const AnnotationEventSchema = z.object({
   author: z.string().max(200).optional(),
 });
 
-/** Readings stopped for longer than the gap limit; nothing was integrated across it. `t` = last reading before. */
+/** Readings stopped for longer than the gap limit; nothing was integrated across it. `elapsedSeconds` = last reading before. */
 export const GapEventSchema = z.object({
   ...base,
   type: z.literal('gap'),
-  /** t of the first reading after the gap. */
-  endT: finite,
+  /** Run time of the first reading after the gap. */
+  endElapsedSeconds: finite,
   gapSeconds: nonNeg,
 });
 
@@ -97,11 +97,11 @@ export const ProtectionTripEventSchema = z.object({
   kind: ProtectionKindSchema,
   channel: z.string(),
   limitCelsius: finite,
-  /** t at which the temperature first crossed the limit. */
-  crossedT: finite,
+  /** Run time at which the temperature first crossed the limit. */
+  crossedElapsedSeconds: finite,
   /** Temperature at the trip (current ≈ 0 A). */
   tempCelsius: finite,
-  /** t − crossedT: the protection's delay, within one sample period. */
+  /** elapsedSeconds − crossedElapsedSeconds: the protection's delay, within one sample period. */
   delaySeconds: nonNeg,
   /** Past the limit from the first reading, with no current: the delay is not known (0 here). */
   beyondAtStart: z.boolean().optional(),
@@ -144,7 +144,7 @@ export const ProtectionCheckTripEventSchema = z.object({
   /** Index of the check in the run's list. */
   check: z.number().int().nonnegative(),
   /** First reading past the threshold (null when the pack was past it from the start). */
-  crossedT: finite.nullable(),
+  crossedElapsedSeconds: finite.nullable(),
   /** The signal at the last reading before the current stopped. */
   value: finite,
   delaySeconds: nonNeg.nullable(),
@@ -157,8 +157,8 @@ export const ProtectionCheckReleaseEventSchema = z.object({
   type: z.literal('protection-check-release'),
   protection: ProtectionSchema,
   check: z.number().int().nonnegative(),
-  /** t of the trip it ends. */
-  tripT: finite,
+  /** Run time of the trip it ends. */
+  tripElapsedSeconds: finite,
   /** The signal at the first reading with current flowing again. */
   value: finite,
   resumeSeconds: nonNeg,

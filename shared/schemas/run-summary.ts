@@ -33,7 +33,8 @@ export type CapacityEndedBy = z.infer<typeof CapacityEndedBySchema>;
 
 /** One protection trip during a run: where it opened, and how long until it reconnected (null: it did not). */
 export const ProtectionTripSchema = z.object({
-  t: finite,
+  /** Run time of the trip, s. */
+  elapsedSeconds: finite,
   volts: finite,
   amps: finite,
   dischargeAh: nonNeg,

@@ -17,7 +17,7 @@ export const ReviewStatusSchema = z.enum(['none', 'ready', 'signed', 'superseded
 export type ReviewStatus = z.infer<typeof ReviewStatusSchema>;
 
 /** One note as frozen in a sign-off. */
-export const SnapshotNoteSchema = z.object({ eventId: z.number().int(), t: z.number(), text: z.string(), author: z.string().nullable() });
+export const SnapshotNoteSchema = z.object({ eventId: z.number().int(), elapsedSeconds: z.number(), text: z.string(), author: z.string().nullable() });
 
 /**
  * The signed result, frozen: the run's identity and settings, its summary (verdict and
@@ -66,8 +66,11 @@ export const SignoffHistoryResponseSchema = z.object({
 });
 export type SignoffHistoryResponse = z.infer<typeof SignoffHistoryResponseSchema>;
 
-/** GET /api/runs/:id/signoffs/:signoffId: one entry with what was frozen. */
-export const SignoffDetailResponseSchema = z.object({ entry: SignoffEntrySchema, snapshot: RunSnapshotSchema });
+/**
+ * GET /api/runs/:id/signoffs/:signoffId: one entry with what was frozen. `verified`: the frozen
+ * snapshot as stored still hashes to the entry's `contentHash`.
+ */
+export const SignoffDetailResponseSchema = z.object({ entry: SignoffEntrySchema, snapshot: RunSnapshotSchema, verified: z.boolean() });
 
 /** POST /api/runs/:id/signoffs/ready (technician or admin). */
 export const MarkReadyRequestSchema = z.strictObject({ comment: z.string().trim().max(SIGNOFF_COMMENT_MAX_CHARS).default('') });

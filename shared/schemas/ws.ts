@@ -45,14 +45,8 @@ export type ClientMessage = z.infer<typeof ClientMessageSchema>;
 
 // ---- server → client ----
 const num = z.number();
-/**
- * Readings as columns (all arrays have the same length). `t` is the source time for a
- * bench topic and seconds since the run started for a run topic. The totals columns are
- * present on run topics only. `temps` holds one column per temperature channel (null
- * when a reading lacks that channel).
- */
-export const ReadingColumnsSchema = z.object({
-  t: z.array(num),
+/** The columns every topic's readings carry, beside its time column. */
+const readingColumnsBase = {
   volts: z.array(num),
   amps: z.array(num),
   watts: z.array(num),
@@ -61,8 +55,24 @@ export const ReadingColumnsSchema = z.object({
   dischargeAh: z.array(num).optional(),
   chargeWh: z.array(num).optional(),
   chargeAh: z.array(num).optional(),
-});
+};
+
+/**
+ * Readings as columns (all arrays have the same length). The time column is exactly one of
+ * two: `elapsedSeconds` (run time, s since the run's origin) on a run topic, `t` (source time,
+ * the meter's own clock) on a bench topic. The totals columns are present on run topics only.
+ * `temps` holds one column per temperature channel (null when a reading lacks that channel).
+ */
+export const ReadingColumnsSchema = z.union([
+  z.object({ elapsedSeconds: z.array(num), t: z.never().optional(), ...readingColumnsBase }),
+  z.object({ t: z.array(num), elapsedSeconds: z.never().optional(), ...readingColumnsBase }),
+]);
 export type ReadingColumns = z.infer<typeof ReadingColumnsSchema>;
+
+/** The time column of readings: `elapsedSeconds` on a run topic, `t` (source time) on a bench topic. */
+export function timeColumn(cols: ReadingColumns): number[] {
+  return cols.elapsedSeconds !== undefined ? cols.elapsedSeconds : cols.t;
+}
 
 /** Number of the last reading a snapshot or batch accounts for in its topic's stream (0 = none yet). */
 const seq = z.number().int().nonnegative();

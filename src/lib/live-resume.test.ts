@@ -26,7 +26,7 @@ class FakeSocket {
   }
 }
 
-const cols = (t: number[]): ReadingColumns => ({ t, volts: t.map(() => 12), amps: t.map(() => 3), watts: t.map(() => 36), temps: {} });
+const cols = (elapsedSeconds: number[]): ReadingColumns => ({ elapsedSeconds, volts: elapsedSeconds.map(() => 12), amps: elapsedSeconds.map(() => 3), watts: elapsedSeconds.map(() => 36), temps: {} });
 
 /**
  * The server's side of the cursor protocol (docs/api.md, WebSocket): readings numbered from 1
@@ -90,7 +90,7 @@ function setup(keep: number) {
 function storedTimes(store: LiveStore): (number | null)[] {
   const out: (number | null)[][] = Array.from({ length: 5 }, () => []);
   store.buffer.copyOrdered(out);
-  return out[LIVE_COLUMN.t].map((t, i) => (out[LIVE_COLUMN.volts][i] === null ? null : t));
+  return out[LIVE_COLUMN.time].map((t, i) => (out[LIVE_COLUMN.volts][i] === null ? null : t));
 }
 
 describe('reconnect with the reading cursor', () => {

@@ -4,8 +4,9 @@ import { LIVE_COLUMN, LiveStore } from './live-store';
 
 const topic = { kind: 'run', id: 1 } as const;
 
-function cols(t: number[]): ReadingColumns {
-  return { t, volts: t.map(() => 12.8), amps: t.map(() => 5), watts: t.map(() => 64), temps: {} };
+/** A run topic's columns: its time column is run time (`elapsedSeconds`). */
+function cols(elapsedSeconds: number[]): ReadingColumns {
+  return { elapsedSeconds, volts: elapsedSeconds.map(() => 12.8), amps: elapsedSeconds.map(() => 5), watts: elapsedSeconds.map(() => 64), temps: {} };
 }
 const batch = (t: number[]): ServerMessage => ({ type: 'batch', seq: 0, topic, readings: cols(t), dropped: 0 });
 
@@ -27,7 +28,7 @@ describe('LiveStore', () => {
     expect(notified).toBe(0);
     frames.flush();
     expect(notified).toBe(1);
-    expect(store.getSnapshot().t).toBe(0.4);
+    expect(store.getSnapshot().time).toBe(0.4);
     expect(store.buffer.length).toBe(5);
   });
 
@@ -43,16 +44,24 @@ describe('LiveStore', () => {
     const store = new LiveStore((fn) => fn());
     store.handle(batch([0, 1, 2]));
     store.handle({ type: 'snapshot', stream: 's1', seq: 9, resume: 'fresh', topic, status: null, run: null, recent: cols([1, 2, 3]), events: [] });
-    const t = Array.from({ length: store.buffer.length }, (_, i) => store.buffer.at(LIVE_COLUMN.t, i));
+    const t = Array.from({ length: store.buffer.length }, (_, i) => store.buffer.at(LIVE_COLUMN.time, i));
     expect(t).toEqual([0, 1, 2, 3]);
+  });
+
+  it("takes a bench topic's source time column `t` as its time", () => {
+    const store = new LiveStore((fn) => fn());
+    const bench = { kind: 'bench', id: 2 } as const;
+    store.handle({ type: 'batch', seq: 2, topic: bench, readings: { t: [1_700_000_000, 1_700_000_001], volts: [12.8, 12.7], amps: [5, 5], watts: [64, 63.5], temps: {} }, dropped: 0 });
+    expect(store.getSnapshot().time).toBe(1_700_000_001);
+    expect(store.buffer.at(LIVE_COLUMN.time, 0)).toBe(1_700_000_000);
   });
 
   it('appends events and reports them as live, snapshot events as replayed', () => {
     const store = new LiveStore((fn) => fn());
     const heard: [string, boolean][] = [];
     store.onEvent((e, live) => heard.push([e.type, live]));
-    store.handle({ type: 'snapshot', stream: 's1', seq: 1, resume: 'fresh', topic, status: null, run: null, recent: cols([]), events: [{ type: 'run-start', t: 0 }] });
-    store.handle({ type: 'event', topic, eventId: 5, event: { type: 'annotation', t: 3, text: 'Fan on' } });
+    store.handle({ type: 'snapshot', stream: 's1', seq: 1, resume: 'fresh', topic, status: null, run: null, recent: cols([]), events: [{ type: 'run-start', elapsedSeconds: 0 }] });
+    store.handle({ type: 'event', topic, eventId: 5, event: { type: 'annotation', elapsedSeconds: 3, text: 'Fan on' } });
     expect(heard).toEqual([
       ['run-start', false],
       ['annotation', true],
@@ -63,7 +72,7 @@ describe('LiveStore', () => {
 
 describe('LiveStore.backfill', () => {
   const history = {
-    t: [0, 10, 20, 30],
+    x: [0, 10, 20, 30],
     bucketSeconds: 10,
     volts: { min: [13.1, 13.0, 12.9, 12.8], max: [13.2, 13.1, 13.0, 12.9] },
     amps: { min: [5, 5, 5, 5], max: [5, 5, 5, 5] },
@@ -75,7 +84,7 @@ describe('LiveStore.backfill', () => {
     const store = new LiveStore((fn) => fn());
     store.handle(batch([30, 31, 32]));
     store.backfill(history);
-    const t = Array.from({ length: store.buffer.length }, (_, i) => store.buffer.at(LIVE_COLUMN.t, i));
+    const t = Array.from({ length: store.buffer.length }, (_, i) => store.buffer.at(LIVE_COLUMN.time, i));
     // Buckets at 0, 10, 20 give a min row and a max row half a bucket later; the bucket at 30 overlaps the live rows.
     expect(t).toEqual([0, 5, 10, 15, 20, 25, 30, 31, 32]);
     const volts = Array.from({ length: 6 }, (_, i) => store.buffer.at(LIVE_COLUMN.volts, i));
@@ -96,13 +105,13 @@ describe('LiveStore notes', () => {
     const store = new LiveStore((fn) => fn());
     const heard: number[] = [];
     store.onNoteChange((id) => heard.push(id));
-    const note = { type: 'annotation' as const, t: 3, text: 'Fan on', author: 'Tomas' };
-    store.handle({ type: 'snapshot', stream: 's1', seq: 1, resume: 'fresh', topic, status: null, run: null, recent: cols([]), events: [{ type: 'run-start', t: 0 }, note] });
+    const note = { type: 'annotation' as const, elapsedSeconds: 3, text: 'Fan on', author: 'Tomas' };
+    store.handle({ type: 'snapshot', stream: 's1', seq: 1, resume: 'fresh', topic, status: null, run: null, recent: cols([]), events: [{ type: 'run-start', elapsedSeconds: 0 }, note] });
     const edited = { ...note, text: 'Fan on, 30 cm away' };
     store.handle({ type: 'note', topic, eventId: 8, previous: note, event: edited });
-    expect(store.getSnapshot().events).toEqual([{ type: 'run-start', t: 0 }, edited]);
+    expect(store.getSnapshot().events).toEqual([{ type: 'run-start', elapsedSeconds: 0 }, edited]);
     store.handle({ type: 'note', topic, eventId: 8, previous: edited, event: null });
-    expect(store.getSnapshot().events).toEqual([{ type: 'run-start', t: 0 }]);
+    expect(store.getSnapshot().events).toEqual([{ type: 'run-start', elapsedSeconds: 0 }]);
     expect(heard).toEqual([8, 8]);
   });
 });

@@ -1,12 +1,12 @@
 import type { AnnotationEvent, RunEvent } from '../../shared/schemas/run-event';
-import type { ReadingColumns, ServerMessage } from '../../shared/schemas/ws';
+import { timeColumn, type ReadingColumns, type ServerMessage } from '../../shared/schemas/ws';
 import { ColumnarRingBuffer } from './ring-buffer';
 import { EMPTY_LIVE_VIEW, pickTempChannel, type HistoryColumns, type LiveView, type MinMax } from './live-view';
 
 export type { HistoryColumns, LiveView } from './live-view';
 
-/** Column order in the ring buffer (and in the chart's data). */
-export const LIVE_COLUMN = { t: 0, volts: 1, amps: 2, watts: 3, temp: 4 } as const;
+/** Column order in the ring buffer (and in the chart's data); `time` is run time on a run topic, source time on a bench topic. */
+export const LIVE_COLUMN = { time: 0, volts: 1, amps: 2, watts: 3, temp: 4 } as const;
 const COLUMN_COUNT = 5;
 /** 15 minutes at 10 Hz; older readings live in the archive, not in the browser. */
 export const LIVE_WINDOW_ROWS = 9_000;
@@ -16,7 +16,7 @@ const GAP_FACTOR = 5;
 
 /** The timeline with one note replaced by its new text, or taken out (`next` null). */
 function withNoteChange(events: readonly RunEvent[], previous: AnnotationEvent, next: AnnotationEvent | null): readonly RunEvent[] {
-  const i = events.findIndex((e) => e.type === 'annotation' && e.t === previous.t && e.text === previous.text && e.author === previous.author);
+  const i = events.findIndex((e) => e.type === 'annotation' && e.elapsedSeconds === previous.elapsedSeconds && e.text === previous.text && e.author === previous.author);
   if (i < 0) return events;
   return next ? [...events.slice(0, i), next, ...events.slice(i + 1)] : [...events.slice(0, i), ...events.slice(i + 1)];
 }
@@ -85,7 +85,7 @@ export class LiveStore {
    * then its max) so a spike or a cutoff inside a bucket still shows.
    */
   backfill(h: HistoryColumns): void {
-    const firstLiveT = this.buffer.length > 0 ? (this.buffer.at(LIVE_COLUMN.t, 0) ?? Infinity) : Infinity;
+    const firstLiveT = this.buffer.length > 0 ? (this.buffer.at(LIVE_COLUMN.time, 0) ?? Infinity) : Infinity;
     const saved: (number | null)[][] = Array.from({ length: COLUMN_COUNT }, () => []);
     const savedCount = this.buffer.copyOrdered(saved);
     this.buffer.clear();
@@ -93,8 +93,8 @@ export class LiveStore {
     const temp = channel ? h.temps[channel] : undefined;
     const half = (h.bucketSeconds ?? 0) / 2;
     let lastT: number | null = null;
-    for (let i = 0; i < h.t.length; i++) {
-      const t = h.t[i];
+    for (let i = 0; i < h.x.length; i++) {
+      const t = h.x[i];
       if (t >= firstLiveT) break;
       this.pushHistoryRow(t, h, temp, i, 'min');
       lastT = t;
@@ -115,7 +115,7 @@ export class LiveStore {
   }
 
   private pushHistoryRow(t: number, h: HistoryColumns, temp: MinMax | undefined, i: number, side: 'min' | 'max'): void {
-    this.row[LIVE_COLUMN.t] = t;
+    this.row[LIVE_COLUMN.time] = t;
     this.row[LIVE_COLUMN.volts] = h.volts[side][i];
     this.row[LIVE_COLUMN.amps] = h.amps[side][i];
     this.row[LIVE_COLUMN.watts] = h.watts[side][i];
@@ -130,13 +130,15 @@ export class LiveStore {
         this.update({ run: message.run, status: message.status ?? this.next.status, events: message.events });
         this.appendReadings(message.recent, message.resume !== 'resumed');
         message.events.forEach((e) => this.eventListeners.forEach((l) => l(e, false)));
-        if (message.resume !== 'resumed') this.snapshotListeners.forEach((l) => l(message.recent.t.length > 0 ? message.recent.t[0] : null));
+        if (message.resume !== 'resumed') this.snapshotListeners.forEach((l) => l(timeColumn(message.recent)[0] ?? null));
         break;
-      case 'batch':
+      case 'batch': {
         this.appendReadings(message.readings, false);
-        if (message.readings.t.length > 0) this.update({ receivedAtMs: this.nowMs(), status: this.countFrames(message.readings.t.length + message.dropped) });
+        const received = timeColumn(message.readings).length;
+        if (received > 0) this.update({ receivedAtMs: this.nowMs(), status: this.countFrames(received + message.dropped) });
         if (message.dropped > 0) this.update({ droppedReadings: this.next.droppedReadings + message.dropped });
         break;
+      }
       case 'event':
         this.update({ events: [...this.next.events, message.event] });
         this.eventListeners.forEach((l) => l(message.event, true));
@@ -180,13 +182,14 @@ export class LiveStore {
   }
 
   private appendReadings(cols: ReadingColumns, afterOutage: boolean): void {
-    const n = cols.t.length;
+    const times = timeColumn(cols);
+    const n = times.length;
     if (n === 0) return;
     const channel = this.next.tempChannel ?? pickTempChannel(cols.temps);
     const temps = channel ? cols.temps[channel] : undefined;
-    let lastT = this.buffer.last(LIVE_COLUMN.t) ?? null;
+    let lastT = this.buffer.last(LIVE_COLUMN.time) ?? null;
     for (let i = 0; i < n; i++) {
-      const t = cols.t[i];
+      const t = times[i];
       // A snapshot without a usable cursor repeats what we have: keep only what is new.
       if (lastT !== null && t <= lastT) continue;
       if (lastT !== null) {
@@ -197,7 +200,7 @@ export class LiveStore {
           this.lastDtSeconds = dt;
         }
       }
-      this.row[LIVE_COLUMN.t] = t;
+      this.row[LIVE_COLUMN.time] = t;
       this.row[LIVE_COLUMN.volts] = cols.volts[i];
       this.row[LIVE_COLUMN.amps] = cols.amps[i];
       this.row[LIVE_COLUMN.watts] = cols.watts[i];
@@ -207,7 +210,7 @@ export class LiveStore {
     }
     const last = n - 1;
     this.update({
-      t: cols.t[last],
+      time: times[last],
       volts: cols.volts[last],
       amps: cols.amps[last],
       watts: cols.watts[last],
@@ -223,7 +226,7 @@ export class LiveStore {
 
   private pushGap(t: number): void {
     this.row.fill(null);
-    this.row[LIVE_COLUMN.t] = t;
+    this.row[LIVE_COLUMN.time] = t;
     this.buffer.push(this.row);
   }
 }

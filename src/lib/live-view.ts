@@ -4,7 +4,8 @@ import type { Run } from '../../shared/schemas/run';
 
 /** The low-rate picture React renders: latest values, totals, events, state. */
 export interface LiveView {
-  t: number | null;
+  /** The latest reading's time: run time (elapsedSeconds) on a run topic, source time on a bench topic. */
+  time: number | null;
   volts: number | null;
   amps: number | null;
   watts: number | null;
@@ -32,14 +33,14 @@ export interface LiveView {
 
 /** A topic before its first message. */
 export const EMPTY_LIVE_VIEW: LiveView = {
-  t: null, volts: null, amps: null, watts: null, tempCelsius: null, tempChannel: null,
+  time: null, volts: null, amps: null, watts: null, tempCelsius: null, tempChannel: null,
   dischargeWh: null, dischargeAh: null, chargeWh: null, chargeAh: null,
   run: null, status: null, events: [], droppedReadings: 0, error: null, dataVersion: 0, receivedAtMs: null,
 };
 
-/** Archived history as the readings API answers it: min/max per bucket (equal at full resolution). */
+/** Archived history as the readings API answers it: min/max per bucket (equal at full resolution); `x` in run seconds here. */
 export interface HistoryColumns {
-  t: number[];
+  x: number[];
   bucketSeconds: number | null;
   volts: MinMax;
   amps: MinMax;

@@ -28,10 +28,10 @@ export function useEndEstimate(view: LiveView): EndEstimate {
   const ratedWh = ratedWhOf(battery.data);
   const estimator = useRef<{ key: string; est: EndEstimator } | null>(null);
   return useMemo(() => {
-    if (!discharge || view.t === null || view.volts === null || view.amps === null || view.dischargeWh === null) return HIDDEN;
+    if (!discharge || view.time === null || view.volts === null || view.amps === null || view.dischargeWh === null) return HIDDEN;
     const key = `${run?.id}:${ratedWh}`;
     if (estimator.current?.key !== key) estimator.current = { key, est: new EndEstimator(ratedWh) };
-    // A reading already seen (same t) changes nothing: the estimator ignores it.
-    return estimator.current.est.push({ t: view.t, volts: view.volts, amps: view.amps, dischargeWh: view.dischargeWh });
-  }, [discharge, run?.id, ratedWh, view.t, view.volts, view.amps, view.dischargeWh]);
+    // A reading already seen (same run time) changes nothing: the estimator ignores it.
+    return estimator.current.est.push({ elapsedSeconds: view.time, volts: view.volts, amps: view.amps, dischargeWh: view.dischargeWh });
+  }, [discharge, run?.id, ratedWh, view.time, view.volts, view.amps, view.dischargeWh]);
 }

@@ -41,7 +41,7 @@ describe('the alarm service worker in Chromium', () => {
     const bench = (await admin.post('/api/benches').send({ name: 'Push drill bench', source: { kind: 'none' } }).expect(201)).body.bench;
     const run = (await techApi.post('/api/runs').send({ benchId: bench.id, batteryId: battery.id, name: 'Push drill', stopWhen: 'manual' }).expect(201)).body.run;
     const alarm = await new AlarmRepo(t.ctx.sequelize).insert({
-      runId: run.id, benchId: bench.id, kind: 'cutoff', priority: 'critical', message: 'End voltage reached: cutoff at 10.000 V', t: 60,
+      runId: run.id, benchId: bench.id, kind: 'cutoff', priority: 'critical', message: 'End voltage reached: cutoff at 10.000 V', elapsedSeconds: 60,
       values: { volts: 10, amps: 5, dischargeWh: 40, dischargeAh: 3.5, tempCelsius: 25, runSeconds: 60 }, shelved: false, raisedAt: new Date(), nextEscalationAt: null,
     });
 

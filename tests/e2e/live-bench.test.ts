@@ -6,6 +6,7 @@ import type { TestBrowser } from './helpers/browser.js';
 import { SCREENSHOT_DIR, startE2eApp, type E2eApp } from './helpers/e2e-app.js';
 import { signInThroughForm } from './helpers/sign-in.js';
 import { demoDischarge, simulateLive } from './helpers/simulated-live.js';
+import { timeColumn } from '../../shared/schemas/ws.js';
 
 const RUN_ID = 101;
 const RUN_SECONDS = 7200;
@@ -42,14 +43,14 @@ describe('live bench page (live stream played by a /ws peer that speaks shared/s
     const [benchA, benchB] = benches.benches;
     const recent = demoDischarge(RUN_SECONDS);
     const live = await simulateLive(page, [
-      { benchId: benchA.id, run: demoRun(benchA.id), recent, events: [{ type: 'run-start', t: 0 }, { type: 'annotation', t: 1800, text: 'Fan on, ambient 22 °C', author: 'Tomas' }] },
-      { benchId: benchB.id, run: null, recent: { t: [], volts: [], amps: [], watts: [], temps: {} }, events: [] },
+      { benchId: benchA.id, run: demoRun(benchA.id), recent, events: [{ type: 'run-start', elapsedSeconds: 0 }, { type: 'annotation', elapsedSeconds: 1800, text: 'Fan on, ambient 22 °C', author: 'Tomas' }] },
+      { benchId: benchB.id, run: null, recent: { elapsedSeconds: [], volts: [], amps: [], watts: [], temps: {} }, events: [] },
     ]);
 
     await page.goto(`${t.url}/benches/${benchA.id}`);
     await page.getByRole('heading', { name: benchA.name, level: 1 }).waitFor();
     await page.getByTestId('big-volts').filter({ hasText: /^\d/ }).waitFor();
-    const last = recent.t.length - 1;
+    const last = timeColumn(recent).length - 1;
     expect(await page.getByTestId('big-volts').textContent()).toBe(recent.volts[last].toFixed(2));
     expect(await page.getByTestId('big-energy-out').textContent()).toBe(recent.dischargeWh![last].toLocaleString('en-US', { minimumFractionDigits: 1, maximumFractionDigits: 1 }));
     expect(await page.locator('[data-testid="live-chart"] canvas').count()).toBeGreaterThan(0);
@@ -59,7 +60,7 @@ describe('live bench page (live stream played by a /ws peer that speaks shared/s
     expect(await page.evaluate(`document.fonts.ready.then(() => document.fonts.check('700 16px "JetBrains Mono"'))`)).toBe(true);
     await page.screenshot({ path: `${SCREENSHOT_DIR}/live-bench.png`, fullPage: true });
 
-    live.pushEvent(RUN_ID, { type: 'cutoff', t: RUN_SECONDS + 1, cause: 'protection', signal: 'current-zero', volts: 11.5, amps: 52, dischargeWh: 1200, dischargeAh: 96.2 });
+    live.pushEvent(RUN_ID, { type: 'cutoff', elapsedSeconds: RUN_SECONDS + 1, cause: 'protection', signal: 'current-zero', volts: 11.5, amps: 52, dischargeWh: 1200, dischargeAh: 96.2 });
     const banner = page.getByRole('alert').filter({ hasText: 'CUTOFF' });
     await banner.waitFor();
     expect(await banner.textContent()).toContain('pack protection opened');

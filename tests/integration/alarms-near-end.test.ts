@@ -51,7 +51,7 @@ async function discharge(voltsAt: (s: number) => number, name: string): Promise<
   return run.id as number;
 }
 
-const alarmsOf = async (runId: number) => (await tech.get(`/api/alarms?runId=${runId}`).expect(200)).body.alarms as { kind: string; t: number; message: string; id: number }[];
+const alarmsOf = async (runId: number) => (await tech.get(`/api/alarms?runId=${runId}`).expect(200)).body.alarms as { kind: string; elapsedSeconds: number; message: string; id: number }[];
 
 describe('the near-end alarm from the live time to the end voltage', () => {
   it('fires once, through the recorder, at the reading where the estimate drops under the lab\'s minutes', async () => {
@@ -59,8 +59,8 @@ describe('the near-end alarm from the live time to the end voltage', () => {
     const nearEnd = (await alarmsOf(runId)).filter((a) => a.kind === 'near-end');
     expect(nearEnd).toHaveLength(1);
     // The first reading with (3600 − t)/60 < 15 is the one after 2700 s.
-    expect(nearEnd[0]!.t).toBeGreaterThan(UNDER_LIMIT_AFTER_S);
-    expect(nearEnd[0]!.t).toBeLessThanOrEqual(UNDER_LIMIT_AFTER_S + 1);
+    expect(nearEnd[0]!.elapsedSeconds).toBeGreaterThan(UNDER_LIMIT_AFTER_S);
+    expect(nearEnd[0]!.elapsedSeconds).toBeLessThanOrEqual(UNDER_LIMIT_AFTER_S + 1);
     expect(nearEnd[0]!.message).toBe('About 15 min to the end voltage');
     // Exactly one mail for it, although every later reading is also under the limit.
     await eventually(async () => expect(smtp.received.filter((m) => m.subject.includes('near-end'))).toHaveLength(1));

@@ -117,7 +117,7 @@ describe('a run to cutoff', () => {
     expect(cutoff).toMatchObject({ priority: 'critical', state: 'unacknowledged', escalationStep: 0 });
     expect(cutoff.values.volts).toBeCloseTo(END_VOLTS, 9);
     expect(cutoff.values.dischargeWh).toBeCloseTo(42, 9);
-    expect(cutoff.t).toBeCloseTo(CROSSING_S, 6);
+    expect(cutoff.elapsedSeconds).toBeCloseTo(CROSSING_S, 6);
     expect(mail!.text).toContain(`${PUBLIC_URL}/alarms/${cutoff.id}`);
     cutoffAlarmId = cutoff.id;
     // The first on-call person (the admin) is told at once, in the app and by mail.

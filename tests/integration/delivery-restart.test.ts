@@ -109,7 +109,7 @@ describe('delivery without duplicates after a restart', () => {
     // This server's worker is down while the doomed one works, as if on another machine.
     await current.ctx.services.alarmDelivery!.stop();
     const alarm = await repo.insert({
-      runId, benchId: null, kind: 'run-finished', priority: 'info', message: 'Run finished', t: 40,
+      runId, benchId: null, kind: 'run-finished', priority: 'info', message: 'Run finished', elapsedSeconds: 40,
       values: { volts: null, amps: null, dischargeWh: null, dischargeAh: null, tempCelsius: null, runSeconds: 40 }, shelved: false, raisedAt: new Date(), nextEscalationAt: null,
     });
     // The doomed server's clock puts its claim's lease end LEASE_LEFT_MS from now.

@@ -54,7 +54,7 @@ describe('POST /api/runs/import', () => {
     // The imported readings are archived like a live run's.
     const samples = (await viewer.get(`/api/runs/${res.body.run.id}/readings?maxPoints=1000`).expect(200)).body;
     expect(samples.reduced).toBe(false);
-    expect(samples.t).toHaveLength(197);
+    expect(samples.x).toHaveLength(197);
     expect(samples.amps.max[10]).toBeGreaterThan(1.9); // discharge made positive
   });
 

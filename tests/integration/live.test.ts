@@ -1,4 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { timeColumn } from '../../shared/schemas/ws.js';
 import { liveAttachment } from '../../server/live/attach-live.js';
 import { createTestContext, signInAs, type SignedInAgent, type TestContext } from './helpers/index.js';
 import { batteryAndBench, ManualFeed, sessionCookie, tempSpillDir, WsProbe } from './runs-kit.js';
@@ -64,23 +65,25 @@ describe('WebSocket /ws', () => {
     expect(snap.run?.id).toBe(run.id);
     expect(snap.events.map((e) => e.type)).toContain('run-start');
     for (let s = 0; s < 20; s++) feed.emit(ids.benchId, { t: s, volts: 12, amps: 3, clock: 'device' });
-    await p.next('batch', (b) => b.readings.t.includes(19));
+    await p.next('batch', (b) => timeColumn(b.readings).includes(19));
     const batches = p.messages.filter((m) => m.type === 'batch');
-    const t0 = batches.flatMap((b) => (b.type === 'batch' ? b.readings.t : []));
+    const t0 = batches.flatMap((b) => (b.type === 'batch' ? timeColumn(b.readings) : []));
     expect(t0).toEqual(Array.from({ length: 20 }, (_, i) => i));
     const last = batches[batches.length - 1]!;
     // 19 s at 3 A = 57/3600 Ah (constant current).
     if (last.type === 'batch') expect(last.readings.dischargeAh!.at(-1)).toBeCloseTo(57 / 3600, 12);
+    // A run topic's time column is run time, never the source time `t`.
+    if (last.type === 'batch') expect(['elapsedSeconds' in last.readings, 't' in last.readings]).toEqual([true, false]);
     // seq numbers the run's readings: the snapshot had none yet, each batch ends at its last reading.
     expect(snap.seq).toBe(0);
     expect(batches.map((b) => (b.type === 'batch' ? b.seq : -1)).at(-1)).toBe(20);
     let counted = 0;
-    for (const b of batches) if (b.type === 'batch') expect(b.seq).toBe((counted += b.readings.t.length));
+    for (const b of batches) if (b.type === 'batch') expect(b.seq).toBe((counted += timeColumn(b.readings).length));
 
     await viewer.post(`/api/runs/${run.id}/events`).send({ text: 'viewer note' }).expect(403);
     await tech.post(`/api/runs/${run.id}/events`).send({ text: 'load switched on' }).expect(201);
     const ev = await p.next('event', (e) => e.event.type === 'annotation');
-    expect(ev.event).toMatchObject({ type: 'annotation', text: 'load switched on', t: 19 });
+    expect(ev.event).toMatchObject({ type: 'annotation', text: 'load switched on', elapsedSeconds: 19 });
     expect(ev.eventId).toBeGreaterThan(0);
     await tech.post(`/api/runs/${run.id}/stop`).send({}).expect(200);
     const change = await p.next('run', (m) => m.run.state === 'finished');
@@ -94,8 +97,8 @@ describe('WebSocket /ws', () => {
     first.send({ type: 'subscribe', topic });
     const snap = await first.next('snapshot');
     for (let s = 0; s < 30; s++) feed.emit(ids.benchId, { t: s, volts: 12.5, amps: 4, clock: 'device' });
-    const lastSeen = await first.next('batch', (b) => b.readings.t.includes(29));
-    const seen = first.messages.flatMap((m) => (m.type === 'batch' ? m.readings.t : []));
+    const lastSeen = await first.next('batch', (b) => timeColumn(b.readings).includes(29));
+    const seen = first.messages.flatMap((m) => (m.type === 'batch' ? timeColumn(m.readings) : []));
     first.close(); // the connection drops
     for (let s = 30; s < 55; s++) feed.emit(ids.benchId, { t: s, volts: 12.4, amps: 4, clock: 'device' });
 
@@ -104,10 +107,10 @@ describe('WebSocket /ws', () => {
     const resumed = await again.next('snapshot');
     expect(resumed.resume).toBe('resumed');
     for (let s = 55; s < 60; s++) feed.emit(ids.benchId, { t: s, volts: 12.4, amps: 4, clock: 'device' });
-    await again.next('batch', (b) => b.readings.t.includes(59));
-    const after = again.messages.flatMap((m) => (m.type === 'batch' ? m.readings.t : []));
+    await again.next('batch', (b) => timeColumn(b.readings).includes(59));
+    const after = again.messages.flatMap((m) => (m.type === 'batch' ? timeColumn(m.readings) : []));
     // Every reading the server published, once, in order: nothing lost across the drop, nothing repeated.
-    expect([...seen, ...resumed.recent.t, ...after]).toEqual(Array.from({ length: 60 }, (_, i) => i));
+    expect([...seen, ...timeColumn(resumed.recent), ...after]).toEqual(Array.from({ length: 60 }, (_, i) => i));
 
     // A cursor the server cannot serve (another stream: a restart) is told to refetch the history.
     const stale = await open(await sessionCookie(t, 'viewer'));
@@ -154,9 +157,9 @@ describe('WebSocket /ws', () => {
       await new Promise((r) => setTimeout(r, 3));
     }
     const lastT = 1_000_000 + FRAMES - 1;
-    const got = await fast.next('batch', (b) => b.readings.t.includes(lastT), 30_000);
+    const got = await fast.next('batch', (b) => timeColumn(b.readings).includes(lastT), 30_000);
     const lag = Date.now() - sentAt[sentAt.length - 1]!;
-    const fastTs = fast.messages.flatMap((m) => (m.type === 'batch' ? m.readings.t : [])).filter((x) => x >= 1_000_000);
+    const fastTs = fast.messages.flatMap((m) => (m.type === 'batch' ? timeColumn(m.readings) : [])).filter((x) => x >= 1_000_000);
     const fastDropped = fast.messages.reduce((s, m) => s + (m.type === 'batch' ? m.dropped : 0), 0);
     // The fast client kept up: the newest reading reached it promptly and (almost) everything
     // arrived; it shares this process with the emitter, so a rare reading may be thinned while
@@ -165,7 +168,9 @@ describe('WebSocket /ws', () => {
     expect(fastTs[fastTs.length - 1]).toBe(lastT);
     expect(fastTs.length + fastDropped).toBe(FRAMES);
     expect(fastTs.length).toBeGreaterThan(FRAMES * 0.9);
-    expect(got.readings.t.at(-1)).toBe(lastT);
+    expect(timeColumn(got.readings).at(-1)).toBe(lastT);
+    // A bench topic's time column is the source time `t`.
+    expect(['t' in got.readings, 'elapsedSeconds' in got.readings]).toEqual([true, false]);
     // The slow client resumes: it was thinned (dropped counted), not allowed to stall the others.
     delete (slowSocket as { resume?: unknown }).resume; // back to the prototype's resume
     slowSocket.resume();
@@ -173,13 +178,13 @@ describe('WebSocket /ws', () => {
     let extra = 0;
     const ticker = setInterval(() => feed.emit(ids.benchId, { t: lastT + ++extra, volts: 12, amps: 2, clock: 'device' }), 50);
     try {
-      await slow.next('batch', (b) => b.readings.t.some((x) => x > lastT), 30_000);
+      await slow.next('batch', (b) => timeColumn(b.readings).some((x) => x > lastT), 30_000);
     } finally {
       clearInterval(ticker);
     }
-    const lastSeen = Math.max(...slow.messages.flatMap((m) => (m.type === 'batch' ? m.readings.t : [])));
+    const lastSeen = Math.max(...slow.messages.flatMap((m) => (m.type === 'batch' ? timeColumn(m.readings) : [])));
     const dropped = slow.messages.reduce((s, m) => s + (m.type === 'batch' ? m.dropped : 0), 0);
-    const slowTs = slow.messages.flatMap((m) => (m.type === 'batch' ? m.readings.t : [])).filter((x) => x >= 1_000_000);
+    const slowTs = slow.messages.flatMap((m) => (m.type === 'batch' ? timeColumn(m.readings) : [])).filter((x) => x >= 1_000_000);
     expect(dropped).toBeGreaterThan(FRAMES / 10);
     // Every reading up to the newest one it saw was either sent or counted as dropped.
     expect(slowTs.length + dropped).toBe(lastSeen - 1_000_000 + 1);

@@ -64,7 +64,7 @@ describe('a live run', () => {
     const cut = cutoffs[0];
     expect(cut.cause).toBe('end-voltage');
     // Closed form up to the cutoff time: Ah = I·T/3600, Wh = I·(V0·T − b·T²/2)/3600.
-    const T = cut.t;
+    const T = cut.elapsedSeconds;
     expect(cut.dischargeAh).toBeCloseTo((AMPS * T) / 3600, 9);
     expect(cut.dischargeWh).toBeCloseTo((AMPS * (V0 * T - (SLOPE_V_PER_S * T * T) / 2)) / 3600, 9);
     expect(volts(T)).toBeCloseTo(END_VOLTS, 9); // the crossing, interpolated between readings
@@ -79,13 +79,13 @@ describe('a live run', () => {
   it('serves the history reduced to min/max buckets, and in full for a small window', async () => {
     const reduced = ReadingsResponseSchema.parse((await viewer.get(`/api/runs/${runId}/readings?maxPoints=100`).expect(200)).body);
     expect(reduced.reduced).toBe(true);
-    expect(reduced.t).toHaveLength(100);
+    expect(reduced.x).toHaveLength(100);
     expect(reduced.volts.max[0]).toBeCloseTo(V0, 9);
     expect(Math.min(...reduced.volts.min.filter((v: number | null) => v !== null))).toBeLessThan(END_VOLTS);
     expect(reduced.temps.cell.max[50]).toBe(25);
     const full = (await viewer.get(`/api/runs/${runId}/readings?from=100&to=109&maxPoints=50`).expect(200)).body;
     expect(full.reduced).toBe(false);
-    expect(full.t).toEqual([100, 101, 102, 103, 104, 105, 106, 107, 108, 109]);
+    expect(full.x).toEqual([100, 101, 102, 103, 104, 105, 106, 107, 108, 109]);
     expect(full.volts.min[0]).toBeCloseTo(volts(100), 12);
     await viewer.get(`/api/runs/${runId}/readings?from=10&to=5`).expect(400);
     // Ten buckets over ~3,000 readings: served from the stored 64-reading min/max groups.
@@ -101,7 +101,7 @@ describe('a live run', () => {
     const current = (await viewer.get(path).expect(200)).body;
     const old = (await viewer.get(path.replace('/readings', '/samples')).expect(200)).body; // vocab-rename: keep
     expect(old).toEqual(current);
-    expect(current.t).toHaveLength(10);
+    expect(current.x).toHaveLength(10);
     await viewer.get(`/api/runs/${runId}/samples?from=10&to=5`).expect(400); // vocab-rename: keep
   });
 
@@ -134,16 +134,16 @@ describe('a live run', () => {
 
   it('lets a technician annotate and rename, never a viewer; list filters by name, tag, battery and state', async () => {
     await viewer.post(`/api/runs/${runId}/events`).send({ text: 'smell of hot plastic' }).expect(403);
-    const note = await tech.post(`/api/runs/${runId}/events`).send({ t: 120, text: 'fan moved closer' }).expect(201);
-    expect(note.body.event.event).toMatchObject({ type: 'annotation', t: 120, text: 'fan moved closer' });
+    const note = await tech.post(`/api/runs/${runId}/events`).send({ elapsedSeconds: 120, text: 'fan moved closer' }).expect(201);
+    expect(note.body.event.event).toMatchObject({ type: 'annotation', elapsedSeconds: 120, text: 'fan moved closer' });
     await tech.post(`/api/runs/${runId}/events`).send({ text: '' }).expect(400);
     await tech.post(`/api/runs/${runId}/events`).send({ text: '\u0000\u0000' }).expect(400);
     // A note far beyond the run's end is refused with its length; one at the very end is kept.
     const { durationSeconds } = (await viewer.get(`/api/runs/${runId}`)).body.run.summary;
-    const late = await tech.post(`/api/runs/${runId}/events`).send({ t: durationSeconds + 1e6, text: 'far beyond the end' }).expect(400);
+    const late = await tech.post(`/api/runs/${runId}/events`).send({ elapsedSeconds: durationSeconds + 1e6, text: 'far beyond the end' }).expect(400);
     expect(late.body.error.message).toMatch(/after the end of the run/);
-    expect(late.body.error.fields.t).toBeDefined();
-    await tech.post(`/api/runs/${runId}/events`).send({ t: durationSeconds, text: 'at the very end' }).expect(201);
+    expect(late.body.error.fields.elapsedSeconds).toBeDefined();
+    await tech.post(`/api/runs/${runId}/events`).send({ elapsedSeconds: durationSeconds, text: 'at the very end' }).expect(201);
     await viewer.patch(`/api/runs/${runId}`).send({ name: 'nope' }).expect(403);
     await tech.patch(`/api/runs/${runId}`).send({ name: 'Capacity Voltara A-12 (repeat)', tags: ['repeat'] }).expect(200);
     const byName = ListRunsResponseSchema.parse((await viewer.get('/api/runs?q=repeat').expect(200)).body);
@@ -366,8 +366,8 @@ describe('a meter misbehaving mid-run', () => {
       const samples = ReadingsResponseSchema.parse((await viewer.get(`/api/runs/${run.id}/readings?maxPoints=1000`).expect(200)).body);
       expect(samples.readingsInWindow).toBe(40);
       // The restarted clock carries on after the last reading: run time only moves forward.
-      expect(samples.t).toEqual([...samples.t].sort((a, b) => a - b));
-      expect(samples.t.at(-1)).toBeGreaterThan(89);
+      expect(samples.x).toEqual([...samples.x].sort((a, b) => a - b));
+      expect(samples.x.at(-1)).toBeGreaterThan(89);
     });
   });
 });

@@ -36,11 +36,11 @@ afterAll(async () => {
 describe('GET /api/runs/:id/readings?x=ah', () => {
   it('places each reading at its delivered Ah: analytic check Ah(t) = I·t/3600 at constant current', async () => {
     const body = ReadingsResponseSchema.parse((await viewer.get(`/api/runs/${runId}/readings?x=ah&maxPoints=1000`).expect(200)).body);
-    expect(body.x).toBe('ah');
+    expect(body.axis).toBe('ah');
     expect(body.reduced).toBe(false);
-    expect(body.t).toHaveLength(STEPS + 1);
+    expect(body.x).toHaveLength(STEPS + 1);
     // Analytic: Q = I·t for a constant current; the trapezoid rule is exact for a constant.
-    for (const i of [0, 1, 180, 360]) expect(body.t[i]).toBeCloseTo((AMPS * i * STEP_S) / SECONDS_PER_HOUR, 12);
+    for (const i of [0, 1, 180, 360]) expect(body.x[i]).toBeCloseTo((AMPS * i * STEP_S) / SECONDS_PER_HOUR, 12);
     expect(body.from).toBe(0);
     expect(body.to).toBeCloseTo(2, 12);
     expect(body.volts.min[180]).toBeCloseTo(13.2 - 180 * 0.002, 9);
@@ -49,7 +49,7 @@ describe('GET /api/runs/:id/readings?x=ah', () => {
   it('buckets over Ah and Wh with equal widths up to the delivered total', async () => {
     const ah = ReadingsResponseSchema.parse((await viewer.get(`/api/runs/${runId}/readings?x=ah&maxPoints=20`).expect(200)).body);
     expect(ah.reduced).toBe(true);
-    expect(ah.t).toHaveLength(20);
+    expect(ah.x).toHaveLength(20);
     expect(ah.bucketSeconds).toBeCloseTo(2 / 20, 12);
     expect(ah.volts.max[0]).toBe(13.2);
     const wh = ReadingsResponseSchema.parse((await viewer.get(`/api/runs/${runId}/readings?x=wh&maxPoints=20`).expect(200)).body);
@@ -60,9 +60,9 @@ describe('GET /api/runs/:id/readings?x=ah', () => {
 
   it('takes a window in Ah and refuses an unknown axis or a reversed window', async () => {
     const part = ReadingsResponseSchema.parse((await viewer.get(`/api/runs/${runId}/readings?x=ah&from=0.5&to=1`).expect(200)).body);
-    expect(part.t[0]).toBeGreaterThanOrEqual(0.5);
-    expect(part.t.at(-1)).toBeLessThanOrEqual(1);
-    expect(part.t).toHaveLength(91); // readings at 900 s … 1800 s
+    expect(part.x[0]).toBeGreaterThanOrEqual(0.5);
+    expect(part.x.at(-1)).toBeLessThanOrEqual(1);
+    expect(part.x).toHaveLength(91); // readings at 900 s … 1800 s
     await viewer.get(`/api/runs/${runId}/readings?x=kwh`).expect(400);
     await viewer.get(`/api/runs/${runId}/readings?x=ah&from=1&to=0.5`).expect(400);
     await viewer.get(`/api/runs/${runId}/readings?x=ah&from=5`).expect(400); // beyond the 2 Ah delivered

@@ -116,7 +116,7 @@ describe('share links', () => {
     // 361 readings at 12 V in at most 50 min/max buckets.
     expect(samples.readingsInWindow).toBe(361);
     expect(samples.reduced).toBe(true);
-    expect(samples.t.length).toBeLessThanOrEqual(50);
+    expect(samples.x.length).toBeLessThanOrEqual(50);
     expect(samples.volts.max.every((v) => v === null || v === 12)).toBe(true);
     // The old address answers the same for clients written before the rename. vocab-rename: keep
     expect((await stranger().get(`/api/shared/${token}/samples?maxPoints=50`).expect(200)).body).toEqual(samples); // vocab-rename: keep

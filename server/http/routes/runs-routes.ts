@@ -116,8 +116,8 @@ export function createRunsRouter(ctx: AppContext): Router {
     const author = { id: req.user!.id, name: req.user!.name };
     const recorder = ctx.services.runRecorder;
     const stored = recorder
-      ? await recorder.annotate(run.id, body.text, body.t, author)
-      : await repo.insertEvent(run.id, { type: 'annotation', t: body.t ?? 0, text: body.text, author: author.name }, author.id);
+      ? await recorder.annotate(run.id, body.text, body.elapsedSeconds, author)
+      : await repo.insertEvent(run.id, { type: 'annotation', elapsedSeconds: body.elapsedSeconds ?? 0, text: body.text, author: author.name }, author.id);
     res.status(201).json({ event: stored });
   });
 

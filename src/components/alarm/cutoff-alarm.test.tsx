@@ -7,7 +7,7 @@ import { LiveStore } from '../../lib/live-store';
 import { CutoffAlarm } from './cutoff-alarm';
 
 const topic = { kind: 'run', id: 12 } as const;
-const emptyColumns = { t: [], volts: [], amps: [], watts: [], temps: {} };
+const emptyColumns = { elapsedSeconds: [], volts: [], amps: [], watts: [], temps: {} };
 
 function run(state: Run['state']): Run {
   return {
@@ -22,7 +22,7 @@ function run(state: Run['state']): Run {
 // Demo numbers for a fictional 8S LFP pack; only their presence on screen is checked.
 const cutoff: ServerMessage = {
   type: 'event', topic, eventId: 40,
-  event: { type: 'cutoff', t: 18_000, cause: 'protection', signal: 'current-zero', volts: 20.01, amps: 19.8, dischargeWh: 2480.5, dischargeAh: 98.4 },
+  event: { type: 'cutoff', elapsedSeconds: 18_000, cause: 'protection', signal: 'current-zero', volts: 20.01, amps: 19.8, dischargeWh: 2480.5, dischargeAh: 98.4 },
 };
 
 function setup() {
@@ -75,7 +75,7 @@ describe('cutoff alarm', () => {
   it('acknowledges the run\'s open alarms on the server with the A key, then goes quiet', async () => {
     const posted: string[] = [];
     const alarm = (state: string) => ({
-      id: 7, runId: 12, benchId: 2, kind: 'protection-trip', priority: 'critical', state, message: 'Pack protection opened', t: 18_000,
+      id: 7, runId: 12, benchId: 2, kind: 'protection-trip', priority: 'critical', state, message: 'Pack protection opened', elapsedSeconds: 18_000,
       values: { volts: 20.01, amps: 19.8, dischargeWh: 2480.5, dischargeAh: 98.4, tempCelsius: null, runSeconds: 18_000 }, shelved: false,
       raisedAt: '2026-12-01T20:00:00.000Z', acknowledgedAt: null, acknowledgedBy: null, clearedAt: null, escalationStep: 0,
     });
@@ -111,7 +111,7 @@ describe('cutoff alarm', () => {
     const { store, sound } = setup();
     act(() => store.handle(cutoff));
     expect(screen.getByRole('alert')).toBeTruthy();
-    act(() => store.handle({ type: 'event', topic, eventId: 42, event: { type: 'alarm-ack', t: 18_030, alarmId: 7, code: 'protection-trip', by: 'Rhea Okafor', at: '2026-12-01T20:01:00.000Z' } }));
+    act(() => store.handle({ type: 'event', topic, eventId: 42, event: { type: 'alarm-ack', elapsedSeconds: 18_030, alarmId: 7, code: 'protection-trip', by: 'Rhea Okafor', at: '2026-12-01T20:01:00.000Z' } }));
     expect(screen.queryByRole('alert')).toBeNull();
     expect(sound.stop).toHaveBeenCalled();
   });
@@ -120,7 +120,7 @@ describe('cutoff alarm', () => {
     const { store } = setup();
     act(() => store.handle(cutoff));
     act(() =>
-      store.handle({ type: 'event', topic, eventId: 41, event: { type: 'alarm', t: 18_000, level: 'critical', code: 'cutoff', message: 'Pack cut off' } }),
+      store.handle({ type: 'event', topic, eventId: 41, event: { type: 'alarm', elapsedSeconds: 18_000, level: 'critical', code: 'cutoff', message: 'Pack cut off' } }),
     );
     expect(screen.getByRole('alert').textContent).toContain('CUTOFF · Bench 2');
     expect(document.title).toBe('⚠ CUTOFF · Bench 2');

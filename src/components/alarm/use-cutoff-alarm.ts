@@ -11,7 +11,7 @@ export function isAlarmEvent(e: RunEvent): boolean {
   return e.type === 'cutoff' || (e.type === 'alarm' && e.level === 'critical');
 }
 
-const keyOf = (runId: number, e: RunEvent) => `${runId}:${e.type}:${e.t}`;
+const keyOf = (runId: number, e: RunEvent) => `${runId}:${e.type}:${e.elapsedSeconds}`;
 
 /** Alarm kinds whose acknowledgement (by anyone, anywhere) quiets the banner. */
 const BANNER_KINDS = new Set(['cutoff', 'protection-trip', 'over-temperature']);
@@ -19,7 +19,7 @@ const BANNER_KINDS = new Set(['cutoff', 'protection-trip', 'over-temperature']);
 /** Run time of the latest server acknowledgement of a banner alarm, or -Infinity. */
 export function lastAcknowledgedT(events: readonly RunEvent[]): number {
   let latest = -Infinity;
-  for (const e of events) if (e.type === 'alarm-ack' && BANNER_KINDS.has(e.code)) latest = Math.max(latest, e.t);
+  for (const e of events) if (e.type === 'alarm-ack' && BANNER_KINDS.has(e.code)) latest = Math.max(latest, e.elapsedSeconds);
   return latest;
 }
 
@@ -56,7 +56,7 @@ export function useCutoffAlarm(store: LiveStore, view: LiveView): { alarm: Activ
     runId === null
       ? []
       : view.events.filter((e) => {
-          if (!isAlarmEvent(e) || e.t <= ackedUpToT) return false;
+          if (!isAlarmEvent(e) || e.elapsedSeconds <= ackedUpToT) return false;
           const key = keyOf(runId, e);
           const isAcked = acked.has(key) || safeSession.get(ACK_KEY_PREFIX + key) === '1';
           return !isAcked && (runLive || arrivedLive.has(key));

@@ -11,7 +11,7 @@ import { useChartWidth } from './use-chart-size';
 /** One run's voltage curve: x on the chart's axis (run seconds, Ah, Wh or %) and volts (null = gap). */
 export interface CompareSeries {
   label: string;
-  t: number[];
+  x: number[];
   volts: (number | null)[];
 }
 
@@ -69,7 +69,7 @@ export function CompareChart({ series, axis = 'time', markers = [], heightPx = 3
     if (!el || series.length === 0) return;
     const { axis: axisInk, grid } = chartTheme();
     const axisBase = { stroke: axisInk, font: AXIS_FONT, grid: { stroke: grid }, ticks: { stroke: grid } };
-    const data = uPlot.join(series.map((s) => [s.t, s.volts] as uPlot.AlignedData));
+    const data = uPlot.join(series.map((s) => [s.x, s.volts] as uPlot.AlignedData));
     const plot = new uPlot(
       {
         width: el.clientWidth || width,

@@ -14,9 +14,9 @@ afterEach(() => vi.restoreAllMocks());
 describe('HistoryChart', () => {
   it('draws the cell temperature, as the live screens do, when the run also logged ambient', () => {
     // Ambient sorts before cell: the chart must not fall back to alphabetical order.
-    const readings: ReadingsResponse = { x: 't',
+    const readings: ReadingsResponse = { axis: 'elapsedSeconds',
       runId: 1, from: 0, to: 2, reduced: false, bucketSeconds: null, readingsInWindow: 3,
-      t: [0, 1, 2], volts: col([13.2, 13.1, 13]), amps: col([45, 45, 46]), watts: col([594, 590, 598]),
+      x: [0, 1, 2], volts: col([13.2, 13.1, 13]), amps: col([45, 45, 46]), watts: col([594, 590, 598]),
       temps: { ambient: col([23, 23, 23]), cell: col([23.4, 25.1, 28.6]) },
     };
     render(<HistoryChart readings={readings} onZoom={() => {}} />);
@@ -26,9 +26,9 @@ describe('HistoryChart', () => {
 
   it('leaves a phone-wide chart room to draw: narrower axes, temperature axis hidden (its line stays)', () => {
     vi.spyOn(HTMLElement.prototype, 'clientWidth', 'get').mockReturnValue(358);
-    const readings: ReadingsResponse = { x: 't',
+    const readings: ReadingsResponse = { axis: 'elapsedSeconds',
       runId: 1, from: 0, to: 1, reduced: false, bucketSeconds: null, readingsInWindow: 2,
-      t: [0, 1], volts: col([13.2, 13.1]), amps: col([45, 45]), watts: col([594, 590]), temps: { cell: col([23.4, 23.5]) },
+      x: [0, 1], volts: col([13.2, 13.1]), amps: col([45, 45]), watts: col([594, 590]), temps: { cell: col([23.4, 23.5]) },
     };
     render(<HistoryChart readings={readings} onZoom={() => {}} />);
     const axes = instances[instances.length - 1].opts.axes;
@@ -41,11 +41,11 @@ describe('HistoryChart', () => {
 
 describe('HistoryChart zoom', () => {
   it('keeps one uPlot instance and zooms with setData and setScale', () => {
-    const whole: ReadingsResponse = { x: 't',
+    const whole: ReadingsResponse = { axis: 'elapsedSeconds',
       runId: 1, from: 0, to: 100, reduced: true, bucketSeconds: 50, readingsInWindow: 100,
-      t: [0, 50], volts: col([13.2, 13.0]), amps: col([45, 45]), watts: col([594, 585]), temps: {},
+      x: [0, 50], volts: col([13.2, 13.0]), amps: col([45, 45]), watts: col([594, 585]), temps: {},
     };
-    const zoomed: ReadingsResponse = { ...whole, from: 10, to: 20, reduced: false, bucketSeconds: null, t: [10, 20] };
+    const zoomed: ReadingsResponse = { ...whole, from: 10, to: 20, reduced: false, bucketSeconds: null, x: [10, 20] };
     const before = instances.length;
     const view = render(<HistoryChart readings={whole} onZoom={() => {}} />);
     view.rerender(<HistoryChart readings={zoomed} onZoom={() => {}} />);

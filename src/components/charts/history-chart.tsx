@@ -12,7 +12,8 @@ import { usePrinting } from './use-printing';
 
 /** A vertical line on the chart at a run time (cutoff, recovery, a note). */
 export interface ChartMarker {
-  t: number;
+  /** Run time, s. */
+  elapsedSeconds: number;
   color: string;
 }
 
@@ -23,8 +24,8 @@ const NO_MARKERS: readonly ChartMarker[] = [];
 /** The chart's columns; the temperature is the same channel the live screens show (the cell when there is one). */
 function toData(s: ReadingsResponse): uPlot.AlignedData {
   const tempName = pickTempChannel(s.temps);
-  const temp = tempName ? s.temps[tempName].max : s.t.map(() => null);
-  return [s.t, s.volts.max, s.volts.min, s.amps.max, s.amps.min, temp];
+  const temp = tempName ? s.temps[tempName].max : s.x.map(() => null);
+  return [s.x, s.volts.max, s.volts.min, s.amps.max, s.amps.min, temp];
 }
 
 function buildOptions(width: number, heightPx: number, temperatureUnit: 'C' | 'F', markers: () => readonly ChartMarker[], onZoom: (from: number, to: number) => void): uPlot.Options {
@@ -64,7 +65,7 @@ function buildOptions(width: number, heightPx: number, temperatureUnit: 'C' | 'F
           ctx.save();
           ctx.lineWidth = MARKER_WIDTH_PX * devicePixelRatio;
           for (const m of markers()) {
-            const x = Math.round(u.valToPos(m.t, 'x', true));
+            const x = Math.round(u.valToPos(m.elapsedSeconds, 'x', true));
             if (x < bbox.left || x > bbox.left + bbox.width) continue;
             ctx.strokeStyle = resolveColor(m.color);
             ctx.beginPath();

@@ -3,8 +3,8 @@ import type { RunEvent } from '../../../shared/schemas/run-event';
 import { describeEvent } from './run-events-list';
 
 // Demo figures of a fictional 12.8 V 100 Ah pack.
-const cutoff: RunEvent = { t: 7091, type: 'cutoff', cause: 'protection', volts: 10.646, amps: 46.9, dischargeWh: 1181.76, dischargeAh: 92.06 };
-const milestone: RunEvent = { t: 3840, type: 'milestone', milestone: 'half-rated-wh', volts: 12.93, dischargeWh: 640, dischargeAh: 49.09 };
+const cutoff: RunEvent = { elapsedSeconds: 7091, type: 'cutoff', cause: 'protection', volts: 10.646, amps: 46.9, dischargeWh: 1181.76, dischargeAh: 92.06 };
+const milestone: RunEvent = { elapsedSeconds: 3840, type: 'milestone', milestone: 'half-rated-wh', volts: 12.93, dischargeWh: 640, dischargeAh: 49.09 };
 
 describe('describeEvent', () => {
   it('writes energy in the lab unit: kWh when the lab chose it', () => {

@@ -67,7 +67,7 @@ export function describeEvent(e: RunEvent, { temperatureUnit = 'C', energyUnit =
     case 'protection-check-trip': {
       const what = PROTECTION_TRAITS[e.protection].label;
       const at = formatProtectionValue(e.protection, e.value, temperatureUnit);
-      if (e.beyondAtStart && e.crossedT === null) return `${what}: acted from the start (already past its threshold, ${at})`;
+      if (e.beyondAtStart && e.crossedElapsedSeconds === null) return `${what}: acted from the start (already past its threshold, ${at})`;
       return `${what} acted at ${at}${e.delaySeconds != null ? ` after ${formatDuration(e.delaySeconds)}` : ''}`;
     }
     case 'protection-check-release':
@@ -99,12 +99,12 @@ function eventColor(e: RunEvent): string {
 /** A run's timeline, newest first, each event at its run time. */
 export function RunEventsList({ events, temperatureUnit = 'C', energyUnit = 'Wh' }: { events: readonly RunEvent[] } & EventUnits) {
   if (events.length === 0) return <p className="text-sm text-ink-faint">No events yet.</p>;
-  const newestFirst = [...events].sort((a, b) => b.t - a.t);
+  const newestFirst = [...events].sort((a, b) => b.elapsedSeconds - a.elapsedSeconds);
   return (
     <ol aria-label="Run events" className="flex max-h-96 flex-col gap-2 overflow-y-auto print:max-h-none print:overflow-visible">
       {newestFirst.map((e, i) => (
-        <li key={`${e.t}-${e.type}-${i}`} className="flex gap-3 border-l-4 pl-3 text-sm" style={{ borderColor: eventColor(e) }}>
-          <span className="num shrink-0 text-ink-muted">{formatElapsedClock(e.t)}</span>
+        <li key={`${e.elapsedSeconds}-${e.type}-${i}`} className="flex gap-3 border-l-4 pl-3 text-sm" style={{ borderColor: eventColor(e) }}>
+          <span className="num shrink-0 text-ink-muted">{formatElapsedClock(e.elapsedSeconds)}</span>
           <span className="text-ink">
             <MonoNumbers text={describeEvent(e, { temperatureUnit, energyUnit })} />
           </span>

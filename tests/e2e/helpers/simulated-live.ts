@@ -1,7 +1,7 @@
 import type { Page, WebSocketRoute } from 'playwright-core';
 import type { Run } from '../../../shared/schemas/run.js';
 import type { RunEvent } from '../../../shared/schemas/run-event.js';
-import { ClientMessageSchema, ServerMessageSchema, type ReadingColumns, type ServerMessage, type Topic } from '../../../shared/schemas/ws.js';
+import { ClientMessageSchema, ServerMessageSchema, timeColumn, type ReadingColumns, type ServerMessage, type Topic } from '../../../shared/schemas/ws.js';
 
 /**
  * A WebSocket peer inside the browser that speaks shared/schemas/ws.ts, for screens whose
@@ -14,7 +14,7 @@ const LOAD_WATTS = 600;
 
 /** Demo discharge: a slow sag on the plateau, then the knee. Invented shape, not a model. */
 export function demoDischarge(seconds: number): ReadingColumns {
-  const cols: Required<ReadingColumns> = { t: [], volts: [], amps: [], watts: [], temps: { cell: [] }, dischargeWh: [], dischargeAh: [], chargeWh: [], chargeAh: [] };
+  const cols = { elapsedSeconds: [] as number[], volts: [] as number[], amps: [] as number[], watts: [] as number[], temps: { cell: [] as number[] }, dischargeWh: [] as number[], dischargeAh: [] as number[], chargeWh: [] as number[], chargeAh: [] as number[] };
   let wh = 0;
   let ah = 0;
   for (let t = 0; t <= seconds; t += SAMPLE_PERIOD_S) {
@@ -23,7 +23,7 @@ export function demoDischarge(seconds: number): ReadingColumns {
     const amps = LOAD_WATTS / volts;
     wh += (LOAD_WATTS * SAMPLE_PERIOD_S) / 3600;
     ah += (amps * SAMPLE_PERIOD_S) / 3600;
-    cols.t.push(t);
+    cols.elapsedSeconds.push(t);
     cols.volts.push(Number(volts.toFixed(3)));
     cols.amps.push(Number(amps.toFixed(3)));
     cols.watts.push(LOAD_WATTS);
@@ -34,6 +34,13 @@ export function demoDischarge(seconds: number): ReadingColumns {
     cols.chargeAh.push(0);
   }
   return cols;
+}
+
+/** The same readings as a topic carries them: run time (`elapsedSeconds`) on a run topic, source time (`t`) on a bench topic; the demo's meter clock starts at 0. */
+function onTopic(kind: Topic['kind'], cols: ReadingColumns): ReadingColumns {
+  const { elapsedSeconds, t, ...rest } = cols;
+  const time = elapsedSeconds ?? t ?? [];
+  return kind === 'run' ? { ...rest, elapsedSeconds: time } : { ...rest, t: time };
 }
 
 export interface SimulatedBench {
@@ -47,7 +54,7 @@ export interface SimulatedBench {
 export async function simulateLive(page: Page, benches: SimulatedBench[]): Promise<{ pushEvent(runId: number, event: RunEvent): void }> {
   const sockets = new Set<{ ws: WebSocketRoute; topics: Set<string> }>();
   const send = (ws: WebSocketRoute, message: ServerMessage) => ws.send(JSON.stringify(ServerMessageSchema.parse(message)));
-  const empty: ReadingColumns = { t: [], volts: [], amps: [], watts: [], temps: {} };
+  const empty: ReadingColumns = { elapsedSeconds: [], volts: [], amps: [], watts: [], temps: {} };
 
   await page.routeWebSocket(/\/ws$/, (ws) => {
     const peer = { ws, topics: new Set<string>() };
@@ -60,16 +67,16 @@ export async function simulateLive(page: Page, benches: SimulatedBench[]): Promi
       const topic: Topic = message.topic;
       peer.topics.add(`${topic.kind}:${topic.id}`);
       const bench = benches.find((b) => (topic.kind === 'bench' ? b.benchId === topic.id : b.run?.id === topic.id));
-      const status = { state: 'receiving' as const, framesOk: bench?.recent.t.length ?? 0, framesRejected: 0, lastFrameAt: new Date().toISOString() };
+      const status = { state: 'receiving' as const, framesOk: bench ? timeColumn(bench.recent).length : 0, framesRejected: 0, lastFrameAt: new Date().toISOString() };
       send(ws, {
         type: 'snapshot',
         stream: 'simulated',
-        seq: bench?.recent.t.length ?? 0,
+        seq: bench ? timeColumn(bench.recent).length : 0,
         resume: 'fresh',
         topic,
         status: topic.kind === 'bench' ? status : null,
         run: bench?.run ?? null,
-        recent: bench?.recent ?? empty,
+        recent: onTopic(topic.kind, bench?.recent ?? empty),
         events: topic.kind === 'run' ? (bench?.events ?? []) : [],
       });
     });

@@ -220,7 +220,7 @@ export class PtyMeter {
 
 /** A run's readings received over /ws, as columns of run seconds and totals. */
 export class LiveViewer {
-  readonly t: number[] = [];
+  readonly elapsedSeconds: number[] = [];
   readonly dischargeWh: number[] = [];
   readonly receivedAtMs: number[] = [];
   private constructor(private readonly ws: WebSocket) {}
@@ -234,10 +234,10 @@ export class LiveViewer {
     });
     const viewer = new LiveViewer(ws);
     ws.on('message', (data: Buffer) => {
-      const m = JSON.parse(data.toString()) as { type: string; readings?: { t: number[]; dischargeWh?: number[] } };
+      const m = JSON.parse(data.toString()) as { type: string; readings?: { elapsedSeconds: number[]; dischargeWh?: number[] } };
       if (m.type !== 'batch' || !m.readings) return;
-      for (let i = 0; i < m.readings.t.length; i++) {
-        viewer.t.push(m.readings.t[i]!);
+      for (let i = 0; i < m.readings.elapsedSeconds.length; i++) {
+        viewer.elapsedSeconds.push(m.readings.elapsedSeconds[i]!);
         viewer.dischargeWh.push(m.readings.dischargeWh?.[i] ?? Number.NaN);
         viewer.receivedAtMs.push(Date.now());
       }

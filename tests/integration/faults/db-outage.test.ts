@@ -89,10 +89,10 @@ async function recordThrough(name: string, outage: () => Promise<Outage>) {
   expect(cols.volts).toEqual(expected.map((f) => f.volts));
   expect(cols.amps).toEqual(expected.map((f) => f.amps));
   // The viewer, from its first reading on (it subscribed just after the run started), got every one.
-  expect(viewer.t.length).toBeGreaterThan(0);
+  expect(viewer.elapsedSeconds.length).toBeGreaterThan(0);
   // The export writes run time to the millisecond (docs/api.md, export rounding); the stream sends it unrounded.
   const toExportMs = (t: number) => Number(t.toFixed(3));
-  const viewerT = viewer.t.map(toExportMs);
+  const viewerT = viewer.elapsedSeconds.map(toExportMs);
   expect(viewerT).toEqual(cols.elapsedSeconds!.filter((e) => e >= viewerT[0]!));
 
   // Totals never decrease: in the archive, on the live stream, and in every answer of the API.

@@ -26,7 +26,7 @@ export function BenchRunLine({ run, benchName, energyUnit }: { run: Run; benchNa
       <p className="num text-lg font-bold">
         {charge ? 'in ' : 'out '}
         {formatEnergy(wh, energyUnit)} · {formatCharge(ah)} ·{' '}
-        <span className="text-ink-muted">{view.t === null ? '—' : formatElapsedClock(view.t)} h:m:s</span>
+        <span className="text-ink-muted">{view.time === null ? '—' : formatElapsedClock(view.time)} h:m:s</span>
       </p>
       <EndEstimateLine estimate={estimate} />
     </div>

@@ -25,7 +25,7 @@ function openBenchAs(user: PublicUser, status: object = bench.status) {
   });
   const socket = fakeLiveSocket((topic) =>
     topic.kind === 'run'
-      ? { type: 'snapshot', stream: 's1', seq: 1, resume: 'fresh', topic, status: null, run, recent: { t: [], volts: [], amps: [], watts: [], temps: {} }, events: [] }
+      ? { type: 'snapshot', stream: 's1', seq: 1, resume: 'fresh', topic, status: null, run, recent: { elapsedSeconds: [], volts: [], amps: [], watts: [], temps: {} }, events: [] }
       : null,
   );
   renderAt('/benches/1', socket);

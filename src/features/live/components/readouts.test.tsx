@@ -17,7 +17,7 @@ describe('readouts', () => {
     const view = viewAfter({
       type: 'batch', seq: 2, topic, dropped: 0,
       readings: {
-        t: [3599, 3600], volts: [25.61, 25.6], amps: [20, 20.004], watts: [512.2, 512.1],
+        elapsedSeconds: [3599, 3600], volts: [25.61, 25.6], amps: [20, 20.004], watts: [512.2, 512.1],
         temps: { cell: [24.9, 25] }, dischargeWh: [511.9, 512.05], dischargeAh: [19.99, 20.0],
       },
     });
@@ -58,7 +58,7 @@ describe('readouts on a charge run', () => {
         afterRecoverySeconds: 0, readingsCount: 2, summary: null, startedAt: now, endedAt: now, createdBy: 1, createdAt: now, updatedAt: now,
       },
       // Demo charge at -10 A into a 25.6 V pack.
-      recent: { t: [0, 360], volts: [26.1, 26.4], amps: [-10, -10], watts: [-261, -264], temps: {}, dischargeWh: [0, 0], dischargeAh: [0, 0], chargeWh: [0, 26.3], chargeAh: [0, 1] },
+      recent: { elapsedSeconds: [0, 360], volts: [26.1, 26.4], amps: [-10, -10], watts: [-261, -264], temps: {}, dischargeWh: [0, 0], dischargeAh: [0, 0], chargeWh: [0, 26.3], chargeAh: [0, 1] },
     });
     render(<Readouts view={store.getSnapshot()} temperatureUnit="C" energyUnit="Wh" />);
     expect(screen.getByText('Energy in')).toBeTruthy();

@@ -58,7 +58,7 @@ export function Readouts({ view, temperatureUnit, energyUnit, size = 'lg', stale
           <BigNumber label={main.chargeLabel} text={formatCharge(main.ah)} unit="Ah" size={totalsSize} />
           {/* On a phone the clock takes a row of its own: eight digits do not fit a third. */}
           <div className="col-span-2 sm:col-span-1">
-            <BigNumber label="Run time" text={view.t === null ? '—' : `${formatElapsedClock(view.t)} h:m:s`} unit="h:m:s" size={totalsSize} />
+            <BigNumber label="Run time" text={view.time === null ? '—' : `${formatElapsedClock(view.time)} h:m:s`} unit="h:m:s" size={totalsSize} />
           </div>
         </div>
       )}

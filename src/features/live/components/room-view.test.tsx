@@ -39,7 +39,7 @@ describe('room view', () => {
     expect((await screen.findByTestId('room-state')).textContent).toBe('Recording');
     // The pack cuts off, recovers, and the run finishes at once (stop after recovery).
     const runTopic = { kind: 'run', id: 41 } as const;
-    listeners.get('run')!({ type: 'event', topic: runTopic, eventId: 1, event: { t: 7091, type: 'cutoff', cause: 'protection', volts: 10.65, amps: 46.9, dischargeWh: 1181.8, dischargeAh: 92.06 } });
+    listeners.get('run')!({ type: 'event', topic: runTopic, eventId: 1, event: { elapsedSeconds: 7091, type: 'cutoff', cause: 'protection', volts: 10.65, amps: 46.9, dischargeWh: 1181.8, dischargeAh: 92.06 } });
     listeners.get('run')!({ type: 'run', topic: runTopic, run: finished });
     listeners.get('bench')!({ type: 'run', topic: { kind: 'bench', id: 1 }, run: finished });
     await waitFor(() => expect(screen.getByTestId('room-state').textContent).toBe('Finished'));

@@ -16,7 +16,7 @@ const running: RunProgramme = {
   programme: { name: 'Full capacity, 8s LFP', chemistry: 'lfp', cellsInSeries: 8, maxCurrentAmps: 50, steps: [{ kind: 'charge', volts: 28.8, currentAmps: 10, taperAmps: 0.5 }, { kind: 'rest', maxSeconds: 600 }, { kind: 'discharge', mode: 'cc', value: 10, endVolts: 22 }, { kind: 'rest', maxSeconds: 600 }] },
   stepLabels: ['1 charge', '2 rest', '3 discharge', '4 rest'],
   state: 'running', currentIndex: 1, stepStartedAtMs: NOW_MS - 125_000, serverNowMs: NOW_MS,
-  results: [{ index: 0, label: '1 charge', kind: 'charge', outcome: 'done', cause: 'taper', reason: 'taper current reached (0.500 A at 28.800 V)', startT: 0, endT: 3600, chargeAh: 10.5, chargeWh: 300.2, dischargeAh: 0, dischargeWh: 0, endVolts: 28.8 }],
+  results: [{ index: 0, label: '1 charge', kind: 'charge', outcome: 'done', cause: 'taper', reason: 'taper current reached (0.500 A at 28.800 V)', startElapsedSeconds: 0, endElapsedSeconds: 3600, chargeAh: 10.5, chargeWh: 300.2, dischargeAh: 0, dischargeWh: 0, endVolts: 28.8 }],
   roundTrips: [], failReason: null, floorVolts: 20, watchdogArmed: ['load-1'], cautionsAcknowledgedBy: 'Northgate technician',
 };
 

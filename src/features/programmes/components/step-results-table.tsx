@@ -28,7 +28,7 @@ export function StepResultsTable({ results, roundTrips, labels }: { results: rea
                 <td className="p-2">
                   {OUTCOME_WORD[r.outcome]}: {r.reason}
                 </td>
-                <td className="num p-2">{formatDuration(r.endT - r.startT)}</td>
+                <td className="num p-2">{formatDuration(r.endElapsedSeconds - r.startElapsedSeconds)}</td>
                 <td className="num p-2">
                   {formatCharge(r.chargeAh)} · {formatEnergy(r.chargeWh)}
                 </td>

@@ -24,7 +24,7 @@ const run: Run = {
 const ah = Array.from({ length: 2_000 }, (_, i) => (i * 50) / 2_000);
 const voltsAt = (q: number) => (q > 48 ? 12.6 : 13.4 - 0.05 * q + 0.09 * Math.tanh((q - 20) / 2) - 1.5 * Math.exp((q - 48) / 1.5));
 const curve = ah.map(voltsAt);
-const readings = { runId: 9, x: 'ah' as const, from: 0, to: 50, reduced: true, bucketSeconds: 0.025, readingsInWindow: 17_280, t: ah, volts: { min: curve, max: curve }, amps: { min: ah.map(() => 10), max: ah.map(() => 10) }, watts: { min: curve.map((v) => v * 10), max: curve.map((v) => v * 10) }, temps: {} };
+const readings = { runId: 9, axis: 'ah' as const, from: 0, to: 50, reduced: true, bucketSeconds: 0.025, readingsInWindow: 17_280, x: ah, volts: { min: curve, max: curve }, amps: { min: ah.map(() => 10), max: ah.map(() => 10) }, watts: { min: curve.map((v) => v * 10), max: curve.map((v) => v * 10) }, temps: {} };
 
 type Plot = { data: number[][]; opts: unknown };
 const plots = () => (uPlot as unknown as { instances: Plot[] }).instances;
@@ -34,7 +34,7 @@ describe('a capacity run page: incremental capacity and run time at other curren
     const { calls } = stubApi(demoUser('viewer'), (url) => {
       if (url === '/api/runs/9') return { status: 200, body: { run } };
       if (url.startsWith('/api/runs/9/events')) return { status: 200, body: { events: [] } };
-      if (url.startsWith('/api/runs/9/readings')) return { status: 200, body: url.includes('x=ah') ? readings : { ...readings, x: 't' } };
+      if (url.startsWith('/api/runs/9/readings')) return { status: 200, body: url.includes('x=ah') ? readings : { ...readings, axis: 'elapsedSeconds' } };
       return undefined;
     });
     renderAt('/runs/9');

@@ -18,10 +18,10 @@ export const IC_MIN_BIN_VOLTS = 0.01;
 export function dischargePoints(readings: ReadingsResponse, capacityAh: number): VoltChargePoint[] {
   const half = readings.reduced && readings.bucketSeconds ? readings.bucketSeconds / 2 : 0;
   const out: VoltChargePoint[] = [];
-  for (let i = 0; i < readings.t.length; i++) {
+  for (let i = 0; i < readings.x.length; i++) {
     const lo = readings.volts.min[i];
     const hi = readings.volts.max[i];
-    const ah = readings.t[i]! + half;
+    const ah = readings.x[i]! + half;
     if (lo === null || hi === null || lo === undefined || hi === undefined || ah > capacityAh) continue;
     out.push({ dischargeAh: ah, volts: (lo + hi) / 2 });
   }

@@ -53,7 +53,7 @@ describe('comparing packs', () => {
       const one = url.match(/^\/api\/runs\/(\d+)$/);
       if (one) return { status: 200, body: { run: Object.values(runsOf).flat().find((r) => r.id === Number(one[1])) } };
       if (/^\/api\/runs\/\d+\/readings/.test(url)) {
-        return { status: 200, body: { runId: 0, x: 'ah', from: 0, to: 2, reduced: false, bucketSeconds: null, readingsInWindow: 2, t: [0, 2], volts: { min: [13, 12], max: [13, 12] }, amps: { min: [5, 5], max: [5, 5] }, watts: { min: [65, 60], max: [65, 60] }, temps: {} } };
+        return { status: 200, body: { runId: 0, axis: 'ah', from: 0, to: 2, reduced: false, bucketSeconds: null, readingsInWindow: 2, x: [0, 2], volts: { min: [13, 12], max: [13, 12] }, amps: { min: [5, 5], max: [5, 5] }, watts: { min: [65, 60], max: [65, 60] }, temps: {} } };
       }
       return undefined;
     });

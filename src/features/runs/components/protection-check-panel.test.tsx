@@ -32,7 +32,7 @@ const run: Run = {
   endVolts: null, acceptancePercent: 95, alarms: { onCutoff: true }, stopWhen: 'manual', targetAh: null, targetWh: null, afterRecoverySeconds: 0,
   readingsCount: 3600, summary, startedAt: now, endedAt: now, createdBy: 1, createdAt: now, updatedAt: now,
 };
-const readings = { runId: 4, from: 0, to: 2, reduced: false, bucketSeconds: null, readingsInWindow: 3, t: [0, 1, 2], volts: { min: [13, 13, 13], max: [13, 13, 13] }, amps: { min: [-5, -5, -5], max: [-5, -5, -5] }, watts: { min: [-65, -65, -65], max: [-65, -65, -65] }, temps: {} };
+const readings = { runId: 4, from: 0, to: 2, reduced: false, bucketSeconds: null, readingsInWindow: 3, x: [0, 1, 2], volts: { min: [13, 13, 13], max: [13, 13, 13] }, amps: { min: [-5, -5, -5], max: [-5, -5, -5] }, watts: { min: [-65, -65, -65], max: [-65, -65, -65] }, temps: {} };
 
 describe('a protection-check run page', () => {
   it('shows the per-protection table instead of a capacity verdict, the charge put in, each channel by name, and links to each stretch', async () => {

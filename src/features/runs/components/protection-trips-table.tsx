@@ -22,8 +22,8 @@ export function ProtectionTripsTable({ trips, count }: { trips: ProtectionTrip[]
         </thead>
         <tbody>
           {trips.map((trip) => (
-            <tr key={trip.t} className="border-t border-line">
-              <td className="py-1 pr-3">{formatElapsedClock(trip.t)}</td>
+            <tr key={trip.elapsedSeconds} className="border-t border-line">
+              <td className="py-1 pr-3">{formatElapsedClock(trip.elapsedSeconds)}</td>
               <td className="py-1 pr-3">{formatCharge(trip.dischargeAh)}</td>
               <td className="py-1 pr-3">{formatVolts(trip.volts)}</td>
               <td className="py-1 pr-3">{trip.signal === 'voltage-collapse' ? 'voltage collapsed' : 'current stopped with the load on'}</td>

@@ -43,7 +43,7 @@ function measuredApi(url: string) {
 const namesInOrder = () => screen.getAllByTestId('compare-row').map((tr) => within(tr).getByRole('link').textContent);
 
 const readings = (id: number) => ({
-  runId: id, x: 't', from: 0, to: 2, reduced: false, bucketSeconds: null, readingsInWindow: 3, t: [0, 1, 2],
+  runId: id, axis: 'elapsedSeconds', from: 0, to: 2, reduced: false, bucketSeconds: null, readingsInWindow: 3, x: [0, 1, 2],
   volts: { min: [13.2, 13.1, 12.9], max: [13.2, 13.1, 12.9] }, amps: { min: [5, 5, 5], max: [5, 5, 5] },
   watts: { min: [66, 65, 64], max: [66, 65, 64] }, temps: {},
 });

@@ -24,7 +24,7 @@ export const MAX_COMPARED_RUNS = 4;
 const FULL_RATING_PERCENT = 100;
 
 /** The readings axis each chart axis is drawn from (% of rated is delivered Ah over rated Ah). */
-const READINGS_AXIS: Record<CompareAxis, ReadingAxis> = { time: 't', ah: 'ah', wh: 'wh', percent: 'ah' };
+const READINGS_AXIS: Record<CompareAxis, ReadingAxis> = { time: 'elapsedSeconds', ah: 'ah', wh: 'wh', percent: 'ah' };
 /** The axis choices in the order offered. */
 const AXIS_CHOICES: { axis: CompareAxis; label: string }[] = [
   { axis: 'ah', label: 'Ah' },
@@ -74,9 +74,9 @@ export function RunCompare({ runIds, title = 'Compare runs' }: { runIds: readonl
       ready
         ? readingsData.map((s, i) => {
             const r = runData[i]!;
-            const t = axis === 'percent' ? toPercentOfRated(s!.t, r.summary?.ratedAh) : s!.t;
+            const x = axis === 'percent' ? toPercentOfRated(s!.x, r.summary?.ratedAh) : s!.x;
             // The lower edge of each bucket: the knee and the cutoff are what a comparison is about.
-            return { label: r.name, t, volts: t.length ? s!.volts.min : [] };
+            return { label: r.name, x, volts: x.length ? s!.volts.min : [] };
           })
         : [],
     [version], // eslint-disable-line react-hooks/exhaustive-deps

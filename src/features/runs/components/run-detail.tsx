@@ -41,9 +41,9 @@ function windowFrom(params: URLSearchParams): ReadingWindow {
 }
 
 function markerFor(e: RunEvent): ChartMarker | null {
-  if (e.type === 'cutoff') return { t: e.t, color: RUN_STATE_COLORS.cutoff };
-  if (e.type === 'recovery') return { t: e.t, color: RUN_STATE_COLORS.recovered };
-  if (e.type === 'annotation') return { t: e.t, color: NOTE_COLOR };
+  if (e.type === 'cutoff') return { elapsedSeconds: e.elapsedSeconds, color: RUN_STATE_COLORS.cutoff };
+  if (e.type === 'recovery') return { elapsedSeconds: e.elapsedSeconds, color: RUN_STATE_COLORS.recovered };
+  if (e.type === 'annotation') return { elapsedSeconds: e.elapsedSeconds, color: NOTE_COLOR };
   return null;
 }
 

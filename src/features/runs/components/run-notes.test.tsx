@@ -11,15 +11,15 @@ const run: Run = {
   endVolts: null, acceptancePercent: 95, alarms: { onCutoff: true }, stopWhen: 'manual', targetAh: null, targetWh: null,
   afterRecoverySeconds: 0, readingsCount: 3, summary: null, startedAt: now, endedAt: now, createdBy: 1, createdAt: now, updatedAt: now,
 };
-const mine = { id: 41, runId: 5, createdAt: now, createdBy: 7, event: { type: 'annotation' as const, t: 60, text: 'fan on', author: 'Northgate technician' } };
-const theirs = { id: 42, runId: 5, createdAt: now, createdBy: 99, event: { type: 'annotation' as const, t: 90, text: 'smell of solder', author: 'Someone else' } };
+const mine = { id: 41, runId: 5, createdAt: now, createdBy: 7, event: { type: 'annotation' as const, elapsedSeconds: 60, text: 'fan on', author: 'Northgate technician' } };
+const theirs = { id: 42, runId: 5, createdAt: now, createdBy: 99, event: { type: 'annotation' as const, elapsedSeconds: 90, text: 'smell of solder', author: 'Someone else' } };
 
 function serve(eventsBody: () => unknown) {
   return stubApi(demoUser('technician'), (url, init) => {
     if (url === '/api/runs/5') return { status: 200, body: { run } };
     if (url === '/api/runs/5/events') return { status: 200, body: eventsBody() };
     if (url === '/api/runs/5/note-history') return { status: 200, body: { revisions: [] } };
-    if (url.startsWith('/api/runs/5/readings')) return { status: 200, body: { runId: 5, from: 0, to: 0, reduced: false, bucketSeconds: null, readingsInWindow: 0, t: [], volts: { min: [], max: [] }, amps: { min: [], max: [] }, watts: { min: [], max: [] }, temps: {} } };
+    if (url.startsWith('/api/runs/5/readings')) return { status: 200, body: { runId: 5, from: 0, to: 0, reduced: false, bucketSeconds: null, readingsInWindow: 0, x: [], volts: { min: [], max: [] }, amps: { min: [], max: [] }, watts: { min: [], max: [] }, temps: {} } };
     if (url === '/api/runs/5/events/41' && init?.method === 'PATCH') return { status: 200, body: { event: { id: 41 } } };
     return undefined;
   });

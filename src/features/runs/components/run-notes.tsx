@@ -32,7 +32,7 @@ function NoteRow({ runId, note, editable }: { runId: number; note: StoredRunEven
   return (
     <li className="flex flex-col gap-2 border-l-4 border-line py-1 pl-3 text-sm">
       <span className="flex flex-wrap items-baseline gap-2">
-        <span className="num text-ink-muted">{formatElapsedClock(event.t)}</span>
+        <span className="num text-ink-muted">{formatElapsedClock(event.elapsedSeconds)}</span>
         {draft === null && <span className="text-ink">{event.text}</span>}
         {event.author && <span className="text-ink-muted">— {event.author}</span>}
       </span>
@@ -101,7 +101,7 @@ export function RunNotes({ runId, events, viewer }: { runId: number; events: rea
             {revisions.map((r) => (
               <li key={r.id} className="text-ink-muted">
                 <span className="num">{formatLabTime(r.changedAt, settings.timeZone)}</span> · {r.changedByName}{' '}
-                {r.action === 'edited' ? 'edited' : 'removed'} the note at <span className="num">{formatElapsedClock(r.t)}</span>: “{r.previousText}”
+                {r.action === 'edited' ? 'edited' : 'removed'} the note at <span className="num">{formatElapsedClock(r.elapsedSeconds)}</span>: “{r.previousText}”
                 {r.newText !== null && <> → “{r.newText}”</>}
               </li>
             ))}
