@@ -13,9 +13,9 @@ export const ALARM_LIST_LIMIT = 200;
 /** Most outbox messages one answer holds. */
 export const OUTBOX_LIST_LIMIT = 200;
 
-/** A row of `alarms`; its column `t` holds the alarm's run time (the API says `elapsedSeconds`). */
+/** A row of `alarms`. */
 interface AlarmRow {
-  id: number; runId: number; benchId: number | null; kind: AlarmKind; priority: AlarmPriority; message: string; t: number;
+  id: number; runId: number; benchId: number | null; kind: AlarmKind; priority: AlarmPriority; message: string; elapsedSeconds: number;
   valuesJson: string; shelved: number | boolean; raisedAt: Date; acknowledgedAt: Date | null; acknowledgedById: number | null;
   ackName: string | null; clearedAt: Date | null; escalationStep: number;
 }
@@ -27,7 +27,7 @@ function toAlarm(r: AlarmRow): Alarm {
   return {
     id: r.id, runId: r.runId, benchId: r.benchId, kind: r.kind, priority: r.priority,
     state: alarmState(r.acknowledgedAt !== null, r.clearedAt !== null),
-    message: r.message, elapsedSeconds: r.t,
+    message: r.message, elapsedSeconds: r.elapsedSeconds,
     values: values.success ? values.data : { volts: null, amps: null, dischargeWh: null, dischargeAh: null, tempCelsius: null, runSeconds: null },
     shelved: Boolean(r.shelved), raisedAt: iso(r.raisedAt)!, acknowledgedAt: iso(r.acknowledgedAt),
     acknowledgedBy: r.acknowledgedById !== null ? { id: r.acknowledgedById, name: r.ackName ?? '' } : null,
@@ -62,7 +62,7 @@ export class AlarmRepo {
   /** Stores a new alarm; returns it. */
   async insert(a: NewAlarm): Promise<Alarm> {
     const [id] = await this.sequelize.query(
-      `INSERT INTO alarms (runId, benchId, kind, priority, message, t, valuesJson, shelved, raisedAt, escalationStep, nextEscalationAt)
+      `INSERT INTO alarms (runId, benchId, kind, priority, message, elapsedSeconds, valuesJson, shelved, raisedAt, escalationStep, nextEscalationAt)
        VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, 0, ?)`,
       { replacements: [a.runId, a.benchId, a.kind, a.priority, a.message.slice(0, 500), a.elapsedSeconds, JSON.stringify(a.values), a.shelved, utcDateTime(a.raisedAt), utcDateTime(a.nextEscalationAt)], type: QueryTypes.INSERT },
     );

@@ -29,7 +29,7 @@ export async function writeBatch(sequelize: Sequelize, batch: ArchiveBatch): Pro
     }
     for (const { eventSeq, event } of batch.events) {
       await sequelize.query(
-        'INSERT IGNORE INTO run_events (runId, eventSeq, type, t, data, createdAt) VALUES (?, ?, ?, ?, ?, NOW(3))',
+        'INSERT IGNORE INTO run_events (runId, eventSeq, type, elapsedSeconds, data, createdAt) VALUES (?, ?, ?, ?, ?, NOW(3))',
         { replacements: [batch.runId, eventSeq, event.type, event.elapsedSeconds, JSON.stringify(event)], transaction },
       );
     }

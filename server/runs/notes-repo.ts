@@ -39,7 +39,7 @@ export class NotesRepo {
   async apply(change: NoteChangeRecord): Promise<void> {
     await this.sequelize.transaction(async (transaction) => {
       await this.sequelize.query(
-        `INSERT INTO run_note_revisions (runId, eventId, action, previousText, newText, t, changedById, changedByName, changedAt)
+        `INSERT INTO run_note_revisions (runId, eventId, action, previousText, newText, elapsedSeconds, changedById, changedByName, changedAt)
          VALUES (?, ?, ?, ?, ?, ?, ?, ?, NOW(3))`,
         {
           replacements: [change.runId, change.eventId, change.next ? 'edited' : 'removed', change.previous.text, change.next?.text ?? null, change.previous.elapsedSeconds, change.changedById, change.changedByName],
@@ -58,11 +58,11 @@ export class NotesRepo {
   /** Every change to the run's notes, oldest first. */
   async revisions(runId: number): Promise<NoteRevision[]> {
     const rows = await this.sequelize.query<{
-      id: number; runId: number; eventId: number; action: string; t: number; previousText: string; newText: string | null;
+      id: number; runId: number; eventId: number; action: string; elapsedSeconds: number; previousText: string; newText: string | null;
       changedById: number | null; changedByName: string; changedAt: Date | string;
     }>('SELECT * FROM run_note_revisions WHERE runId = ? ORDER BY id', { replacements: [runId], type: QueryTypes.SELECT });
     return rows.map((r) => ({
-      id: r.id, runId: r.runId, eventId: r.eventId, action: r.action === 'removed' ? 'removed' : 'edited', elapsedSeconds: r.t,
+      id: r.id, runId: r.runId, eventId: r.eventId, action: r.action === 'removed' ? 'removed' : 'edited', elapsedSeconds: r.elapsedSeconds,
       previousText: r.previousText, newText: r.newText, changedBy: r.changedById, changedByName: r.changedByName,
       changedAt: new Date(r.changedAt).toISOString(),
     }));

@@ -228,7 +228,7 @@ export class RunsRepo {
   /** Every event of a run in time order. */
   async events(runId: number): Promise<StoredRunEvent[]> {
     const rows = await this.sequelize.query<{ id: number; runId: number; data: string; createdAt: Date | string; createdById: number | null }>(
-      'SELECT id, runId, data, createdAt, createdById FROM run_events WHERE runId = ? ORDER BY t, id',
+      'SELECT id, runId, data, createdAt, createdById FROM run_events WHERE runId = ? ORDER BY elapsedSeconds, id',
       { replacements: [runId], type: QueryTypes.SELECT },
     );
     return rows.map((r) => ({ id: r.id, runId: r.runId, event: parseStoredRunEvent(r.data), createdAt: iso(r.createdAt)!, createdBy: r.createdById }));
@@ -237,7 +237,7 @@ export class RunsRepo {
   /** Stores an event outside the recorder's batches (annotations); returns it with its id. */
   async insertEvent(runId: number, event: RunEvent, createdById: number | null): Promise<StoredRunEvent> {
     const [id] = await this.sequelize.query(
-      'INSERT INTO run_events (runId, eventSeq, type, t, data, createdById, createdAt) VALUES (?, NULL, ?, ?, ?, ?, NOW(3))',
+      'INSERT INTO run_events (runId, eventSeq, type, elapsedSeconds, data, createdById, createdAt) VALUES (?, NULL, ?, ?, ?, ?, NOW(3))',
       { replacements: [runId, event.type, event.elapsedSeconds, JSON.stringify(event), createdById], type: QueryTypes.INSERT },
     );
     const rows = await this.sequelize.query<{ createdAt: Date | string }>('SELECT createdAt FROM run_events WHERE id = ?', { replacements: [id], type: QueryTypes.SELECT });

@@ -30,7 +30,7 @@ async function importedRun(name: string): Promise<number> {
 
 /** Stores an event row as a server from before the rename wrote it: its JSON as given, run time in the `t` column. */
 async function storeOldEvent(runId: number, data: Record<string, unknown>): Promise<void> {
-  await t.ctx.sequelize.query('INSERT INTO run_events (runId, eventSeq, type, t, data, createdById, createdAt) VALUES (?, NULL, ?, ?, ?, NULL, NOW(3))', {
+  await t.ctx.sequelize.query('INSERT INTO run_events (runId, eventSeq, type, elapsedSeconds, data, createdById, createdAt) VALUES (?, NULL, ?, ?, ?, NULL, NOW(3))', {
     replacements: [runId, data.type, data.t, JSON.stringify(data)],
   });
 }
