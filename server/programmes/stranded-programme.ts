@@ -25,10 +25,13 @@ export async function switchOffStranded(provider: BenchInstrumentsProvider | und
   const outcome = (confirmedOff: boolean, found: string): StrandedOutcome => ({ confirmedOff, reason: `${STRANDED_REASON}; at restart ${found}`.slice(0, MAX_REASON_CHARS) });
   if (benchId === null || !provider) return outcome(false, 'no instrument of the bench could be reached, outputs not confirmed off');
   try {
-    const instruments = await provider.forBench(benchId);
-    if (!instruments) return outcome(false, 'the bench has no controllable instrument any more, outputs not confirmed off');
-    const checks = await outputsOffChecked(instruments);
-    return outcome(checks.every((c) => c.confirmedOff), checks.map((c) => c.detail).join('; '));
+    const { instruments, unreachable } = provider.forBenchEach ? await provider.forBenchEach(benchId) : { instruments: await provider.forBench(benchId), unreachable: [] };
+    if (!instruments?.load && !instruments?.supply && unreachable.length === 0) return outcome(false, 'the bench has no controllable instrument any more, outputs not confirmed off');
+    const checks = instruments ? await outputsOffChecked(instruments) : [];
+    // A bench with an instrument missing is opened afresh by the next programme.
+    if (unreachable.length > 0) await provider.forget?.(benchId).catch(() => undefined);
+    const missing = unreachable.map((u) => `${u.id}: could not be reached (${u.problem}), output not confirmed off`);
+    return outcome(unreachable.length === 0 && checks.every((c) => c.confirmedOff), [...missing, ...checks.map((c) => c.detail)].join('; '));
   } catch (error) {
     return outcome(false, `the bench's instruments could not be reached (${reasonOf(error)}), outputs not confirmed off`);
   }

@@ -1,3 +1,4 @@
+import { rm, unlink } from 'node:fs/promises';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { attachAlarms } from '../../server/alarms/attach-alarms.js';
 import { attachBenchManager } from '../../server/benches/attach-bench-manager.js';
@@ -69,7 +70,6 @@ let first: TestContext;
 /** The server running now (null between a stop and the next start). */
 let server: RunningServer | null = null;
 let sim: SimulatedBench;
-let simStopped = false;
 let tech: SignedInAgent;
 let benchId: number;
 let batteryId: number;
@@ -122,8 +122,11 @@ beforeAll(async () => {
 
 afterAll(async () => {
   await stop();
-  if (first) await dropTestDatabase(first.databaseName);
-  if (!simStopped) await sim?.stop();
+  if (first) {
+    await dropTestDatabase(first.databaseName);
+    await rm(first.ctx.config.dataDir, { recursive: true, force: true });
+  }
+  await sim?.stop();
 });
 
 describe('a programme stranded by a server stop', { timeout: TIMEOUT_MS }, () => {
@@ -162,24 +165,26 @@ describe('a programme stranded by a server stop', { timeout: TIMEOUT_MS }, () =>
     await tech.post(`/api/runs/${runId}/stop`).send({}).expect(200);
   });
 
-  it('an instrument that cannot be reached at the next start: start-up completes, the alarm says the output was not confirmed off', async () => {
+  it('the load cannot be reached at the next start: start-up completes, the supply is still switched off, the alarm says the load was not confirmed off', async () => {
     await stop();
     await restart(crashingProgrammes);
-    const runId = await followOnNewRun('Stranded, bench unplugged');
+    const runId = await followOnNewRun('Stranded, load unplugged');
     await stop();
-    // The bench's meter, load and supply go away with their ports (a USB hub unplugged).
-    await sim.stop();
-    simStopped = true;
+    // The load's port goes away (its USB cable pulled); the meter and the supply stay.
+    await unlink(link('load'));
     await restart(attachProgrammes);
     const programme = await programmeOf(runId);
     expect(programme.state).toBe('failed');
-    expect(programme.failReason).toMatch(/^the server stopped while the programme ran; at restart the bench's instruments could not be reached \(sim-load: cannot open .*\), outputs not confirmed off$/);
+    expect(programme.failReason).toMatch(/^the server stopped while the programme ran; at restart sim-load: could not be reached \(cannot open \/tmp\/kp-strand-.*\), output not confirmed off; sim-supply: output confirmed off$/);
+    // Nobody could switch the load off: it is still on, as the alarm says.
+    expect(sim.load.outputOn).toBe(true);
+    expect(sim.supply.outputOn).toBe(false);
     const [alarm] = await eventually(async () => {
       const found = await failedAlarms(runId);
       expect(found).toHaveLength(1);
       return found;
     });
     expect(alarm!.priority).toBe('critical');
-    expect(alarm!.message).toMatch(/^Programme failed at step 1 .*could not be reached.*Not every output could be confirmed off: check the bench by hand\.$/);
+    expect(alarm!.message).toBe(`Programme failed at step 1 (${programme.stepLabels[0]}): ${programme.failReason}. Not every output could be confirmed off: check the bench by hand.`);
   });
 });
