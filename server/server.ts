@@ -35,7 +35,8 @@ export type Attachment = (httpServer: Server, ctx: AppContext) => Promise<Detach
  * bench manager, the recording and the alarms from the composition roots in server/compose;
  * instruments, programmes, Web Push and scheduled backups.
  */
-export const ATTACHMENTS: Attachment[] = [mqttAttachment(), attachBenchManager, attachRecording, attachInstruments, attachProgrammes, attachAlarms, attachPush, backupAttachment()];
+// Alarms before programmes: a programme stranded by the last stop fails at start-up, and its alarm must be raised.
+export const ATTACHMENTS: Attachment[] = [mqttAttachment(), attachBenchManager, attachRecording, attachInstruments, attachAlarms, attachProgrammes, attachPush, backupAttachment()];
 
 /** How to start; everything is optional (defaults: environment config, provisioned MariaDB). */
 export interface StartServerOptions {

@@ -12,6 +12,9 @@ describe('alarm rules', () => {
     // A programme failing safe calls a person; its other step changes do not.
     expect(alarmActionFor({ type: 'programme-step', elapsedSeconds: 5, phase: 'fail', index: 2, label: 'Discharge 20 A to 11.2 V', reason: 'meter silent for 2 s' }))
       .toEqual({ type: 'raise', kind: 'programme-failed', message: 'Programme failed safe at step 3 (Discharge 20 A to 11.2 V): meter silent for 2 s. Outputs switched off.' });
+    // An output that could not be confirmed off must not be reported as switched off: a person checks the bench.
+    expect(alarmActionFor({ type: 'programme-step', elapsedSeconds: 5, phase: 'fail', index: 0, label: 'Charge', reason: 'the server stopped while the programme ran', outputsConfirmedOff: false }))
+      .toEqual({ type: 'raise', kind: 'programme-failed', message: 'Programme failed at step 1 (Charge): the server stopped while the programme ran. Not every output could be confirmed off: check the bench by hand.' });
     expect(alarmActionFor({ type: 'programme-step', elapsedSeconds: 5, phase: 'end', index: 2, label: 'Discharge' })).toBeNull();
     expect(alarmActionFor({ type: 'programme-step', elapsedSeconds: 5, phase: 'abort', index: 2, label: 'Discharge', reason: 'aborted by a technician' })).toBeNull();
     // A reconnect after a cutoff clears nothing: the cutoff alarm latches until acknowledged.

@@ -43,10 +43,13 @@ export function alarmActionFor(event: RunEvent): AlarmAction | null {
       return event.milestone === 'near-end-voltage' ? { type: 'raise', kind: 'near-end', message: `Near the end voltage: ${event.volts.toFixed(3)} V` } : null;
     case 'source-restored':
       return { type: 'clear', kind: 'source-lost' };
-    case 'programme-step':
-      return event.phase === 'fail'
-        ? { type: 'raise', kind: 'programme-failed', message: `Programme failed safe at step ${event.index + 1}${event.label ? ` (${event.label})` : ''}: ${event.reason ?? 'reason not given'}. Outputs switched off.` }
-        : null;
+    case 'programme-step': {
+      if (event.phase !== 'fail') return null;
+      const where = `step ${event.index + 1}${event.label ? ` (${event.label})` : ''}: ${event.reason ?? 'reason not given'}`;
+      return event.outputsConfirmedOff === false
+        ? { type: 'raise', kind: 'programme-failed', message: `Programme failed at ${where}. Not every output could be confirmed off: check the bench by hand.` }
+        : { type: 'raise', kind: 'programme-failed', message: `Programme failed safe at ${where}. Outputs switched off.` };
+    }
     default:
       return null;
   }

@@ -7,6 +7,11 @@ import type { BenchInstruments } from './step-actions.js';
  */
 export interface BenchInstrumentsProvider {
   forBench(benchId: number): Promise<BenchInstruments | null>;
+  /**
+   * Each instrument opened on its own (to switch a bench off after a stop): those that open come
+   * back, each that does not is named with its problem. Never rejects for an instrument.
+   */
+  forBenchEach?(benchId: number): Promise<{ instruments: BenchInstruments; unreachable: Array<{ id: string; problem: string }> }>;
   /** Closes what is open for a bench (its settings changed). */
   forget?(benchId: number): Promise<void>;
   /** Closes everything (server close). */

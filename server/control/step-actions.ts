@@ -59,13 +59,51 @@ export async function applyStep(step: SimpleStep, instruments: BenchInstruments,
   await checkErrors(instrument);
 }
 
-/** Switches every output off, each instrument on its own, so one that fails does not keep the other on; returns the failures in words. */
-export async function allOutputsOff(instruments: BenchInstruments, on: OutputsOn): Promise<string[]> {
+/** What one instrument said when told to switch its output off. */
+export interface OutputOffCheck {
+  id: string;
+  /** True only when the instrument read back its output off after the command. */
+  confirmedOff: boolean;
+  /** In words, starting with the instrument's id. */
+  detail: string;
+}
+
+/** Sends output off to each instrument on its own, so one that fails does not keep the other on; the error of each, or null. */
+async function switchEachOff(instruments: BenchInstruments, on: OutputsOn): Promise<Array<{ instrument: InstrumentControl; error: unknown }>> {
   on.load = false;
   on.supply = false;
   const list = [instruments.load, instruments.supply].filter((i): i is InstrumentControl => i !== undefined);
   const settled = await Promise.allSettled(list.map((i) => i.setOutput(false)));
-  return settled.flatMap((s, k) => (s.status === 'rejected' ? [`${list[k]!.id}: output off not confirmed (${reasonOf(s.reason)})`] : []));
+  return settled.map((s, k) => ({ instrument: list[k]!, error: s.status === 'rejected' ? (s.reason ?? 'rejected') : null }));
+}
+
+const notConfirmed = (id: string, error: unknown) => `${id}: output off not confirmed (${reasonOf(error)})`;
+
+/** Switches every output off, each instrument on its own, so one that fails does not keep the other on; returns the failures in words. */
+export async function allOutputsOff(instruments: BenchInstruments, on: OutputsOn): Promise<string[]> {
+  const sent = await switchEachOff(instruments, on);
+  return sent.flatMap(({ instrument, error }) => (error === null ? [] : [notConfirmed(instrument.id, error)]));
+}
+
+/**
+ * Switches every output off as {@link allOutputsOff} does, then reads each instrument back:
+ * an output counts as off only when the instrument itself says so (a command written to a
+ * port nobody answers on proves nothing). Never throws; each call has the driver's timeout.
+ */
+export async function outputsOffChecked(instruments: BenchInstruments): Promise<OutputOffCheck[]> {
+  const sent = await switchEachOff(instruments, { load: false, supply: false });
+  return Promise.all(
+    sent.map(async ({ instrument, error }): Promise<OutputOffCheck> => {
+      const { id } = instrument;
+      if (error !== null) return { id, confirmedOff: false, detail: notConfirmed(id, error) };
+      try {
+        const back = await instrument.read();
+        return back.outputOn ? { id, confirmedOff: false, detail: `${id}: still reads its output on` } : { id, confirmedOff: true, detail: `${id}: output confirmed off` };
+      } catch (readError) {
+        return { id, confirmedOff: false, detail: notConfirmed(id, readError) };
+      }
+    }),
+  );
 }
 
 /** Words for a failure: an instrument's reason, or the error's message. */

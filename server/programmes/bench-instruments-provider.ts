@@ -1,7 +1,8 @@
 import type { BenchInstrumentsProvider } from '../control/bench-instruments.js';
-import type { InstrumentControl } from '../control/instrument-control.js';
+import { InstrumentFault, type InstrumentControl } from '../control/instrument-control.js';
+import type { InstrumentDriverInput } from '../../shared/schemas/instrument-driver.js';
 import { openInstrument } from '../control/open-instrument.js';
-import type { BenchInstruments } from '../control/step-actions.js';
+import { reasonOf, type BenchInstruments } from '../control/step-actions.js';
 import type { BenchInstrumentsRepo } from './bench-instruments-repo.js';
 
 /**
@@ -24,6 +25,33 @@ export class StoredBenchInstruments implements BenchInstrumentsProvider {
     }
     const instruments = await opening;
     return instruments.load || instruments.supply ? instruments : null;
+  }
+
+  /**
+   * Each of the bench's instruments opened on its own, so one that is missing does not keep the
+   * other from being switched off. When all open they are kept as forBench keeps them; when one
+   * is missing the caller must `forget` the bench afterwards, so the next programme opens both again.
+   */
+  async forBenchEach(benchId: number): Promise<{ instruments: BenchInstruments; unreachable: Array<{ id: string; problem: string }> }> {
+    const cached = this.open.get(benchId);
+    if (cached) {
+      const instruments = await cached.catch(() => null);
+      if (instruments) return { instruments, unreachable: [] };
+    }
+    const config = await this.repo.get(benchId);
+    const unreachable: Array<{ id: string; problem: string }> = [];
+    const openOne = async (driver: InstrumentDriverInput | null | undefined) => {
+      if (!driver) return undefined;
+      try {
+        return await openInstrument(driver);
+      } catch (error) {
+        unreachable.push({ id: driver.id, problem: error instanceof InstrumentFault ? error.reason : reasonOf(error) });
+        return undefined;
+      }
+    };
+    const instruments: BenchInstruments = { load: await openOne(config.load), supply: await openOne(config.supply) };
+    this.open.set(benchId, Promise.resolve(instruments));
+    return { instruments, unreachable };
   }
 
   /** Closes a bench's instruments (its settings changed). */

@@ -16,6 +16,7 @@ import { RunsRepo } from '../runs/runs-repo.js';
 import { recorderOf } from '../runs/runs-services.js';
 import { ProgrammesRepo } from './programmes-repo.js';
 import { RunProgrammesRepo } from './run-programmes-repo.js';
+import { strandedFailEvent, switchOffStranded } from './stranded-programme.js';
 
 declare module '../app-context.js' {
   interface AppServices {
@@ -56,12 +57,39 @@ export class ProgrammeRunner {
     this.runs = new RunsRepo(ctx.sequelize);
   }
 
-  /** Marks programmes that were running when the server stopped as failed: their instruments' watchdogs turned the outputs off. */
+  /**
+   * Programmes that were running when the server stopped: many loads and supplies have no
+   * watchdog of their own, so their outputs are switched off now (best effort, each read back),
+   * the programme is marked failed, and a `fail` step event goes on the run's timeline through
+   * the recorder, from which the alarm sink raises the critical programme-failed alarm. An
+   * instrument that cannot be reached is named in the reason; nothing here throws out of start-up.
+   */
   async failStranded(): Promise<void> {
-    for (const runId of await this.runProgrammes.unfinished()) {
-      if (this.active.has(runId)) continue;
-      await this.runProgrammes.fail(runId, 'the server stopped while the programme ran (instrument watchdogs switch outputs off)');
+    let unfinished: number[];
+    try {
+      unfinished = await this.runProgrammes.unfinished();
+    } catch (error) {
+      return this.ctx.log.error('Programmes stranded by the last stop could not be read', error);
     }
+    for (const runId of unfinished) {
+      if (this.active.has(runId)) continue;
+      await this.failOneStranded(runId).catch((error) => this.ctx.log.error(`run ${runId}: stranded programme not failed cleanly`, error));
+    }
+  }
+
+  private async failOneStranded(runId: number): Promise<void> {
+    const run = await this.runs.get(runId);
+    const stored = await this.runProgrammes.get(runId, this.clock.nowMs());
+    const outcome = await switchOffStranded(this.ctx.services.benchInstruments, run?.benchId ?? null);
+    this.ctx.log.warn(`run ${runId}: programme failed, ${outcome.reason}`);
+    const recorder = this.ctx.services.runRecorder;
+    // The event first: should the server stop again before the status is written, the next start
+    // records it again (the alarm service raises no second open alarm) rather than never at all.
+    if (recorder) {
+      const atSeconds = recorder.session(runId)?.lastElapsedSeconds ?? run?.summary?.durationSeconds ?? 0;
+      await recorder.addStoredEvent(runId, strandedFailEvent(stored, atSeconds, outcome), null);
+    } else this.ctx.log.warn(`run ${runId}: live recording is not running here, so the failed programme raises no alarm`);
+    await this.runProgrammes.fail(runId, outcome.reason);
   }
 
   /** Starts programme `programmeId` on live run `runId` (400 unsafe for the run's pack, 409 not possible now). */

@@ -103,4 +103,5 @@ export const PROGRAMME_CAUTIONS: readonly string[] = [
   'Fuse the pack close to its terminals for the highest current of the programme, and size every cable and connector for that current.',
   'Lithium packs can burn and lead-acid batteries give off hydrogen while charging: test in a ventilated place away from anything that burns, with the means to deal with a battery fire at hand.',
   'Follow local codes, the makers\u2019 instructions for the pack, the load and the charger, and licensed practice where the work needs it.',
+  'A load or charger without a watchdog of its own can stay on while the server is down: the server switches it off only when it starts again, and an instrument it cannot reach stays as it was.',
 ];

@@ -194,6 +194,8 @@ export const ProgrammeStepEventSchema = z.object({
   index: z.number().int().nonnegative(),
   label: z.string().max(200),
   reason: z.string().max(500).optional(),
+  /** On a fail: false when not every output could be confirmed off (a person must check the bench). */
+  outputsConfirmedOff: z.boolean().optional(),
 });
 
 /** One event on a run's timeline. Discriminated on `type`. */

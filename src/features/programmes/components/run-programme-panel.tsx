@@ -102,7 +102,7 @@ export function RunProgrammePanel({ runId, canAct, live }: { runId: number; canA
       {canAct && going && <Controls runId={runId} p={p} />}
       <p className="text-xs text-ink-muted">
         The server switches every output off at {formatVolts(p.floorVolts, 2)}, over temperature, when the meter goes silent and on abort.
-        {p.watchdogArmed.length > 0 ? ` Instrument watchdog armed on ${p.watchdogArmed.join(', ')}.` : ' No instrument watchdog: the instruments on this bench have none.'} Cautions acknowledged by{' '}
+        {p.watchdogArmed.length > 0 ? ` Instrument watchdog armed on ${p.watchdogArmed.join(', ')}.` : ' No instrument watchdog: the instruments on this bench have none, so an output can stay on while the server is down (it is switched off when the server starts again).'} Cautions acknowledged by{' '}
         {p.cautionsAcknowledgedBy}.
       </p>
       <StepResultsTable results={p.results} roundTrips={p.roundTrips} labels={p.stepLabels} />
