@@ -6,8 +6,8 @@ import { queryKeys } from '../../../lib/queries/query-keys';
 export function useAddRunNote(runId: number) {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: ({ text, t }: { text: string; t?: number }) =>
-      api(`/api/runs/${runId}/events`, { method: 'POST', body: t === undefined ? { text } : { text, t } }),
+    mutationFn: ({ text, elapsedSeconds }: { text: string; elapsedSeconds?: number }) =>
+      api(`/api/runs/${runId}/events`, { method: 'POST', body: elapsedSeconds === undefined ? { text } : { text, elapsedSeconds } }),
     onSuccess: () => queryClient.invalidateQueries({ queryKey: queryKeys.runs.events(runId) }),
   });
 }

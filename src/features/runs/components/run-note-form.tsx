@@ -36,7 +36,7 @@ export function RunNoteForm({ runId, durationSeconds = null }: { runId: number; 
     const problem = noteTimeProblem(t, durationSeconds);
     if (problem) return setError(problem);
     setError(null);
-    add.mutate({ text: text.trim(), t }, { onSuccess: () => { setText(''); setAt(''); } });
+    add.mutate({ text: text.trim(), elapsedSeconds: t }, { onSuccess: () => { setText(''); setAt(''); } });
   };
   const message = error ?? (add.error instanceof Error ? add.error.message : null);
   return (
