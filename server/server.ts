@@ -32,8 +32,9 @@ export type Attachment = (httpServer: Server, ctx: AppContext) => Promise<Detach
 
 /**
  * What runs before listen, in this order (detached in reverse on close): the MQTT link; the
- * bench manager, the recording and the alarms from the composition roots in server/compose;
- * instruments, programmes, Web Push and scheduled backups.
+ * bench manager and the recording (composition roots in server/compose); instruments; the
+ * alarms (server/compose), before programmes so that a programme stranded by a stop raises
+ * its alarm at start; programmes, Web Push and scheduled backups.
  */
 // Alarms before programmes: a programme stranded by the last stop fails at start-up, and its alarm must be raised.
 export const ATTACHMENTS: Attachment[] = [mqttAttachment(), attachBenchManager, attachRecording, attachInstruments, attachAlarms, attachProgrammes, attachPush, backupAttachment()];

@@ -116,6 +116,19 @@ describe('cutoff alarm', () => {
     expect(sound.stop).toHaveBeenCalled();
   });
 
+  it('sounds when a test programme fails safe, and says why', () => {
+    const { store, sound } = setup();
+    const reason = 'the server stopped while the programme ran; at restart load: could not be reached, output not confirmed off';
+    act(() => store.handle({ type: 'event', topic, eventId: 43, event: { type: 'programme-step', elapsedSeconds: 900, phase: 'fail', index: 1, label: 'Discharge', reason, outputsConfirmedOff: false } }));
+    const banner = screen.getByRole('alert');
+    expect(banner.textContent).toContain('ALARM · Bench 2');
+    expect(banner.textContent).toContain('output not confirmed off');
+    expect(sound.start).toHaveBeenCalledTimes(1);
+    // A step that simply ends is not an alarm.
+    act(() => store.handle({ type: 'event', topic, eventId: 44, event: { type: 'programme-step', elapsedSeconds: 950, phase: 'end', index: 2, label: 'Rest' } }));
+    expect(sound.start).toHaveBeenCalledTimes(1);
+  });
+
   it('keeps saying CUTOFF when the server follows the cutoff with a critical alarm', () => {
     const { store } = setup();
     act(() => store.handle(cutoff));

@@ -6,15 +6,18 @@ import { safeSession } from '../../lib/safe-storage';
 
 const ACK_KEY_PREFIX = 'kneepoint.alarm-ack.';
 
-/** The events that make the room loud: a cutoff, or any critical alarm. */
+/**
+ * The events that make the room loud: a cutoff, any critical alarm, or a test programme that
+ * failed safe (its load and supply switched off, or not confirmed off: someone must look).
+ */
 export function isAlarmEvent(e: RunEvent): boolean {
-  return e.type === 'cutoff' || (e.type === 'alarm' && e.level === 'critical');
+  return e.type === 'cutoff' || (e.type === 'alarm' && e.level === 'critical') || (e.type === 'programme-step' && e.phase === 'fail');
 }
 
 const keyOf = (runId: number, e: RunEvent) => `${runId}:${e.type}:${e.elapsedSeconds}`;
 
 /** Alarm kinds whose acknowledgement (by anyone, anywhere) quiets the banner. */
-const BANNER_KINDS = new Set(['cutoff', 'protection-trip', 'over-temperature']);
+const BANNER_KINDS = new Set(['cutoff', 'protection-trip', 'over-temperature', 'programme-failed']);
 
 /** Run time of the latest server acknowledgement of a banner alarm, or -Infinity. */
 export function lastAcknowledgedT(events: readonly RunEvent[]): number {
