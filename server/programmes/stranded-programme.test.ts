@@ -40,6 +40,6 @@ describe('a programme stranded by a server stop', () => {
   it('the fail event names the step that was running and whether the outputs were confirmed off', () => {
     const stored = { currentIndex: 1, stepLabels: ['Charge to 14.4 V', 'Discharge 5 A to 11.6 V'] } as Parameters<typeof strandedFailEvent>[0];
     expect(strandedFailEvent(stored, 812.5, { confirmedOff: false, reason: 'r' }))
-      .toEqual({ type: 'programme-step', t: 812.5, phase: 'fail', index: 1, label: 'Discharge 5 A to 11.6 V', reason: 'r', outputsConfirmedOff: false });
+      .toEqual({ type: 'programme-step', elapsedSeconds: 812.5, phase: 'fail', index: 1, label: 'Discharge 5 A to 11.6 V', reason: 'r', outputsConfirmedOff: false });
   });
 });
