@@ -134,7 +134,7 @@ describe('backup and restore', () => {
       const runId = (await tech.post('/api/runs/import').field('name', 'Before the rename').field('batteryId', String(battery.id)).attach('file', NASA_CSV).expect(201)).body.run.id as number;
       const before = await snapshot(s.url);
       const readingsBefore = (await tech.get(`/api/runs/${runId}/readings?maxPoints=1000`).expect(200)).body;
-      expect(readingsBefore.t).toHaveLength(197);
+      expect(readingsBefore.x).toHaveLength(197);
 
       // Back to the storage as it was before 1780: the old table and columns, and blocks that
       // name their run time column `elapsed`, as the archive wrote them then.
