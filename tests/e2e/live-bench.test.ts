@@ -96,6 +96,10 @@ describe('live bench page (live stream played by a /ws peer that speaks shared/s
     await page.getByTestId('big-volts').filter({ hasText: /^\d/ }).waitFor();
     await banner.waitFor();
     await page.setViewportSize({ width: 1440, height: 900 });
+    // The resize redraws the page; on a busy machine a key pressed before the redraw settles
+    // can land while the shortcut is being attached again. Wait two frames, then press.
+    await banner.getByRole('button', { name: 'Acknowledge (A)' }).waitFor();
+    await page.evaluate(`new Promise((resolve) => requestAnimationFrame(() => requestAnimationFrame(resolve)))`);
     await page.keyboard.press('a');
     await banner.waitFor({ state: 'detached' });
 

@@ -37,7 +37,8 @@ describe('each demo role signs in and sees what it may do', () => {
     const page = await browser.context.newPage();
     await page.goto(`${t.url}/runs`);
     await page.waitForURL(/\/sign-in\?next=%2Fruns$/);
-    expect(await page.getByRole('heading', { name: 'Sign in' }).isVisible()).toBe(true);
+    // The address changes before the sign-in page has drawn: wait for its heading.
+    await page.getByRole('heading', { name: 'Sign in' }).waitFor();
     await page.close();
   });
 
