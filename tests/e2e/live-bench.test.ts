@@ -83,11 +83,13 @@ describe('live bench page (live stream played by a /ws peer that speaks shared/s
     await page.screenshot({ path: `${SCREENSHOT_DIR}/live-bench-phone.png` });
     // Nothing runs off the side of the phone, on the bench page or in the room view.
     const overflowPx = `document.documentElement.scrollWidth - window.innerWidth`;
-    expect(await page.evaluate(overflowPx)).toBe(0);
+    // The chart takes the new width on its resize observer, a frame or more after the resize.
+    await expect.poll(() => page.evaluate(overflowPx), { timeout: 10_000 }).toBe(0);
     await page.keyboard.press('f');
     await page.getByTestId('room-state').waitFor();
     await page.getByTestId('big-volts').filter({ hasText: /^\d/ }).waitFor();
-    expect(await page.evaluate(overflowPx)).toBe(0);
+    // The chart takes the new width on its resize observer, a frame or more after the resize.
+    await expect.poll(() => page.evaluate(overflowPx), { timeout: 10_000 }).toBe(0);
     await page.screenshot({ path: `${SCREENSHOT_DIR}/room-view-phone.png` });
     await page.keyboard.press('Escape');
     await page.waitForURL(new RegExp(`/benches/${benchA.id}$`));
